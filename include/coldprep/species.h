@@ -1,0 +1,93 @@
+/*
+ * coldprep — built-in species data: atoms, ground-state bialkali molecules and the
+ * interspecies Feshbach resonances used to associate them.
+ *
+ * All records are static, read-only data owned by the library; the pointers returned
+ * stay valid for the life of the process.  Every record carries its published source;
+ * values recalled from memory rather than checked against the source say so in `source`
+ * and have `verified` = 0.  Users add their own species from Lua (the Lua layer keeps
+ * those; this module never changes at run time).
+ */
+#ifndef COLDPREP_SPECIES_H
+#define COLDPREP_SPECIES_H
+
+#include <stddef.h>
+
+#include "coldprep/status.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef enum cp_statistics { CP_BOSON = 0, CP_FERMION = 1 } cp_statistics;
+
+typedef struct cp_atom {
+    const char *name;     /* canonical name, mass number first: "87Rb" */
+    const char *symbol;   /* element symbol: "Rb" */
+    int protons;          /* Z */
+    int mass_number;      /* A */
+    double mass_u;        /* atomic mass in unified atomic mass units (AME2020) */
+    double nuclear_spin;  /* I */
+    const char *source;
+} cp_atom;
+
+typedef struct cp_molecule {
+    const char *name;        /* canonical name: "40K87Rb" */
+    const char *atom_a;      /* canonical atom names */
+    const char *atom_b;
+    double dipole_debye;     /* permanent dipole moment of X1Sigma+ v=0, debye */
+    double rot_const_hz;     /* rotational constant B, Hz (B/h) */
+    double c6_au;            /* isotropic molecule-molecule C6 in J=0, atomic units */
+    int reactive;            /* 1 if 2AB -> A2 + B2 is exothermic */
+    const char *source;
+} cp_molecule;
+
+typedef struct cp_resonance {
+    const char *molecule;    /* canonical molecule name the pair associates into */
+    const char *states;      /* the atomic hyperfine states of the entrance channel */
+    double b0;               /* resonance position, T */
+    double width;            /* Delta, T (sign as in a(B) = abg (1 - Delta/(B - B0))) */
+    double abg;              /* background scattering length, m */
+    double dmu;              /* differential magnetic moment of the closed channel, J/T */
+    int verified;            /* 0: from memory, verify against the source before use */
+    const char *source;
+} cp_resonance;
+
+/* Look up an atom by name ("87Rb", "Rb87", case-insensitive).  On CP_ENOTFOUND the
+ * error message lists the closest known names. */
+cp_status cp_species_atom(const char *name, const cp_atom **atom, cp_error *err);
+
+/* Look up a molecule by name ("40K87Rb", "K40Rb87", "KRb", "RbK"). */
+cp_status cp_species_molecule(const char *name, const cp_molecule **molecule, cp_error *err);
+
+/* The index-th (0-based) resonance listed for a molecule. */
+cp_status cp_species_resonance(const char *molecule, int index, const cp_resonance **resonance,
+                               cp_error *err);
+
+/* Number of resonances listed for a molecule (0 when none; CP_ENOTFOUND for an unknown
+ * molecule). */
+cp_status cp_species_resonance_count(const char *molecule, int *count, cp_error *err);
+
+/* Iteration over the tables: count and i-th record (NULL when out of range). */
+size_t cp_species_atom_count(void);
+const cp_atom *cp_species_atom_at(size_t i);
+size_t cp_species_molecule_count(void);
+const cp_molecule *cp_species_molecule_at(size_t i);
+
+/* Derived facts. */
+double cp_atom_mass(const cp_atom *atom);                    /* kg */
+cp_statistics cp_atom_statistics(const cp_atom *atom);       /* from the neutron number */
+cp_status cp_molecule_atoms(const cp_molecule *molecule, const cp_atom **a, const cp_atom **b,
+                            cp_error *err);
+double cp_molecule_mass(const cp_molecule *molecule);        /* kg, sum of the atoms */
+cp_statistics cp_molecule_statistics(const cp_molecule *molecule);
+double cp_reduced_mass(double mass_a, double mass_b);        /* kg */
+
+/* Write up to `count` names closest to `name` (edit distance) into buf as
+ * "a, b, c".  Used for "did you mean" messages. */
+void cp_species_suggest(const char *name, char *buf, size_t size, int count);
+
+#ifdef __cplusplus
+}
+#endif
+#endif

@@ -1,0 +1,261 @@
+/*
+ * The named-argument readers shared by every binding (see args.h).  Errors are raised
+ * with the function name first so a user sees at once which call was wrong.
+ */
+#include "args.h"
+
+#include <math.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <string.h>
+
+int cpl_error(lua_State *L, const char *fname, const char *fmt, ...)
+{
+    char msg[512];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    return luaL_error(L, "%s: %s", fname, msg);
+}
+
+int cpl_raise(lua_State *L, const cp_error *err)
+{
+    return luaL_error(L, "%s", err->message);
+}
+
+static size_t edit_distance(const char *s, const char *t)
+{
+    enum { MAXLEN = 64 };
+    size_t ls = strlen(s), lt = strlen(t);
+    if (ls >= MAXLEN || lt >= MAXLEN)
+        return (size_t)-1;
+    size_t row[MAXLEN + 1];
+    for (size_t j = 0; j <= lt; j++)
+        row[j] = j;
+    for (size_t i = 1; i <= ls; i++) {
+        size_t diag = row[0];
+        row[0] = i;
+        for (size_t j = 1; j <= lt; j++) {
+            size_t up = row[j], best = diag + (s[i - 1] != t[j - 1]);
+            if (up + 1 < best)
+                best = up + 1;
+            if (row[j - 1] + 1 < best)
+                best = row[j - 1] + 1;
+            row[j] = best;
+            diag = up;
+        }
+    }
+    return row[lt];
+}
+
+void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const known[])
+{
+    arg = lua_absindex(L, arg);
+    if (!lua_istable(L, arg))
+        cpl_error(L, fname, "expects one table of named arguments, got %s (call it as %s{...})",
+                  luaL_typename(L, arg), fname);
+    lua_pushnil(L);
+    while (lua_next(L, arg)) {
+        lua_pop(L, 1);
+        if (lua_type(L, -1) != LUA_TSTRING)
+            cpl_error(L, fname, "argument keys must be names, got a %s key",
+                      luaL_typename(L, -1));
+        const char *key = lua_tostring(L, -1);
+        const char *best = NULL;
+        size_t best_d = (size_t)-1;
+        int found = 0;
+        for (int i = 0; known[i]; i++) {
+            if (strcmp(key, known[i]) == 0) {
+                found = 1;
+                break;
+            }
+            size_t d = edit_distance(key, known[i]);
+            if (d < best_d) {
+                best_d = d;
+                best = known[i];
+            }
+        }
+        if (!found) {
+            if (best)
+                cpl_error(L, fname, "unknown argument '%s' (did you mean '%s'?)", key, best);
+            cpl_error(L, fname, "unknown argument '%s' (this function takes no arguments)",
+                      key);
+        }
+    }
+}
+
+int cpl_has(lua_State *L, int arg, const char *key)
+{
+    int t = lua_getfield(L, arg, key);
+    lua_pop(L, 1);
+    return t != LUA_TNIL;
+}
+
+static double to_finite(lua_State *L, const char *fname, const char *key, const char *unit)
+{
+    const char *u = (unit && unit[0]) ? unit : "dimensionless";
+    if (!lua_isnumber(L, -1) || lua_type(L, -1) == LUA_TSTRING)
+        cpl_error(L, fname, "argument '%s' must be a number (%s), got %s", key, u,
+                  luaL_typename(L, -1));
+    double v = lua_tonumber(L, -1);
+    if (!isfinite(v))
+        cpl_error(L, fname, "argument '%s' must be a finite number (%s), got %g", key, u, v);
+    return v;
+}
+
+double cpl_number(lua_State *L, int arg, const char *fname, const char *key, const char *unit)
+{
+    if (lua_getfield(L, arg, key) == LUA_TNIL)
+        cpl_error(L, fname, "missing argument '%s' (%s)", key,
+                  (unit && unit[0]) ? unit : "dimensionless");
+    double v = to_finite(L, fname, key, unit);
+    lua_pop(L, 1);
+    return v;
+}
+
+double cpl_opt_number(lua_State *L, int arg, const char *fname, const char *key,
+                      const char *unit, double dflt)
+{
+    if (lua_getfield(L, arg, key) == LUA_TNIL) {
+        lua_pop(L, 1);
+        return dflt;
+    }
+    double v = to_finite(L, fname, key, unit);
+    lua_pop(L, 1);
+    return v;
+}
+
+long cpl_opt_integer(lua_State *L, int arg, const char *fname, const char *key, long dflt,
+                     long lo, long hi)
+{
+    if (lua_getfield(L, arg, key) == LUA_TNIL) {
+        lua_pop(L, 1);
+        return dflt;
+    }
+    int isint = 0;
+    lua_Integer v = lua_tointegerx(L, -1, &isint);
+    if (!isint || lua_type(L, -1) != LUA_TNUMBER)
+        cpl_error(L, fname, "argument '%s' must be an integer in [%ld, %ld], got %s", key, lo,
+                  hi, luaL_tolstring(L, -1, NULL));
+    if (v < lo || v > hi)
+        cpl_error(L, fname, "argument '%s' = %lld is out of range; allowed [%ld, %ld]", key,
+                  (long long)v, lo, hi);
+    lua_pop(L, 1);
+    return (long)v;
+}
+
+int cpl_opt_boolean(lua_State *L, int arg, const char *fname, const char *key, int dflt)
+{
+    int t = lua_getfield(L, arg, key);
+    if (t == LUA_TNIL) {
+        lua_pop(L, 1);
+        return dflt;
+    }
+    if (t != LUA_TBOOLEAN)
+        cpl_error(L, fname, "argument '%s' must be true or false, got %s", key,
+                  luaL_typename(L, -1));
+    int v = lua_toboolean(L, -1);
+    lua_pop(L, 1);
+    return v;
+}
+
+const char *cpl_opt_string(lua_State *L, int arg, const char *fname, const char *key,
+                           const char *dflt)
+{
+    int t = lua_getfield(L, arg, key);
+    if (t == LUA_TNIL) {
+        lua_pop(L, 1);
+        return dflt;
+    }
+    if (t != LUA_TSTRING)
+        cpl_error(L, fname, "argument '%s' must be a string, got %s", key, luaL_typename(L, -1));
+    const char *s = lua_tostring(L, -1);
+    lua_pop(L, 1); /* the string stays alive: the table still references it */
+    return s;
+}
+
+int cpl_option(lua_State *L, int arg, const char *fname, const char *key,
+               const char *const options[], const char *dflt)
+{
+    const char *s = cpl_opt_string(L, arg, fname, key, dflt);
+    if (s) {
+        for (int i = 0; options[i]; i++)
+            if (strcmp(s, options[i]) == 0)
+                return i;
+    }
+    luaL_Buffer b;
+    luaL_buffinit(L, &b);
+    for (int i = 0; options[i]; i++) {
+        if (i)
+            luaL_addstring(&b, ", ");
+        luaL_addchar(&b, '"');
+        luaL_addstring(&b, options[i]);
+        luaL_addchar(&b, '"');
+    }
+    luaL_pushresult(&b);
+    if (!s)
+        return cpl_error(L, fname, "missing argument '%s'; allowed %s", key,
+                         lua_tostring(L, -1));
+    return cpl_error(L, fname, "argument '%s' = \"%s\" is not one of %s", key, s,
+                     lua_tostring(L, -1));
+}
+
+double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *key,
+                         const char *unit, size_t min_len, size_t *n)
+{
+    arg = lua_absindex(L, arg);
+    if (lua_getfield(L, arg, key) != LUA_TTABLE)
+        cpl_error(L, fname, "argument '%s' must be an array of numbers (%s), got %s", key,
+                  (unit && unit[0]) ? unit : "dimensionless", luaL_typename(L, -1));
+    lua_Integer len = luaL_len(L, -1);
+    if (len < (lua_Integer)min_len)
+        cpl_error(L, fname, "argument '%s' has %lld values; at least %zu are needed", key,
+                  (long long)len, min_len);
+    double *v = lua_newuserdatauv(L, (size_t)(len > 0 ? len : 1) * sizeof *v, 0);
+    for (lua_Integer i = 1; i <= len; i++) {
+        lua_geti(L, -2, i);
+        if (lua_type(L, -1) != LUA_TNUMBER || !isfinite(lua_tonumber(L, -1)))
+            cpl_error(L, fname, "argument '%s'[%lld] must be a finite number (%s), got %s", key,
+                      (long long)i, (unit && unit[0]) ? unit : "dimensionless",
+                      luaL_tolstring(L, -1, NULL));
+        v[i - 1] = lua_tonumber(L, -1);
+        lua_pop(L, 1);
+    }
+    lua_remove(L, -2); /* the source table; the userdata stays on top */
+    *n = (size_t)len;
+    return v;
+}
+
+void cpl_set_number(lua_State *L, const char *key, double value)
+{
+    lua_pushnumber(L, value);
+    lua_setfield(L, -2, key);
+}
+
+void cpl_set_string(lua_State *L, const char *key, const char *value)
+{
+    lua_pushstring(L, value);
+    lua_setfield(L, -2, key);
+}
+
+void cpl_set_boolean(lua_State *L, const char *key, int value)
+{
+    lua_pushboolean(L, value);
+    lua_setfield(L, -2, key);
+}
+
+void cpl_set_integer(lua_State *L, const char *key, lua_Integer value)
+{
+    lua_pushinteger(L, value);
+    lua_setfield(L, -2, key);
+}
+
+void cpl_push_array(lua_State *L, const double *values, size_t n)
+{
+    lua_createtable(L, (int)n, 0);
+    for (size_t i = 0; i < n; i++) {
+        lua_pushnumber(L, values[i]);
+        lua_rawseti(L, -2, (lua_Integer)i + 1);
+    }
+}

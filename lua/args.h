@@ -1,0 +1,68 @@
+/*
+ * Reading one table of named arguments, the calling convention of every coldprep Lua
+ * function.  Each reader raises a Lua error that names the function, the key, the value,
+ * its unit and what is allowed, in the spirit of luaL_check*:
+ *   "lattice.depth: argument 'waist' must be a finite number (m), got nan".
+ * Range checks beyond "finite number" are left to the core functions, whose cp_error
+ * messages are raised unchanged by cpl_raise.  Arrays are returned in memory owned by a
+ * userdata pushed on the Lua stack, so nothing leaks when an error long-jumps.
+ */
+#ifndef COLDPREP_ARGS_H
+#define COLDPREP_ARGS_H
+
+#include <lauxlib.h>
+#include <lua.h>
+#include <stddef.h>
+
+#include "coldprep/status.h"
+
+/* Check that argument `arg` is a table whose keys are all in `known` (NULL-terminated);
+ * an unknown key is an error suggesting the closest known key. */
+void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const known[]);
+
+/* Required finite number. */
+double cpl_number(lua_State *L, int arg, const char *fname, const char *key, const char *unit);
+
+/* Optional finite number (dflt when absent or nil). */
+double cpl_opt_number(lua_State *L, int arg, const char *fname, const char *key,
+                      const char *unit, double dflt);
+
+/* 1 if the key is present and not nil. */
+int cpl_has(lua_State *L, int arg, const char *key);
+
+/* Optional integer in [lo, hi]. */
+long cpl_opt_integer(lua_State *L, int arg, const char *fname, const char *key, long dflt,
+                     long lo, long hi);
+
+/* Optional boolean. */
+int cpl_opt_boolean(lua_State *L, int arg, const char *fname, const char *key, int dflt);
+
+/* Optional string (dflt when absent); the result is valid while the table is on the stack. */
+const char *cpl_opt_string(lua_State *L, int arg, const char *fname, const char *key,
+                           const char *dflt);
+
+/* String that must be one of `options` (NULL-terminated); returns its index. */
+int cpl_option(lua_State *L, int arg, const char *fname, const char *key,
+               const char *const options[], const char *dflt);
+
+/* An array of finite numbers under `key` (a Lua sequence).  The values live in a userdata
+ * left on top of the stack; *n receives the length (required: at least min_len). */
+double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *key,
+                         const char *unit, size_t min_len, size_t *n);
+
+/* Raise err->message as a Lua error (never returns). */
+int cpl_raise(lua_State *L, const cp_error *err);
+
+/* Raise a formatted error prefixed with "fname: " (never returns). */
+int cpl_error(lua_State *L, const char *fname, const char *fmt, ...);
+
+/* Set t[key] = value on the table at the top of the stack. */
+void cpl_set_number(lua_State *L, const char *key, double value);
+void cpl_set_string(lua_State *L, const char *key, const char *value);
+void cpl_set_boolean(lua_State *L, const char *key, int value);
+void cpl_set_integer(lua_State *L, const char *key, lua_Integer value);
+
+/* Push a Lua array of n numbers. */
+void cpl_push_array(lua_State *L, const double *values, size_t n);
+
+#endif

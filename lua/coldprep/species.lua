@@ -1,0 +1,222 @@
+-- coldprep.species: species lookup over the built-in C tables plus the atoms, molecules
+-- and resonances a user adds in this Lua state (cp.species.add_atom{...} and friends).
+-- User entries shadow built-in ones of the same name.
+local cp = require "coldprep"
+local builtin = cp.species -- the C binding (lua/bind_species.c)
+local units = cp.units
+
+local M = {}
+local user_atoms, user_molecules, user_resonances = {}, {}, {}
+
+local function key(name)
+  return (name:lower():gsub("[%-_ ]", ""))
+end
+
+local function copy(t)
+  local c = {}
+  for k, v in pairs(t) do c[k] = type(v) == "table" and copy(v) or v end
+  return c
+end
+
+local function user_names()
+  local names = {}
+  for _, a in pairs(user_atoms) do names[a.name] = true end
+  for _, m in pairs(user_molecules) do names[m.name] = true end
+  local list = {}
+  for n in pairs(names) do list[#list + 1] = n end
+  table.sort(list)
+  return list
+end
+
+local function not_found(kind, name, err)
+  local extra = user_names()
+  if #extra > 0 then
+    err = err .. "; user-added: " .. table.concat(extra, ", ")
+  end
+  error(err, 3)
+end
+
+local function check_name(fname, name)
+  if type(name) ~= "string" then
+    error(string.format("%s: expects a species name (string), got %s", fname, type(name)), 3)
+  end
+end
+
+function M.atom(name)
+  check_name("species.atom", name)
+  local a = user_atoms[key(name)]
+  if a then return copy(a) end
+  local ok, r = pcall(builtin.builtin_atom, name)
+  if ok then return r end
+  not_found("atom", name, r)
+end
+
+function M.molecule(name)
+  check_name("species.molecule", name)
+  local m = user_molecules[key(name)]
+  if m then return copy(m) end
+  local ok, r = pcall(builtin.builtin_molecule, name)
+  if ok then return r end
+  not_found("molecule", name, r)
+end
+
+-- Resonances of a molecule: the built-in ones first, then the user's, 1-based.
+function M.resonance(name, index)
+  check_name("species.resonance", name)
+  index = index or 1
+  if math.type(index) ~= "integer" or index < 1 then
+    error(string.format("species.resonance: index %s must be an integer >= 1", tostring(index)), 2)
+  end
+  local m = M.molecule(name)
+  local list = {}
+  local ok, n = true, 1
+  while ok do
+    local r
+    ok, r = pcall(builtin.builtin_resonance, m.name, n)
+    if ok then list[#list + 1] = r; n = n + 1 end
+  end
+  for _, r in ipairs(user_resonances[m.name] or {}) do list[#list + 1] = copy(r) end
+  if #list == 0 then
+    error(string.format("species.resonance: no Feshbach resonance is known for %s; add one "
+      .. "with cp.species.add_resonance{molecule = %q, b0 = ..., width = ..., abg = ..., dmu = ...}",
+      m.name, m.name), 2)
+  end
+  if index > #list then
+    error(string.format("species.resonance: index %d for %s is out of range; allowed 1 to %d",
+      index, m.name, #list), 2)
+  end
+  return list[index]
+end
+
+function M.list()
+  local names = builtin.builtin_list()
+  for _, n in ipairs(user_names()) do names[#names + 1] = n end
+  return names
+end
+
+-- Argument checking for the add_* functions (Lua-side, same messages as the C readers).
+local function want_number(fname, args, k, unit, positive)
+  local v = args[k]
+  if type(v) ~= "number" then
+    error(string.format("%s: argument '%s' must be a number (%s), got %s", fname, k, unit, type(v)), 3)
+  end
+  if v ~= v or v == math.huge or v == -math.huge then
+    error(string.format("%s: argument '%s' must be a finite number (%s), got %s", fname, k, unit, tostring(v)), 3)
+  end
+  if positive and v <= 0 then
+    error(string.format("%s: argument '%s' = %g %s is out of range; allowed (0, inf) %s", fname, k, v, unit, unit), 3)
+  end
+  return v
+end
+
+local function check_keys(fname, args, known)
+  if type(args) ~= "table" then
+    error(string.format("%s: expects one table of named arguments, got %s", fname, type(args)), 3)
+  end
+  for k in pairs(args) do
+    local found = false
+    for _, kk in ipairs(known) do if k == kk then found = true end end
+    if not found then
+      error(string.format("%s: unknown argument '%s'; known: %s", fname, tostring(k), table.concat(known, ", ")), 3)
+    end
+  end
+end
+
+function M.add_atom(args)
+  local fname = "species.add_atom"
+  check_keys(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "source" })
+  check_name(fname, args.name)
+  local mass_u = want_number(fname, args, "mass_u", "u", true)
+  if args.statistics ~= "boson" and args.statistics ~= "fermion" then
+    error(fname .. ": argument 'statistics' must be \"boson\" or \"fermion\"", 2)
+  end
+  local a = {
+    kind = "atom", name = args.name, mass_u = mass_u, mass = mass_u * cp.consts.amu,
+    statistics = args.statistics, nuclear_spin = args.nuclear_spin,
+    source = args.source or "user-supplied",
+  }
+  user_atoms[key(args.name)] = a
+  local num, sym = args.name:match("^(%d+)(%a+)$")
+  if num then user_atoms[key(sym .. num)] = a end
+  return copy(a)
+end
+
+function M.add_molecule(args)
+  local fname = "species.add_molecule"
+  check_keys(fname, args, { "name", "atoms", "dipole_debye", "rot_const_hz", "c6_au",
+    "reactive", "source" })
+  check_name(fname, args.name)
+  if type(args.atoms) ~= "table" or #args.atoms ~= 2 then
+    error(fname .. ": argument 'atoms' must be a list of two atom names", 2)
+  end
+  local a, b = M.atom(args.atoms[1]), M.atom(args.atoms[2])
+  local m = {
+    kind = "molecule", name = args.name, atoms = { a.name, b.name },
+    mass = a.mass + b.mass, mass_u = (a.mass + b.mass) / cp.consts.amu,
+    statistics = (a.statistics == b.statistics) and "boson" or "fermion",
+    dipole_debye = want_number(fname, args, "dipole_debye", "D", false),
+    rot_const_hz = want_number(fname, args, "rot_const_hz", "Hz", true),
+    c6_au = want_number(fname, args, "c6_au", "a.u.", true),
+    reactive = args.reactive and true or false,
+    source = args.source or "user-supplied",
+  }
+  user_molecules[key(args.name)] = m
+  return copy(m)
+end
+
+function M.add_resonance(args)
+  local fname = "species.add_resonance"
+  check_keys(fname, args, { "molecule", "b0", "width", "abg", "dmu", "states", "source" })
+  local m = M.molecule(args.molecule)
+  local r = {
+    molecule = m.name, states = args.states or "user-supplied",
+    b0 = want_number(fname, args, "b0", "T", true),
+    width = want_number(fname, args, "width", "T", false),
+    abg = want_number(fname, args, "abg", "m", false),
+    dmu = want_number(fname, args, "dmu", "J/T", true),
+    verified = true, source = args.source or "user-supplied",
+  }
+  if r.width == 0 or r.abg == 0 then
+    error(fname .. ": arguments 'width' and 'abg' must be non-zero", 2)
+  end
+  user_resonances[m.name] = user_resonances[m.name] or {}
+  table.insert(user_resonances[m.name], r)
+  return copy(r)
+end
+
+local H = {
+  atom = [[
+species.atom(name) -> {kind, name, symbol, protons, mass_number, mass (kg), mass_u (u),
+  nuclear_spin, statistics = "boson"|"fermion", source}
+Names as "87Rb" or "Rb87" (case-insensitive).  An unknown name is an error listing the
+closest known names.  Example: cp.species.atom("40K").statistics  --> "fermion"]],
+  molecule = [[
+species.molecule(name) -> {kind, name, atoms = {a, b}, mass (kg), mass_u, statistics,
+  dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.), reactive, source}
+Names as "40K87Rb", "K40Rb87" or "KRb".  Example: cp.species.molecule("NaK").dipole_debye]],
+  resonance = [[
+species.resonance(molecule [, index = 1]) -> {molecule, states, b0 (T), width (T),
+  abg (m), dmu (J/T), verified, source}
+The index-th interspecies Feshbach resonance known for the pair (built-in first, then
+user-added).  Built-in values are from memory (verified = false): check them.
+Example: r = cp.species.resonance("KRb"); print(r.b0 / cp.units.G)]],
+  list = "species.list() -> names of every known atom and molecule (built-in and user-added).",
+  add_atom = [[
+species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin, source]}
+Adds an atom to this session.  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
+statistics = "boson"}]],
+  add_molecule = [[
+species.add_molecule{name, atoms = {a, b}, dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.)
+  [, reactive = false, source]}
+Adds a molecule; its mass and statistics follow from its atoms.]],
+  add_resonance = [[
+species.add_resonance{molecule, b0 (T), width (T), abg (m), dmu (J/T) [, states, source]}
+Adds a Feshbach resonance.  Example: cp.species.add_resonance{molecule = "KRb",
+b0 = 546.62*cp.units.G, width = -3.1*cp.units.G, abg = -189*cp.units.a0, dmu = 2.3*cp.consts.muB}]],
+}
+for name, text in pairs(H) do cp.set_help(M[name], text) end
+
+-- keep the raw built-in lookups reachable for tests and tools
+for k, v in pairs(builtin) do M[k] = v end
+
+return M

@@ -1,0 +1,82 @@
+/*
+ * luaopen_coldprep: assembles the `coldprep` Lua module.  It opens every C binding
+ * (lua/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
+ * module table, makes the embedded Lua-side library requirable ("coldprep.plan", ...),
+ * publishes the table as package.loaded.coldprep so those modules can require it while
+ * it is being built, then runs "coldprep.init", which completes the table.
+ */
+#include <lauxlib.h>
+#include <lua.h>
+
+#include "coldprep/status.h"
+#include "embedded_lua.h"
+#include "help.h"
+
+#define CPL_BINDING(name) int cpl_open_##name(lua_State *L);
+#include "bindings_list.h"
+#undef CPL_BINDING
+
+int luaopen_coldprep(lua_State *L);
+
+/* package.preload loader for an embedded chunk: upvalue 1 is its index. */
+static int load_embedded(lua_State *L)
+{
+    const cpl_embedded_chunk *c = &cpl_embedded_chunks[lua_tointeger(L, lua_upvalueindex(1))];
+    if (luaL_loadbufferx(L, c->bytes, c->size, c->chunkname, "t") != LUA_OK)
+        return lua_error(L);
+    lua_pushstring(L, c->module);
+    lua_call(L, 1, 1);
+    return 1;
+}
+
+static int l_set_help(lua_State *L)
+{
+    luaL_checkany(L, 1);
+    cpl_set_help(L, 1, luaL_checkstring(L, 2));
+    return 0;
+}
+
+static int l_get_help(lua_State *L)
+{
+    luaL_checkany(L, 1);
+    cpl_push_help_table(L);
+    lua_pushvalue(L, 1);
+    lua_gettable(L, -2);
+    return 1;
+}
+
+int luaopen_coldprep(lua_State *L)
+{
+    cp_init();
+    lua_newtable(L);
+#define CPL_BINDING(name)          \
+    cpl_open_##name(L);            \
+    lua_setfield(L, -2, #name);
+#include "bindings_list.h"
+#undef CPL_BINDING
+    lua_pushstring(L, cp_version());
+    lua_setfield(L, -2, "version");
+    lua_pushcfunction(L, l_set_help);
+    lua_setfield(L, -2, "set_help");
+    lua_pushcfunction(L, l_get_help);
+    lua_setfield(L, -2, "get_help");
+
+    luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_PRELOAD_TABLE);
+    for (lua_Integer i = 0; cpl_embedded_chunks[i].module; i++) {
+        lua_pushinteger(L, i);
+        lua_pushcclosure(L, load_embedded, 1);
+        lua_setfield(L, -2, cpl_embedded_chunks[i].module);
+    }
+    lua_pop(L, 1);
+
+    luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_LOADED_TABLE);
+    lua_pushvalue(L, -2);
+    lua_setfield(L, -2, "coldprep");
+    lua_pop(L, 1);
+
+    lua_getglobal(L, "require");
+    lua_pushliteral(L, "coldprep.init");
+    lua_call(L, 1, 1); /* init returns nothing useful; it extends the module table */
+    lua_pop(L, 1);
+    return 1;
+}

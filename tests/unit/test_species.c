@@ -1,0 +1,166 @@
+/*
+ * Species data: a sample of entries against their published values, derived facts
+ * (statistics from neutron numbers, molecule mass = sum of atoms), name lookup and
+ * suggestions, and the error checks.
+ */
+#include <math.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <string.h>
+
+#include <cmocka.h>
+
+#include "coldprep/consts.h"
+#include "coldprep/species.h"
+
+static void assert_rel(double got, double want, double tol)
+{
+    double rel = fabs(got - want) / fabs(want);
+    if (!(rel <= tol))
+        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
+}
+
+/* SPECIES-1: masses from AME2020 (Wang et al., Chinese Phys. C 45, 030003 (2021),
+ * mass_1.mas20), as tabulated in ../shared/reference/physics.md §2. */
+static void test_atom_masses_ame2020(void **state)
+{
+    (void)state;
+    static const struct {
+        const char *name;
+        double mass_u;
+    } sample[] = {{"6Li", 6.01512288742}, {"40K", 39.963998165}, {"87Rb", 86.909180529},
+                  {"133Cs", 132.905451958}, {"23Na", 22.98976928195}};
+    for (size_t i = 0; i < sizeof sample / sizeof sample[0]; i++) {
+        const cp_atom *a;
+        assert_int_equal(cp_species_atom(sample[i].name, &a, NULL), CP_OK);
+        assert_rel(a->mass_u, sample[i].mass_u, 1e-12);
+        assert_rel(cp_atom_mass(a), sample[i].mass_u * 1.66053906660e-27, 1e-12);
+    }
+}
+
+/* SPECIES-2: statistics from the parity of the neutron number (physics.md §2): 6Li and
+ * 40K, 87Sr, 173Yb are fermions; 7Li, 23Na, 87Rb, 133Cs, 88Sr are bosons. */
+static void test_atom_statistics(void **state)
+{
+    (void)state;
+    const char *fermions[] = {"6Li", "40K", "87Sr", "173Yb"};
+    const char *bosons[] = {"7Li", "23Na", "39K", "41K", "85Rb", "87Rb", "133Cs", "84Sr",
+                            "88Sr", "174Yb"};
+    const cp_atom *a;
+    for (size_t i = 0; i < 4; i++) {
+        assert_int_equal(cp_species_atom(fermions[i], &a, NULL), CP_OK);
+        assert_int_equal(cp_atom_statistics(a), CP_FERMION);
+    }
+    for (size_t i = 0; i < 10; i++) {
+        assert_int_equal(cp_species_atom(bosons[i], &a, NULL), CP_OK);
+        assert_int_equal(cp_atom_statistics(a), CP_BOSON);
+    }
+}
+
+/* SPECIES-3: molecules.  Mass of 40K87Rb = 126.873178694 u and the statistics listed in
+ * physics.md §3 (KRb, NaK, LiCs, NaLi fermions; RbCs, NaRb, NaCs, LiK bosons). */
+static void test_molecules(void **state)
+{
+    (void)state;
+    const cp_molecule *m;
+    assert_int_equal(cp_species_molecule("40K87Rb", &m, NULL), CP_OK);
+    assert_rel(cp_molecule_mass(m) / CP_AMU, 126.873178694, 1e-10);
+    struct {
+        const char *name;
+        cp_statistics s;
+    } want[] = {{"KRb", CP_FERMION},   {"NaK", CP_FERMION},     {"LiCs", CP_FERMION},
+                {"NaLi", CP_FERMION},  {"RbCs", CP_BOSON},      {"NaRb", CP_BOSON},
+                {"NaCs", CP_BOSON},    {"LiK", CP_BOSON}};
+    for (size_t i = 0; i < sizeof want / sizeof want[0]; i++) {
+        assert_int_equal(cp_species_molecule(want[i].name, &m, NULL), CP_OK);
+        assert_int_equal(cp_molecule_statistics(m), want[i].s);
+    }
+    /* every molecule's mass is the sum of its atoms' masses */
+    for (size_t i = 0; i < cp_species_molecule_count(); i++) {
+        const cp_molecule *mi = cp_species_molecule_at(i);
+        const cp_atom *a, *b;
+        assert_int_equal(cp_molecule_atoms(mi, &a, &b, NULL), CP_OK);
+        assert_rel(cp_molecule_mass(mi), cp_atom_mass(a) + cp_atom_mass(b), 1e-15);
+    }
+}
+
+/* SPECIES-4: published molecular constants (physics.md §3): KRb d = 0.574 D (Ni et al.
+ * 2008), RbCs B = 490.174 MHz (Gregory et al. 2016); C6 of the estimated entries equals
+ * d^4/(6B) + 1e4 a.u. (Julienne, Hanna, Idziaszek 2011 formula) to the 4 digits stored. */
+static void test_molecular_constants(void **state)
+{
+    (void)state;
+    const cp_molecule *m;
+    assert_int_equal(cp_species_molecule("KRb", &m, NULL), CP_OK);
+    assert_rel(m->dipole_debye, 0.574, 1e-12);
+    assert_true(m->reactive);
+    assert_int_equal(cp_species_molecule("RbCs", &m, NULL), CP_OK);
+    assert_rel(m->rot_const_hz, 490.174e6, 1e-12);
+    assert_false(m->reactive);
+    const char *estimated[] = {"NaK", "RbCs", "NaRb", "NaCs", "LiK", "LiCs"};
+    for (size_t i = 0; i < 6; i++) {
+        assert_int_equal(cp_species_molecule(estimated[i], &m, NULL), CP_OK);
+        double d = m->dipole_debye * CP_DEBYE / CP_AU_DIPOLE;
+        double b = m->rot_const_hz * CP_H / CP_EH;
+        assert_rel(m->c6_au, pow(d, 4) / (6 * b) + 1e4, 5e-4);
+    }
+}
+
+/* SPECIES-5: name forms and the error for an unknown name. */
+static void test_lookup_forms_and_errors(void **state)
+{
+    (void)state;
+    const cp_atom *a, *b;
+    const cp_molecule *m1, *m2, *m3;
+    cp_error err;
+    assert_int_equal(cp_species_atom("87Rb", &a, NULL), CP_OK);
+    assert_int_equal(cp_species_atom("rb87", &b, NULL), CP_OK);
+    assert_ptr_equal(a, b);
+    assert_int_equal(cp_species_molecule("40K87Rb", &m1, NULL), CP_OK);
+    assert_int_equal(cp_species_molecule("KRb", &m2, NULL), CP_OK);
+    assert_int_equal(cp_species_molecule("Rb87K40", &m3, NULL), CP_OK);
+    assert_ptr_equal(m1, m2);
+    assert_ptr_equal(m1, m3);
+    assert_int_equal(cp_species_atom("Rb88", &a, &err), CP_ENOTFOUND);
+    assert_null(a);
+    assert_non_null(strstr(err.message, "87Rb"));
+    assert_int_equal(cp_species_atom("", &a, &err), CP_EINVAL);
+    assert_int_equal(cp_species_molecule(NULL, &m1, &err), CP_EINVAL);
+}
+
+/* SPECIES-6: each of the first six pairs has a resonance with abg * width > 0 (all
+ * physical resonances, Chin et al. RMP 82, 1225 (2010)); out-of-range index is an error. */
+static void test_resonances(void **state)
+{
+    (void)state;
+    const char *pairs[] = {"KRb", "NaK", "RbCs", "NaRb", "NaCs", "LiK"};
+    for (size_t i = 0; i < 6; i++) {
+        const cp_resonance *r;
+        int n;
+        assert_int_equal(cp_species_resonance_count(pairs[i], &n, NULL), CP_OK);
+        assert_true(n >= 1);
+        assert_int_equal(cp_species_resonance(pairs[i], 0, &r, NULL), CP_OK);
+        assert_true(r->abg * r->width > 0);
+        assert_true(r->dmu > 0 && r->b0 > 0);
+    }
+    const cp_resonance *r;
+    cp_error err;
+    assert_int_equal(cp_species_resonance("KRb", 0, &r, NULL), CP_OK);
+    assert_rel(r->b0, 546.7e-4, 1e-12); /* Ni et al., Science 322, 231 (2008) [M] */
+    assert_int_equal(cp_species_resonance("KRb", 7, &r, &err), CP_ENOTFOUND);
+    assert_non_null(strstr(err.message, "out of range"));
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_atom_masses_ame2020),
+        cmocka_unit_test(test_atom_statistics),
+        cmocka_unit_test(test_molecules),
+        cmocka_unit_test(test_molecular_constants),
+        cmocka_unit_test(test_lookup_forms_and_errors),
+        cmocka_unit_test(test_resonances),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}
