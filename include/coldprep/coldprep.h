@@ -1,0 +1,12 @@
+/*
+ * coldprep — umbrella header: includes every public header of the library.
+ * Link with -lcoldprep (pkg-config coldprep, or find_package(coldprep) in CMake).
+ */
+#ifndef COLDPREP_COLDPREP_H
+#define COLDPREP_COLDPREP_H
+
+#include "coldprep/status.h"
+#include "coldprep/consts.h"
+#include "coldprep/species.h"
+
+#endif
