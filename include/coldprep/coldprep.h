@@ -8,5 +8,6 @@
 #include "coldprep/status.h"
 #include "coldprep/consts.h"
 #include "coldprep/species.h"
+#include "coldprep/lattice.h"
 
 #endif

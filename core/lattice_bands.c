@@ -1,0 +1,281 @@
+/*
+ * Band structure of the 1D lattice V(x) = V0 sin^2(k x) in a plane-wave basis.
+ *
+ * With sin^2(kx) = 1/2 - (e^{2ikx} + e^{-2ikx})/4, the Bloch states
+ * sum_l c_l exp(i (q + 2 l) k x) obey, in units of E_r = hbar^2 k^2 / 2m,
+ *   ((q + 2 l)^2 + V0/2) c_l - (V0/4) (c_{l-1} + c_{l+1}) = E c_l,
+ * a real symmetric tridiagonal eigenproblem (Bloch's theorem; e.g. Ashcroft and Mermin,
+ * Solid State Physics (1976), Ch. 9).  Energies are measured from the potential minimum.
+ *
+ * Basis size: beyond the plane waves whose kinetic energy exceeds the largest wanted energy,
+ * the components fall off at least as fast as the product of
+ * r_l = (V0/4) / ((2|l| - 1)^2 + V0/2 - E_max), and truncating after index L shifts an
+ * energy by about (V0/4) c_L^2.  The automatic choice adds plane waves until that bound is
+ * below 1e-14 E_r, then two more; the unit tests check the result against a much larger
+ * basis and against GSL's Mathieu characteristic values.
+ */
+#include <math.h>
+#include <stdlib.h>
+
+#include "check_int.h"
+#include "coldprep/consts.h"
+#include "coldprep/lattice.h"
+#include "lattice_int.h"
+
+static const char *const CTX_BASIS = "lattice basis size";
+static const char *const CTX_BANDS = "lattice band energies";
+static const char *const CTX_SUMMARY = "lattice band summary";
+static const char *const CTX_TUNNEL = "lattice tunnelling";
+
+double cp_lattice_fold_q(double q)
+{
+    return fabs(q - 2.0 * nearbyint(0.5 * q));
+}
+
+void cp_lattice_fill_diagonal(double depth_er, double q, int n, double *diag)
+{
+    int half = n / 2;
+    for (int i = 0; i < n; i++) {
+        double p = q + 2.0 * (i - half);
+        diag[i] = p * p + 0.5 * depth_er;
+    }
+}
+
+static cp_status check_depth_bands(const char *ctx, double depth_er, int bands, cp_error *err)
+{
+    CP_TRY(cp_check_range(err, ctx, "depth", depth_er, "E_r", 0.0, CP_LATTICE_MAX_DEPTH_ER,
+                          CP_CLOSED));
+    return cp_check_int_range(err, ctx, "bands", bands, 1, CP_LATTICE_MAX_BANDS);
+}
+
+/* Half-width L of the automatic basis (size 2 L + 1); see the file comment. */
+static int auto_half_width(double depth_er, int bands)
+{
+    double coupling = 0.25 * depth_er;
+    /* E_n(q) <= n^2 + V0 for band n - 1 (free band top plus the largest potential) */
+    double emax = (double)bands * bands + depth_er;
+    int l = 1;
+    while ((2.0 * l - 1) * (2.0 * l - 1) <= emax)
+        l++;
+    double bound = 1.0;
+    while (coupling > 0 && coupling * bound * bound > 1e-14) {
+        bound *= coupling / ((2.0 * l - 1) * (2.0 * l - 1) + 0.5 * depth_er - emax);
+        l++;
+    }
+    int lmin = bands / 2 + 2; /* enough states for the wanted bands even at V0 = 0 */
+    return (l > lmin ? l : lmin) + 2;
+}
+
+cp_status cp_lattice_basis_size(double depth_er, int bands, int *basis_size, cp_error *err)
+{
+    *basis_size = 0;
+    CP_TRY(check_depth_bands(CTX_BASIS, depth_er, bands, err));
+    int size = 2 * auto_half_width(depth_er, bands) + 1;
+    if (size > CP_LATTICE_MAX_BASIS)
+        return cp_fail(err, CP_EINVAL,
+                       "%s: depth %.6g E_r with %d bands needs %d plane waves; allowed at "
+                       "most %d",
+                       CTX_BASIS, depth_er, bands, size, CP_LATTICE_MAX_BASIS);
+    *basis_size = size;
+    return CP_OK;
+}
+
+/* Validate a band-energy request and resolve the basis size. */
+static cp_status prepare(const char *ctx, double depth_er, int bands, int basis_size,
+                         int *size, cp_error *err)
+{
+    CP_TRY(check_depth_bands(ctx, depth_er, bands, err));
+    if (basis_size == 0)
+        return cp_lattice_basis_size(depth_er, bands, size, err);
+    if (basis_size < bands + 1 || basis_size > CP_LATTICE_MAX_BASIS || basis_size % 2 == 0)
+        return cp_fail(err, CP_EINVAL,
+                       "%s: basis size %d is out of range; allowed 0 (automatic) or an odd "
+                       "number in [%d, %d]",
+                       ctx, basis_size, bands + 1, CP_LATTICE_MAX_BASIS);
+    *size = basis_size;
+    return CP_OK;
+}
+
+/* Energies at nq quasimomenta with a prepared basis size; each solution seeds the next
+ * (linear extrapolation in |q| from the two previous points). */
+static cp_status solve(double depth_er, int bands, int size, size_t nq, const double *qs,
+                       double *energies, cp_error *err, const char *ctx)
+{
+    double *diag = malloc(((size_t)size + 4 * ((size_t)bands + 1)) * sizeof *diag);
+    if (!diag)
+        return cp_fail(err, CP_ENOMEM, "%s: out of memory for a %d-state basis", ctx, size);
+    double *work = diag + size;
+    cp_tridiag t = {size, diag, -0.25 * depth_er};
+    double qprev = NAN, qprev2 = NAN;
+    cp_status st = CP_OK;
+    for (size_t i = 0; i < nq && st == CP_OK; i++) {
+        double q = cp_lattice_fold_q(qs[i]);
+        double *x = energies + i * (size_t)bands;
+        int guess = i > 0;
+        if (guess) {
+            const double *x1 = x - bands;
+            double slope = 0.0;
+            if (i > 1 && qprev != qprev2)
+                slope = (q - qprev) / (qprev - qprev2);
+            for (int n = 0; n < bands; n++)
+                x[n] = x1[n] + (i > 1 ? slope * (x1[n] - x1[n - bands]) : 0.0);
+        }
+        cp_lattice_fill_diagonal(depth_er, q, size, diag);
+        st = cp_tridiag_lowest(&t, bands, guess, x, work);
+        qprev2 = qprev;
+        qprev = q;
+    }
+    free(diag);
+    if (st != CP_OK)
+        return cp_fail(err, st, "%s: eigenvalue iteration did not converge at depth %.6g E_r",
+                       ctx, depth_er);
+    return CP_OK;
+}
+
+cp_status cp_lattice_band_energies(double depth_er, int bands, int basis_size, size_t nq,
+                                   const double *quasimomenta, double *energies_er,
+                                   int *basis_used, cp_error *err)
+{
+    int size = 0;
+    cp_status st = CP_OK;
+    if (basis_used)
+        *basis_used = 0;
+    if (nq < 1 || !quasimomenta || !energies_er)
+        return cp_fail(err, CP_EINVAL, "%s: need at least one quasimomentum and an output array",
+                       CTX_BANDS);
+    for (size_t i = 0; i < nq && st == CP_OK; i++)
+        st = cp_check_finite(err, CTX_BANDS, "quasimomentum", quasimomenta[i], "k");
+    if (st == CP_OK)
+        st = prepare(CTX_BANDS, depth_er, bands, basis_size, &size, err);
+    if (st == CP_OK)
+        st = solve(depth_er, bands, size, nq, quasimomenta, energies_er, err, CTX_BANDS);
+    if (st != CP_OK) {
+        if (energies_er && bands > 0 && bands <= CP_LATTICE_MAX_BANDS)
+            for (size_t i = 0; i < nq; i++)
+                cp_poison(energies_er + i * (size_t)bands, bands);
+        return st;
+    }
+    if (basis_used)
+        *basis_used = size;
+    return CP_OK;
+}
+
+static void poison_summary(cp_lattice_band_summary *s)
+{
+    if (s->bands < 1 || s->bands > CP_LATTICE_MAX_BANDS)
+        return;
+    cp_poison(s->center_er, s->bands);
+    cp_poison(s->edge_er, s->bands);
+    cp_poison(s->width_er, s->bands);
+    if (s->gap_er)
+        cp_poison(s->gap_er, s->bands - 1);
+}
+
+cp_status cp_lattice_band_summary_compute(double depth_er, cp_lattice_band_summary *summary,
+                                          cp_error *err)
+{
+    int size = 0, bands = summary->bands;
+    summary->basis_size = 0;
+    cp_status st = prepare(CTX_SUMMARY, depth_er, bands, 0, &size, err);
+    if (st == CP_OK && (!summary->center_er || !summary->edge_er || !summary->width_er ||
+                        (bands > 1 && !summary->gap_er)))
+        st = cp_fail(err, CP_EINVAL, "%s: an output array is missing", CTX_SUMMARY);
+    if (st == CP_OK) {
+        st = solve(depth_er, bands, size, 1, (const double[]){0.0}, summary->center_er, err,
+                   CTX_SUMMARY);
+        if (st == CP_OK)
+            st = solve(depth_er, bands, size, 1, (const double[]){1.0}, summary->edge_er,
+                       err, CTX_SUMMARY);
+    }
+    if (st != CP_OK) {
+        poison_summary(summary);
+        return st;
+    }
+    for (int n = 0; n < bands; n++) {
+        double c = summary->center_er[n], e = summary->edge_er[n];
+        summary->width_er[n] = fabs(e - c);
+        if (n + 1 < bands) {
+            double top = fmax(c, e);
+            double next_bottom = fmin(summary->center_er[n + 1], summary->edge_er[n + 1]);
+            summary->gap_er[n] = next_bottom - top;
+        }
+    }
+    summary->basis_size = size;
+    return CP_OK;
+}
+
+/* Trapezoidal rule with N intervals on [0, pi] for the cosine coefficients of order 0, 1
+ * and 2 of E(theta), theta = pi q; e holds E at theta_j = pi j / N, j = 0..N. */
+static void cosine_moments(const double *e, int n, double out[3])
+{
+    for (int m = 0; m < 3; m++) {
+        double sum = 0.5 * (e[0] + e[n] * (m % 2 ? -1.0 : 1.0));
+        for (int j = 1; j < n; j++)
+            sum += e[j] * cos(m * CP_PI * j / n);
+        out[m] = sum / n;
+    }
+}
+
+cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double *j2_er,
+                                double *mean_er, double *error_er, cp_error *err)
+{
+    enum { N_START = 16, N_MAX = 8192 };
+    double *outs[4] = {j1_er, j2_er, mean_er, error_er};
+    for (int i = 0; i < 4; i++)
+        if (outs[i])
+            *outs[i] = NAN;
+    CP_TRY(cp_check_range(err, CTX_TUNNEL, "depth", depth_er, "E_r", 0.0,
+                          CP_LATTICE_MAX_DEPTH_ER, CP_LO_OPEN));
+    CP_TRY(cp_check_int_range(err, CTX_TUNNEL, "band", band, 0, CP_LATTICE_MAX_BANDS - 1));
+    int bands = band + 1, size;
+    CP_TRY(prepare(CTX_TUNNEL, depth_er, bands, 0, &size, err));
+
+    /* all N_MAX + 1 abscissae, filled coarse to fine: level N uses every (N_MAX/N)-th */
+    size_t npts = N_MAX + 1;
+    double *q = malloc(npts * (1 + (size_t)bands) * sizeof *q);
+    double *e = malloc((npts) * sizeof *e);
+    if (!q || !e) {
+        free(q);
+        free(e);
+        return cp_fail(err, CP_ENOMEM, "%s: out of memory", CTX_TUNNEL);
+    }
+    double *energies = q + npts;
+    double prev[3] = {NAN, NAN, NAN}, cur[3] = {NAN, NAN, NAN}, change = INFINITY;
+    cp_status st = CP_OK;
+    for (int n = N_START; n <= N_MAX && st == CP_OK; n *= 2) {
+        for (int j = 0; j <= n; j++)
+            q[j] = (double)j / n;
+        st = solve(depth_er, bands, size, (size_t)n + 1, q, energies, err, CTX_TUNNEL);
+        if (st != CP_OK)
+            break;
+        for (int j = 0; j <= n; j++)
+            e[j] = energies[(size_t)j * bands + band];
+        cosine_moments(e, n, cur);
+        change = fmax(fabs(cur[1] - prev[1]), fabs(cur[2] - prev[2]));
+        if (change <= 1e-12)
+            break;
+        for (int m = 0; m < 3; m++)
+            prev[m] = cur[m];
+    }
+    free(q);
+    free(e);
+    if (st == CP_OK && !(change <= 1e-8))
+        st = cp_fail(err, CP_ENOCONV,
+                     "%s: the Fourier components of band %d at depth %.6g E_r did not settle "
+                     "(last change %.3g E_r): the dispersion has kinks too sharp for the "
+                     "quadrature at depths this shallow; allowed depths above about 0.1 E_r",
+                     CTX_TUNNEL, band, depth_er, change);
+    if (st != CP_OK)
+        return st;
+    /* E = E_mean - 2 J1 cos - 2 J2 cos 2theta: cosine coefficient a_m = (2/pi) int E cos,
+     * so J_m = -a_m / 2 = -(1/pi) int_0^pi E cos(m theta) dtheta; cur[m] = (1/pi) int. */
+    if (j1_er)
+        *j1_er = -cur[1];
+    if (j2_er)
+        *j2_er = -cur[2];
+    if (mean_er)
+        *mean_er = cur[0];
+    if (error_er)
+        *error_er = change;
+    return CP_OK;
+}

@@ -1,0 +1,237 @@
+/*
+ * Eigenvalues and eigenvectors of a real symmetric tridiagonal matrix with a constant
+ * off-diagonal b, the shape of the lattice Hamiltonian in a plane-wave basis.
+ *
+ * Eigenvalues: the LDL^T factorisation of T - x I, d_1 = a_1 - x,
+ * d_i = a_i - x - b^2 / d_{i-1}, has as many negative pivots as T has eigenvalues below x
+ * (Sylvester's law of inertia: the Sturm-sequence count used by bisection, Wilkinson, The
+ * Algebraic Eigenvalue Problem (1965), Ch. 5).  det(T - x I) = prod d_i, so
+ * d/dx log det = sum d_i'/d_i with d_i' = -1 + b^2 d_{i-1}' / d_{i-1}^2, which gives
+ * Newton's step on the characteristic polynomial in the same sweep.  Several shifts are
+ * swept together so that their divisions overlap in the processor's pipeline.
+ *
+ * Eigenvectors: twisted factorisation (forward and backward pivots meeting at the index
+ * where the eigenvector is largest), as in Dhillon and Parlett's MRRR method, Lin. Alg.
+ * Appl. 387, 1 (2004).
+ */
+#include <float.h>
+#include <math.h>
+
+#include "lattice_int.h"
+
+enum { MAX_NEWTON = 40, MAX_BISECT = 200 };
+
+/* Smallest pivot magnitude allowed: a zero pivot is replaced by -pivmin (as LAPACK's
+ * dstebz does), which keeps b^2 / d finite. */
+static double pivmin(const cp_tridiag *t)
+{
+    return DBL_MIN * fmax(1.0, t->off * t->off) * 1e10;
+}
+
+static double guard(double d, double pmin)
+{
+    return fabs(d) < pmin ? -pmin : d;
+}
+
+int cp_tridiag_count(const cp_tridiag *t, double x)
+{
+    double b2 = t->off * t->off, pmin = pivmin(t);
+    double d = guard(t->diag[0] - x, pmin);
+    int count = d < 0;
+    for (int i = 1; i < t->n; i++) {
+        d = guard(t->diag[i] - x - b2 / d, pmin);
+        count += d < 0;
+    }
+    return count;
+}
+
+/* Sturm counts at m shifts in one sweep; d: m doubles of scratch. */
+static void count_many(const cp_tridiag *t, int m, const double *x, int *count, double *d)
+{
+    double b2 = t->off * t->off, pmin = pivmin(t);
+    for (int j = 0; j < m; j++) {
+        d[j] = guard(t->diag[0] - x[j], pmin);
+        count[j] = d[j] < 0;
+    }
+    for (int i = 1; i < t->n; i++) {
+        double a = t->diag[i];
+        for (int j = 0; j < m; j++) {
+            d[j] = guard(a - x[j] - b2 / d[j], pmin);
+            count[j] += d[j] < 0;
+        }
+    }
+}
+
+/* Newton steps -det/det' at m shifts in one sweep (step may be +-inf or NaN on an exact
+ * pivot breakdown; callers check).  r, dp, s: m doubles of scratch each. */
+static void newton_many(const cp_tridiag *t, int m, const double *x, double *step, double *r,
+                        double *dp, double *s)
+{
+    double b2 = t->off * t->off, pmin = pivmin(t);
+    for (int j = 0; j < m; j++) {
+        double d = guard(t->diag[0] - x[j], pmin);
+        r[j] = 1.0 / d;
+        dp[j] = -1.0;
+        s[j] = -r[j];
+    }
+    for (int i = 1; i < t->n; i++) {
+        double a = t->diag[i];
+        for (int j = 0; j < m; j++) {
+            double d = guard(a - x[j] - b2 * r[j], pmin);
+            double dpn = -1.0 + b2 * dp[j] * r[j] * r[j];
+            r[j] = 1.0 / d;
+            dp[j] = dpn;
+            s[j] += dpn * r[j];
+        }
+    }
+    for (int j = 0; j < m; j++)
+        step[j] = -1.0 / s[j];
+}
+
+static double tolerance(double x)
+{
+    return 2e-14 * (1.0 + fabs(x));
+}
+
+/* Refine all guesses together; accept only if the Sturm counts at points separating them
+ * show exactly one eigenvalue between consecutive separators, the k-th lowest for x[k]. */
+static int refine_guesses(const cp_tridiag *t, int m, double *x, double *work)
+{
+    double *step = work, *r = work + (m + 1), *dp = work + 2 * (m + 1);
+    double *s = work + 3 * (m + 1);
+    for (int it = 0; it < MAX_NEWTON; it++) {
+        newton_many(t, m, x, step, r, dp, s);
+        int done = 1;
+        for (int j = 0; j < m; j++) {
+            if (!isfinite(step[j]))
+                return 0;
+            x[j] += step[j];
+            if (fabs(step[j]) > tolerance(x[j]))
+                done = 0;
+        }
+        if (done)
+            break;
+        if (it == MAX_NEWTON - 1)
+            return 0;
+    }
+    /* separators: below x[0], between neighbours, above x[m-1] */
+    double *sep = step;
+    int count[m + 1];
+    for (int j = 1; j < m; j++) {
+        if (!(x[j] - x[j - 1] > 4 * tolerance(x[j])))
+            return 0;
+        sep[j] = 0.5 * (x[j - 1] + x[j]);
+    }
+    sep[0] = x[0] - 1e3 * tolerance(x[0]);
+    sep[m] = x[m - 1] + 1e3 * tolerance(x[m - 1]);
+    count_many(t, m + 1, sep, count, r);
+    for (int j = 0; j <= m; j++)
+        if (count[j] != j)
+            return 0;
+    return 1;
+}
+
+/* The k-th lowest eigenvalue inside [lo, hi], count(lo) <= k < count(hi): bisection until
+ * it is alone, then Newton kept inside the bracket. */
+static cp_status isolate_and_refine(const cp_tridiag *t, int k, double lo, double hi,
+                                    double *out)
+{
+    int clo = cp_tridiag_count(t, lo), chi = cp_tridiag_count(t, hi), it = 0;
+    while (!(clo == k && chi == k + 1)) {
+        if (hi - lo <= tolerance(hi)) {
+            *out = 0.5 * (lo + hi); /* a multiple eigenvalue, resolved to the tolerance */
+            return CP_OK;
+        }
+        if (++it > MAX_BISECT)
+            return CP_ENOCONV;
+        double mid = 0.5 * (lo + hi);
+        int c = cp_tridiag_count(t, mid);
+        if (c <= k) {
+            lo = mid;
+            clo = c;
+        } else {
+            hi = mid;
+            chi = c;
+        }
+    }
+    double x = 0.5 * (lo + hi), step, r, dp, s;
+    for (it = 0; it < MAX_BISECT; it++) {
+        newton_many(t, 1, &x, &step, &r, &dp, &s);
+        if (cp_tridiag_count(t, x) <= k)
+            lo = x;
+        else
+            hi = x;
+        double xn = x + step;
+        if (!(xn > lo && xn < hi))
+            xn = 0.5 * (lo + hi);
+        if (fabs(xn - x) <= tolerance(xn) || hi - lo <= tolerance(hi)) {
+            *out = xn;
+            return CP_OK;
+        }
+        x = xn;
+    }
+    return CP_ENOCONV;
+}
+
+cp_status cp_tridiag_lowest(const cp_tridiag *t, int m, int have_guess, double *x,
+                            double *work)
+{
+    if (have_guess && refine_guesses(t, m, x, work))
+        return CP_OK;
+    /* Gershgorin bounds enclose the whole spectrum. */
+    double glo = INFINITY, ghi = -INFINITY, rad = 2.0 * fabs(t->off);
+    for (int i = 0; i < t->n; i++) {
+        glo = fmin(glo, t->diag[i] - rad);
+        ghi = fmax(ghi, t->diag[i] + rad);
+    }
+    glo -= tolerance(glo);
+    ghi += tolerance(ghi);
+    double lo = glo;
+    for (int k = 0; k < m; k++) {
+        cp_status st = isolate_and_refine(t, k, lo, ghi, &x[k]);
+        if (st != CP_OK)
+            return st;
+        /* a multiple eigenvalue resolved to the tolerance may come out a few ulps low */
+        if (k > 0 && x[k] < x[k - 1])
+            x[k] = x[k - 1];
+        lo = x[k] - 2 * tolerance(x[k]); /* the next eigenvalue is not below this one */
+    }
+    return CP_OK;
+}
+
+void cp_tridiag_vector(const cp_tridiag *t, double lambda, double *v, double *work)
+{
+    int n = t->n;
+    double b = t->off, b2 = b * b, pmin = pivmin(t);
+    double *dplus = work, *dminus = work + n; /* forward and backward pivots */
+    dplus[0] = guard(t->diag[0] - lambda, pmin);
+    for (int i = 1; i < n; i++)
+        dplus[i] = guard(t->diag[i] - lambda - b2 / dplus[i - 1], pmin);
+    dminus[n - 1] = guard(t->diag[n - 1] - lambda, pmin);
+    for (int i = n - 2; i >= 0; i--)
+        dminus[i] = guard(t->diag[i] - lambda - b2 / dminus[i + 1], pmin);
+    /* gamma_k = dplus_k + dminus_k - (a_k - lambda): the twist index minimises |gamma| */
+    int kbest = 0;
+    double gbest = INFINITY;
+    for (int k = 0; k < n; k++) {
+        double g = fabs(dplus[k] + dminus[k] - (t->diag[k] - lambda));
+        if (g < gbest) {
+            gbest = g;
+            kbest = k;
+        }
+    }
+    v[kbest] = 1.0;
+    for (int i = kbest - 1; i >= 0; i--)
+        v[i] = -b * v[i + 1] / dplus[i];
+    for (int i = kbest + 1; i < n; i++)
+        v[i] = -b * v[i - 1] / dminus[i];
+    double norm = 0.0, big = 0.0;
+    for (int i = 0; i < n; i++) {
+        norm += v[i] * v[i];
+        if (fabs(v[i]) > fabs(big))
+            big = v[i];
+    }
+    double scale = (big < 0 ? -1.0 : 1.0) / sqrt(norm);
+    for (int i = 0; i < n; i++)
+        v[i] *= scale;
+}

@@ -1,0 +1,49 @@
+/*
+ * Benchmark of the lattice model (issue 5 targets, one core):
+ *   - band energies of 5 bands at 1000 quasimomenta across the zone at V0 = 10 E_r
+ *     (target <= 2 ms);
+ * Each figure is the best of several repetitions, so that load from other processes
+ * inflates it as little as possible.
+ */
+#include <stdio.h>
+#include <time.h>
+
+#include "coldprep/lattice.h"
+
+static double now(void)
+{
+    struct timespec t;
+    clock_gettime(CLOCK_MONOTONIC, &t);
+    return (double)t.tv_sec + 1e-9 * (double)t.tv_nsec;
+}
+
+static int bench_bands(void)
+{
+    enum { NQ = 1000, NB = 5, REPEAT = 50 };
+    static double q[NQ], e[NQ * NB];
+    for (int i = 0; i < NQ; i++)
+        q[i] = -1.0 + 2.0 * i / (NQ - 1);
+    double best = 1e9;
+    int basis = 0;
+    cp_error err;
+    for (int r = 0; r < REPEAT; r++) {
+        double t0 = now();
+        if (cp_lattice_band_energies(10.0, NB, 0, NQ, q, e, &basis, &err) != CP_OK) {
+            fprintf(stderr, "bench_lattice: %s\n", err.message);
+            return 1;
+        }
+        double t = now() - t0;
+        if (t < best)
+            best = t;
+    }
+    printf("band energies, %d quasimomenta x %d bands at 10 E_r (basis %d): %.3f ms "
+           "(target <= 2 ms) %s\n",
+           NQ, NB, basis, best * 1e3, best <= 2e-3 ? "ok" : "SLOW");
+    return best <= 2e-3 ? 0 : 1;
+}
+
+int main(void)
+{
+    int status = bench_bands();
+    return status;
+}
