@@ -164,7 +164,8 @@ typedef struct cp_thermo_lattice_result {
     double chemical_potential;   /* J, from the lattice potential minimum */
     double entropy_per_particle; /* k_B */
     double energy_per_particle;  /* J, from the lattice potential minimum */
-    double peak_filling;         /* particles per site at the envelope centre */
+    double peak_filling;         /* fermions: particles per site at the envelope centre
+                                    (NaN for bosons, whose LDA centre diverges at T_c) */
     double condensed_fraction;   /* bosons: fraction in the lowest band state; else 0 */
 } cp_thermo_lattice_result;
 

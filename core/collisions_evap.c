@@ -1,0 +1,110 @@
+/*
+ * Evaporative cooling at constant truncation parameter eta in a fixed harmonic trap with
+ * two-body loss: the scaling-law model of W. Ketterle & N. J. van Druten, Adv. At. Mol.
+ * Opt. Phys. 37, 181 (1996) [M eq. numbers], extended by the two-body loss channel.  Per
+ * unit time an evaporated particle takes (eta + kappa) k_B T, a lost one epsilon k_B T
+ * (9/4 s-wave, 11/4 p-wave: it leaves from the dense centre), and E = 3 N k_B T, so
+ *   d ln T / d ln N = [(eta + kappa - 3) r - (3 - epsilon)] / (3 (r + 1)),
+ * r = Gamma_ev / Gamma_loss = R / lambda, lambda = tau_ev / tau_el = sqrt(2) e^eta / eta.
+ * R = sigma v_rel / beta scales as T^{1/2} (s-wave loss, constant sigma) or T^{-1/2}
+ * (p-wave loss).  One ODE in ln T against ln N, integrated with GSL's rk8pd.
+ */
+#include "coldprep/collisions.h"
+
+#include <math.h>
+
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_odeiv2.h>
+
+#include "check_int.h"
+#include "coldprep/consts.h"
+
+typedef struct evap_ctx {
+    const cp_evaporation_params *p;
+    double kappa, lambda, epsilon, exponent;
+} evap_ctx;
+
+/* y[0] = ln(T/T0) as a function of u = ln(N/N0) (decreasing from 0). */
+static int evap_rhs(double u, const double y[], double dydt[], void *params)
+{
+    (void)u;
+    const evap_ctx *c = params;
+    double r = c->p->ratio * exp(c->exponent * y[0]) / c->lambda;
+    dydt[0] = ((c->p->eta + c->kappa - 3.0) * r - (3.0 - c->epsilon)) / (3.0 * (r + 1.0));
+    return GSL_SUCCESS;
+}
+
+static cp_status check_evap(const cp_evaporation_params *p, size_t points, cp_error *err)
+{
+    static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
+    const char *ctx = "collisions evaporation";
+    CP_TRY(cp_check_range(err, ctx, "number", p->number, "", 1.0, 1e12, CP_CLOSED));
+    CP_TRY(cp_check_range(err, ctx, "temperature", p->temperature, "K", 0.0, 1e-2,
+                          CP_LO_OPEN));
+    for (int i = 0; i < 3; i++)
+        CP_TRY(cp_check_range(err, ctx, names[i], p->omega[i], "rad/s", 0.0, 1e7, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "mass", p->mass, "kg", 1e-28, 1e-22, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "eta", p->eta, "", 5.0, 30.0, CP_CLOSED));
+    if (!isnan(p->kappa))
+        CP_TRY(cp_check_range(err, ctx, "kappa", p->kappa, "", 0.0, 2.0, CP_CLOSED));
+    CP_TRY(cp_check_range(err, ctx, "ratio", p->ratio, "", 0.0, 1e12, CP_LO_OPEN));
+    if (p->wave != CP_LOSS_S_WAVE && p->wave != CP_LOSS_P_WAVE)
+        return cp_fail(err, CP_EINVAL, "%s: wave %d is not s-wave (0) or p-wave (1)", ctx,
+                       (int)p->wave);
+    CP_TRY(cp_check_range(err, ctx, "final_number", p->final_number, "", 1.0, p->number,
+                          CP_HI_OPEN));
+    if (points < 2 || points > 100000)
+        return cp_fail(err, CP_EINVAL, "%s: points %zu is out of range; allowed [2, 100000]",
+                       ctx, points);
+    return CP_OK;
+}
+
+cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t points,
+                                    double *numbers, double *temperatures,
+                                    double *phase_space_densities, double *efficiency,
+                                    cp_error *err)
+{
+    *efficiency = NAN;
+    for (size_t i = 0; i < points; i++)
+        numbers[i] = temperatures[i] = phase_space_densities[i] = NAN;
+    CP_TRY(check_evap(p, points, err));
+    cp_init();
+    evap_ctx c = {p, isnan(p->kappa) ? (p->eta - 5.0) / (p->eta - 4.0) : p->kappa,
+                  sqrt(2.0) * exp(p->eta) / p->eta,
+                  p->wave == CP_LOSS_P_WAVE ? 11.0 / 4.0 : 9.0 / 4.0,
+                  p->wave == CP_LOSS_P_WAVE ? -0.5 : 0.5};
+    gsl_odeiv2_system sys = {evap_rhs, NULL, 1, &c};
+    double u_end = log(p->final_number / p->number); /* < 0 */
+    gsl_odeiv2_driver *d =
+        gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd, u_end * 1e-3, 1e-12, 1e-10);
+    if (!d)
+        return cp_fail(err, CP_ENOMEM, "collisions evaporation: cannot allocate the ODE "
+                       "driver");
+    double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
+    double y[1] = {0.0}, u = 0.0;
+    cp_status result = CP_OK;
+    for (size_t i = 0; i < points; i++) {
+        double ui = u_end * (double)i / (double)(points - 1);
+        if (i > 0) {
+            int status = gsl_odeiv2_driver_apply(d, &u, ui, y);
+            if (status != GSL_SUCCESS) {
+                result = cp_fail(err, CP_ENUMERIC, "collisions evaporation: the ODE solver "
+                                 "failed at ln(N/N0) = %g: %s", u, gsl_strerror(status));
+                break;
+            }
+        }
+        double n = p->number * exp(ui), temp = p->temperature * exp(y[0]);
+        double q = CP_HBAR * wbar / (CP_KB * temp);
+        numbers[i] = n;
+        temperatures[i] = temp;
+        phase_space_densities[i] = n * q * q * q;
+    }
+    gsl_odeiv2_driver_free(d);
+    if (result != CP_OK) {
+        for (size_t i = 0; i < points; i++)
+            numbers[i] = temperatures[i] = phase_space_densities[i] = NAN;
+        return result;
+    }
+    *efficiency = -log(phase_space_densities[points - 1] / phase_space_densities[0]) / u_end;
+    return CP_OK;
+}

@@ -1,0 +1,104 @@
+/*
+ * Number and temperature of a thermal cloud held in a harmonic trap with two-body loss,
+ * one-body loss and technical heating.  The trap-averaged density of a Gaussian cloud is
+ * <n> = (1/N) int n^2 d^3r = N (m omega_bar^2 / (4 pi k_B T))^{3/2}; the loss removes
+ * particles where the density is highest, i.e. with less than the mean energy, and so
+ * heats the remainder (anti-evaporation): dT/dt = h beta <n> T with h = 1/4 for a
+ * T-independent beta (../shared/reference/physics.md §8) and h = 1/12 for the p-wave
+ * beta proportional to the pair's relative energy (docs/models/collisions.md).  The two
+ * coupled equations are integrated with GSL's Runge-Kutta-Prince-Dormand (8,9) stepper.
+ */
+#include "coldprep/collisions.h"
+
+#include <math.h>
+
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_odeiv2.h>
+
+#include "check_int.h"
+#include "coldprep/consts.h"
+
+typedef struct hold_ctx {
+    const cp_hold_params *p;
+    double density_coef; /* <n> = density_coef N T^{-3/2} */
+} hold_ctx;
+
+static int hold_rhs(double t, const double y[], double dydt[], void *params)
+{
+    (void)t;
+    const hold_ctx *c = params;
+    const cp_hold_params *p = c->p;
+    double n = y[0], temp = y[1];
+    if (!(n > 0.0 && temp > 0.0))
+        return GSL_EDOM;
+    double beta = p->rate * (p->wave == CP_LOSS_P_WAVE ? temp / p->temperature : 1.0);
+    double gamma2 = beta * c->density_coef * n / (temp * sqrt(temp)); /* beta <n>, 1/s */
+    double gamma1 = isinf(p->lifetime) ? 0.0 : 1.0 / p->lifetime;
+    double h = p->anti_evaporation ? (p->wave == CP_LOSS_P_WAVE ? 1.0 / 12.0 : 0.25) : 0.0;
+    dydt[0] = -(gamma2 + gamma1) * n;
+    dydt[1] = h * gamma2 * temp + p->heating_rate;
+    return GSL_SUCCESS;
+}
+
+static cp_status check_hold(const cp_hold_params *p, size_t points, cp_error *err)
+{
+    static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
+    const char *ctx = "collisions hold";
+    CP_TRY(cp_check_range(err, ctx, "number", p->number, "", 1.0, 1e12, CP_CLOSED));
+    CP_TRY(cp_check_range(err, ctx, "temperature", p->temperature, "K", 0.0, 1e-2,
+                          CP_LO_OPEN));
+    for (int i = 0; i < 3; i++)
+        CP_TRY(cp_check_range(err, ctx, names[i], p->omega[i], "rad/s", 0.0, 1e7, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "mass", p->mass, "kg", 1e-28, 1e-22, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "rate", p->rate, "m^3/s", 0.0, 1e-8, CP_CLOSED));
+    if (p->wave != CP_LOSS_S_WAVE && p->wave != CP_LOSS_P_WAVE)
+        return cp_fail(err, CP_EINVAL, "%s: wave %d is not s-wave (0) or p-wave (1)", ctx,
+                       (int)p->wave);
+    if (!(isinf(p->lifetime) && p->lifetime > 0))
+        CP_TRY(cp_check_range(err, ctx, "lifetime", p->lifetime, "s", 0.0, 1e9, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "heating_rate", p->heating_rate, "K/s", 0.0, 1.0,
+                          CP_CLOSED));
+    CP_TRY(cp_check_range(err, ctx, "duration", p->duration, "s", 0.0, 1e5, CP_LO_OPEN));
+    if (points < 2 || points > 1000000)
+        return cp_fail(err, CP_EINVAL, "%s: points %zu is out of range; allowed [2, 1000000]",
+                       ctx, points);
+    return CP_OK;
+}
+
+cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *times,
+                             double *numbers, double *temperatures, cp_error *err)
+{
+    for (size_t i = 0; i < points; i++)
+        times[i] = numbers[i] = temperatures[i] = NAN;
+    CP_TRY(check_hold(p, points, err));
+    cp_init();
+    double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
+    hold_ctx c = {p, pow(p->mass * wbar * wbar / (4.0 * CP_PI * CP_KB), 1.5)};
+    gsl_odeiv2_system sys = {hold_rhs, NULL, 2, &c};
+    gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd,
+                                                         p->duration * 1e-6, 0.0, 1e-10);
+    if (!d)
+        return cp_fail(err, CP_ENOMEM, "collisions hold: cannot allocate the ODE driver");
+    double y[2] = {p->number, p->temperature}, t = 0.0;
+    cp_status result = CP_OK;
+    times[0] = 0.0;
+    numbers[0] = y[0];
+    temperatures[0] = y[1];
+    for (size_t i = 1; i < points; i++) {
+        double ti = p->duration * (double)i / (double)(points - 1);
+        int status = gsl_odeiv2_driver_apply(d, &t, ti, y);
+        if (status != GSL_SUCCESS) {
+            result = cp_fail(err, CP_ENUMERIC, "collisions hold: the ODE solver failed at "
+                             "t = %g s: %s", t, gsl_strerror(status));
+            break;
+        }
+        times[i] = ti;
+        numbers[i] = y[0];
+        temperatures[i] = y[1];
+    }
+    gsl_odeiv2_driver_free(d);
+    if (result != CP_OK)
+        for (size_t i = 0; i < points; i++)
+            times[i] = numbers[i] = temperatures[i] = NAN;
+    return result;
+}
