@@ -78,7 +78,7 @@ static void band_range(const cp_thermo_band_table *t, int n, double *lo, double 
     *lo = INFINITY;
     *hi = -INFINITY;
     for (int j = 0; j < t->points; j++) {
-        double e = t->energy_er[n * t->points + j];
+        double e = t->energy_er[j * t->bands + n];
         *lo = fmin(*lo, e);
         *hi = fmax(*hi, e);
     }
@@ -111,13 +111,13 @@ static cp_status build_dos(const cp_thermo_lattice *lat, lattice_dos *dos, cp_er
                 double lo = lx + ly + lz, width = (hx + hy + hz) - lo;
                 e_min = fmin(e_min, lo);
                 double *w = dos->weight + c * bins, *es = dos->energy + c * bins;
-                const double *ex = tx->energy_er + nx * tx->points;
-                const double *ey = ty->energy_er + ny * ty->points;
-                const double *ez = tz->energy_er + nz * tz->points;
+                const double *ex = tx->energy_er + nx, *ey = ty->energy_er + ny;
+                const double *ez = tz->energy_er + nz;
                 for (int i = 0; i < tx->points; i++)
-                    for (int j = 0; j < ty->points; j++)
+                    for (int j = 0; j < ty->points; j++) {
+                        double exy = ex[i * tx->bands] + ey[j * ty->bands];
                         for (int k = 0; k < tz->points; k++) {
-                            double e = ex[i] + ey[j] + ez[k];
+                            double e = exy + ez[k * tz->bands];
                             int b = width > 0 ? (int)((e - lo) / width * bins) : 0;
                             if (b >= bins)
                                 b = bins - 1;
@@ -126,6 +126,7 @@ static cp_status build_dos(const cp_thermo_lattice *lat, lattice_dos *dos, cp_er
                             w[b] += norm;
                             es[b] += norm * e;
                         }
+                    }
             }
     /* Compress the non-empty bins; energies to J, measured from the lowest state. */
     size_t m = 0;

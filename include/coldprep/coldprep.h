@@ -9,5 +9,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/species.h"
 #include "coldprep/lattice.h"
+#include "coldprep/thermo.h"
+#include "coldprep/collisions.h"
 
 #endif

@@ -138,7 +138,8 @@ cp_status cp_thermo_tof(const cp_thermo_trap *trap, cp_statistics stat, double t
 /* One axis of a separable cubic lattice: the single-particle band energies E_n(q), in
  * units of the recoil energy, of `bands` bands at `points` quasimomenta spread evenly over
  * half the Brillouin zone (q = (j + 1/2)/points in units of the lattice k, j = 0 ..
- * points-1; E(-q) = E(q)).  energy_er[n * points + j]; caller-owned. */
+ * points-1; E(-q) = E(q)).  energy_er[j * bands + n] (the layout of
+ * cp_lattice_band_energies); caller-owned. */
 typedef struct cp_thermo_band_table {
     int bands;               /* in [1, 8] */
     int points;              /* in [4, 256] */
@@ -180,6 +181,17 @@ cp_status cp_thermo_lattice_state(const cp_thermo_lattice *lat, const cp_thermo_
 cp_status cp_thermo_match_lattice(const cp_thermo_trap *trap, cp_statistics stat,
                                   double temperature, const cp_thermo_lattice *lat,
                                   cp_thermo_lattice_result *out, cp_error *err);
+
+/* Fill `lat` with the band tables of a cubic lattice from the band structure of
+ * cp_lattice_band_energies (coldprep/lattice.h): depth_er[3] (E_r, each in
+ * [0, 1e4]) along x, y, z of light of wavelength `wavelength` (m, [1e-8, 1e-3]), particle
+ * mass `mass` (kg), the lowest `bands` bands (1..8) at `points` quasimomenta (4..256) per
+ * half zone.  tables: caller-owned storage of 3 * bands * points doubles that lat's
+ * tables point into.  Sets recoil_energy and spacing (lambda/2); leaves omega_envelope
+ * and bins to the caller. */
+cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, double mass,
+                                  int bands, int points, double *tables,
+                                  cp_thermo_lattice *lat, cp_error *err);
 
 #ifdef __cplusplus
 }

@@ -1,0 +1,289 @@
+/*
+ * Lua binding: coldprep.collisions over core/collisions*.c — mean scattering length,
+ * centrifugal barrier, universal loss rates, dipolar elastic cross-section, the hold with
+ * two-body loss, one-body loss and heating, and the evaporation scaling model.  Every
+ * function takes one table of named arguments (SI units, C6 in atomic units) and returns
+ * a table.  `mass` is the reduced mass for the two-body quantities and the particle mass
+ * for the trapped-cloud ones, as each help text says.
+ */
+#include <lauxlib.h>
+#include <lua.h>
+#include <math.h>
+
+#include "args.h"
+#include "coldprep/collisions.h"
+#include "coldprep/consts.h"
+#include "help.h"
+
+int cpl_open_collisions(lua_State *L);
+
+static const char *const PAIRS[] = {"boson", "fermion", "distinguishable", NULL};
+static const char *const WAVES[] = {"s", "p", NULL};
+
+static cp_pair_statistics read_pair(lua_State *L, const char *fname)
+{
+    switch (cpl_option(L, 1, fname, "statistics", PAIRS, NULL)) {
+    case 0: return CP_PAIR_BOSONS;
+    case 1: return CP_PAIR_FERMIONS;
+    default: return CP_PAIR_DISTINGUISHABLE;
+    }
+}
+
+/* omega_bar or omega_x, omega_y, omega_z (rad/s) from argument 1. */
+static void read_omega(lua_State *L, const char *fname, double omega[3])
+{
+    static const char *const axes[3] = {"omega_x", "omega_y", "omega_z"};
+    int n_axes = cpl_has(L, 1, axes[0]) + cpl_has(L, 1, axes[1]) + cpl_has(L, 1, axes[2]);
+    if (cpl_has(L, 1, "omega_bar") == (n_axes > 0) || (n_axes != 0 && n_axes != 3))
+        cpl_error(L, fname, "give either 'omega_bar' or all three of 'omega_x', 'omega_y', "
+                            "'omega_z' (rad/s)");
+    for (int i = 0; i < 3; i++)
+        omega[i] = n_axes ? cpl_number(L, 1, fname, axes[i], "rad/s")
+                          : cpl_number(L, 1, fname, "omega_bar", "rad/s");
+}
+
+static int l_mean_scattering_length(lua_State *L)
+{
+    static const char *const keys[] = {"c6_au", "mass", NULL};
+    const char *fname = "collisions.mean_scattering_length";
+    cpl_check_args(L, 1, fname, keys);
+    double c6 = cpl_number(L, 1, fname, "c6_au", "a.u.");
+    double mu = cpl_number(L, 1, fname, "mass", "kg");
+    double abar;
+    cp_error err;
+    if (cp_collisions_mean_scattering_length(c6, mu, &abar, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 2);
+    cpl_set_number(L, "abar", abar);
+    cpl_set_number(L, "abar_a0", abar / CP_A0);
+    return 1;
+}
+
+static int l_pwave_barrier(lua_State *L)
+{
+    static const char *const keys[] = {"c6_au", "mass", "l", NULL};
+    const char *fname = "collisions.pwave_barrier";
+    cpl_check_args(L, 1, fname, keys);
+    double c6 = cpl_number(L, 1, fname, "c6_au", "a.u.");
+    double mu = cpl_number(L, 1, fname, "mass", "kg");
+    int l = (int)cpl_opt_integer(L, 1, fname, "l", 1, 1, 20);
+    double e;
+    cp_error err;
+    if (cp_collisions_barrier(c6, mu, l, &e, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 2);
+    cpl_set_number(L, "energy", e);
+    cpl_set_number(L, "temperature", e / CP_KB);
+    return 1;
+}
+
+static int l_universal_rate(lua_State *L)
+{
+    static const char *const keys[] = {"c6_au", "mass", "temperature", "statistics", NULL};
+    const char *fname = "collisions.universal_rate";
+    cpl_check_args(L, 1, fname, keys);
+    double c6 = cpl_number(L, 1, fname, "c6_au", "a.u.");
+    double mu = cpl_number(L, 1, fname, "mass", "kg");
+    cp_pair_statistics stat = read_pair(L, fname);
+    /* The s-wave rates do not depend on T; the p-wave rate needs it. */
+    double t = stat == CP_PAIR_FERMIONS ? cpl_number(L, 1, fname, "temperature", "K")
+                                        : cpl_opt_number(L, 1, fname, "temperature", "K", 1e-6);
+    double rate;
+    cp_error err;
+    if (cp_collisions_universal_rate(c6, mu, t, stat, &rate, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 1);
+    cpl_set_number(L, "rate", rate);
+    return 1;
+}
+
+static int l_dipolar_cross_section(lua_State *L)
+{
+    static const char *const keys[] = {"dipole_debye", "mass", "statistics", NULL};
+    const char *fname = "collisions.dipolar_cross_section";
+    cpl_check_args(L, 1, fname, keys);
+    double d = cpl_number(L, 1, fname, "dipole_debye", "D");
+    double mu = cpl_number(L, 1, fname, "mass", "kg");
+    cp_pair_statistics stat = read_pair(L, fname);
+    double sigma, len;
+    cp_error err;
+    if (cp_collisions_dipolar_cross_section(d, mu, stat, &sigma, &len, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 2);
+    cpl_set_number(L, "cross_section", sigma);
+    cpl_set_number(L, "dipole_length", len);
+    return 1;
+}
+
+static int l_collision_ratio(lua_State *L)
+{
+    static const char *const keys[] = {"cross_section", "rate", "mass", "temperature", NULL};
+    const char *fname = "collisions.collision_ratio";
+    cpl_check_args(L, 1, fname, keys);
+    double sigma = cpl_number(L, 1, fname, "cross_section", "m^2");
+    double rate = cpl_number(L, 1, fname, "rate", "m^3/s");
+    double m = cpl_number(L, 1, fname, "mass", "kg");
+    double t = cpl_number(L, 1, fname, "temperature", "K");
+    double ratio;
+    cp_error err;
+    if (cp_collisions_collision_ratio(sigma, rate, m, t, &ratio, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 1);
+    cpl_set_number(L, "ratio", ratio);
+    return 1;
+}
+
+static int l_hold(lua_State *L)
+{
+    static const char *const keys[] = {"number", "temperature", "omega_bar", "omega_x",
+                                       "omega_y", "omega_z", "mass", "rate", "wave",
+                                       "lifetime", "heating_rate", "anti_evaporation",
+                                       "duration", "points", NULL};
+    const char *fname = "collisions.hold";
+    cpl_check_args(L, 1, fname, keys);
+    cp_hold_params p;
+    p.number = cpl_number(L, 1, fname, "number", "");
+    p.temperature = cpl_number(L, 1, fname, "temperature", "K");
+    read_omega(L, fname, p.omega);
+    p.mass = cpl_number(L, 1, fname, "mass", "kg");
+    p.rate = cpl_opt_number(L, 1, fname, "rate", "m^3/s", 0.0);
+    p.wave = cpl_option(L, 1, fname, "wave", WAVES, "s") ? CP_LOSS_P_WAVE : CP_LOSS_S_WAVE;
+    p.lifetime = cpl_has(L, 1, "lifetime") ? cpl_number(L, 1, fname, "lifetime", "s") : INFINITY;
+    p.heating_rate = cpl_opt_number(L, 1, fname, "heating_rate", "K/s", 0.0);
+    p.anti_evaporation = cpl_opt_boolean(L, 1, fname, "anti_evaporation", 1);
+    p.duration = cpl_number(L, 1, fname, "duration", "s");
+    size_t n = (size_t)cpl_opt_integer(L, 1, fname, "points", 101, 2, 100000);
+    double *buf = lua_newuserdatauv(L, 3 * n * sizeof(double), 0);
+    cp_error err;
+    if (cp_collisions_hold(&p, n, buf, buf + n, buf + 2 * n, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 6);
+    cpl_set_number(L, "number", buf[2 * n - 1]);
+    cpl_set_number(L, "temperature", buf[3 * n - 1]);
+    cpl_set_number(L, "surviving_fraction", buf[2 * n - 1] / p.number);
+    cpl_push_array(L, buf, n);
+    lua_setfield(L, -2, "times");
+    cpl_push_array(L, buf + n, n);
+    lua_setfield(L, -2, "numbers");
+    cpl_push_array(L, buf + 2 * n, n);
+    lua_setfield(L, -2, "temperatures");
+    return 1;
+}
+
+static int l_evaporation(lua_State *L)
+{
+    static const char *const keys[] = {"number", "temperature", "omega_bar", "omega_x",
+                                       "omega_y", "omega_z", "mass", "eta", "kappa", "ratio",
+                                       "wave", "final_number", "points", NULL};
+    const char *fname = "collisions.evaporation";
+    cpl_check_args(L, 1, fname, keys);
+    cp_evaporation_params p;
+    p.number = cpl_number(L, 1, fname, "number", "");
+    p.temperature = cpl_number(L, 1, fname, "temperature", "K");
+    read_omega(L, fname, p.omega);
+    p.mass = cpl_number(L, 1, fname, "mass", "kg");
+    p.eta = cpl_number(L, 1, fname, "eta", "");
+    p.kappa = cpl_has(L, 1, "kappa") ? cpl_number(L, 1, fname, "kappa", "") : NAN;
+    p.ratio = cpl_number(L, 1, fname, "ratio", "");
+    p.wave = cpl_option(L, 1, fname, "wave", WAVES, "s") ? CP_LOSS_P_WAVE : CP_LOSS_S_WAVE;
+    p.final_number = cpl_number(L, 1, fname, "final_number", "");
+    size_t n = (size_t)cpl_opt_integer(L, 1, fname, "points", 51, 2, 100000);
+    double *buf = lua_newuserdatauv(L, 3 * n * sizeof(double), 0);
+    double efficiency;
+    cp_error err;
+    if (cp_collisions_evaporation(&p, n, buf, buf + n, buf + 2 * n, &efficiency, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 7);
+    cpl_set_number(L, "number", buf[n - 1]);
+    cpl_set_number(L, "temperature", buf[2 * n - 1]);
+    cpl_set_number(L, "phase_space_density", buf[3 * n - 1]);
+    cpl_set_number(L, "efficiency", efficiency);
+    cpl_push_array(L, buf, n);
+    lua_setfield(L, -2, "numbers");
+    cpl_push_array(L, buf + n, n);
+    lua_setfield(L, -2, "temperatures");
+    cpl_push_array(L, buf + 2 * n, n);
+    lua_setfield(L, -2, "phase_space_densities");
+    return 1;
+}
+
+static const cpl_function functions[] = {
+    {"mean_scattering_length", l_mean_scattering_length,
+     "collisions.mean_scattering_length{c6_au, mass}: Gribakin-Flambaum mean scattering "
+     "length abar = [2 pi / Gamma(1/4)^2] (2 mu C6 / hbar^2)^(1/4).\n"
+     "  c6_au  C6 in atomic units (E_h a0^6), (0, 1e9]\n"
+     "  mass   REDUCED mass mu, kg (M/2 for two identical molecules of mass M)\n"
+     "Returns {abar (m), abar_a0 (Bohr radii)}.\n"
+     "Example: cp.collisions.mean_scattering_length{c6_au = 16130, mass = 127*cp.units.amu/2}"},
+    {"pwave_barrier", l_pwave_barrier,
+     "collisions.pwave_barrier{c6_au, mass, l = 1}: height of the centrifugal barrier of "
+     "partial wave l on -C6/r^6, E_l = [hbar^2 l(l+1)]^(3/2) / (3 sqrt(6) mu^(3/2) "
+     "C6^(1/2)).\n"
+     "  c6_au  C6, atomic units;  mass  REDUCED mass, kg;  l  partial wave, 1..20\n"
+     "Returns {energy (J), temperature (K) = energy / k_B}.\n"
+     "Example: cp.collisions.pwave_barrier{c6_au = 16130, mass = 127*cp.units.amu/2}  --> ~24 uK"},
+    {"universal_rate", l_universal_rate,
+     "collisions.universal_rate{c6_au, mass, temperature, statistics}: universal two-body "
+     "loss rate coefficient (unit short-range loss; Idziaszek & Julienne, PRL 104, 113202 "
+     "(2010)).\n"
+     "  c6_au  C6, atomic units;  mass  REDUCED mass, kg\n"
+     "  statistics  \"boson\" (identical, 8 pi hbar abar / mu), \"distinguishable\" (4 pi hbar "
+     "abar / mu),\n"
+     "              \"fermion\" (identical, p-wave: 1513 abar^3 k_B T / h)\n"
+     "  temperature K, (0, 0.01]; required for fermions only\n"
+     "Returns {rate} in m^3/s: beta in dn/dt = -beta n^2 (identical) or dn_a/dt = -beta n_a n_b.\n"
+     "Example: cp.collisions.universal_rate{c6_au = 16130, mass = 127*cp.units.amu/2, "
+     "temperature = 300e-9, statistics = \"fermion\"}"},
+    {"dipolar_cross_section", l_dipolar_cross_section,
+     "collisions.dipolar_cross_section{dipole_debye, mass, statistics}: threshold (Born) "
+     "elastic cross-section of polarised dipoles (Bohn, Cavagnero & Ticknor, NJP 11, 055039 "
+     "(2009)).\n"
+     "  dipole_debye  the induced (lab-frame) dipole moment, D, (0, 20]\n"
+     "  mass          REDUCED mass, kg\n"
+     "  statistics    \"fermion\" (32 pi/15 D^2), \"boson\" (32 pi/45 D^2, dipolar part), "
+     "\"distinguishable\" (64 pi/45 D^2)\n"
+     "Returns {cross_section (m^2), dipole_length D = mu d^2 / (4 pi eps0 hbar^2) (m)}.\n"
+     "Example: cp.collisions.dipolar_cross_section{dipole_debye = 0.2, mass = 127*cp.units.amu/2,"
+     " statistics = \"fermion\"}"},
+    {"collision_ratio", l_collision_ratio,
+     "collisions.collision_ratio{cross_section, rate, mass, temperature}: ratio of elastic "
+     "to loss collisions sigma v_rel / beta, v_rel = sqrt(16 k_B T / (pi m)).\n"
+     "  cross_section m^2;  rate beta, m^3/s;  mass  PARTICLE mass, kg;  temperature K\n"
+     "Returns {ratio}.\n"
+     "Example: cp.collisions.collision_ratio{cross_section = 1e-14, rate = 1e-17, mass = "
+     "2.1e-25, temperature = 300e-9}"},
+    {"hold", l_hold,
+     "collisions.hold{number, temperature, omega_bar, mass, duration, rate = 0, wave = \"s\", "
+     "lifetime, heating_rate = 0, anti_evaporation = true, points = 101}: N(t) and T(t) of a "
+     "thermal cloud held in a harmonic trap.\n"
+     "  number N0;  temperature T0, K;  omega_bar (or omega_x, omega_y, omega_z), rad/s\n"
+     "  mass  PARTICLE mass, kg;  duration  hold time, s\n"
+     "  rate  two-body beta at T0, m^3/s (e.g. from universal_rate, or measured)\n"
+     "  wave  \"s\": beta constant; \"p\": beta proportional to T (identical fermions)\n"
+     "  lifetime  one-body lifetime, s (omit for none);  heating_rate  technical dT/dt, K/s\n"
+     "  anti_evaporation  include the heating by density-dependent loss (T/4 or T/12 rule)\n"
+     "Returns {number, temperature, surviving_fraction, times, numbers, temperatures}.\n"
+     "Example: cp.collisions.hold{number = 2e4, temperature = 300e-9, omega_bar = 2*math.pi*100,"
+     " mass = 2.1e-25, rate = 1e-17, duration = 0.5}"},
+    {"evaporation", l_evaporation,
+     "collisions.evaporation{number, temperature, omega_bar, mass, eta, ratio, final_number, "
+     "wave = \"s\", kappa, points = 51}: evaporation at constant truncation eta in a fixed "
+     "harmonic trap with two-body loss (Ketterle & van Druten scaling model).\n"
+     "  number N0;  temperature T0, K;  omega_bar (or omega_x, _y, _z), rad/s;  mass, kg\n"
+     "  eta  trap depth / k_B T, [5, 30];  kappa  extra energy per evaporated particle "
+     "(default (eta-5)/(eta-4))\n"
+     "  ratio  elastic / loss collisions at T0 (see collision_ratio)\n"
+     "  wave   loss law: \"s\" (beta const) or \"p\" (beta ~ T)\n"
+     "  final_number  N at the end, [1, N0)\n"
+     "Returns {number, temperature, phase_space_density (classical peak), efficiency\n"
+     "  (-dln PSD / dln N), numbers, temperatures, phase_space_densities}.\n"
+     "Example: cp.collisions.evaporation{number = 2e4, temperature = 300e-9, omega_bar = 600, "
+     "mass = 2.1e-25, eta = 8, ratio = 100, final_number = 5e3}"},
+    {NULL, NULL, NULL}};
+
+int cpl_open_collisions(lua_State *L)
+{
+    lua_newtable(L);
+    cpl_register(L, functions);
+    return 1;
+}

@@ -1,0 +1,446 @@
+/*
+ * Lua binding: coldprep.thermo over core/thermo*.c — ideal Fermi and Bose gases in a
+ * harmonic trap (state, inverses, density profile, time of flight) and entropy matching
+ * into another harmonic trap or a lattice with a harmonic envelope.  Every function takes
+ * one table of named arguments (SI units) and returns a table; the trap is given by
+ * `omega_bar` or by all three of `omega_x`, `omega_y`, `omega_z` (rad/s).
+ */
+#include <lauxlib.h>
+#include <lua.h>
+#include <math.h>
+#include <string.h>
+
+#include "args.h"
+#include "coldprep/thermo.h"
+#include "help.h"
+
+int cpl_open_thermo(lua_State *L);
+
+#define TRAP_KEYS "number", "omega_bar", "omega_x", "omega_y", "omega_z", "mass"
+
+static const char *const STATISTICS[] = {"boson", "fermion", NULL};
+
+/* number, mass and the trap frequencies from argument 1. */
+static void read_trap(lua_State *L, const char *fname, cp_thermo_trap *trap)
+{
+    static const char *const axes[3] = {"omega_x", "omega_y", "omega_z"};
+    int has_bar = cpl_has(L, 1, "omega_bar"), n_axes = 0;
+    for (int i = 0; i < 3; i++)
+        n_axes += cpl_has(L, 1, axes[i]);
+    if (has_bar && n_axes > 0)
+        cpl_error(L, fname, "give either 'omega_bar' or 'omega_x', 'omega_y', 'omega_z' "
+                            "(rad/s), not both");
+    if (!has_bar && n_axes != 3)
+        cpl_error(L, fname, "missing trap frequency: give 'omega_bar' or all three of "
+                            "'omega_x', 'omega_y', 'omega_z' (rad/s)");
+    double number = cpl_number(L, 1, fname, "number", "");
+    double mass = cpl_number(L, 1, fname, "mass", "kg");
+    if (has_bar) {
+        cp_thermo_trap_isotropic(trap, number, cpl_number(L, 1, fname, "omega_bar", "rad/s"),
+                                 mass);
+    } else {
+        trap->number = number;
+        trap->mass = mass;
+        for (int i = 0; i < 3; i++)
+            trap->omega[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
+    }
+}
+
+static cp_statistics read_statistics(lua_State *L, const char *fname)
+{
+    return cpl_option(L, 1, fname, "statistics", STATISTICS, NULL) == 1 ? CP_FERMION
+                                                                        : CP_BOSON;
+}
+
+static void push_fermi(lua_State *L, const cp_thermo_fermi_result *r)
+{
+    lua_createtable(L, 0, 10);
+    cpl_set_number(L, "temperature", r->temperature);
+    cpl_set_number(L, "fermi_temperature", r->fermi_temperature);
+    cpl_set_number(L, "t_over_tf", r->t_over_tf);
+    cpl_set_number(L, "fugacity", r->fugacity);
+    cpl_set_number(L, "log_fugacity", r->log_fugacity);
+    cpl_set_number(L, "chemical_potential", r->chemical_potential);
+    cpl_set_number(L, "energy_per_particle", r->energy_per_particle);
+    cpl_set_number(L, "entropy_per_particle", r->entropy_per_particle);
+    cpl_set_number(L, "peak_density", r->peak_density);
+    cpl_set_number(L, "phase_space_density", r->phase_space_density);
+}
+
+static void push_bose(lua_State *L, const cp_thermo_bose_result *r)
+{
+    lua_createtable(L, 0, 11);
+    cpl_set_number(L, "temperature", r->temperature);
+    cpl_set_number(L, "critical_temperature", r->critical_temperature);
+    cpl_set_number(L, "t_over_tc", r->t_over_tc);
+    cpl_set_number(L, "condensed_fraction", r->condensed_fraction);
+    cpl_set_number(L, "fugacity", r->fugacity);
+    cpl_set_number(L, "chemical_potential", r->chemical_potential);
+    cpl_set_number(L, "energy_per_particle", r->energy_per_particle);
+    cpl_set_number(L, "entropy_per_particle", r->entropy_per_particle);
+    cpl_set_number(L, "peak_density", r->peak_density);
+    cpl_set_number(L, "phase_space_density", r->phase_space_density);
+    cpl_set_number(L, "condensate_peak_density", r->condensate_peak_density);
+}
+
+/* Exactly one of `temperature` and `alt` (t_over_tf / t_over_tc) must be given; returns 1
+ * when the temperature was given. */
+static int temperature_or(lua_State *L, const char *fname, const char *alt, double *value)
+{
+    int has_t = cpl_has(L, 1, "temperature"), has_alt = cpl_has(L, 1, alt);
+    if (has_t == has_alt)
+        cpl_error(L, fname, "give exactly one of 'temperature' (K) and '%s'", alt);
+    *value = has_t ? cpl_number(L, 1, fname, "temperature", "K") : cpl_number(L, 1, fname, alt, "");
+    return has_t;
+}
+
+static int l_fermi(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "temperature", "t_over_tf", NULL};
+    const char *fname = "thermo.fermi";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    double v;
+    int by_t = temperature_or(L, fname, "t_over_tf", &v);
+    cp_thermo_fermi_result r;
+    cp_error err;
+    cp_status st = by_t ? cp_thermo_fermi(&trap, v, &r, &err) : cp_thermo_fermi_at(&trap, v, &r, &err);
+    if (st != CP_OK)
+        return cpl_raise(L, &err);
+    push_fermi(L, &r);
+    return 1;
+}
+
+static int l_bose(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "temperature", "t_over_tc", NULL};
+    const char *fname = "thermo.bose";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    double v;
+    int by_t = temperature_or(L, fname, "t_over_tc", &v);
+    cp_thermo_bose_result r;
+    cp_error err;
+    cp_status st = by_t ? cp_thermo_bose(&trap, v, &r, &err) : cp_thermo_bose_at(&trap, v, &r, &err);
+    if (st != CP_OK)
+        return cpl_raise(L, &err);
+    push_bose(L, &r);
+    return 1;
+}
+
+/* The state of the gas (fermi or bose table) at temperature T pushed onto the stack. */
+static void push_state(lua_State *L, const cp_thermo_trap *trap, cp_statistics stat, double t)
+{
+    cp_error err;
+    if (stat == CP_FERMION) {
+        cp_thermo_fermi_result r;
+        if (cp_thermo_fermi(trap, t, &r, &err) != CP_OK)
+            cpl_raise(L, &err);
+        push_fermi(L, &r);
+    } else {
+        cp_thermo_bose_result r;
+        if (cp_thermo_bose(trap, t, &r, &err) != CP_OK)
+            cpl_raise(L, &err);
+        push_bose(L, &r);
+    }
+}
+
+static int l_temperature_from_entropy(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "statistics", "entropy_per_particle", NULL};
+    const char *fname = "thermo.temperature_from_entropy";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    cp_statistics stat = read_statistics(L, fname);
+    double s = cpl_number(L, 1, fname, "entropy_per_particle", "k_B");
+    double t;
+    cp_error err;
+    if (cp_thermo_temperature_from_entropy(&trap, stat, s, &t, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    push_state(L, &trap, stat, t);
+    return 1;
+}
+
+static int l_density(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "statistics", "temperature", "x", "y", "z",
+                                       NULL};
+    const char *fname = "thermo.density";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    cp_statistics stat = read_statistics(L, fname);
+    double t = cpl_number(L, 1, fname, "temperature", "K");
+    double r[3] = {cpl_opt_number(L, 1, fname, "x", "m", 0.0),
+                   cpl_opt_number(L, 1, fname, "y", "m", 0.0),
+                   cpl_opt_number(L, 1, fname, "z", "m", 0.0)};
+    cp_thermo_density_result d;
+    cp_error err;
+    if (cp_thermo_density(&trap, stat, t, r, &d, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 3);
+    cpl_set_number(L, "density", d.density);
+    cpl_set_number(L, "thermal_density", d.thermal_density);
+    cpl_set_number(L, "condensate_density", d.condensate_density);
+    return 1;
+}
+
+static int l_tof(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "statistics", "temperature", "time", NULL};
+    const char *fname = "thermo.tof";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    cp_statistics stat = read_statistics(L, fname);
+    double t = cpl_number(L, 1, fname, "temperature", "K");
+    double time = cpl_number(L, 1, fname, "time", "s");
+    cp_thermo_tof_result r;
+    cp_error err;
+    if (cp_thermo_tof(&trap, stat, t, time, &r, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 4);
+    cpl_push_array(L, r.sigma_trap, 3);
+    lua_setfield(L, -2, "sigma_trap");
+    cpl_push_array(L, r.sigma_tof, 3);
+    lua_setfield(L, -2, "sigma_tof");
+    if (!isnan(r.condensate_sigma_trap[0])) {
+        cpl_push_array(L, r.condensate_sigma_trap, 3);
+        lua_setfield(L, -2, "condensate_sigma_trap");
+        cpl_push_array(L, r.condensate_sigma_tof, 3);
+        lua_setfield(L, -2, "condensate_sigma_tof");
+    }
+    return 1;
+}
+
+static int l_match_harmonic(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "statistics", "temperature", "omega_bar_to",
+                                       "omega_x_to", "omega_y_to", "omega_z_to", NULL};
+    static const char *const axes[3] = {"omega_x_to", "omega_y_to", "omega_z_to"};
+    const char *fname = "thermo.match_harmonic";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    cp_statistics stat = read_statistics(L, fname);
+    double t = cpl_number(L, 1, fname, "temperature", "K");
+    double to[3];
+    int n_axes = cpl_has(L, 1, axes[0]) + cpl_has(L, 1, axes[1]) + cpl_has(L, 1, axes[2]);
+    if (cpl_has(L, 1, "omega_bar_to") == (n_axes > 0) || (n_axes != 0 && n_axes != 3))
+        cpl_error(L, fname, "give either 'omega_bar_to' or all three of 'omega_x_to', "
+                            "'omega_y_to', 'omega_z_to' (rad/s)");
+    if (n_axes == 0)
+        to[0] = to[1] = to[2] = cpl_number(L, 1, fname, "omega_bar_to", "rad/s");
+    else
+        for (int i = 0; i < 3; i++)
+            to[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
+    double t_to;
+    cp_error err;
+    if (cp_thermo_match_harmonic(&trap, stat, t, to, &t_to, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    for (int i = 0; i < 3; i++)
+        trap.omega[i] = to[i];
+    push_state(L, &trap, stat, t_to);
+    return 1;
+}
+
+/* Lattice arguments: depth_er (number or {x, y, z}), wavelength, envelope frequencies,
+ * bands, points, bins.  The band tables live in a userdata left on the stack. */
+#define LATTICE_KEYS                                                                       \
+    "depth_er", "wavelength", "envelope_omega_bar", "envelope_omega_x", "envelope_omega_y", \
+        "envelope_omega_z", "bands", "points", "bins"
+
+static void read_lattice(lua_State *L, const char *fname, double mass, cp_thermo_lattice *lat)
+{
+    static const char *const axes[3] = {"envelope_omega_x", "envelope_omega_y",
+                                        "envelope_omega_z"};
+    double depth[3];
+    if (lua_getfield(L, 1, "depth_er") == LUA_TTABLE) {
+        lua_pop(L, 1);
+        size_t n;
+        double *d = cpl_number_array(L, 1, fname, "depth_er", "E_r", 3, &n);
+        if (n != 3)
+            cpl_error(L, fname, "argument 'depth_er' must be one number or 3 numbers (E_r), "
+                                "got %zu", n);
+        memcpy(depth, d, sizeof depth);
+        lua_pop(L, 1);
+    } else {
+        lua_pop(L, 1);
+        depth[0] = depth[1] = depth[2] = cpl_number(L, 1, fname, "depth_er", "E_r");
+    }
+    double wavelength = cpl_number(L, 1, fname, "wavelength", "m");
+    int n_axes = cpl_has(L, 1, axes[0]) + cpl_has(L, 1, axes[1]) + cpl_has(L, 1, axes[2]);
+    if (cpl_has(L, 1, "envelope_omega_bar") == (n_axes > 0) || (n_axes != 0 && n_axes != 3))
+        cpl_error(L, fname, "give either 'envelope_omega_bar' or all three of "
+                            "'envelope_omega_x', 'envelope_omega_y', 'envelope_omega_z' "
+                            "(rad/s)");
+    for (int i = 0; i < 3; i++)
+        lat->omega_envelope[i] = n_axes ? cpl_number(L, 1, fname, axes[i], "rad/s")
+                                        : cpl_number(L, 1, fname, "envelope_omega_bar", "rad/s");
+    int bands = (int)cpl_opt_integer(L, 1, fname, "bands", 1, 1, 8);
+    int points = (int)cpl_opt_integer(L, 1, fname, "points", 32, 4, 256);
+    lat->bins = (int)cpl_opt_integer(L, 1, fname, "bins", 96, 8, 4096);
+    double *tables = lua_newuserdatauv(L, 3 * (size_t)bands * (size_t)points * sizeof(double), 0);
+    cp_error err;
+    if (cp_thermo_lattice_bands(depth, wavelength, mass, bands, points, tables, lat, &err) !=
+        CP_OK)
+        cpl_raise(L, &err);
+}
+
+static void push_lattice_result(lua_State *L, const cp_thermo_lattice_result *r,
+                                const cp_thermo_lattice *lat, cp_statistics stat)
+{
+    lua_createtable(L, 0, 8);
+    cpl_set_number(L, "temperature", r->temperature);
+    cpl_set_number(L, "temperature_er", 1.380649e-23 * r->temperature / lat->recoil_energy);
+    cpl_set_number(L, "chemical_potential", r->chemical_potential);
+    cpl_set_number(L, "energy_per_particle", r->energy_per_particle);
+    cpl_set_number(L, "entropy_per_particle", r->entropy_per_particle);
+    cpl_set_number(L, "recoil_energy", lat->recoil_energy);
+    if (stat == CP_FERMION)
+        cpl_set_number(L, "peak_filling", r->peak_filling);
+    else
+        cpl_set_number(L, "condensed_fraction", r->condensed_fraction);
+}
+
+static int l_lattice_state(lua_State *L)
+{
+    static const char *const keys[] = {"number", "mass", "statistics", "temperature",
+                                       LATTICE_KEYS, NULL};
+    const char *fname = "thermo.lattice_state";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    double number = cpl_number(L, 1, fname, "number", "");
+    double mass = cpl_number(L, 1, fname, "mass", "kg");
+    cp_thermo_trap_isotropic(&trap, number, 1.0, mass);
+    cp_statistics stat = read_statistics(L, fname);
+    double t = cpl_number(L, 1, fname, "temperature", "K");
+    cp_thermo_lattice lat;
+    read_lattice(L, fname, mass, &lat);
+    cp_thermo_lattice_result r;
+    cp_error err;
+    if (cp_thermo_lattice_state(&lat, &trap, stat, t, &r, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    push_lattice_result(L, &r, &lat, stat);
+    return 1;
+}
+
+static int l_match_lattice(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "statistics", "temperature", LATTICE_KEYS,
+                                       NULL};
+    const char *fname = "thermo.match_lattice";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    cp_statistics stat = read_statistics(L, fname);
+    double t = cpl_number(L, 1, fname, "temperature", "K");
+    cp_thermo_lattice lat;
+    read_lattice(L, fname, trap.mass, &lat);
+    cp_thermo_lattice_result r;
+    cp_error err;
+    if (cp_thermo_match_lattice(&trap, stat, t, &lat, &r, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    push_lattice_result(L, &r, &lat, stat);
+    return 1;
+}
+
+#define TRAP_HELP                                                                          \
+    "  number      N, particles (one internal state)\n"                                    \
+    "  omega_bar   geometric-mean trap frequency, rad/s  (or omega_x, omega_y, omega_z)\n"  \
+    "  mass        particle mass, kg\n"
+
+static const cpl_function functions[] = {
+    {"fermi", l_fermi,
+     "thermo.fermi{number, omega_bar, mass, temperature | t_over_tf}: ideal Fermi gas (one "
+     "component) in a harmonic trap, exact Fermi-Dirac-integral relations.\n" TRAP_HELP
+     "  temperature T, K   or   t_over_tf  T/T_F (the inverse), in [0.002, 1e8]\n"
+     "Returns {temperature (K), fermi_temperature (K), t_over_tf, fugacity, log_fugacity,\n"
+     "  chemical_potential (J), energy_per_particle (J), entropy_per_particle (k_B),\n"
+     "  peak_density (m^-3), phase_space_density}.\n"
+     "Example: cp.thermo.fermi{number = 2e4, omega_bar = 2*math.pi*100, mass = 127*cp.units.amu,"
+     " t_over_tf = 0.3}"},
+    {"bose", l_bose,
+     "thermo.bose{number, omega_bar, mass, temperature | t_over_tc}: ideal Bose gas in a "
+     "harmonic trap (T_c = 0.94 hbar omega_bar N^(1/3) / k_B).\n" TRAP_HELP
+     "  temperature T, K   or   t_over_tc  T/T_c (the inverse), in (0, 1e8]\n"
+     "Returns {temperature, critical_temperature (K), t_over_tc, condensed_fraction, fugacity,\n"
+     "  chemical_potential (J), energy_per_particle (J), entropy_per_particle (k_B),\n"
+     "  peak_density and phase_space_density (of the thermal component below T_c),\n"
+     "  condensate_peak_density (m^-3, ideal gas)}.\n"
+     "Example: cp.thermo.bose{number = 1e4, omega_bar = 2*math.pi*80, mass = 220*cp.units.amu,"
+     " temperature = 50*cp.units.nK}"},
+    {"temperature_from_entropy", l_temperature_from_entropy,
+     "thermo.temperature_from_entropy{number, omega_bar, mass, statistics, "
+     "entropy_per_particle}: the temperature at which the trapped gas has the given entropy "
+     "per particle.\n" TRAP_HELP
+     "  statistics  \"fermion\" or \"boson\"\n"
+     "  entropy_per_particle  S/(N k_B), in (0, 40]\n"
+     "Returns the thermo.fermi or thermo.bose table at that temperature.\n"
+     "Example: cp.thermo.temperature_from_entropy{number = 2e4, omega_bar = 600, mass = "
+     "2.1e-25, statistics = \"fermion\", entropy_per_particle = 2}"},
+    {"density", l_density,
+     "thermo.density{number, omega_bar, mass, statistics, temperature, x = 0, y = 0, z = 0}: "
+     "local density (local-density approximation) at position (x, y, z), m.\n" TRAP_HELP
+     "  statistics \"fermion\" or \"boson\";  temperature, K\n"
+     "Returns {density, thermal_density, condensate_density} in m^-3 (the ideal condensate\n"
+     "  is the oscillator ground state).\n"
+     "Example: cp.thermo.density{number = 2e4, omega_x = 300, omega_y = 300, omega_z = 3000, "
+     "mass = 2.1e-25, statistics = \"fermion\", temperature = 100e-9, z = 1e-6}"},
+    {"tof", l_tof,
+     "thermo.tof{number, omega_bar, mass, statistics, temperature, time}: rms cloud sizes in "
+     "the trap and after a ballistic time of flight `time` (s), no interactions.\n" TRAP_HELP
+     "  statistics \"fermion\" or \"boson\";  temperature, K;  time in [0, 10] s\n"
+     "Returns {sigma_trap = {x, y, z}, sigma_tof = {x, y, z}} in m, plus condensate_sigma_trap\n"
+     "  and condensate_sigma_tof for a Bose gas below T_c.\n"
+     "Example: cp.thermo.tof{number = 2e4, omega_bar = 600, mass = 2.1e-25, statistics = "
+     "\"fermion\", temperature = 100e-9, time = 10e-3}"},
+    {"match_harmonic", l_match_harmonic,
+     "thermo.match_harmonic{number, omega_bar, mass, statistics, temperature, omega_bar_to}: "
+     "the gas after an adiabatic (entropy-conserving) change of the trap frequencies.\n"
+     TRAP_HELP
+     "  statistics \"fermion\" or \"boson\";  temperature (initial), K\n"
+     "  omega_bar_to (or omega_x_to, omega_y_to, omega_z_to): the final trap, rad/s\n"
+     "Returns the thermo.fermi or thermo.bose table in the final trap.\n"
+     "Example: cp.thermo.match_harmonic{number = 2e4, omega_bar = 600, mass = 2.1e-25, "
+     "statistics = \"fermion\", temperature = 100e-9, omega_bar_to = 1200}"},
+    {"lattice_state", l_lattice_state,
+     "thermo.lattice_state{number, mass, statistics, temperature, depth_er, wavelength, "
+     "envelope_omega_bar, bands = 1, points = 32, bins = 96}: ideal gas in a cubic lattice "
+     "(band structure from cp.lattice) with a harmonic envelope (local-density "
+     "approximation).\n"
+     "  number, mass (kg), statistics \"fermion\"|\"boson\", temperature (K)\n"
+     "  depth_er    lattice depth in recoil energies, one number or {x, y, z}\n"
+     "  wavelength  lattice light wavelength, m (spacing lambda/2)\n"
+     "  envelope_omega_bar (or envelope_omega_x, _y, _z): envelope frequencies, rad/s\n"
+     "  bands       bands per axis kept, 1..8;  points: quasimomenta per half zone, 4..256;\n"
+     "  bins        energy bins per band combination, 8..4096\n"
+     "Returns {temperature (K), temperature_er (k_B T / E_r), chemical_potential (J),\n"
+     "  energy_per_particle (J), entropy_per_particle (k_B), recoil_energy (J), peak_filling\n"
+     "  (fermions: per site at the centre) or condensed_fraction (bosons)}; energies from\n"
+     "  the lattice potential minimum.\n"
+     "Example: cp.thermo.lattice_state{number = 2e4, mass = 2.1e-25, statistics = "
+     "\"fermion\", temperature = 50e-9, depth_er = 20, wavelength = 1064e-9, "
+     "envelope_omega_bar = 2*math.pi*60}"},
+    {"match_lattice", l_match_lattice,
+     "thermo.match_lattice{number, omega_bar, mass, statistics, temperature, depth_er, "
+     "wavelength, envelope_omega_bar, bands = 1, points = 32, bins = 96}: entropy matching "
+     "from a harmonic trap into a lattice with a harmonic envelope (adiabatic loading).\n"
+     TRAP_HELP
+     "  statistics, temperature (initial, K), and the lattice arguments of "
+     "thermo.lattice_state\n"
+     "Returns the thermo.lattice_state table at the matched temperature.\n"
+     "Example: cp.thermo.match_lattice{number = 2e4, omega_bar = 2*math.pi*60, mass = "
+     "2.1e-25, statistics = \"fermion\", temperature = 60e-9, depth_er = 20, wavelength = "
+     "1064e-9, envelope_omega_bar = 2*math.pi*60}"},
+    {NULL, NULL, NULL}};
+
+int cpl_open_thermo(lua_State *L)
+{
+    lua_newtable(L);
+    cpl_register(L, functions);
+    return 1;
+}
