@@ -68,6 +68,10 @@ cp_status cp_thermo_fd(int j2, double x, double *value, cp_error *err)
     case 4: status = gsl_sf_fermi_dirac_2_e(x, &r); break;
     default: status = gsl_sf_fermi_dirac_int_e(j2 / 2, x, &r); break;
     }
+    if (status == GSL_EUNDRFLW) { /* far in the classical tail: F_j(x) ~ e^x < DBL_MIN */
+        *value = 0.0;
+        return CP_OK;
+    }
     if (status != GSL_SUCCESS) {
         *value = NAN;
         return cp_fail(err, CP_ENUMERIC, "thermo: Fermi-Dirac integral F_%g(%g) failed: %s",
