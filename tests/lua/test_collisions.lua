@@ -1,0 +1,85 @@
+-- Lua-level tests of cp.collisions through the real coldprep binary: API.md names and
+-- units, checks against outside references, and error messages.
+local T = require "testlib"
+local cp = require "coldprep"
+
+local M = 126.873178694 * cp.units.amu -- 40K87Rb (physics.md §2)
+local mu = M / 2
+
+-- COLL-L1: the l = 1 barrier of a molecule with C6 ~ 16000 a.u. and mass 127 u is near
+-- 24 uK (common practice, no source); E/kB = temperature.
+local b = cp.collisions.pwave_barrier { c6_au = 16000, mass = 127 * cp.units.amu / 2 }
+T.near(b.temperature, 24e-6, 0.03, "p-wave barrier near 24 uK")
+T.near(b.energy / cp.consts.kB, b.temperature, 1e-14, "energy and temperature agree")
+local b2 = cp.collisions.pwave_barrier { c6_au = 16000, mass = 127 * cp.units.amu / 2, l = 2 }
+T.near(b2.energy / b.energy, 3 ^ 1.5, 1e-12, "E_l ~ [l(l+1)]^(3/2) (closed form, physics.md §8)")
+
+-- COLL-L2: abar of KRb ~ 118 a0 (Idziaszek & Julienne, PRL 104, 113202 (2010) [M]).
+local a = cp.collisions.mean_scattering_length { c6_au = 16130, mass = mu }
+T.near(a.abar_a0, 118, 0.01, "KRb abar")
+T.near(a.abar, a.abar_a0 * cp.units.a0, 1e-14, "abar in m and a0")
+
+-- COLL-L3: universal rates: p-wave linear in T, ~0.8e-5 cm^3/s/K for KRb [M]; s-wave
+-- bosons twice distinguishable (g = 2 vs 1); temperature optional for s-wave.
+local kp = cp.collisions.universal_rate { c6_au = 16130, mass = mu, temperature = 1e-6, statistics = "fermion" }
+T.near(kp.rate / 1e-6 * 1e6, 0.8e-5, 0.1, "KRb p-wave beta/T")
+local kb = cp.collisions.universal_rate { c6_au = 16130, mass = mu, statistics = "boson" }
+local kd = cp.collisions.universal_rate { c6_au = 16130, mass = mu, temperature = 1e-6, statistics = "distinguishable" }
+T.near(kb.rate, 2 * kd.rate, 1e-14, "g = 2 for identical bosons")
+T.near(kd.rate, 4 * math.pi * cp.consts.hbar * a.abar / mu, 1e-14, "K_s = 4 pi hbar abar / mu")
+
+-- COLL-L4: hold at fixed T: N(t) = N0 / (1 + N0 K' t) (physics.md §8).
+local w = 2 * math.pi * 100
+local h = cp.collisions.hold { number = 2e4, temperature = 300e-9, omega_bar = w, mass = M,
+  rate = 1e-17, duration = 0.2, anti_evaporation = false, points = 5 }
+local sig = math.sqrt(cp.consts.kB * 300e-9 / (M * w * w))
+local kprime = 1e-17 / (8 * math.pi ^ 1.5 * sig ^ 3)
+T.near(h.number, 2e4 / (1 + 2e4 * kprime * 0.2), 1e-8, "two-body decay at fixed T")
+T.check(#h.times == 5 and h.times[5] == 0.2 and h.numbers[1] == 2e4, "trajectory arrays")
+-- one-body loss N0 e^(-t/tau) and technical heating T0 + rate t (by hand)
+local hh = cp.collisions.hold { number = 2e4, temperature = 300e-9, omega_bar = w, mass = M,
+  duration = 0.2, lifetime = 1, heating_rate = 1e-7 }
+T.near(hh.number, 2e4 * math.exp(-0.2), 1e-9, "one-body loss")
+T.near(hh.temperature, 300e-9 + 0.2e-7, 1e-12, "technical heating")
+
+-- COLL-L5: evaporation without loss follows T ~ N^alpha, alpha = (eta + kappa)/3 - 1
+-- (Ketterle & van Druten 1996 [M]).
+local e = cp.collisions.evaporation { number = 2e4, temperature = 1e-6, omega_bar = 600, mass = M,
+  eta = 8, kappa = 0.6, ratio = 1e12, final_number = 2e3 }
+T.near(e.temperature, 1e-6 * 0.1 ^ ((8.6) / 3 - 1), 1e-6, "lossless evaporation scaling")
+T.check(e.efficiency > 0 and #e.phase_space_densities == 51, "PSD grows; default 51 points")
+
+-- COLL-L6: dipolar cross-section and the collision ratio.
+local x = cp.collisions.dipolar_cross_section { dipole_debye = 0.2, mass = mu, statistics = "fermion" }
+T.near(x.cross_section, 32 * math.pi / 15 * x.dipole_length ^ 2, 1e-14, "sigma_F = 32 pi/15 D^2")
+local r = cp.collisions.collision_ratio { cross_section = x.cross_section, rate = kp.rate, mass = M, temperature = 1e-6 }
+T.check(r.ratio > 0, "collision ratio")
+
+-- COLL-L7: errors.
+T.raises(function() cp.collisions.pwave_barrier { c6au = 16000, mass = mu } end,
+  { "unknown argument 'c6au'", "did you mean 'c6_au'" }, "unknown key")
+T.raises(function() cp.collisions.pwave_barrier { c6_au = -1, mass = mu } end,
+  { "c6_au", "out of range", "a.u." }, "negative C6")
+T.raises(function() cp.collisions.universal_rate { c6_au = 16130, mass = mu, statistics = "fermion" } end,
+  { "missing argument 'temperature'" }, "p-wave needs T")
+T.raises(function() cp.collisions.universal_rate { c6_au = 16130, mass = mu, statistics = "photon" } end,
+  { "statistics", "not one of" }, "bad statistics")
+T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1 / 0, omega_bar = w, mass = M, duration = 1 } end,
+  { "temperature", "finite" }, "infinite temperature")
+T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1e-7, omega_bar = w, mass = M, duration = 1, wave = "d" } end,
+  { "wave" }, "bad wave")
+T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1e-7, omega_bar = w, mass = M, duration = 1, points = 1 } end,
+  { "points" }, "too few points")
+T.raises(function() cp.collisions.evaporation { number = 2e4, temperature = 1e-6, omega_bar = 600, mass = M,
+  eta = 40, ratio = 10, final_number = 2e3 } end, { "eta", "out of range" }, "eta too large")
+T.raises(function() cp.collisions.dipolar_cross_section { dipole_debye = true, mass = mu, statistics = "boson" } end,
+  { "dipole_debye", "must be a number" }, "wrong type")
+
+for k, fn in pairs(cp.collisions) do
+  if type(fn) == "function" then
+    local hlp = cp.get_help(fn)
+    T.check(type(hlp) == "string" and hlp:find("Example", 1, true) ~= nil, "help text for collisions." .. k)
+  end
+end
+
+T.done()
