@@ -96,16 +96,19 @@ cp_status cp_thermo_fermi_solve(double y, double *x_out, cp_error *err)
         x = log(y);
     }
     double ly = log(y);
+    int polish = 0; /* quadratic convergence: one more step after |dx| < 1e-9 reaches the
+                       rounding level without waiting for a step below it */
     for (int it = 0; it < 100; it++) {
         double f2, f1;
         CP_TRY(cp_thermo_fd(4, x, &f2, err));
         CP_TRY(cp_thermo_fd(2, x, &f1, err));
         double dx = -(log(f2) - ly) * f2 / f1;
         x += dx;
-        if (fabs(dx) <= 4e-16 * fmax(1.0, fabs(x))) {
+        if (polish) {
             *x_out = x;
             return CP_OK;
         }
+        polish = fabs(dx) <= 1e-9 * fmax(1.0, fabs(x));
     }
     *x_out = NAN;
     return cp_fail(err, CP_ENOCONV,
