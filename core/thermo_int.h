@@ -1,7 +1,7 @@
 /*
  * Private helpers of the thermo model: the Bose polylogarithm Li_s(z) for 0 <= z <= 1
- * (GSL has none), and the common prefactors of a harmonically trapped ideal gas.  The
- * Fermi side uses GSL's complete Fermi-Dirac integrals, F_j(x) = -Li_{j+1}(-e^x).
+ * (GSL has none), and what the thermo sources share (validation, the Fermi-Dirac
+ * integrals F_j(x) = -Li_{j+1}(-e^x) from GSL, the chemical-potential and Brent solvers).
  * Not installed.
  */
 #ifndef COLDPREP_THERMO_INT_H

@@ -10,8 +10,8 @@
  * and likewise E = A sum w [e f_{3/2} + (3/2) k_BT f_{5/2}], Omega = -k_BT A sum w f_{5/2},
  * S = (E - Omega - mu N)/T.  The 3D band energies (sums over the axes) are histogrammed
  * per band combination into bins that keep their weight and mean energy, so the sums run
- * over a few hundred terms.  Bosons condense into the lowest bin when the thermal
- * population saturates at mu = e_min, the band bottom (the condensate carries no entropy).
+ * over a few hundred terms.  Bosons condense when the thermal population saturates at
+ * mu = e_min, the band bottom (the condensate carries no entropy).
  */
 #include <math.h>
 #include <stdlib.h>
@@ -148,7 +148,6 @@ typedef struct lattice_eval {
     cp_statistics stat;
     double kt, amp; /* k_B T, J; A, particles per unit f_{3/2} */
     const cp_polylog_plan *li32, *li52;
-    double low; /* bosons: the largest allowed x (0: mu at the band bottom) */
 } lattice_eval;
 
 static double f_order(const lattice_eval *ev, int order52, double eta)
@@ -159,10 +158,8 @@ static double f_order(const lattice_eval *ev, int order52, double eta)
             return NAN;
         return v;
     }
-    double z = exp(eta);
-    if (z > 1.0)
-        z = 1.0; /* rounding at the lowest bin */
-    return cp_polylog_bose(order52 ? ev->li52 : ev->li32, z);
+    /* eta <= 0 for bosons: mu never exceeds the band bottom and e_b >= e_min */
+    return cp_polylog_bose(order52 ? ev->li52 : ev->li32, fmin(exp(eta), 1.0));
 }
 
 static double lattice_number(double x, void *p)
@@ -174,7 +171,8 @@ static double lattice_number(double x, void *p)
     return ev->amp * n;
 }
 
-/* Solve N(x) = N for x; bosons that saturate return x = low and the condensed number. */
+/* Solve N(x) = N for x = (mu - e_min)/k_BT; bosons whose thermal population saturates at
+ * x = 0 (mu at the band bottom) return x = 0 and the condensed number n0. */
 static cp_status lattice_solve(const lattice_eval *ev, double number, double *x, double *n0,
                                cp_error *err)
 {
@@ -188,7 +186,7 @@ static cp_status lattice_solve(const lattice_eval *ev, double number, double *x,
     double lo = log(number / (ev->amp * wsum * (ev->stat == CP_BOSON ? 2.62 : 1.0))) - 1.0;
     double hi;
     if (ev->stat == CP_BOSON) {
-        hi = ev->low;
+        hi = 0.0;
         double nmax = lattice_number(hi, (void *)ev);
         if (!isfinite(nmax))
             return cp_fail(err, CP_ENUMERIC, "%s: thermal number not finite", ctx);
@@ -223,10 +221,7 @@ static cp_status lattice_at(const lattice_dos *dos, const cp_thermo_lattice *lat
     double kt = CP_KB * temperature;
     double d3 = lat->spacing * lat->spacing * lat->spacing;
     lattice_eval ev = {dos, stat, kt,
-                       pow(2.0 * CP_PI * kt / (trap->mass * wbar * wbar), 1.5) / d3, li32, li52,
-                       INFINITY};
-    if (stat == CP_BOSON)
-        ev.low = 0.0; /* condensation when mu reaches the band bottom e_min */
+                       pow(2.0 * CP_PI * kt / (trap->mass * wbar * wbar), 1.5) / d3, li32, li52};
     double x, n0;
     CP_TRY(lattice_solve(&ev, trap->number, &x, &n0, err));
     double n = 0.0, e = 0.0, omega = 0.0, fill = 0.0;

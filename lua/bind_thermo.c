@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "args.h"
+#include "coldprep/consts.h"
 #include "coldprep/thermo.h"
 #include "help.h"
 
@@ -295,7 +296,7 @@ static void push_lattice_result(lua_State *L, const cp_thermo_lattice_result *r,
 {
     lua_createtable(L, 0, 8);
     cpl_set_number(L, "temperature", r->temperature);
-    cpl_set_number(L, "temperature_er", 1.380649e-23 * r->temperature / lat->recoil_energy);
+    cpl_set_number(L, "temperature_er", CP_KB * r->temperature / lat->recoil_energy);
     cpl_set_number(L, "chemical_potential", r->chemical_potential);
     cpl_set_number(L, "energy_per_particle", r->energy_per_particle);
     cpl_set_number(L, "entropy_per_particle", r->entropy_per_particle);

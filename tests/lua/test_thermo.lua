@@ -58,9 +58,9 @@ local s0 = math.sqrt(kB * hot.temperature / (m * w * w))
 T.near(tof.sigma_tof[3], s0 * math.sqrt(1 + (w * 5e-3) ^ 2), 1e-4, "classical TOF size")
 T.check(tof.condensate_sigma_tof == nil, "no condensate size for fermions")
 
--- THERMO-L6: lattice matching uses cp.lattice's bands; a deeper lattice at the same
--- entropy (adiabatic loading) gives a colder gas in units of... here only sanity of units
--- and the conserved entropy, which the core tests check against exact limits.
+-- THERMO-L6: lattice matching through the binding (band structure from the lattice
+-- solver): the entropy is conserved and the fermion filling is a probability; the
+-- physics is checked against exact limits in the unit tests (THERMO-11..13).
 local ml = cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, statistics = "fermion",
   temperature = 0.3 * cp.thermo.fermi { number = 2e4, omega_bar = w, mass = m, temperature = 1e-7 }.fermi_temperature,
   depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w }
