@@ -106,7 +106,8 @@ static int l_fermi(lua_State *L)
     int by_t = temperature_or(L, fname, "t_over_tf", &v);
     cp_thermo_fermi_result r;
     cp_error err;
-    cp_status st = by_t ? cp_thermo_fermi(&trap, v, &r, &err) : cp_thermo_fermi_at(&trap, v, &r, &err);
+    cp_status st = by_t ? cp_thermo_fermi(&trap, v, &r, &err)
+                        : cp_thermo_fermi_at(&trap, v, &r, &err);
     if (st != CP_OK)
         return cpl_raise(L, &err);
     push_fermi(L, &r);
@@ -124,7 +125,8 @@ static int l_bose(lua_State *L)
     int by_t = temperature_or(L, fname, "t_over_tc", &v);
     cp_thermo_bose_result r;
     cp_error err;
-    cp_status st = by_t ? cp_thermo_bose(&trap, v, &r, &err) : cp_thermo_bose_at(&trap, v, &r, &err);
+    cp_status st = by_t ? cp_thermo_bose(&trap, v, &r, &err)
+                        : cp_thermo_bose_at(&trap, v, &r, &err);
     if (st != CP_OK)
         return cpl_raise(L, &err);
     push_bose(L, &r);
