@@ -48,8 +48,7 @@ static cp_status check_depth_bands(const char *ctx, double depth_er, int bands, 
     return cp_check_int_range(err, ctx, "bands", bands, 1, CP_LATTICE_MAX_BANDS);
 }
 
-/* Half-width L of the automatic basis (size 2 L + 1); see the file comment. */
-static int auto_half_width(double depth_er, int bands)
+int cp_lattice_auto_half_width(double depth_er, int bands)
 {
     double coupling = 0.25 * depth_er;
     /* E_n(q) <= n^2 + V0 for band n - 1 (free band top plus the largest potential) */
@@ -70,7 +69,7 @@ cp_status cp_lattice_basis_size(double depth_er, int bands, int *basis_size, cp_
 {
     *basis_size = 0;
     CP_TRY(check_depth_bands(CTX_BASIS, depth_er, bands, err));
-    int size = 2 * auto_half_width(depth_er, bands) + 1;
+    int size = 2 * cp_lattice_auto_half_width(depth_er, bands) + 1;
     if (size > CP_LATTICE_MAX_BASIS)
         return cp_fail(err, CP_EINVAL,
                        "%s: depth %.6g E_r with %d bands needs %d plane waves; allowed at "
@@ -105,7 +104,7 @@ static cp_status solve(double depth_er, int bands, int size, size_t nq, const do
     if (!diag)
         return cp_fail(err, CP_ENOMEM, "%s: out of memory for a %d-state basis", ctx, size);
     double *work = diag + size;
-    cp_tridiag t = {size, diag, -0.25 * depth_er};
+    cp_tridiag t = {size, diag, -0.25 * depth_er, -0.25 * depth_er};
     double qprev = NAN, qprev2 = NAN;
     cp_status st = CP_OK;
     for (size_t i = 0; i < nq && st == CP_OK; i++) {

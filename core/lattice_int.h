@@ -8,12 +8,13 @@
 
 #include "coldprep/status.h"
 
-/* A real symmetric tridiagonal matrix with diagonal diag[0..n-1] and every off-diagonal
- * element equal to `off`. */
+/* A real symmetric tridiagonal matrix with diagonal diag[0..n-1], first off-diagonal
+ * element (rows 0 and 1) off_first and every other off-diagonal element equal to off. */
 typedef struct cp_tridiag {
     int n;
     const double *diag;
     double off;
+    double off_first;
 } cp_tridiag;
 
 /* Number of eigenvalues of t strictly below x (Sturm sequence count). */
@@ -36,6 +37,10 @@ void cp_tridiag_vector(const cp_tridiag *t, double lambda, double *v, double *wo
 /* Fill diag[0..n-1] (n = 2 L + 1) with the plane-wave Hamiltonian's diagonal
  * (q + 2 l)^2 + V0/2 for l = -L..L, in E_r; the off-diagonal is -V0/4. */
 void cp_lattice_fill_diagonal(double depth_er, double q, int n, double *diag);
+
+/* Half-width L of the automatic plane-wave basis l = -L..L for the lowest `bands` bands at
+ * depth depth_er (see lattice_bands.c); inputs already validated. */
+int cp_lattice_auto_half_width(double depth_er, int bands);
 
 /* Quasimomentum folded into the first zone and made non-negative: result in [0, 1]. */
 double cp_lattice_fold_q(double q);

@@ -1,6 +1,7 @@
 /*
- * Eigenvalues and eigenvectors of a real symmetric tridiagonal matrix with a constant
- * off-diagonal b, the shape of the lattice Hamiltonian in a plane-wave basis.
+ * Eigenvalues and eigenvectors of a real symmetric tridiagonal matrix whose off-diagonal
+ * is constant, b, except possibly its first element: the shape of the lattice Hamiltonian
+ * in a plane-wave basis (and in its even-parity half at the zone centre).
  *
  * Eigenvalues: the LDL^T factorisation of T - x I, d_1 = a_1 - x,
  * d_i = a_i - x - b^2 / d_{i-1}, has as many negative pivots as T has eigenvalues below x
@@ -25,7 +26,13 @@ enum { MAX_NEWTON = 40, MAX_BISECT = 200 };
  * dstebz does), which keeps b^2 / d finite. */
 static double pivmin(const cp_tridiag *t)
 {
-    return DBL_MIN * fmax(1.0, t->off * t->off) * 1e10;
+    return DBL_MIN * fmax(1.0, fmax(t->off * t->off, t->off_first * t->off_first)) * 1e10;
+}
+
+/* Square of the off-diagonal element between rows i - 1 and i. */
+static double off2(const cp_tridiag *t, int i)
+{
+    return i == 1 ? t->off_first * t->off_first : t->off * t->off;
 }
 
 static double guard(double d, double pmin)
@@ -35,11 +42,11 @@ static double guard(double d, double pmin)
 
 int cp_tridiag_count(const cp_tridiag *t, double x)
 {
-    double b2 = t->off * t->off, pmin = pivmin(t);
+    double pmin = pivmin(t);
     double d = guard(t->diag[0] - x, pmin);
     int count = d < 0;
     for (int i = 1; i < t->n; i++) {
-        d = guard(t->diag[i] - x - b2 / d, pmin);
+        d = guard(t->diag[i] - x - off2(t, i) / d, pmin);
         count += d < 0;
     }
     return count;
@@ -48,13 +55,13 @@ int cp_tridiag_count(const cp_tridiag *t, double x)
 /* Sturm counts at m shifts in one sweep; d: m doubles of scratch. */
 static void count_many(const cp_tridiag *t, int m, const double *x, int *count, double *d)
 {
-    double b2 = t->off * t->off, pmin = pivmin(t);
+    double pmin = pivmin(t);
     for (int j = 0; j < m; j++) {
         d[j] = guard(t->diag[0] - x[j], pmin);
         count[j] = d[j] < 0;
     }
     for (int i = 1; i < t->n; i++) {
-        double a = t->diag[i];
+        double a = t->diag[i], b2 = off2(t, i);
         for (int j = 0; j < m; j++) {
             d[j] = guard(a - x[j] - b2 / d[j], pmin);
             count[j] += d[j] < 0;
@@ -67,7 +74,7 @@ static void count_many(const cp_tridiag *t, int m, const double *x, int *count, 
 static void newton_many(const cp_tridiag *t, int m, const double *x, double *step, double *r,
                         double *dp, double *s)
 {
-    double b2 = t->off * t->off, pmin = pivmin(t);
+    double pmin = pivmin(t);
     for (int j = 0; j < m; j++) {
         double d = guard(t->diag[0] - x[j], pmin);
         r[j] = 1.0 / d;
@@ -75,7 +82,7 @@ static void newton_many(const cp_tridiag *t, int m, const double *x, double *ste
         s[j] = -r[j];
     }
     for (int i = 1; i < t->n; i++) {
-        double a = t->diag[i];
+        double a = t->diag[i], b2 = off2(t, i);
         for (int j = 0; j < m; j++) {
             double d = guard(a - x[j] - b2 * r[j], pmin);
             double dpn = -1.0 + b2 * dp[j] * r[j] * r[j];
@@ -179,7 +186,7 @@ cp_status cp_tridiag_lowest(const cp_tridiag *t, int m, int have_guess, double *
     if (have_guess && refine_guesses(t, m, x, work))
         return CP_OK;
     /* Gershgorin bounds enclose the whole spectrum. */
-    double glo = INFINITY, ghi = -INFINITY, rad = 2.0 * fabs(t->off);
+    double glo = INFINITY, ghi = -INFINITY, rad = 2.0 * fmax(fabs(t->off), fabs(t->off_first));
     for (int i = 0; i < t->n; i++) {
         glo = fmin(glo, t->diag[i] - rad);
         ghi = fmax(ghi, t->diag[i] + rad);
@@ -202,14 +209,14 @@ cp_status cp_tridiag_lowest(const cp_tridiag *t, int m, int have_guess, double *
 void cp_tridiag_vector(const cp_tridiag *t, double lambda, double *v, double *work)
 {
     int n = t->n;
-    double b = t->off, b2 = b * b, pmin = pivmin(t);
+    double pmin = pivmin(t);
     double *dplus = work, *dminus = work + n; /* forward and backward pivots */
     dplus[0] = guard(t->diag[0] - lambda, pmin);
     for (int i = 1; i < n; i++)
-        dplus[i] = guard(t->diag[i] - lambda - b2 / dplus[i - 1], pmin);
+        dplus[i] = guard(t->diag[i] - lambda - off2(t, i) / dplus[i - 1], pmin);
     dminus[n - 1] = guard(t->diag[n - 1] - lambda, pmin);
     for (int i = n - 2; i >= 0; i--)
-        dminus[i] = guard(t->diag[i] - lambda - b2 / dminus[i + 1], pmin);
+        dminus[i] = guard(t->diag[i] - lambda - off2(t, i + 1) / dminus[i + 1], pmin);
     /* gamma_k = dplus_k + dminus_k - (a_k - lambda): the twist index minimises |gamma| */
     int kbest = 0;
     double gbest = INFINITY;
@@ -222,9 +229,9 @@ void cp_tridiag_vector(const cp_tridiag *t, double lambda, double *v, double *wo
     }
     v[kbest] = 1.0;
     for (int i = kbest - 1; i >= 0; i--)
-        v[i] = -b * v[i + 1] / dplus[i];
+        v[i] = -(i == 0 ? t->off_first : t->off) * v[i + 1] / dplus[i];
     for (int i = kbest + 1; i < n; i++)
-        v[i] = -b * v[i - 1] / dminus[i];
+        v[i] = -(i == 1 ? t->off_first : t->off) * v[i - 1] / dminus[i];
     double norm = 0.0, big = 0.0;
     for (int i = 0; i < n; i++) {
         norm += v[i] * v[i];
