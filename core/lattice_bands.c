@@ -218,13 +218,13 @@ static void cosine_moments(const double *e, int n, double out[3])
 cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double *j2_er,
                                 double *mean_er, double *error_er, cp_error *err)
 {
-    enum { N_START = 16, N_MAX = 8192 };
+    enum { N_START = 16, N_MAX = 32768 };
     double *outs[4] = {j1_er, j2_er, mean_er, error_er};
     for (int i = 0; i < 4; i++)
         if (outs[i])
             *outs[i] = NAN;
     CP_TRY(cp_check_range(err, CTX_TUNNEL, "depth", depth_er, "E_r", 0.0,
-                          CP_LATTICE_MAX_DEPTH_ER, CP_LO_OPEN));
+                          CP_LATTICE_MAX_DEPTH_ER, CP_CLOSED));
     CP_TRY(cp_check_int_range(err, CTX_TUNNEL, "band", band, 0, CP_LATTICE_MAX_BANDS - 1));
     int bands = band + 1, size;
     CP_TRY(prepare(CTX_TUNNEL, depth_er, bands, 0, &size, err));
@@ -258,11 +258,11 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
     }
     free(q);
     free(e);
-    if (st == CP_OK && !(change <= 1e-8))
+    if (st == CP_OK && !(change <= 1e-7))
         st = cp_fail(err, CP_ENOCONV,
                      "%s: the Fourier components of band %d at depth %.6g E_r did not settle "
-                     "(last change %.3g E_r): the dispersion has kinks too sharp for the "
-                     "quadrature at depths this shallow; allowed depths above about 0.1 E_r",
+                     "(last change %.3g E_r): the band is too close to its neighbours at this "
+                     "depth for the quadrature; try a deeper lattice",
                      CTX_TUNNEL, band, depth_er, change);
     if (st != CP_OK)
         return st;
@@ -275,6 +275,6 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
     if (mean_er)
         *mean_er = cur[0];
     if (error_er)
-        *error_er = change;
+        *error_er = change + 4e-14 * (1.0 + fabs(cur[0]));
     return CP_OK;
 }

@@ -112,7 +112,7 @@ cp_status cp_lattice_depth(const cp_lattice_beam *beam, double mass,
     r->peak_intensity = i0;
     r->depth = 4.0 * root * u_per_intensity * i0;
     r->well_bottom = -u_per_intensity * i0 * (1 + root) * (1 + root);
-    r->offset = -u_per_intensity * i0 * (1 - root) * (1 - root);
+    r->offset = 0.0 - u_per_intensity * i0 * (1 - root) * (1 - root); /* no -0 */
     r->spacing = lambda / (2.0 * s);
     r->rayleigh_range = CP_PI * w * w / lambda;
     if (mass == 0.0)

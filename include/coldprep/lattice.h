@@ -169,12 +169,16 @@ cp_status cp_lattice_band_summary_compute(double depth_er, cp_lattice_band_summa
  *   E(theta) = E_mean - 2 J1 cos(theta) - 2 J2 cos(2 theta) - ...,
  *   J_m = -(1/pi) integral_0^pi E(theta) cos(m theta) dtheta.
  * J1 > 0 for the lowest band.  Computed with the trapezoidal rule on [0, pi] (spectrally
- * accurate for the smooth periodic E), doubling the points until two estimates agree to
- * 1e-12 E_r; *error_er (may be NULL) receives the last difference as an error estimate.
- *   depth_er in (0, CP_LATTICE_MAX_DEPTH_ER]; band in [0, CP_LATTICE_MAX_BANDS - 1].
+ * accurate for the smooth periodic E), doubling the points (up to 32768) until two
+ * estimates agree to 1e-12 E_r.  *error_er (may be NULL) receives an error estimate: the
+ * last difference plus the rounding floor of the energies, 4e-14 (1 + |E_mean|) E_r, which
+ * exceeds J itself in very deep lattices (band 0 beyond about 200 E_r, where J < 1e-12 E_r;
+ * the asymptotic formula of Zwerger, J. Opt. B 5, S9 (2003) is better there).
+ *   depth_er in [0, CP_LATTICE_MAX_DEPTH_ER]; band in [0, CP_LATTICE_MAX_BANDS - 1].
  * Outputs (E_r): *j1_er nearest, *j2_er next-nearest neighbour (either may be NULL),
  * *mean_er (may be NULL) the band's centre of mass.  CP_ENOCONV if the estimate does not
- * settle to 1e-8 E_r (only for extremely shallow lattices). */
+ * settle to 1e-7 E_r (the kinks of the dispersion sharpen as V0 -> 0; bands 0 to 2 settle
+ * down to 1e-8 E_r). */
 cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double *j2_er,
                                 double *mean_er, double *error_er, cp_error *err);
 

@@ -205,6 +205,11 @@ static void test_tunnelling_free_limit(void **state)
     assert_int_equal(cp_lattice_tunnelling(1e-3, 0, &j1, &j2, NULL, NULL, NULL), CP_OK);
     assert_close(j1, 2 / (CP_PI * CP_PI), 1e-3);
     assert_close(j2, -1 / (2 * CP_PI * CP_PI), 1e-3);
+    double err_est;
+    assert_int_equal(cp_lattice_tunnelling(0.0, 0, &j1, &j2, NULL, &err_est, NULL), CP_OK);
+    assert_close(j1, 2 / (CP_PI * CP_PI), 1e-7); /* the kink at the zone edge limits it */
+    assert_close(j2, -1 / (2 * CP_PI * CP_PI), 1e-7);
+    assert_true(err_est < 1e-7);
     assert_int_equal(cp_lattice_tunnelling(0.1, 1, &j1, &j2, NULL, NULL, NULL), CP_OK);
     assert_close(j1, -6 / (CP_PI * CP_PI), 1e-3);
     assert_close(j2, -1 / (2 * CP_PI * CP_PI), 1e-3);
@@ -250,7 +255,7 @@ static void test_band_bad_input(void **state)
     assert_int_equal(basis, 0);
 
     double j1 = 0, j2 = 0;
-    assert_int_equal(cp_lattice_tunnelling(0.0, 0, &j1, &j2, NULL, NULL, &err), CP_EINVAL);
+    assert_int_equal(cp_lattice_tunnelling(-0.5, 0, &j1, &j2, NULL, NULL, &err), CP_EINVAL);
     assert_true(isnan(j1) && isnan(j2));
     assert_int_equal(cp_lattice_tunnelling(5, -1, &j1, NULL, NULL, NULL, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "band"));
