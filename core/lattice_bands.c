@@ -203,14 +203,14 @@ cp_status cp_lattice_band_summary_compute(double depth_er, cp_lattice_band_summa
     return CP_OK;
 }
 
-/* Trapezoidal rule with N intervals on [0, pi] for the cosine coefficients of order 0, 1
- * and 2 of E(theta), theta = pi q; e holds E at theta_j = pi j / N, j = 0..N. */
-static void cosine_moments(const double *e, int n, double out[3])
+/* Trapezoidal rule with n intervals on [0, pi] for the cosine coefficients of order 0, 1
+ * and 2 of E(theta), theta = pi q; E at theta_j = pi j / n is e[j * stride], j = 0..n. */
+static void cosine_moments(const double *e, int n, int stride, double out[3])
 {
     for (int m = 0; m < 3; m++) {
-        double sum = 0.5 * (e[0] + e[n] * (m % 2 ? -1.0 : 1.0));
+        double sum = 0.5 * (e[0] + e[(size_t)n * stride] * (m % 2 ? -1.0 : 1.0));
         for (int j = 1; j < n; j++)
-            sum += e[j] * cos(m * CP_PI * j / n);
+            sum += e[(size_t)j * stride] * cos(m * CP_PI * j / n);
         out[m] = sum / n;
     }
 }
@@ -225,14 +225,15 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
             *outs[i] = NAN;
     CP_TRY(cp_check_range(err, CTX_TUNNEL, "depth", depth_er, "E_r", 0.0,
                           CP_LATTICE_MAX_DEPTH_ER, CP_CLOSED));
-    CP_TRY(cp_check_int_range(err, CTX_TUNNEL, "band", band, 0, CP_LATTICE_MAX_BANDS - 1));
+    CP_TRY(cp_check_int_range(err, CTX_TUNNEL, "band", band, 0, CP_LATTICE_MAX_TUNNEL_BAND));
     int bands = band + 1, size;
     CP_TRY(prepare(CTX_TUNNEL, depth_er, bands, 0, &size, err));
 
-    /* all N_MAX + 1 abscissae, filled coarse to fine: level N uses every (N_MAX/N)-th */
+    /* E on the finest grid theta_j = pi j / N_MAX, filled coarse to fine: each doubling
+     * computes only the new (odd) points of its level */
     size_t npts = N_MAX + 1;
     double *q = malloc(npts * (1 + (size_t)bands) * sizeof *q);
-    double *e = malloc((npts) * sizeof *e);
+    double *e = malloc(npts * sizeof *e);
     if (!q || !e) {
         free(q);
         free(e);
@@ -242,14 +243,17 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
     double prev[3] = {NAN, NAN, NAN}, cur[3] = {NAN, NAN, NAN}, change = INFINITY;
     cp_status st = CP_OK;
     for (int n = N_START; n <= N_MAX && st == CP_OK; n *= 2) {
-        for (int j = 0; j <= n; j++)
-            q[j] = (double)j / n;
-        st = solve(depth_er, bands, size, (size_t)n + 1, q, energies, err, CTX_TUNNEL);
+        int stride = N_MAX / n, first = n == N_START ? 0 : 1, step = n == N_START ? 1 : 2;
+        size_t nq = 0;
+        for (int j = first; j <= n; j += step)
+            q[nq++] = (double)j / n;
+        st = solve(depth_er, bands, size, nq, q, energies, err, CTX_TUNNEL);
         if (st != CP_OK)
             break;
-        for (int j = 0; j <= n; j++)
-            e[j] = energies[(size_t)j * bands + band];
-        cosine_moments(e, n, cur);
+        nq = 0;
+        for (int j = first; j <= n; j += step)
+            e[(size_t)j * stride] = energies[nq++ * bands + band];
+        cosine_moments(e, n, stride, cur);
         change = fmax(fabs(cur[1] - prev[1]), fabs(cur[2] - prev[2]));
         if (change <= 1e-12)
             break;

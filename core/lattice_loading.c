@@ -26,7 +26,7 @@ static const char *const CTX = "lattice loading";
 
 enum { NEVEN = 3 }; /* bands 0, 2, 4 */
 #define SQRT2 1.41421356237309504880
-#define MAX_SAMPLES 1000000
+#define MAX_SAMPLES 100000
 
 /* integral_0^1 e^{i theta u} du and integral_0^1 u e^{i theta u} du */
 static void filon_weights(double theta, double complex *i0, double complex *i1)

@@ -78,7 +78,7 @@ static int kohn_coefficients(double depth_er, int band, int size, double *coef, 
 cp_status cp_lattice_wannier(double depth_er, int band, double half_range, size_t npoints,
                              double *x_sites, double *w, cp_error *err)
 {
-    if (npoints >= 2 && npoints <= 1000000 && x_sites && w) {
+    if (npoints >= 2 && npoints <= 100000 && x_sites && w) {
         for (size_t i = 0; i < npoints; i++)
             x_sites[i] = w[i] = NAN;
     }
@@ -87,8 +87,8 @@ cp_status cp_lattice_wannier(double depth_er, int band, double half_range, size_
     CP_TRY(cp_check_int_range(err, CTX_WANNIER, "band", band, 0, WANNIER_MAX_BAND));
     CP_TRY(cp_check_range(err, CTX_WANNIER, "half range", half_range, "sites", 0.0, 50.0,
                           CP_LO_OPEN));
-    if (npoints < 2 || npoints > 1000000 || !x_sites || !w)
-        return cp_fail(err, CP_EINVAL, "%s: points %zu is out of range; allowed [2, 1000000]",
+    if (npoints < 2 || npoints > 100000 || !x_sites || !w)
+        return cp_fail(err, CP_EINVAL, "%s: points %zu is out of range; allowed [2, 100000]",
                        CTX_WANNIER, npoints);
     int size;
     CP_TRY(cp_lattice_basis_size(depth_er, band + 1, &size, err));

@@ -17,6 +17,8 @@
 
 int cpl_open_lattice(lua_State *L);
 
+enum { MAX_ENERGIES = 2000000 }; /* quasimomenta x bands in one bands{} call */
+
 /* Scratch array of n doubles owned by a userdata pushed on the stack. */
 static double *scratch(lua_State *L, size_t n)
 {
@@ -187,15 +189,15 @@ static int l_bands(lua_State *L)
         if (cpl_has(L, 1, "points"))
             return cpl_error(L, fname, "give either 'quasimomenta' or 'points', not both");
         q = cpl_number_array(L, 1, fname, "quasimomenta", "k", 1, &nq);
-        if (nq > 1000000)
-            return cpl_error(L, fname, "argument 'quasimomenta' has %zu values; allowed at "
-                             "most 1000000", nq);
     } else {
         nq = (size_t)cpl_opt_integer(L, 1, fname, "points", 51, 1, 1000000);
         q = scratch(L, nq);
         for (size_t i = 0; i < nq; i++)
             q[i] = nq == 1 ? 0.0 : -1.0 + 2.0 * (double)i / (double)(nq - 1);
     }
+    if (nq * (size_t)nb > MAX_ENERGIES)
+        return cpl_error(L, fname, "%zu quasimomenta x %d bands is too many; allowed at most "
+                         "%d energies", nq, nb, MAX_ENERGIES);
     double *e = scratch(L, nq * (size_t)nb);
     int used;
     cp_error err;
@@ -242,7 +244,8 @@ static int l_tunnelling(lua_State *L)
     const char *fname = "lattice.tunnelling";
     cpl_check_args(L, 1, fname, keys);
     double depth = cpl_number(L, 1, fname, "depth_er", "E_r");
-    int band = (int)cpl_opt_integer(L, 1, fname, "band", 1, 1, CP_LATTICE_MAX_BANDS);
+    int band = (int)cpl_opt_integer(L, 1, fname, "band", 1, 1,
+                                    CP_LATTICE_MAX_TUNNEL_BAND + 1);
     double j1, j2, mean, jerr;
     cp_error err;
     if (cp_lattice_tunnelling(depth, band - 1, &j1, &j2, &mean, &jerr, &err) != CP_OK)
@@ -302,7 +305,7 @@ static int l_wannier(lua_State *L)
     double depth = cpl_number(L, 1, fname, "depth_er", "E_r");
     int band = (int)cpl_opt_integer(L, 1, fname, "band", 1, 1, 10);
     double range = cpl_opt_number(L, 1, fname, "range", "sites", 3.0);
-    size_t n = (size_t)cpl_opt_integer(L, 1, fname, "points", 601, 2, 1000000);
+    size_t n = (size_t)cpl_opt_integer(L, 1, fname, "points", 601, 2, 100000);
     double *x = scratch(L, n), *w = scratch(L, n);
     cp_error err;
     if (cp_lattice_wannier(depth, band - 1, range, n, x, w, &err) != CP_OK)
@@ -349,7 +352,8 @@ static int l_heating(lua_State *L)
     cpl_check_args(L, 1, fname, keys);
     double rate;
     if (cpl_has(L, 1, "scattering_rate")) {
-        if (cpl_has(L, 1, "intensity"))
+        if (cpl_has(L, 1, "intensity") || cpl_has(L, 1, "polarizability_imag_au") ||
+            cpl_has(L, 1, "polarizability_imag") || cpl_has(L, 1, "polarizability_imag_hz"))
             return cpl_error(L, fname, "give either 'scattering_rate' or an imaginary "
                              "polarizability with 'intensity', not both");
         rate = cpl_number(L, 1, fname, "scattering_rate", "1/s");
@@ -398,6 +402,15 @@ static void sample_function(lua_State *L, const char *fname, double duration, si
     }
 }
 
+/* Raise an error if any of `keys` is present: they do not apply to this kind of ramp. */
+static void reject_keys(lua_State *L, const char *fname, const char *const keys[],
+                        const char *kind)
+{
+    for (int i = 0; keys[i]; i++)
+        if (cpl_has(L, 1, keys[i]))
+            cpl_error(L, fname, "argument '%s' does not apply to a %s ramp", keys[i], kind);
+}
+
 static int l_loading(lua_State *L)
 {
     static const char *const keys[] = {"shape",    "start_er", "end_er", "duration",
@@ -409,7 +422,7 @@ static int l_loading(lua_State *L)
     cp_lattice_ramp r;
     memset(&r, 0, sizeof r);
     r.shape = (cp_lattice_ramp_shape)cpl_option(L, 1, fname, "shape", shapes, "s-shaped");
-    r.samples = (size_t)cpl_opt_integer(L, 1, fname, "samples", 1000, 2, 1000000);
+    r.samples = (size_t)cpl_opt_integer(L, 1, fname, "samples", 1000, 2, 100000);
     if (cpl_has(L, 1, "recoil")) {
         if (cpl_has(L, 1, "mass") || cpl_has(L, 1, "wavelength"))
             return cpl_error(L, fname, "give either 'recoil' or 'mass' and 'wavelength'");
@@ -421,7 +434,16 @@ static int l_loading(lua_State *L)
         if (cp_lattice_recoil(m, lambda, &r.recoil, NULL, &err) != CP_OK)
             return cpl_raise(L, &err);
     }
+    reject_keys(L, fname, r.shape == CP_RAMP_SAMPLED
+                              ? (const char *const[]){"start_er", "end_er", "time_constant", NULL}
+                              : (const char *const[]){"times", "depths_er", "depth", NULL},
+                shapes[r.shape]);
+    if (r.shape != CP_RAMP_EXPONENTIAL && r.shape != CP_RAMP_SAMPLED)
+        reject_keys(L, fname, (const char *const[]){"time_constant", NULL}, shapes[r.shape]);
     if (r.shape == CP_RAMP_SAMPLED) {
+        if (!cpl_has(L, 1, "depth"))
+            reject_keys(L, fname, (const char *const[]){"duration", "samples", NULL},
+                        "sampled from arrays");
         if (cpl_has(L, 1, "depth")) {
             if (lua_getfield(L, 1, "depth") != LUA_TFUNCTION)
                 return cpl_error(L, fname, "argument 'depth' must be a function of time (s) "
@@ -497,8 +519,9 @@ static const cpl_function functions[] = {
      "lattice.bands{depth_er, bands [, quasimomenta = {...} | points = 51] [, basis = 0]}\n"
      "Band structure of V0 sin^2(kx) with V0 = depth_er E_r (0..1e4): the lowest `bands`\n"
      "bands (1..200) at the given quasimomenta (units of k; zone = [-1, 1]) or at `points`\n"
-     "evenly spaced across the zone.  Energies in E_r from the potential minimum, converged\n"
-     "to 1e-10 E_r with an automatic plane-wave basis (or `basis`, odd).\n"
+     "evenly spaced across the zone (at most 2e6 energies).  Energies in E_r from the\n"
+     "potential minimum, converged to 1e-10 E_r with an automatic plane-wave basis (or\n"
+     "`basis`, odd).\n"
      "Returns {width_er = {...}, gap_er = {...} (gap_er[n]: bands n, n+1), edges_er =\n"
      "{{E(0), E(1)}, ...}, energies_er = {[i] = {band 1, band 2, ...}}, quasimomenta,\n"
      "tunnelling_er (J of band 1: -(1/pi) int_0^pi E cos(theta) dtheta), tunnelling2_er\n"

@@ -29,6 +29,7 @@ extern "C" {
 #define CP_LATTICE_MAX_DEPTH_ER 1.0e4 /* deepest lattice the band solver accepts, E_r */
 #define CP_LATTICE_MAX_BANDS 200      /* most bands one call may ask for */
 #define CP_LATTICE_MAX_BASIS 4001     /* largest plane-wave basis */
+#define CP_LATTICE_MAX_TUNNEL_BAND 19 /* highest band (0-based) for cp_lattice_tunnelling */
 
 /* ---- recoil, depth from laser beams, harmonic envelope ---------------------------------- */
 
@@ -174,7 +175,7 @@ cp_status cp_lattice_band_summary_compute(double depth_er, cp_lattice_band_summa
  * last difference plus the rounding floor of the energies, 4e-14 (1 + |E_mean|) E_r, which
  * exceeds J itself in very deep lattices (band 0 beyond about 200 E_r, where J < 1e-12 E_r;
  * the asymptotic formula of Zwerger, J. Opt. B 5, S9 (2003) is better there).
- *   depth_er in [0, CP_LATTICE_MAX_DEPTH_ER]; band in [0, CP_LATTICE_MAX_BANDS - 1].
+ *   depth_er in [0, CP_LATTICE_MAX_DEPTH_ER]; band in [0, CP_LATTICE_MAX_TUNNEL_BAND].
  * Outputs (E_r): *j1_er nearest, *j2_er next-nearest neighbour (either may be NULL),
  * *mean_er (may be NULL) the band's centre of mass.  CP_ENOCONV if the estimate does not
  * settle to 1e-7 E_r (the kinks of the dispersion sharpen as V0 -> 0; bands 0 to 2 settle
@@ -201,7 +202,7 @@ cp_status cp_lattice_site(double depth_er, double probe_ratio, double *hbar_omeg
  * (psi_q(0) > 0 for even bands, psi_q'(0) > 0 for odd ones) and averaging 128 Bloch
  * functions across the zone (so it is exact for a ring of 128 sites).
  *   depth_er in [0.5, CP_LATTICE_MAX_DEPTH_ER] (shallower ones decay too slowly for the
- *   ring); band in [0, 9]; half_range in (0, 50] sites; npoints in [2, 1000000].
+ *   ring); band in [0, 9]; half_range in (0, 50] sites; npoints in [2, 100000].
  * Outputs: x_sites[npoints] (positions in d), w[npoints] in d^(-1/2), normalised so that
  * integral |w|^2 d(x/d) = 1.  CP_ENUMERIC if the phase convention fails (a Bloch function
  * vanishing at the well centre). */
@@ -250,10 +251,10 @@ typedef struct cp_lattice_ramp {
     double start_er, end_er;  /* Vi, Vf in E_r, [0, 1e4] (analytic shapes) */
     double duration;          /* T, s, (0, 1e4] (analytic shapes) */
     double time_constant;     /* tau, s, > 0 (exponential only) */
-    size_t samples;           /* points at which analytic shapes are evaluated, [2, 1e6] */
+    size_t samples;           /* points at which analytic shapes are evaluated, [2, 1e5] */
     const double *times;      /* sampled: n_sampled strictly increasing times, s */
     const double *depths_er;  /* sampled: n_sampled depths, E_r, [0, 1e4] */
-    size_t n_sampled;         /* sampled: [2, 1e6] */
+    size_t n_sampled;         /* sampled: [2, 1e5] */
     double recoil;            /* E_r, J, (0, 1e-20] */
 } cp_lattice_ramp;
 

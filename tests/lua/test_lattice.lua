@@ -132,6 +132,13 @@ T.raises(function() cp.lattice.loading { shape = "sampled", duration = 1e-3, rec
   depth = function() return 0 / 0 end } end, { "finite" }, "NaN from a depth function")
 T.raises(function() cp.lattice.loading { shape = "sampled", times = { 0, 1 }, depths_er = { 0 },
   recoil = r.energy } end, { "depths_er" }, "mismatched samples")
+T.raises(function() cp.lattice.loading { shape = "linear", end_er = 5, duration = 1e-3,
+  time_constant = 1e-4, recoil = r.energy } end, { "time_constant", "does not apply" },
+  "time constant of a linear ramp")
+T.raises(function() cp.lattice.loading { shape = "sampled", times = { 0, 1 }, depths_er = { 0, 1 },
+  end_er = 3, recoil = r.energy } end, { "end_er", "does not apply" }, "end_er of a sampled ramp")
+T.raises(function() cp.lattice.heating { scattering_rate = 1, polarizability_imag_au = 1,
+  mass = krb, wavelength = 1e-6, depth_er = 5 } end, { "either" }, "rate and polarizability")
 T.raises(function() cp.lattice.wannier { depth_er = 0.1 } end, { "depth", "0.1" }, "shallow Wannier")
 T.raises(function() cp.lattice.heating { scattering_rate = -1, mass = krb, wavelength = 1e-6,
   depth_er = 5 } end, { "scattering rate", "-1" }, "negative scattering rate")
