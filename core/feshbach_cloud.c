@@ -1,0 +1,188 @@
+/*
+ * One cloud in a harmonic trap, in the local-density (semiclassical) approximation: its
+ * validation, its fugacity from the atom number and temperature (ideal Fermi gas: GSL's
+ * complete Fermi–Dirac integral F_2; ideal Bose gas: the Bose function g_3 and the
+ * condensate below T_c; Boltzmann gas in closed form), its phase-space occupation and its
+ * density profile.  Relations: physics.md §7 (Butts & Rokhsar, PRA 55, 4346 (1997);
+ * Dalfovo et al., RMP 71, 463 (1999) [M]).
+ */
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_sf_fermi_dirac.h>
+#include <math.h>
+#include <stdio.h>
+
+#include "check_int.h"
+#include "coldprep/consts.h"
+#include "feshbach_int.h"
+
+#define ZETA3 1.2020569031595942 /* zeta(3) */
+
+double cp_bose_g3(double eta)
+{
+    /* sum_k z^k / k^3; the tail beyond K is below z^K / (2 K^2) (integral bound). */
+    double z = exp(eta), zk = 1.0, sum = 0.0;
+    int k;
+    for (k = 1; k <= 20000; k++) {
+        zk *= z;
+        double term = zk / ((double)k * k * k);
+        sum += term;
+        if (term < 1e-17 * sum)
+            return sum;
+    }
+    return sum + zk / (2.0 * (double)k * k);
+}
+
+/* Bisection for f(eta) = target on [lo, hi] with f increasing; f returns a GSL status. */
+static cp_status solve_eta(int fermi, double target, double lo, double hi, double *eta)
+{
+    for (int it = 0; it < 200 && hi - lo > 1e-14 * (1.0 + fabs(lo)); it++) {
+        double mid = 0.5 * (lo + hi), f;
+        if (fermi) {
+            gsl_sf_result r;
+            if (gsl_sf_fermi_dirac_2_e(mid, &r) != GSL_SUCCESS)
+                return CP_ENUMERIC;
+            f = r.val;
+        } else {
+            f = cp_bose_g3(mid);
+        }
+        if (f < target)
+            lo = mid;
+        else
+            hi = mid;
+    }
+    *eta = 0.5 * (lo + hi);
+    return CP_OK;
+}
+
+cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const char *ctx,
+                           const char *name, unsigned allow_mask, cp_cloud_state *s,
+                           cp_error *err)
+{
+    static const char *const axis[3] = {"omega_x", "omega_y", "omega_z"};
+    char what[64];
+    if (!c)
+        return cp_fail(err, CP_EINVAL, "%s: cloud %s is NULL", ctx, name);
+    if ((unsigned)c->profile > CP_PROFILE_THOMAS_FERMI || !(allow_mask & (1u << c->profile)))
+        return cp_fail(err, CP_EINVAL, "%s: cloud %s profile %d is not supported here", ctx,
+                       name, (int)c->profile);
+    snprintf(what, sizeof what, "%s number", name);
+    CP_TRY(cp_check_range(err, ctx, what, c->number, "", 1.0, 1e10, CP_CLOSED));
+    snprintf(what, sizeof what, "%s mass", name);
+    CP_TRY(cp_feshbach_check_mass(c->mass, ctx, what, err));
+    for (int i = 0; i < 3; i++) {
+        snprintf(what, sizeof what, "%s %s", name, axis[i]);
+        CP_TRY(cp_check_range(err, ctx, what, c->omega[i], "rad/s", 0.0, 2.0 * CP_PI * 1e6,
+                              CP_LO_OPEN));
+    }
+    s->profile = c->profile;
+    s->mass = c->mass;
+    s->number = c->number;
+    s->omega_bar = cbrt(c->omega[0] * c->omega[1] * c->omega[2]);
+    s->sag = -CP_G / (c->omega[2] * c->omega[2]);
+    s->eta = 0.0;
+    s->n_condensed = 0.0;
+    s->mu_tf = 0.0;
+
+    if (c->profile == CP_PROFILE_THOMAS_FERMI) {
+        snprintf(what, sizeof what, "%s scattering_length", name);
+        CP_TRY(cp_check_range(err, ctx, what, c->scattering_length, "m", 0.0, 1e-6,
+                              CP_LO_OPEN));
+        /* mu = (hbar omega_bar / 2) (15 N a / a_ho)^(2/5) (Dalfovo et al. 1999 [M]) */
+        double a_ho = sqrt(CP_HBAR / (c->mass * s->omega_bar));
+        s->mu_tf = 0.5 * CP_HBAR * s->omega_bar *
+                   pow(15.0 * c->number * c->scattering_length / a_ho, 0.4);
+        for (int i = 0; i < 3; i++)
+            s->radius[i] = sqrt(2.0 * s->mu_tf / (c->mass * c->omega[i] * c->omega[i]));
+        s->temperature = temperature;
+        return CP_OK;
+    }
+
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", 0.0, 1e-3, CP_LO_OPEN));
+    s->temperature = temperature;
+    double kt = CP_KB * temperature;
+    for (int i = 0; i < 3; i++) {
+        s->ell[i] = sqrt(kt / (c->mass * c->omega[i] * c->omega[i]));
+        s->theta[i] = kt / (CP_HBAR * c->omega[i]);
+    }
+    /* N = (kT/hbar omega_bar)^3 * {exp(eta), F_2(eta), g_3(e^eta)} (physics.md §7) */
+    double target = c->number * pow(CP_HBAR * s->omega_bar / kt, 3.0);
+    cp_status st = CP_OK;
+    switch (c->profile) {
+    case CP_PROFILE_THERMAL:
+        s->eta = log(target);
+        break;
+    case CP_PROFILE_FERMI: {
+        double lo = fmin(log(target), cbrt(6.0 * target)) - 2.0;
+        double hi = fmax(log(target), cbrt(6.0 * target)) + 2.0;
+        st = solve_eta(1, target, lo, hi, &s->eta);
+        break;
+    }
+    default: /* BOSE */
+        if (target >= ZETA3) {
+            s->eta = 0.0;
+            s->n_condensed = c->number * (1.0 - ZETA3 / target);
+        } else {
+            st = solve_eta(0, target, log(target) - 2.0, 0.0, &s->eta);
+        }
+        break;
+    }
+    if (st != CP_OK)
+        return cp_fail(err, st, "%s: cloud %s: the fugacity could not be computed (GSL "
+                       "Fermi–Dirac integral failed)", ctx, name);
+    return CP_OK;
+}
+
+double cp_cloud_occupation(const cp_cloud_state *s, const double rt[3], const double pt[3])
+{
+    double e = 0.5 * (rt[0] * rt[0] + rt[1] * rt[1] + rt[2] * rt[2] + pt[0] * pt[0] +
+                      pt[1] * pt[1] + pt[2] * pt[2]);
+    switch (s->profile) {
+    case CP_PROFILE_THERMAL:
+        return exp(s->eta - e);
+    case CP_PROFILE_FERMI:
+        return 1.0 / (exp(e - s->eta) + 1.0);
+    case CP_PROFILE_BOSE: {
+        double x = e - s->eta;
+        double f = x > 1e-300 ? 1.0 / expm1(x) : 1e300;
+        if (s->n_condensed > 0.0) {
+            /* Wigner function of the oscillator ground state, times h^3 N0: 8 N0 exp(-...) */
+            double q = 0.0;
+            for (int i = 0; i < 3; i++)
+                q += (rt[i] * rt[i] + pt[i] * pt[i]) * s->theta[i];
+            f += 8.0 * s->n_condensed * exp(-q);
+        }
+        return f;
+    }
+    default:
+        return 0.0;
+    }
+}
+
+double cp_cloud_density(const cp_cloud_state *s, const double r[3], cp_status *status)
+{
+    if (s->profile == CP_PROFILE_THOMAS_FERMI) {
+        double u = 0.0;
+        for (int i = 0; i < 3; i++)
+            u += r[i] * r[i] / (s->radius[i] * s->radius[i]);
+        if (u >= 1.0)
+            return 0.0;
+        /* n = (mu - V) / g = n0 (1 - u), normalised to N: n0 = 15 N / (8 pi Rx Ry Rz) */
+        return 15.0 * s->number / (8.0 * CP_PI * s->radius[0] * s->radius[1] * s->radius[2]) *
+               (1.0 - u);
+    }
+    double v = 0.0; /* V / kT */
+    for (int i = 0; i < 3; i++)
+        v += 0.5 * r[i] * r[i] / (s->ell[i] * s->ell[i]);
+    double vol = pow(2.0 * CP_PI, 1.5) * s->ell[0] * s->ell[1] * s->ell[2];
+    if (s->profile == CP_PROFILE_THERMAL)
+        return s->number / vol * exp(-v);
+    /* FERMI: n = F_{1/2}(eta - V/kT) / lambda^3 with GSL's normalisation of F_{1/2} */
+    double kt = CP_KB * s->temperature;
+    double lambda = CP_H / sqrt(2.0 * CP_PI * s->mass * kt);
+    gsl_sf_result res;
+    if (gsl_sf_fermi_dirac_half_e(s->eta - v, &res) != GSL_SUCCESS) {
+        *status = CP_ENUMERIC;
+        return NAN;
+    }
+    return res.val / (lambda * lambda * lambda);
+}

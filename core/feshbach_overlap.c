@@ -1,0 +1,131 @@
+/*
+ * The overlap density <n_a>_b = (1/N_b) Int n_a n_b d^3r of two clouds in one harmonic
+ * trap, each displaced along z by its own gravitational sag -g/omega_z^2 (physics.md §4.1.6
+ * uses it as the density of the ramp-rate law).  Two Boltzmann clouds: closed form for
+ * displaced Gaussians, <n_a>_b = N_a prod_i [2 pi (s_ai^2 + s_bi^2)]^(-1/2)
+ * exp(-d^2 / (2 (s_az^2 + s_bz^2))).  Any other pair (ideal Fermi gas in LDA, Thomas–Fermi
+ * condensate): nested GSL adaptive Gauss–Kronrod quadrature over the clouds' common support,
+ * using the x -> -x and y -> -y symmetry.
+ */
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_integration.h>
+#include <math.h>
+
+#include "check_int.h"
+#include "coldprep/consts.h"
+#include "feshbach_int.h"
+
+enum { LIMIT = 200 };
+
+typedef struct overlap_ctx {
+    const cp_cloud_state *a, *b;
+    double x, y;             /* current outer coordinates */
+    double zlo, zhi, ymax;
+    gsl_integration_workspace *wy, *wz;
+    cp_status status;
+} overlap_ctx;
+
+/* Half-extent of a cloud along axis i beyond which its density is negligible (< e^-40 of
+ * the peak) or zero. */
+static double extent(const cp_cloud_state *s, int i)
+{
+    switch (s->profile) {
+    case CP_PROFILE_THOMAS_FERMI: return s->radius[i];
+    case CP_PROFILE_FERMI: return s->ell[i] * sqrt(2.0 * (fmax(s->eta, 0.0) + 45.0));
+    default: return s->ell[i] * sqrt(2.0 * 45.0);
+    }
+}
+
+static double integrand_z(double z, void *p)
+{
+    overlap_ctx *c = p;
+    double ra[3] = {c->x, c->y, z - c->a->sag}, rb[3] = {c->x, c->y, z - c->b->sag};
+    return cp_cloud_density(c->a, ra, &c->status) * cp_cloud_density(c->b, rb, &c->status);
+}
+
+static double integrand_y(double y, void *p)
+{
+    overlap_ctx *c = p;
+    gsl_function f = {integrand_z, c};
+    double val, abserr;
+    c->y = y;
+    if (gsl_integration_qag(&f, c->zlo, c->zhi, 0.0, 1e-10, LIMIT, GSL_INTEG_GAUSS21, c->wz,
+                            &val, &abserr) != GSL_SUCCESS)
+        c->status = CP_ENUMERIC;
+    return val;
+}
+
+static double integrand_x(double x, void *p)
+{
+    overlap_ctx *c = p;
+    gsl_function f = {integrand_y, c};
+    double val, abserr;
+    c->x = x;
+    if (gsl_integration_qag(&f, 0.0, c->ymax, 0.0, 1e-9, LIMIT, GSL_INTEG_GAUSS21, c->wy,
+                            &val, &abserr) != GSL_SUCCESS)
+        c->status = CP_ENUMERIC;
+    return val;
+}
+
+cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_state *b,
+                                      double *overlap, cp_error *err)
+{
+    static const char ctx[] = "feshbach overlap_density";
+    *overlap = NAN;
+    cp_init();
+    double xmax = fmin(extent(a, 0), extent(b, 0));
+    double ymax = fmin(extent(a, 1), extent(b, 1));
+    double zlo = fmax(a->sag - extent(a, 2), b->sag - extent(b, 2));
+    double zhi = fmin(a->sag + extent(a, 2), b->sag + extent(b, 2));
+    if (!(zhi > zlo)) { /* disjoint supports (Thomas–Fermi clouds sagged apart) */
+        *overlap = 0.0;
+        return CP_OK;
+    }
+    gsl_integration_workspace *wx = gsl_integration_workspace_alloc(LIMIT);
+    gsl_integration_workspace *wy = gsl_integration_workspace_alloc(LIMIT);
+    gsl_integration_workspace *wz = gsl_integration_workspace_alloc(LIMIT);
+    cp_status st = CP_OK;
+    if (!wx || !wy || !wz) {
+        st = cp_fail(err, CP_ENOMEM, "%s: out of memory for the quadrature workspaces", ctx);
+    } else {
+        overlap_ctx c = {a, b, 0.0, 0.0, zlo, zhi, ymax, wy, wz, CP_OK};
+        gsl_function f = {integrand_x, &c};
+        double val, abserr;
+        int gs = gsl_integration_qag(&f, 0.0, xmax, 0.0, 1e-8, LIMIT, GSL_INTEG_GAUSS21, wx,
+                                     &val, &abserr);
+        if (gs != GSL_SUCCESS || c.status != CP_OK || !isfinite(val))
+            st = cp_fail(err, CP_ENUMERIC, "%s: the overlap quadrature failed (%s)", ctx,
+                         gs != GSL_SUCCESS ? gsl_strerror(gs) : "integrand not finite");
+        else
+            *overlap = 4.0 * val / b->number;
+    }
+    gsl_integration_workspace_free(wx);
+    gsl_integration_workspace_free(wy);
+    gsl_integration_workspace_free(wz);
+    return st;
+}
+
+cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
+                                      double temperature, double *overlap, double *sag,
+                                      cp_error *err)
+{
+    static const char ctx[] = "feshbach overlap_density";
+    const unsigned allowed = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
+                             (1u << CP_PROFILE_THOMAS_FERMI);
+    cp_cloud_state sa, sb;
+    *overlap = *sag = NAN;
+    CP_TRY(cp_cloud_prepare(a, temperature, ctx, "a", allowed, &sa, err));
+    CP_TRY(cp_cloud_prepare(b, temperature, ctx, "b", allowed, &sb, err));
+    double d = sb.sag - sa.sag;
+    if (sa.profile == CP_PROFILE_THERMAL && sb.profile == CP_PROFILE_THERMAL) {
+        double prod = 1.0;
+        for (int i = 0; i < 3; i++)
+            prod *= 2.0 * CP_PI * (sa.ell[i] * sa.ell[i] + sb.ell[i] * sb.ell[i]);
+        double s2z = sa.ell[2] * sa.ell[2] + sb.ell[2] * sb.ell[2];
+        *overlap = sa.number / sqrt(prod) * exp(-d * d / (2.0 * s2z));
+    } else {
+        CP_TRY(cp_feshbach_overlap_numeric(&sa, &sb, overlap, err));
+    }
+    *sag = d;
+    return CP_OK;
+}

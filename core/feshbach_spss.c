@@ -1,0 +1,148 @@
+/*
+ * The phase-space ceiling P_max of magnetoassociation: stochastic phase-space sampling
+ * (SPSS, Hodby et al., PRL 94, 120402 (2005) [M]).  The model pairs an atom of the minority
+ * cloud b with a partner of cloud a when the pair's relative coordinates (r_a - r_b,
+ * p_rel = (m_b p_a - m_a p_b)/M) fall inside one phase-space cell of volume gamma h^3; each
+ * atom is used at most once; P_max is the paired fraction of b.
+ *
+ * Sampling every atom of a real cloud (1e5 atoms in six dimensions) is too slow inside a
+ * sweep, and sampling fewer atoms changes the number of partners per cell.  Since the cell
+ * (one quantum state) is tiny against the cloud, the pairing is local: a b atom at
+ * (r, p_b) sees on average x = gamma (M/m_b)^3 f_a(r, m_a p_b/m_b) partners and
+ * y = gamma (M/m_a)^3 f_b(r, p_b) competing b atoms in its cell, f being the LDA phase-space
+ * occupations (Boltzmann, Fermi–Dirac, Bose–Einstein plus ideal condensate).  Here the
+ * b atoms are drawn by Monte Carlo from their own distribution (GSL Mersenne twister,
+ * deterministic for a given seed) and each contributes the local pairing fraction
+ * g(x, y) = min(1, x/y) (1 - exp(-max(x, y))): it is 1 - e^-x without competition
+ * (Poisson count of partners), x/y when partners are scarce and all are taken, and -> 1 when
+ * both are plentiful.  This local closure is ours (no source); docs/models/feshbach.md
+ * states its limits.
+ */
+#include <gsl/gsl_randist.h>
+#include <gsl/gsl_rng.h>
+#include <math.h>
+#include <stdlib.h>
+
+#include "check_int.h"
+#include "coldprep/consts.h"
+#include "feshbach_int.h"
+
+enum { GRID = 8192 };
+
+double cp_spss_local_pairing(double x, double y)
+{
+    if (!(x > 0.0))
+        return 0.0;
+    if (!(y > 0.0))
+        return -expm1(-x);
+    return fmin(1.0, x / y) * -expm1(-fmax(x, y));
+}
+
+/* Thermal-part occupation of a cloud at scaled energy e. */
+static double thermal_occupation(const cp_cloud_state *s, double e)
+{
+    switch (s->profile) {
+    case CP_PROFILE_THERMAL: return exp(s->eta - e);
+    case CP_PROFILE_FERMI: return 1.0 / (exp(e - s->eta) + 1.0);
+    default: return e - s->eta > 0.0 ? 1.0 / expm1(e - s->eta) : 0.0;
+    }
+}
+
+/* Cumulative distribution of E = (|rt|^2 + |pt|^2)/2 for the thermal part: density
+ * E^2 f(E) (the six-dimensional volume element), trapezoid rule on a uniform grid. */
+static void build_cdf(const cp_cloud_state *s, double emax, double *cdf)
+{
+    double h = emax / (GRID - 1), prev = 0.0;
+    cdf[0] = 0.0;
+    for (int i = 1; i < GRID; i++) {
+        double e = i * h, w = e * e * thermal_occupation(s, e);
+        cdf[i] = cdf[i - 1] + 0.5 * h * (prev + w);
+        prev = w;
+    }
+}
+
+static double sample_energy(const double *cdf, double emax, double u)
+{
+    double target = u * cdf[GRID - 1];
+    int lo = 0, hi = GRID - 1;
+    while (hi - lo > 1) {
+        int mid = (lo + hi) / 2;
+        if (cdf[mid] < target)
+            lo = mid;
+        else
+            hi = mid;
+    }
+    double span = cdf[hi] - cdf[lo], t = span > 0.0 ? (target - cdf[lo]) / span : 0.0;
+    return (lo + t) * emax / (GRID - 1);
+}
+
+cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
+                                     double temperature, const cp_feshbach_spss *opts,
+                                     double *p_max, double *std_error, cp_error *err)
+{
+    static const char ctx[] = "feshbach max_efficiency";
+    const unsigned allowed = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
+                             (1u << CP_PROFILE_BOSE);
+    cp_cloud_state sa, sb;
+    *p_max = *std_error = NAN;
+    if (!opts)
+        return cp_fail(err, CP_EINVAL, "%s: options are NULL", ctx);
+    CP_TRY(cp_check_range(err, ctx, "gamma", opts->gamma, "", 0.0, 100.0, CP_LO_OPEN));
+    CP_TRY(cp_check_int_range(err, ctx, "samples", opts->samples, 100, 10000000));
+    CP_TRY(cp_cloud_prepare(a, temperature, ctx, "a", allowed, &sa, err));
+    CP_TRY(cp_cloud_prepare(b, temperature, ctx, "b", allowed, &sb, err));
+    cp_init();
+
+    double *cdf = malloc(GRID * sizeof *cdf);
+    gsl_rng *rng = gsl_rng_alloc(gsl_rng_mt19937);
+    if (!cdf || !rng) {
+        free(cdf);
+        gsl_rng_free(rng);
+        return cp_fail(err, CP_ENOMEM, "%s: out of memory", ctx);
+    }
+    gsl_rng_set(rng, opts->seed);
+    double emax = fmax(sb.eta, 0.0) + 60.0;
+    build_cdf(&sb, emax, cdf);
+
+    double ma = sa.mass, mb = sb.mass, total = ma + mb;
+    double cx = opts->gamma * pow(total / mb, 3.0), cy = opts->gamma * pow(total / ma, 3.0);
+    double pscale = sqrt(ma / mb), shift = opts->include_sag ? sb.sag - sa.sag : 0.0;
+    double frac_condensed = sb.n_condensed / sb.number;
+    double sum = 0.0, sum2 = 0.0;
+    for (long k = 0; k < opts->samples; k++) {
+        double rt[3], pt[3];
+        if (frac_condensed > 0.0 && gsl_rng_uniform(rng) < frac_condensed) {
+            for (int i = 0; i < 3; i++) {
+                double sd = sqrt(0.5 / sb.theta[i]);
+                rt[i] = gsl_ran_gaussian_ziggurat(rng, sd);
+                pt[i] = gsl_ran_gaussian_ziggurat(rng, sd);
+            }
+        } else {
+            double u[6], norm = 0.0;
+            for (int i = 0; i < 6; i++) {
+                u[i] = gsl_ran_gaussian_ziggurat(rng, 1.0);
+                norm += u[i] * u[i];
+            }
+            double radius = sqrt(2.0 * sample_energy(cdf, emax, gsl_rng_uniform(rng)) / norm);
+            for (int i = 0; i < 3; i++) {
+                rt[i] = u[i] * radius;
+                pt[i] = u[i + 3] * radius;
+            }
+        }
+        double rta[3], pta[3];
+        for (int i = 0; i < 3; i++) {
+            rta[i] = (rt[i] * sb.ell[i] + (i == 2 ? shift : 0.0)) / sa.ell[i];
+            pta[i] = pt[i] * pscale;
+        }
+        double g = cp_spss_local_pairing(cx * cp_cloud_occupation(&sa, rta, pta),
+                                         cy * cp_cloud_occupation(&sb, rt, pt));
+        sum += g;
+        sum2 += g * g;
+    }
+    free(cdf);
+    gsl_rng_free(rng);
+    double n = (double)opts->samples, mean = sum / n;
+    *p_max = mean;
+    *std_error = sqrt(fmax(sum2 / n - mean * mean, 0.0) / (n - 1.0));
+    return CP_OK;
+}
