@@ -62,35 +62,46 @@ const size_t cp_molecule_table_size = sizeof cp_molecule_table / sizeof cp_molec
 
 #define GAUSS 1e-4
 
-/* All resonance parameters are recalled from memory ([M]); verified = 0 throughout. */
+/* All resonance parameters are recalled from memory ([M]); verified = 0 throughout.
+ * c6_au is the atom-atom van der Waals C6 of the entrance pair in atomic units, recalled
+ * ([M]) from the Derevianko/Porsev-type ab initio tables (e.g. A. Derevianko, J. F. Babb,
+ * A. Dalgarno, PRA 63, 052704 (2001)); it sets the mean scattering length abar. */
 const cp_resonance cp_resonance_table[] = {
     {"40K87Rb", "40K |9/2,-9/2> + 87Rb |1,1>", 546.7 * GAUSS, -3.04 * GAUSS, -187.0 * CP_A0,
-     2.3 * CP_MUB, 0,
+     2.3 * CP_MUB, 4274.0, 0,
      "Ni et al., Science 322, 231 (2008); Zirbel et al., PRA 78, 013416 (2008); Klempt et al., "
-     "PRA 76, 020701 (2007) [M]"},
+     "PRA 76, 020701 (2007) [M]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
     {"23Na40K", "23Na |1,1> + 40K |9/2,-5/2>", 138.7 * GAUSS, -1.0 * GAUSS, -700.0 * CP_A0,
-     2.0 * CP_MUB, 0,
+     2.0 * CP_MUB, 2447.0, 0,
      "Park et al., PRA 85, 051602(R) (2012) [M, low confidence: B0 recalled, width, abg and dmu "
-     "are order-of-magnitude recollections]"},
+     "are order-of-magnitude recollections]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
     {"87Rb133Cs", "87Rb |1,1> + 133Cs |3,3>", 197.1 * GAUSS, 0.6 * GAUSS, 650.0 * CP_A0,
-     2.0 * CP_MUB, 0,
-     "Takekoshi et al., PRA 85, 032506 (2012) [M; dmu not recalled, 2 muB assumed]"},
+     2.0 * CP_MUB, 5284.0, 0,
+     "Takekoshi et al., PRA 85, 032506 (2012) [M; dmu not recalled, 2 muB assumed]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
     {"23Na87Rb", "23Na |1,1> + 87Rb |1,1>", 347.6 * GAUSS, 5.0 * GAUSS, 66.0 * CP_A0,
-     2.0 * CP_MUB, 0,
-     "Wang et al., PRA 87, 010701(R) (2013) [M; dmu not recalled, 2 muB assumed]"},
+     2.0 * CP_MUB, 2683.0, 0,
+     "Wang et al., PRA 87, 010701(R) (2013) [M; dmu not recalled, 2 muB assumed]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
     {"23Na133Cs", "23Na |1,1> + 133Cs |3,3>", 864.1 * GAUSS, 1.0 * GAUSS, 30.0 * CP_A0,
-     2.0 * CP_MUB, 0,
+     2.0 * CP_MUB, 3227.0, 0,
      "Ni group (Harvard), 2019-2021 [M, very low confidence: only B0 recalled; width, abg and "
-     "dmu are placeholders to be replaced by the user]"},
+     "dmu are placeholders to be replaced by the user]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
     {"6Li40K", "6Li |1> + 40K |9/2,-9/2>", 155.0 * GAUSS, 0.9 * GAUSS, 63.0 * CP_A0,
-     2.0 * CP_MUB, 0,
-     "Wille et al., PRL 100, 053201 (2008); Voigt et al., PRL 102, 020405 (2009) [M]"},
+     2.0 * CP_MUB, 2322.0, 0,
+     "Wille et al., PRL 100, 053201 (2008); Voigt et al., PRL 102, 020405 (2009) [M]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
     {"6Li133Cs", "6Li |1> + 133Cs |3,3>", 843.0 * GAUSS, -58.0 * GAUSS, -29.0 * CP_A0,
-     2.0 * CP_MUB, 0,
+     2.0 * CP_MUB, 3065.0, 0,
      "Repp et al., PRA 87, 010701(R) (2013); Tung et al., PRA 87, 010702(R) (2013) [M; dmu "
-     "not recalled, 2 muB assumed]"},
+     "not recalled, 2 muB assumed]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
     {"23Na6Li", "23Na |1,1> + 6Li |1>", 745.0 * GAUSS, -0.1 * GAUSS, -76.0 * CP_A0,
-     2.0 * CP_MUB, 0,
-     "Heo et al., PRA 86, 021602(R) (2012) [M; width ~0.1 G recalled, sign set so that abg*width > 0; dmu not recalled, 2 muB assumed]"},
+     2.0 * CP_MUB, 1467.0, 0,
+     "Heo et al., PRA 86, 021602(R) (2012) [M; width ~0.1 G recalled, sign set so that abg*width > 0; dmu not recalled, 2 muB assumed]; "
+     "C6: Derevianko/Porsev-type atom-pair value [M]"},
 };
 const size_t cp_resonance_table_size = sizeof cp_resonance_table / sizeof cp_resonance_table[0];

@@ -35,7 +35,7 @@ static void push_atom(lua_State *L, const cp_atom *a)
 
 static void push_molecule(lua_State *L, const cp_molecule *m)
 {
-    lua_createtable(L, 0, 12);
+    lua_createtable(L, 0, 13);
     cpl_set_string(L, "kind", "molecule");
     cpl_set_string(L, "name", m->name);
     lua_createtable(L, 2, 0);
@@ -45,7 +45,10 @@ static void push_molecule(lua_State *L, const cp_molecule *m)
     lua_rawseti(L, -2, 2);
     lua_setfield(L, -2, "atoms");
     double mass = cp_molecule_mass(m);
+    const cp_atom *a, *b;
     cpl_set_number(L, "mass", mass);
+    if (cp_molecule_atoms(m, &a, &b, NULL) == CP_OK)
+        cpl_set_number(L, "reduced_mass", cp_reduced_mass(cp_atom_mass(a), cp_atom_mass(b)));
     cpl_set_number(L, "mass_u", mass / CP_AMU);
     cpl_set_string(L, "statistics", statistics_name(cp_molecule_statistics(m)));
     cpl_set_number(L, "dipole_debye", m->dipole_debye);
@@ -57,13 +60,14 @@ static void push_molecule(lua_State *L, const cp_molecule *m)
 
 static void push_resonance(lua_State *L, const cp_resonance *r)
 {
-    lua_createtable(L, 0, 8);
+    lua_createtable(L, 0, 9);
     cpl_set_string(L, "molecule", r->molecule);
     cpl_set_string(L, "states", r->states);
     cpl_set_number(L, "b0", r->b0);
     cpl_set_number(L, "width", r->width);
     cpl_set_number(L, "abg", r->abg);
     cpl_set_number(L, "dmu", r->dmu);
+    cpl_set_number(L, "c6_au", r->c6_au);
     cpl_set_boolean(L, "verified", r->verified);
     cpl_set_string(L, "source", r->source);
 }

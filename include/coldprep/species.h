@@ -49,6 +49,7 @@ typedef struct cp_resonance {
     double width;            /* Delta, T (sign as in a(B) = abg (1 - Delta/(B - B0))) */
     double abg;              /* background scattering length, m */
     double dmu;              /* differential magnetic moment of the closed channel, J/T */
+    double c6_au;            /* atom-atom C6 of the entrance pair, atomic units */
     int verified;            /* 0: from memory, verify against the source before use */
     const char *source;
 } cp_resonance;

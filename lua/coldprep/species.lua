@@ -153,6 +153,7 @@ function M.add_molecule(args)
   local m = {
     kind = "molecule", name = args.name, atoms = { a.name, b.name },
     mass = a.mass + b.mass, mass_u = (a.mass + b.mass) / cp.consts.amu,
+    reduced_mass = a.mass * b.mass / (a.mass + b.mass),
     statistics = (a.statistics == b.statistics) and "boson" or "fermion",
     dipole_debye = want_number(fname, args, "dipole_debye", "D", false),
     rot_const_hz = want_number(fname, args, "rot_const_hz", "Hz", true),
@@ -166,7 +167,8 @@ end
 
 function M.add_resonance(args)
   local fname = "species.add_resonance"
-  check_keys(fname, args, { "molecule", "b0", "width", "abg", "dmu", "states", "source" })
+  check_keys(fname, args, { "molecule", "b0", "width", "abg", "dmu", "c6_au", "states",
+    "source" })
   local m = M.molecule(args.molecule)
   local r = {
     molecule = m.name, states = args.states or "user-supplied",
@@ -174,6 +176,7 @@ function M.add_resonance(args)
     width = want_number(fname, args, "width", "T", false),
     abg = want_number(fname, args, "abg", "m", false),
     dmu = want_number(fname, args, "dmu", "J/T", true),
+    c6_au = args.c6_au ~= nil and want_number(fname, args, "c6_au", "a.u.", true) or nil,
     verified = true, source = args.source or "user-supplied",
   }
   if r.width == 0 or r.abg == 0 then
@@ -191,12 +194,13 @@ species.atom(name) -> {kind, name, symbol, protons, mass_number, mass (kg), mass
 Names as "87Rb" or "Rb87" (case-insensitive).  An unknown name is an error listing the
 closest known names.  Example: cp.species.atom("40K").statistics  --> "fermion"]],
   molecule = [[
-species.molecule(name) -> {kind, name, atoms = {a, b}, mass (kg), mass_u, statistics,
+species.molecule(name) -> {kind, name, atoms = {a, b}, mass (kg), mass_u,
+  reduced_mass (kg, of the two atoms), statistics,
   dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.), reactive, source}
 Names as "40K87Rb", "K40Rb87" or "KRb".  Example: cp.species.molecule("NaK").dipole_debye]],
   resonance = [[
 species.resonance(molecule [, index = 1]) -> {molecule, states, b0 (T), width (T),
-  abg (m), dmu (J/T), verified, source}
+  abg (m), dmu (J/T), c6_au (atom-atom C6, a.u.), verified, source}
 The index-th interspecies Feshbach resonance known for the pair (built-in first, then
 user-added).  Built-in values are from memory (verified = false): check them.
 Example: r = cp.species.resonance("KRb"); print(r.b0 / cp.units.G)]],
@@ -210,7 +214,8 @@ species.add_molecule{name, atoms = {a, b}, dipole_debye (D), rot_const_hz (Hz), 
   [, reactive = false, source]}
 Adds a molecule; its mass and statistics follow from its atoms.]],
   add_resonance = [[
-species.add_resonance{molecule, b0 (T), width (T), abg (m), dmu (J/T) [, states, source]}
+species.add_resonance{molecule, b0 (T), width (T), abg (m), dmu (J/T)
+  [, c6_au (atom-atom C6, a.u.), states, source]}
 Adds a Feshbach resonance.  Example: cp.species.add_resonance{molecule = "KRb",
 b0 = 546.62*cp.units.G, width = -3.1*cp.units.G, abg = -189*cp.units.a0, dmu = 2.3*cp.consts.muB}]],
 }
