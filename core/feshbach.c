@@ -240,13 +240,13 @@ cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const 
      * arrays that the compiler can keep in registers (exp dominates the cost). */
     int bad = 0;
     for (size_t i = 0; st == CP_OK && i < n; i++)
-        bad |= !(fabs(rates[i]) > 0.0 && fabs(rates[i]) <= 1e300);
+        bad |= !(fabs(rates[i]) >= 1e-6 && fabs(rates[i]) <= 1e9);
     if (st == CP_OK && bad) {
         size_t i = 0;
-        while (fabs(rates[i]) > 0.0 && fabs(rates[i]) <= 1e300)
+        while (fabs(rates[i]) >= 1e-6 && fabs(rates[i]) <= 1e9)
             i++;
-        st = cp_fail(err, CP_EINVAL, "%s: rates[%zu] = %.6g T/s is not allowed; every ramp "
-                     "rate must be finite and nonzero", ctx, i, rates[i]);
+        st = cp_fail(err, CP_EINVAL, "%s: rates[%zu] %.6g T/s is out of range; allowed "
+                     "1e-06 <= |rate| <= 1e+09 T/s", ctx, i, rates[i]);
     }
     if (st != CP_OK) {
         for (size_t i = 0; efficiency && i < n; i++)

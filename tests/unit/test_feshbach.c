@@ -1,0 +1,654 @@
+/*
+ * Feshbach model: each check compares with something outside the code under test — a
+ * hand-worked formula, GSL special functions, an independent numerical method (GSL ODE
+ * solvers and quadrature), or a published value (named, "[M]" where recalled from memory).
+ * Test ids FB-n.  The last tests feed every argument NaN, +-inf, 0, negative and absurd
+ * values.
+ */
+#include <float.h>
+#include <math.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <string.h>
+
+#include <cmocka.h>
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_integration.h>
+#include <gsl/gsl_odeiv2.h>
+#include <gsl/gsl_sf_gamma.h>
+
+#include "coldprep/consts.h"
+#include "coldprep/feshbach.h"
+#include "coldprep/species.h"
+#include "feshbach_int.h"
+
+#define GAUSS 1e-4
+
+static void assert_rel(double got, double want, double tol)
+{
+    double rel = fabs(got - want) / fabs(want);
+    if (!(rel <= tol))
+        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
+}
+
+static void assert_abs(double got, double want, double tol)
+{
+    if (!(fabs(got - want) <= tol))
+        fail_msg("got %.17g, want %.17g (|diff| %.3g > %.3g)", got, want, fabs(got - want),
+                 tol);
+}
+
+/* 40K |9/2,-9/2> + 87Rb |1,1> at 546.7 G as in the built-in table ([M] values). */
+static cp_feshbach_resonance krb(void)
+{
+    cp_feshbach_resonance r = {546.7 * GAUSS, -3.04 * GAUSS, -187.0 * CP_A0, 2.3 * CP_MUB,
+                               4274.0};
+    return r;
+}
+
+static double mu_krb(void)
+{
+    return cp_reduced_mass(39.963998165 * CP_AMU, 86.909180529 * CP_AMU);
+}
+
+/* FB-1: a(B) = abg (1 - Delta/(B - B0)): zero crossing at B0 + Delta, a = 2 abg at
+ * B0 - Delta, a -> abg far away (hand evaluation of the formula, Chin et al. RMP 82, 1225
+ * (2010) Eq. (1) [M]); the pole is an error, not an infinity. */
+static void test_scattering_length(void **state)
+{
+    (void)state;
+    cp_feshbach_resonance r = krb();
+    double a;
+    cp_error err;
+    assert_int_equal(cp_feshbach_scattering_length(&r, r.b0 + r.width, &a, NULL), CP_OK);
+    assert_abs(a, 0.0, 1e-12 * fabs(r.abg));
+    assert_int_equal(cp_feshbach_scattering_length(&r, r.b0 - r.width, &a, NULL), CP_OK);
+    assert_rel(a, 2.0 * r.abg, 1e-12);
+    assert_int_equal(cp_feshbach_scattering_length(&r, 10.0 * r.b0, &a, NULL), CP_OK);
+    assert_rel(a, r.abg * (1.0 - r.width / (9.0 * r.b0)), 1e-14);
+    /* molecular side B < B0: a large and positive near the pole */
+    assert_int_equal(cp_feshbach_scattering_length(&r, r.b0 - 0.01 * GAUSS, &a, NULL), CP_OK);
+    assert_rel(a, r.abg * (1.0 - r.width / (-0.01 * GAUSS)), 1e-9);
+    assert_true(a > 1e4 * CP_A0);
+    /* exactly at the pole */
+    assert_int_equal(cp_feshbach_scattering_length(&r, r.b0, &a, &err), CP_EINVAL);
+    assert_true(isnan(a));
+    assert_non_null(strstr(err.message, "field"));
+    assert_non_null(strstr(err.message, "b0"));
+}
+
+/* FB-2: mean scattering length.  The prefactor 2 pi / Gamma(1/4)^2 from GSL's gamma
+ * function; published values (Chin et al. RMP 2010 Table I [M]): R_vdW(87Rb) = 82.6 a0 with
+ * C6 = 4698 a.u. (Derevianko et al. [M]), abar = 0.955978 R_vdW (physics.md §4.1.2). */
+static void test_mean_scattering_length(void **state)
+{
+    (void)state;
+    double abar, mu = 86.909180529 * CP_AMU / 2.0, c6 = 4698.0;
+    assert_int_equal(cp_feshbach_mean_scattering_length(c6, mu, &abar, NULL), CP_OK);
+    double g = gsl_sf_gamma(0.25);
+    double want = 2.0 * M_PI / (g * g) * pow(2.0 * mu * c6 * CP_AU_C6 / (CP_HBAR * CP_HBAR),
+                                             0.25);
+    assert_rel(abar, want, 1e-13);
+    assert_rel(abar / 0.955978 / CP_A0, 82.6, 5e-3); /* [M] */
+}
+
+/* FB-3: resonance strength s_res = abar/R* against the values listed in Chin et al. RMP
+ * 2010 Table IV [M]: 6Li 832 G (Delta -300 G, abg -1405 a0, dmu 2.0 muB, s_res 59) and 40K
+ * 202.1 G (Delta 7.8 G, abg 174 a0, dmu 1.68 muB, s_res 2.2); C6 (Li2) 1389, (K2) 3897 a.u.
+ * [M]. */
+static void test_resonance_strength_published(void **state)
+{
+    (void)state;
+    cp_feshbach_binding out;
+    cp_feshbach_resonance li = {832.2 * GAUSS, -300.0 * GAUSS, -1405.0 * CP_A0, 2.0 * CP_MUB,
+                                1389.0};
+    double mli = 6.01512288742 * CP_AMU / 2.0;
+    assert_int_equal(cp_feshbach_binding_energy(&li, mli, 800.0 * GAUSS, CP_FESHBACH_AUTO, &out,
+                                                NULL), CP_OK);
+    assert_rel(out.s_res, 59.0, 0.05);
+    cp_feshbach_resonance k = {202.1 * GAUSS, 7.8 * GAUSS, 174.0 * CP_A0, 1.68 * CP_MUB, 3897.0};
+    double mk = 39.963998165 * CP_AMU / 2.0;
+    assert_int_equal(cp_feshbach_binding_energy(&k, mk, 201.0 * GAUSS, CP_FESHBACH_AUTO, &out,
+                                                NULL), CP_OK);
+    assert_rel(out.s_res, 2.2, 0.05);
+    /* abar of the 40K-87Rb pair: 68.8 a0 (Chin et al. RMP 2010 [M]) */
+    cp_feshbach_resonance r = krb();
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu_krb(), 546.0 * GAUSS, CP_FESHBACH_AUTO,
+                                                &out, NULL), CP_OK);
+    assert_rel(out.abar / CP_A0, 68.8, 0.01);
+}
+
+/* FB-4: binding energy.  Universal form hbar^2/(2 mu a^2) evaluated by hand; the corrected
+ * form converges to it as a >> abar (ratio 1 + 2 abar/a + ...); far from resonance the auto
+ * choice is the closed-channel line dmu |B - B0|; forced models outside their domain and
+ * fields on the atomic side are errors. */
+static void test_binding_energy(void **state)
+{
+    (void)state;
+    cp_feshbach_resonance r = krb();
+    double mu = mu_krb();
+    cp_feshbach_binding u, c;
+    cp_error err;
+    double prev = INFINITY;
+    for (double d = 0.3; d >= 1e-3; d /= 3.0) {
+        double b = r.b0 - d * GAUSS;
+        assert_int_equal(cp_feshbach_binding_energy(&r, mu, b, CP_FESHBACH_UNIVERSAL, &u, NULL),
+                         CP_OK);
+        assert_int_equal(cp_feshbach_binding_energy(&r, mu, b, CP_FESHBACH_CORRECTED, &c, NULL),
+                         CP_OK);
+        double a = r.abg * (1.0 - r.width / (b - r.b0));
+        assert_rel(u.energy, CP_HBAR * CP_HBAR / (2.0 * mu * a * a), 1e-12);
+        assert_int_equal(u.model, CP_FESHBACH_UNIVERSAL);
+        double ratio = c.energy / u.energy - 1.0;
+        /* (a/(a - abar))^2 - 1 = 2 abar/a + 3 (abar/a)^2 + ... */
+        assert_rel(ratio, 2.0 * c.abar / a + 3.0 * pow(c.abar / a, 2), 4.0 * pow(c.abar / a, 2)
+                   / (2.0 * c.abar / a));
+        assert_true(ratio < prev); /* converges to the universal form */
+        prev = ratio;
+    }
+    assert_true(prev < 0.01);
+    /* far below: zero crossing at B0 + Delta = 543.66 G; at 540 G a < 0: linear */
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 540.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.model, CP_FESHBACH_LINEAR);
+    assert_rel(c.energy, r.dmu * 6.7 * GAUSS, 1e-9);
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 540.0 * GAUSS, CP_FESHBACH_UNIVERSAL, &c,
+                                                &err), CP_EINVAL);
+    assert_true(isnan(c.energy));
+    assert_non_null(strstr(err.message, "linear"));
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 547.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "atomic side"));
+    /* near the pole auto is the corrected form */
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 546.6 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.model, CP_FESHBACH_CORRECTED);
+    /* without C6: universal near the pole, corrected refused */
+    r.c6_au = 0.0;
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 546.6 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.model, CP_FESHBACH_UNIVERSAL);
+    assert_true(isnan(c.abar));
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 546.6 * GAUSS, CP_FESHBACH_CORRECTED,
+                                                &c, &err), CP_EINVAL);
+    /* at a = R* (narrow-resonance crossover) the universal and linear forms meet: with the
+     * near-pole a = abg Delta/(B0 - B) both equal 2 mu (abg dmu Delta)^2 / hbar^2 (hand) */
+    cp_feshbach_resonance narrow = {197.1 * GAUSS, 0.0006 * GAUSS, 650.0 * CP_A0, 2.0 * CP_MUB,
+                                    0.0};
+    double m2 = cp_reduced_mass(86.9 * CP_AMU, 132.9 * CP_AMU);
+    double rstar = CP_HBAR * CP_HBAR / (2.0 * m2 * narrow.abg * narrow.dmu * narrow.width);
+    double det = narrow.abg * narrow.width / rstar; /* B0 - B where abg Delta/(B0-B) = R* */
+    cp_feshbach_binding lin;
+    assert_int_equal(cp_feshbach_binding_energy(&narrow, m2, narrow.b0 - det,
+                                                CP_FESHBACH_LINEAR, &lin, NULL), CP_OK);
+    double want = 2.0 * m2 * pow(narrow.abg * narrow.dmu * narrow.width / CP_HBAR, 2);
+    assert_rel(lin.energy, want, 1e-9);
+}
+
+/* Two-level Landau–Zener Hamiltonian (hbar = 1, sweep rate v = 1, coupling g):
+ * H = [[-t/2, g], [g, t/2]]; psi = (c1, c2) as 4 real components. */
+static int lz_rhs(double t, const double y[], double dydt[], void *params)
+{
+    double g = *(const double *)params;
+    /* i dc/dt = H c */
+    double h11 = -0.5 * t, h22 = 0.5 * t;
+    dydt[0] = h11 * y[1] + g * y[3];   /* Re c1' = Im(H c)_1 */
+    dydt[1] = -(h11 * y[0] + g * y[2]);
+    dydt[2] = g * y[1] + h22 * y[3];
+    dydt[3] = -(g * y[0] + h22 * y[2]);
+    return GSL_SUCCESS;
+}
+
+/* Lower adiabatic eigenvector of H at time t. */
+static void lz_lower(double t, double g, double v[2])
+{
+    double e = sqrt(0.25 * t * t + g * g), x = g, y = 0.5 * t - e;
+    double n = sqrt(x * x + y * y);
+    v[0] = x / n;
+    v[1] = y / n;
+}
+
+/* Adiabatic-passage probability after integrating from -T to T. */
+static double lz_numeric(double delta, double T)
+{
+    double g = sqrt(delta), v[2], y[4];
+    lz_lower(-T, g, v);
+    y[0] = v[0];
+    y[1] = 0.0;
+    y[2] = v[1];
+    y[3] = 0.0;
+    gsl_odeiv2_system sys = {lz_rhs, NULL, 4, &g};
+    gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd, 1e-3,
+                                                         1e-13, 1e-13);
+    double t = -T;
+    int st = gsl_odeiv2_driver_apply(d, &t, T, y);
+    gsl_odeiv2_driver_free(d);
+    assert_int_equal(st, GSL_SUCCESS);
+    lz_lower(T, g, v);
+    double re = v[0] * y[0] + v[1] * y[2], im = v[0] * y[1] + v[1] * y[3];
+    return re * re + im * im;
+}
+
+/* FB-5: lz_probability against a direct integration of the two-level LZ Hamiltonian with
+ * GSL's rk8pd (an independent method), delta = g^2/v from 1e-3 to 10, agreement 1e-6.
+ * Finite-window control: the state starts in, and is projected on, the instantaneous
+ * adiabatic eigenstate, so the tails add only the non-adiabatic amplitude ~ g/(v^2 T^3)
+ * (< 1e-7 at T = 300 for g <= sqrt(10)); the test also checks that doubling the window
+ * (T = 150 -> 300) changes the result by less than 1e-6. */
+static void test_lz_ode(void **state)
+{
+    (void)state;
+    const double deltas[] = {1e-3, 1e-2, 0.05, 0.1, 0.3, 1.0, 3.0, 10.0};
+    for (size_t i = 0; i < sizeof deltas / sizeof deltas[0]; i++) {
+        double p, p300 = lz_numeric(deltas[i], 300.0), p150 = lz_numeric(deltas[i], 150.0);
+        assert_int_equal(cp_feshbach_lz_probability(deltas[i], &p, NULL), CP_OK);
+        assert_abs(p, p300, 1e-6);
+        assert_abs(p300, p150, 1e-6);
+    }
+}
+
+/* FB-6: ramp-rate law.  alpha = 4 pi^2 hbar / mu by hand; slow ramp -> P_max; fast ramp ->
+ * P_max alpha n |abg Delta| / |Bdot| (first order of 1 - e^-x); batch = single calls;
+ * a measured alpha overrides theory; only |Bdot| matters. */
+static void test_ramp_law(void **state)
+{
+    (void)state;
+    cp_feshbach_resonance r = krb();
+    double mu = mu_krb(), alpha, eff, delta, eff2, delta2;
+    assert_int_equal(cp_feshbach_alpha(mu, &alpha, NULL), CP_OK);
+    assert_rel(alpha, 4.0 * M_PI * M_PI * 1.054571817e-34 / mu, 1e-9);
+    cp_feshbach_ramp slow = {-1e-6, 1e18, 0.0, 0.8};
+    assert_int_equal(cp_feshbach_associate(&r, mu, &slow, &eff, &delta, NULL), CP_OK);
+    assert_rel(eff, 0.8, 1e-12);
+    cp_feshbach_ramp fast = {1e6, 1e17, 0.0, 0.8};
+    assert_int_equal(cp_feshbach_associate(&r, mu, &fast, &eff, &delta, NULL), CP_OK);
+    double x = alpha * 1e17 * fabs(r.abg * r.width) / 1e6;
+    assert_true(x < 1e-4);
+    assert_rel(eff, 0.8 * x, x);
+    assert_rel(2.0 * M_PI * delta, x, 1e-12);
+    /* sign of the rate does not matter */
+    fast.ramp_rate = -1e6;
+    assert_int_equal(cp_feshbach_associate(&r, mu, &fast, &eff2, &delta2, NULL), CP_OK);
+    assert_rel(eff2, eff, 1e-15);
+    /* measured alpha replaces theory */
+    cp_feshbach_ramp meas = {-100.0, 1e18, 1e-9, 1.0};
+    assert_int_equal(cp_feshbach_associate(&r, mu, &meas, &eff, &delta, NULL), CP_OK);
+    assert_rel(eff, 1.0 - exp(-1e-9 * 1e18 * fabs(r.abg * r.width) / 100.0), 1e-12);
+    /* batch */
+    double rates[7] = {-1e-3, 1e-2, -0.1, 1.0, 10.0, -100.0, 1e4}, out[7];
+    double coef = alpha * 1e18 * fabs(r.abg * r.width);
+    assert_int_equal(cp_feshbach_ramp_law(coef, 0.7, rates, out, 7, NULL), CP_OK);
+    for (int i = 0; i < 7; i++) {
+        cp_feshbach_ramp one = {rates[i], 1e18, 0.0, 0.7};
+        assert_int_equal(cp_feshbach_associate(&r, mu, &one, &eff, &delta, NULL), CP_OK);
+        assert_rel(out[i], eff, 1e-14);
+    }
+}
+
+/* FB-7: two atoms in one harmonic site.  |psi_rel(0)|^2 written independently as the
+ * product of three 1D oscillator ground-state densities sqrt(mu w_i / (pi hbar)), so the
+ * site result equals the bulk law with n = |psi_rel(0)|^2 and the theoretical alpha. */
+static void test_site(void **state)
+{
+    (void)state;
+    cp_feshbach_resonance r = krb();
+    double mu = mu_krb(), w[3] = {2 * M_PI * 40e3, 2 * M_PI * 50e3, 2 * M_PI * 60e3};
+    double eff, delta, eff_b, delta_b;
+    assert_int_equal(cp_feshbach_associate_site(&r, mu, -2e2, w, 0.9, &eff, &delta, NULL),
+                     CP_OK);
+    double psi2 = 1.0;
+    for (int i = 0; i < 3; i++)
+        psi2 *= sqrt(mu * w[i] / (M_PI * CP_HBAR));
+    cp_feshbach_ramp bulk = {-2e2, psi2, 0.0, 0.9};
+    assert_int_equal(cp_feshbach_associate(&r, mu, &bulk, &eff_b, &delta_b, NULL), CP_OK);
+    assert_rel(delta, delta_b, 1e-12);
+    assert_rel(eff, eff_b, 1e-12);
+    assert_true(eff > 0.0 && eff < 0.9);
+}
+
+static cp_feshbach_cloud cloud(cp_feshbach_profile p, double n, double mass_u, double w)
+{
+    cp_feshbach_cloud c = {p, n, mass_u * CP_AMU, {w, w, w}, 0.0};
+    return c;
+}
+
+/* FB-8: overlap density of thermal clouds.  Identical clouds: <n> = n0 / 2^(3/2) with
+ * n0 = N / ((2 pi)^(3/2) sigma^3) (physics.md §8.1).  Different species in one trap: the
+ * sag difference g (1/w_b^2 - 1/w_a^2) and the closed form for displaced Gaussians; the
+ * numerical quadrature (used for degenerate profiles) reproduces the closed form. */
+static void test_overlap_thermal(void **state)
+{
+    (void)state;
+    double t = 300e-9, w = 2 * M_PI * 100.0, n, sag;
+    cp_feshbach_cloud a = cloud(CP_PROFILE_THERMAL, 1e5, 86.909180529, w);
+    assert_int_equal(cp_feshbach_overlap_density(&a, &a, t, &n, &sag, NULL), CP_OK);
+    double s = sqrt(CP_KB * t / (a.mass * w * w));
+    double n0 = 1e5 / (pow(2 * M_PI, 1.5) * s * s * s);
+    assert_rel(n, n0 / pow(2.0, 1.5), 1e-12);
+    assert_abs(sag, 0.0, 1e-20);
+
+    /* 40K in a tighter trap (w_b = 1.3 w; optical trap: w ~ sqrt(1/m)) */
+    cp_feshbach_cloud b = cloud(CP_PROFILE_THERMAL, 3e4, 39.963998165, 1.3 * w);
+    b.omega[0] = 1.1 * w; /* anisotropic */
+    assert_int_equal(cp_feshbach_overlap_density(&a, &b, t, &n, &sag, NULL), CP_OK);
+    double want_sag = -CP_G / (1.69 * w * w) + CP_G / (w * w);
+    assert_rel(sag, want_sag, 1e-12);
+    double prod = 1.0, sa2[3], sb2[3];
+    for (int i = 0; i < 3; i++) {
+        sa2[i] = CP_KB * t / (a.mass * a.omega[i] * a.omega[i]);
+        sb2[i] = CP_KB * t / (b.mass * b.omega[i] * b.omega[i]);
+        prod *= 2 * M_PI * (sa2[i] + sb2[i]);
+    }
+    double want = 1e5 / sqrt(prod) * exp(-want_sag * want_sag / (2 * (sa2[2] + sb2[2])));
+    assert_rel(n, want, 1e-12);
+    /* the sag cuts the overlap: compare with no gravity by hand (exp factor) */
+    assert_true(n < 1e5 / sqrt(prod));
+
+    /* numerical quadrature against the closed form, with sag */
+    cp_cloud_state sa, sb;
+    assert_int_equal(cp_cloud_prepare(&a, t, "test", "a", 1u, &sa, NULL), CP_OK);
+    assert_int_equal(cp_cloud_prepare(&b, t, "test", "b", 1u, &sb, NULL), CP_OK);
+    double num;
+    assert_int_equal(cp_feshbach_overlap_numeric(&sa, &sb, &num, NULL), CP_OK);
+    assert_rel(num, want, 1e-6);
+    /* a weak trap (large sag, 20 Hz): overlap cut by orders of magnitude, still matched */
+    cp_feshbach_cloud a2 = cloud(CP_PROFILE_THERMAL, 1e5, 86.909180529, 2 * M_PI * 20.0);
+    cp_feshbach_cloud b2 = cloud(CP_PROFILE_THERMAL, 1e5, 39.963998165, 2 * M_PI * 26.0);
+    double n_far, n_near;
+    assert_int_equal(cp_feshbach_overlap_density(&a2, &b2, 100e-9, &n_far, &sag, NULL), CP_OK);
+    b2.omega[2] = a2.omega[2]; /* same vertical frequency: no differential sag */
+    assert_int_equal(cp_feshbach_overlap_density(&a2, &b2, 100e-9, &n_near, &sag, NULL), CP_OK);
+    assert_abs(sag, 0.0, 1e-18);
+    assert_true(n_far < 1e-3 * n_near);
+}
+
+/* FB-9: degenerate profiles by quadrature.  Thomas–Fermi self-overlap = (4/7) n0 (hand:
+ * Int (1-u)^2 / Int (1-u) over the unit ball = (8/105)/(2/15)); ideal Fermi gas: the LDA
+ * profile seen by a much broader Gaussian gives N_a n_b(0)/N_b (normalisation through GSL's
+ * F_1/2 vs the F_2 fugacity equation), and at T/T_F = 0.03 the self-overlap approaches the
+ * T = 0 value (4608 / (2835 pi)) n0(T=0), n0 = (2 m E_F / hbar^2)^(3/2) / (6 pi^2) (hand,
+ * Butts & Rokhsar 1997 [M]). */
+static void test_overlap_degenerate(void **state)
+{
+    (void)state;
+    double w = 2 * M_PI * 100.0, n, sag;
+    cp_feshbach_cloud tf = cloud(CP_PROFILE_THOMAS_FERMI, 1e5, 86.909180529, w);
+    tf.scattering_length = 100.0 * CP_A0;
+    tf.omega[2] = 3.0 * w; /* anisotropic */
+    assert_int_equal(cp_feshbach_overlap_density(&tf, &tf, 0.0, &n, &sag, NULL), CP_OK);
+    cp_cloud_state s;
+    assert_int_equal(cp_cloud_prepare(&tf, 0.0, "t", "a", 1u << CP_PROFILE_THOMAS_FERMI, &s,
+                                      NULL), CP_OK);
+    double n0 = 15.0 * 1e5 / (8 * M_PI * s.radius[0] * s.radius[1] * s.radius[2]);
+    assert_rel(n, 4.0 / 7.0 * n0, 1e-6);
+    /* n0 = mu / g (Dalfovo et al. 1999 [M]) */
+    assert_rel(n0, s.mu_tf * tf.mass / (4 * M_PI * CP_HBAR * CP_HBAR * tf.scattering_length),
+               1e-9);
+
+    /* Fermi normalisation: a tight degenerate cloud (2 pi x 5 kHz, T/T_F ~ 0.5) inside a
+     * broad Gaussian (2 pi x 50 Hz) sees n_b at its own centre, displaced by the sag */
+    double t = 10e-6;
+    cp_feshbach_cloud f = cloud(CP_PROFILE_FERMI, 1e5, 39.963998165, 2 * M_PI * 5e3);
+    cp_feshbach_cloud wide = cloud(CP_PROFILE_THERMAL, 1e5, 39.963998165, 2 * M_PI * 50.0);
+    assert_int_equal(cp_feshbach_overlap_density(&f, &wide, t, &n, &sag, NULL), CP_OK);
+    double sb = sqrt(CP_KB * t / (wide.mass * wide.omega[0] * wide.omega[0]));
+    assert_rel(n, 1e5 / (pow(2 * M_PI, 1.5) * sb * sb * sb) * exp(-sag * sag / (2 * sb * sb)),
+               2e-3);
+    assert_true(sag < -0.5 * sb); /* the sag matters here */
+
+    /* Fermi at T/T_F = 0.03 vs T = 0 */
+    cp_feshbach_cloud g = cloud(CP_PROFILE_FERMI, 1e5, 39.963998165, w);
+    double ef = CP_HBAR * w * cbrt(6e5);
+    double tt = 0.03 * ef / CP_KB;
+    assert_int_equal(cp_feshbach_overlap_density(&g, &g, tt, &n, &sag, NULL), CP_OK);
+    double n00 = pow(2 * g.mass * ef / (CP_HBAR * CP_HBAR), 1.5) / (6 * M_PI * M_PI);
+    assert_rel(n, 4608.0 / (2835.0 * M_PI) * n00, 1e-2);
+}
+
+/* FB-10: SPSS ceiling.  (a) Classical limit: P_max -> <x> = gamma (M/m_b)^3 <f_a>_b, and
+ * for Boltzmann clouds <f_a>_b = z_a prod_i (1 + c_i^2)^(-1/2) (1 + m_a/m_b)^(-3/2) with
+ * c_i = ell_b,i / ell_a,i (Gaussian integral by hand) — the Monte Carlo agrees within 4
+ * standard errors.  (b) Deeply degenerate two-component Fermi gas of equal masses: every
+ * cell holds on average 8 gamma partners, P_max -> 1 - exp(-8 gamma) (hand, from the
+ * model's Poisson pairing).  (c) Same seed, same result; sag lowers P_max. */
+static void test_spss(void **state)
+{
+    (void)state;
+    double w = 2 * M_PI * 100.0, t = 1e-6, p, se;
+    cp_feshbach_cloud a = cloud(CP_PROFILE_THERMAL, 1e4, 86.909180529, w);
+    cp_feshbach_cloud b = cloud(CP_PROFILE_THERMAL, 1e4, 39.963998165, 1.4 * w);
+    cp_feshbach_spss o = {0.38, 7, 40000, 0};
+    assert_int_equal(cp_feshbach_max_efficiency(&a, &b, t, &o, &p, &se, NULL), CP_OK);
+    double za = 1e4 * pow(CP_HBAR * w / (CP_KB * t), 3.0);
+    double c2 = (a.mass * w * w) / (b.mass * 1.96 * w * w); /* (ell_b/ell_a)^2 */
+    double fa = za * pow(1.0 + c2, -1.5) * pow(1.0 + a.mass / b.mass, -1.5);
+    double x = 0.38 * pow((a.mass + b.mass) / b.mass, 3.0) * fa;
+    assert_true(x < 1e-3);
+    assert_abs(p, x, 4.0 * se);
+    assert_true(se < 0.02 * x);
+
+    cp_feshbach_cloud f = cloud(CP_PROFILE_FERMI, 1e5, 39.963998165, w);
+    double tt = 0.005 * CP_HBAR * w * cbrt(6e5) / CP_KB;
+    o.samples = 20000;
+    assert_int_equal(cp_feshbach_max_efficiency(&f, &f, tt, &o, &p, &se, NULL), CP_OK);
+    assert_rel(p, 1.0 - exp(-8.0 * 0.38), 0.01);
+
+    double p2, se2;
+    assert_int_equal(cp_feshbach_max_efficiency(&f, &f, tt, &o, &p2, &se2, NULL), CP_OK);
+    assert_true(p2 == p && se2 == se);
+    /* sag: 40K and 87Rb in a weak trap */
+    cp_feshbach_cloud rb = cloud(CP_PROFILE_BOSE, 1e5, 86.909180529, 2 * M_PI * 30.0);
+    cp_feshbach_cloud k = cloud(CP_PROFILE_FERMI, 1e5, 39.963998165, 2 * M_PI * 45.0);
+    o.include_sag = 0;
+    assert_int_equal(cp_feshbach_max_efficiency(&rb, &k, 150e-9, &o, &p, &se, NULL), CP_OK);
+    o.include_sag = 1;
+    assert_int_equal(cp_feshbach_max_efficiency(&rb, &k, 150e-9, &o, &p2, &se2, NULL), CP_OK);
+    assert_true(p2 < p - 4.0 * (se + se2));
+}
+
+/* FB-11: local pairing closure limits (hand): no competition 1 - e^-x; scarce partners
+ * x/y; nothing to pair 0. */
+static void test_spss_closure(void **state)
+{
+    (void)state;
+    assert_rel(cp_spss_local_pairing(0.3, 0.0), 1.0 - exp(-0.3), 1e-15);
+    assert_rel(cp_spss_local_pairing(0.01, 50.0), 0.01 / 50.0, 1e-12);
+    assert_abs(cp_spss_local_pairing(0.0, 1.0), 0.0, 0.0);
+    assert_rel(cp_spss_local_pairing(40.0, 40.0), 1.0, 1e-15);
+}
+
+/* Dissociation survival exponent by quadrature of the decay rate Gamma(E)/hbar =
+ * 2 k abg dmu Delta / hbar over the time the state spends above threshold. */
+typedef struct diss {
+    double mu, abgd, rate_e; /* reduced mass, |abg Delta|, dE/dt = dmu |Bdot| (J/s) */
+    double dmu;
+} diss;
+
+static double decay_rate(double e, void *p)
+{
+    const diss *d = p;
+    double k = sqrt(2.0 * d->mu * e) / CP_HBAR;
+    return 2.0 * k * d->abgd * d->dmu / CP_HBAR / d->rate_e; /* per unit energy */
+}
+
+static double survival(double e, void *p)
+{
+    gsl_integration_workspace *w = gsl_integration_workspace_alloc(100);
+    gsl_function f = {decay_rate, p};
+    double val, err;
+    gsl_integration_qags(&f, 0.0, e, 0.0, 1e-12, 100, w, &val, &err);
+    gsl_integration_workspace_free(w);
+    return exp(-val);
+}
+
+/* FB-12: dissociation energy: mean E = Int_0^inf S(E) dE with S from the numerically
+ * integrated decay rate (independent of the closed form eps and Gamma(5/3)). */
+static void test_dissociation(void **state)
+{
+    (void)state;
+    cp_feshbach_resonance r = krb();
+    double mu = mu_krb(), rate = 1e-4 / 1e-3, e, scale; /* 1 G/ms */
+    assert_int_equal(cp_feshbach_dissociation_energy(&r, mu, rate, &e, &scale, NULL), CP_OK);
+    diss d = {mu, fabs(r.abg * r.width), r.dmu * rate, r.dmu};
+    gsl_integration_workspace *w = gsl_integration_workspace_alloc(200);
+    gsl_function f = {survival, &d};
+    double mean, err;
+    assert_int_equal(gsl_integration_qag(&f, 0.0, 30.0 * scale, 0.0, 1e-9, 200, 6, w, &mean,
+                                         &err), GSL_SUCCESS);
+    gsl_integration_workspace_free(w);
+    assert_rel(e, mean, 1e-6);
+    assert_rel(e / scale, gsl_sf_gamma(5.0 / 3.0), 1e-12);
+}
+
+/* FB-13: bad input from C: NaN, +-inf, 0, negative and absurd magnitudes for every
+ * argument; always CP_EINVAL with NaN outputs and a message naming the argument. */
+static void test_bad_input(void **state)
+{
+    (void)state;
+    const double bad_pos[] = {NAN, INFINITY, -INFINITY, 0.0, -1.0, 1e300};
+    const double bad_any[] = {NAN, INFINITY, -INFINITY, 1e300, -1e300};
+    double mu = mu_krb(), out1, out2;
+    cp_error err;
+    cp_feshbach_binding bind;
+    for (size_t i = 0; i < 6; i++) {
+        double v = bad_pos[i];
+        cp_feshbach_resonance r = krb();
+        r.b0 = v;
+        assert_int_equal(cp_feshbach_scattering_length(&r, 0.05, &out1, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "b0"));
+        assert_true(isnan(out1));
+        r = krb();
+        r.dmu = v;
+        assert_int_equal(cp_feshbach_binding_energy(&r, mu, 0.0546, 0, &bind, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "dmu"));
+        assert_true(isnan(bind.energy));
+        r = krb();
+        assert_int_equal(cp_feshbach_scattering_length(&r, v, &out1, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "field"));
+        assert_int_equal(cp_feshbach_binding_energy(&r, v, 0.0546, 0, &bind, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "reduced mass"));
+        /* a negative ramp rate is a downward sweep: only |Bdot| matters */
+        cp_feshbach_ramp ramp = {v, 1e18, 0.0, 1.0};
+        cp_status want = v == -1.0 ? CP_OK : CP_EINVAL;
+        assert_int_equal(cp_feshbach_associate(&r, mu, &ramp, &out1, &out2, &err), want);
+        assert_true(v == -1.0 || (isnan(out1) && isnan(out2) &&
+                                  strstr(err.message, "ramp_rate") != NULL));
+        ramp = (cp_feshbach_ramp){1.0, v, 0.0, 1.0};
+        assert_int_equal(cp_feshbach_associate(&r, mu, &ramp, &out1, &out2, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "density"));
+        ramp = (cp_feshbach_ramp){1.0, 1e18, 0.0, v};
+        assert_int_equal(cp_feshbach_associate(&r, mu, &ramp, &out1, &out2, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "max_efficiency"));
+        if (v != 0.0) { /* alpha 0 means theory */
+            ramp = (cp_feshbach_ramp){1.0, 1e18, v, 1.0};
+            assert_int_equal(cp_feshbach_associate(&r, mu, &ramp, &out1, &out2, &err),
+                             CP_EINVAL);
+            assert_non_null(strstr(err.message, "alpha"));
+            r.c6_au = v;
+            assert_int_equal(cp_feshbach_binding_energy(&r, mu, 0.0546, 0, &bind, &err),
+                             CP_EINVAL);
+            assert_non_null(strstr(err.message, "c6_au"));
+            r = krb();
+        }
+        assert_int_equal(cp_feshbach_mean_scattering_length(v, mu, &out1, &err), CP_EINVAL);
+        assert_int_equal(cp_feshbach_alpha(v, &out1, &err), CP_EINVAL);
+        if (v != 0.0) { /* lz_parameter 0 is allowed */
+            assert_int_equal(cp_feshbach_lz_probability(v, &out1, &err), CP_EINVAL);
+            assert_true(isnan(out1));
+        }
+        double w[3] = {1e5, 1e5, 1e5};
+        w[i % 3] = v;
+        assert_int_equal(cp_feshbach_associate_site(&r, mu, 1.0, w, 1.0, &out1, &out2, &err),
+                         CP_EINVAL);
+        assert_non_null(strstr(err.message, "omega"));
+        assert_int_equal(cp_feshbach_dissociation_energy(&r, mu, v, &out1, &out2, &err), want);
+        assert_true(v == -1.0 || (isnan(out1) && isnan(out2)));
+        double rates[3] = {1.0, v, 2.0}, eff[3];
+        assert_int_equal(cp_feshbach_ramp_law(1.0, 1.0, rates, eff, 3, &err), want);
+        assert_true(v == -1.0 || (isnan(eff[0]) && isnan(eff[2]) &&
+                                  strstr(err.message, "rates[1]") != NULL));
+        assert_int_equal(cp_feshbach_ramp_law(v, 1.0, rates, eff, 3, &err), CP_EINVAL);
+        /* clouds */
+        cp_feshbach_cloud c = cloud(CP_PROFILE_THERMAL, 1e5, 87.0, 600.0), bad = c;
+        bad.number = v;
+        assert_int_equal(cp_feshbach_overlap_density(&c, &bad, 1e-7, &out1, &out2, &err),
+                         CP_EINVAL);
+        assert_non_null(strstr(err.message, "b number"));
+        bad = c;
+        bad.mass = v;
+        assert_int_equal(cp_feshbach_overlap_density(&bad, &c, 1e-7, &out1, &out2, &err),
+                         CP_EINVAL);
+        assert_non_null(strstr(err.message, "a mass"));
+        bad = c;
+        bad.omega[2] = v;
+        assert_int_equal(cp_feshbach_overlap_density(&bad, &c, 1e-7, &out1, &out2, &err),
+                         CP_EINVAL);
+        assert_non_null(strstr(err.message, "omega_z"));
+        assert_int_equal(cp_feshbach_overlap_density(&c, &c, v, &out1, &out2, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "temperature"));
+        cp_feshbach_spss o = {v, 1, 1000, 1};
+        assert_int_equal(cp_feshbach_max_efficiency(&c, &c, 1e-7, &o, &out1, &out2, &err),
+                         CP_EINVAL);
+        assert_non_null(strstr(err.message, "gamma"));
+        assert_true(isnan(out1) && isnan(out2));
+        o.gamma = 0.38;
+        assert_int_equal(cp_feshbach_max_efficiency(&c, &c, v, &o, &out1, &out2, &err),
+                         CP_EINVAL);
+    }
+    for (size_t i = 0; i < 5; i++) {
+        double v = bad_any[i];
+        cp_feshbach_resonance r = krb();
+        r.width = v;
+        assert_int_equal(cp_feshbach_scattering_length(&r, 0.05, &out1, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "width"));
+        r = krb();
+        r.abg = v;
+        assert_int_equal(cp_feshbach_scattering_length(&r, 0.05, &out1, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "abg"));
+    }
+    /* zero width / abg, opposite signs, TF without a scattering length, bad samples */
+    cp_feshbach_resonance r = krb();
+    r.width = 0.0;
+    assert_int_equal(cp_feshbach_scattering_length(&r, 0.05, &out1, &err), CP_EINVAL);
+    r = krb();
+    r.abg = 0.0;
+    assert_int_equal(cp_feshbach_scattering_length(&r, 0.05, &out1, &err), CP_EINVAL);
+    r = krb();
+    r.abg = -r.abg;
+    assert_int_equal(cp_feshbach_scattering_length(&r, 0.05, &out1, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "opposite signs"));
+    cp_feshbach_cloud tf = cloud(CP_PROFILE_THOMAS_FERMI, 1e5, 87.0, 600.0);
+    assert_int_equal(cp_feshbach_overlap_density(&tf, &tf, 0.0, &out1, &out2, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "scattering_length"));
+    assert_int_equal(cp_feshbach_max_efficiency(&tf, &tf, 1e-7,
+                                                &(cp_feshbach_spss){0.38, 1, 1000, 1}, &out1,
+                                                &out2, &err), CP_EINVAL);
+    cp_feshbach_cloud c = cloud(CP_PROFILE_THERMAL, 1e5, 87.0, 600.0);
+    assert_int_equal(cp_feshbach_max_efficiency(&c, &c, 1e-7, &(cp_feshbach_spss){0.38, 1, 10, 1},
+                                                &out1, &out2, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "samples"));
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 0.05, (cp_feshbach_model)7, &bind, &err),
+                     CP_EINVAL);
+}
+
+int main(void)
+{
+    cp_init();
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_scattering_length),
+        cmocka_unit_test(test_mean_scattering_length),
+        cmocka_unit_test(test_resonance_strength_published),
+        cmocka_unit_test(test_binding_energy),
+        cmocka_unit_test(test_lz_ode),
+        cmocka_unit_test(test_ramp_law),
+        cmocka_unit_test(test_site),
+        cmocka_unit_test(test_overlap_thermal),
+        cmocka_unit_test(test_overlap_degenerate),
+        cmocka_unit_test(test_spss),
+        cmocka_unit_test(test_spss_closure),
+        cmocka_unit_test(test_dissociation),
+        cmocka_unit_test(test_bad_input),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}
