@@ -11,5 +11,6 @@
 #include "coldprep/lattice.h"
 #include "coldprep/thermo.h"
 #include "coldprep/collisions.h"
+#include "coldprep/feshbach.h"
 
 #endif
