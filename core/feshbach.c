@@ -236,26 +236,29 @@ cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const 
                             CP_LO_OPEN);
     if (st == CP_OK && n > 0 && (!rates || !efficiency))
         st = cp_fail(err, CP_EINVAL, "%s: rates or efficiency is NULL with n = %zu", ctx, n);
-    /* Validate in one branch-free pass, then evaluate in a tight loop over contiguous
-     * arrays that the compiler can keep in registers (exp dominates the cost). */
-    int bad = 0;
-    for (size_t i = 0; st == CP_OK && i < n; i++)
-        bad |= !(fabs(rates[i]) >= 1e-6 && fabs(rates[i]) <= 1e9);
-    if (st == CP_OK && bad) {
-        size_t i = 0;
-        while (fabs(rates[i]) >= 1e-6 && fabs(rates[i]) <= 1e9)
-            i++;
-        st = cp_fail(err, CP_EINVAL, "%s: rates[%zu] %.6g T/s is out of range; allowed "
-                     "1e-06 <= |rate| <= 1e+09 T/s", ctx, i, rates[i]);
-    }
     if (st != CP_OK) {
         for (size_t i = 0; efficiency && i < n; i++)
             efficiency[i] = NAN;
         return st;
     }
-    for (size_t i = 0; i < n; i++)
-        efficiency[i] = max_efficiency * -expm1(-coefficient / fabs(rates[i]));
-    return CP_OK;
+    /* One tight pass over contiguous arrays: evaluate and validate together (exp dominates
+     * the cost); a bad rate is located and reported afterwards. */
+    int bad = 0;
+    for (size_t i = 0; i < n; i++) {
+        double rate = fabs(rates[i]);
+        bad |= !(rate >= 1e-6 && rate <= 1e9);
+        efficiency[i] = max_efficiency * -expm1(-coefficient / rate);
+    }
+    if (bad) {
+        size_t i = 0;
+        while (fabs(rates[i]) >= 1e-6 && fabs(rates[i]) <= 1e9)
+            i++;
+        st = cp_fail(err, CP_EINVAL, "%s: rates[%zu] %.6g T/s is out of range; allowed "
+                     "1e-06 <= |rate| <= 1e+09 T/s", ctx, i, rates[i]);
+        for (size_t j = 0; j < n; j++)
+            efficiency[j] = NAN;
+    }
+    return st;
 }
 
 cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu,

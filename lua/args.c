@@ -65,11 +65,10 @@ void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const 
         const char *best = NULL;
         size_t best_d = (size_t)-1;
         int found = 0;
-        for (int i = 0; known[i]; i++) {
-            if (strcmp(key, known[i]) == 0) {
-                found = 1;
-                break;
-            }
+        for (int i = 0; known[i] && !found; i++)
+            found = strcmp(key, known[i]) == 0;
+        /* edit distances only for an unknown key: they dominate the cost of a call */
+        for (int i = 0; known[i] && !found; i++) {
             size_t d = edit_distance(key, known[i]);
             if (d < best_d) {
                 best_d = d;

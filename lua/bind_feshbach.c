@@ -56,8 +56,10 @@ static double field_number(lua_State *L, int idx, const char *fname, const char 
     return v;
 }
 
-/* args.resonance -> r; an explicit args.c6_au overrides the resonance's own. */
-static void read_resonance(lua_State *L, const char *fname, cp_feshbach_resonance *r)
+/* args.resonance -> r; with need_c6 the resonance's c6_au (optional) is read too and an
+ * explicit args.c6_au overrides it, else r->c6_au = 0 (not used by the caller). */
+static void read_resonance(lua_State *L, const char *fname, int need_c6,
+                           cp_feshbach_resonance *r)
 {
     int t = lua_getfield(L, 1, "resonance");
     if (t == LUA_TSTRING) {
@@ -72,9 +74,12 @@ static void read_resonance(lua_State *L, const char *fname, cp_feshbach_resonanc
     r->width = field_number(L, -1, fname, "resonance", "width", "T", 1, 0.0);
     r->abg = field_number(L, -1, fname, "resonance", "abg", "m", 1, 0.0);
     r->dmu = field_number(L, -1, fname, "resonance", "dmu", "J/T", 1, 0.0);
-    r->c6_au = field_number(L, -1, fname, "resonance", "c6_au", "a.u.", 0, 0.0);
+    r->c6_au = 0.0;
+    if (need_c6)
+        r->c6_au = field_number(L, -1, fname, "resonance", "c6_au", "a.u.", 0, 0.0);
     lua_pop(L, 1);
-    r->c6_au = cpl_opt_number(L, 1, fname, "c6_au", "a.u.", r->c6_au);
+    if (need_c6)
+        r->c6_au = cpl_opt_number(L, 1, fname, "c6_au", "a.u.", r->c6_au);
 }
 
 /* Mass of an atom given by name or table (field mass). */
@@ -122,7 +127,7 @@ static int l_scattering_length(lua_State *L)
     cp_error err;
     double a;
     cpl_check_args(L, 1, fname, known);
-    read_resonance(L, fname, &r);
+    read_resonance(L, fname, 0, &r);
     if (cp_feshbach_scattering_length(&r, cpl_number(L, 1, fname, "field", "T"), &a, &err))
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 1);
@@ -139,7 +144,7 @@ static int l_binding_energy(lua_State *L)
     cp_feshbach_binding out;
     cp_error err;
     cpl_check_args(L, 1, fname, known);
-    read_resonance(L, fname, &r);
+    read_resonance(L, fname, 1, &r);
     double field = cpl_number(L, 1, fname, "field", "T");
     double mu = read_reduced_mass(L, fname);
     int model = cpl_option(L, 1, fname, "model", models, "auto");
@@ -168,18 +173,18 @@ static int l_associate(lua_State *L)
     cp_error err;
     double eff, delta;
     cpl_check_args(L, 1, fname, known);
-    read_resonance(L, fname, &r);
+    read_resonance(L, fname, 0, &r);
     double mu = read_reduced_mass(L, fname);
     ramp.ramp_rate = cpl_number(L, 1, fname, "ramp_rate", "T/s");
     ramp.density = cpl_number(L, 1, fname, "density", "m^-3");
     ramp.max_efficiency = cpl_opt_number(L, 1, fname, "max_efficiency", "", 1.0);
-    ramp.alpha = 0.0;
-    if (cpl_has(L, 1, "alpha")) {
-        ramp.alpha = cpl_number(L, 1, fname, "alpha", "m^2/s");
-        if (!(ramp.alpha > 0.0))
-            return cpl_error(L, fname, "argument 'alpha' = %g m^2/s is out of range; allowed "
-                             "(0, 1000] m^2/s", ramp.alpha);
-    }
+    /* NaN marks "absent" (a NaN given by the user is rejected by the reader) */
+    ramp.alpha = cpl_opt_number(L, 1, fname, "alpha", "m^2/s", NAN);
+    if (isnan(ramp.alpha))
+        ramp.alpha = 0.0; /* theory */
+    else if (!(ramp.alpha > 0.0))
+        return cpl_error(L, fname, "argument 'alpha' = %g m^2/s is out of range; allowed "
+                         "(0, 1000] m^2/s", ramp.alpha);
     if (cp_feshbach_associate(&r, mu, &ramp, &eff, &delta, &err))
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 2);
@@ -197,7 +202,7 @@ static int l_ramp_law(lua_State *L)
     cp_error err;
     size_t n;
     cpl_check_args(L, 1, fname, known);
-    read_resonance(L, fname, &r);
+    read_resonance(L, fname, 0, &r);
     double mu = read_reduced_mass(L, fname);
     double density = cpl_number(L, 1, fname, "density", "m^-3");
     double pmax = cpl_opt_number(L, 1, fname, "max_efficiency", "", 1.0);
@@ -232,7 +237,7 @@ static int l_associate_site(lua_State *L)
     cp_error err;
     double eff, delta, omega[3];
     cpl_check_args(L, 1, fname, known);
-    read_resonance(L, fname, &r);
+    read_resonance(L, fname, 0, &r);
     double mu = read_reduced_mass(L, fname);
     double rate = cpl_number(L, 1, fname, "ramp_rate", "T/s");
     omega[0] = cpl_number(L, 1, fname, "omega_x", "rad/s");
@@ -269,7 +274,7 @@ static int l_dissociation_energy(lua_State *L)
     cp_error err;
     double e, scale;
     cpl_check_args(L, 1, fname, known);
-    read_resonance(L, fname, &r);
+    read_resonance(L, fname, 0, &r);
     double mu = read_reduced_mass(L, fname);
     double rate = cpl_number(L, 1, fname, "ramp_rate", "T/s");
     if (cp_feshbach_dissociation_energy(&r, mu, rate, &e, &scale, &err))
