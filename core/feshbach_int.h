@@ -50,9 +50,9 @@ double cp_cloud_density(const cp_cloud_state *s, const double r[3], cp_status *s
 cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_state *b,
                                       double *overlap, cp_error *err);
 
-/* Local pairing fraction of the SPSS model (feshbach_spss.c): the probability that a
- * minority atom finds an unused partner in its phase-space cell when the cell holds on
- * average x partners and y competing minority atoms. */
+/* Local pairing fraction of the SPSS model (feshbach_spss.c): the fraction of minority
+ * atoms that find an unused partner in their phase-space cell when a cell holds on average
+ * x partners and y minority atoms (random-order greedy pairing, mean-field kinetics). */
 double cp_spss_local_pairing(double x, double y);
 
 /* Bose function g_3(z) = sum z^k / k^3 for ln z = eta <= 0. */
