@@ -9,7 +9,6 @@
 #include "coldprep/feshbach.h"
 
 #include <math.h>
-#include <string.h>
 
 #include "check_int.h"
 #include "coldprep/consts.h"

@@ -75,9 +75,9 @@ static double integrand_y(double y, void *p)
     double zlo = fmax(c->a->sag - ha, c->b->sag - hb), zhi = fmin(c->a->sag + ha, c->b->sag + hb);
     if (!(zhi > zlo))
         return 0.0;
-    int gs = gsl_integration_qag(&f, zlo, zhi, 0.0, 1e-10, LIMIT, GSL_INTEG_GAUSS21, c->wz,
+    int gs = gsl_integration_qag(&f, zlo, zhi, 0.0, 1e-9, LIMIT, GSL_INTEG_GAUSS21, c->wz,
                                  &val, &abserr);
-    if (gs != GSL_SUCCESS && !(gs == GSL_EROUND && abserr <= 1e-8 * fabs(val)))
+    if (gs != GSL_SUCCESS && !(gs == GSL_EROUND && abserr <= 1e-7 * fabs(val)))
         c->status = CP_ENUMERIC;
     return val;
 }
@@ -91,9 +91,9 @@ static double integrand_x(double x, void *p)
     double ymax = fmin(support(c->a, 1, tf_q(c->a, x, 0.0)), support(c->b, 1, tf_q(c->b, x, 0.0)));
     if (!(ymax > 0.0))
         return 0.0;
-    int gs = gsl_integration_qag(&f, 0.0, ymax, 0.0, 1e-9, LIMIT, GSL_INTEG_GAUSS21, c->wy,
+    int gs = gsl_integration_qag(&f, 0.0, ymax, 0.0, 1e-8, LIMIT, GSL_INTEG_GAUSS21, c->wy,
                                  &val, &abserr);
-    if (gs != GSL_SUCCESS && !(gs == GSL_EROUND && abserr <= 1e-7 * fabs(val)))
+    if (gs != GSL_SUCCESS && !(gs == GSL_EROUND && abserr <= 1e-6 * fabs(val)))
         c->status = CP_ENUMERIC;
     return val;
 }
@@ -121,7 +121,7 @@ cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_st
         overlap_ctx c = {a, b, 0.0, wy, wz, CP_OK};
         gsl_function f = {integrand_x, &c};
         double val, abserr;
-        int gs = gsl_integration_qag(&f, 0.0, xmax, 0.0, 1e-8, LIMIT, GSL_INTEG_GAUSS21, wx,
+        int gs = gsl_integration_qag(&f, 0.0, xmax, 0.0, 1e-7, LIMIT, GSL_INTEG_GAUSS21, wx,
                                      &val, &abserr);
         if (gs != GSL_SUCCESS || c.status != CP_OK || !isfinite(val))
             st = cp_fail(err, CP_ENUMERIC, "%s: the overlap quadrature failed (%s)", ctx,

@@ -35,6 +35,15 @@ T.near(b.abar / a0, 68.8, 0.01, "abar(40K-87Rb) = 68.8 a0 (Chin et al. RMP 2010 
 local nc = fb.binding_energy { resonance = r, molecule = m, field = 546.6 * G, c6_au = 8000 }
 T.check(nc.abar > b.abar, "explicit c6_au overrides the resonance's")
 
+-- user-added resonance with its own atom-pair C6 (species.add_resonance{c6_au})
+local ur = cp.species.add_resonance { molecule = "KRb", b0 = 546.62 * G, width = -3.1 * G,
+  abg = -189 * a0, dmu = 2.3 * cp.consts.muB, c6_au = 4300 }
+T.near(ur.c6_au, 4300, 0, "add_resonance keeps c6_au")
+local ub = fb.binding_energy { resonance = ur, molecule = m, field = 546.5 * G }
+T.near(ub.abar / b.abar, (4300 / 4274) ^ 0.25, 1e-12, "abar scales as C6^(1/4)")
+T.raises(function() cp.species.add_resonance { molecule = "KRb", b0 = 0.05, width = 1e-4,
+  abg = 1e-9, dmu = 1e-23, c6_au = -1 } end, { "c6_au" }, "add_resonance rejects c6_au < 0")
+
 -- FB-L3: association (ramp-rate law and LZ), by hand.
 local alpha = 4 * math.pi ^ 2 * hbar / mu
 local n, rate = 1e17, -1 * G / 1e-3
