@@ -143,6 +143,62 @@ for _, v in ipairs { nan, inf, -inf, 0, -1, 1e300 } do
   T.raises(function() fb.dissociation_energy { resonance = r, molecule = m, ramp_rate = v ~= -1 and v or 0 } end,
     { "ramp_rate" }, "dissociation ramp_rate = " .. tostring(v))
 end
+-- every numeric argument of every function, and every numeric field of a cloud
+local function copy(t)
+  local c = {}
+  for kk, vv in pairs(t) do c[kk] = type(vv) == "table" and copy(vv) or vv end
+  return c
+end
+local cloud = { atom = "40K", number = 1e5, omega_x = wt, omega_y = wt, omega_z = wt }
+local calls = {
+  { fb.scattering_length, { resonance = r, field = 546 * G }, { "field" } },
+  { fb.binding_energy, { resonance = r, molecule = m, field = 546 * G }, { "field", "c6_au" } },
+  { fb.associate_site, { resonance = r, molecule = m, ramp_rate = 1, omega_x = w, omega_y = w,
+    omega_z = w }, { "ramp_rate", "omega_x", "omega_y", "omega_z", "max_efficiency" } },
+  { fb.ramp_law, { resonance = r, molecule = m, density = n, ramp_rates = { 1 } },
+    { "density", "max_efficiency", "alpha" } },
+  { fb.dissociation_energy, { resonance = r, molecule = m, ramp_rate = 1 }, { "ramp_rate" } },
+  { fb.overlap_density, { a = cloud, b = cloud, temperature = 1e-7 }, { "temperature" } },
+  { fb.max_efficiency, { a = cloud, b = cloud, temperature = 1e-7, samples = 200 },
+    { "temperature", "gamma", "samples", "seed" } },
+}
+for _, c in ipairs(calls) do
+  local f, args, keys = c[1], c[2], c[3]
+  T.check(pcall(f, args), "baseline call succeeds")
+  for _, key in ipairs(keys) do
+    for _, v in ipairs { nan, inf, -inf, 0, -1, 1e300, "x", true } do
+      local a = copy(args)
+      a[key] = v
+      -- allowed: c6_au = 0 (unknown), seed = 0, a negative ramp rate (only |Bdot| counts)
+      local ok_value = (key == "c6_au" and v == 0) or (key == "seed" and v == 0)
+        or (key == "ramp_rate" and v == -1)
+      if not ok_value then
+        T.raises(function() f(a) end, { key }, key .. " = " .. tostring(v))
+      end
+    end
+  end
+  for _, ck in ipairs(args.a and { "number", "omega_x", "omega_y", "omega_z", "t_over_tf" } or {}) do
+    for _, v in ipairs { nan, inf, -inf, 0, -1, 1e300, "x" } do
+      local a = copy(args)
+      if ck == "t_over_tf" then a.b.number = nil end
+      a.b[ck] = v
+      T.raises(function() f(a) end, { ck }, "cloud " .. ck .. " = " .. tostring(v))
+    end
+  end
+  if args.a then
+    for _, bad in ipairs { { profile = "plasma" }, { atom = "Xx9" }, { atom = 5 },
+      { scattering_length = -1, profile = "thomas_fermi" } } do
+      local a = copy(args)
+      for kk, vv in pairs(bad) do a.a[kk] = vv end
+      T.check(not pcall(f, a), "bad cloud field " .. next(bad))
+    end
+  end
+end
+T.raises(function() fb.ramp_law { resonance = r, molecule = m, density = n, ramp_rates = { 1, "x" } } end,
+  { "ramp_rates" }, "non-number in ramp_rates")
+T.raises(function() fb.max_efficiency { a = cloud, b = cloud, temperature = 1e-7, sag = 1 } end,
+  { "sag" }, "sag must be a boolean")
+
 T.raises(function() fb.scattering_length { resonance = r, field = r.b0 } end, { "at the resonance" },
   "field exactly at B0")
 T.raises(function() fb.binding_energy { resonance = r, molecule = m, field = 547 * G } end,
