@@ -239,7 +239,7 @@ static double lz_numeric(double delta, double T)
  * GSL's rk8pd (an independent method), delta = g^2/v from 1e-3 to 10, agreement 1e-6.
  * Finite-window control: the state starts in, and is projected on, the instantaneous
  * adiabatic eigenstate, so the tails add only the non-adiabatic amplitude ~ g/(v^2 T^3)
- * (< 1e-7 at T = 300 for g <= sqrt(10)); the test also checks that doubling the window
+ * (~1e-7 at T = 300 for g <= sqrt(10)); the test also checks that doubling the window
  * (T = 150 -> 300) changes the result by less than 1e-6. */
 static void test_lz_ode(void **state)
 {
