@@ -371,7 +371,8 @@ static void test_overlap_thermal(void **state)
 /* FB-9: degenerate profiles by quadrature.  Thomas–Fermi self-overlap = (4/7) n0 (hand:
  * Int (1-u)^2 / Int (1-u) over the unit ball = (8/105)/(2/15)); ideal Fermi gas: the LDA
  * profile seen by a much broader Gaussian gives N_a n_b(0)/N_b (normalisation through GSL's
- * F_1/2 vs the F_2 fugacity equation), and at T/T_F = 0.03 the self-overlap approaches the
+ * F_1/2 vs the F_2 fugacity equation), at T/T_F = 20 it meets the Gaussian closed form, and
+ * at T/T_F = 0.03 the self-overlap approaches the
  * T = 0 value (4608 / (2835 pi)) n0(T=0), n0 = (2 m E_F / hbar^2)^(3/2) / (6 pi^2) (hand,
  * Butts & Rokhsar 1997 [M]). */
 static void test_overlap_degenerate(void **state)
@@ -401,6 +402,16 @@ static void test_overlap_degenerate(void **state)
     assert_rel(n, 1e5 / (pow(2 * M_PI, 1.5) * sb * sb * sb) * exp(-sag * sag / (2 * sb * sb)),
                2e-3);
     assert_true(sag < -0.5 * sb); /* the sag matters here */
+
+    /* classical limit: at T/T_F = 20 (fugacity ~ 2e-5) the Fermi–Dirac profile is the
+     * Boltzmann Gaussian up to O(z / 2^(3/2)), so the quadrature meets the closed form */
+    cp_feshbach_cloud hot = cloud(CP_PROFILE_FERMI, 1e3, 39.963998165, w);
+    cp_feshbach_cloud rb = cloud(CP_PROFILE_THERMAL, 1e5, 86.909180529, 0.8 * w);
+    double thot = 20.0 * CP_HBAR * w * cbrt(6e3) / CP_KB, n_cl;
+    assert_int_equal(cp_feshbach_overlap_density(&rb, &hot, thot, &n, &sag, NULL), CP_OK);
+    hot.profile = CP_PROFILE_THERMAL;
+    assert_int_equal(cp_feshbach_overlap_density(&rb, &hot, thot, &n_cl, &sag, NULL), CP_OK);
+    assert_rel(n, n_cl, 1e-4);
 
     /* Fermi at T/T_F = 0.03 vs T = 0 */
     cp_feshbach_cloud g = cloud(CP_PROFILE_FERMI, 1e5, 39.963998165, w);
