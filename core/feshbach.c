@@ -240,24 +240,23 @@ cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const 
             efficiency[i] = NAN;
         return st;
     }
-    /* One tight pass over contiguous arrays: evaluate and validate together (exp dominates
-     * the cost); a bad rate is located and reported afterwards. */
+    /* Validate in one cheap pass, then run the vectorised kernel (feshbach_kernel.c). */
     int bad = 0;
     for (size_t i = 0; i < n; i++) {
         double rate = fabs(rates[i]);
         bad |= !(rate >= 1e-6 && rate <= 1e9);
-        efficiency[i] = max_efficiency * -expm1(-coefficient / rate);
     }
     if (bad) {
         size_t i = 0;
         while (fabs(rates[i]) >= 1e-6 && fabs(rates[i]) <= 1e9)
             i++;
-        st = cp_fail(err, CP_EINVAL, "%s: rates[%zu] %.6g T/s is out of range; allowed "
-                     "1e-06 <= |rate| <= 1e+09 T/s", ctx, i, rates[i]);
         for (size_t j = 0; j < n; j++)
             efficiency[j] = NAN;
+        return cp_fail(err, CP_EINVAL, "%s: rates[%zu] %.6g T/s is out of range; allowed "
+                       "1e-06 <= |rate| <= 1e+09 T/s", ctx, i, rates[i]);
     }
-    return st;
+    cp_feshbach_ramp_kernel(coefficient, max_efficiency, rates, efficiency, n);
+    return CP_OK;
 }
 
 cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu,

@@ -50,6 +50,12 @@ double cp_cloud_density(const cp_cloud_state *s, const double r[3], cp_status *s
 cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_state *b,
                                       double *overlap, cp_error *err);
 
+/* efficiency[i] = max_efficiency (1 - exp(-coefficient/|rates[i]|)) for validated inputs
+ * (feshbach_kernel.c, compiled for vectorisation). */
+void cp_feshbach_ramp_kernel(double coefficient, double max_efficiency,
+                             const double *restrict rates, double *restrict efficiency,
+                             size_t n);
+
 /* Local pairing fraction of the SPSS model (feshbach_spss.c): the fraction of minority
  * atoms that find an unused partner in their phase-space cell when a cell holds on average
  * x partners and y minority atoms (random-order greedy pairing, mean-field kinetics). */
