@@ -1,0 +1,33 @@
+/*
+ * Private to the Raman model: the pulse envelopes (analytic or interpolated samples),
+ * shared by the propagator (raman.c), the estimates and the scan.  Not installed.
+ */
+#ifndef COLDPREP_RAMAN_INT_H
+#define COLDPREP_RAMAN_INT_H
+
+#include <gsl/gsl_interp.h>
+
+#include "coldprep/raman.h"
+
+/* The two envelopes of one sequence; reversed != 0 evaluates them at -t (the return
+ * trip).  For sampled shapes the interpolants are owned here. */
+typedef struct cp_raman_pulses {
+    const cp_raman_params *p;
+    gsl_interp *pump, *stokes; /* sampled shape only */
+    int reversed;
+    double t_start, t_end;     /* window outside which both envelopes are negligible */
+} cp_raman_pulses;
+
+/* Validate p (context "raman transfer") and set up the pulses; on success the caller must
+ * call cp_raman_pulses_free. */
+cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp_error *err);
+void cp_raman_pulses_free(cp_raman_pulses *pl);
+
+/* Rabi frequencies (rad/s) at time t and, if dop/dos are non-NULL, their time derivatives. */
+void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, double *os,
+                          double *dop, double *dos);
+
+/* Fill the estimate fields of res (adiabaticity, overlap time, decay and dephasing loss). */
+void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res);
+
+#endif

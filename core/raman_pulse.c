@@ -1,0 +1,223 @@
+/*
+ * Raman model: parameter validation, the pulse envelopes (Gaussian, sin^2 and sampled
+ * shapes with Steffen's monotone cubic interpolation) and the closed-form estimates of
+ * physics.md §5.2 evaluated on the same envelopes.
+ */
+#include <math.h>
+#include <stdlib.h>
+
+#include "check_int.h"
+#include "raman_int.h"
+
+#define CTX "raman transfer"
+
+/* Gaussian envelopes are cut where exp(-x^2) < 3e-16 (x = 6): below double rounding. */
+static const double gauss_cut = 6.0;
+/* Largest rate x window (rad) accepted: beyond it the propagation would take minutes. */
+static const double max_phase = 1e6;
+
+void cp_raman_params_init(cp_raman_params *p)
+{
+    *p = (cp_raman_params){.shape = CP_RAMAN_GAUSSIAN};
+}
+
+static cp_status check_rate(cp_error *err, const char *name, double v, double hi)
+{
+    return cp_check_range(err, CTX, name, v, "rad/s", 0.0, hi, CP_CLOSED);
+}
+
+static cp_status check_params(const cp_raman_params *p, cp_error *err)
+{
+    const double max_rate = 1e12, max_detuning = 1e12, max_lw = 1e9;
+    if (p->shape != CP_RAMAN_GAUSSIAN && p->shape != CP_RAMAN_SIN2 &&
+        p->shape != CP_RAMAN_SAMPLED)
+        return cp_fail(err, CP_EINVAL, CTX ": shape %d is unknown; allowed gaussian (0), "
+                                            "sin2 (1), sampled (2)", (int)p->shape);
+    if (p->shape == CP_RAMAN_SAMPLED) {
+        if (!p->times || !p->pump_samples || !p->stokes_samples)
+            return cp_fail(err, CP_EINVAL, CTX ": sampled shape needs times, pump and stokes "
+                                                "arrays");
+        if (p->n_samples < 3 || p->n_samples > 1000000)
+            return cp_fail(err, CP_EINVAL, CTX ": sampled shape has %zu samples; allowed 3 to "
+                           "1000000", p->n_samples);
+        for (size_t i = 0; i < p->n_samples; i++) {
+            CP_TRY(cp_check_range(err, CTX, "sample time", p->times[i], "s", -1.0, 1.0,
+                                  CP_CLOSED));
+            if (i > 0 && !(p->times[i] > p->times[i - 1]))
+                return cp_fail(err, CP_EINVAL, CTX ": sample times must increase strictly; "
+                               "time[%zu] = %.6g s follows %.6g s", i + 1, p->times[i],
+                               p->times[i - 1]);
+            CP_TRY(check_rate(err, "pump sample", p->pump_samples[i], max_rate));
+            CP_TRY(check_rate(err, "stokes sample", p->stokes_samples[i], max_rate));
+        }
+    } else {
+        CP_TRY(check_rate(err, "rabi_pump", p->rabi_pump, max_rate));
+        CP_TRY(check_rate(err, "rabi_stokes", p->rabi_stokes, max_rate));
+        CP_TRY(cp_check_range(err, CTX, "width", p->width, "s", 0.0, 1.0, CP_LO_OPEN));
+        CP_TRY(cp_check_range(err, CTX, "delay", p->delay, "s", -1.0, 1.0, CP_CLOSED));
+    }
+    CP_TRY(check_rate(err, "gamma", p->gamma, max_rate));
+    CP_TRY(cp_check_range(err, CTX, "branching_initial", p->branching_initial, "", 0.0, 1.0,
+                          CP_CLOSED));
+    CP_TRY(cp_check_range(err, CTX, "branching_target", p->branching_target, "", 0.0,
+                          1.0 - p->branching_initial, CP_CLOSED));
+    CP_TRY(cp_check_range(err, CTX, "gamma_initial", p->gamma_initial, "1/s", 0.0, max_rate,
+                          CP_CLOSED));
+    CP_TRY(cp_check_range(err, CTX, "gamma_target", p->gamma_target, "1/s", 0.0, max_rate,
+                          CP_CLOSED));
+    CP_TRY(cp_check_range(err, CTX, "detuning", p->detuning, "rad/s", -max_detuning,
+                          max_detuning, CP_CLOSED));
+    CP_TRY(cp_check_range(err, CTX, "two_photon_detuning", p->two_photon_detuning, "rad/s",
+                          -max_detuning, max_detuning, CP_CLOSED));
+    CP_TRY(cp_check_range(err, CTX, "pump_linewidth_hz", p->pump_linewidth_hz, "Hz", 0.0,
+                          max_lw, CP_CLOSED));
+    CP_TRY(cp_check_range(err, CTX, "stokes_linewidth_hz", p->stokes_linewidth_hz, "Hz", 0.0,
+                          max_lw, CP_CLOSED));
+    if (p->use_relative) {
+        CP_TRY(cp_check_range(err, CTX, "relative_linewidth_hz", p->relative_linewidth_hz,
+                              "Hz", 0.0, max_lw, CP_CLOSED));
+        if (p->stokes_linewidth_hz != 0.0)
+            return cp_fail(err, CP_EINVAL, CTX ": stokes_linewidth_hz %.6g Hz cannot be "
+                           "combined with relative_linewidth_hz; allowed 0 Hz (give the "
+                           "common-mode linewidth as pump_linewidth_hz)", p->stokes_linewidth_hz);
+    }
+    return CP_OK;
+}
+
+static double max_abs(const double *v, size_t n)
+{
+    double m = 0.0;
+    for (size_t i = 0; i < n; i++)
+        m = fmax(m, fabs(v[i]));
+    return m;
+}
+
+cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp_error *err)
+{
+    *pl = (cp_raman_pulses){.p = p};
+    CP_TRY(check_params(p, err));
+    double rabi_max;
+    if (p->shape == CP_RAMAN_SAMPLED) {
+        size_t n = p->n_samples;
+        pl->t_start = p->times[0];
+        pl->t_end = p->times[n - 1];
+        pl->pump = gsl_interp_alloc(gsl_interp_steffen, n);
+        pl->stokes = gsl_interp_alloc(gsl_interp_steffen, n);
+        if (!pl->pump || !pl->stokes) {
+            cp_raman_pulses_free(pl);
+            return cp_fail(err, CP_ENOMEM, CTX ": out of memory for %zu samples", n);
+        }
+        if (gsl_interp_init(pl->pump, p->times, p->pump_samples, n) != GSL_SUCCESS ||
+            gsl_interp_init(pl->stokes, p->times, p->stokes_samples, n) != GSL_SUCCESS) {
+            cp_raman_pulses_free(pl);
+            return cp_fail(err, CP_ENUMERIC, CTX ": interpolation of the samples failed");
+        }
+        rabi_max = fmax(max_abs(p->pump_samples, n), max_abs(p->stokes_samples, n));
+    } else {
+        double half = p->shape == CP_RAMAN_GAUSSIAN ? gauss_cut * p->width : p->width;
+        pl->t_start = -fabs(p->delay) / 2 - half;
+        pl->t_end = fabs(p->delay) / 2 + half;
+        rabi_max = fmax(p->rabi_pump, p->rabi_stokes);
+    }
+    double kappa = 2 * M_PI * (p->pump_linewidth_hz + p->stokes_linewidth_hz +
+                               (p->use_relative ? p->relative_linewidth_hz : 0.0));
+    double rate = rabi_max + fabs(p->detuning) + fabs(p->two_photon_detuning) + p->gamma +
+                  p->gamma_initial + p->gamma_target + kappa;
+    double phase = rate * (pl->t_end - pl->t_start);
+    if (!(phase <= max_phase)) {
+        cp_raman_pulses_free(pl);
+        return cp_fail(err, CP_EINVAL, CTX ": largest rate x sequence duration = %.3g rad is "
+                       "out of range; allowed up to %.3g rad (shorten the pulses or reduce "
+                       "the Rabi frequencies, detunings or rates)", phase, max_phase);
+    }
+    return CP_OK;
+}
+
+void cp_raman_pulses_free(cp_raman_pulses *pl)
+{
+    gsl_interp_free(pl->pump);
+    gsl_interp_free(pl->stokes);
+    pl->pump = pl->stokes = NULL;
+}
+
+/* One analytic envelope centred at tc: value and derivative. */
+static void envelope(cp_raman_shape shape, double rabi, double width, double tc, double t,
+                     double *v, double *dv)
+{
+    double x = (t - tc) / width;
+    if (shape == CP_RAMAN_GAUSSIAN) {
+        *v = rabi * exp(-x * x);
+        *dv = -2 * x / width * *v;
+    } else if (fabs(x) < 1.0) {
+        double c = cos(M_PI_2 * x);
+        *v = rabi * c * c;
+        *dv = -rabi * sin(M_PI * x) * M_PI_2 / width;
+    } else {
+        *v = *dv = 0.0;
+    }
+}
+
+static void sampled(const gsl_interp *ip, const double *t_s, const double *v_s, double t,
+                    double *v, double *dv)
+{
+    size_t n = ip->size;
+    if (t < t_s[0] || t > t_s[n - 1]) {
+        *v = *dv = 0.0;
+        return;
+    }
+    /* Steffen interpolation never overshoots: values stay between neighbouring samples,
+     * so they are >= 0; the GSL status cannot fail inside the range checked above. */
+    *v = gsl_interp_eval(ip, t_s, v_s, t, NULL);
+    *dv = gsl_interp_eval_deriv(ip, t_s, v_s, t, NULL);
+}
+
+void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, double *os,
+                          double *dop, double *dos)
+{
+    const cp_raman_params *p = pl->p;
+    double sign = pl->reversed ? -1.0 : 1.0, tt = sign * t, dp, ds;
+    if (p->shape == CP_RAMAN_SAMPLED) {
+        sampled(pl->pump, p->times, p->pump_samples, tt, op, &dp);
+        sampled(pl->stokes, p->times, p->stokes_samples, tt, os, &ds);
+    } else {
+        envelope(p->shape, p->rabi_pump, p->width, p->delay / 2, tt, op, &dp);
+        envelope(p->shape, p->rabi_stokes, p->width, -p->delay / 2, tt, os, &ds);
+    }
+    if (dop)
+        *dop = sign * dp;
+    if (dos)
+        *dos = sign * ds;
+}
+
+void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
+{
+    enum { M = 4001 };
+    const cp_raman_params *p = pl->p;
+    double t0 = pl->t_start, h = (pl->t_end - t0) / (M - 1);
+    double kappa13 = M_PI * (p->use_relative ? p->relative_linewidth_hz
+                                             : p->pump_linewidth_hz + p->stokes_linewidth_hz);
+    double prod_int = 0, prod_max = 0, rms_max = 0, decay = 0, mix = 0;
+    for (int k = 0; k < M; k++) {
+        double w = (k == 0 || k == M - 1) ? 0.5 * h : h; /* trapezoid weights */
+        double op, os, dop, dos;
+        cp_raman_pulses_eval(pl, t0 + k * h, &op, &os, &dop, &dos);
+        double r2 = op * op + os * os;
+        prod_int += w * op * os;
+        prod_max = fmax(prod_max, op * os);
+        rms_max = fmax(rms_max, sqrt(r2));
+        if (r2 <= 0)
+            continue;
+        double thetadot = (os * dop - op * dos) / r2; /* tan(theta) = Op / Os */
+        double sin2theta = 2 * op * os / r2;
+        mix += w * sin2theta * sin2theta;
+        /* adiabatic elimination of the bright states (physics.md §5.2): only where it is
+         * valid, Omega_rms^2 / gamma >> |thetadot| (here by a factor 10) */
+        if (r2 >= 10 * p->gamma * fabs(thetadot))
+            decay += w * 4 * p->gamma * thetadot * thetadot / r2;
+    }
+    res->overlap_time = prod_max > 0 ? prod_int / prod_max : 0.0;
+    res->adiabaticity = rms_max * res->overlap_time;
+    res->decay_loss_estimate = -expm1(-decay);
+    /* the dark state cos(theta)|1> - sin(theta)|3> leaves at 2 kappa_13 cos^2 sin^2 */
+    res->dephasing_loss_estimate = 0.5 * kappa13 * mix;
+}
