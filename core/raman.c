@@ -7,7 +7,6 @@
  * absolute error control; docs/models/raman.md explains the choice (measured against a
  * fourth-order Magnus propagator with exact matrix exponentials).
  */
-#include <complex.h>
 #include <math.h>
 #include <string.h>
 
@@ -58,50 +57,31 @@ static void model_init(model *m, const cp_raman_params *p)
     }
 }
 
-static void unpack(const double *y, double complex r[3][3])
-{
-    r[0][0] = y[0];
-    r[1][1] = y[1];
-    r[2][2] = y[2];
-    r[0][1] = CMPLX(y[3], y[4]);
-    r[0][2] = CMPLX(y[5], y[6]);
-    r[1][2] = CMPLX(y[7], y[8]);
-    r[1][0] = conj(r[0][1]);
-    r[2][0] = conj(r[0][2]);
-    r[2][1] = conj(r[1][2]);
-}
-
-/* d rho/dt = -i [H, rho] - {K, rho} + feeding from rho_22 - kappa o rho (off-diagonal). */
+/* d rho/dt = -i [H, rho] - {K, rho} + feeding from rho_22 - kappa o rho (off-diagonal),
+ * written out for rho = R + iJ (R symmetric, J antisymmetric) and H real symmetric:
+ * dR/dt = [H, J] and dJ/dt = -[H, R] for the coherent part. */
 static int rhs(double t, const double y[], double dy[], void *params)
 {
     const model *m = params;
     double op, os;
     cp_raman_pulses_eval(&m->pulses, t, &op, &os, NULL, NULL);
-    double complex r[3][3], d[3][3];
-    unpack(y, r);
-    const double H[3][3] = {{0, op / 2, 0}, {op / 2, -m->delta_1, os / 2},
-                            {0, os / 2, -m->delta_2}};
-    for (int i = 0; i < 3; i++)
-        for (int j = i; j < 3; j++) {
-            double complex c = 0;
-            for (int l = 0; l < 3; l++)
-                c += H[i][l] * r[l][j] - r[i][l] * H[l][j];
-            d[i][j] = -I * c - (m->k[i] + m->k[j]) * r[i][j];
-        }
-    dy[0] = creal(d[0][0]) + m->feed1 * y[1];
-    dy[1] = creal(d[1][1]);
-    dy[2] = creal(d[2][2]) + m->feed3 * y[1];
-    d[0][1] -= m->kappa12 * r[0][1];
-    d[0][2] -= m->kappa13 * r[0][2];
-    d[1][2] -= m->kappa23 * r[1][2];
-    dy[3] = creal(d[0][1]);
-    dy[4] = cimag(d[0][1]);
-    dy[5] = creal(d[0][2]);
-    dy[6] = cimag(d[0][2]);
-    dy[7] = creal(d[1][2]);
-    dy[8] = cimag(d[1][2]);
+    const double a = op / 2, b = os / 2, e2 = -m->delta_1, e3 = -m->delta_2;
+    const double r11 = y[0], r22 = y[1], r33 = y[2];
+    const double x12 = y[3], j12 = y[4], x13 = y[5], j13 = y[6], x23 = y[7], j23 = y[8];
+    const double k1 = m->k[0], k2 = m->k[1], k3 = m->k[2];
+    dy[0] = -2 * a * j12 - 2 * k1 * r11 + m->feed1 * r22;
+    dy[1] = 2 * (a * j12 - b * j23) - 2 * k2 * r22;
+    dy[2] = 2 * b * j23 - 2 * k3 * r33 + m->feed3 * r22;
+    const double g12 = k1 + k2 + m->kappa12, g13 = k1 + k3 + m->kappa13,
+                 g23 = k2 + k3 + m->kappa23;
+    dy[3] = -e2 * j12 - b * j13 - g12 * x12;
+    dy[4] = a * (r11 - r22) + e2 * x12 + b * x13 - g12 * j12;
+    dy[5] = a * j23 - b * j12 - e3 * j13 - g13 * x13;
+    dy[6] = b * x12 + e3 * x13 - a * x23 - g13 * j13;
+    dy[7] = a * j13 + (e2 - e3) * j23 - g23 * x23;
+    dy[8] = b * (r22 - r33) + (e3 - e2) * x23 - a * x13 - g23 * j23;
     /* the sink: what leaves |2> other than by branching, and the slow losses */
-    dy[9] = (2 * m->k[1] - m->feed1 - m->feed3) * y[1] + 2 * m->k[0] * y[0] + 2 * m->k[2] * y[2];
+    dy[9] = (2 * k2 - m->feed1 - m->feed3) * r22 + 2 * k1 * r11 + 2 * k3 * r33;
     return GSL_SUCCESS;
 }
 
@@ -162,13 +142,14 @@ static void poison(cp_raman_result *res, cp_raman_trace *tr)
 
 static void fill_result(const double *y, cp_raman_result *res)
 {
-    double complex r[3][3];
-    unpack(y, r);
+    /* rho_ij = R_ij + i J_ij, J antisymmetric */
+    const double re[3][3] = {{y[0], y[3], y[5]}, {y[3], y[1], y[7]}, {y[5], y[7], y[2]}};
+    const double im[3][3] = {{0, y[4], y[6]}, {-y[4], 0, y[8]}, {-y[6], -y[8], 0}};
     for (int i = 0; i < 3; i++) {
         res->populations[i] = y[i];
         for (int j = 0; j < 3; j++) {
-            res->rho[i][j][0] = creal(r[i][j]);
-            res->rho[i][j][1] = cimag(r[i][j]);
+            res->rho[i][j][0] = re[i][j];
+            res->rho[i][j][1] = im[i][j];
         }
     }
     res->efficiency = y[2];

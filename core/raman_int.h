@@ -5,6 +5,7 @@
 #ifndef COLDPREP_RAMAN_INT_H
 #define COLDPREP_RAMAN_INT_H
 
+#include <gsl/gsl_errno.h>
 #include <gsl/gsl_interp.h>
 
 #include "coldprep/raman.h"

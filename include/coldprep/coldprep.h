@@ -12,5 +12,6 @@
 #include "coldprep/thermo.h"
 #include "coldprep/collisions.h"
 #include "coldprep/feshbach.h"
+#include "coldprep/raman.h"
 
 #endif
