@@ -1,0 +1,86 @@
+-- Lua-level tests of cp.raman through the real coldprep binary: the API of API.md, the
+-- area theorem as an outside check, sampled shapes, line shapes and error messages.
+local T = require "testlib"
+local cp = require "coldprep"
+local pi, MHz, us = math.pi, cp.units.MHz, cp.units.us
+
+local ref = { rabi_pump = 2 * pi * 5 * MHz, rabi_stokes = 2 * pi * 5 * MHz, width = 2 * us,
+  delay = 2.4 * us, gamma = 2 * pi * 6 * MHz, pump_linewidth_hz = 1e3, stokes_linewidth_hz = 1e3 }
+local function with(extra)
+  local t = {}
+  for k, v in pairs(ref) do t[k] = v end
+  for k, v in pairs(extra) do t[k] = v end
+  return t
+end
+
+-- RAMAN-L1: the result table of API.md; trace + lost = 1 (sink integrated separately).
+local r = cp.raman.transfer(with { round_trip = true, trace = 11 })
+T.check(r.efficiency == r.populations.target, "efficiency is the target population")
+T.near(r.populations.initial + r.populations.excited + r.populations.target + r.lost, 1, 1e-10,
+  "trace + lost = 1")
+T.check(r.efficiency > 0.85 and r.efficiency < 0.95, "reference case transfers ~90%")
+-- physics.md §5.2: round trip ~ one-way^2 for symmetric sequences (here within 2e-3 with
+-- the 1 kHz linewidths)
+T.near(r.round_trip_efficiency, r.efficiency ^ 2, 2e-3, "round trip ~ one-way^2")
+T.check(#r.trace.time == 11 and r.trace.initial[1] == 1, "trace starts in |1>")
+T.check(r.trace.target[11] == r.efficiency, "trace ends at the result")
+T.near(r.lost, r.estimates.decay_loss, 0.05, "loss vs adiabatic elimination (physics.md §5.2)")
+T.check(r.adiabaticity > 10, "Omega T > 10 (Bergmann et al. 1998 [M])")
+T.check(cp.raman.transfer(ref).round_trip_efficiency == nil, "no round trip unless asked")
+
+-- RAMAN-L2: two-level limit, P2 = sin^2(A/2) with A = sqrt(pi) rabi width (area theorem [M]).
+local A = 2.3
+local two = cp.raman.transfer { rabi_pump = A / (math.sqrt(pi) * us), rabi_stokes = 0,
+  width = us, delay = 0, gamma = 0 }
+T.near(two.populations.excited, math.sin(A / 2) ^ 2, 1e-8, "area theorem, Gaussian")
+two = cp.raman.transfer { rabi_pump = A / us, rabi_stokes = 0, width = us, delay = 0, gamma = 0,
+  shape = "sin2" }
+T.near(two.populations.excited, math.sin(A / 2) ^ 2, 1e-8, "area theorem, sin2")
+
+-- RAMAN-L3: a sampled sin2 pair equals the analytic sin2 shape (interpolation error only).
+local times, pump, stokes = {}, {}, {}
+local a = cp.raman.transfer(with { shape = "sin2" })
+for i = 0, 800 do
+  local t = a.t_start + (a.t_end - a.t_start) * i / 800
+  local function s2(tc)
+    local x = (t - tc) / ref.width
+    return math.abs(x) < 1 and ref.rabi_pump * math.cos(pi * x / 2) ^ 2 or 0
+  end
+  times[#times + 1], pump[#pump + 1], stokes[#stokes + 1] = t, s2(ref.delay / 2), s2(-ref.delay / 2)
+end
+local s = cp.raman.transfer { shape = "sampled", times = times, pump = pump, stokes = stokes,
+  gamma = ref.gamma, pump_linewidth_hz = 1e3, stokes_linewidth_hz = 1e3 }
+T.near(s.efficiency, a.efficiency, 1e-5, "sampled sin2 = analytic sin2")
+
+-- RAMAN-L4: line shape over delta, symmetric about two-photon resonance (H is symmetric
+-- under delta -> -delta together with Delta -> -Delta; Delta = 0 here).
+local ls = cp.raman.lineshape(with { from = -2 * pi * 0.3 * MHz, to = 2 * pi * 0.3 * MHz,
+  points = 7, threads = 2 })
+T.check(#ls.efficiency == 7 and ls.scan == "two_photon_detuning", "seven points")
+T.near(ls.efficiency[1], ls.efficiency[7], 1e-7, "symmetric line shape")
+T.near(ls.efficiency[4], r.efficiency, 1e-12, "centre = resonant transfer")
+T.check(ls.efficiency[4] > ls.efficiency[3], "peak at resonance")
+
+-- RAMAN-L5: bad input is a clear error.
+T.raises(function() cp.raman.transfer(with { width = 0 / 0 }) end, { "width", "finite" }, "NaN width")
+T.raises(function() cp.raman.transfer(with { width = -1e-6 }) end, { "width", "out of range" }, "negative width")
+T.raises(function() cp.raman.transfer(with { gamma = math.huge }) end, { "gamma" }, "infinite gamma")
+T.raises(function() cp.raman.transfer(with { pump_linewidth_hz = -5 }) end, { "pump_linewidth_hz" }, "negative linewidth")
+T.raises(function() cp.raman.transfer(with { widht = 1 }) end, { "did you mean 'width'" }, "typo")
+T.raises(function() cp.raman.transfer(with { shape = "square" }) end, { "shape", "gaussian" }, "unknown shape")
+T.raises(function() cp.raman.transfer { shape = "sampled", times = { 0, 2e-6, 1e-6 },
+  pump = { 1, 1, 1 }, stokes = { 1, 1, 1 }, gamma = 0 } end, { "increase strictly" }, "unsorted times")
+T.raises(function() cp.raman.transfer { shape = "sampled", times = { 0, 1e-6 },
+  pump = { 1, 1 }, stokes = { 1, 1 }, gamma = 0 } end, { "times", "at least 3" }, "too few samples")
+T.raises(function() cp.raman.transfer(with { relative_linewidth_hz = 10 }) end,
+  { "stokes_linewidth_hz", "relative_linewidth_hz" }, "ambiguous linewidths")
+T.raises(function() cp.raman.transfer(with { trace = 1 }) end, { "trace" }, "one trace sample")
+T.raises(function() cp.raman.transfer("x") end, { "one table" }, "wrong type")
+T.raises(function() cp.raman.lineshape(with { threads = 0, from = 0, to = 1 }) end, { "threads" }, "threads")
+T.raises(function() cp.raman.lineshape(with { two_photon_detuning = 1, from = 0, to = 1 }) end,
+  { "scanned variable" }, "scanned key given")
+
+-- HELP-L: help texts.
+T.check(type(cp.get_help(cp.raman.transfer)) == "string", "help for raman.transfer")
+T.check(type(cp.get_help(cp.raman.lineshape)) == "string", "help for raman.lineshape")
+T.done()
