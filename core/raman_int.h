@@ -17,6 +17,7 @@ typedef struct cp_raman_pulses {
     gsl_interp *pump, *stokes; /* sampled shape only */
     int reversed;
     double t_start, t_end;     /* window outside which both envelopes are negligible */
+    double phase;              /* largest rate x (t_end - t_start), rad */
 } cp_raman_pulses;
 
 /* Validate p (context "raman transfer") and set up the pulses; on success the caller must

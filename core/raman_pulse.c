@@ -11,8 +11,9 @@
 
 #define CTX "raman transfer"
 
-/* Gaussian envelopes are cut where exp(-x^2) < 3e-16 (x = 6): below double rounding. */
-static const double gauss_cut = 6.0;
+/* Gaussian envelopes are cut at x = 5, where exp(-x^2) = 1.4e-11: the pulse area left
+ * outside is below 1e-11 of the total, so populations change by far less than 1e-9. */
+static const double gauss_cut = 5.0;
 /* Largest rate x window (rad) accepted: beyond it the propagation would take minutes. */
 static const double max_phase = 1e6;
 
@@ -124,6 +125,7 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
     double rate = rabi_max + fabs(p->detuning) + fabs(p->two_photon_detuning) + p->gamma +
                   p->gamma_initial + p->gamma_target + kappa;
     double phase = rate * (pl->t_end - pl->t_start);
+    pl->phase = phase;
     if (!(phase <= max_phase)) {
         cp_raman_pulses_free(pl);
         return cp_fail(err, CP_EINVAL, CTX ": largest rate x sequence duration = %.3g rad is "

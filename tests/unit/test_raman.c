@@ -111,8 +111,11 @@ static void check_against_reference(const cp_raman_params *p, const char *what)
     cp_raman_result r;
     cp_error err;
     assert_int_equal(cp_raman_transfer(p, 0, &r, NULL, &err), CP_OK);
-    double pop[3];
-    reference(p, r.t_start, r.t_end, pop);
+    /* without slow losses the reference runs over a wider window (pulses down to exp(-64)
+     * for Gaussians), so the truncation of the window is checked too */
+    int pad_ok = p->shape == CP_RAMAN_GAUSSIAN && p->gamma_initial == 0 && p->gamma_target == 0;
+    double pad = pad_ok ? 3 * p->width : 0.0, pop[3];
+    reference(p, r.t_start - pad, r.t_end + pad, pop);
     for (int i = 0; i < 3; i++)
         assert_close(r.populations[i], pop[i], 1e-7, what); /* issue 4: 1e-7 absolute */
     assert_close(r.efficiency, r.populations[2], 0.0, what);
