@@ -18,6 +18,7 @@
 
 #define CTX "raman transfer"
 enum { DIM = 10 };
+static const size_t max_trace = 10000000;
 
 /* Absolute error per step asked of the integrator.  Local errors add up over the steps, whose
  * number grows with the phase (largest rate x duration), so the tolerance shrinks with it:
@@ -90,16 +91,20 @@ static int rhs(double t, const double y[], double dy[], void *params)
     return GSL_SUCCESS;
 }
 
+/* State index of each trace column after the time (see the layout above). */
+static const int trace_index[CP_RAMAN_TRACE_COLUMNS] = {
+    [CP_RAMAN_TRACE_INITIAL] = 0, [CP_RAMAN_TRACE_EXCITED] = 1, [CP_RAMAN_TRACE_TARGET] = 2,
+    [CP_RAMAN_TRACE_LOST] = 9,    [CP_RAMAN_TRACE_RE12] = 3,    [CP_RAMAN_TRACE_IM12] = 4,
+    [CP_RAMAN_TRACE_RE13] = 5,    [CP_RAMAN_TRACE_IM13] = 6,    [CP_RAMAN_TRACE_RE23] = 7,
+    [CP_RAMAN_TRACE_IM23] = 8};
+
 static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
 {
-    double *cols[] = {tr->initial, tr->excited, tr->target, tr->coherence_13_re,
-                      tr->coherence_13_im};
-    const int idx[] = {0, 1, 2, 5, 6};
-    if (tr->time)
-        tr->time[i] = t;
-    for (int c = 0; c < 5; c++)
-        if (cols[c])
-            cols[c][i] = y[idx[c]];
+    if (tr->column[CP_RAMAN_TRACE_TIME])
+        tr->column[CP_RAMAN_TRACE_TIME][i] = t;
+    for (int c = CP_RAMAN_TRACE_TIME + 1; c < CP_RAMAN_TRACE_COLUMNS; c++)
+        if (tr->column[c])
+            tr->column[c][i] = y[trace_index[c]];
 }
 
 /* Integrate y from t0 to t1 (recording the trace if given). */
@@ -136,13 +141,10 @@ static void poison(cp_raman_result *res, cp_raman_trace *tr)
     cp_poison(&res->decay_loss_estimate, 1);
     cp_poison(&res->dephasing_loss_estimate, 1);
     res->steps = 0;
-    if (tr && tr->n >= 2) {
-        double *cols[] = {tr->time, tr->initial, tr->excited, tr->target, tr->coherence_13_re,
-                          tr->coherence_13_im};
-        for (int c = 0; c < 6; c++)
-            if (cols[c])
-                cp_poison(cols[c], (int)tr->n);
-    }
+    if (tr && tr->n >= 2 && tr->n <= max_trace)
+        for (int c = 0; c < CP_RAMAN_TRACE_COLUMNS; c++)
+            if (tr->column[c])
+                cp_poison(tr->column[c], (int)tr->n);
 }
 
 static void fill_result(const double *y, cp_raman_result *res)
@@ -170,9 +172,9 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     poison(res, trace);
     if (!p)
         return cp_fail(err, CP_EINVAL, CTX ": parameter pointer is NULL");
-    if (trace && (trace->n < 2 || trace->n > 10000000))
+    if (trace && (trace->n < 2 || trace->n > max_trace))
         return cp_fail(err, CP_EINVAL, CTX ": trace samples %zu is out of range; allowed 2 to "
-                       "10000000", trace->n);
+                       "%zu", trace->n, max_trace);
     model m;
     CP_TRY(cp_raman_pulses_init(&m.pulses, p, err));
     model_init(&m, p);

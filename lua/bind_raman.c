@@ -23,6 +23,13 @@ int cpl_open_raman(lua_State *L);
 static const char *const transfer_keys[] = {PULSE_KEYS, "round_trip", "trace", NULL};
 static const char *const lineshape_keys[] = {PULSE_KEYS, "scan", "values", "from", "to",
                                              "points", "threads", NULL};
+static const char *const trace_names[CP_RAMAN_TRACE_COLUMNS] = {
+    [CP_RAMAN_TRACE_TIME] = "time",       [CP_RAMAN_TRACE_INITIAL] = "initial",
+    [CP_RAMAN_TRACE_EXCITED] = "excited", [CP_RAMAN_TRACE_TARGET] = "target",
+    [CP_RAMAN_TRACE_LOST] = "lost",       [CP_RAMAN_TRACE_RE12] = "coherence_12_re",
+    [CP_RAMAN_TRACE_IM12] = "coherence_12_im", [CP_RAMAN_TRACE_RE13] = "coherence_13_re",
+    [CP_RAMAN_TRACE_IM13] = "coherence_13_im", [CP_RAMAN_TRACE_RE23] = "coherence_23_re",
+    [CP_RAMAN_TRACE_IM23] = "coherence_23_im"};
 static const char *const shapes[] = {"gaussian", "sin2", "sampled", NULL};
 
 /* Read the sequence and model parameters shared by both functions into p.  Sampled arrays
@@ -88,13 +95,9 @@ static int l_transfer(lua_State *L)
                   "100000 samples");
     cp_raman_trace tr = {.n = (size_t)ntrace};
     if (ntrace) {
-        double *buf = new_array(L, 6 * tr.n);
-        tr.time = buf;
-        tr.initial = buf + tr.n;
-        tr.excited = buf + 2 * tr.n;
-        tr.target = buf + 3 * tr.n;
-        tr.coherence_13_re = buf + 4 * tr.n;
-        tr.coherence_13_im = buf + 5 * tr.n;
+        double *buf = new_array(L, CP_RAMAN_TRACE_COLUMNS * tr.n);
+        for (int c = 0; c < CP_RAMAN_TRACE_COLUMNS; c++)
+            tr.column[c] = buf + (size_t)c * tr.n;
     }
     cp_raman_result r;
     cp_error err;
@@ -121,14 +124,10 @@ static int l_transfer(lua_State *L)
     cpl_set_number(L, "t_end", r.t_end);
     cpl_set_integer(L, "steps", (lua_Integer)r.steps);
     if (ntrace) {
-        lua_createtable(L, 0, 6);
-        const char *names[] = {"time", "initial", "excited", "target", "coherence_13_re",
-                               "coherence_13_im"};
-        double *cols[] = {tr.time, tr.initial, tr.excited, tr.target, tr.coherence_13_re,
-                          tr.coherence_13_im};
-        for (int c = 0; c < 6; c++) {
-            cpl_push_array(L, cols[c], tr.n);
-            lua_setfield(L, -2, names[c]);
+        lua_createtable(L, 0, CP_RAMAN_TRACE_COLUMNS);
+        for (int c = 0; c < CP_RAMAN_TRACE_COLUMNS; c++) {
+            cpl_push_array(L, tr.column[c], tr.n);
+            lua_setfield(L, -2, trace_names[c]);
         }
         lua_setfield(L, -2, "trace");
     }
@@ -202,8 +201,8 @@ static const cpl_function functions[] = {
      "Returns {efficiency, populations = {initial, excited, target}, lost,\n"
      "  round_trip_efficiency (if round_trip), adiabaticity (max Omega_rms * overlap_time),\n"
      "  overlap_time (s), estimates = {decay_loss, dephasing_loss} (closed forms),\n"
-     "  t_start, t_end (s), steps, trace = {time, initial, excited, target,\n"
-     "  coherence_13_re, coherence_13_im} (if trace)}.\n"
+     "  t_start, t_end (s), steps, trace = {time, initial, excited, target, lost,\n"
+     "  coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if trace)}.\n"
      "Example: cp.raman.transfer{rabi_pump = 2*math.pi*5*cp.units.MHz,\n"
      "  rabi_stokes = 2*math.pi*5*cp.units.MHz, width = 2*cp.units.us, delay = 2.4*cp.units.us,\n"
      "  gamma = 2*math.pi*6*cp.units.MHz, pump_linewidth_hz = 1e3, stokes_linewidth_hz = 1e3}"},

@@ -71,11 +71,24 @@ typedef struct cp_raman_result {
     size_t steps;             /* accepted integrator steps (one way) */
 } cp_raman_result;
 
+/* Columns of a time trace: time (s), populations, sink, and the coherences rho_ij. */
+enum {
+    CP_RAMAN_TRACE_TIME,
+    CP_RAMAN_TRACE_INITIAL, /* rho_11 */
+    CP_RAMAN_TRACE_EXCITED, /* rho_22 */
+    CP_RAMAN_TRACE_TARGET,  /* rho_33 */
+    CP_RAMAN_TRACE_LOST,    /* sink population */
+    CP_RAMAN_TRACE_RE12, CP_RAMAN_TRACE_IM12,
+    CP_RAMAN_TRACE_RE13, CP_RAMAN_TRACE_IM13,
+    CP_RAMAN_TRACE_RE23, CP_RAMAN_TRACE_IM23,
+    CP_RAMAN_TRACE_COLUMNS
+};
+
 /* Optional time trace: n >= 2 equally spaced samples over [t_start, t_end] of the forward
- * sequence; each non-NULL array must hold n doubles (caller-owned). */
+ * sequence; each non-NULL column must hold n doubles (caller-owned). */
 typedef struct cp_raman_trace {
     size_t n;
-    double *time, *initial, *excited, *target, *coherence_13_re, *coherence_13_im;
+    double *column[CP_RAMAN_TRACE_COLUMNS];
 } cp_raman_trace;
 
 /* Propagate the forward sequence from rho = |1><1| (and, if round_trip, the time-reversed

@@ -24,6 +24,7 @@ T.check(r.efficiency > 0.85 and r.efficiency < 0.95, "reference case transfers ~
 T.near(r.round_trip_efficiency, r.efficiency ^ 2, 2e-3, "round trip ~ one-way^2")
 T.check(#r.trace.time == 11 and r.trace.initial[1] == 1, "trace starts in |1>")
 T.check(r.trace.target[11] == r.efficiency, "trace ends at the result")
+T.check(r.trace.lost[11] == r.lost and #r.trace.coherence_23_im == 11, "trace columns")
 T.near(r.lost, r.estimates.decay_loss, 0.05, "loss vs adiabatic elimination (physics.md §5.2)")
 T.check(r.adiabaticity > 10, "Omega T > 10 (Bergmann et al. 1998 [M])")
 T.check(cp.raman.transfer(ref).round_trip_efficiency == nil, "no round trip unless asked")

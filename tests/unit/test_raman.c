@@ -325,13 +325,21 @@ static void test_sampled_and_trace(void **state)
     q.pump_samples = vp;
     q.stokes_samples = vs;
     enum { M = 50 };
-    double tt[M], p1[M], p3[M];
-    cp_raman_trace tr = {.n = M, .time = tt, .initial = p1, .target = p3};
+    double tt[M], p1[M], p3[M], lost[M];
+    cp_raman_trace tr = {.n = M};
+    tr.column[CP_RAMAN_TRACE_TIME] = tt;
+    tr.column[CP_RAMAN_TRACE_INITIAL] = p1;
+    tr.column[CP_RAMAN_TRACE_TARGET] = p3;
+    tr.column[CP_RAMAN_TRACE_LOST] = lost;
     assert_int_equal(cp_raman_transfer(&q, 0, &rs, &tr, &err), CP_OK);
     assert_close(rs.efficiency, ra.efficiency, 1e-5, "sampled Gaussian");
     assert_close(p1[0], 1.0, 0.0, "trace starts in |1>");
     assert_close(tt[M - 1], rs.t_end, 1e-18, "trace ends at t_end");
     assert_close(p3[M - 1], rs.efficiency, 0.0, "trace ends at the result");
+    assert_close(lost[M - 1], rs.lost, 0.0, "trace ends at the result");
+    for (int i = 1; i < M; i++)
+        assert_true(lost[i] >= lost[i - 1] - 1e-9); /* the sink only fills (to the 1e-9
+                                                       absolute error allowed per step) */
 }
 
 /* RAMAN-9: the threaded scan equals point-by-point transfers (same code path, checks the
