@@ -57,7 +57,7 @@ static cp_status check_params(const cp_raman_params *p, cp_error *err)
         CP_TRY(cp_check_range(err, CTX, "width", p->width, "s", 0.0, 1.0, CP_LO_OPEN));
         CP_TRY(cp_check_range(err, CTX, "delay", p->delay, "s", -1.0, 1.0, CP_CLOSED));
     }
-    CP_TRY(check_rate(err, "gamma", p->gamma, max_rate));
+    CP_TRY(cp_check_range(err, CTX, "gamma", p->gamma, "1/s", 0.0, max_rate, CP_CLOSED));
     CP_TRY(cp_check_range(err, CTX, "branching_initial", p->branching_initial, "", 0.0, 1.0,
                           CP_CLOSED));
     CP_TRY(cp_check_range(err, CTX, "branching_target", p->branching_target, "", 0.0,
