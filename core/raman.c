@@ -107,22 +107,38 @@ static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
             tr->column[c][i] = y[trace_index[c]];
 }
 
-/* Integrate y from t0 to t1 (recording the trace if given). */
-static cp_status propagate(gsl_odeiv2_driver *drv, double t0, double t1, double *y,
+/* Integrate y over the window of pl (forward or reversed), recording the trace if given.
+ * The window is cut at break points — the edges of each analytic pulse, every sample time
+ * of a sampled shape — so that no step can jump over a short pulse and none straddles a
+ * kink of the envelope; inside an analytic pulse steps are at most width/2. */
+static cp_status propagate(gsl_odeiv2_driver *drv, const cp_raman_pulses *pl, double *y,
                            cp_raman_trace *tr, cp_error *err)
 {
-    double t = t0;
-    size_t n = tr ? tr->n : 1;
-    for (size_t i = 0; i < n; i++) {
-        double target = tr ? t0 + (t1 - t0) * (double)i / (double)(n - 1) : t1;
-        if (target > t) {
-            int st = gsl_odeiv2_driver_apply(drv, &t, target, y);
+    size_t nb = cp_raman_pulses_breaks(pl), k = 0, ntr = tr ? tr->n : 0;
+    double t0 = cp_raman_pulses_break(pl, 0), t1 = cp_raman_pulses_break(pl, nb - 1), t = t0;
+    for (size_t b = 1; b <= nb; b++) {
+        double tb = b < nb ? cp_raman_pulses_break(pl, b) : t1;
+        if (b < nb && tb > t)
+            gsl_odeiv2_driver_set_hmax(drv, cp_raman_pulses_hmax(pl, t, tb));
+        /* trace samples up to tb, then tb itself */
+        while (k < ntr) {
+            double tk = k + 1 == ntr ? t1 : t0 + (t1 - t0) * (double)k / (double)(ntr - 1);
+            if (tk > tb)
+                break;
+            if (tk > t) {
+                int st = gsl_odeiv2_driver_apply(drv, &t, tk, y);
+                if (st != GSL_SUCCESS)
+                    return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = "
+                                   "%.6g s (%s)", t, gsl_strerror(st));
+            }
+            store_trace(tr, k++, t, y);
+        }
+        if (tb > t) {
+            int st = gsl_odeiv2_driver_apply(drv, &t, tb, y);
             if (st != GSL_SUCCESS)
                 return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g "
                                "s (%s)", t, gsl_strerror(st));
         }
-        if (tr)
-            store_trace(tr, i, t, y);
     }
     return CP_OK;
 }
@@ -180,15 +196,15 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     model_init(&m, p);
 
     gsl_odeiv2_system sys = {rhs, NULL, DIM, &m};
-    double span = m.pulses.t_end - m.pulses.t_start;
+    double hstart = cp_raman_pulses_hstart(&m.pulses);
     gsl_odeiv2_driver *drv = gsl_odeiv2_driver_alloc_y_new(
-        &sys, gsl_odeiv2_step_rk8pd, span * 1e-4, tolerance(m.pulses.phase), 0.0);
+        &sys, gsl_odeiv2_step_rk8pd, hstart, tolerance(m.pulses.phase), 0.0);
     if (!drv) {
         cp_raman_pulses_free(&m.pulses);
         return cp_fail(err, CP_ENOMEM, CTX ": out of memory for the integrator");
     }
     double y[DIM] = {1.0};
-    cp_status st = propagate(drv, m.pulses.t_start, m.pulses.t_end, y, trace, err);
+    cp_status st = propagate(drv, &m.pulses, y, trace, err);
     if (st == CP_OK) {
         fill_result(y, res);
         res->steps = drv->e->count;
@@ -200,8 +216,8 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
         /* the return trip: the same pulses reversed in time, from the final state */
         m.pulses.reversed = 1;
         gsl_odeiv2_driver_reset(drv);
-        gsl_odeiv2_driver_reset_hstart(drv, span * 1e-4);
-        st = propagate(drv, -m.pulses.t_end, -m.pulses.t_start, y, NULL, err);
+        gsl_odeiv2_driver_reset_hstart(drv, hstart);
+        st = propagate(drv, &m.pulses, y, NULL, err);
         res->round_trip_efficiency = y[0];
     }
     gsl_odeiv2_driver_free(drv);

@@ -18,6 +18,8 @@ typedef struct cp_raman_pulses {
     int reversed;
     double t_start, t_end;     /* window outside which both envelopes are negligible */
     double phase;              /* largest rate x (t_end - t_start), rad */
+    double half;               /* half-length of an analytic pulse's support, s */
+    double edges[4];           /* sorted support edges of the two analytic pulses, s */
 } cp_raman_pulses;
 
 /* Validate p (context "raman transfer") and set up the pulses; on success the caller must
@@ -28,6 +30,13 @@ void cp_raman_pulses_free(cp_raman_pulses *pl);
 /* Rabi frequencies (rad/s) at time t and, if dop/dos are non-NULL, their time derivatives. */
 void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, double *os,
                           double *dop, double *dos);
+
+/* Break points of the window, ascending (for the reversed sequence too): count, the i-th,
+ * the largest step allowed between two neighbouring ones, and a first step size. */
+size_t cp_raman_pulses_breaks(const cp_raman_pulses *pl);
+double cp_raman_pulses_break(const cp_raman_pulses *pl, size_t i);
+double cp_raman_pulses_hmax(const cp_raman_pulses *pl, double ta, double tb);
+double cp_raman_pulses_hstart(const cp_raman_pulses *pl);
 
 /* Fill the estimate fields of res (adiabaticity, overlap time, decay and dephasing loss). */
 void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res);

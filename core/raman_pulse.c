@@ -116,8 +116,15 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
         rabi_max = fmax(max_abs(p->pump_samples, n), max_abs(p->stokes_samples, n));
     } else {
         double half = p->shape == CP_RAMAN_GAUSSIAN ? gauss_cut * p->width : p->width;
-        pl->t_start = -fabs(p->delay) / 2 - half;
-        pl->t_end = fabs(p->delay) / 2 + half;
+        double a = fabs(p->delay) / 2;
+        pl->half = half;
+        pl->t_start = -a - half;
+        pl->t_end = a + half;
+        /* -a-half <= -a+half and a-half <= a+half; the middle two may be in either order */
+        pl->edges[0] = -a - half;
+        pl->edges[1] = fmin(-a + half, a - half);
+        pl->edges[2] = fmax(-a + half, a - half);
+        pl->edges[3] = a + half;
         rabi_max = fmax(p->rabi_pump, p->rabi_stokes);
     }
     double kappa = 2 * M_PI * (p->pump_linewidth_hz + p->stokes_linewidth_hz +
@@ -133,6 +140,36 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
                        "the Rabi frequencies, detunings or rates)", phase, max_phase);
     }
     return CP_OK;
+}
+
+size_t cp_raman_pulses_breaks(const cp_raman_pulses *pl)
+{
+    return pl->p->shape == CP_RAMAN_SAMPLED ? pl->p->n_samples : 4;
+}
+
+double cp_raman_pulses_break(const cp_raman_pulses *pl, size_t i)
+{
+    size_t n = cp_raman_pulses_breaks(pl);
+    const double *b = pl->p->shape == CP_RAMAN_SAMPLED ? pl->p->times : pl->edges;
+    /* the reversed sequence runs over -t: its break points are the mirrored ones */
+    return pl->reversed ? -b[n - 1 - i] : b[i];
+}
+
+double cp_raman_pulses_hmax(const cp_raman_pulses *pl, double ta, double tb)
+{
+    if (pl->p->shape == CP_RAMAN_SAMPLED)
+        return tb - ta;
+    double mid = 0.5 * (ta + tb) * (pl->reversed ? -1.0 : 1.0), a = fabs(pl->p->delay) / 2;
+    int in_pulse = fabs(mid - a) < pl->half || fabs(mid + a) < pl->half;
+    return in_pulse ? fmin(tb - ta, pl->p->width / 2) : tb - ta;
+}
+
+double cp_raman_pulses_hstart(const cp_raman_pulses *pl)
+{
+    if (pl->p->shape != CP_RAMAN_SAMPLED)
+        return pl->p->width * 1e-2;
+    const double *t = pl->p->times;
+    return (t[1] - t[0]) * 1e-2;
 }
 
 void cp_raman_pulses_free(cp_raman_pulses *pl)

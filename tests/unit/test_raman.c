@@ -165,6 +165,13 @@ static void test_area_theorem(void **state)
             assert_close(r.populations[0], pow(cos(area / 2), 2), 1e-8, "area theorem");
         }
     }
+    /* a short pump pulse 1 ms after a Stokes pulse (which meets empty levels and does
+     * nothing): the integrator must not step over it */
+    p.shape = CP_RAMAN_GAUSSIAN;
+    p.delay = 1e-3;
+    p.rabi_pump = p.rabi_stokes = 2.0 / (p.width * sqrt(M_PI));
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_close(r.populations[1], pow(sin(1.0), 2), 1e-8, "area theorem, long delay");
 }
 
 /* RAMAN-3: lossless resonant STIRAP.  Bergmann, Theuer & Shore, RMP 70, 1003 (1998) [M]:
