@@ -133,6 +133,7 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
                   p->gamma_initial + p->gamma_target + kappa;
     double phase = rate * (pl->t_end - pl->t_start);
     pl->phase = phase;
+    pl->other_rate = rate - fabs(p->detuning);
     if (!(phase <= max_phase)) {
         cp_raman_pulses_free(pl);
         return cp_fail(err, CP_EINVAL, CTX ": largest rate x sequence duration = %.3g rad is "

@@ -69,6 +69,7 @@ typedef struct cp_raman_result {
     double decay_loss_estimate;    /* 1 - exp(-int 4 gamma thetadot^2 / Omega_rms^2 dt) */
     double dephasing_loss_estimate; /* (kappa_13 / 2) int sin^2(2 theta) dt */
     size_t steps;             /* accepted integrator steps (one way) */
+    const char *integrator;   /* "rk8pd" or, far off resonance, "msbdf" (static string) */
 } cp_raman_result;
 
 /* Columns of a time trace: time (s), populations, sink, and the coherences rho_ij. */
