@@ -123,6 +123,7 @@ static int l_transfer(lua_State *L)
     cpl_set_number(L, "t_start", r.t_start);
     cpl_set_number(L, "t_end", r.t_end);
     cpl_set_integer(L, "steps", (lua_Integer)r.steps);
+    cpl_set_string(L, "integrator", r.integrator);
     if (ntrace) {
         lua_createtable(L, 0, CP_RAMAN_TRACE_COLUMNS);
         for (int c = 0; c < CP_RAMAN_TRACE_COLUMNS; c++) {
@@ -201,7 +202,7 @@ static const cpl_function functions[] = {
      "Returns {efficiency, populations = {initial, excited, target}, lost,\n"
      "  round_trip_efficiency (if round_trip), adiabaticity (max Omega_rms * overlap_time),\n"
      "  overlap_time (s), estimates = {decay_loss, dephasing_loss} (closed forms),\n"
-     "  t_start, t_end (s), steps, trace = {time, initial, excited, target, lost,\n"
+     "  t_start, t_end (s), steps, integrator (\"rk8pd\" or \"msbdf\"), trace = {time, initial, excited, target, lost,\n"
      "  coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if trace)}.\n"
      "Example: cp.raman.transfer{rabi_pump = 2*math.pi*5*cp.units.MHz,\n"
      "  rabi_stokes = 2*math.pi*5*cp.units.MHz, width = 2*cp.units.us, delay = 2.4*cp.units.us,\n"

@@ -28,6 +28,8 @@ T.check(r.trace.lost[11] == r.lost and #r.trace.coherence_23_im == 11, "trace co
 T.near(r.lost, r.estimates.decay_loss, 0.05, "loss vs adiabatic elimination (physics.md §5.2)")
 T.check(r.adiabaticity > 10, "Omega T > 10 (Bergmann et al. 1998 [M])")
 T.check(cp.raman.transfer(ref).round_trip_efficiency == nil, "no round trip unless asked")
+T.check(r.integrator == "rk8pd" and cp.raman.transfer(with { detuning = 2 * pi * 200 * MHz }).integrator == "msbdf",
+  "explicit near resonance, stiff far off it")
 
 -- RAMAN-L2: two-level limit, P2 = sin^2(A/2) with A = sqrt(pi) rabi width (area theorem [M]).
 local A = 2.3

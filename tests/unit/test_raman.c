@@ -142,7 +142,48 @@ static void test_against_reference(void **state)
     p = reference_case();
     p.detuning = TWO_PI * 200e6;
     p.rabi_pump = p.rabi_stokes = TWO_PI * 50e6;
-    check_against_reference(&p, "far detuned");
+    check_against_reference(&p, "far detuned, explicit");
+}
+
+/* RAMAN-1b: far off resonance the stiff integrator (msbdf) is used; it too agrees with the
+ * independent integration to 1e-7, keeps trace + lost = 1, and its round trip obeys the
+ * time-reversal identity of RAMAN-6. */
+static void test_far_detuned(void **state)
+{
+    (void)state;
+    cp_raman_params p = reference_case();
+    p.detuning = TWO_PI * 200e6;
+    check_against_reference(&p, "far detuned, benchmark case");
+    p.detuning = -TWO_PI * 2e9;
+    p.two_photon_detuning = TWO_PI * 20e3;
+    p.rabi_pump = p.rabi_stokes = TWO_PI * 50e6;
+    p.gamma = 0;
+    check_against_reference(&p, "2 GHz, 50 MHz Rabi, no decay");
+    cp_raman_result r;
+    cp_error err;
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_string_equal(r.integrator, "msbdf");
+    assert_true(r.efficiency > 0.9); /* two-photon STIRAP far off resonance still works */
+    assert_close(r.populations[0] + r.populations[1] + r.populations[2] + r.lost, 1.0, 1e-10,
+                 "trace + lost");
+    /* half-way transfer, so that the identity (which divides by rho_11^2) is well
+     * conditioned */
+    p.pump_linewidth_hz = p.stokes_linewidth_hz = 0;
+    p.two_photon_detuning = 0;
+    p.gamma = TWO_PI * 6e6;
+    p.rabi_pump = p.rabi_stokes = TWO_PI * 25e6;
+    assert_int_equal(cp_raman_transfer(&p, 1, &r, NULL, &err), CP_OK);
+    assert_string_equal(r.integrator, "msbdf");
+    double complex s = 0;
+    for (int k = 0; k < 3; k++) {
+        double complex rk1 = r.rho[k][0][0] + I * r.rho[k][0][1];
+        s += rk1 * rk1;
+    }
+    assert_close(r.round_trip_efficiency, pow(cabs(s) / r.rho[0][0][0], 2), 2e-8,
+                 "time-reversal identity, msbdf");
+    p = reference_case();
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_string_equal(r.integrator, "rk8pd");
 }
 
 /* RAMAN-2: two-level limit (Os = 0, gamma = 0): P2 = sin^2(A/2), A the pulse area
@@ -452,7 +493,8 @@ static void test_bad_input(void **state)
 int main(void)
 {
     const struct CMUnitTest tests[] = {
-        cmocka_unit_test(test_against_reference), cmocka_unit_test(test_area_theorem),
+        cmocka_unit_test(test_against_reference), cmocka_unit_test(test_far_detuned),
+        cmocka_unit_test(test_area_theorem),
         cmocka_unit_test(test_adiabatic_limit),   cmocka_unit_test(test_decay_loss),
         cmocka_unit_test(test_dephasing),         cmocka_unit_test(test_round_trip),
         cmocka_unit_test(test_conservation),      cmocka_unit_test(test_sampled_and_trace),
