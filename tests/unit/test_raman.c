@@ -179,7 +179,7 @@ static void test_far_detuned(void **state)
         double complex rk1 = r.rho[k][0][0] + I * r.rho[k][0][1];
         s += rk1 * rk1;
     }
-    assert_close(r.round_trip_efficiency, pow(cabs(s) / r.rho[0][0][0], 2), 2e-8,
+    assert_close(r.round_trip_efficiency, pow(cabs(s) / r.rho[0][0][0], 2), 1e-7,
                  "time-reversal identity, msbdf");
     p = reference_case();
     assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
