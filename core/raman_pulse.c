@@ -231,7 +231,7 @@ void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, doubl
 
 void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
 {
-    enum { M = 801 };
+    enum { M = 401 };
     const cp_raman_params *p = pl->p;
     double t0 = pl->t_start, h = (pl->t_end - t0) / (M - 1);
     double kappa13 = M_PI * (p->use_relative ? p->relative_linewidth_hz
