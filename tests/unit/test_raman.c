@@ -77,9 +77,15 @@ static int ref_rhs(double t, const double y[], double dy[], void *vp)
             d[i][j] -= 0.5 * (g[i] + g[j]) * r[i][j];
     d[0][0] += p->branching_initial * p->gamma * creal(r[1][1]);
     d[2][2] += p->branching_target * p->gamma * creal(r[1][1]);
-    /* dephasing D[L] rho = L rho L - (1/2){L^2, rho} for diagonal projector sums L */
+    /* dephasing D[L] rho = L rho L - (1/2){L^2, rho} for diagonal projector sums L:
+     * independent lasers L_p = sqrt(gp)(P2 + P3), L_s = sqrt(gs) P3 (issue 4); a common
+     * reference L_c = sqrt(gp) P2 (common mode), L_r = sqrt(g_rel) P3 (beat note) */
     double lp[3] = {0, 1, 1}, ls[3] = {0, 0, 1};
     double gp = TWO_PI * p->pump_linewidth_hz, gs = TWO_PI * p->stokes_linewidth_hz;
+    if (p->use_relative) {
+        lp[2] = 0;
+        gs = TWO_PI * p->relative_linewidth_hz;
+    }
     for (int i = 0; i < 3; i++)
         for (int j = 0; j < 3; j++) {
             d[i][j] += gp * (lp[i] * lp[j] - 0.5 * (lp[i] + lp[j])) * r[i][j];
@@ -139,6 +145,10 @@ static void test_against_reference(void **state)
     p.pump_linewidth_hz = 30e3;
     p.stokes_linewidth_hz = 10e3;
     check_against_reference(&p, "detuned, branching, slow loss, broad lasers");
+    p.stokes_linewidth_hz = 0;
+    p.use_relative = 1;
+    p.relative_linewidth_hz = 20e3;
+    check_against_reference(&p, "lasers on a common reference");
     p = reference_case();
     p.detuning = TWO_PI * 200e6;
     p.rabi_pump = p.rabi_stokes = TWO_PI * 50e6;
