@@ -275,6 +275,61 @@ static void test_adiabatic_limit(void **state)
     assert_true(env_max[3] < env_max[2]);
 }
 
+/* RAMAN-3b: resonant lossless Lambda system against its two-state equivalent.  For
+ * Delta = delta = gamma = 0 the real vector x = (c1, -i c2, c3) rotates, dx/dt = w x x with
+ * w = (Omega_S/2, 0, -Omega_P/2), which is the Bloch-vector motion of a spin 1/2 with
+ * H = (w . sigma)/2 (the SU(2)-SO(3) correspondence, Majorana 1932; used for resonant
+ * three-state systems by Hioe and by Vitanov [M]; mapping derived by hand).  The spin starts
+ * along +x, and P_k = <sigma_k>^2 for k = x, y, z <-> |1>, |2>, |3>.  Integrated
+ * here as 4 reals with GSL's rk8pd at 1e-13: populations agree to 1e-7. */
+static int spin_rhs(double t, const double y[], double dy[], void *vp)
+{
+    const cp_raman_params *p = vp;
+    double wx = env(p, p->rabi_stokes, -p->delay / 2, t) / 2;
+    double wz = -env(p, p->rabi_pump, p->delay / 2, t) / 2;
+    /* i d(psi)/dt = (wx sigma_x + wz sigma_z)/2 psi, psi = (y0 + i y1, y2 + i y3) */
+    double complex u = y[0] + I * y[1], v = y[2] + I * y[3];
+    double complex du = -0.5 * I * (wz * u + wx * v), dv = -0.5 * I * (wx * u - wz * v);
+    dy[0] = creal(du);
+    dy[1] = cimag(du);
+    dy[2] = creal(dv);
+    dy[3] = cimag(dv);
+    return GSL_SUCCESS;
+}
+
+static void test_two_state_equivalent(void **state)
+{
+    (void)state;
+    cp_raman_params p;
+    cp_raman_params_init(&p);
+    p.width = 1e-6;
+    cp_raman_result r;
+    cp_error err;
+    const double cases[][3] = {{TWO_PI * 3e6, TWO_PI * 3e6, 1e-6},   /* near-adiabatic */
+                               {TWO_PI * 1e6, TWO_PI * 2e6, 0.5e-6}, /* non-adiabatic */
+                               {TWO_PI * 4e6, TWO_PI * 1e6, -0.7e-6}}; /* intuitive order */
+    for (int s = 0; s < 2; s++)
+        for (int c = 0; c < 3; c++) {
+            p.shape = s ? CP_RAMAN_SIN2 : CP_RAMAN_GAUSSIAN;
+            p.rabi_pump = cases[c][0];
+            p.rabi_stokes = cases[c][1];
+            p.delay = cases[c][2];
+            assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+            gsl_odeiv2_system sys = {spin_rhs, NULL, 4, &p};
+            gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd,
+                                                                 1e-10, 1e-13, 0.0);
+            double y[4] = {M_SQRT1_2, 0, M_SQRT1_2, 0}, t = r.t_start;
+            assert_int_equal(gsl_odeiv2_driver_apply(d, &t, r.t_end, y), GSL_SUCCESS);
+            gsl_odeiv2_driver_free(d);
+            double complex u = y[0] + I * y[1], v = y[2] + I * y[3];
+            double sx = 2 * creal(conj(u) * v), sy = 2 * cimag(conj(u) * v);
+            double sz = creal(conj(u) * u - conj(v) * v);
+            assert_close(r.populations[0], sx * sx, 1e-7, "two-state equivalent, P1");
+            assert_close(r.populations[1], sy * sy, 1e-7, "two-state equivalent, P2");
+            assert_close(r.populations[2], sz * sz, 1e-7, "two-state equivalent, P3");
+        }
+}
+
 /* RAMAN-4: loss through |2> against adiabatic elimination, 4 gamma thetadot^2 / Omega_rms^2
  * (physics.md §5.2; Vitanov & Stenholm, PRA 56, 1463 (1997) [M]) where Omega^2 T / gamma
  * >> 1 and Omega T >> 1: agreement to 5%. */
@@ -511,7 +566,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_against_reference), cmocka_unit_test(test_far_detuned),
         cmocka_unit_test(test_area_theorem),
-        cmocka_unit_test(test_adiabatic_limit),   cmocka_unit_test(test_decay_loss),
+        cmocka_unit_test(test_adiabatic_limit),   cmocka_unit_test(test_two_state_equivalent),   cmocka_unit_test(test_decay_loss),
         cmocka_unit_test(test_dephasing),         cmocka_unit_test(test_round_trip),
         cmocka_unit_test(test_conservation),      cmocka_unit_test(test_sampled_and_trace),
         cmocka_unit_test(test_scan),              cmocka_unit_test(test_bad_input),
