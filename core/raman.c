@@ -4,11 +4,11 @@
  * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population, which is
  * integrated on its own so that trace + lost = 1 is a check of the integrator, not an
  * identity.  The integrator is GSL's embedded Runge-Kutta Prince-Dormand 8(9) (rk8pd) with
- * absolute error control; docs/models/raman.md explains the choice (measured against a
- * fourth-order Magnus propagator with exact matrix exponentials).
+ * absolute error control, or far off resonance GSL's variable-order BDF (msbdf) with the
+ * exact Jacobian and rk8pd as fallback; docs/models/raman.md explains the choice (measured
+ * against Magnus propagators with exact matrix exponentials and exponential integrators).
  */
 #include <math.h>
-#include <string.h>
 
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_odeiv2.h>
