@@ -21,7 +21,7 @@ enum { DIM = 10 };
 static const size_t max_trace = 10000000;
 
 /* Absolute error per step asked of the integrator.  Local errors add up over the steps, whose
- * number grows with the phase (largest rate x duration), so the tolerance shrinks with it:
+ * number grows with the phase (sum of the rates x duration), so the tolerance shrinks with it:
  * 1e-9 up to 2000 rad (the reference case of issue 4, ~1e-10 final error), less beyond. */
 static double tolerance(double phase)
 {

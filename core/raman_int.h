@@ -17,7 +17,7 @@ typedef struct cp_raman_pulses {
     gsl_interp *pump, *stokes; /* sampled shape only */
     int reversed;
     double t_start, t_end;     /* window outside which both envelopes are negligible */
-    double phase;              /* largest rate x (t_end - t_start), rad */
+    double phase;              /* sum of the rates x (t_end - t_start), rad */
     double other_rate;         /* sum of all rates except |Delta|, 1/s */
     double half;               /* half-length of an analytic pulse's support, s */
     double edges[4];           /* sorted support edges of the two analytic pulses, s */
