@@ -136,7 +136,7 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
     pl->other_rate = rate - fabs(p->detuning);
     if (!(phase <= max_phase)) {
         cp_raman_pulses_free(pl);
-        return cp_fail(err, CP_EINVAL, CTX ": largest rate x sequence duration = %.3g rad is "
+        return cp_fail(err, CP_EINVAL, CTX ": sum of the rates x sequence duration = %.3g rad is "
                        "out of range; allowed up to %.3g rad (shorten the pulses or reduce "
                        "the Rabi frequencies, detunings or rates)", phase, max_phase);
     }

@@ -520,7 +520,7 @@ static void test_bad_input(void **state)
     BAD(stokes_linewidth_hz, NAN, "stokes_linewidth_hz");
     BAD(branching_initial, 1.5, "branching_initial");
     BAD(gamma_initial, -1.0, "gamma_initial");
-    BAD(rabi_pump, 1e11, "largest rate"); /* absurd: far too many oscillations */
+    BAD(rabi_pump, 1e11, "sum of the rates"); /* absurd: far too many oscillations */
     p = good;
     p.use_relative = 1;
     p.relative_linewidth_hz = -1;
