@@ -1,0 +1,139 @@
+-- coldprep.argcheck: named-argument checks for the Lua-side library (plans and stages),
+-- with the same messages as the C readers in lua/args.c:
+--   "stages.transfer: missing argument 'width' (s)",
+--   "stages.hold: unknown argument 'duraton' (did you mean 'duration'?)".
+-- Every reader takes the function name used in the message, the argument table and a key.
+local M = {}
+
+local function edit_distance(s, t)
+  local row = {}
+  for j = 0, #t do row[j] = j end
+  for i = 1, #s do
+    local diag = row[0]
+    row[0] = i
+    for j = 1, #t do
+      local up = row[j]
+      local best = diag + ((s:sub(i, i) ~= t:sub(j, j)) and 1 or 0)
+      if up + 1 < best then best = up + 1 end
+      if row[j - 1] + 1 < best then best = row[j - 1] + 1 end
+      row[j] = best
+      diag = up
+    end
+  end
+  return row[#t]
+end
+
+-- The name in `known` closest to `key` (edit distance), or nil when `known` is empty.
+function M.closest(key, known)
+  local best, best_d
+  for _, k in ipairs(known) do
+    local d = edit_distance(key, k)
+    if not best_d or d < best_d then best, best_d = k, d end
+  end
+  return best
+end
+
+local function fail(fname, fmt, ...)
+  error(fname .. ": " .. string.format(fmt, ...), 0)
+end
+M.fail = fail
+
+-- `args` must be a table whose keys are all in `known`.
+function M.table(fname, args, known)
+  if type(args) ~= "table" then
+    fail(fname, "expects one table of named arguments, got %s (call it as %s{...})", type(args), fname)
+  end
+  for k in pairs(args) do
+    if type(k) ~= "string" then
+      fail(fname, "argument keys must be names, got a %s key", type(k))
+    end
+    local found = false
+    for _, kk in ipairs(known) do
+      if kk == k then found = true; break end
+    end
+    if not found then
+      fail(fname, "unknown argument '%s' (did you mean '%s'?)", k, M.closest(k, known) or "?")
+    end
+  end
+  return args
+end
+
+local function finite(v)
+  return v == v and v ~= math.huge and v ~= -math.huge
+end
+
+-- A number under `key`.  opt: optional (return opt.default when absent), positive,
+-- nonnegative, min, max (inclusive), below (exclusive upper bound).
+function M.number(fname, args, key, unit, opt)
+  opt = opt or {}
+  local v = args[key]
+  local u = unit ~= "" and unit or "dimensionless"
+  if v == nil then
+    if opt.optional then return opt.default end
+    fail(fname, "missing argument '%s' (%s)", key, u)
+  end
+  if type(v) ~= "number" then
+    fail(fname, "argument '%s' must be a number (%s), got %s", key, u, type(v))
+  end
+  if not finite(v) then
+    fail(fname, "argument '%s' must be a finite number (%s), got %s", key, u, tostring(v))
+  end
+  local function range(allowed)
+    fail(fname, "argument '%s' = %g %s is out of range; allowed %s", key, v, u, allowed)
+  end
+  if opt.positive and v <= 0 then range("(0, inf) " .. u) end
+  if opt.nonnegative and v < 0 then range("[0, inf) " .. u) end
+  if opt.min and v < opt.min then
+    range(string.format("[%g, %s] %s", opt.min, opt.max and string.format("%g", opt.max) or "inf", u))
+  end
+  if opt.max and v > opt.max then
+    range(string.format("[%g, %g] %s", opt.min or -math.huge, opt.max, u))
+  end
+  return v
+end
+
+-- One of the strings in `options`.
+function M.option(fname, args, key, options, default)
+  local v = args[key]
+  if v == nil then
+    if default ~= nil then return default end
+    fail(fname, "missing argument '%s' (one of %s)", key, table.concat(options, ", "))
+  end
+  for _, o in ipairs(options) do
+    if v == o then return v end
+  end
+  fail(fname, "argument '%s' = %s is not allowed; use one of %s", key, tostring(v),
+    table.concat(options, ", "))
+end
+
+-- Three trap frequencies (rad/s) as a list {wx, wy, wz}; a single number means isotropic.
+function M.frequencies(fname, args, key, opt)
+  opt = opt or {}
+  local v = args[key]
+  if v == nil and opt.optional then return nil end
+  if type(v) == "number" then
+    local w = M.number(fname, args, key, "rad/s", { positive = true })
+    return { w, w, w }
+  end
+  if type(v) ~= "table" or #v ~= 3 then
+    if v == nil then fail(fname, "missing argument '%s' (rad/s, three angular trap frequencies)", key) end
+    fail(fname, "argument '%s' must be three angular trap frequencies {wx, wy, wz} (rad/s)", key)
+  end
+  local out = {}
+  for i = 1, 3 do
+    out[i] = M.number(fname, { [key .. "[" .. i .. "]"] = v[i] }, key .. "[" .. i .. "]", "rad/s",
+      { positive = true })
+  end
+  return out
+end
+
+-- A function under `key`.
+function M.func(fname, args, key)
+  local v = args[key]
+  if type(v) ~= "function" then
+    fail(fname, "argument '%s' must be a function, got %s", key, type(v))
+  end
+  return v
+end
+
+return M

@@ -1,0 +1,291 @@
+-- coldprep.plan: a preparation plan (the starting atomic mixture and the stages of the
+-- sequence), its run into a budget, the verdict and the limiting-stage analysis.
+--
+--   local plan = cp.plan{name = "...", start = {...}, stages = {...} [, threshold = 0.5]}
+--   local budget = plan:run()      -- see coldprep.report for what a budget holds
+--
+-- cp.plan is both this module and callable (cp.plan{...} is cp.plan.new{...}).
+-- The limiting stage is found by perturbation: for each stage in turn the plan is rerun
+-- with that stage made slightly better (it loses a fraction `perturbation` less of the
+-- particles it loses, and adds that fraction less of the entropy per particle it adds);
+-- the stage whose improvement raises the final phase-space density N (hbar w / kB T)^3
+-- most is the one that limits the plan.
+local cp = require "coldprep"
+local A = require "coldprep.argcheck"
+local S = require "coldprep.sample"
+local report = require "coldprep.report"
+
+local P = {}
+local Plan = {}
+Plan.__index = Plan
+
+local DEFAULT_THRESHOLD = { fermion = 0.5, boson = 1.0 }
+local DEFAULT_PERTURBATION = 0.1
+
+-- ---- the start ------------------------------------------------------------------------
+
+local CLOUD_KEYS = { "atom", "number", "trap_frequencies", "beam_power" }
+
+-- One atom cloud of the start at temperature T, checked; `where` is e.g.
+-- "plan: start.atoms[2]".
+local function start_cloud(where, c, molecule, temperature)
+  A.table(where, c, CLOUD_KEYS)
+  if type(c.atom) ~= "string" then
+    A.fail(where, "missing argument 'atom' (an atom name such as \"40K\")")
+  end
+  local ok, atom = pcall(cp.species.atom, c.atom)
+  if not ok then A.fail(where, "atom '%s' is unknown: %s", c.atom, tostring(atom)) end
+  if atom.name ~= molecule.atoms[1] and atom.name ~= molecule.atoms[2] then
+    A.fail(where, "atom '%s' is not a constituent of %s (made of %s and %s)", atom.name,
+      molecule.name, molecule.atoms[1], molecule.atoms[2])
+  end
+  local cloud = {
+    name = atom.name, mass = atom.mass, statistics = atom.statistics,
+    number = A.number(where, c, "number", "atoms", { min = 1 }),
+    temperature = temperature,
+    trap_frequencies = A.frequencies(where, c, "trap_frequencies"),
+    beam_power = A.number(where, c, "beam_power", "W", { optional = true, positive = true }),
+  }
+  return S.derive(cloud)
+end
+
+-- The starting sample from the `start` table of a plan.
+local function start_sample(st)
+  local where = "plan: start"
+  A.table(where, st, { "molecule", "temperature", "atoms" })
+  if type(st.molecule) ~= "string" then
+    A.fail(where, "missing argument 'molecule' (a molecule name such as \"23Na40K\")")
+  end
+  local ok, mol = pcall(cp.species.molecule, st.molecule)
+  if not ok then A.fail(where, "molecule '%s' is unknown: %s", st.molecule, tostring(mol)) end
+  if type(st.atoms) ~= "table" or #st.atoms ~= 2 then
+    A.fail(where, "argument 'atoms' must list the two atom clouds, {{atom = ..., number = ..., "
+      .. "trap_frequencies = ...}, {...}}")
+  end
+  local T = A.number(where, st, "temperature", "K", { positive = true, max = 1e-3 })
+  local atoms = {}
+  for i = 1, 2 do
+    atoms[i] = start_cloud(string.format("%s.atoms[%d]", where, i), st.atoms[i], mol, T)
+  end
+  if atoms[1].name == atoms[2].name then
+    A.fail(where, "both clouds are %s; %s needs one cloud of %s and one of %s", atoms[1].name,
+      mol.name, mol.atoms[1], mol.atoms[2])
+  end
+  local s = { kind = "atom-mixture", species = mol.name, molecule = mol, atoms = atoms, elapsed = 0 }
+  return S.follow(s, atoms[S.minority(atoms)])
+end
+
+-- ---- plans ----------------------------------------------------------------------------
+
+-- Check that each stage accepts the kind of sample the stage before it hands on.
+local function check_order(stages)
+  local kind = "atom-mixture"
+  for i, st in ipairs(stages) do
+    if not st.accepts[kind] then
+      local want = {}
+      for k in pairs(st.accepts) do want[#want + 1] = k end
+      table.sort(want)
+      A.fail(string.format("plan: stage %d (%s)", i, st.name),
+        "needs a sample of kind %s, but at this point of the plan it is %s%s",
+        table.concat(want, " or "), kind, st.hint and ("; " .. st.hint) or "")
+    end
+    kind = st.produces or kind
+  end
+end
+
+-- cp.plan.new{start, stages [, name, threshold, perturbation]} -> plan
+function P.new(args)
+  local fname = "plan"
+  A.table(fname, args, { "name", "start", "stages", "threshold", "perturbation" })
+  if args.start == nil then A.fail(fname, "missing argument 'start' (the atomic mixture)") end
+  if type(args.stages) ~= "table" or #args.stages == 0 then
+    A.fail(fname, "argument 'stages' must be a non-empty list of stages (cp.stages.*{...})")
+  end
+  for i, st in pairs(args.stages) do
+    if math.type(i) ~= "integer" or i < 1 or i > #args.stages then
+      A.fail(fname, "argument 'stages' must be a list; it has the key %s", tostring(i))
+    end
+    if getmetatable(st) ~= cp.stages.Stage then
+      A.fail(string.format("plan: stage %d", i), "is a %s, not a stage built by cp.stages.*{...}",
+        type(st))
+    end
+  end
+  if args.name ~= nil and type(args.name) ~= "string" then
+    A.fail(fname, "argument 'name' must be a string")
+  end
+  local self = setmetatable({
+    name = args.name or "plan",
+    start = start_sample(args.start),
+    stages = { table.unpack(args.stages) },
+    threshold = A.number(fname, args, "threshold", "T/T_F or T/T_c", { optional = true, positive = true }),
+    perturbation = A.number(fname, args, "perturbation", "fraction",
+      { optional = true, default = DEFAULT_PERTURBATION, min = 1e-4, max = 0.5 }),
+  }, Plan)
+  check_order(self.stages)
+  return self
+end
+
+-- Run stages first..last on sample s; returns the list of {stage, before, after, info}.
+local function run_stages(self, s, first, last, alter)
+  local steps = {}
+  for i = first, last do
+    local st = self.stages[i]
+    local before = s
+    local after, info
+    if S.is_empty(before) then
+      after, info = S.copy(before), { duration = 0, notes = { "not run: no particles left" }, skipped = true }
+    else
+      after, info = st:run(S.copy(before))
+      S.check(after, string.format("stage %d (%s)", i, st.name))
+      info = info or {}
+      after.elapsed = before.elapsed + (info.duration or 0)
+      if after.kind == "atom-mixture" then
+        -- a stage acting on a mixture changes the clouds; the followed fields follow them
+        for _, c in ipairs(after.atoms) do S.derive(c) end
+        S.follow(after, after.atoms[S.minority(after.atoms)])
+      else
+        S.derive(after)
+      end
+    end
+    if alter and alter.index == i then after = alter.fn(before, after) end
+    steps[#steps + 1] = { index = i, stage = st, before = before, after = after, info = info }
+    s = after
+  end
+  return steps, s
+end
+
+-- Cloud `after` made better by a fraction d relative to `before`: a fraction d less of
+-- the particles it lost are lost, and a fraction d less of the entropy per particle it
+-- added is added (at the new number, by lowering the temperature).
+local function improve_cloud(before, after, d)
+  local n = after.number
+  if n < before.number then n = before.number - (1 - d) * (before.number - n) end
+  local better = S.with(after, { number = n })
+  local s_after, s_before = after.entropy_per_particle, before.entropy_per_particle
+  if S.is_empty(better) or not (s_after > s_before) then return better end
+  local s_target = s_before + (1 - d) * (s_after - s_before)
+  if s_target < better.entropy_per_particle then
+    better = S.with(better, { temperature = S.temperature_for_entropy(better, s_target) })
+  end
+  return better
+end
+
+-- The stage output made better by a fraction d: for an atom mixture each cloud is
+-- improved, otherwise the followed particles.
+local function improved(d)
+  return function(before, after)
+    if after.kind ~= "atom-mixture" then return improve_cloud(before, after, d) end
+    local out = S.copy(after)
+    for i = 1, 2 do out.atoms[i] = improve_cloud(before.atoms[i], after.atoms[i], d) end
+    return S.follow(out, out.atoms[S.minority(out.atoms)])
+  end
+end
+
+-- The verdict on the final sample.
+local function verdict(self, final)
+  local stat = final.statistics
+  local thr = self.threshold or DEFAULT_THRESHOLD[stat]
+  local v = { threshold = thr, degeneracy_name = final.degeneracy_name, degeneracy = final.degeneracy }
+  if S.is_empty(final) then
+    v.degenerate = false
+    v.text = "not degenerate: no molecules survive the plan"
+  else
+    v.degenerate = final.degeneracy <= thr
+    v.text = string.format("%s: final %s = %.3g %s %.3g (%s %s)",
+      v.degenerate and "degenerate" or "not degenerate", final.degeneracy_name, final.degeneracy,
+      v.degenerate and "<=" or ">", thr, stat == "fermion" and "fermionic" or "bosonic",
+      final.kind == "atom-mixture" and final.name or final.species)
+  end
+  return v
+end
+
+-- Rank the stages by the gain in final trap phase-space density when each is improved.
+local function limiting(self, steps, final)
+  local base = final.trap_phase_space_density
+  local ranking = {}
+  for i = 1, #steps do
+    local gain
+    if steps[i].info.skipped then
+      gain = 0
+    else
+      local _, f = run_stages(self, steps[i].before, i, #steps,
+        { index = i, fn = improved(self.perturbation) })
+      gain = (base > 0) and (f.trap_phase_space_density / base - 1) or f.trap_phase_space_density
+    end
+    ranking[#ranking + 1] = { index = i, name = steps[i].stage.name, gain = gain }
+  end
+  table.sort(ranking, function(a, b)
+    if a.gain ~= b.gain then return a.gain > b.gain end
+    return a.index < b.index
+  end)
+  return ranking
+end
+
+-- The plain-language reason for the verdict, naming the limiting stage.
+local function reason(self, steps, ranking, v, start, final)
+  local top = ranking[1]
+  local st = steps[top.index]
+  local kept = st.before.number > 0 and st.after.number / st.before.number or 0
+  local ds = st.after.entropy_per_particle - st.before.entropy_per_particle
+  local what = {}
+  what[#what + 1] = string.format("keeps %.0f %% of the particles", 100 * kept)
+  if ds == ds and ds > 0 then
+    what[#what + 1] = string.format("adds %.2g kB of entropy per particle", ds)
+  end
+  local parts = {}
+  if S.is_empty(final) then
+    parts[1] = string.format("No molecules are left after stage %d (%s).", top.index, top.name)
+  else
+    parts[1] = string.format("%d of %.3g starting %s survive as %s (%.3g %%) at %s = %.3g.",
+      math.floor(final.number + 0.5), start.number, start.name, final.species,
+      100 * final.number / start.number, final.degeneracy_name, final.degeneracy)
+  end
+  parts[2] = string.format("The limiting stage is %d (%s): it %s; making it %.0f %% better would "
+    .. "raise the final phase-space density by %.3g %%, more than any other stage.",
+    top.index, top.name, table.concat(what, " and "), 100 * self.perturbation, 100 * top.gain)
+  if not v.degenerate and ranking[2] then
+    parts[3] = string.format("Next: stage %d (%s), %+.3g %%.", ranking[2].index, ranking[2].name,
+      100 * ranking[2].gain)
+  end
+  return table.concat(parts, " ")
+end
+
+-- plan:run() -> budget (see coldprep.report)
+function Plan:run()
+  local steps, final = run_stages(self, self.start, 1, #self.stages)
+  local v = verdict(self, final)
+  local ranking = limiting(self, steps, final)
+  return report.budget {
+    plan = self, start = self.start, steps = steps, final = final, verdict = v,
+    ranking = ranking, reason = reason(self, steps, ranking, v, self.start, final),
+  }
+end
+
+P.Plan = Plan
+
+setmetatable(P, { __call = function(_, args) return P.new(args) end })
+
+cp.set_help(P.new, [[
+cp.plan{start = {...}, stages = {...} [, name, threshold, perturbation]} -> plan
+  (cp.plan{...} and cp.plan.new{...} are the same)
+start = {molecule = "23Na40K", temperature = 250*nK (K, both clouds in equilibrium), atoms = {
+           {atom = "23Na", number = 3e5, trap_frequencies = {wx, wy, wz}},
+           {atom = "40K",  number = 1.5e5, trap_frequencies = {...}}}}
+  trap_frequencies: angular, rad/s (one number = isotropic); optional beam_power (W) of
+  the trap beams, used only for the safety cautions.  Degeneracy of each cloud is computed.
+stages: a list built with cp.stages.* (help(cp.stages) lists them); the order is checked.
+threshold: the degeneracy threshold (default T/T_F <= 0.5 for fermionic molecules,
+  T/T_c <= 1 for bosonic ones); perturbation: how much better a stage is made when
+  looking for the limiting stage (fraction, default 0.1).
+plan:run() -> budget with stages, final, degenerate, verdict, limiting_stage, reason;
+  budget:print(), budget:write_csv(path), budget:write_json(path).
+Example: see scripts/demo.lua and docs/planning.md.]])
+cp.set_help(Plan.run, [[
+plan:run() -> budget: runs every stage, then reruns the plan once per stage with that
+stage made `perturbation` better to find the limiting stage.
+budget.stages[i] = {name, number, temperature (K), t_over_tf | t_over_tc, peak_density (m^-3),
+  phase_space_density, entropy_per_particle (kB), efficiency, cumulative_efficiency,
+  duration (s), elapsed (s), notes}; budget.final, budget.degenerate, budget.verdict,
+  budget.limiting_stage, budget.reason.  Example: cp.plan{...}:run():print()]])
+
+return P

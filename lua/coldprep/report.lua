@@ -1,0 +1,356 @@
+-- coldprep.report: the budget a plan run produces, and its three outputs: an aligned
+-- table with units (budget:print), CSV following RFC 4180 (budget:write_csv) and JSON
+-- (budget:write_json).  Every output ends with, or carries, the safety cautions that
+-- apply to the plan's equipment.
+--
+-- A budget holds
+--   stages[i]  one record per stage: index, name, kind (of the sample after it), particles
+--              (what is counted), number, temperature (K), degeneracy_name ("T/T_F" or
+--              "T/T_c"), degeneracy, t_over_tf or t_over_tc, peak_density (m^-3),
+--              phase_space_density (peak), entropy_per_particle (kB), efficiency (this
+--              stage's N_out/N_in), cumulative_efficiency (N/N_start), duration (s),
+--              elapsed (s), adiabatic, notes (list of strings)
+--   start, final  records of the starting and the final sample (same fields)
+--   degenerate, threshold, verdict (text), limiting_stage (name), limiting_index, reason,
+--   ranking ({index, name, gain} sorted, gain = relative rise of the final phase-space
+--   density when that stage is improved), safety (list of caution texts)
+local cp = require "coldprep"
+
+local R = {}
+local Budget = {}
+Budget.__index = Budget
+
+-- ---- records --------------------------------------------------------------------------
+
+local function particles(s)
+  if s.kind == "atom-mixture" then return s.name .. " atoms" end
+  if s.kind == "feshbach-molecules" then return s.species .. " (Feshbach)" end
+  return s.species .. " (ground)"
+end
+
+local function record(index, name, s, info, start_number, before_number)
+  local r = {
+    index = index, name = name, kind = s.kind, particles = particles(s),
+    number = s.number, temperature = s.temperature,
+    degeneracy_name = s.degeneracy_name, degeneracy = s.degeneracy,
+    t_over_tf = s.t_over_tf, t_over_tc = s.t_over_tc,
+    peak_density = s.peak_density, phase_space_density = s.phase_space_density,
+    entropy_per_particle = s.entropy_per_particle,
+    efficiency = before_number and (before_number > 0 and s.number / before_number or 0) or 1,
+    cumulative_efficiency = s.number / start_number,
+    duration = info and info.duration or 0, elapsed = s.elapsed,
+    adiabatic = info and info.adiabatic or false,
+    notes = {},
+  }
+  for _, n in ipairs(info and info.notes or {}) do r.notes[#r.notes + 1] = n end
+  return r
+end
+
+-- ---- safety ---------------------------------------------------------------------------
+
+local CLASS4_W = 0.5 -- W; IEC 60825-1 / ANSI Z136.1 boundary for CW sources (physics.md section 9)
+
+-- Collect the equipment the plan declares: the start's trap beams and each stage's
+-- `equipment` list ({kind = "laser", what, power (W) [, wavelength]}, {kind = "coil",
+-- what, field (T)}, {kind = "electric", what, field (V/m)}).
+local function equipment(plan)
+  local list = {}
+  for _, c in ipairs(plan.start.atoms) do
+    list[#list + 1] = { kind = "laser", what = "optical trap for " .. c.name, power = c.beam_power }
+  end
+  for i, st in ipairs(plan.stages) do
+    for _, e in ipairs(st.equipment or {}) do
+      local item = {}
+      for k, v in pairs(e) do item[k] = v end
+      item.what = string.format("stage %d (%s): %s", i, st.name, e.what or e.kind)
+      list[#list + 1] = item
+    end
+  end
+  return list
+end
+
+local function cautions(plan)
+  local out, class4, unknown, coils, hv = {}, {}, {}, {}, {}
+  for _, e in ipairs(equipment(plan)) do
+    if e.kind == "laser" then
+      if e.power == nil then
+        unknown[#unknown + 1] = e.what
+      elseif e.power > CLASS4_W then
+        class4[#class4 + 1] = string.format("%s, %.3g W", e.what, e.power)
+      end
+    elseif e.kind == "coil" then
+      coils[#coils + 1] = string.format("%s, %.4g G", e.what, e.field / cp.units.G)
+    elseif e.kind == "electric" then
+      hv[#hv + 1] = string.format("%s, %.3g kV/cm", e.what, e.field / 1e5)
+    end
+  end
+  if #class4 > 0 then
+    out[#out + 1] = "Class 4 laser (beam power above 0.5 W): " .. table.concat(class4, "; ")
+      .. ". Diffuse reflections, skin and fire hazards; eyewear rated for every wavelength in use"
+      .. " (infrared beams are invisible), enclosed beams and dumps, interlocked controlled area,"
+      .. " alignment at reduced power."
+  end
+  if #unknown > 0 then
+    out[#out + 1] = "Beam power not given for: " .. table.concat(unknown, "; ")
+      .. ". Optical traps and Raman lasers with amplifiers are commonly Class 3B or Class 4;"
+      .. " classify them before use."
+  end
+  if #coils > 0 then
+    out[#out + 1] = "High-current coils for Feshbach fields: " .. table.concat(coils, "; ")
+      .. ". Hundreds of amperes: protect against the inductive voltage spike when current is"
+      .. " interrupted (never open a live coil circuit), interlock the supply on cooling-water"
+      .. " flow and temperature, mind forces on nearby metal and keep pacemakers away."
+  end
+  if #hv > 0 then
+    out[#out + 1] = "High voltage for electric fields: " .. table.concat(hv, "; ")
+      .. ". Current-limited supplies, interlocked covers, proper grounding, discharge before"
+      .. " handling, feedthroughs rated for the voltage; never work alone on live high voltage."
+  end
+  out[#out + 1] = "These numbers plan an experiment; they are not a safety clearance. Follow your"
+    .. " local codes and regulations, your laser safety officer and licensed practice"
+    .. " (ANSI Z136.1, IEC 60825-1)."
+  return out
+end
+
+-- ---- the budget -----------------------------------------------------------------------
+
+-- Build a budget from a plan run: {plan, start, steps, final, verdict, ranking, reason}.
+function R.budget(run)
+  local plan = run.plan
+  local b = setmetatable({}, Budget)
+  b.name = plan.name
+  b.species = run.start.species
+  b.start = record(0, "start", run.start, nil, run.start.number, nil)
+  b.start.notes = {}
+  for _, c in ipairs(run.start.atoms) do
+    b.start.notes[#b.start.notes + 1] = string.format("%s: %.3g atoms at %.4g nK, %s = %.3g",
+      c.name, c.number, c.temperature / cp.units.nK, c.degeneracy_name, c.degeneracy)
+  end
+  b.stages = {}
+  for k, st in ipairs(run.steps) do
+    b.stages[k] = record(st.index, st.stage.name, st.after, st.info, run.start.number, st.before.number)
+    b.stages[k].adiabatic = st.stage.adiabatic
+  end
+  b.final = b.stages[#b.stages]
+  b.degenerate = run.verdict.degenerate
+  b.threshold = run.verdict.threshold
+  b.verdict = run.verdict.text
+  b.ranking = run.ranking
+  b.limiting_index = run.ranking[1].index
+  b.limiting_stage = run.ranking[1].name
+  b.reason = run.reason
+  b.safety = cautions(plan)
+  return b
+end
+
+-- ---- text -----------------------------------------------------------------------------
+
+local function fmt(v, f)
+  if v == nil or v ~= v then return "-" end
+  return string.format(f, v)
+end
+
+local COLUMNS = {
+  { "#", "", "%d", function(r) return r.index end, 2 },
+  { "stage", "", "%s", function(r) return r.name end, -16 },
+  { "particles", "", "%s", function(r) return r.particles end, -22 },
+  { "N", "", "%.3g", function(r) return r.number end, 9 },
+  { "T", "nK", "%.4g", function(r) return r.temperature / cp.units.nK end, 8 },
+  { "T/Tdeg", "", "%.3g", function(r) return r.degeneracy end, 7 },
+  { "", "", "%s", function(r) return r.degeneracy_name == "T/T_F" and "F" or "c" end, -1 },
+  { "n_peak", "cm^-3", "%.3g", function(r) return r.peak_density and r.peak_density / cp.units.per_cm3 end, 9 },
+  { "PSD", "", "%.3g", function(r) return r.phase_space_density end, 8 },
+  { "S/N", "kB", "%.3g", function(r) return r.entropy_per_particle end, 6 },
+  { "step", "%", "%.1f", function(r) return 100 * r.efficiency end, 6 },
+  { "cumul.", "%", "%.3g", function(r) return 100 * r.cumulative_efficiency end, 7 },
+  { "time", "ms", "%.4g", function(r) return r.duration / cp.units.ms end, 8 },
+}
+
+local function cell(text, width)
+  if width < 0 then return text .. string.rep(" ", -width - #text) end
+  return string.rep(" ", width - #text) .. text
+end
+
+local function wrap(text, indent, width)
+  local lines, line = {}, ""
+  for word in text:gmatch("%S+") do
+    if #line > 0 and #line + 1 + #word > width - #indent then
+      lines[#lines + 1] = indent .. line
+      line = word
+    else
+      line = (#line > 0) and (line .. " " .. word) or word
+    end
+  end
+  if #line > 0 then lines[#lines + 1] = indent .. line end
+  return table.concat(lines, "\n")
+end
+
+-- The printed report as one string.
+function Budget:text()
+  local out = {}
+  out[#out + 1] = string.format("Preparation budget: %s (%s)", self.name, self.species)
+  local head, units = {}, {}
+  for _, c in ipairs(COLUMNS) do
+    head[#head + 1] = cell(c[1], c[5])
+    units[#units + 1] = cell(c[2], c[5])
+  end
+  out[#out + 1] = table.concat(head, " ")
+  out[#out + 1] = table.concat(units, " ")
+  local function row(r)
+    local cells = {}
+    for _, c in ipairs(COLUMNS) do
+      cells[#cells + 1] = cell(fmt(c[4](r), c[3]), c[5])
+    end
+    out[#out + 1] = table.concat(cells, " ")
+  end
+  row(self.start)
+  for _, r in ipairs(self.stages) do row(r) end
+  out[#out + 1] = "T/Tdeg: T/T_F (F, fermions) or T/T_c (c, bosons); PSD: peak phase-space density n(0) lambda^3."
+  out[#out + 1] = ""
+  out[#out + 1] = "Notes:"
+  for _, r in ipairs { self.start, table.unpack(self.stages) } do
+    for _, n in ipairs(r.notes) do
+      out[#out + 1] = wrap(string.format("%d %s: %s", r.index, r.name, n), "  ", 96)
+    end
+  end
+  out[#out + 1] = ""
+  out[#out + 1] = wrap("Verdict: " .. self.verdict .. ".", "", 96)
+  out[#out + 1] = wrap(self.reason, "  ", 96)
+  local rank = {}
+  for _, g in ipairs(self.ranking) do
+    rank[#rank + 1] = string.format("%d %s %+.3g %%", g.index, g.name, 100 * g.gain)
+  end
+  out[#out + 1] = wrap("Gain in final phase-space density per stage made better: "
+    .. table.concat(rank, ", ") .. ".", "  ", 96)
+  out[#out + 1] = ""
+  out[#out + 1] = "Safety:"
+  for _, s in ipairs(self.safety) do out[#out + 1] = wrap("- " .. s, "  ", 96):gsub("^  ", "") end
+  return table.concat(out, "\n") .. "\n"
+end
+
+-- budget:print([file]): write the report to `file` (default io.stdout).
+function Budget:print(file)
+  (file or io.stdout):write(self:text())
+end
+
+-- ---- CSV (RFC 4180) -------------------------------------------------------------------
+
+local CSV_FIELDS = { "index", "name", "kind", "particles", "number", "temperature_K",
+  "degeneracy_name", "degeneracy", "peak_density_m3", "phase_space_density",
+  "entropy_per_particle_kB", "efficiency", "cumulative_efficiency", "duration_s", "elapsed_s",
+  "adiabatic", "notes" }
+
+local function csv_value(r, f)
+  local map = { temperature_K = "temperature", peak_density_m3 = "peak_density",
+    entropy_per_particle_kB = "entropy_per_particle", duration_s = "duration", elapsed_s = "elapsed" }
+  local v = r[map[f] or f]
+  if f == "notes" then v = table.concat(r.notes, "; ") end
+  if type(v) == "number" then
+    if v ~= v or v == math.huge or v == -math.huge then return "" end
+    if math.type(v) == "integer" then return tostring(v) end
+    return string.format("%.10g", v)
+  end
+  return tostring(v == nil and "" or v)
+end
+
+-- A field quoted when it holds a comma, a double quote, CR or LF (RFC 4180 section 2, rules 6-7).
+local function csv_field(s)
+  if s:find('[,"\r\n]') then return '"' .. s:gsub('"', '""') .. '"' end
+  return s
+end
+
+local function open_for_writing(fname, path)
+  if type(path) ~= "string" or path == "" then
+    error(fname .. ": expects a file path (string), got " .. type(path), 3)
+  end
+  local f, err = io.open(path, "wb")
+  if not f then error(fname .. ": cannot write " .. path .. ": " .. tostring(err), 3) end
+  return f
+end
+
+-- budget:write_csv(path): one header line, then the start and one line per stage;
+-- lines end in CRLF as RFC 4180 asks.
+function Budget:write_csv(path)
+  local f = open_for_writing("budget:write_csv", path)
+  local lines = { table.concat(CSV_FIELDS, ",") }
+  for _, r in ipairs { self.start, table.unpack(self.stages) } do
+    local cells = {}
+    for i, fld in ipairs(CSV_FIELDS) do cells[i] = csv_field(csv_value(r, fld)) end
+    lines[#lines + 1] = table.concat(cells, ",")
+  end
+  f:write(table.concat(lines, "\r\n"), "\r\n")
+  f:close()
+end
+
+-- ---- JSON -----------------------------------------------------------------------------
+
+local function json_string(s)
+  return '"' .. s:gsub('[%c"\\]', function(ch)
+    local esc = { ['"'] = '\\"', ["\\"] = "\\\\", ["\n"] = "\\n", ["\r"] = "\\r", ["\t"] = "\\t" }
+    return esc[ch] or string.format("\\u%04x", ch:byte())
+  end) .. '"'
+end
+
+local function json(v, indent)
+  local t = type(v)
+  if t == "number" then
+    if v ~= v or v == math.huge or v == -math.huge then return "null" end
+    if math.type(v) == "integer" then return tostring(v) end
+    return string.format("%.17g", v)
+  elseif t == "string" then
+    return json_string(v)
+  elseif t == "boolean" then
+    return tostring(v)
+  elseif t == "nil" then
+    return "null"
+  elseif t == "table" then
+    local pad, inner = string.rep("  ", indent), string.rep("  ", indent + 1)
+    local parts = {}
+    if #v > 0 or next(v) == nil then
+      for _, x in ipairs(v) do parts[#parts + 1] = inner .. json(x, indent + 1) end
+      if #parts == 0 then return "[]" end
+      return "[\n" .. table.concat(parts, ",\n") .. "\n" .. pad .. "]"
+    end
+    local keys = {}
+    for k in pairs(v) do keys[#keys + 1] = tostring(k) end
+    table.sort(keys)
+    for _, k in ipairs(keys) do
+      parts[#parts + 1] = inner .. json_string(k) .. ": " .. json(v[k], indent + 1)
+    end
+    return "{\n" .. table.concat(parts, ",\n") .. "\n" .. pad .. "}"
+  end
+  error("budget:write_json: cannot encode a " .. t, 0)
+end
+
+-- budget:write_json(path): the whole budget as one JSON object (NaN written as null).
+function Budget:write_json(path)
+  local f = open_for_writing("budget:write_json", path)
+  local doc = {
+    name = self.name, species = self.species, start = self.start, stages = self.stages,
+    final = self.final, degenerate = self.degenerate, threshold = self.threshold,
+    verdict = self.verdict, limiting_stage = self.limiting_stage,
+    limiting_index = self.limiting_index, reason = self.reason, ranking = self.ranking,
+    safety = self.safety,
+  }
+  f:write(json(doc, 0), "\n")
+  f:close()
+end
+
+R.Budget = Budget
+
+cp.set_help(Budget.print, [[
+budget:print([file]) prints the budget: one aligned row per stage with units (number,
+temperature in nK, T/T_F or T/T_c, peak density in cm^-3, peak phase-space density, entropy
+per particle in kB, step and cumulative efficiency in %, duration in ms), the notes, the
+verdict with the limiting stage and its reason, and the safety cautions for this plan.]])
+cp.set_help(Budget.write_csv, [[
+budget:write_csv(path) writes the start and one line per stage as CSV (RFC 4180: comma
+separated, CRLF line ends, fields with commas, quotes or line breaks quoted).  Columns:
+index, name, kind, particles, number, temperature_K, degeneracy_name, degeneracy,
+peak_density_m3, phase_space_density, entropy_per_particle_kB, efficiency,
+cumulative_efficiency, duration_s, elapsed_s, adiabatic, notes.]])
+cp.set_help(Budget.write_json, [[
+budget:write_json(path) writes the whole budget (stages, start, final, verdict, ranking,
+reason, safety) as one JSON object, SI units, NaN as null.]])
+
+return R

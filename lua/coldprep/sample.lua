@@ -1,0 +1,186 @@
+-- coldprep.sample: the sample a plan hands from stage to stage, and its thermodynamics.
+--
+-- A sample is a plain Lua table (stages may build or change one; `derive` fills in the
+-- computed fields):
+--   kind                "atom-mixture" | "feshbach-molecules" | "ground-state-molecules"
+--   species             the target molecule's name, e.g. "23Na40K"
+--   molecule            its record from cp.species.molecule (statistics, dipole_debye,
+--                       c6_au, reactive, mass, ...)
+--   -- the particles the budget follows: the molecules, or for an atom mixture the
+--   -- minority atom species (each of its atoms can become at most one molecule)
+--   name, mass (kg), statistics ("fermion" | "boson")
+--   number              particles in the trap
+--   temperature         K
+--   trap_frequencies    {wx, wy, wz}, angular, rad/s (harmonic trap or lattice envelope)
+--   atoms               {cloud_a, cloud_b}: for a mixture the two atom clouds, for molecules
+--                       the atoms left over from association (number 0 once removed); each
+--                       cloud has name, mass, statistics, number, temperature,
+--                       trap_frequencies and the derived fields below
+--   lattice             nil, or {depth (J), depth_er, wavelength (m), spacing (m), ...}
+--                       once the sample sits in an optical lattice
+--   elapsed             s since the start of the plan
+-- Derived by `derive` from the thermo model (cp.thermo.fermi / cp.thermo.bose), never
+-- typed in:
+--   omega_bar (rad/s), degeneracy_name ("T/T_F" | "T/T_c"), degeneracy (its value),
+--   t_over_tf or t_over_tc, fermi_temperature or critical_temperature (K),
+--   peak_density (m^-3), phase_space_density (peak, n(0) lambda^3),
+--   entropy_per_particle (kB), energy_per_particle (J), trap_phase_space_density
+--   (N (hbar omega_bar / kB T)^3, which keeps growing below T_c; used to rank stages).
+local cp = require "coldprep"
+
+local S = {}
+
+S.KINDS = { "atom-mixture", "feshbach-molecules", "ground-state-molecules" }
+
+local DERIVED = { "omega_bar", "degeneracy_name", "degeneracy", "t_over_tf", "t_over_tc",
+  "fermi_temperature", "critical_temperature", "condensed_fraction", "peak_density",
+  "phase_space_density", "entropy_per_particle", "energy_per_particle",
+  "trap_phase_space_density" }
+
+local function deep_copy(t)
+  if type(t) ~= "table" then return t end
+  local c = {}
+  for k, v in pairs(t) do c[k] = deep_copy(v) end
+  return c
+end
+S.copy = deep_copy
+
+-- Fewer than one particle left: nothing to describe.
+function S.is_empty(c)
+  return not (c.number >= 1)
+end
+
+-- Geometric mean of three angular frequencies (rad/s).
+function S.omega_bar(w)
+  return (w[1] * w[2] * w[3]) ^ (1 / 3)
+end
+
+-- The ideal-gas state of a cloud of `number` particles at `temperature` (model: cp.thermo).
+local function thermo_state(c, temperature)
+  local args = { number = c.number, omega_bar = S.omega_bar(c.trap_frequencies),
+    temperature = temperature, mass = c.mass }
+  if c.statistics == "fermion" then
+    return cp.thermo.fermi(args)
+  end
+  return cp.thermo.bose(args)
+end
+
+-- Fill the derived fields of a cloud (or of a sample's followed particles) in place from
+-- its name, mass, statistics, number, temperature and trap_frequencies; returns c.
+function S.derive(c)
+  for _, k in ipairs(DERIVED) do c[k] = nil end
+  c.omega_bar = S.omega_bar(c.trap_frequencies)
+  c.degeneracy_name = c.statistics == "fermion" and "T/T_F" or "T/T_c"
+  if S.is_empty(c) then
+    c.degeneracy, c.peak_density, c.phase_space_density = 0 / 0, 0, 0
+    c.entropy_per_particle, c.trap_phase_space_density = 0 / 0, 0
+    return c
+  end
+  local r = thermo_state(c, c.temperature)
+  if c.statistics == "fermion" then
+    c.t_over_tf, c.fermi_temperature = r.t_over_tf, r.fermi_temperature
+    c.degeneracy = r.t_over_tf
+  else
+    c.t_over_tc, c.critical_temperature = r.t_over_tc, r.critical_temperature
+    c.condensed_fraction = r.condensed_fraction
+    c.degeneracy = r.t_over_tc
+  end
+  c.peak_density = r.peak_density
+  c.phase_space_density = r.phase_space_density
+  c.entropy_per_particle = r.entropy_per_particle
+  c.energy_per_particle = r.energy_per_particle
+  local x = cp.consts.hbar * c.omega_bar / (cp.consts.kB * c.temperature)
+  c.trap_phase_space_density = c.number * x * x * x
+  return c
+end
+
+-- Solve f(T) = target for T by bisection in log T, f increasing in T.  The bracket spans
+-- 1e-4 to 1e4 times hbar omega_bar N^(1/3) / kB, the degeneracy temperature scale.
+local function solve_temperature(c, f, target, what)
+  local scale = cp.consts.hbar * S.omega_bar(c.trap_frequencies) * c.number ^ (1 / 3) / cp.consts.kB
+  local lo, hi = math.log(scale * 1e-4), math.log(scale * 1e4)
+  if not (f(math.exp(lo)) <= target and f(math.exp(hi)) >= target) then
+    error(string.format("sample: no temperature between %g K and %g K gives %s %g for %s",
+      math.exp(lo), math.exp(hi), what, target, c.name), 0)
+  end
+  for _ = 1, 64 do
+    local mid = 0.5 * (lo + hi)
+    if f(math.exp(mid)) < target then lo = mid else hi = mid end
+  end
+  return math.exp(0.5 * (lo + hi))
+end
+
+-- The temperature at which cloud c (its number, mass, statistics, trap) has `entropy`
+-- kB per particle.  Entropy rises monotonically with T at fixed N and trap.
+function S.temperature_for_entropy(c, entropy)
+  return solve_temperature(c, function(T) return thermo_state(c, T).entropy_per_particle end,
+    entropy, "entropy per particle (kB)")
+end
+
+-- The temperature at which cloud c has mean energy `energy` (J) per particle.
+function S.temperature_for_energy(c, energy)
+  return solve_temperature(c, function(T) return thermo_state(c, T).energy_per_particle end,
+    energy, "energy per particle (J)")
+end
+
+-- A copy of cloud or sample c with the fields of `changes` replaced, re-derived.
+function S.with(c, changes)
+  local n = deep_copy(c)
+  for k, v in pairs(changes) do n[k] = v end
+  return S.derive(n)
+end
+
+-- The followed particles of a mixture: the atom species with fewer atoms (ties: the first).
+function S.minority(atoms)
+  return (atoms[2].number < atoms[1].number) and 2 or 1
+end
+
+-- Copy the fields of cloud a into the top level of sample s (the followed particles).
+function S.follow(s, a)
+  for _, k in ipairs { "name", "mass", "statistics", "number", "temperature", "trap_frequencies" } do
+    s[k] = deep_copy(a[k])
+  end
+  return S.derive(s)
+end
+
+-- Validate what a stage handed back: a table with the fields every later stage relies
+-- on.  `who` names the stage in the message.
+function S.check(s, who)
+  if type(s) ~= "table" then
+    error(string.format("%s: must return a sample table, got %s", who, type(s)), 0)
+  end
+  local ok_kind = false
+  for _, k in ipairs(S.KINDS) do if s.kind == k then ok_kind = true end end
+  if not ok_kind then
+    error(string.format("%s: sample field 'kind' = %s; allowed %s", who, tostring(s.kind),
+      table.concat(S.KINDS, ", ")), 0)
+  end
+  local function num(k, unit, lo)
+    local v = s[k]
+    if type(v) ~= "number" or v ~= v or v == math.huge or v < lo then
+      error(string.format("%s: sample field '%s' = %s must be a finite number >= %g (%s)", who, k,
+        tostring(v), lo, unit), 0)
+    end
+  end
+  num("number", "particles", 0)
+  num("temperature", "K", 1e-300)
+  num("mass", "kg", 1e-300)
+  num("elapsed", "s", 0)
+  if s.statistics ~= "fermion" and s.statistics ~= "boson" then
+    error(string.format("%s: sample field 'statistics' = %s; allowed fermion, boson", who,
+      tostring(s.statistics)), 0)
+  end
+  local w = s.trap_frequencies
+  if type(w) ~= "table" or #w ~= 3 then
+    error(who .. ": sample field 'trap_frequencies' must be {wx, wy, wz} in rad/s", 0)
+  end
+  for i = 1, 3 do
+    if type(w[i]) ~= "number" or not (w[i] > 0) or w[i] == math.huge then
+      error(string.format("%s: sample field 'trap_frequencies[%d]' = %s must be > 0 (rad/s)", who,
+        i, tostring(w[i])), 0)
+    end
+  end
+  return s
+end
+
+return S
