@@ -119,4 +119,348 @@ function M.remove_atoms(args)
   })
 end
 
+-- ---- associate ------------------------------------------------------------------------
+
+-- The resonance a stage names: nil (the first known for the molecule), an index into the
+-- molecule's list, or a table {b0, width, abg, dmu} (T, T, m, J/T).
+local function resonance_of(fname, spec, molecule)
+  if spec == nil or math.type(spec) == "integer" then
+    local ok, r = pcall(cp.species.resonance, molecule, spec or 1)
+    if not ok then A.fail(fname, "argument 'resonance': %s", tostring(r)) end
+    return r
+  end
+  if type(spec) ~= "table" then
+    A.fail(fname, "argument 'resonance' must be an index or a table {b0, width, abg, dmu}, got %s", type(spec))
+  end
+  for _, k in ipairs { "b0", "width", "abg", "dmu" } do
+    A.number(fname .. ": resonance", spec, k, ({ b0 = "T", width = "T", abg = "m", dmu = "J/T" })[k])
+  end
+  return spec
+end
+
+-- The molecules' trap: a weakly bound molecule feels the sum of its atoms' optical
+-- potentials, so its spring constants add: w_i^2 = (m_a wa_i^2 + m_b wb_i^2)/(m_a + m_b).
+local function molecule_trap(a, b)
+  local w = {}
+  for i = 1, 3 do
+    w[i] = math.sqrt((a.mass * a.trap_frequencies[i] ^ 2 + b.mass * b.trap_frequencies[i] ^ 2)
+      / (a.mass + b.mass))
+  end
+  return w
+end
+
+-- cp.stages.associate{ramp_rate (T/s) [, resonance, span (T), max_efficiency, alpha (m^2/s),
+--   samples, seed, label]}
+function M.associate(args)
+  local fname = "stages.associate"
+  A.table(fname, args, { "resonance", "ramp_rate", "span", "max_efficiency", "alpha", "samples",
+    "seed", "label" })
+  local p = {
+    ramp_rate = A.number(fname, args, "ramp_rate", "T/s", { positive = true, max = 1e9 }),
+    span = A.number(fname, args, "span", "T", { optional = true, positive = true, max = 1 }),
+    max_efficiency = A.number(fname, args, "max_efficiency", "fraction", { optional = true, positive = true, max = 1 }),
+    alpha = A.number(fname, args, "alpha", "m^2/s", { optional = true, positive = true }),
+    samples = A.number(fname, args, "samples", "", { optional = true, default = 20000, min = 100, max = 1e7 }),
+    seed = A.number(fname, args, "seed", "", { optional = true, default = 1, nonnegative = true }),
+  }
+  if args.resonance ~= nil and type(args.resonance) ~= "table" and math.type(args.resonance) ~= "integer" then
+    A.fail(fname, "argument 'resonance' must be an index or a table {b0, width, abg, dmu}, got %s",
+      type(args.resonance))
+  end
+  return new_stage("associate", args, {
+    accepts = { ["atom-mixture"] = true }, produces = "feshbach-molecules", params = p,
+    hint = "magnetoassociation acts on the atom mixture, so it comes first",
+    run = function(self, s)
+      local mol = s.molecule
+      local r = resonance_of("stage " .. self.name, args.resonance, mol.name)
+      self.equipment = { { kind = "coil", what = "Feshbach field", field = r.b0 } }
+      local ib = S.minority(s.atoms)
+      local b, a = s.atoms[ib], s.atoms[3 - ib]
+      local notes = {}
+      local ov = MODEL.overlap(a, b)
+      local pmax = p.max_efficiency
+      if not pmax then
+        pmax = MODEL.max_efficiency(a, b, p.samples, p.seed)
+        notes[#notes + 1] = string.format("phase-space ceiling of the conversion P_max = %.3g "
+          .. "(stochastic phase-space sampling)", pmax)
+      end
+      local res = cp.feshbach.associate { resonance = r, molecule = mol.name, ramp_rate = p.ramp_rate,
+        density = ov.density, max_efficiency = pmax, alpha = p.alpha }
+      local eff = res.efficiency
+      notes[#notes + 1] = string.format("overlap density %.3g cm^-3 (differential sag %.3g um); "
+        .. "Landau-Zener probability %.3g", ov.density / cp.units.per_cm3, ov.sag / cp.units.um,
+        eff / pmax)
+      local n = eff * b.number
+      local out = S.copy(s)
+      out.kind, out.name, out.mass, out.statistics = "feshbach-molecules", mol.name, mol.mass, mol.statistics
+      out.number = n
+      -- the centre-of-mass motion of uncorrelated thermal pairs: T = (m_a T_a + m_b T_b)/M
+      out.temperature = (a.mass * a.temperature + b.mass * b.temperature) / (a.mass + b.mass)
+      out.trap_frequencies = molecule_trap(a, b)
+      for _, c in ipairs(out.atoms) do c.number = c.number - n end
+      local span = p.span or math.abs(r.width)
+      return out, { duration = span / p.ramp_rate, notes = notes }
+    end,
+  })
+end
+
+-- ---- transfer -------------------------------------------------------------------------
+
+local PULSE_KEYS = { "rabi_pump", "rabi_stokes", "width", "delay", "gamma", "detuning",
+  "two_photon_detuning", "pump_linewidth_hz", "stokes_linewidth_hz", "relative_linewidth_hz",
+  "shape" }
+
+-- cp.stages.transfer{rabi_pump, rabi_stokes, width, delay, gamma, ... (as cp.raman.transfer)
+--   | efficiency | round_trip_efficiency [, pump_power, stokes_power, label]}
+function M.transfer(args)
+  local fname = "stages.transfer"
+  local keys = { "efficiency", "round_trip_efficiency", "pump_power", "stokes_power", "label" }
+  for _, k in ipairs(PULSE_KEYS) do keys[#keys + 1] = k end
+  A.table(fname, args, keys)
+  local given = {}
+  for _, k in ipairs { "efficiency", "round_trip_efficiency" } do
+    if args[k] ~= nil then given[#given + 1] = k end
+  end
+  local pulse = {}
+  for _, k in ipairs(PULSE_KEYS) do pulse[k] = args[k] end
+  if next(pulse) ~= nil then given[#given + 1] = "pulse parameters" end
+  if #given ~= 1 then
+    A.fail(fname, "give exactly one of: the pulse parameters (rabi_pump, rabi_stokes, width, delay, "
+      .. "gamma, ...), 'efficiency' (one-way) or 'round_trip_efficiency'%s",
+      #given > 1 and ("; got " .. table.concat(given, " and ")) or "")
+  end
+  local eff
+  if args.efficiency then
+    eff = A.number(fname, args, "efficiency", "fraction", { positive = true, max = 1 })
+  elseif args.round_trip_efficiency then
+    -- both directions equally efficient: one way = sqrt(round trip) (physics.md 5.2)
+    eff = math.sqrt(A.number(fname, args, "round_trip_efficiency", "fraction", { positive = true, max = 1 }))
+  else
+    for _, k in ipairs { "rabi_pump", "rabi_stokes", "width", "delay", "gamma" } do
+      A.number(fname, args, k, k == "delay" and "s" or (k == "width" and "s" or "rad/s"))
+    end
+  end
+  local equipment = {}
+  for _, k in ipairs { "pump_power", "stokes_power" } do
+    local w = A.number(fname, args, k, "W", { optional = true, positive = true })
+    equipment[#equipment + 1] = { kind = "laser", what = (k == "pump_power" and "pump" or "Stokes")
+      .. " laser of the two-photon transfer", power = w }
+  end
+  local st = new_stage("transfer", args, {
+    accepts = { ["feshbach-molecules"] = true }, produces = "ground-state-molecules",
+    equipment = equipment,
+    hint = "the two-photon transfer starts from Feshbach molecules: place it after cp.stages.associate",
+  })
+  -- the model result does not depend on the sample: compute it once, when first run
+  local result
+  st.run = function(self, s)
+    local notes = {}
+    if not eff and not result then
+      result = cp.raman.transfer(pulse)
+    end
+    local e = eff or result.efficiency
+    if result then
+      notes[#notes + 1] = string.format("one-way efficiency %.4g from the Lambda-system model; "
+        .. "%.3g lost through the excited state", e, result.lost)
+    else
+      notes[#notes + 1] = string.format("one-way efficiency %.4g as given", e)
+    end
+    local out = S.with(s, { kind = "ground-state-molecules", number = s.number * e })
+    return out, { duration = MODEL.pulse_duration(pulse), notes = notes }
+  end
+  return st
+end
+
+-- ---- change_trap ----------------------------------------------------------------------
+
+-- Rule of thumb for a smooth trap ramp: |d omega/dt| / omega^2 well below 1 on every axis
+-- (common practice, no source); above ADIABATIC_LIMIT the budget warns.
+local ADIABATIC_LIMIT = 0.1
+
+-- cp.stages.change_trap{trap_frequencies (rad/s), ramp_time (s) [, beam_power (W), label]}
+function M.change_trap(args)
+  local fname = "stages.change_trap"
+  A.table(fname, args, { "trap_frequencies", "ramp_time", "beam_power", "label" })
+  local w_to = A.frequencies(fname, args, "trap_frequencies")
+  local ramp = A.number(fname, args, "ramp_time", "s", { positive = true, max = 1e3 })
+  local power = A.number(fname, args, "beam_power", "W", { optional = true, positive = true })
+  return new_stage("change_trap", args, {
+    accepts = MOLECULES, adiabatic = true,
+    equipment = { { kind = "laser", what = "new optical trap", power = power } },
+    hint = "the trap change acts on molecules; associate first",
+    run = function(_, s)
+      local notes = {}
+      local worst = 0
+      for i = 1, 3 do
+        local w0, w1 = s.trap_frequencies[i], w_to[i]
+        worst = math.max(worst, math.abs(w1 - w0) / (ramp * math.min(w0, w1) ^ 2))
+      end
+      if worst > ADIABATIC_LIMIT then
+        notes[#notes + 1] = string.format("trap ramp not adiabatic: |dw/dt|/w^2 = %.2g "
+          .. "(want << 1); the temperature shown assumes an adiabatic change", worst)
+      end
+      local T = MODEL.match_harmonic(s, w_to)
+      local out = S.with(s, { trap_frequencies = w_to, temperature = T })
+      return out, { duration = ramp, notes = notes, adiabatic = true }
+    end,
+  })
+end
+
+-- ---- hold -----------------------------------------------------------------------------
+
+-- Two-body loss coefficient of the sample's molecules (m^3/s) at its temperature: the
+-- given one, or the universal rate from the molecule's C6 (Idziaszek & Julienne 2010,
+-- through cp.collisions.universal_rate); notes say which and what it assumes.
+local function loss_rate(s, given, notes)
+  if given then
+    notes[#notes + 1] = string.format("two-body loss coefficient %.3g cm^3/s as given", given / cp.units.cm3)
+    return given
+  end
+  local mol = s.molecule
+  local beta = cp.collisions.universal_rate { c6_au = mol.c6_au, mass = mol.mass / 2,
+    temperature = s.temperature, statistics = s.statistics }.rate
+  local why = {}
+  if s.kind == "feshbach-molecules" then
+    why[#why + 1] = "Feshbach molecules relax faster than this ground-state estimate"
+  end
+  if not mol.reactive then
+    why[#why + 1] = "non-reactive " .. mol.name .. ": sticky-complex loss taken at the universal rate"
+  end
+  notes[#notes + 1] = string.format("two-body loss: universal %s-wave rate %.3g cm^3/s at %.3g nK "
+    .. "(C6 = %.4g a.u.)%s", s.statistics == "fermion" and "p" or "s", beta / cp.units.cm3,
+    s.temperature / cp.units.nK, mol.c6_au, #why > 0 and ("; " .. table.concat(why, "; ")) or "")
+  return beta
+end
+
+local function leftover_note(s, notes)
+  local left = s.atoms[1].number + s.atoms[2].number
+  if left >= 1 then
+    notes[#notes + 1] = string.format("%.3g leftover atoms still present: atom-molecule collisions "
+      .. "are not modelled (remove them first)", left)
+  end
+end
+
+local function thermal_note(s, notes, what)
+  if s.degeneracy < 1 then
+    notes[#notes + 1] = string.format("the %s model treats the cloud as thermal; here %s = %.2g",
+      what, s.degeneracy_name, s.degeneracy)
+  end
+end
+
+-- cp.stages.hold{duration (s) [, lifetime (s), heating_rate (K/s), loss_rate (m^3/s), label]}
+function M.hold(args)
+  local fname = "stages.hold"
+  A.table(fname, args, { "duration", "lifetime", "heating_rate", "loss_rate", "label" })
+  local p = {
+    duration = A.number(fname, args, "duration", "s", { positive = true, max = 1e5 }),
+    lifetime = A.number(fname, args, "lifetime", "s", { optional = true, positive = true, max = 1e9 }),
+    heating_rate = A.number(fname, args, "heating_rate", "K/s", { optional = true, default = 0, nonnegative = true, max = 1 }),
+    loss_rate = A.number(fname, args, "loss_rate", "m^3/s", { optional = true, nonnegative = true, max = 1e-8 }),
+  }
+  return new_stage("hold", args, {
+    accepts = MOLECULES, params = p,
+    hint = "the hold models molecule losses; associate first",
+    run = function(_, s)
+      local notes = {}
+      local beta = loss_rate(s, p.loss_rate, notes)
+      local heating = p.heating_rate
+      if s.lattice then
+        heating = heating + s.lattice.heating_rate
+        notes[#notes + 1] = string.format("photon scattering in the lattice heats at %.3g nK/s",
+          s.lattice.heating_rate / cp.units.nK)
+      end
+      leftover_note(s, notes)
+      thermal_note(s, notes, "hold")
+      local r = MODEL.hold(s, beta, p.lifetime, heating, p.duration)
+      return S.with(s, { number = r.number, temperature = r.temperature }),
+        { duration = p.duration, notes = notes }
+    end,
+  })
+end
+
+-- ---- evaporate ------------------------------------------------------------------------
+
+-- Induced lab-frame dipole of a J = 0 molecule in a weak electric field F:
+-- d_ind = d^2 F / (3 B) (second-order Stark shift -d^2 F^2 / (6 B), B the rotational
+-- constant in J; standard perturbation theory [M]), valid while d F << B; capped at d.
+local function induced_dipole_debye(mol, field)
+  local d = mol.dipole_debye * cp.consts.debye
+  local B = cp.consts.h * mol.rot_const_hz
+  return math.min(d * d * field / (3 * B), d) / cp.consts.debye, d * field / B
+end
+
+-- cp.stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J),
+--   electric_field (V/m) | cross_section (m^2) [, ratio, kappa, loss_rate, label]}
+function M.evaporate(args)
+  local fname = "stages.evaporate"
+  A.table(fname, args, { "eta", "final_number", "keep", "final_temperature", "final_depth",
+    "electric_field", "cross_section", "ratio", "kappa", "loss_rate", "label" })
+  local p = {
+    eta = A.number(fname, args, "eta", "U/kB T", { min = 5, max = 30 }),
+    final_number = A.number(fname, args, "final_number", "particles", { optional = true, min = 1 }),
+    keep = A.number(fname, args, "keep", "fraction", { optional = true, positive = true, max = 1 }),
+    final_temperature = A.number(fname, args, "final_temperature", "K", { optional = true, positive = true }),
+    final_depth = A.number(fname, args, "final_depth", "J", { optional = true, positive = true }),
+    electric_field = A.number(fname, args, "electric_field", "V/m", { optional = true, positive = true, max = 1e8 }),
+    cross_section = A.number(fname, args, "cross_section", "m^2", { optional = true, positive = true }),
+    ratio = A.number(fname, args, "ratio", "elastic/loss", { optional = true, positive = true }),
+    kappa = A.number(fname, args, "kappa", "kB T", { optional = true, min = 0, max = 2 }),
+    loss_rate = A.number(fname, args, "loss_rate", "m^3/s", { optional = true, nonnegative = true, max = 1e-8 }),
+  }
+  local ends = 0
+  for _, k in ipairs { "final_number", "keep", "final_temperature", "final_depth" } do
+    if p[k] then ends = ends + 1 end
+  end
+  if ends ~= 1 then
+    A.fail(fname, "give exactly one end point: 'final_number', 'keep' (fraction kept), "
+      .. "'final_temperature' (K) or 'final_depth' (J)")
+  end
+  if not (p.ratio or p.electric_field or p.cross_section) then
+    A.fail(fname, "missing argument 'electric_field' (V/m, polarises the molecules for dipolar "
+      .. "elastic collisions) or 'cross_section' (m^2) or 'ratio' (elastic to loss collisions)")
+  end
+  local equipment = {}
+  if p.electric_field then
+    equipment[1] = { kind = "electric", what = "electric field for dipolar collisions", field = p.electric_field }
+  end
+  return new_stage("evaporate", args, {
+    accepts = { ["ground-state-molecules"] = true }, params = p, equipment = equipment,
+    hint = "evaporation of molecules needs ground-state molecules: place it after cp.stages.transfer",
+    run = function(_, s)
+      local notes = {}
+      local mol = s.molecule
+      local beta = loss_rate(s, p.loss_rate, notes)
+      local sigma = p.cross_section
+      if not sigma and not p.ratio then
+        local d, x = induced_dipole_debye(mol, p.electric_field)
+        sigma = cp.collisions.dipolar_cross_section { dipole_debye = d, mass = mol.mass / 2,
+          statistics = s.statistics }.cross_section
+        notes[#notes + 1] = string.format("induced dipole %.3g D at %.3g kV/cm (d F / B = %.2g%s); "
+          .. "dipolar elastic cross section %.3g cm^2", d, p.electric_field / 1e5, x,
+          x > 0.3 and ", beyond the weak-field formula" or "", sigma / 1e-4)
+      end
+      local ratio = p.ratio or cp.collisions.collision_ratio { cross_section = sigma, rate = beta,
+        mass = mol.mass, temperature = s.temperature }.ratio
+      notes[#notes + 1] = string.format("ratio of elastic to loss collisions %.3g at the start", ratio)
+      leftover_note(s, notes)
+      thermal_note(s, notes, "evaporation")
+      local target = { number = p.final_number or (p.keep and p.keep * s.number),
+        temperature = p.final_temperature or (p.final_depth and p.final_depth / (p.eta * cp.consts.kB)) }
+      local r = MODEL.evaporate(s, p.eta, p.kappa, ratio, target)
+      if r.efficiency <= 0 then
+        notes[#notes + 1] = string.format("evaporation does not gain phase-space density "
+          .. "(efficiency %.2g): losses outrun thermalisation", r.efficiency)
+      end
+      local duration = 0
+      if sigma then
+        duration = MODEL.evaporation_time(s, r, p.eta, sigma, beta)
+      else
+        notes[#notes + 1] = "duration unknown (only the collision ratio was given)"
+      end
+      return S.with(s, { number = r.number, temperature = r.temperature }),
+        { duration = duration, notes = notes }
+    end,
+  })
+end
+
 return M
