@@ -237,13 +237,18 @@ local function reason(self, steps, ranking, v, start, final)
     parts[1] = string.format("No molecules are left after stage %d (%s).", top.index, top.name)
   else
     parts[1] = string.format("%d of %.3g starting %s survive as %s (%.3g %%) at %s = %.3g.",
-      math.floor(final.number + 0.5), start.number, start.name, final.species,
+      math.floor(final.number + 0.5), start.number, start.name,
+      final.kind == "atom-mixture" and "atoms" or (final.species .. " molecules"),
       100 * final.number / start.number, final.degeneracy_name, final.degeneracy)
   end
-  parts[2] = string.format("The limiting stage is %d (%s): it %s; making it %.0f %% better would "
-    .. "raise the final phase-space density by %.3g %%, more than any other stage.",
-    top.index, top.name, table.concat(what, " and "), 100 * self.perturbation, 100 * top.gain)
-  if not v.degenerate and ranking[2] then
+  if top.gain > 0 then
+    parts[2] = string.format("The limiting stage is %d (%s): it %s; making it %.0f %% better would "
+      .. "raise the final phase-space density by %.3g %%, more than any other stage.",
+      top.index, top.name, table.concat(what, " and "), 100 * self.perturbation, 100 * top.gain)
+  else
+    parts[2] = "No stage loses particles or adds entropy in a way that limits the final phase-space density."
+  end
+  if not v.degenerate and ranking[2] and ranking[2].gain > 0 then
     parts[3] = string.format("Next: stage %d (%s), %+.3g %%.", ranking[2].index, ranking[2].name,
       100 * ranking[2].gain)
   end

@@ -1,0 +1,205 @@
+-- Lua-level tests of the plan framework (cp.plan, cp.stages.custom, the verdict, the
+-- limiting-stage analysis and the report) with user-defined stages whose effect is known,
+-- checked against closed forms worked out here by hand.
+local T = require "testlib"
+local cp = require "coldprep"
+local u, c = cp.units, cp.consts
+local pi = math.pi
+
+-- A hot, dilute start (T/T_F ~ 16 for the 40K minority), where the ideal gas is classical
+-- to ~1e-5: S/N = 4 - ln rho with rho = N (hbar w / kB T)^3 (harmonic trap, Boltzmann
+-- statistics: the Sackur-Tetrode analogue, Pethick & Smith ch. 2 [M]).
+local W = 2 * pi * 100
+local T0 = 3 * u.uK
+local function start(nk)
+  return { molecule = "23Na40K", temperature = T0, atoms = {
+    { atom = "23Na", number = 5e4, trap_frequencies = W },
+    { atom = "40K", number = nk or 1e4, trap_frequencies = { W, W, W } } } }
+end
+
+-- Makes molecules out of a fraction `f` of the minority atoms, same T and trap.
+local function convert(f)
+  return cp.stages.custom { name = "convert", accepts = "atom-mixture", produces = "feshbach-molecules",
+    fn = function(s)
+    local n = f * s.number
+    s.number, s.mass, s.statistics = n, s.molecule.mass, s.molecule.statistics
+    for _, a in ipairs(s.atoms) do a.number = a.number - n end
+    return s, { duration = 2 * u.ms, notes = { "converted" } }
+  end }
+end
+local function keep(k, name)
+  return cp.stages.custom { name = name or "keep", fn = function(s)
+    s.number = s.number * k
+    return s, { duration = 10 * u.ms }
+  end }
+end
+local function heat(h, name)
+  return cp.stages.custom { name = name or "heat", fn = function(s)
+    s.temperature = s.temperature * h
+    return s, { duration = 5 * u.ms }
+  end }
+end
+local function rho(N, T, w) return N * (c.hbar * w / (c.kB * T)) ^ 3 end
+
+-- PLAN-F1: the start's degeneracy is computed from the model: T_F = hbar w (6N)^(1/3)/kB
+-- (Butts & Rokhsar 1997; physics.md section 7), entropy as the classical limit above.
+local plan = cp.plan { name = "framework", start = start(), stages = { convert(0.3), heat(2), keep(0.1) } }
+local b = plan:run()
+local TF = c.hbar * W * (6 * 1e4) ^ (1 / 3) / c.kB
+T.near(b.start.degeneracy, T0 / TF, 1e-6, "start T/T_F of 40K by hand")
+T.check(b.start.degeneracy_name == "T/T_F", "40K minority: fermionic degeneracy")
+T.near(b.start.entropy_per_particle, 4 - math.log(rho(1e4, T0, W)), 1e-4, "classical entropy per particle")
+T.check(b.start.particles == "40K atoms", "the minority species is followed")
+
+-- PLAN-F2: bookkeeping: numbers, efficiencies, durations, elapsed.
+T.near(b.stages[1].number, 3e3, 1e-12, "convert keeps 30 % of 1e4")
+T.near(b.stages[3].number, 300, 1e-12, "keep 10 %")
+T.near(b.stages[2].temperature, 2 * T0, 1e-12, "heat doubles T")
+local prod = 1
+for _, r in ipairs(b.stages) do prod = prod * r.efficiency end
+T.near(prod, b.final.number / b.start.number, 1e-12, "product of step efficiencies = N_final/N_start")
+T.near(b.final.cumulative_efficiency, 0.03, 1e-12, "cumulative efficiency")
+T.near(b.final.elapsed, 17 * u.ms, 1e-12, "elapsed = sum of durations")
+T.check(b.stages[1].kind == "feshbach-molecules" and b.stages[1].particles == "23Na40K (Feshbach)",
+  "custom stage with produces= changes the kind")
+T.near(b.final.degeneracy, 2 * T0 / (c.hbar * W * (6 * 300) ^ (1 / 3) / c.kB), 1e-6,
+  "final T/T_F of the molecules by hand")
+T.check(b.degenerate == false and b.verdict:find("not degenerate", 1, true), "hot plan is not degenerate")
+
+-- PLAN-F3: limiting stage by perturbation (d = 0.1).  Classical gas, later stages scale N
+-- and T: a stage keeping k at fixed T gains (1 - (1-d)(1-k))/k - 1; a stage heating by h
+-- at fixed N adds 3 ln h of entropy, of which (1-d) remains, so T' = T h^(1-d) and the
+-- final rho gains h^(3d) - 1 (derived here from S/N = 4 - ln rho).
+local gain = {}
+for _, g in ipairs(b.ranking) do gain[g.name] = g.gain end
+T.near(gain.keep, (1 - 0.9 * 0.9) / 0.1 - 1, 2e-3, "gain of the 10 % stage")
+T.near(gain.heat, 2 ^ 0.3 - 1, 2e-3, "gain of the heating stage")
+T.check(b.limiting_stage == "keep" and b.limiting_index == 3, "the lossy stage limits")
+T.check(b.reason:find("stage is 3 (keep)", 1, true) ~= nil, "reason names the limiting stage")
+
+-- PLAN-F4: the threshold is settable and flips the verdict.
+local pass = cp.plan { start = start(), stages = { convert(1) }, threshold = 50 }:run()
+T.check(pass.degenerate and pass.threshold == 50, "threshold 50 passes a T/T_F ~ 20 gas")
+T.check(pass.verdict:find("<= 50", 1, true) ~= nil, "verdict states the threshold")
+
+-- PLAN-F5: a plan whose numbers all improve never gets a worse verdict.
+local worse = cp.plan { start = start(1e4), stages = { convert(0.2), heat(1.5), keep(0.3) } }:run()
+local better = cp.plan { start = start(2e4), stages = { convert(0.4), heat(1.2), keep(0.6) } }:run()
+T.check(better.final.degeneracy < worse.final.degeneracy, "better numbers: lower T/T_F")
+
+-- PLAN-F6: bad plans name the stage and the field.
+T.raises(function() cp.plan { start = start(), stages = { keep(0.5), cp.stages.transfer { efficiency = 0.9 } } } end,
+  { "stage 2 (transfer)", "feshbach-molecules", "atom-mixture" }, "transfer before association")
+T.raises(function() cp.plan { start = start(), stages = { cp.stages.remove_atoms {} } } end,
+  { "stage 1 (remove_atoms)", "after association" }, "removal before association")
+T.raises(function() cp.plan { start = start(), stages = { convert(0.5), convert(0.5) } } end,
+  { "stage 2 (convert)", "atom-mixture", "feshbach-molecules" }, "custom stage accepts= is checked")
+T.raises(function() cp.stages.transfer { rabi_pump = 1e7, rabi_stokes = 1e7, delay = 1e-6, gamma = 1e7 } end,
+  { "stages.transfer", "missing argument 'width'" }, "missing pulse width")
+T.raises(function() cp.stages.hold { duraton = 1 } end,
+  { "stages.hold", "unknown argument 'duraton'", "did you mean 'duration'" }, "misspelt key")
+T.raises(function() cp.stages.hold { duration = -1 } end,
+  { "stages.hold", "'duration'", "out of range" }, "negative duration")
+T.raises(function() cp.stages.hold { duration = 0 / 0 } end,
+  { "stages.hold", "'duration'", "finite" }, "NaN duration")
+T.raises(function() cp.stages.evaporate { eta = 8, keep = 0.3 } end,
+  { "stages.evaporate", "electric_field" }, "evaporation without a collision source")
+local s0 = start()
+s0.temperature = nil
+T.raises(function() cp.plan { start = s0, stages = { keep(1) } } end,
+  { "plan: start", "missing argument 'temperature'" }, "start without temperature")
+s0 = start()
+s0.atoms[2].number = nil
+T.raises(function() cp.plan { start = s0, stages = { keep(1) } } end,
+  { "plan: start.atoms[2]", "missing argument 'number'" }, "cloud without number")
+s0 = start()
+s0.molecule = "NaXe"
+T.raises(function() cp.plan { start = s0, stages = { keep(1) } } end,
+  { "plan: start", "molecule 'NaXe' is unknown" }, "unknown molecule")
+s0 = start()
+s0.atoms[1].atom = "87Rb"
+T.raises(function() cp.plan { start = s0, stages = { keep(1) } } end,
+  { "plan: start.atoms[1]", "'87Rb' is not a constituent of 23Na40K" }, "wrong atom for the molecule")
+T.raises(function() cp.plan { start = start(), stages = { keep(1), "hold" } } end,
+  { "plan: stage 2", "not a stage" }, "a string is not a stage")
+T.raises(function() cp.plan { start = start(), stages = {} } end, { "plan", "'stages'" }, "no stages")
+T.raises(function() cp.plan { start = start(), stages = { keep(1) }, threshhold = 1 } end,
+  { "unknown argument 'threshhold'", "'threshold'" }, "misspelt plan key")
+
+-- PLAN-F7: a custom stage that breaks the sample is reported with the stage and the field.
+local bad = cp.stages.custom { name = "breaker", fn = function(s) s.temperature = -1; return s end }
+T.raises(function() cp.plan { start = start(), stages = { bad } }:run() end,
+  { "stage 1 (breaker)", "'temperature'" }, "negative temperature from a custom stage")
+local raiser = cp.stages.custom { name = "raiser", fn = function() error("lab on fire") end }
+T.raises(function() cp.plan { start = start(), stages = { raiser } }:run() end,
+  { "stage raiser", "lab on fire" }, "an error inside a custom stage names it")
+T.raises(function() cp.stages.custom { fn = function() end } end,
+  { "stages.custom", "'name'" }, "custom stage without a name")
+
+-- PLAN-F8: losing everything is a verdict, not a crash.
+local gone = cp.plan { start = start(), stages = { convert(0.5), keep(1e-9, "wipe"), heat(2) } }:run()
+T.check(not gone.degenerate and gone.verdict:find("no molecules survive", 1, true), "empty plan verdict")
+T.check(gone.stages[3].notes[1]:find("no particles left", 1, true) ~= nil, "later stages marked not run")
+
+-- PLAN-F9: the printed table is aligned and has units; CSV follows RFC 4180; JSON.
+local text = b:text()
+local rows, in_table = {}, false
+for line in text:gmatch("[^\n]+") do
+  if line:match("^ # ") then in_table = true end
+  if line:match("^T/Tdeg") then in_table = false end
+  if in_table then rows[#rows + 1] = line end
+end
+T.check(#rows == 6, "header, units, start and three stages")
+local width_ok = true
+for _, r in ipairs(rows) do width_ok = width_ok and #r == #rows[1] end
+T.check(width_ok, "all table rows have the same width")
+T.check(text:find("nK", 1, true) and text:find("cm^-3", 1, true) and text:find("ms", 1, true), "units shown")
+T.check(text:find("Safety:", 1, true) and text:find("laser safety officer", 1, true), "ends with safety")
+
+local noisy = cp.stages.custom { name = "quote", fn = function(s)
+  return s, { notes = { 'a "quoted", noted\nline' } } end }
+local nb = cp.plan { start = start(), stages = { convert(0.5), noisy } }:run()
+local path = os.tmpname()
+nb:write_csv(path)
+local f = assert(io.open(path, "rb"))
+local csv = f:read("a")
+f:close()
+-- RFC 4180: records end in CRLF; a field with a quote, comma or line break is quoted and
+-- its quotes doubled.  A small parser written here reads it back.
+local function parse_csv(str)
+  local recs, rec, field, i, quoted = {}, {}, "", 1, false
+  while i <= #str do
+    local ch = str:sub(i, i)
+    if quoted then
+      if ch == '"' and str:sub(i + 1, i + 1) == '"' then field = field .. '"'; i = i + 1
+      elseif ch == '"' then quoted = false
+      else field = field .. ch end
+    elseif ch == '"' then quoted = true
+    elseif ch == "," then rec[#rec + 1] = field; field = ""
+    elseif ch == "\r" and str:sub(i + 1, i + 1) == "\n" then
+      rec[#rec + 1] = field; recs[#recs + 1] = rec; rec, field = {}, ""; i = i + 1
+    else field = field .. ch end
+    i = i + 1
+  end
+  return recs
+end
+T.check(csv:sub(-2) == "\r\n", "CSV ends in CRLF")
+local recs = parse_csv(csv)
+T.check(#recs == 4, "CSV: header, start and two stages")
+T.check(recs[1][1] == "index" and recs[1][#recs[1]] == "notes", "CSV header")
+T.check(recs[4][#recs[4]] == 'a "quoted", noted\nline', "CSV quoting round-trips")
+T.near(tonumber(recs[4][5]), nb.final.number, 1e-9, "CSV number column")
+os.remove(path)
+
+nb:write_json(path)
+f = assert(io.open(path, "rb"))
+local js = f:read("a")
+f:close()
+os.remove(path)
+T.check(js:find('"degenerate": false', 1, true) ~= nil, "JSON verdict")
+T.check(js:find('a \\"quoted\\", noted\\nline', 1, true) ~= nil, "JSON string escapes")
+T.check(not js:find("nan", 1, true) and not js:find("inf", 1, true), "JSON has no NaN or inf")
+T.raises(function() nb:write_csv("/nonexistent-dir/x.csv") end, { "budget:write_csv", "cannot write" },
+  "unwritable path")
+
+T.done()
