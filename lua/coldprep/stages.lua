@@ -22,6 +22,33 @@ M.Stage = Stage
 local MOLECULES = { ["feshbach-molecules"] = true, ["ground-state-molecules"] = true }
 local ANY = { ["atom-mixture"] = true, ["feshbach-molecules"] = true, ["ground-state-molecules"] = true }
 
+-- ---- bridges to the model bindings --------------------------------------------------
+-- The few places where a stage turns a sample into a model call's arguments.
+local MODEL = {}
+
+-- A cloud of the sample in the form cp.feshbach takes.
+local function fb_cloud(c)
+  return { atom = c.name, number = c.number, omega_x = c.trap_frequencies[1],
+    omega_y = c.trap_frequencies[2], omega_z = c.trap_frequencies[3] }
+end
+
+-- Overlap density of partner cloud a seen by minority cloud b (cp.feshbach.overlap_density):
+-- {density (m^-3), sag (m)}.
+function MODEL.overlap(a, b)
+  return cp.feshbach.overlap_density { a = fb_cloud(a), b = fb_cloud(b), temperature = b.temperature }
+end
+
+-- Phase-space ceiling of the conversion (cp.feshbach.max_efficiency, deterministic seed).
+function MODEL.max_efficiency(a, b, samples, seed)
+  return cp.feshbach.max_efficiency { a = fb_cloud(a), b = fb_cloud(b), temperature = b.temperature,
+    samples = math.floor(samples), seed = math.floor(seed) }.max_efficiency
+end
+
+-- The time the two-photon pulse sequence takes: the model's integration window.
+function MODEL.pulse_duration(result)
+  return result.t_end - result.t_start
+end
+
 local function new_stage(kind, args, fields)
   if args.label ~= nil and type(args.label) ~= "string" then
     A.fail("stages." .. kind, "argument 'label' must be a string")
@@ -266,7 +293,7 @@ function M.transfer(args)
       notes[#notes + 1] = string.format("one-way efficiency %.4g as given", e)
     end
     local out = S.with(s, { kind = "ground-state-molecules", number = s.number * e })
-    return out, { duration = MODEL.pulse_duration(pulse), notes = notes }
+    return out, { duration = result and MODEL.pulse_duration(result) or 0, notes = notes }
   end
   return st
 end
