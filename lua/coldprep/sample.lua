@@ -110,11 +110,19 @@ local function solve_temperature(c, f, target, what)
   return math.exp(0.5 * (lo + hi))
 end
 
+-- The trap of cloud c in the form cp.thermo takes (number, mass, three frequencies).
+local function thermo_trap(c)
+  return { number = c.number, mass = c.mass, statistics = c.statistics,
+    omega_x = c.trap_frequencies[1], omega_y = c.trap_frequencies[2], omega_z = c.trap_frequencies[3] }
+end
+S.thermo_trap = thermo_trap
+
 -- The temperature at which cloud c (its number, mass, statistics, trap) has `entropy`
--- kB per particle.  Entropy rises monotonically with T at fixed N and trap.
+-- kB per particle (cp.thermo.temperature_from_entropy).
 function S.temperature_for_entropy(c, entropy)
-  return solve_temperature(c, function(T) return thermo_state(c, T).entropy_per_particle end,
-    entropy, "entropy per particle (kB)")
+  local args = thermo_trap(c)
+  args.entropy_per_particle = entropy
+  return cp.thermo.temperature_from_entropy(args).temperature
 end
 
 -- The temperature at which cloud c has mean energy `energy` (J) per particle.

@@ -49,6 +49,77 @@ function MODEL.pulse_duration(result)
   return result.t_end - result.t_start
 end
 
+-- The temperature after an adiabatic change of the trap (cp.thermo.match_harmonic).
+function MODEL.match_harmonic(s, w_to)
+  local args = S.thermo_trap(s)
+  args.temperature = s.temperature
+  args.omega_x_to, args.omega_y_to, args.omega_z_to = w_to[1], w_to[2], w_to[3]
+  return cp.thermo.match_harmonic(args).temperature
+end
+
+-- Number and temperature after a hold with two-body loss (rate beta at the sample's
+-- temperature; p-wave scaling for identical fermions), one-body loss and heating
+-- (cp.collisions.hold): {number, temperature}.
+function MODEL.hold(s, beta, lifetime, heating, duration)
+  local w = s.trap_frequencies
+  return cp.collisions.hold { number = s.number, temperature = s.temperature, mass = s.mass,
+    omega_x = w[1], omega_y = w[2], omega_z = w[3], rate = beta,
+    wave = s.statistics == "fermion" and "p" or "s", lifetime = lifetime,
+    heating_rate = heating, duration = duration, points = 2 }
+end
+
+-- Evaporation at truncation eta in the fixed trap (cp.collisions.evaporation) down to
+-- target.number, or to the number at which the trajectory reaches target.temperature
+-- (interpolated in ln N over a fine trajectory): {number, temperature, efficiency,
+-- numbers, temperatures}.
+function MODEL.evaporate(s, eta, kappa, ratio, target)
+  local w = s.trap_frequencies
+  local args = { number = s.number, temperature = s.temperature, mass = s.mass,
+    omega_x = w[1], omega_y = w[2], omega_z = w[3], eta = eta, kappa = kappa, ratio = ratio,
+    wave = s.statistics == "fermion" and "p" or "s" }
+  if target.number then
+    args.final_number, args.points = target.number, 64
+    return cp.collisions.evaporation(args)
+  end
+  args.final_number, args.points = math.max(1, s.number * 1e-6), 400
+  local tr = cp.collisions.evaporation(args)
+  local n, t = tr.numbers, tr.temperatures
+  for i = 2, #n do
+    if t[i] <= target.temperature then
+      local f = math.log(target.temperature / t[i - 1]) / math.log(t[i] / t[i - 1])
+      args.final_number = n[i - 1] * (n[i] / n[i - 1]) ^ f
+      args.points = 64
+      return cp.collisions.evaporation(args)
+    end
+  end
+  error(string.format("stage evaporate: the temperature never falls to %.3g nK (it ends at %.3g nK "
+    .. "with %.3g particles); losses outrun the cooling", target.temperature / cp.units.nK,
+    t[#t] / cp.units.nK, n[#n]), 0)
+end
+
+-- The time the evaporation takes along its trajectory (N_k, T_k): particles leave at the
+-- evaporation rate f Gamma_el (f = eta e^-eta / sqrt 2 of the elastic collisions, Ketterle
+-- & van Druten 1996, as in cp.collisions.evaporation) plus the two-body loss rate, so
+-- dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2),
+-- v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
+function MODEL.evaporation_time(s, r, eta, sigma, beta0)
+  local m, kB = s.mass, cp.consts.kB
+  local wbar = S.omega_bar(s.trap_frequencies)
+  local f = eta * math.exp(-eta) / math.sqrt(2)
+  local function rate(N, T)
+    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5
+    local beta = s.statistics == "fermion" and beta0 * T / s.temperature or beta0
+    return n * (f * sigma * math.sqrt(16 * kB * T / (math.pi * m)) + beta)
+  end
+  local t = 0
+  for i = 2, #r.numbers do
+    local n0, n1, t0, t1 = r.numbers[i - 1], r.numbers[i], r.temperatures[i - 1], r.temperatures[i]
+    -- trapezoid in ln N of 1/rate
+    t = t + 0.5 * (1 / rate(n0, t0) + 1 / rate(n1, t1)) * math.log(n0 / n1)
+  end
+  return t
+end
+
 local function new_stage(kind, args, fields)
   if args.label ~= nil and type(args.label) ~= "string" then
     A.fail("stages." .. kind, "argument 'label' must be a string")
