@@ -120,6 +120,14 @@ function MODEL.evaporation_time(s, r, eta, sigma, beta0)
   return t
 end
 
+-- The gas after adiabatic loading into the lattice `lat` (cp.thermo.match_lattice).
+function MODEL.match_lattice(s, lat)
+  local args = S.thermo_trap(s)
+  args.temperature, args.depth_er, args.wavelength = s.temperature, lat.depth_er, lat.wavelength
+  args.envelope_omega_x, args.envelope_omega_y, args.envelope_omega_z = lat.omega[1], lat.omega[2], lat.omega[3]
+  return cp.thermo.match_lattice(args)
+end
+
 local function new_stage(kind, args, fields)
   if args.label ~= nil and type(args.label) ~= "string" then
     A.fail("stages." .. kind, "argument 'label' must be a string")
@@ -557,6 +565,70 @@ function M.evaporate(args)
       end
       return S.with(s, { number = r.number, temperature = r.temperature }),
         { duration = duration, notes = notes }
+    end,
+  })
+end
+
+-- ---- load_lattice ---------------------------------------------------------------------
+
+-- Excited fraction above which the budget warns that loading was not adiabatic
+-- (common practice, no source).
+local EXCITED_WARNING = 0.01
+
+-- cp.stages.load_lattice{wavelength (m), power (W per beam), waist (m), polarizability_au,
+--   ramp_time (s) [, ramp_shape = "s_shaped", imag_polarizability_au, reflectivity = 1,
+--   label]}: a cubic lattice of three retro-reflected beams, the molecules' new trap.
+function M.load_lattice(args)
+  local fname = "stages.load_lattice"
+  A.table(fname, args, { "wavelength", "power", "waist", "polarizability_au", "ramp_time",
+    "ramp_shape", "imag_polarizability_au", "reflectivity", "label" })
+  local p = {
+    wavelength = A.number(fname, args, "wavelength", "m", { positive = true }),
+    power = A.number(fname, args, "power", "W", { positive = true }),
+    waist = A.number(fname, args, "waist", "m", { positive = true }),
+    polarizability_au = A.number(fname, args, "polarizability_au", "a.u.", { positive = true }),
+    ramp_time = A.number(fname, args, "ramp_time", "s", { positive = true, max = 1e4 }),
+    ramp_shape = A.option(fname, args, "ramp_shape", { "linear", "exponential", "s_shaped" }, "s_shaped"),
+    imag_polarizability_au = A.number(fname, args, "imag_polarizability_au", "a.u.",
+      { optional = true, default = 0, nonnegative = true }),
+    reflectivity = A.number(fname, args, "reflectivity", "fraction", { optional = true, default = 1, positive = true, max = 1 }),
+  }
+  return new_stage("load_lattice", args, {
+    accepts = MOLECULES, adiabatic = true, params = p,
+    equipment = { { kind = "laser", what = "lattice beams (each of three)", power = p.power,
+      wavelength = p.wavelength } },
+    hint = "the lattice holds molecules; associate first",
+    run = function(_, s)
+      local notes = {}
+      local lat = MODEL.lattice(s, p)
+      notes[#notes + 1] = string.format("depth %.3g E_r (%.3g uK) per axis; envelope %.3g x %.3g x "
+        .. "%.3g Hz", lat.depth_er, lat.depth / cp.consts.kB / cp.units.uK, lat.omega[1] / (2 * math.pi),
+        lat.omega[2] / (2 * math.pi), lat.omega[3] / (2 * math.pi))
+      -- entropy is conserved by the adiabatic part of the loading (cp.thermo.match_lattice)
+      local m = MODEL.match_lattice(s, lat)
+      -- molecules left in excited bands carry the interband energy; once it is shared it
+      -- adds dS = dE / (kB T) per particle, to first order in the excited fraction
+      local f = lat.excited_fraction
+      local ds = f * lat.excitation_energy / (cp.consts.kB * m.temperature)
+      if f > EXCITED_WARNING then
+        notes[#notes + 1] = string.format("loading ramp not adiabatic: %.3g %% excited (adds %.2g kB "
+          .. "per particle)", 100 * f, ds)
+      end
+      local out = S.copy(s)
+      out.trap_frequencies = lat.omega
+      out.temperature = S.temperature_for_entropy(out, s.entropy_per_particle + ds)
+      out.lattice = { depth_er = lat.depth_er, depth = lat.depth, wavelength = p.wavelength,
+        spacing = lat.spacing, temperature = m.temperature, peak_filling = m.peak_filling,
+        heating_rate = lat.heating_rate }
+      notes[#notes + 1] = string.format("in the lattice: T = %.3g nK, %s; degeneracy shown is that of "
+        .. "the same entropy in the envelope trap (the lattice ramped down adiabatically)",
+        m.temperature / cp.units.nK, m.peak_filling and string.format("peak filling %.2g per site",
+          m.peak_filling) or string.format("condensed fraction %.2g", m.condensed_fraction or 0))
+      if lat.heating_rate > 0 then
+        notes[#notes + 1] = string.format("photon scattering: %.3g /s per molecule, heating %.3g nK/s "
+          .. "in later holds", lat.scattering_rate, lat.heating_rate / cp.units.nK)
+      end
+      return out, { duration = p.ramp_time, notes = notes, adiabatic = true }
     end,
   })
 end
