@@ -95,10 +95,11 @@ function S.derive(c)
 end
 
 -- Solve f(T) = target for T by bisection in log T, f increasing in T.  The bracket spans
--- 1e-4 to 1e4 times hbar omega_bar N^(1/3) / kB, the degeneracy temperature scale.
+-- 0.005 to 1e4 times hbar omega_bar N^(1/3) / kB, the degeneracy temperature scale (the
+-- lower end is T/T_F ~ 0.003, near the coldest state cp.thermo.fermi accepts).
 local function solve_temperature(c, f, target, what)
   local scale = cp.consts.hbar * S.omega_bar(c.trap_frequencies) * c.number ^ (1 / 3) / cp.consts.kB
-  local lo, hi = math.log(scale * 1e-4), math.log(scale * 1e4)
+  local lo, hi = math.log(scale * 0.005), math.log(scale * 1e4)
   if not (f(math.exp(lo)) <= target and f(math.exp(hi)) >= target) then
     error(string.format("sample: no temperature between %g K and %g K gives %s %g for %s",
       math.exp(lo), math.exp(hi), what, target, c.name), 0)
