@@ -135,8 +135,13 @@ local function run_stages(self, s, first, last, alter)
     if S.is_empty(before) then
       after, info = S.copy(before), { duration = 0, notes = { "not run: no particles left" }, skipped = true }
     else
-      after, info = st:run(S.copy(before))
-      S.check(after, string.format("stage %d (%s)", i, st.name))
+      local who = string.format("stage %d (%s)", i, st.name)
+      local ok
+      ok, after, info = pcall(st.run, st, S.copy(before))
+      if not ok then
+        error(who .. ": " .. tostring(after), 0)
+      end
+      S.check(after, who)
       info = info or {}
       after.elapsed = before.elapsed + (info.duration or 0)
       if after.kind == "atom-mixture" then
@@ -228,7 +233,7 @@ local function reason(self, steps, ranking, v, start, final)
   local kept = st.before.number > 0 and st.after.number / st.before.number or 0
   local ds = st.after.entropy_per_particle - st.before.entropy_per_particle
   local what = {}
-  what[#what + 1] = string.format("keeps %.0f %% of the particles", 100 * kept)
+  what[#what + 1] = string.format("keeps %.3g %% of the particles", 100 * kept)
   if ds == ds and ds > 0 then
     what[#what + 1] = string.format("adds %.2g kB of entropy per particle", ds)
   end

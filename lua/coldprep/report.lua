@@ -218,7 +218,8 @@ function Budget:text()
   out[#out + 1] = wrap(self.reason, "  ", 96)
   local rank = {}
   for _, g in ipairs(self.ranking) do
-    rank[#rank + 1] = string.format("%d %s %+.3g %%", g.index, g.name, 100 * g.gain)
+    local gain = math.abs(g.gain) < 1e-9 and 0 or g.gain
+    rank[#rank + 1] = string.format("%d %s %+.3g %%", g.index, g.name, 100 * gain)
   end
   out[#out + 1] = wrap("Gain in final phase-space density per stage made better: "
     .. table.concat(rank, ", ") .. ".", "  ", 96)

@@ -166,17 +166,14 @@ function M.custom(args)
     accepts = accepts, produces = produces, adiabatic = args.adiabatic and true or false,
     equipment = args.equipment,
     run = function(self, s)
-      local ok, out, rec = pcall(fn, s)
-      if not ok then error(string.format("stage %s: %s", self.name, tostring(out)), 0) end
+      local out, rec = fn(s)
       rec = rec or {}
       if type(rec) ~= "table" then
-        error(string.format("stage %s: the second result must be a record table, got %s",
-          self.name, type(rec)), 0)
+        error(string.format("the second result must be a record table, got %s", type(rec)), 0)
       end
       local duration = rec.duration or 0
       if type(duration) ~= "number" or not (duration >= 0) or duration == math.huge then
-        error(string.format("stage %s: record field 'duration' = %s must be >= 0 (s)", self.name,
-          tostring(duration)), 0)
+        error(string.format("record field 'duration' = %s must be >= 0 (s)", tostring(duration)), 0)
       end
       if type(out) == "table" and self.produces then out.kind = self.produces end
       return out, { duration = duration, notes = rec.notes or {} }
@@ -229,17 +226,15 @@ end
 
 -- The resonance a stage names: nil (the first known for the molecule), an index into the
 -- molecule's list, or a table {b0, width, abg, dmu} (T, T, m, J/T).
-local function resonance_of(fname, spec, molecule)
+local function resonance_of(spec, molecule)
+  local where = "argument 'resonance'"
   if spec == nil or math.type(spec) == "integer" then
     local ok, r = pcall(cp.species.resonance, molecule, spec or 1)
-    if not ok then A.fail(fname, "argument 'resonance': %s", tostring(r)) end
+    if not ok then A.fail(where, "%s", tostring(r)) end
     return r
   end
-  if type(spec) ~= "table" then
-    A.fail(fname, "argument 'resonance' must be an index or a table {b0, width, abg, dmu}, got %s", type(spec))
-  end
   for _, k in ipairs { "b0", "width", "abg", "dmu" } do
-    A.number(fname .. ": resonance", spec, k, ({ b0 = "T", width = "T", abg = "m", dmu = "J/T" })[k])
+    A.number(where, spec, k, ({ b0 = "T", width = "T", abg = "m", dmu = "J/T" })[k])
   end
   return spec
 end
@@ -278,7 +273,7 @@ function M.associate(args)
     hint = "magnetoassociation acts on the atom mixture, so it comes first",
     run = function(self, s)
       local mol = s.molecule
-      local r = resonance_of("stage " .. self.name, args.resonance, mol.name)
+      local r = resonance_of(args.resonance, mol.name)
       self.equipment = { { kind = "coil", what = "Feshbach field", field = r.b0 } }
       local ib = S.minority(s.atoms)
       local b, a = s.atoms[ib], s.atoms[3 - ib]

@@ -132,7 +132,7 @@ T.raises(function() cp.plan { start = start(), stages = { bad } }:run() end,
   { "stage 1 (breaker)", "'temperature'" }, "negative temperature from a custom stage")
 local raiser = cp.stages.custom { name = "raiser", fn = function() error("lab on fire") end }
 T.raises(function() cp.plan { start = start(), stages = { raiser } }:run() end,
-  { "stage raiser", "lab on fire" }, "an error inside a custom stage names it")
+  { "stage 1 (raiser)", "lab on fire" }, "an error inside a custom stage names it")
 T.raises(function() cp.stages.custom { fn = function() end } end,
   { "stages.custom", "'name'" }, "custom stage without a name")
 
