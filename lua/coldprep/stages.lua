@@ -120,6 +120,32 @@ function MODEL.evaporation_time(s, r, eta, sigma, beta0)
   return t
 end
 
+-- The cubic lattice of three equal retro-reflected beams (cp.lattice.depth3d), its
+-- loading ramp (cp.lattice.loading: the fraction left in excited bands at q = 0), the
+-- energy of that excitation (band 1 to band 3 at q = 0, the first band parity couples,
+-- cp.lattice.bands) and the photon-scattering heating (cp.lattice.heating) at the
+-- intensity the molecules sit in: three standing waves, each (1 + sqrt(R))^2 I0 at its
+-- antinodes.
+function MODEL.lattice(s, p)
+  local beam = { power = p.power, waist = p.waist, wavelength = p.wavelength,
+    polarizability_au = p.polarizability_au, reflectivity = p.reflectivity }
+  local d3 = cp.lattice.depth3d { beams = { beam, beam, beam }, mass = s.mass }
+  local ax = d3.axes[1]
+  local load = cp.lattice.loading { shape = p.ramp_shape, start_er = 0, end_er = ax.depth_er,
+    duration = p.ramp_time, mass = s.mass, wavelength = p.wavelength }
+  local e = cp.lattice.bands { depth_er = ax.depth_er, bands = 3, quasimomenta = { 0 } }.energies_er[1]
+  local out = { depth_er = ax.depth_er, depth = ax.depth, omega = d3.omega, spacing = ax.spacing,
+    wavelength = p.wavelength, excited_fraction = load.excited_fraction,
+    excitation_energy = (e[3] - e[1]) * ax.recoil, heating_rate = 0, scattering_rate = 0 }
+  if p.imag_polarizability_au > 0 then
+    local intensity = 3 * (1 + math.sqrt(p.reflectivity)) ^ 2 * ax.peak_intensity
+    local h = cp.lattice.heating { polarizability_imag_au = p.imag_polarizability_au,
+      intensity = intensity, mass = s.mass, wavelength = p.wavelength, depth_er = ax.depth_er }
+    out.heating_rate, out.scattering_rate = h.temperature_rate, h.scattering_rate
+  end
+  return out
+end
+
 -- The gas after adiabatic loading into the lattice `lat` (cp.thermo.match_lattice).
 function MODEL.match_lattice(s, lat)
   local args = S.thermo_trap(s)
@@ -571,7 +597,7 @@ end
 local EXCITED_WARNING = 0.01
 
 -- cp.stages.load_lattice{wavelength (m), power (W per beam), waist (m), polarizability_au,
---   ramp_time (s) [, ramp_shape = "s_shaped", imag_polarizability_au, reflectivity = 1,
+--   ramp_time (s) [, ramp_shape = "s-shaped", imag_polarizability_au, reflectivity = 1,
 --   label]}: a cubic lattice of three retro-reflected beams, the molecules' new trap.
 function M.load_lattice(args)
   local fname = "stages.load_lattice"
@@ -583,7 +609,7 @@ function M.load_lattice(args)
     waist = A.number(fname, args, "waist", "m", { positive = true }),
     polarizability_au = A.number(fname, args, "polarizability_au", "a.u.", { positive = true }),
     ramp_time = A.number(fname, args, "ramp_time", "s", { positive = true, max = 1e4 }),
-    ramp_shape = A.option(fname, args, "ramp_shape", { "linear", "exponential", "s_shaped" }, "s_shaped"),
+    ramp_shape = A.option(fname, args, "ramp_shape", { "linear", "exponential", "s-shaped" }, "s-shaped"),
     imag_polarizability_au = A.number(fname, args, "imag_polarizability_au", "a.u.",
       { optional = true, default = 0, nonnegative = true }),
     reflectivity = A.number(fname, args, "reflectivity", "fraction", { optional = true, default = 1, positive = true, max = 1 }),
