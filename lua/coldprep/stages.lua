@@ -609,7 +609,7 @@ function M.load_lattice(args)
     waist = A.number(fname, args, "waist", "m", { positive = true }),
     polarizability_au = A.number(fname, args, "polarizability_au", "a.u.", { positive = true }),
     ramp_time = A.number(fname, args, "ramp_time", "s", { positive = true, max = 1e4 }),
-    ramp_shape = A.option(fname, args, "ramp_shape", { "linear", "exponential", "s-shaped" }, "s-shaped"),
+    ramp_shape = A.option(fname, args, "ramp_shape", { "linear", "s-shaped" }, "s-shaped"),
     imag_polarizability_au = A.number(fname, args, "imag_polarizability_au", "a.u.",
       { optional = true, default = 0, nonnegative = true }),
     reflectivity = A.number(fname, args, "reflectivity", "fraction", { optional = true, default = 1, positive = true, max = 1 }),
