@@ -654,4 +654,88 @@ function M.load_lattice(args)
   })
 end
 
+-- ---- help texts -----------------------------------------------------------------------
+
+local HELP = {
+  custom = [[
+stages.custom{name, fn [, accepts, produces, adiabatic, equipment]} -> stage
+A stage of your own.  fn(sample) receives a copy of the sample (see docs/planning.md: kind,
+species, molecule, number, temperature (K), trap_frequencies {wx, wy, wz} (rad/s), atoms,
+elapsed ...) and returns the changed sample and optionally a record {duration (s), notes =
+{...}}.  The plan recomputes degeneracy, density and entropy from the thermo model.  For an
+atom mixture change s.atoms[1] and s.atoms[2].  accepts: a kind or list of kinds (default
+any); produces: the kind it hands on; equipment: list of {kind = "laser", what, power (W)}
+| {kind = "coil", what, field (T)} | {kind = "electric", what, field (V/m)} for the safety
+cautions.  Example:
+  cp.stages.custom{name = "imaging", fn = function(s) s.number = 0.95 * s.number; return s,
+    {duration = 1e-3, notes = {"5 % lost to imaging light"}} end}]],
+  associate = [[
+stages.associate{ramp_rate (T/s) [, resonance, span (T), max_efficiency, alpha (m^2/s),
+  samples = 20000, seed = 1, label]} -> stage
+Magnetoassociation of the atom mixture into Feshbach molecules (cp.feshbach): the partner
+density averaged over the minority cloud (overlap_density, with gravitational sag), the
+phase-space ceiling P_max (max_efficiency, stochastic phase-space sampling; or give it),
+and the ramp-rate law P = P_max (1 - exp(-alpha n |abg width / ramp_rate|)).  resonance: an
+index into cp.species.resonance(molecule, i) (default 1) or a table {b0, width, abg, dmu}.
+The ramp lasts span / ramp_rate (span default |width|).  Molecules: T = (m_a T_a + m_b T_b)/M,
+trap m w^2 = m_a w_a^2 + m_b w_b^2 per axis.  Example: cp.stages.associate{ramp_rate =
+0.5*cp.units.G/cp.units.ms}]],
+  transfer = [[
+stages.transfer{rabi_pump, rabi_stokes (rad/s), width, delay (s), gamma (rad/s)
+  [, detuning, two_photon_detuning, pump_linewidth_hz, stokes_linewidth_hz,
+  relative_linewidth_hz, shape] | efficiency | round_trip_efficiency
+  [, pump_power, stokes_power (W), label]} -> stage
+Two-photon (STIRAP) transfer of Feshbach molecules to the ground state.  With pulse
+parameters the one-way efficiency comes from cp.raman.transfer (arguments as there); or
+give a measured one-way efficiency, or a round trip (one way = sqrt(round trip)).  Number
+times efficiency, temperature and trap unchanged.  Example: cp.stages.transfer{
+round_trip_efficiency = 0.8}]],
+  remove_atoms = [[
+stages.remove_atoms{[efficiency = 1, molecule_loss = 0, heating_per_atom = 0 (J),
+  duration = 0 (s), label]} -> stage
+Removes the fraction `efficiency` of the leftover atoms (resonant light, microwave
+sweeps); a fraction molecule_loss of the molecules is lost with them, and each removed atom
+leaves heating_per_atom of energy in the molecules (the new temperature from the thermo
+model's energy per particle).  Example: cp.stages.remove_atoms{heating_per_atom =
+2*cp.units.nK*cp.consts.kB}]],
+  change_trap = [[
+stages.change_trap{trap_frequencies = {wx, wy, wz} (rad/s), ramp_time (s) [, beam_power (W),
+  label]} -> stage
+An adiabatic change of the harmonic trap: the temperature from entropy matching
+(cp.thermo.match_harmonic).  A note warns when |d omega/dt|/omega^2 > 0.1 on an axis (the
+ramp is then too fast for the adiabatic result).  Example: cp.stages.change_trap{
+trap_frequencies = {2*math.pi*60, 2*math.pi*70, 2*math.pi*200}, ramp_time = 0.05}]],
+  load_lattice = [[
+stages.load_lattice{wavelength (m), power (W per beam), waist (m), polarizability_au,
+  ramp_time (s) [, ramp_shape = "s-shaped" | "linear", imag_polarizability_au,
+  reflectivity = 1, label]} -> stage
+Loading into a cubic lattice of three retro-reflected beams: depth and envelope from
+cp.lattice.depth3d, adiabatic loading by entropy matching (cp.thermo.match_lattice), the
+fraction left in excited bands by a finite ramp (cp.lattice.loading; it adds its interband
+energy as entropy, dS = f dE / kB T), photon-scattering heating (cp.lattice.heating, used by
+later holds).  The degeneracy shown afterwards is that of the same entropy in the envelope
+trap.  Example: cp.stages.load_lattice{wavelength = 1064e-9, power = 2, waist = 150e-6,
+polarizability_au = 700, ramp_time = 0.05}]],
+  hold = [[
+stages.hold{duration (s) [, lifetime (s), heating_rate (K/s), loss_rate (m^3/s), label]}
+  -> stage
+Molecules held in their trap: two-body loss (loss_rate, or the universal rate from the
+molecule's C6 and statistics, cp.collisions.universal_rate) with its anti-evaporation
+heating, one-body loss, technical heating, and the lattice's photon-scattering heating
+(cp.collisions.hold, a thermal-cloud model).  Example: cp.stages.hold{duration = 0.1,
+lifetime = 5}]],
+  evaporate = [[
+stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J),
+  electric_field (V/m) | cross_section (m^2) | ratio [, kappa, loss_rate (m^3/s), label]}
+  -> stage
+Evaporation of ground-state molecules at truncation eta (5..30) in the fixed trap
+(cp.collisions.evaporation, the scaling model).  Elastic collisions: the dipolar cross
+section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_field
+(d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
+collisions.  Ends at a number, a kept fraction, a temperature, or a trap depth (T =
+depth/(eta kB)).  Example: cp.stages.evaporate{eta = 8, final_temperature = 60e-9,
+electric_field = 0.6e5}]],
+}
+for name, text in pairs(HELP) do cp.set_help(M[name], text) end
+
 return M

@@ -1,0 +1,78 @@
+-- Invariants of a full plan built from the model stages (association, removal, transfer,
+-- trap change, lattice loading, hold, evaporation) for fermionic 23Na40K:
+--   the product of the step efficiencies equals N_final / N_start;
+--   entropy per particle never falls in an adiabatic stage;
+--   a plan whose numbers all improve never gets a worse verdict;
+--   a change of species changes the whole budget consistently.
+local T = require "testlib"
+local cp = require "coldprep"
+local u = cp.units
+local pi = math.pi
+local function Hz(f) return 2 * pi * f end
+
+-- opts: the knobs a better plan improves
+local function nak_plan(o)
+  return cp.plan { start = { molecule = o.molecule or "23Na40K", temperature = o.T,
+      atoms = { { atom = o.a or "23Na", number = o.Na, trap_frequencies = { Hz(90), Hz(110), Hz(220) } },
+                { atom = o.b or "40K", number = o.K, trap_frequencies = { Hz(110), Hz(135), Hz(270) } } } },
+    stages = {
+      cp.stages.associate { ramp_rate = o.ramp },
+      cp.stages.remove_atoms { heating_per_atom = o.heat, molecule_loss = o.mloss },
+      cp.stages.transfer { round_trip_efficiency = o.rt },
+      cp.stages.change_trap { trap_frequencies = { Hz(60), Hz(70), Hz(200) }, ramp_time = 0.05 },
+      cp.stages.load_lattice { wavelength = 1064 * u.nm, power = 1.5, waist = 200 * u.um,
+        polarizability_au = 700, ramp_time = o.lattice_ramp, imag_polarizability_au = 1e-4 },
+      cp.stages.hold { duration = 20 * u.ms, lifetime = o.lifetime, loss_rate = o.beta },
+    } }
+end
+
+local base = { T = 200 * u.nK, Na = 4e5, K = 1.5e5, ramp = 2 * u.G / u.ms, heat = 5 * u.nK * cp.consts.kB,
+  mloss = 0.05, rt = 0.8, lattice_ramp = 20 * u.ms, lifetime = 2, beta = 1e-12 * u.cm3 }
+local better = { T = 150 * u.nK, Na = 5e5, K = 2e5, ramp = 1 * u.G / u.ms, heat = 2 * u.nK * cp.consts.kB,
+  mloss = 0.02, rt = 0.9, lattice_ramp = 50 * u.ms, lifetime = 5, beta = 5e-13 * u.cm3 }
+
+local b = nak_plan(base):run()
+
+-- INV-1 product of step efficiencies.
+local prod = 1
+for _, r in ipairs(b.stages) do prod = prod * r.efficiency end
+T.near(prod, b.final.number / b.start.number, 1e-12, "product of step efficiencies = N_final/N_start")
+T.near(b.final.cumulative_efficiency, b.final.number / b.start.number, 1e-12, "cumulative efficiency")
+
+-- INV-2 entropy per particle never falls in an adiabatic stage.
+local adiabatic = 0
+for i, r in ipairs(b.stages) do
+  if r.adiabatic then
+    adiabatic = adiabatic + 1
+    local before = i == 1 and b.start or b.stages[i - 1]
+    T.check(r.entropy_per_particle >= before.entropy_per_particle * (1 - 1e-9),
+      string.format("entropy does not fall in adiabatic stage %d (%s): %.6g -> %.6g", i, r.name,
+        before.entropy_per_particle, r.entropy_per_particle))
+  end
+end
+T.check(adiabatic == 2, "the trap change and the lattice loading are adiabatic stages")
+
+-- INV-3 all numbers better: never a worse verdict, never a higher final T/T_F.
+local g = nak_plan(better):run()
+T.check(g.final.degeneracy <= b.final.degeneracy, "better plan: lower final T/T_F")
+T.check(g.final.number >= b.final.number, "better plan: more molecules")
+T.check(g.degenerate or not b.degenerate, "better plan: verdict not worse")
+-- each knob alone, too
+for k, v in pairs(better) do
+  local o = {}
+  for kk, vv in pairs(base) do o[kk] = vv end
+  o[k] = v
+  local r = nak_plan(o):run()
+  T.check(r.final.degeneracy <= b.final.degeneracy * (1 + 1e-9), "improving " .. k .. " alone does not raise T/T_F")
+end
+
+-- INV-4 a species change changes the budget consistently: 40K87Rb is fermionic and
+-- reactive, 87Rb133Cs bosonic; the molecule data come from cp.species.
+local krb = nak_plan { molecule = "40K87Rb", a = "87Rb", b = "40K", T = 200 * u.nK, Na = 4e5, K = 1.5e5,
+  ramp = 2 * u.G / u.ms, heat = 0, mloss = 0, rt = 0.8, lattice_ramp = 20 * u.ms, lifetime = 2 }:run()
+T.check(krb.species == "40K87Rb" and krb.final.degeneracy_name == "T/T_F", "KRb is fermionic")
+local hold_note = table.concat(krb.stages[6].notes, " ")
+T.check(hold_note:find("universal p-wave", 1, true) ~= nil, "KRb hold uses the universal p-wave rate")
+T.check(hold_note:find("1.613e+04", 1, true) ~= nil, "with KRb's C6 from the species table")
+
+T.done()
