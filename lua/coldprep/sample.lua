@@ -94,23 +94,6 @@ function S.derive(c)
   return c
 end
 
--- Solve f(T) = target for T by bisection in log T, f increasing in T.  The bracket spans
--- 0.005 to 1e4 times hbar omega_bar N^(1/3) / kB, the degeneracy temperature scale (the
--- lower end is T/T_F ~ 0.003, near the coldest state cp.thermo.fermi accepts).
-local function solve_temperature(c, f, target, what)
-  local scale = cp.consts.hbar * S.omega_bar(c.trap_frequencies) * c.number ^ (1 / 3) / cp.consts.kB
-  local lo, hi = math.log(scale * 0.005), math.log(scale * 1e4)
-  if not (f(math.exp(lo)) <= target and f(math.exp(hi)) >= target) then
-    error(string.format("sample: no temperature between %g K and %g K gives %s %g for %s",
-      math.exp(lo), math.exp(hi), what, target, c.name), 0)
-  end
-  for _ = 1, 64 do
-    local mid = 0.5 * (lo + hi)
-    if f(math.exp(mid)) < target then lo = mid else hi = mid end
-  end
-  return math.exp(0.5 * (lo + hi))
-end
-
 -- The trap of cloud c in the form cp.thermo takes (number, mass, three frequencies).
 local function thermo_trap(c)
   return { number = c.number, mass = c.mass, statistics = c.statistics,
@@ -126,10 +109,19 @@ function S.temperature_for_entropy(c, entropy)
   return cp.thermo.temperature_from_entropy(args).temperature
 end
 
--- The temperature at which cloud c has mean energy `energy` (J) per particle.
-function S.temperature_for_energy(c, energy)
-  return solve_temperature(c, function(T) return thermo_state(c, T).energy_per_particle end,
-    energy, "energy per particle (J)")
+-- The temperature of cloud c after `energy` (J) per particle is added at fixed number and
+-- trap: dS = dE / (kB T) (the thermodynamic identity at fixed N and trap), integrated in
+-- HEAT_STEPS midpoint steps through the model's T(S) (cp.thermo.temperature_from_entropy).
+local HEAT_STEPS = 8
+function S.temperature_after_heating(c, energy)
+  local s, T = c.entropy_per_particle, c.temperature
+  local de = energy / HEAT_STEPS
+  for _ = 1, HEAT_STEPS do
+    local T_mid = S.temperature_for_entropy(c, s + 0.5 * de / (cp.consts.kB * T))
+    s = s + de / (cp.consts.kB * T_mid)
+    T = S.temperature_for_entropy(c, s)
+  end
+  return T
 end
 
 -- A copy of cloud or sample c with the fields of `changes` replaced, re-derived.

@@ -233,8 +233,7 @@ function M.remove_atoms(args)
       local out = S.with(s, { number = s.number * (1 - p.molecule_loss) })
       if removed > 0 and p.heating_per_atom > 0 and not S.is_empty(out) then
         -- the energy the removed atoms leave behind is shared by the molecules
-        local e = out.energy_per_particle + p.heating_per_atom * removed / out.number
-        out.temperature = S.temperature_for_energy(out, e)
+        out = S.with(out, { temperature = S.temperature_after_heating(out, p.heating_per_atom * removed / out.number) })
         notes[#notes + 1] = string.format("the energy left by the removed atoms raises T by %.3g nK",
           (out.temperature - s.temperature) / cp.units.nK)
       end
