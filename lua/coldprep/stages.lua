@@ -640,8 +640,9 @@ function M.load_lattice(args)
       out.lattice = { depth_er = lat.depth_er, depth = lat.depth, wavelength = p.wavelength,
         spacing = lat.spacing, temperature = m.temperature, peak_filling = m.peak_filling,
         heating_rate = lat.heating_rate }
-      notes[#notes + 1] = string.format("in the lattice: T = %.3g nK, %s; degeneracy shown is that of "
-        .. "the same entropy in the envelope trap (the lattice ramped down adiabatically)",
+      notes[#notes + 1] = string.format("adiabatic loading alone: T = %.3g nK in the lattice, %s; the "
+        .. "degeneracy shown is that of the same entropy in the envelope trap (the lattice ramped "
+        .. "down adiabatically)",
         m.temperature / cp.units.nK, m.peak_filling and string.format("peak filling %.2g per site",
           m.peak_filling) or string.format("condensed fraction %.2g", m.condensed_fraction or 0))
       if lat.heating_rate > 0 then

@@ -1,0 +1,16 @@
+#!/usr/bin/env bash
+# The demo (scripts/demo.lua) runs end to end, prints both budgets, their verdicts (the
+# second flipped by one changed parameter) and the safety cautions.
+set -euo pipefail
+bin=$1
+top=$(cd "$(dirname "$0")/../.." && pwd)
+out=$("$bin" "$top/scripts/demo.lua")
+fail() { echo "FAIL: $1"; exit 1; }
+grep -q "Preparation budget: Tidewater lab, first NaK plan" <<<"$out" || fail "first budget"
+grep -q "Preparation budget: Tidewater lab, NaK plan at 0.3 kV/cm" <<<"$out" || fail "second budget"
+grep -q "Verdict at 0.6 kV/cm: degenerate; at 0.3 kV/cm: not degenerate." <<<"$out" || fail "flipped verdict"
+grep -q "Class 4 laser" <<<"$out" || fail "laser caution"
+grep -q "High-current coils" <<<"$out" || fail "coil caution"
+grep -q "High voltage" <<<"$out" || fail "high-voltage caution"
+grep -q "laser safety officer" <<<"$out" || fail "deference to the laser safety officer"
+echo "demo ok"

@@ -1,0 +1,41 @@
+-- Runs the example plans in scripts/examples/ and checks what each is meant to show.
+local T = require "testlib"
+local cp = require "coldprep"
+
+local function run(name)
+  local ok, r = pcall(dofile, "../../scripts/examples/" .. name .. ".lua")
+  T.check(ok, name .. " runs: " .. tostring(ok or r))
+  return ok and r or nil
+end
+
+-- EX-1 another species pair: fermionic, reactive 40K87Rb with the universal p-wave loss.
+local krb = run("krb_reactive")
+if krb then
+  T.check(krb.species == "40K87Rb" and krb.final.degeneracy_name == "T/T_F", "KRb: fermionic budget")
+  T.check(krb.stages[4].notes[1]:find("universal p-wave", 1, true) ~= nil, "KRb: universal p-wave loss in the hold")
+  T.check(krb.stages[4].efficiency < 0.8, "KRb: the reactive hold loses more than 20 %")
+  T.check(not krb.degenerate, "KRb without shielding does not reach degeneracy")
+end
+
+-- EX-2 a bosonic molecule: judged by T/T_c, and this plan condenses.
+local rbcs = run("rbcs_bosons")
+if rbcs then
+  T.check(rbcs.final.degeneracy_name == "T/T_c" and rbcs.threshold == 1, "RbCs: bosonic threshold T/T_c <= 1")
+  T.check(rbcs.degenerate and rbcs.final.degeneracy < 1, "RbCs: the evaporation reaches T < T_c")
+end
+
+-- EX-3 the lattice-loading study: slower ramps excite less and leave less entropy.
+local rows = run("lattice_loading")
+if rows then
+  T.check(#rows == 4, "four ramp durations")
+  for i = 2, #rows do
+    T.check(rows[i].entropy <= rows[i - 1].entropy * (1 + 1e-9),
+      string.format("entropy after loading does not grow with a slower ramp (%d)", i))
+  end
+  T.check(rows[1].entropy > rows[#rows].entropy + 0.1, "the fastest ramp adds visible entropy")
+  local note = table.concat(rows[1].budget.stages[4].notes, " ")
+  T.check(note:find("loading ramp not adiabatic", 1, true) ~= nil, "the fast ramp is flagged")
+  T.check(rows[#rows].budget.safety[1]:find("Class 4", 1, true) == nil, "0.6 W beams... see below")
+end
+
+T.done()
