@@ -202,4 +202,16 @@ T.check(not js:find("nan", 1, true) and not js:find("inf", 1, true), "JSON has n
 T.raises(function() nb:write_csv("/nonexistent-dir/x.csv") end, { "budget:write_csv", "cannot write" },
   "unwritable path")
 
+-- PLAN-F10: every public function has a help text.
+for _, k in ipairs { "custom", "associate", "transfer", "remove_atoms", "change_trap", "load_lattice",
+  "hold", "evaporate" } do
+  local h = cp.get_help(cp.stages[k])
+  T.check(type(h) == "string" and h:find("stages." .. k, 1, true) == 1, "help text of cp.stages." .. k)
+end
+T.check(cp.get_help(cp.plan.new) ~= nil and cp.get_help(cp.plan.Plan.run) ~= nil, "help of cp.plan and plan:run")
+for _, k in ipairs { "print", "write_csv", "write_json" } do
+  T.check(cp.get_help(b[k]) ~= nil, "help text of budget:" .. k)
+end
+T.check(getmetatable(cp.plan).__call ~= nil and type(cp.plan.new) == "function", "cp.plan is callable and a module")
+
 T.done()
