@@ -125,8 +125,9 @@ function P.new(args)
   return self
 end
 
--- Run stages first..last on sample s; returns the list of {stage, before, after, info}.
-local function run_stages(self, s, first, last, alter)
+-- Run stages first..last on sample s; returns the list of {stage, before, after, info}
+-- and the final sample.
+local function run_stages(self, s, first, last)
   local steps = {}
   for i = first, last do
     local st = self.stages[i]
@@ -138,9 +139,7 @@ local function run_stages(self, s, first, last, alter)
       local who = string.format("stage %d (%s)", i, st.name)
       local ok
       ok, after, info = pcall(st.run, st, S.copy(before))
-      if not ok then
-        error(who .. ": " .. tostring(after), 0)
-      end
+      if not ok then error(who .. ": " .. tostring(after), 0) end
       S.check(after, who)
       info = info or {}
       after.elapsed = before.elapsed + (info.duration or 0)
@@ -152,7 +151,6 @@ local function run_stages(self, s, first, last, alter)
         S.derive(after)
       end
     end
-    if alter and alter.index == i then after = alter.fn(before, after) end
     steps[#steps + 1] = { index = i, stage = st, before = before, after = after, info = info }
     s = after
   end
@@ -213,8 +211,9 @@ local function limiting(self, steps, final)
     if steps[i].info.skipped then
       gain = 0
     else
-      local _, f = run_stages(self, steps[i].before, i, #steps,
-        { index = i, fn = improved(self.perturbation) })
+      -- the stage's recorded outcome, made better, handed to the stages after it
+      local better = improved(self.perturbation)(steps[i].before, steps[i].after)
+      local _, f = run_stages(self, better, i + 1, #steps)
       gain = (base > 0) and (f.trap_phase_space_density / base - 1) or f.trap_phase_space_density
     end
     ranking[#ranking + 1] = { index = i, name = steps[i].stage.name, gain = gain }
