@@ -227,23 +227,23 @@ end
 
 -- The plain-language reason for the verdict, naming the limiting stage.
 local function reason(self, steps, ranking, v, start, final)
-  local top = ranking[1]
-  local st = steps[top.index]
-  local kept = st.before.number > 0 and st.after.number / st.before.number or 0
-  local ds = st.after.entropy_per_particle - st.before.entropy_per_particle
-  local what = {}
-  what[#what + 1] = string.format("keeps %.3g %% of the particles", 100 * kept)
-  if ds == ds and ds > 0 then
-    what[#what + 1] = string.format("adds %.2g kB of entropy per particle", ds)
-  end
   local parts = {}
   if S.is_empty(final) then
-    parts[1] = string.format("No molecules are left after stage %d (%s).", top.index, top.name)
+    parts[1] = "No molecules are left at the end of the plan."
   else
     parts[1] = string.format("%d of %.3g starting %s survive as %s (%.3g %%) at %s = %.3g.",
       math.floor(final.number + 0.5), start.number, start.name,
       final.kind == "atom-mixture" and "atoms" or (final.species .. " molecules"),
       100 * final.number / start.number, final.degeneracy_name, final.degeneracy)
+  end
+  local top = ranking[1]
+  if not top then return parts[1] end
+  local st = steps[top.index]
+  local kept = st.before.number > 0 and st.after.number / st.before.number or 0
+  local ds = st.after.entropy_per_particle - st.before.entropy_per_particle
+  local what = { string.format("keeps %.3g %% of the particles", 100 * kept) }
+  if ds == ds and ds > 0 then
+    what[#what + 1] = string.format("adds %.2g kB of entropy per particle", ds)
   end
   if top.gain > 0 then
     parts[2] = string.format("The limiting stage is %d (%s): it %s; making it %.0f %% better would "
@@ -259,11 +259,13 @@ local function reason(self, steps, ranking, v, start, final)
   return table.concat(parts, " ")
 end
 
--- plan:run() -> budget (see coldprep.report)
-function Plan:run()
+-- plan:run([{limiting = true}]) -> budget (see coldprep.report).  limiting = false skips
+-- the limiting-stage analysis (one rerun per stage), e.g. inside a sweep.
+function Plan:run(opts)
+  if opts ~= nil then A.table("plan:run", opts, { "limiting" }) end
   local steps, final = run_stages(self, self.start, 1, #self.stages)
   local v = verdict(self, final)
-  local ranking = limiting(self, steps, final)
+  local ranking = (opts and opts.limiting == false) and {} or limiting(self, steps, final)
   return report.budget {
     plan = self, start = self.start, steps = steps, final = final, verdict = v,
     ranking = ranking, reason = reason(self, steps, ranking, v, self.start, final),
@@ -290,8 +292,9 @@ plan:run() -> budget with stages, final, degenerate, verdict, limiting_stage, re
   budget:print(), budget:write_csv(path), budget:write_json(path).
 Example: see scripts/demo.lua and docs/planning.md.]])
 cp.set_help(Plan.run, [[
-plan:run() -> budget: runs every stage, then reruns the plan once per stage with that
-stage made `perturbation` better to find the limiting stage.
+plan:run([{limiting = true}]) -> budget: runs every stage, then reruns the plan from each
+stage's outcome made `perturbation` better to find the limiting stage (limiting = false
+skips that analysis, e.g. inside a sweep).
 budget.stages[i] = {name, number, temperature (K), t_over_tf | t_over_tc, peak_density (m^-3),
   phase_space_density, entropy_per_particle (kB), efficiency, cumulative_efficiency,
   duration (s), elapsed (s), notes}; budget.final, budget.degenerate, budget.verdict,

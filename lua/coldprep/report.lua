@@ -136,8 +136,10 @@ function R.budget(run)
   b.threshold = run.verdict.threshold
   b.verdict = run.verdict.text
   b.ranking = run.ranking
-  b.limiting_index = run.ranking[1].index
-  b.limiting_stage = run.ranking[1].name
+  if run.ranking[1] then
+    b.limiting_index = run.ranking[1].index
+    b.limiting_stage = run.ranking[1].name
+  end
   b.reason = run.reason
   b.safety = cautions(plan)
   return b
@@ -217,12 +219,14 @@ function Budget:text()
   out[#out + 1] = wrap("Verdict: " .. self.verdict .. ".", "", 96)
   out[#out + 1] = wrap(self.reason, "  ", 96)
   local rank = {}
-  for _, g in ipairs(self.ranking) do
+  for _, g in ipairs(self.ranking or {}) do
     local gain = math.abs(g.gain) < 1e-9 and 0 or g.gain
     rank[#rank + 1] = string.format("%d %s %+.3g %%", g.index, g.name, 100 * gain)
   end
-  out[#out + 1] = wrap("Gain in final phase-space density per stage made better: "
-    .. table.concat(rank, ", ") .. ".", "  ", 96)
+  if #rank > 0 then
+    out[#out + 1] = wrap("Gain in final phase-space density per stage made better: "
+      .. table.concat(rank, ", ") .. ".", "  ", 96)
+  end
   out[#out + 1] = ""
   out[#out + 1] = "Safety:"
   for _, s in ipairs(self.safety) do out[#out + 1] = wrap("- " .. s, "  ", 96):gsub("^  ", "") end

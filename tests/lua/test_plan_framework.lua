@@ -77,6 +77,12 @@ T.near(gain.heat, 2 ^ 0.3 - 1, 2e-3, "gain of the heating stage")
 T.check(b.limiting_stage == "keep" and b.limiting_index == 3, "the lossy stage limits")
 T.check(b.reason:find("stage is 3 (keep)", 1, true) ~= nil, "reason names the limiting stage")
 
+-- PLAN-F3b: the analysis can be skipped (for sweeps); the rest of the budget is the same.
+local quick = plan:run { limiting = false }
+T.check(quick.limiting_stage == nil and #quick.ranking == 0, "limiting = false: no ranking")
+T.near(quick.final.degeneracy, b.final.degeneracy, 1e-12, "limiting = false: same final state")
+T.raises(function() plan:run { limting = false } end, { "plan:run", "did you mean 'limiting'" }, "run option checked")
+
 -- PLAN-F4: the threshold is settable and flips the verdict.
 local pass = cp.plan { start = start(), stages = { convert(1) }, threshold = 50 }:run()
 T.check(pass.degenerate and pass.threshold == 50, "threshold 50 passes a T/T_F ~ 20 gas")
