@@ -6,6 +6,7 @@
 --   accepts    set of sample kinds it can act on; produces: the kind it hands on (nil =
 --              unchanged); adiabatic: true when it conserves entropy except for the
 --              excitation it reports; equipment: what the safety cautions look at
+--   params     the stage's checked arguments with their defaults (read them, e.g. in a sweep)
 --   run        function(self, sample) -> sample, info {duration (s), notes = {...}}
 -- The physics comes from the C models (cp.feshbach, cp.raman, cp.lattice, cp.thermo,
 -- cp.collisions); each stage is a thin layer that feeds them the sample's numbers.
@@ -374,7 +375,7 @@ function M.transfer(args)
   end
   local st = new_stage("transfer", args, {
     accepts = { ["feshbach-molecules"] = true }, produces = "ground-state-molecules",
-    equipment = equipment,
+    equipment = equipment, params = { efficiency = eff, pulse = pulse },
     hint = "the two-photon transfer starts from Feshbach molecules: place it after cp.stages.associate",
   })
   -- the model result does not depend on the sample: compute it once, when first run
@@ -412,6 +413,7 @@ function M.change_trap(args)
   local power = A.number(fname, args, "beam_power", "W", { optional = true, positive = true })
   return new_stage("change_trap", args, {
     accepts = MOLECULES, adiabatic = true,
+    params = { trap_frequencies = w_to, ramp_time = ramp, beam_power = power },
     equipment = { { kind = "laser", what = "new optical trap", power = power } },
     hint = "the trap change acts on molecules; associate first",
     run = function(_, s)
