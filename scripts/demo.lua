@@ -40,6 +40,10 @@ local function tidewater_plan(name, electric_field)
   }
 end
 
+print("The Tidewater Polar Molecules Lab (an imagined group) plans its first degenerate Fermi gas")
+print("of 23Na40K molecules: associate, clean, STIRAP, move to an evaporation trap, hold, evaporate")
+print("with dipolar collisions in a dc electric field.")
+print()
 local clock = os.clock()
 local planned = tidewater_plan("Tidewater lab, first NaK plan (0.6 kV/cm)", 0.6e5):run()
 planned:print()
