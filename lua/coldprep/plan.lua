@@ -5,11 +5,11 @@
 --   local budget = plan:run()      -- see coldprep.report for what a budget holds
 --
 -- cp.plan is both this module and callable (cp.plan{...} is cp.plan.new{...}).
--- The limiting stage is found by perturbation: for each stage in turn the plan is rerun
--- with that stage made slightly better (it loses a fraction `perturbation` less of the
--- particles it loses, and adds that fraction less of the entropy per particle it adds);
--- the stage whose improvement raises the final phase-space density N (hbar w / kB T)^3
--- most is the one that limits the plan.
+-- The limiting stage is found by perturbation: for each stage in turn its recorded
+-- outcome is made slightly better (it loses a fraction `perturbation` less of the
+-- particles it lost, and adds that fraction less of the entropy per particle it added)
+-- and the stages after it are run again; the stage whose improvement raises the final
+-- phase-space density N (hbar w / kB T)^3 most is the one that limits the plan.
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
 local S = require "coldprep.sample"
