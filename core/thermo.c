@@ -51,6 +51,14 @@ cp_status cp_thermo_check_temperature(double temperature, const char *ctx, cp_er
     return cp_check_range(err, ctx, "temperature", temperature, "K", 0.0, 1.0, CP_LO_OPEN);
 }
 
+cp_status cp_thermo_check_statistics(cp_statistics stat, const char *ctx, cp_error *err)
+{
+    if (stat != CP_FERMION && stat != CP_BOSON)
+        return cp_fail(err, CP_EINVAL, "%s: statistics %d is not fermion (1) or boson (0)", ctx,
+                       (int)stat);
+    return CP_OK;
+}
+
 double cp_thermo_debroglie(double mass, double temperature)
 {
     return CP_H / sqrt(2.0 * CP_PI * mass * CP_KB * temperature);
@@ -387,6 +395,7 @@ cp_status cp_thermo_temperature_from_entropy(const cp_thermo_trap *trap, cp_stat
     const char *ctx = "thermo temperature_from_entropy";
     *temperature = NAN;
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
+    CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
     CP_TRY(cp_check_range(err, ctx, "entropy_per_particle", s, "k_B", 0.0, 40.0, CP_LO_OPEN));
     double wbar = cp_thermo_omega_bar(trap);
     double t;
@@ -429,6 +438,8 @@ cp_status cp_thermo_temperature_from_entropy(const cp_thermo_trap *trap, cp_stat
 cp_status cp_thermo_entropy(const cp_thermo_trap *trap, cp_statistics stat, double temperature,
                             double *s, cp_error *err)
 {
+    *s = NAN;
+    CP_TRY(cp_thermo_check_statistics(stat, "thermo entropy", err));
     if (stat == CP_FERMION) {
         cp_thermo_fermi_result r;
         CP_TRY(cp_thermo_fermi(trap, temperature, &r, err));

@@ -56,6 +56,7 @@ cp_status cp_thermo_bose_plans(cp_thermo_bose_plans_t *plans, cp_error *err);
 /* Validation shared by every thermo function (ctx names the calling function). */
 cp_status cp_thermo_check_trap(const cp_thermo_trap *trap, const char *ctx, cp_error *err);
 cp_status cp_thermo_check_temperature(double temperature, const char *ctx, cp_error *err);
+cp_status cp_thermo_check_statistics(cp_statistics stat, const char *ctx, cp_error *err);
 
 /* Thermal de Broglie wavelength h / sqrt(2 pi m k_B T), m. */
 double cp_thermo_debroglie(double mass, double temperature);

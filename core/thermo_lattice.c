@@ -257,9 +257,7 @@ static cp_status check_common(const cp_thermo_lattice *lat, const cp_thermo_trap
 {
     CP_TRY(cp_check_range(err, ctx, "number", trap->number, "", 1.0, 1e12, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "mass", trap->mass, "kg", 1e-30, 1e-21, CP_LO_OPEN));
-    if (stat != CP_FERMION && stat != CP_BOSON)
-        return cp_fail(err, CP_EINVAL, "%s: statistics %d is not fermion or boson", ctx,
-                       (int)stat);
+    CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
     return check_lattice(lat, ctx, err);
 }
 

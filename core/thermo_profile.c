@@ -15,21 +15,13 @@
 #include "coldprep/consts.h"
 #include "thermo_int.h"
 
-static cp_status check_statistics(cp_statistics stat, const char *ctx, cp_error *err)
-{
-    if (stat != CP_FERMION && stat != CP_BOSON)
-        return cp_fail(err, CP_EINVAL, "%s: statistics %d is not fermion or boson", ctx,
-                       (int)stat);
-    return CP_OK;
-}
-
 cp_status cp_thermo_density(const cp_thermo_trap *trap, cp_statistics stat, double temperature,
                             const double r[3], cp_thermo_density_result *out, cp_error *err)
 {
     static const char *const names[3] = {"x", "y", "z"};
     const char *ctx = "thermo density";
     cp_poison(&out->density, 3);
-    CP_TRY(check_statistics(stat, ctx, err));
+    CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
     for (int i = 0; i < 3; i++)
         CP_TRY(cp_check_range(err, ctx, names[i], r[i], "m", -1.0, 1.0, CP_CLOSED));
     double v = 0.0;
@@ -71,7 +63,7 @@ cp_status cp_thermo_tof(const cp_thermo_trap *trap, cp_statistics stat, double t
 {
     const char *ctx = "thermo tof";
     cp_poison(out->sigma_trap, 12);
-    CP_TRY(check_statistics(stat, ctx, err));
+    CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
     CP_TRY(cp_check_range(err, ctx, "time", time, "s", 0.0, 10.0, CP_CLOSED));
     double e_thermal; /* energy per non-condensed particle, J */
     double n0frac = 0.0;

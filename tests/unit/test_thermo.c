@@ -570,6 +570,16 @@ static void test_bad_input(void **state)
     double origin[3] = {0, 0, 0};
     assert_int_equal(cp_thermo_density(&t, (cp_statistics)7, 1e-7, origin, &d, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "statistics"));
+    out = 1.0;
+    assert_int_equal(cp_thermo_temperature_from_entropy(&t, (cp_statistics)7, 2.0, &out, &err),
+                     CP_EINVAL);
+    assert_non_null(strstr(err.message, "statistics"));
+    assert_true(isnan(out));
+    out = 1.0;
+    assert_int_equal(cp_thermo_match_harmonic(&t, (cp_statistics)7, 1e-7, t.omega, &out, &err),
+                     CP_EINVAL);
+    assert_non_null(strstr(err.message, "statistics"));
+    assert_true(isnan(out));
     double to[3] = {OMEGA, 0.0, OMEGA};
     assert_int_equal(cp_thermo_match_harmonic(&t, CP_FERMION, 1e-7, to, &out, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "final trap"));
