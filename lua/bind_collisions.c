@@ -29,6 +29,17 @@ static cp_pair_statistics read_pair(lua_State *L, const char *fname)
     }
 }
 
+/* A geometric-mean trap frequency `key` (rad/s), range-checked here so that the error names
+ * the key the caller gave, not the omega_x the core receives (core range (0, 1e7] rad/s). */
+static double read_omega_bar(lua_State *L, const char *fname, const char *key)
+{
+    double w = cpl_number(L, 1, fname, key, "rad/s");
+    if (!(w > 0.0 && w <= 1e7))
+        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed (0, 1e+07] rad/s",
+                  key, w);
+    return w;
+}
+
 /* omega_bar or omega_x, omega_y, omega_z (rad/s) from argument 1. */
 static void read_omega(lua_State *L, const char *fname, double omega[3])
 {
@@ -37,9 +48,11 @@ static void read_omega(lua_State *L, const char *fname, double omega[3])
     if (cpl_has(L, 1, "omega_bar") == (n_axes > 0) || (n_axes != 0 && n_axes != 3))
         cpl_error(L, fname, "give either 'omega_bar' or all three of 'omega_x', 'omega_y', "
                             "'omega_z' (rad/s)");
-    for (int i = 0; i < 3; i++)
-        omega[i] = n_axes ? cpl_number(L, 1, fname, axes[i], "rad/s")
-                          : cpl_number(L, 1, fname, "omega_bar", "rad/s");
+    if (n_axes == 0)
+        omega[0] = omega[1] = omega[2] = read_omega_bar(L, fname, "omega_bar");
+    else
+        for (int i = 0; i < 3; i++)
+            omega[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
 }
 
 static int l_mean_scattering_length(lua_State *L)

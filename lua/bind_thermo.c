@@ -21,6 +21,17 @@ int cpl_open_thermo(lua_State *L);
 
 static const char *const STATISTICS[] = {"boson", "fermion", NULL};
 
+/* A geometric-mean trap frequency `key` (rad/s), range-checked here so that the error names
+ * the key the caller gave, not the omega_x the core receives (core range (0, 1e7] rad/s). */
+static double read_omega_bar(lua_State *L, const char *fname, const char *key)
+{
+    double w = cpl_number(L, 1, fname, key, "rad/s");
+    if (!(w > 0.0 && w <= 1e7))
+        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed (0, 1e+07] rad/s",
+                  key, w);
+    return w;
+}
+
 /* number, mass and the trap frequencies from argument 1. */
 static void read_trap(lua_State *L, const char *fname, cp_thermo_trap *trap)
 {
@@ -37,8 +48,7 @@ static void read_trap(lua_State *L, const char *fname, cp_thermo_trap *trap)
     double number = cpl_number(L, 1, fname, "number", "");
     double mass = cpl_number(L, 1, fname, "mass", "kg");
     if (has_bar) {
-        cp_thermo_trap_isotropic(trap, number, cpl_number(L, 1, fname, "omega_bar", "rad/s"),
-                                 mass);
+        cp_thermo_trap_isotropic(trap, number, read_omega_bar(L, fname, "omega_bar"), mass);
     } else {
         trap->number = number;
         trap->mass = mass;
@@ -236,7 +246,7 @@ static int l_match_harmonic(lua_State *L)
         cpl_error(L, fname, "give either 'omega_bar_to' or all three of 'omega_x_to', "
                             "'omega_y_to', 'omega_z_to' (rad/s)");
     if (n_axes == 0)
-        to[0] = to[1] = to[2] = cpl_number(L, 1, fname, "omega_bar_to", "rad/s");
+        to[0] = to[1] = to[2] = read_omega_bar(L, fname, "omega_bar_to");
     else
         for (int i = 0; i < 3; i++)
             to[i] = cpl_number(L, 1, fname, axes[i], "rad/s");

@@ -70,6 +70,8 @@ T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1e-7, omega
   { "wave" }, "bad wave")
 T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1e-7, omega_bar = w, mass = M, duration = 1, points = 1 } end,
   { "points" }, "too few points")
+T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1e-7, omega_bar = 0, mass = M, duration = 1 } end,
+  { "omega_bar", "out of range", "rad/s" }, "zero omega_bar is named as given")
 T.raises(function() cp.collisions.evaporation { number = 2e4, temperature = 1e-6, omega_bar = 600, mass = M,
   eta = 40, ratio = 10, final_number = 2e3 } end, { "eta", "out of range" }, "eta too large")
 T.raises(function() cp.collisions.dipolar_cross_section { dipole_debye = true, mass = mu, statistics = "boson" } end,

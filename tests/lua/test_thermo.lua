@@ -88,7 +88,7 @@ T.raises(function() cp.thermo.bose { number = "many", omega_bar = w, mass = m, t
 T.raises(function() cp.thermo.bose { number = 0 / 0, omega_bar = w, mass = m, temperature = 1e-7 } end,
   { "finite" }, "NaN")
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = -w, mass = m, temperature = 1e-7 } end,
-  { "omega_x", "out of range", "rad/s" }, "negative frequency")
+  { "omega_bar", "out of range", "rad/s" }, "negative frequency (named as given)")
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, t_over_tf = 1e-4 } end,
   { "T/T_F", "out of range" }, "T/T_F too small")
 T.raises(function() cp.thermo.temperature_from_entropy { number = 1e5, omega_bar = w, mass = m, statistics = "anyon", entropy_per_particle = 1 } end,
@@ -102,6 +102,10 @@ T.raises(function() cp.thermo.lattice_state { number = 2e4, mass = m, statistics
   temperature = 1e-7, depth_er = { 1, 2 }, wavelength = 1064e-9, envelope_omega_bar = w } end,
   { "depth_er" }, "depth_er with two values")
 T.raises(function() cp.thermo.fermi(5) end, { "expects one table" }, "not a table")
+T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = 0, mass = m, temperature = 1e-7 } end,
+  { "omega_bar", "out of range", "rad/s" }, "zero omega_bar is named as given")
+T.raises(function() cp.thermo.match_harmonic { number = 1e5, omega_bar = w, mass = m, statistics = "fermion",
+  temperature = 1e-7, omega_bar_to = -1 } end, { "omega_bar_to", "out of range" }, "negative omega_bar_to")
 
 -- HELP-L: every public function has a help text.
 for k, fn in pairs(cp.thermo) do
