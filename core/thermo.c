@@ -456,7 +456,11 @@ cp_status cp_thermo_match_harmonic(const cp_thermo_trap *trap, cp_statistics sta
                                    double temperature, const double omega_to[3],
                                    double *temperature_to, cp_error *err)
 {
+    static const char ctx[] = "thermo match_harmonic";
     *temperature_to = NAN;
+    CP_TRY(cp_thermo_check_trap(trap, ctx, err));
+    CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
+    CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
     double s;
     CP_TRY(cp_thermo_entropy(trap, stat, temperature, &s, err));
     cp_thermo_trap to = *trap;

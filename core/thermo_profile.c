@@ -21,6 +21,8 @@ cp_status cp_thermo_density(const cp_thermo_trap *trap, cp_statistics stat, doub
     static const char *const names[3] = {"x", "y", "z"};
     const char *ctx = "thermo density";
     cp_poison(&out->density, 3);
+    CP_TRY(cp_thermo_check_trap(trap, ctx, err));
+    CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
     CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
     for (int i = 0; i < 3; i++)
         CP_TRY(cp_check_range(err, ctx, names[i], r[i], "m", -1.0, 1.0, CP_CLOSED));
@@ -63,6 +65,8 @@ cp_status cp_thermo_tof(const cp_thermo_trap *trap, cp_statistics stat, double t
 {
     const char *ctx = "thermo tof";
     cp_poison(out->sigma_trap, 12);
+    CP_TRY(cp_thermo_check_trap(trap, ctx, err));
+    CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
     CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
     CP_TRY(cp_check_range(err, ctx, "time", time, "s", 0.0, 10.0, CP_CLOSED));
     double e_thermal; /* energy per non-condensed particle, J */

@@ -580,6 +580,17 @@ static void test_bad_input(void **state)
                      CP_EINVAL);
     assert_non_null(strstr(err.message, "statistics"));
     assert_true(isnan(out));
+    /* a bad trap is reported by the function the caller called, not by the one it uses */
+    cp_thermo_trap flat = iso_trap(1e4);
+    flat.omega[2] = 0.0;
+    cp_thermo_tof_result tof;
+    assert_int_equal(cp_thermo_tof(&flat, CP_FERMION, 1e-7, 1e-3, &tof, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "thermo tof: omega_z"));
+    assert_int_equal(cp_thermo_density(&flat, CP_BOSON, 1e-7, origin, &d, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "thermo density: omega_z"));
+    assert_int_equal(cp_thermo_match_harmonic(&flat, CP_BOSON, 1e-7, t.omega, &out, &err),
+                     CP_EINVAL);
+    assert_non_null(strstr(err.message, "thermo match_harmonic: omega_z"));
     double to[3] = {OMEGA, 0.0, OMEGA};
     assert_int_equal(cp_thermo_match_harmonic(&t, CP_FERMION, 1e-7, to, &out, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "final trap"));
