@@ -64,9 +64,14 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
                                     double *phase_space_densities, double *efficiency,
                                     cp_error *err)
 {
+    if (!efficiency || !numbers || !temperatures || !phase_space_densities)
+        return cp_fail(err, CP_EINVAL, "collisions evaporation: numbers, temperatures, "
+                       "phase_space_densities and efficiency must not be NULL");
     *efficiency = NAN;
     for (size_t i = 0; i < points; i++)
         numbers[i] = temperatures[i] = phase_space_densities[i] = NAN;
+    if (!p)
+        return cp_fail(err, CP_EINVAL, "collisions evaporation: parameters are NULL");
     CP_TRY(check_evap(p, points, err));
     cp_init();
     evap_ctx c = {p, isnan(p->kappa) ? (p->eta - 5.0) / (p->eta - 4.0) : p->kappa,

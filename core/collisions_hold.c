@@ -68,8 +68,13 @@ static cp_status check_hold(const cp_hold_params *p, size_t points, cp_error *er
 cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *times,
                              double *numbers, double *temperatures, cp_error *err)
 {
+    if (!times || !numbers || !temperatures)
+        return cp_fail(err, CP_EINVAL, "collisions hold: times, numbers and temperatures must "
+                       "not be NULL");
     for (size_t i = 0; i < points; i++)
         times[i] = numbers[i] = temperatures[i] = NAN;
+    if (!p)
+        return cp_fail(err, CP_EINVAL, "collisions hold: parameters are NULL");
     CP_TRY(check_hold(p, points, err));
     cp_init();
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);

@@ -292,6 +292,10 @@ static void test_bad_input(void **state)
     assert_non_null(strstr(err.message, "points"));
     p.wave = (cp_loss_wave)3;
     assert_int_equal(cp_collisions_hold(&p, P, t, n, temp, &err), CP_EINVAL);
+    /* NULL parameters or arrays: an error, not a crash */
+    assert_int_equal(cp_collisions_hold(NULL, P, t, n, temp, &err), CP_EINVAL);
+    assert_true(isnan(n[0]));
+    assert_int_equal(cp_collisions_hold(&p, P, t, NULL, temp, &err), CP_EINVAL);
 
     cp_evaporation_params e = {2e4, 1e-6, {600.0, 600.0, 600.0}, M_KRB, 8.0, NAN, 100.0,
                                CP_LOSS_S_WAVE, 2e3};
@@ -311,6 +315,9 @@ static void test_bad_input(void **state)
     e2.kappa = INFINITY;
     assert_int_equal(cp_collisions_evaporation(&e2, P, n, temp, psd, &eff, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "kappa"));
+    assert_int_equal(cp_collisions_evaporation(NULL, P, n, temp, psd, &eff, &err), CP_EINVAL);
+    assert_true(isnan(eff) && isnan(psd[0]));
+    assert_int_equal(cp_collisions_evaporation(&e, P, n, temp, NULL, &eff, &err), CP_EINVAL);
 }
 
 int main(void)
