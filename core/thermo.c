@@ -38,6 +38,8 @@ double cp_thermo_omega_bar(const cp_thermo_trap *trap)
 cp_status cp_thermo_check_trap(const cp_thermo_trap *trap, const char *ctx, cp_error *err)
 {
     static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
+    if (!trap)
+        return cp_fail(err, CP_EINVAL, "%s: trap is NULL", ctx);
     CP_TRY(cp_check_range(err, ctx, "number", trap->number, "", 1.0, 1e12, CP_CLOSED));
     for (int i = 0; i < 3; i++)
         CP_TRY(cp_check_range(err, ctx, names[i], trap->omega[i], "rad/s", 0.0, 1e7,
@@ -461,6 +463,8 @@ cp_status cp_thermo_match_harmonic(const cp_thermo_trap *trap, cp_statistics sta
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
     CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
+    if (!omega_to)
+        return cp_fail(err, CP_EINVAL, "%s: final trap frequencies are NULL", ctx);
     double s;
     CP_TRY(cp_thermo_entropy(trap, stat, temperature, &s, err));
     cp_thermo_trap to = *trap;

@@ -255,6 +255,8 @@ static cp_status lattice_at(const lattice_dos *dos, const cp_thermo_lattice *lat
 static cp_status check_common(const cp_thermo_lattice *lat, const cp_thermo_trap *trap,
                               cp_statistics stat, const char *ctx, cp_error *err)
 {
+    if (!lat || !trap)
+        return cp_fail(err, CP_EINVAL, "%s: lattice or trap is NULL", ctx);
     CP_TRY(cp_check_range(err, ctx, "number", trap->number, "", 1.0, 1e12, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "mass", trap->mass, "kg", 1e-30, 1e-21, CP_LO_OPEN));
     CP_TRY(cp_thermo_check_statistics(stat, ctx, err));

@@ -19,6 +19,9 @@ cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, d
     const char *ctx = "thermo lattice_bands";
     CP_TRY(cp_check_int_range(err, ctx, "bands", bands, 1, 8));
     CP_TRY(cp_check_int_range(err, ctx, "quasimomentum points", points, 4, 256));
+    if (!depth_er || !tables || !lat)
+        return cp_fail(err, CP_EINVAL, "%s: depth_er, tables and lattice must not be NULL",
+                       ctx);
     size_t per_axis = (size_t)bands * (size_t)points;
     cp_poison(tables, (int)(3 * per_axis));
     for (int a = 0; a < 3; a++)

@@ -24,6 +24,8 @@ cp_status cp_thermo_density(const cp_thermo_trap *trap, cp_statistics stat, doub
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
     CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
+    if (!r)
+        return cp_fail(err, CP_EINVAL, "%s: position is NULL", ctx);
     for (int i = 0; i < 3; i++)
         CP_TRY(cp_check_range(err, ctx, names[i], r[i], "m", -1.0, 1.0, CP_CLOSED));
     double v = 0.0;

@@ -591,6 +591,20 @@ static void test_bad_input(void **state)
     assert_int_equal(cp_thermo_match_harmonic(&flat, CP_BOSON, 1e-7, t.omega, &out, &err),
                      CP_EINVAL);
     assert_non_null(strstr(err.message, "thermo match_harmonic: omega_z"));
+    /* NULL inputs: an error, not a crash */
+    assert_int_equal(cp_thermo_fermi(NULL, 1e-7, &f, &err), CP_EINVAL);
+    assert_true(isnan(f.fugacity));
+    assert_int_equal(cp_thermo_bose_at(NULL, 0.5, &b, &err), CP_EINVAL);
+    assert_int_equal(cp_thermo_temperature_from_entropy(NULL, CP_BOSON, 2.0, &out, &err),
+                     CP_EINVAL);
+    assert_int_equal(cp_thermo_density(&t, CP_BOSON, 1e-7, NULL, &d, &err), CP_EINVAL);
+    assert_true(isnan(d.density));
+    assert_int_equal(cp_thermo_match_harmonic(&t, CP_BOSON, 1e-7, NULL, &out, &err), CP_EINVAL);
+    assert_true(isnan(out));
+    cp_thermo_lattice_result lr;
+    assert_int_equal(cp_thermo_lattice_state(NULL, &t, CP_FERMION, 1e-7, &lr, &err), CP_EINVAL);
+    assert_int_equal(cp_thermo_match_lattice(&t, CP_FERMION, 1e-7, NULL, &lr, &err), CP_EINVAL);
+    assert_true(isnan(lr.temperature));
     double to[3] = {OMEGA, 0.0, OMEGA};
     assert_int_equal(cp_thermo_match_harmonic(&t, CP_FERMION, 1e-7, to, &out, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "final trap"));
