@@ -173,6 +173,8 @@ static void poison_summary(cp_lattice_band_summary *s)
 cp_status cp_lattice_band_summary_compute(double depth_er, cp_lattice_band_summary *summary,
                                           cp_error *err)
 {
+    if (!summary)
+        return cp_fail(err, CP_EINVAL, "%s: summary is NULL", CTX_SUMMARY);
     int size = 0, bands = summary->bands;
     summary->basis_size = 0;
     cp_status st = prepare(CTX_SUMMARY, depth_er, bands, 0, &size, err);

@@ -66,6 +66,8 @@ cp_status cp_lattice_polarizability_si(double value, cp_polarizability_unit unit
 static cp_status check_beam(const char *ctx, const cp_lattice_beam *b, double *alpha,
                             cp_error *err)
 {
+    if (!b)
+        return cp_fail(err, CP_EINVAL, "%s: beam is NULL", ctx);
     CP_TRY(cp_check_range(err, ctx, "power", b->power, "W", 0.0, 1e4, CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "waist", b->waist, "m", 1e-7, 1.0, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "wavelength", b->wavelength, "m", 1e-8, 1e-3, CP_CLOSED));
@@ -142,6 +144,8 @@ cp_status cp_lattice_depth_3d(const cp_lattice_beam beams[3], double mass, int g
     CP_TRY(cp_check_range(err, CTX_DEPTH3, "mass", mass, "kg", MASS_MIN, MASS_MAX,
                           CP_CLOSED));
     CP_TRY(cp_check_int_range(err, CTX_DEPTH3, "gravity axis", gravity_axis, 0, 2));
+    if (!beams)
+        return cp_fail(err, CP_EINVAL, "%s: beams is NULL", CTX_DEPTH3);
     cp_lattice_depth_result axis[3];
     for (int i = 0; i < 3; i++) {
         if (beams[i].angle != CP_PI) {

@@ -70,6 +70,8 @@ static double analytic_depth(const cp_lattice_ramp *r, double t, double *rate)
 
 static cp_status check_ramp(const cp_lattice_ramp *r, cp_error *err)
 {
+    if (!r)
+        return cp_fail(err, CP_EINVAL, "%s: ramp is NULL", CTX);
     CP_TRY(cp_check_range(err, CTX, "recoil", r->recoil, "J", 0.0, 1e-20, CP_LO_OPEN));
     if (r->shape == CP_RAMP_SAMPLED) {
         if (r->n_sampled < 2 || r->n_sampled > MAX_SAMPLES || !r->times || !r->depths_er)

@@ -670,6 +670,15 @@ static void test_other_bad_input(void **state)
             fail_msg("case %zu: '%s' lacks '%s'", i, err.message, words[i]);
         assert_true(isnan(lr.excited_fraction));
     }
+    /* NULL inputs: an error, not a crash */
+    assert_int_equal(cp_lattice_loading(NULL, &lr, &err), CP_EINVAL);
+    assert_true(isnan(lr.excited_fraction));
+    assert_int_equal(cp_lattice_depth(NULL, 1e-25, &r, &err), CP_EINVAL);
+    assert_true(isnan(r.depth));
+    cp_lattice_3d_result r3;
+    assert_int_equal(cp_lattice_depth_3d(NULL, 1e-25, 2, &r3, &err), CP_EINVAL);
+    assert_true(isnan(r3.omega_bar));
+    assert_int_equal(cp_lattice_band_summary_compute(5, NULL, &err), CP_EINVAL);
 }
 
 int main(void)
