@@ -211,6 +211,8 @@ cp_status cp_feshbach_associate(const cp_feshbach_resonance *res, double mu,
     *efficiency = *delta = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
+    if (!ramp)
+        return cp_fail(err, CP_EINVAL, "%s: ramp is NULL", ctx);
     CP_TRY(check_rate(ramp->ramp_rate, ctx, err));
     CP_TRY(cp_check_range(err, ctx, "density", ramp->density, "m^-3", 0.0, 1e24, CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "alpha", ramp->alpha, "m^2/s", 0.0, 1e3, CP_CLOSED));
@@ -270,6 +272,8 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
     CP_TRY(check_rate(ramp_rate, ctx, err));
+    if (!omega_rel)
+        return cp_fail(err, CP_EINVAL, "%s: omega_rel is NULL", ctx);
     for (int i = 0; i < 3; i++)
         CP_TRY(cp_check_range(err, ctx, names[i], omega_rel[i], "rad/s", 0.0,
                               2.0 * CP_PI * 1e7, CP_LO_OPEN));

@@ -706,6 +706,13 @@ static void test_bad_input(void **state)
     assert_non_null(strstr(err.message, "samples"));
     assert_int_equal(cp_feshbach_binding_energy(&r, mu, 0.05, (cp_feshbach_model)7, &bind, &err),
                      CP_EINVAL);
+    /* NULL inputs: an error, not a crash */
+    r = krb();
+    assert_int_equal(cp_feshbach_associate(&r, mu, NULL, &out1, &out2, &err), CP_EINVAL);
+    assert_true(isnan(out1) && isnan(out2));
+    assert_int_equal(cp_feshbach_associate_site(&r, mu, 1.0, NULL, 1.0, &out1, &out2, &err),
+                     CP_EINVAL);
+    assert_true(isnan(out1) && isnan(out2));
 }
 
 int main(void)
