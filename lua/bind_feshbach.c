@@ -339,6 +339,13 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
         c->number = cpl_number(L, t, cname, "number", "");
     } else {
         const char *k = has_f ? "t_over_tf" : "t_over_tc";
+        /* T/T_F describes a Fermi gas, T/T_c a Bose gas: the other pairing would silently
+         * give the wrong atom number */
+        if ((has_f && (c->profile == CP_PROFILE_BOSE || c->profile == CP_PROFILE_THOMAS_FERMI)) ||
+            (has_c && c->profile == CP_PROFILE_FERMI))
+            cpl_error(L, cname, "'%s' does not fit profile '%s'; give 'number', or %s", k,
+                      profiles[c->profile], has_f ? "'t_over_tc' for a Bose gas"
+                                                  : "'t_over_tf' for a Fermi gas");
         double x = cpl_number(L, t, cname, k, "");
         if (!(x > 0.0 && x <= 1e3))
             cpl_error(L, cname, "argument '%s' = %g is out of range; allowed (0, 1000]", k, x);

@@ -219,6 +219,12 @@ T.raises(function() fb.associate(5) end, { "one table" }, "not a table")
 T.raises(function() fb.overlap_density { a = { atom = "87Rb", number = 1e5, t_over_tc = 1,
   omega_x = wt, omega_y = wt, omega_z = wt }, b = rb, temperature = 1e-7 } end,
   { "exactly one" }, "number and t_over_tc both given")
+T.raises(function() fb.max_efficiency { temperature = 2e-7, a = { atom = "87Rb", t_over_tf = 0.3,
+  omega_x = wt, omega_y = wt, omega_z = wt }, b = rb } end,
+  { "t_over_tf", "does not fit profile 'bose'" }, "T/T_F given for a Bose cloud")
+T.raises(function() fb.max_efficiency { temperature = 2e-7, a = rb, b = { atom = "40K", t_over_tc = 1.2,
+  omega_x = wt, omega_y = wt, omega_z = wt } } end,
+  { "t_over_tc", "does not fit profile 'fermi'" }, "T/T_c given for a Fermi cloud")
 T.raises(function() fb.overlap_density { a = { atom = "87Rb", number = 1e5, omega_x = wt,
   omega_y = wt, omega_z = wt, colour = 1 }, b = rb, temperature = 1e-7 } end,
   { "cloud 'a'", "colour" }, "unknown cloud key")
