@@ -428,13 +428,13 @@ static const cpl_function functions[] = {
      "the partner density averaged over the minority cloud (overlap_density).  A measured\n"
      "alpha brings its own density convention (e.g. peak density).  Only |ramp_rate| is used.\n"
      "For speed pass tables (cp.species.resonance / cp.species.molecule), not names.\n"
-     "Example: cp.feshbach.associate{resonance = r, molecule = m,\n"
+     "Example: cp.feshbach.associate{resonance = 'KRb', molecule = 'KRb',\n"
      "  ramp_rate = -0.5*cp.units.G/cp.units.ms, density = 1e18}.efficiency"},
     {"ramp_law", l_ramp_law,
      "feshbach.ramp_law{resonance, molecule, density (m^-3), ramp_rates = {T/s, ...}\n"
      "                  [, max_efficiency = 1, alpha]} -> {efficiency = {...}}\n"
      "The ramp-rate law of associate over an array of ramp rates (one C batch call).\n"
-     "Example: cp.feshbach.ramp_law{resonance = r, molecule = m, density = 1e18,\n"
+     "Example: cp.feshbach.ramp_law{resonance = 'KRb', molecule = 'KRb', density = 1e18,\n"
      "  ramp_rates = {1e-1, 1, 10}}.efficiency[2]"},
     {"associate_site", l_associate_site,
      "feshbach.associate_site{resonance, molecule, ramp_rate (T/s), omega_x, omega_y, omega_z\n"
@@ -442,7 +442,8 @@ static const cpl_function functions[] = {
      "Two atoms in the ground state of one harmonic site (lattice site, tweezer):\n"
      "2 pi delta = (4 pi^2 hbar |abg width| / (mu |Bdot|)) (mu/(pi hbar))^(3/2)\n"
      "sqrt(wx wy wz), with the relative-motion frequencies (= the site frequencies when both\n"
-     "atoms see the same).  Example: cp.feshbach.associate_site{resonance = r, molecule = m,\n"
+     "atoms see the same).  Example:\n"
+     "  cp.feshbach.associate_site{resonance = 'KRb', molecule = 'KRb',\n"
      "  ramp_rate = 1e-3/1e-3, omega_x = 2*math.pi*50e3, omega_y = 2*math.pi*50e3,\n"
      "  omega_z = 2*math.pi*50e3}.efficiency"},
     {"lz_probability", l_lz_probability,
@@ -455,7 +456,7 @@ static const cpl_function functions[] = {
      "Mean relative kinetic energy released when molecules are dissociated by a ramp up\n"
      "across the resonance at |ramp_rate|: survival exp(-(E/eps)^(3/2)),\n"
      "eps = [3 hbar^2 |Bdot| / (4 |abg width| sqrt(2 mu))]^(2/3), energy = Gamma(5/3) eps.\n"
-     "Example: cp.feshbach.dissociation_energy{resonance = r, molecule = m,\n"
+     "Example: cp.feshbach.dissociation_energy{resonance = 'KRb', molecule = 'KRb',\n"
      "  ramp_rate = 1*cp.units.G/cp.units.ms}.temperature"},
     {"overlap_density", l_overlap_density,
      "feshbach.overlap_density{a = cloud, b = cloud [, temperature (K)]} -> {density (m^-3),\n"
@@ -476,7 +477,8 @@ static const cpl_function functions[] = {
      "al. 2005): fraction of the minority cloud b that finds a partner of cloud a within a\n"
      "relative phase-space cell gamma h^3.  Clouds as in overlap_density; profile defaults to\n"
      "'fermi' / 'bose' by the atom's statistics ('thermal' = Boltzmann).  Deterministic for a\n"
-     "given seed.  Example: cp.feshbach.max_efficiency{temperature = 200e-9,\n"
+     "given seed.  Example: w = 2*math.pi*100\n"
+     "  cp.feshbach.max_efficiency{temperature = 200e-9,\n"
      "  a = {atom = '87Rb', t_over_tc = 1.2, omega_x = w, omega_y = w, omega_z = w},\n"
      "  b = {atom = '40K', t_over_tf = 0.3, omega_x = w, omega_y = w, omega_z = w}}"},
     {NULL, NULL, NULL}};

@@ -491,7 +491,8 @@ static const cpl_function functions[] = {
      "Recoil energy E_r = h^2/(2 m lambda^2) of a particle of mass `mass` (kg) in light of\n"
      "wavelength `wavelength` (m).\n"
      "Returns {energy (J), frequency_hz (E_r/h, Hz)}.\n"
-     "Example: cp.lattice.recoil{mass = cp.species.molecule('KRb').mass, wavelength = 1064*nm}"},
+     "Example: cp.lattice.recoil{mass = cp.species.molecule('KRb').mass,\n"
+     "         wavelength = 1064*cp.units.nm}"},
     {"depth", l_depth,
      "lattice.depth{power, waist, wavelength, polarizability_au | polarizability |\n"
      "              polarizability_hz [, reflectivity = 1] [, angle = pi] [, mass]}\n"
@@ -505,7 +506,8 @@ static const cpl_function functions[] = {
      "with `mass` (kg) also recoil (J, h^2/(8 m d^2)), depth_er, omega_site, omega_axial\n"
      "(along the lattice), omega_radial (normal to the beams), omega_bisector (rad/s) and\n"
      "sag (m, gravity normal to the beams).\n"
-     "Example: cp.lattice.depth{power = 1*W, waist = 100*um, wavelength = 1064*nm,\n"
+     "Example: cp.lattice.depth{power = 1*cp.units.W, waist = 100*cp.units.um,\n"
+     "         wavelength = 1064*cp.units.nm,\n"
      "         polarizability_au = 1000, mass = cp.species.molecule('KRb').mass}"},
     {"depth3d", l_depth3d,
      "lattice.depth3d{beams = {bx, by, bz}, mass [, gravity_axis = 'z']}\n"
@@ -513,8 +515,9 @@ static const cpl_function functions[] = {
      "lattice.depth except mass and angle).  Returns {axes = {x, y, z} (results of\n"
      "lattice.depth), omega = {wx, wy, wz} (envelope, rad/s), omega_bar (rad/s),\n"
      "well_bottom (J), sag (m, along gravity_axis 'x', 'y' or 'z')}.\n"
-     "Example: local b = {power = 1*W, waist = 150*um, wavelength = 1064*nm,\n"
-     "  polarizability_au = 1000}; cp.lattice.depth3d{beams = {b, b, b}, mass = m}"},
+     "Example: local u = cp.units; local b = {power = 1*u.W, waist = 150*u.um,\n"
+     "  wavelength = 1064*u.nm, polarizability_au = 1000}\n"
+     "  cp.lattice.depth3d{beams = {b, b, b}, mass = cp.species.molecule('KRb').mass}"},
     {"bands", l_bands,
      "lattice.bands{depth_er, bands [, quasimomenta = {...} | points = 51] [, basis = 0]}\n"
      "Band structure of V0 sin^2(kx) with V0 = depth_er E_r (0..1e4): the lowest `bands`\n"
@@ -558,7 +561,8 @@ static const cpl_function functions[] = {
      "photon adds 2 E_rec.  Returns {scattering_rate (1/s), energy_rate (J/s per particle),\n"
      "temperature_rate (K/s, 3D harmonic), band_excitation_rate (1/s, out of the lowest band\n"
      "along the axis: Gamma eta^2/3), lamb_dicke}.\n"
-     "Example: cp.lattice.heating{scattering_rate = 0.1, mass = m, wavelength = 1064*nm,\n"
+     "Example: cp.lattice.heating{scattering_rate = 0.1, mass = cp.species.molecule('KRb').mass,\n"
+     "         wavelength = 1064*cp.units.nm,\n"
      "         depth_er = 30}"},
     {"loading", l_loading,
      "lattice.loading{shape = 's-shaped' | 'linear' | 'exponential' | 'sampled',\n"
@@ -572,8 +576,8 @@ static const cpl_function functions[] = {
      "hbar |<2|dH/dt|0>|/(E2-E0)^2, << 1 is adiabatic), max_time (s), max_depth_er,\n"
      "simple_criterion (max hbar |dV0/dt|/(16 E_r^2)), excited_fraction (first-order\n"
      "estimate, bands 3 and 5 at q = 0), basis_size}.\n"
-     "Example: cp.lattice.loading{end_er = 20, duration = 10*ms, mass = m,\n"
-     "         wavelength = 1064*nm}"},
+     "Example: cp.lattice.loading{end_er = 20, duration = 10*cp.units.ms,\n"
+     "         mass = cp.species.molecule('KRb').mass, wavelength = 1064*cp.units.nm}"},
     {NULL, NULL, NULL}};
 
 int cpl_open_lattice(lua_State *L)

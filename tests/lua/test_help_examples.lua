@@ -1,0 +1,39 @@
+-- The example at the end of every model function's help text runs as written in a fresh
+-- environment that knows only `cp` and the standard library (what a user pastes into the
+-- REPL), and returns without error.  Catches examples that rely on undefined variables
+-- (r, m, W, nm, ...) or on argument names that no longer exist.
+local T = require "testlib"
+local cp = require "coldprep"
+
+local function run(example)
+  local env = setmetatable({ cp = cp }, { __index = _G })
+  local chunk = load(example, "example", "t", env)
+  if not chunk then
+    -- an expression on its own, possibly after some statements on earlier lines
+    local head, last = example:match("^(.*)\n%s*(cp%..-)$")
+    if head then chunk = load(head .. "\nreturn " .. last, "example", "t", env) end
+    chunk = chunk or load("return " .. example, "example", "t", env)
+  end
+  if not chunk then return false, "does not compile" end
+  return pcall(chunk)
+end
+
+for _, module in ipairs { "feshbach", "raman", "lattice", "thermo", "collisions" } do
+  local names = {}
+  for name, fn in pairs(cp[module]) do
+    if type(fn) == "function" then names[#names + 1] = name end
+  end
+  table.sort(names)
+  for _, name in ipairs(names) do
+    local text = cp.get_help(cp[module][name]) or ""
+    local example = text:match("Example:%s*(.*)$")
+    if not example then
+      T.check(false, module .. "." .. name .. ": help text has no example")
+    else
+      local ok, err = run(example)
+      T.check(ok, module .. "." .. name .. " example runs" .. (ok and "" or (": " .. tostring(err))))
+    end
+  end
+end
+
+T.done()
