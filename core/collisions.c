@@ -9,11 +9,9 @@
 
 #include <math.h>
 
-#include <gsl/gsl_errno.h>
-#include <gsl/gsl_sf_gamma.h>
-
 #include "check_int.h"
 #include "coldprep/consts.h"
+#include "vdw_int.h"
 
 /* The 1513 of Idziaszek & Julienne, PRL 104, 113202 (2010), for K_p = 1513 abar^3 k_BT/h
  * (identical fermions, thermal average, g = 2 included). */
@@ -42,15 +40,7 @@ cp_status cp_collisions_mean_scattering_length(double c6_au, double reduced_mass
 {
     *abar = NAN;
     CP_TRY(check_c6_mu("collisions mean_scattering_length", c6_au, reduced_mass, err));
-    cp_init();
-    gsl_sf_result g;
-    int status = gsl_sf_gamma_e(0.25, &g);
-    if (status != GSL_SUCCESS)
-        return cp_fail(err, CP_ENUMERIC, "collisions mean_scattering_length: Gamma(1/4) "
-                       "failed: %s", gsl_strerror(status));
-    double c6 = c6_au * CP_AU_C6;
-    *abar = 2.0 * CP_PI / (g.val * g.val) *
-            pow(2.0 * reduced_mass * c6 / (CP_HBAR * CP_HBAR), 0.25);
+    *abar = cp_vdw_mean_scattering_length(c6_au, reduced_mass);
     return CP_OK;
 }
 

@@ -13,9 +13,7 @@
 #include "check_int.h"
 #include "coldprep/consts.h"
 #include "feshbach_int.h"
-
-/* 2 pi / Gamma(1/4)^2 (Gribakin & Flambaum 1993); value [C] in physics.md §4.1.2. */
-#define ABAR_PREFACTOR 0.477988797486125
+#include "vdw_int.h"
 
 /* Gamma(5/3): mean of E for the survival law exp(-(E/eps)^(3/2)). */
 #define GAMMA_FIVE_THIRDS 0.9027452929509336
@@ -85,8 +83,7 @@ cp_status cp_feshbach_mean_scattering_length(double c6_au, double mu, double *ab
     *abar = NAN;
     CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", 0.0, 1e6, CP_LO_OPEN));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
-    double c6 = c6_au * CP_AU_C6;
-    *abar = ABAR_PREFACTOR * pow(2.0 * mu * c6 / (CP_HBAR * CP_HBAR), 0.25);
+    *abar = cp_vdw_mean_scattering_length(c6_au, mu);
     return CP_OK;
 }
 
