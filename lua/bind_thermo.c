@@ -32,29 +32,34 @@ static double read_omega_bar(lua_State *L, const char *fname, const char *key)
     return w;
 }
 
+/* The trap frequencies from argument 1: either bar_key (the geometric mean, used on all
+ * three axes) or all three axis keys, rad/s. */
+static void read_frequencies(lua_State *L, const char *fname, const char *bar_key,
+                             const char *const axes[3], double omega[3])
+{
+    int has_bar = cpl_has(L, 1, bar_key), n_axes = 0;
+    for (int i = 0; i < 3; i++)
+        n_axes += cpl_has(L, 1, axes[i]);
+    if (has_bar && n_axes > 0)
+        cpl_error(L, fname, "give either '%s' or '%s', '%s', '%s' (rad/s), not both", bar_key,
+                  axes[0], axes[1], axes[2]);
+    if (!has_bar && n_axes != 3)
+        cpl_error(L, fname, "missing trap frequency: give '%s' or all three of '%s', '%s', "
+                  "'%s' (rad/s)", bar_key, axes[0], axes[1], axes[2]);
+    if (has_bar)
+        omega[0] = omega[1] = omega[2] = read_omega_bar(L, fname, bar_key);
+    else
+        for (int i = 0; i < 3; i++)
+            omega[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
+}
+
 /* number, mass and the trap frequencies from argument 1. */
 static void read_trap(lua_State *L, const char *fname, cp_thermo_trap *trap)
 {
     static const char *const axes[3] = {"omega_x", "omega_y", "omega_z"};
-    int has_bar = cpl_has(L, 1, "omega_bar"), n_axes = 0;
-    for (int i = 0; i < 3; i++)
-        n_axes += cpl_has(L, 1, axes[i]);
-    if (has_bar && n_axes > 0)
-        cpl_error(L, fname, "give either 'omega_bar' or 'omega_x', 'omega_y', 'omega_z' "
-                            "(rad/s), not both");
-    if (!has_bar && n_axes != 3)
-        cpl_error(L, fname, "missing trap frequency: give 'omega_bar' or all three of "
-                            "'omega_x', 'omega_y', 'omega_z' (rad/s)");
-    double number = cpl_number(L, 1, fname, "number", "");
-    double mass = cpl_number(L, 1, fname, "mass", "kg");
-    if (has_bar) {
-        cp_thermo_trap_isotropic(trap, number, read_omega_bar(L, fname, "omega_bar"), mass);
-    } else {
-        trap->number = number;
-        trap->mass = mass;
-        for (int i = 0; i < 3; i++)
-            trap->omega[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
-    }
+    read_frequencies(L, fname, "omega_bar", axes, trap->omega);
+    trap->number = cpl_number(L, 1, fname, "number", "");
+    trap->mass = cpl_number(L, 1, fname, "mass", "kg");
 }
 
 static cp_statistics read_statistics(lua_State *L, const char *fname)
@@ -241,15 +246,7 @@ static int l_match_harmonic(lua_State *L)
     cp_statistics stat = read_statistics(L, fname);
     double t = cpl_number(L, 1, fname, "temperature", "K");
     double to[3];
-    int n_axes = cpl_has(L, 1, axes[0]) + cpl_has(L, 1, axes[1]) + cpl_has(L, 1, axes[2]);
-    if (cpl_has(L, 1, "omega_bar_to") == (n_axes > 0) || (n_axes != 0 && n_axes != 3))
-        cpl_error(L, fname, "give either 'omega_bar_to' or all three of 'omega_x_to', "
-                            "'omega_y_to', 'omega_z_to' (rad/s)");
-    if (n_axes == 0)
-        to[0] = to[1] = to[2] = read_omega_bar(L, fname, "omega_bar_to");
-    else
-        for (int i = 0; i < 3; i++)
-            to[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
+    read_frequencies(L, fname, "omega_bar_to", axes, to);
     double t_to;
     cp_error err;
     if (cp_thermo_match_harmonic(&trap, stat, t, to, &t_to, &err) != CP_OK)
