@@ -1,8 +1,8 @@
 /*
  * Two-body collision parameters of ultracold molecules from the van der Waals C6 and the
  * dipole moment: the Gribakin-Flambaum mean scattering length, the centrifugal barrier,
- * the universal loss rate coefficients and the threshold dipolar elastic cross section.
- * Formulas and sources: ../shared/reference/physics.md §4.1 and §8, docs/models/
+ * the universal loss rate coefficients and the threshold dipolar elastic cross section;
+ * also the argument checks shared with collisions_hold.c and collisions_evap.c.  Formulas and sources: ../shared/reference/physics.md §4.1 and §8, docs/models/
  * collisions.md.
  */
 #include "coldprep/collisions.h"
@@ -10,6 +10,7 @@
 #include <math.h>
 
 #include "check_int.h"
+#include "collisions_int.h"
 #include "coldprep/consts.h"
 #include "vdw_int.h"
 
@@ -109,5 +110,24 @@ cp_status cp_collisions_collision_ratio(double cross_section, double rate, doubl
     CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", 0.0, 1e-2, CP_LO_OPEN));
     double vrel = sqrt(16.0 * CP_KB * temperature / (CP_PI * mass));
     *ratio = cross_section * vrel / rate;
+    return CP_OK;
+}
+
+cp_status cp_collisions_check_cloud(const char *ctx, double number, double temperature,
+                                    const double omega[3], double mass, cp_error *err)
+{
+    static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
+    CP_TRY(cp_check_range(err, ctx, "number", number, "", 1.0, 1e12, CP_CLOSED));
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", 0.0, 1e-2, CP_LO_OPEN));
+    for (int i = 0; i < 3; i++)
+        CP_TRY(cp_check_range(err, ctx, names[i], omega[i], "rad/s", 0.0, 1e7, CP_LO_OPEN));
+    return cp_check_range(err, ctx, "mass", mass, "kg", 1e-28, 1e-22, CP_LO_OPEN);
+}
+
+cp_status cp_collisions_check_wave(const char *ctx, cp_loss_wave wave, cp_error *err)
+{
+    if (wave != CP_LOSS_S_WAVE && wave != CP_LOSS_P_WAVE)
+        return cp_fail(err, CP_EINVAL, "%s: wave %d is not s-wave (0) or p-wave (1)", ctx,
+                       (int)wave);
     return CP_OK;
 }

@@ -17,6 +17,7 @@
 #include <gsl/gsl_odeiv2.h>
 
 #include "check_int.h"
+#include "collisions_int.h"
 #include "coldprep/consts.h"
 
 typedef struct evap_ctx {
@@ -36,21 +37,13 @@ static int evap_rhs(double u, const double y[], double dydt[], void *params)
 
 static cp_status check_evap(const cp_evaporation_params *p, size_t points, cp_error *err)
 {
-    static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
     const char *ctx = "collisions evaporation";
-    CP_TRY(cp_check_range(err, ctx, "number", p->number, "", 1.0, 1e12, CP_CLOSED));
-    CP_TRY(cp_check_range(err, ctx, "temperature", p->temperature, "K", 0.0, 1e-2,
-                          CP_LO_OPEN));
-    for (int i = 0; i < 3; i++)
-        CP_TRY(cp_check_range(err, ctx, names[i], p->omega[i], "rad/s", 0.0, 1e7, CP_LO_OPEN));
-    CP_TRY(cp_check_range(err, ctx, "mass", p->mass, "kg", 1e-28, 1e-22, CP_LO_OPEN));
+    CP_TRY(cp_collisions_check_cloud(ctx, p->number, p->temperature, p->omega, p->mass, err));
     CP_TRY(cp_check_range(err, ctx, "eta", p->eta, "", 5.0, 30.0, CP_CLOSED));
     if (!isnan(p->kappa))
         CP_TRY(cp_check_range(err, ctx, "kappa", p->kappa, "", 0.0, 2.0, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "ratio", p->ratio, "", 0.0, 1e12, CP_LO_OPEN));
-    if (p->wave != CP_LOSS_S_WAVE && p->wave != CP_LOSS_P_WAVE)
-        return cp_fail(err, CP_EINVAL, "%s: wave %d is not s-wave (0) or p-wave (1)", ctx,
-                       (int)p->wave);
+    CP_TRY(cp_collisions_check_wave(ctx, p->wave, err));
     CP_TRY(cp_check_range(err, ctx, "final_number", p->final_number, "", 1.0, p->number,
                           CP_HI_OPEN));
     if (points < 2 || points > 100000)

@@ -16,6 +16,7 @@
 #include <gsl/gsl_odeiv2.h>
 
 #include "check_int.h"
+#include "collisions_int.h"
 #include "coldprep/consts.h"
 
 typedef struct hold_ctx {
@@ -42,18 +43,10 @@ static int hold_rhs(double t, const double y[], double dydt[], void *params)
 
 static cp_status check_hold(const cp_hold_params *p, size_t points, cp_error *err)
 {
-    static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
     const char *ctx = "collisions hold";
-    CP_TRY(cp_check_range(err, ctx, "number", p->number, "", 1.0, 1e12, CP_CLOSED));
-    CP_TRY(cp_check_range(err, ctx, "temperature", p->temperature, "K", 0.0, 1e-2,
-                          CP_LO_OPEN));
-    for (int i = 0; i < 3; i++)
-        CP_TRY(cp_check_range(err, ctx, names[i], p->omega[i], "rad/s", 0.0, 1e7, CP_LO_OPEN));
-    CP_TRY(cp_check_range(err, ctx, "mass", p->mass, "kg", 1e-28, 1e-22, CP_LO_OPEN));
+    CP_TRY(cp_collisions_check_cloud(ctx, p->number, p->temperature, p->omega, p->mass, err));
     CP_TRY(cp_check_range(err, ctx, "rate", p->rate, "m^3/s", 0.0, 1e-8, CP_CLOSED));
-    if (p->wave != CP_LOSS_S_WAVE && p->wave != CP_LOSS_P_WAVE)
-        return cp_fail(err, CP_EINVAL, "%s: wave %d is not s-wave (0) or p-wave (1)", ctx,
-                       (int)p->wave);
+    CP_TRY(cp_collisions_check_wave(ctx, p->wave, err));
     if (!(isinf(p->lifetime) && p->lifetime > 0))
         CP_TRY(cp_check_range(err, ctx, "lifetime", p->lifetime, "s", 0.0, 1e9, CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "heating_rate", p->heating_rate, "K/s", 0.0, 1.0,
