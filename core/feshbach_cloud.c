@@ -170,6 +170,10 @@ double cp_cloud_density(const cp_cloud_state *s, const double r[3], cp_status *s
         return 15.0 * s->number / (8.0 * CP_PI * s->radius[0] * s->radius[1] * s->radius[2]) *
                (1.0 - u);
     }
+    if (s->profile == CP_PROFILE_BOSE) {
+        *status = CP_EINVAL;
+        return NAN;
+    }
     double v = 0.0; /* V / kT */
     for (int i = 0; i < 3; i++)
         v += 0.5 * r[i] * r[i] / (s->ell[i] * s->ell[i]);

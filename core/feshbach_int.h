@@ -40,8 +40,9 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
  * as rt[3]) and pt[3]; includes the ideal condensate of a BOSE cloud. */
 double cp_cloud_occupation(const cp_cloud_state *s, const double rt[3], const double pt[3]);
 
-/* Number density of the cloud at position r (m, relative to its own centre), m^-3.
- * Sets *status to CP_ENUMERIC if a GSL special function fails. */
+/* Number density of the cloud at position r (m, relative to its own centre), m^-3, for the
+ * THERMAL, FERMI and THOMAS_FERMI profiles (a BOSE profile is not implemented: NaN and
+ * *status = CP_EINVAL).  Sets *status to CP_ENUMERIC if a GSL special function fails. */
 double cp_cloud_density(const cp_cloud_state *s, const double r[3], cp_status *status);
 
 /* The overlap integral (1/N_b) Int n_a n_b d^3r by numerical quadrature for any pair of
