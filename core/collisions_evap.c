@@ -93,6 +93,13 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
         }
         double n = p->number * exp(ui), temp = p->temperature * exp(y[0]);
         double q = CP_HBAR * wbar / (CP_KB * temp);
+        if (!(temp > 0.0 && isfinite(n * q * q * q))) {
+            /* runaway cooling (p-wave loss, large ratio): far outside the classical model */
+            result = cp_fail(err, CP_ENUMERIC, "collisions evaporation: the phase-space "
+                             "density overflows (T = %g K at N = %g); the classical scaling "
+                             "model holds only for phase-space densities below ~1", temp, n);
+            break;
+        }
         numbers[i] = n;
         temperatures[i] = temp;
         phase_space_densities[i] = n * q * q * q;

@@ -318,6 +318,13 @@ static void test_bad_input(void **state)
     e2.kappa = INFINITY;
     assert_int_equal(cp_collisions_evaporation(&e2, P, n, temp, psd, &eff, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "kappa"));
+    /* runaway cooling (p-wave loss, eta = 30, huge ratio) would overflow the phase-space
+     * density: an error, not inf or NaN with CP_OK */
+    e2 = (cp_evaporation_params){1e12, 1e-9, {1e7, 1e7, 1e7}, M_KRB, 30.0, NAN, 1e12,
+                                 CP_LOSS_P_WAVE, 1.0};
+    assert_int_equal(cp_collisions_evaporation(&e2, P, n, temp, psd, &eff, &err), CP_ENUMERIC);
+    assert_non_null(strstr(err.message, "overflows"));
+    assert_true(isnan(eff) && isnan(psd[P - 1]));
     assert_int_equal(cp_collisions_evaporation(NULL, P, n, temp, psd, &eff, &err), CP_EINVAL);
     assert_true(isnan(eff) && isnan(psd[0]));
     assert_int_equal(cp_collisions_evaporation(&e, P, n, temp, NULL, &eff, &err), CP_EINVAL);
