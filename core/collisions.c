@@ -2,7 +2,8 @@
  * Two-body collision parameters of ultracold molecules from the van der Waals C6 and the
  * dipole moment: the Gribakin-Flambaum mean scattering length, the centrifugal barrier,
  * the universal loss rate coefficients and the threshold dipolar elastic cross section;
- * also the argument checks shared with collisions_hold.c and collisions_evap.c.  Formulas and sources: ../shared/reference/physics.md §4.1 and §8, docs/models/
+ * also the argument checks shared with collisions_hold.c and collisions_evap.c.  Formulas
+ * and sources: ../shared/reference/physics.md §4.1 and §8, docs/models/
  * collisions.md.
  */
 #include "coldprep/collisions.h"
