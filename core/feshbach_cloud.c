@@ -71,8 +71,8 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
     CP_TRY(cp_feshbach_check_mass(c->mass, ctx, what, err));
     for (int i = 0; i < 3; i++) {
         snprintf(what, sizeof what, "%s %s", name, axis[i]);
-        CP_TRY(cp_check_range(err, ctx, what, c->omega[i], "rad/s", 0.0, 2.0 * CP_PI * 1e6,
-                              CP_LO_OPEN));
+        CP_TRY(cp_check_range(err, ctx, what, c->omega[i], "rad/s", CP_MIN_TRAP_OMEGA,
+                              2.0 * CP_PI * 1e6, CP_CLOSED));
     }
     s->profile = c->profile;
     s->mass = c->mass;
@@ -97,7 +97,8 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
         return CP_OK;
     }
 
-    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", 0.0, 1e-3, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1e-3,
+                          CP_CLOSED));
     s->temperature = temperature;
     double kt = CP_KB * temperature;
     for (int i = 0; i < 3; i++) {

@@ -30,12 +30,12 @@ static cp_pair_statistics read_pair(lua_State *L, const char *fname)
 }
 
 /* A geometric-mean trap frequency `key` (rad/s), range-checked here so that the error names
- * the key the caller gave, not the omega_x the core receives (core range (0, 1e7] rad/s). */
+ * the key the caller gave, not the omega_x the core receives (core range [1e-2, 1e7] rad/s). */
 static double read_omega_bar(lua_State *L, const char *fname, const char *key)
 {
     double w = cpl_number(L, 1, fname, key, "rad/s");
-    if (!(w > 0.0 && w <= 1e7))
-        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed (0, 1e+07] rad/s",
+    if (!(w >= 1e-2 && w <= 1e7))
+        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed [0.01, 1e+07] rad/s",
                   key, w);
     return w;
 }
@@ -243,7 +243,7 @@ static const cpl_function functions[] = {
      "  statistics  \"boson\" (identical, 8 pi hbar abar / mu), \"distinguishable\" (4 pi hbar "
      "abar / mu),\n"
      "              \"fermion\" (identical, p-wave: 1513 abar^3 k_B T / h)\n"
-     "  temperature K, (0, 0.01]; required for fermions only\n"
+     "  temperature K, [1e-12, 0.01]; required for fermions only\n"
      "Returns {rate} in m^3/s: beta in dn/dt = -beta n^2 (identical) or dn_a/dt = -beta n_a n_b.\n"
      "Example: cp.collisions.universal_rate{c6_au = 16130, mass = 127*cp.units.amu/2, "
      "temperature = 300e-9, statistics = \"fermion\"}"},

@@ -22,12 +22,12 @@ int cpl_open_thermo(lua_State *L);
 static const char *const STATISTICS[] = {"boson", "fermion", NULL};
 
 /* A geometric-mean trap frequency `key` (rad/s), range-checked here so that the error names
- * the key the caller gave, not the omega_x the core receives (core range (0, 1e7] rad/s). */
+ * the key the caller gave, not the omega_x the core receives (core range [1e-2, 1e7] rad/s). */
 static double read_omega_bar(lua_State *L, const char *fname, const char *key)
 {
     double w = cpl_number(L, 1, fname, key, "rad/s");
-    if (!(w > 0.0 && w <= 1e7))
-        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed (0, 1e+07] rad/s",
+    if (!(w >= 1e-2 && w <= 1e7))
+        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed [0.01, 1e+07] rad/s",
                   key, w);
     return w;
 }

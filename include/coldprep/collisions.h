@@ -42,7 +42,7 @@ cp_status cp_collisions_mean_scattering_length(double c6_au, double reduced_mass
 cp_status cp_collisions_barrier(double c6_au, double reduced_mass, int l, double *energy,
                                 cp_error *err);
 
-/* Universal loss rate coefficient beta (m^3/s) at temperature T (K, in (0, 1e-2]), unit
+/* Universal loss rate coefficient beta (m^3/s) at temperature T (K, in [1e-12, 1e-2]), unit
  * short-range loss probability (Idziaszek & Julienne 2010): s-wave 4 pi hbar abar g / mu
  * with g = 2 for identical bosons, 1 for distinguishable particles (T-independent);
  * p-wave for identical fermions 1513 abar^3 k_B T / h (thermal average). */
@@ -67,8 +67,8 @@ typedef enum cp_loss_wave {
 /* A hold of a thermal (non-degenerate) cloud in a harmonic trap. */
 typedef struct cp_hold_params {
     double number;        /* N0, in [1, 1e12] */
-    double temperature;   /* T0, K, in (0, 1e-2] */
-    double omega[3];      /* trap angular frequencies, rad/s, in (0, 1e7] */
+    double temperature;   /* T0, K, in [1e-12, 1e-2] */
+    double omega[3];      /* trap angular frequencies, rad/s, in [1e-2, 1e7] */
     double mass;          /* particle mass, kg */
     double rate;          /* two-body beta at T0, m^3/s, in [0, 1e-8] */
     cp_loss_wave wave;    /* how beta scales with T */
@@ -105,7 +105,7 @@ cp_status cp_collisions_collision_ratio(double cross_section, double rate, doubl
  *   lambda = sqrt(2) e^eta / eta.                                                       */
 typedef struct cp_evaporation_params {
     double number;       /* N0, in [1, 1e12] */
-    double temperature;  /* T0, K, in (0, 1e-2] */
+    double temperature;  /* T0, K, in [1e-12, 1e-2] */
     double omega[3];     /* fixed trap angular frequencies, rad/s */
     double mass;         /* particle mass, kg */
     double eta;          /* truncation parameter U/k_B T, in [5, 30] */

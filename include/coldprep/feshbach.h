@@ -103,7 +103,7 @@ cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const 
 /* Two atoms in the ground state of one harmonic site swept at ramp_rate (T/s):
  * 2 pi delta = (4 pi^2 hbar |abg width| / (mu |Bdot|)) |psi_rel(0)|^2,
  * |psi_rel(0)|^2 = (mu/(pi hbar))^(3/2) sqrt(wx wy wz) (physics.md §4.1.5); omega_rel are
- * the relative-motion frequencies, rad/s, each in (0, 2 pi x 10 MHz]. */
+ * the relative-motion frequencies, rad/s, each in [1e-2, 2 pi x 10 MHz]. */
 cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu,
                                      double ramp_rate, const double omega_rel[3],
                                      double max_efficiency, double *efficiency, double *delta,
@@ -122,12 +122,12 @@ typedef struct cp_feshbach_cloud {
     cp_feshbach_profile profile;
     double number;        /* atom number, [1, 1e10] */
     double mass;          /* kg, [0.5, 500] u */
-    double omega[3];      /* trap frequencies x, y, z, rad/s, (0, 2 pi x 1 MHz] */
+    double omega[3];      /* trap frequencies x, y, z, rad/s, [1e-2, 2 pi x 1 MHz] */
     double scattering_length; /* own s-wave scattering length, m (THOMAS_FERMI only), > 0 */
 } cp_feshbach_cloud;
 
 /* Overlap density <n_a>_b = (1/N_b) Int n_a n_b d^3r of cloud a (the partner) seen by
- * cloud b, both at temperature T (K, (0, 1e-3]; unused for THOMAS_FERMI), each sagging by
+ * cloud b, both at temperature T (K, [1e-12, 1e-3]; unused for THOMAS_FERMI), each sagging by
  * g/omega_z^2 below the common trap centre.  Two THERMAL clouds use the closed form for
  * displaced Gaussians; any other pair is integrated numerically (GSL adaptive quadrature).
  * *sag is the differential sag (z_b - z_a), m.  Result in m^-3. */
@@ -137,7 +137,7 @@ cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshb
 
 /* Stochastic phase-space sampling (Hodby et al. 2005): the fraction of the minority cloud b
  * that can pair with partners from cloud a.  Profiles THERMAL, FERMI or BOSE (as the cloud's
- * statistics); temperature T in (0, 1e-3] K; gamma: phase-space cell in units of h^3
+ * statistics); temperature T in [1e-12, 1e-3] K; gamma: phase-space cell in units of h^3
  * (0, 100]; samples in [100, 1e7]; seed any value.  Deterministic for a given seed.
  * *std_error is the Monte Carlo standard error of *p_max. */
 typedef struct cp_feshbach_spss {

@@ -30,7 +30,7 @@ extern "C" {
  * omega_bar = (omega_x omega_y omega_z)^(1/3) only; profiles and sizes need all three. */
 typedef struct cp_thermo_trap {
     double number;    /* N, in [1, 1e12] */
-    double omega[3];  /* omega_x, omega_y, omega_z, rad/s, each in (0, 1e7] */
+    double omega[3];  /* omega_x, omega_y, omega_z, rad/s, each in [1e-2, 1e7] */
     double mass;      /* particle mass, kg, in (1e-30, 1e-21] */
 } cp_thermo_trap;
 
@@ -72,7 +72,7 @@ void cp_thermo_trap_isotropic(cp_thermo_trap *trap, double number, double omega_
 /* Geometric-mean trap frequency (omega_x omega_y omega_z)^(1/3), rad/s. */
 double cp_thermo_omega_bar(const cp_thermo_trap *trap);
 
-/* Fermi gas at temperature T (K, in (0, 1]) with T/T_F in [0.002, 1e8] (below 0.002 the
+/* Fermi gas at temperature T (K, in [1e-12, 1]) with T/T_F in [0.002, 1e8] (below 0.002 the
  * fugacity overflows a double; the gas is then in the Sommerfeld regime).  Solves
  * N = (k_B T / hbar omega_bar)^3 F_2(mu/k_B T) by Newton's method.  CP_EINVAL for bad
  * input, CP_ENOCONV / CP_ENUMERIC if the solve fails; the result is NaN on error. */
@@ -83,7 +83,7 @@ cp_status cp_thermo_fermi(const cp_thermo_trap *trap, double temperature,
 cp_status cp_thermo_fermi_at(const cp_thermo_trap *trap, double t_over_tf,
                              cp_thermo_fermi_result *out, cp_error *err);
 
-/* Bose gas at temperature T (K, in (0, 1]) with T/T_c <= 1e8. */
+/* Bose gas at temperature T (K, in [1e-12, 1]) with T/T_c <= 1e8. */
 cp_status cp_thermo_bose(const cp_thermo_trap *trap, double temperature,
                          cp_thermo_bose_result *out, cp_error *err);
 

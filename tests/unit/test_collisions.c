@@ -295,6 +295,18 @@ static void test_bad_input(void **state)
     assert_non_null(strstr(err.message, "points"));
     p.wave = (cp_loss_wave)3;
     assert_int_equal(cp_collisions_hold(&p, P, t, n, temp, &err), CP_EINVAL);
+    /* absurd magnitudes: below 1 pK, a trap weaker than 1e-2 rad/s (check_int.h floors) */
+    p.wave = CP_LOSS_S_WAVE;
+    p.temperature = 1e-13;
+    assert_int_equal(cp_collisions_hold(&p, P, t, n, temp, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "temperature"));
+    p = hold_base();
+    p.omega[2] = 1e-3;
+    assert_int_equal(cp_collisions_hold(&p, P, t, n, temp, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "omega_z"));
+    assert_int_equal(cp_collisions_universal_rate(16130.0, MU_KRB, 1e-13, CP_PAIR_FERMIONS, &v,
+                                                  &err),
+                     CP_EINVAL);
     /* NULL parameters or arrays: an error, not a crash */
     assert_int_equal(cp_collisions_hold(NULL, P, t, n, temp, &err), CP_EINVAL);
     assert_true(isnan(n[0]));

@@ -706,6 +706,16 @@ static void test_bad_input(void **state)
     assert_non_null(strstr(err.message, "samples"));
     assert_int_equal(cp_feshbach_binding_energy(&r, mu, 0.05, (cp_feshbach_model)7, &bind, &err),
                      CP_EINVAL);
+    /* absurd magnitudes: below 1 pK, a trap weaker than 1e-2 rad/s (check_int.h floors) */
+    cp_feshbach_cloud weak = cloud(CP_PROFILE_THERMAL, 1e5, 87.0, 600.0);
+    assert_int_equal(cp_feshbach_overlap_density(&weak, &weak, 1e-13, &out1, &out2, &err),
+                     CP_EINVAL);
+    assert_non_null(strstr(err.message, "temperature"));
+    weak.omega[1] = 1e-3;
+    assert_int_equal(cp_feshbach_overlap_density(&weak, &weak, 1e-7, &out1, &out2, &err),
+                     CP_EINVAL);
+    assert_non_null(strstr(err.message, "omega_y"));
+    assert_true(isnan(out1));
     /* NULL inputs: an error, not a crash */
     r = krb();
     assert_int_equal(cp_feshbach_associate(&r, mu, NULL, &out1, &out2, &err), CP_EINVAL);

@@ -591,6 +591,13 @@ static void test_bad_input(void **state)
     assert_int_equal(cp_thermo_match_harmonic(&flat, CP_BOSON, 1e-7, t.omega, &out, &err),
                      CP_EINVAL);
     assert_non_null(strstr(err.message, "thermo match_harmonic: omega_z"));
+    /* absurd magnitudes: below 1 pK, a trap weaker than 1e-2 rad/s (check_int.h floors) */
+    assert_int_equal(cp_thermo_bose(&t, 1e-13, &b, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "temperature"));
+    cp_thermo_trap weak = iso_trap(1e4);
+    weak.omega[0] = 1e-3;
+    assert_int_equal(cp_thermo_fermi(&weak, 1e-7, &f, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "omega_x"));
     /* NULL inputs: an error, not a crash */
     assert_int_equal(cp_thermo_fermi(NULL, 1e-7, &f, &err), CP_EINVAL);
     assert_true(isnan(f.fugacity));
