@@ -552,6 +552,9 @@ static const cpl_function functions[] = {
      "lattice.scattering_rate{polarizability_imag_au | polarizability_imag |\n"
      "                        polarizability_imag_hz, intensity}\n"
      "Photon scattering rate Im(alpha) I/(hbar eps0 c) (1/s) for intensity in W/m^2.\n"
+     "I is the intensity at the molecules: at the antinodes of a lattice.depth lattice\n"
+     "that is (1 + sqrt(reflectivity))^2 x its peak_intensity (4x for perfect reflection;\n"
+     "peak_intensity is one beam's).\n"
      "Returns {rate}.\nExample: cp.lattice.scattering_rate{polarizability_imag_au = 1e-3,\n"
      "         intensity = 1e8}"},
     {"heating", l_heating,
