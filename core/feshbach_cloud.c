@@ -1,9 +1,9 @@
 /*
  * One cloud in a harmonic trap, in the local-density (semiclassical) approximation: its
- * validation, its fugacity from the atom number and temperature (ideal Fermi gas: GSL's
- * complete Fermi–Dirac integral F_2; ideal Bose gas: the Bose function g_3 and the
- * condensate below T_c; Boltzmann gas in closed form), its phase-space occupation and its
- * density profile.  Relations: physics.md §7 (Butts & Rokhsar, PRA 55, 4346 (1997);
+ * validation, its fugacity from the atom number and temperature (with the thermo model's
+ * solvers: ideal Fermi gas through GSL's complete Fermi–Dirac integral F_2, ideal Bose gas
+ * through Li_3 = g_3 and the condensate below T_c; Boltzmann gas in closed form), its
+ * phase-space occupation and its density profile.  Relations: physics.md §7 (Butts & Rokhsar, PRA 55, 4346 (1997);
  * Dalfovo et al., RMP 71, 463 (1999) [M]).
  */
 #include <gsl/gsl_errno.h>
@@ -14,45 +14,7 @@
 #include "check_int.h"
 #include "coldprep/consts.h"
 #include "feshbach_int.h"
-
-#define ZETA3 1.2020569031595942 /* zeta(3) */
-
-double cp_bose_g3(double eta)
-{
-    /* sum_k z^k / k^3; the tail beyond K is below z^K / (2 K^2) (integral bound). */
-    double z = exp(eta), zk = 1.0, sum = 0.0;
-    int k;
-    for (k = 1; k <= 20000; k++) {
-        zk *= z;
-        double term = zk / ((double)k * k * k);
-        sum += term;
-        if (term < 1e-17 * sum)
-            return sum;
-    }
-    return sum + zk / (2.0 * (double)k * k);
-}
-
-/* Bisection for f(eta) = target on [lo, hi] with f increasing; f returns a GSL status. */
-static cp_status solve_eta(int fermi, double target, double lo, double hi, double *eta)
-{
-    for (int it = 0; it < 200 && hi - lo > 1e-14 * (1.0 + fabs(lo)); it++) {
-        double mid = 0.5 * (lo + hi), f;
-        if (fermi) {
-            gsl_sf_result r;
-            if (gsl_sf_fermi_dirac_2_e(mid, &r) != GSL_SUCCESS)
-                return CP_ENUMERIC;
-            f = r.val;
-        } else {
-            f = cp_bose_g3(mid);
-        }
-        if (f < target)
-            lo = mid;
-        else
-            hi = mid;
-    }
-    *eta = 0.5 * (lo + hi);
-    return CP_OK;
-}
+#include "thermo_int.h"
 
 cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const char *ctx,
                            const char *name, unsigned allow_mask, cp_cloud_state *s,
@@ -107,30 +69,23 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
     }
     /* N = (kT/hbar omega_bar)^3 * {exp(eta), F_2(eta), g_3(e^eta)} (physics.md §7) */
     double target = c->number * pow(CP_HBAR * s->omega_bar / kt, 3.0);
-    cp_status st = CP_OK;
+    /* the fugacity solvers of the thermo model (thermo_int.h) */
     switch (c->profile) {
     case CP_PROFILE_THERMAL:
         s->eta = log(target);
-        break;
-    case CP_PROFILE_FERMI: {
-        double lo = fmin(log(target), cbrt(6.0 * target)) - 2.0;
-        double hi = fmax(log(target), cbrt(6.0 * target)) + 2.0;
-        st = solve_eta(1, target, lo, hi, &s->eta);
-        break;
-    }
+        return CP_OK;
+    case CP_PROFILE_FERMI:
+        return cp_thermo_fermi_solve(target, &s->eta, err);
     default: /* BOSE */
-        if (target >= ZETA3) {
+        if (target >= CP_THERMO_ZETA3) {
             s->eta = 0.0;
-            s->n_condensed = c->number * (1.0 - ZETA3 / target);
-        } else {
-            st = solve_eta(0, target, log(target) - 2.0, 0.0, &s->eta);
+            s->n_condensed = c->number * (1.0 - CP_THERMO_ZETA3 / target);
+            return CP_OK;
         }
-        break;
+        cp_polylog_plan li3;
+        CP_TRY(cp_polylog_plan_init(&li3, 3.0, err));
+        return cp_thermo_bose_solve(&li3, target, &s->eta, ctx, err);
     }
-    if (st != CP_OK)
-        return cp_fail(err, st, "%s: cloud %s: the fugacity could not be computed (GSL "
-                       "Fermi–Dirac integral failed)", ctx, name);
-    return CP_OK;
 }
 
 double cp_cloud_occupation(const cp_cloud_state *s, const double rt[3], const double pt[3])

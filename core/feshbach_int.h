@@ -62,7 +62,4 @@ void cp_feshbach_ramp_kernel(double coefficient, double max_efficiency,
  * x partners and y minority atoms (random-order greedy pairing, mean-field kinetics). */
 double cp_spss_local_pairing(double x, double y);
 
-/* Bose function g_3(z) = sum z^k / k^3 for ln z = eta <= 0. */
-double cp_bose_g3(double eta);
-
 #endif

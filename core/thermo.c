@@ -280,10 +280,18 @@ cp_status cp_thermo_brent(double (*f)(double, void *), void *ctx, double target,
     return CP_OK;
 }
 
-static double bose_li3_of_mu(double mu, void *p)
+static double li3_of_mu(double mu, void *p)
 {
-    const cp_thermo_bose_plans_t *plans = p;
-    return cp_polylog_bose(&plans->li3, exp(mu));
+    return cp_polylog_bose(p, exp(mu));
+}
+
+cp_status cp_thermo_bose_solve(const cp_polylog_plan *li3, double y, double *mu, const char *ctx,
+                               cp_error *err)
+{
+    /* z <= Li_3(z) <= zeta(3) z brackets ln z */
+    double zeta3 = li3->coef[0];
+    return cp_thermo_brent(li3_of_mu, (void *)li3, y, log(y / zeta3), fmin(0.0, log(y)), mu,
+                           ctx, err);
 }
 
 /* Bose gas at T/T_c = x with the plans prepared. */
@@ -306,8 +314,7 @@ static cp_status bose_at(const cp_thermo_trap *trap, const cp_thermo_bose_plans_
         s_per = 4.0 * pl->zeta4 / pl->zeta3 * x3;
     } else {
         double y = pl->zeta3 / (x * x * x); /* Li_3(z) */
-        double lo = log(y / pl->zeta3), hi = fmin(0.0, log(y));
-        CP_TRY(cp_thermo_brent(bose_li3_of_mu, (void *)pl, y, lo, hi, &mu, ctx, err));
+        CP_TRY(cp_thermo_bose_solve(&pl->li3, y, &mu, ctx, err));
         double z = exp(mu);
         li32 = cp_polylog_bose(&pl->li32, z);
         double li4 = cp_polylog_bose(&pl->li4, z);

@@ -68,6 +68,11 @@ cp_status cp_thermo_fd(int j2, double x, double *value, cp_error *err);
 /* Solve F_2(x) = y (> 0) for the log-fugacity x (Newton, relative accuracy ~1e-15). */
 cp_status cp_thermo_fermi_solve(double y, double *x, cp_error *err);
 
+/* Solve Li_3(e^mu) = y (0 < y < zeta(3)) for the log-fugacity mu <= 0 of a Bose gas above
+ * T_c (Brent's method); li3 is a plan of order 3; ctx names the caller in messages. */
+cp_status cp_thermo_bose_solve(const cp_polylog_plan *li3, double y, double *mu, const char *ctx,
+                               cp_error *err);
+
 /* Entropy per particle (k_B) of the trapped gas at T. */
 cp_status cp_thermo_entropy(const cp_thermo_trap *trap, cp_statistics stat, double temperature,
                             double *entropy_per_particle, cp_error *err);
