@@ -1,7 +1,9 @@
 /*
- * Lua state creation and protected calls for the executable.  A SIGINT while Lua code
- * runs sets a hook that raises "interrupted" at the next instruction count, line, call or
- * return, the way Lua's own interpreter does it; the hook is removed once it fires.
+ * Lua state creation and protected calls for the executable.  Ctrl-C works the way Lua's
+ * own interpreter does it — the SIGINT handler sets a hook that raises "interrupted" at the
+ * next instruction — with one change taken from Redis's script killer: the hook stays set
+ * and fires again on every following line and instruction until the error has reached
+ * cpl_pcall, so a script that catches errors with pcall cannot swallow the interruption.
  */
 #include <lauxlib.h>
 #include <lualib.h>
@@ -13,26 +15,39 @@
 
 int luaopen_coldprep(lua_State *L);
 
+/* The state cpl_pcall is running (NULL outside) and whether Ctrl-C was pressed during it.
+ * Written by the signal handler, hence volatile; the program is single-threaded. */
 static lua_State *volatile running_state = NULL;
+static volatile sig_atomic_t interrupt_pending = 0;
 
 static void interrupt_hook(lua_State *L, lua_Debug *ar)
 {
     (void)ar;
-    lua_sethook(L, NULL, 0, 0);
+    /* Re-arm on every line and instruction: whoever catches this error will see another
+     * at its next instruction.  Only cpl_pcall's message handler switches it off. */
+    lua_sethook(L, interrupt_hook, LUA_MASKLINE | LUA_MASKCOUNT, 1);
     luaL_error(L, "interrupted");
 }
 
 static void on_sigint(int sig)
 {
-    (void)sig;
-    signal(SIGINT, SIG_DFL); /* a second Ctrl-C kills the process */
-    if (running_state)
+    if (interrupt_pending) { /* the first Ctrl-C is stuck (in C code): end the process */
+        signal(sig, SIG_DFL);
+        raise(sig);
+        return;
+    }
+    interrupt_pending = 1;
+    if (running_state) /* lua_sethook is safe to call from a signal handler */
         lua_sethook(running_state, interrupt_hook,
                     LUA_MASKCALL | LUA_MASKRET | LUA_MASKLINE | LUA_MASKCOUNT, 1);
 }
 
+/* Upvalue 1: whether this is the outermost cpl_pcall.  Only there has an interruption
+ * arrived; a nested call's caller must see it again. */
 static int message_handler(lua_State *L)
 {
+    if (interrupt_pending && lua_toboolean(L, lua_upvalueindex(1)))
+        lua_sethook(L, NULL, 0, 0);
     const char *msg = lua_tostring(L, 1);
     if (msg == NULL) {
         if (luaL_callmeta(L, 1, "__tostring") && lua_type(L, -1) == LUA_TSTRING)
@@ -49,15 +64,31 @@ static int message_handler(lua_State *L)
 
 int cpl_pcall(lua_State *L, int nargs, int nresults)
 {
+    lua_State *outer = running_state;
     int base = lua_gettop(L) - nargs;
-    lua_pushcfunction(L, message_handler);
+    lua_pushboolean(L, outer == NULL);
+    lua_pushcclosure(L, message_handler, 1);
     lua_insert(L, base);
+
     running_state = L;
-    void (*previous)(int) = signal(SIGINT, on_sigint);
+    struct sigaction sa = {0}, previous;
+    sa.sa_handler = on_sigint; /* no SA_RESTART: a blocking read returns to Lua */
+    sigemptyset(&sa.sa_mask);
+    sigaction(SIGINT, &sa, &previous);
+    sigset_t sigint, saved_mask;
+    sigemptyset(&sigint);
+    sigaddset(&sigint, SIGINT);
+    sigprocmask(SIG_UNBLOCK, &sigint, &saved_mask); /* the REPL blocks it at the prompt */
+
     int status = lua_pcall(L, nargs, nresults, base);
-    signal(SIGINT, previous);
-    running_state = NULL;
-    lua_sethook(L, NULL, 0, 0);
+
+    sigprocmask(SIG_SETMASK, &saved_mask, NULL);
+    sigaction(SIGINT, &previous, NULL);
+    running_state = outer;
+    if (outer == NULL) { /* outermost call: the interruption, if any, is over */
+        lua_sethook(L, NULL, 0, 0);
+        interrupt_pending = 0;
+    }
     lua_remove(L, base);
     return status;
 }
@@ -65,6 +96,7 @@ int cpl_pcall(lua_State *L, int nargs, int nresults)
 void cpl_report(lua_State *L, const char *progname)
 {
     const char *msg = lua_tostring(L, -1);
+    fflush(stdout); /* keep the order of results and errors when both go to one file */
     if (progname)
         fprintf(stderr, "%s: ", progname);
     fprintf(stderr, "%s\n", msg ? msg : "(error object is not a string)");

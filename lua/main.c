@@ -1,6 +1,8 @@
 /*
- * The coldprep executable: runs plan scripts, one-liners (-e) and the interactive REPL,
- * and dispatches subcommands (see `coldprep --help`).
+ * The coldprep executable: dispatches subcommands (`coldprep NAME ...`, table COMMANDS),
+ * otherwise runs -e code, a plan script and/or the interactive REPL, as the usage text
+ * says.  A subcommand name in argv[1] wins over a script of the same name; such a script
+ * runs as `coldprep ./NAME` or `coldprep -- NAME`.
  */
 #include <lauxlib.h>
 #include <stdio.h>
@@ -9,23 +11,42 @@
 #include "cli.h"
 #include "coldprep/status.h"
 
+/* Subcommands: add a line per command (its function is declared in cli.h). */
+static const cpl_command COMMANDS[] = {
+    {"help", cpl_cmd_help, "help [NAME]", "print the help of NAME (e.g. cp.species.atom)"},
+    {NULL, NULL, NULL, NULL},
+};
+
 static const char USAGE[] =
     "usage: coldprep [options] [FILE.lua [ARGS...]]\n"
+    "       coldprep COMMAND [ARGS...]\n"
     "\n"
-    "Plans the preparation of ultracold ground-state molecules: runs a plan file, a\n"
-    "one-line expression, or an interactive session (no FILE and no -e).\n"
+    "Plans the preparation of ultracold ground-state molecules: runs a plan file, Lua\n"
+    "code given with -e, or an interactive session (no FILE and no -e, or -i).\n"
     "\n"
     "options:\n"
-    "  -e CODE      run the Lua code CODE (may be given several times)\n"
-    "  -i           enter the interactive session after running FILE or -e\n"
-    "  -h, --help   show this text\n"
-    "  -v, --version\n"
-    "                print the version\n"
-    "  --           stop option processing; the next word is FILE\n"
+    "  -e CODE        run the Lua code CODE (may be given several times, runs in order)\n"
+    "  -i             enter the interactive session after running FILE or -e\n"
+    "  -h, --help     show this text\n"
+    "  -v, --version  print the version\n"
+    "  --             stop option processing; the next word is FILE\n"
+    "  -              as FILE: read the script from standard input\n"
     "\n"
-    "The script sees its arguments in the global table `arg` (arg[0] = FILE).\n"
+    "The script sees its arguments in the global table `arg` (arg[0] = FILE) and as `...`.\n"
     "In scripts and the session, `cp` (also `coldprep`) is the library; help() lists it.\n"
-    "Exit status: 0 success, 1 error in the script, 2 usage error.\n";
+    "The session keeps its history in $XDG_STATE_HOME/coldprep/history\n"
+    "(default ~/.local/state/coldprep/history).\n"
+    "Exit status: 0 success, 1 error in the script, 2 usage error.\n"
+    "\n"
+    "commands:\n";
+
+static void print_usage(void)
+{
+    fputs(USAGE, stdout);
+    for (const cpl_command *c = COMMANDS; c->name; c++)
+        printf("  %-14s %s\n", c->synopsis, c->summary);
+    printf("\nSee man coldprep and docs/cli.md for more.\n");
+}
 
 static int usage_error(const char *msg, const char *what)
 {
@@ -34,35 +55,70 @@ static int usage_error(const char *msg, const char *what)
     return CPL_EXIT_USAGE;
 }
 
-static int run_chunk(lua_State *L, int load_status)
+/* arg = {[0] = script, [1..] = its arguments, [-1..] = what came before it}, as the stock
+ * interpreter does; without a script, arg = {[0] = the program}. */
+static void set_arg_table(lua_State *L, int argc, char **argv, int script)
 {
-    if (load_status == LUA_OK)
-        load_status = cpl_pcall(L, 0, 0);
-    if (load_status != LUA_OK) {
+    lua_createtable(L, script ? argc - script : 0, 1);
+    if (script == 0) {
+        lua_pushstring(L, argv[0]);
+        lua_rawseti(L, -2, 0);
+    } else {
+        for (int i = 0; i < argc; i++) {
+            lua_pushstring(L, argv[i]);
+            lua_rawseti(L, -2, i - script);
+        }
+    }
+    lua_setglobal(L, "arg");
+}
+
+static int run_code(lua_State *L, const char *code)
+{
+    int status = luaL_loadbuffer(L, code, strlen(code), "=(command line)");
+    if (status == LUA_OK)
+        status = cpl_pcall(L, 0, 0);
+    if (status != LUA_OK) {
         cpl_report(L, NULL);
         return CPL_EXIT_ERROR;
     }
     return CPL_EXIT_OK;
 }
 
-/* arg = {[0] = script, ...} as in the stock interpreter. */
-static void set_arg_table(lua_State *L, int argc, char **argv, int script)
+static int run_script(lua_State *L, int argc, char **argv, int script)
 {
-    lua_createtable(L, argc - script, script + 1);
-    for (int i = 0; i < argc; i++) {
-        lua_pushstring(L, argv[i]);
-        lua_rawseti(L, -2, i - script);
+    const char *name = strcmp(argv[script], "-") == 0 ? NULL : argv[script];
+    int status = luaL_loadfile(L, name);
+    if (status == LUA_OK) {
+        int nargs = argc - script - 1;
+        if (!lua_checkstack(L, nargs + 1)) {
+            fprintf(stderr, "coldprep: too many script arguments (%d)\n", nargs);
+            return CPL_EXIT_USAGE;
+        }
+        for (int i = script + 1; i < argc; i++)
+            lua_pushstring(L, argv[i]);
+        status = cpl_pcall(L, nargs, 0);
     }
-    lua_setglobal(L, "arg");
+    if (status != LUA_OK) {
+        cpl_report(L, NULL);
+        return CPL_EXIT_ERROR;
+    }
+    return CPL_EXIT_OK;
 }
 
 int main(int argc, char **argv)
 {
+    if (argc > 1) {
+        for (const cpl_command *c = COMMANDS; c->name; c++)
+            if (strcmp(argv[1], c->name) == 0)
+                return c->run(argc - 1, argv + 1);
+    }
+
+    /* First pass: check the options, find the script. */
     int interactive = 0, have_code = 0, script = 0;
-    for (int i = 1; i < argc; i++) {
+    for (int i = 1; i < argc && !script; i++) {
         const char *a = argv[i];
         if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
-            fputs(USAGE, stdout);
+            print_usage();
             return CPL_EXIT_OK;
         } else if (strcmp(a, "-v") == 0 || strcmp(a, "--version") == 0) {
             printf("coldprep %s\n", cp_version());
@@ -71,7 +127,7 @@ int main(int argc, char **argv)
             interactive = 1;
         } else if (strcmp(a, "-e") == 0) {
             if (++i >= argc)
-                return usage_error("option -e needs an argument (the code to run)", NULL);
+                return usage_error("option -e needs an argument (the Lua code to run)", NULL);
             have_code = 1;
         } else if (strcmp(a, "--") == 0) {
             if (i + 1 < argc)
@@ -81,37 +137,25 @@ int main(int argc, char **argv)
             return usage_error("unknown option", a);
         } else {
             script = i;
-            break;
         }
     }
 
     lua_State *L = cpl_new_state();
     if (L == NULL)
         return CPL_EXIT_ERROR;
-    set_arg_table(L, argc, argv, script ? script : argc);
+    set_arg_table(L, argc, argv, script);
 
+    /* Second pass: run the -e code in order, then the script, then the session. */
     int rc = CPL_EXIT_OK;
     int end = script ? script : argc;
     for (int i = 1; i < end && rc == CPL_EXIT_OK; i++) {
-        if (strcmp(argv[i], "-e") == 0) {
-            i++;
-            rc = run_chunk(L, luaL_loadbuffer(L, argv[i], strlen(argv[i]), "=(command line)"));
-        }
+        if (strcmp(argv[i], "-e") == 0)
+            rc = run_code(L, argv[++i]);
+        else if (strcmp(argv[i], "--") == 0)
+            break;
     }
-    if (rc == CPL_EXIT_OK && script) {
-        int status = luaL_loadfile(L, argv[script]);
-        if (status == LUA_OK) {
-            int nargs = argc - script - 1;
-            luaL_checkstack(L, nargs, "too many script arguments");
-            for (int i = script + 1; i < argc; i++)
-                lua_pushstring(L, argv[i]);
-            status = cpl_pcall(L, nargs, 0);
-        }
-        if (status != LUA_OK) {
-            cpl_report(L, NULL);
-            rc = CPL_EXIT_ERROR;
-        }
-    }
+    if (rc == CPL_EXIT_OK && script)
+        rc = run_script(L, argc, argv, script);
     if (rc == CPL_EXIT_OK && (interactive || (!script && !have_code)))
         rc = cpl_repl(L);
     lua_close(L);
