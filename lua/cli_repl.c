@@ -158,8 +158,8 @@ static line_status read_plain(char **line)
 
 /* ---- compiling and running an entry ---------------------------------------------- */
 
-/* A syntax error at the end of the input means the entry goes on. */
-static int incomplete(lua_State *L, int status)
+/* Whether the load error message on top says the input ended too early. */
+static int at_eof(lua_State *L, int status)
 {
     if (status != LUA_ERRSYNTAX)
         return 0;
@@ -168,30 +168,40 @@ static int incomplete(lua_State *L, int status)
     static const char *const marks[] = {"<eof>", "'<eof>'"}; /* the second: long strings */
     for (int i = 0; i < 2; i++) {
         size_t ml = strlen(marks[i]);
-        if (msg && len >= ml && strcmp(msg + len - ml, marks[i]) == 0) {
-            lua_pop(L, 1);
+        if (msg && len >= ml && strcmp(msg + len - ml, marks[i]) == 0)
             return 1;
-        }
     }
     return 0;
 }
 
-/* Leaves the compiled chunk (or the error message) on the stack. */
-static int compile(lua_State *L, const text *entry)
+/* Compiles the entry as an expression ("return " .. entry), else as a statement, and
+ * leaves the chunk or an error message on the stack.  *more is set when either reading is
+ * unfinished (a syntax error at the end of the input): `{`, `f(1,` and `for i = 1, 2 do`
+ * all continue on the next line.  The message kept is the statement's, unless only the
+ * expression reading was unfinished. */
+static int compile(lua_State *L, const text *entry, int *more)
 {
     static const char EXPR_PREFIX[] = "return ";
     text expr = {0};
+    int expr_more = 0;
     if (text_append(&expr, EXPR_PREFIX, sizeof EXPR_PREFIX - 1) &&
         text_append(&expr, entry->data, entry->len)) {
         int status = luaL_loadbuffer(L, expr.data, expr.len, "=stdin");
         free(expr.data);
-        if (status == LUA_OK)
+        if (status == LUA_OK) {
+            *more = 0;
             return status;
-        lua_pop(L, 1);
+        }
+        expr_more = at_eof(L, status);
     } else {
         free(expr.data);
+        lua_pushliteral(L, "");
     }
-    return luaL_loadbuffer(L, entry->data, entry->len, "=stdin");
+    int status = luaL_loadbuffer(L, entry->data, entry->len, "=stdin");
+    int stmt_more = at_eof(L, status);
+    *more = status != LUA_OK && (expr_more || stmt_more);
+    lua_remove(L, status != LUA_OK && expr_more && !stmt_more ? -1 : -2);
+    return status;
 }
 
 /* Protected: writes its arguments, each through the formatter (strings as they are). */
@@ -273,7 +283,8 @@ static int loop(session *s)
             continue;
         }
         if (ls == LINE_EOF) {
-            if (entry.len && compile(L, &entry) != LUA_OK) { /* ended inside a statement */
+            int more;
+            if (entry.len && compile(L, &entry, &more) != LUA_OK) { /* ended inside an entry */
                 cpl_report(L, NULL);
                 all_ok = 0;
             }
@@ -288,9 +299,12 @@ static int loop(session *s)
             all_ok = 0;
             continue;
         }
-        int status = compile(L, &entry);
-        if (incomplete(L, status))
+        int more;
+        int status = compile(L, &entry, &more);
+        if (more) {
+            lua_pop(L, 1);
             continue;
+        }
         if (s->tty)
             cpl_history_add(entry.data);
         if (!run_entry(L, status))
