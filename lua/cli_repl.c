@@ -1,7 +1,8 @@
 /*
  * The interactive session.  An entry is first compiled as an expression ("return " ..
- * entry) and, if that fails, as a statement; a statement whose syntax error is at the end
- * of the input is incomplete, and the next line continues it under the secondary prompt.
+ * entry) and, if that fails, as a statement; when either reading fails only because the
+ * input ended too early, the entry is incomplete and the next line continues it under the
+ * secondary prompt.
  * The values an entry returns are shown through coldprep.pretty (strings as they are),
  * separated by tabs, or by newlines when one of them takes several lines.
  *
@@ -284,9 +285,13 @@ static int loop(session *s)
         }
         if (ls == LINE_EOF) {
             int more;
-            if (entry.len && compile(L, &entry, &more) != LUA_OK) { /* ended inside an entry */
-                cpl_report(L, NULL);
-                all_ok = 0;
+            if (entry.len) { /* input ended inside an entry: say what is missing */
+                if (compile(L, &entry, &more) != LUA_OK) {
+                    cpl_report(L, NULL);
+                    all_ok = 0;
+                } else {
+                    lua_pop(L, 1);
+                }
             }
             break;
         }
