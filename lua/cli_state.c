@@ -37,7 +37,7 @@ static void on_sigint(int sig)
         return;
     }
     interrupt_pending = 1;
-    if (running_state) /* lua_sethook is safe to call from a signal handler */
+    if (running_state) /* Lua allows lua_sethook in a signal handler (ldebug.c) */
         lua_sethook(running_state, interrupt_hook,
                     LUA_MASKCALL | LUA_MASKRET | LUA_MASKLINE | LUA_MASKCOUNT, 1);
 }

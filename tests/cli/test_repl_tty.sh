@@ -80,7 +80,7 @@ exit 0
 EOF
 
 # TTY-3: Ctrl-C at the prompt clears the line, in a continuation it drops the pending
-# statement; the program keeps running.  Ctrl-D on an empty line leaves with status 0.
+# statement, in a history search (Ctrl-R) it ends the search; the program keeps running.  Ctrl-D on an empty line leaves with status 0.
 pty TTY-3 <<'EOF'
 expect coldprep> 
 send abc
@@ -96,6 +96,13 @@ send \x03
 expect coldprep> 
 send 5*11\n
 expect 55
+expect coldprep> 
+send \x12*1
+expect reverse-i-search
+send \x03
+expect coldprep> 
+send 3*37\n
+expect 111
 expect coldprep> 
 send \x03
 expect coldprep> 
