@@ -201,7 +201,9 @@ function Renderer:block(items, packable, indent)
   return "{\n" .. table.concat(lines, "\n") .. "\n" .. string.rep(" ", indent) .. "}"
 end
 
-local OPTION_KEYS = { width = true, max_items = true, max_depth = true, digits = true }
+-- allowed range of each option
+local OPTION_RANGE = { width = { 20, 1000 }, max_items = { 10, 100000 }, max_depth = { 1, 100 },
+  digits = { 1, 17 } }
 
 local function options(opts)
   local o = {}
@@ -211,18 +213,17 @@ local function options(opts)
     error("pretty.format: options must be a table, got " .. type(opts), 3)
   end
   for k, v in pairs(opts) do
-    if not OPTION_KEYS[k] then
+    local range = OPTION_RANGE[k]
+    if not range then
       error(string.format("pretty.format: unknown option '%s'; known: digits, max_depth, max_items, width",
         tostring(k)), 3)
     end
-    if math.type(v) ~= "integer" or v < 1 or v > 1000 then
-      error(string.format("pretty.format: option %s = %s must be an integer from 1 to 1000",
-        k, tostring(v)), 3)
+    if math.type(v) ~= "integer" or v < range[1] or v > range[2] then
+      error(string.format("pretty.format: option %s = %s must be an integer from %d to %d",
+        k, tostring(v), range[1], range[2]), 3)
     end
     o[k] = v
   end
-  if o.max_items < 10 then o.max_items = 10 end
-  if o.digits > 17 then o.digits = 17 end
   return o
 end
 
@@ -236,8 +237,8 @@ pretty.format(value [, options]) -> string: VALUE rendered for reading, as the R
 results.  Tables are nested with indentation, the sequence part first, other keys sorted;
 floats to `digits` significant figures; a table inside itself shows as <cycle: PATH>; more
 than `max_items` entries or deeper than `max_depth` levels are cut with a marker saying
-how many were left out.  Options (integers): width = 78 (columns), max_items = 40,
-max_depth = 6, digits = 6.
+how many were left out.  Options (integers, default and range): width = 78 (20-1000
+columns), max_items = 40 (10-100000), max_depth = 6 (1-100), digits = 6 (1-17).
 Example: print(require("coldprep.pretty").format(cp.species.atom("40K"), {digits = 10}))]])
 
 return M

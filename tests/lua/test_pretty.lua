@@ -34,7 +34,7 @@ T.check(fmt(nested) == [[
   more = "another string to pass the width",
   name = "a name that is fairly long",
 }]], "nested layout")
-T.check(fmt({ a = { b = { c = "deep" } } }, { width = 12 }) == [[
+T.check(fmt({ a = { b = { c = "deep" } } }, { width = 20 }) == [[
 {
   a = {
     b = {
@@ -90,7 +90,8 @@ T.check(fmt(proxy) == "{own = 1}", "raw fields only")
 -- PRETTY-8: the digits option, and bad options rejected with the name of the option.
 T.check(fmt(math.pi, { digits = 10 }) == "3.141592654", "digits option")
 T.raises(function() fmt(1, { colour = 1 }) end, { "unknown option 'colour'" }, "unknown option")
-T.raises(function() fmt(1, { digits = 0 }) end, { "digits", "integer from 1 to 1000" }, "range")
+T.raises(function() fmt(1, { digits = 0 }) end, { "digits = 0", "integer from 1 to 17" }, "range")
+T.raises(function() fmt(1, { max_items = 5 }) end, { "max_items", "from 10 to 100000" }, "range")
 T.raises(function() fmt(1, { width = 2.5 }) end, { "width" }, "integer options")
 T.raises(function() fmt(1, "wide") end, { "options must be a table" }, "options type")
 
