@@ -16,9 +16,10 @@ enum { CPL_EXIT_OK = 0, CPL_EXIT_ERROR = 1, CPL_EXIT_USAGE = 2 };
 lua_State *cpl_new_state(void);
 
 /* Call the function below nargs arguments on the stack in protected mode, like lua_pcall.
- * While it runs, SIGINT (Ctrl-C) makes the running Lua code raise "interrupted"; the
- * interruption is re-raised at every following line and instruction until it reaches this
- * call, so a pcall inside the script cannot swallow it.  A second Ctrl-C before the first
+ * While it runs, SIGINT (Ctrl-C) makes the running Lua code raise "interrupted", also in
+ * coroutines run by coroutine.resume or coroutine.wrap; the interruption is re-raised at
+ * every following line and instruction until it reaches this call, so a pcall inside the
+ * script cannot swallow it.  A second Ctrl-C before the first
  * takes effect (e.g. inside a long C computation) ends the process.  On error the message
  * (with a traceback if the environment variable COLDPREP_TRACEBACK is set) is left on the
  * stack.  May be nested. */

@@ -4,6 +4,9 @@
  * next instruction — with one change taken from Redis's script killer: the hook stays set
  * and fires again on every following line and instruction until the error has reached
  * cpl_pcall, so a script that catches errors with pcall cannot swallow the interruption.
+ * Hooks belong to one Lua thread, so coroutine.resume and coroutine.wrap are replaced by
+ * versions that record the coroutines running at the moment, and the handler sets the hook
+ * on those too.
  */
 #include <lauxlib.h>
 #include <lualib.h>
@@ -19,6 +22,12 @@ int luaopen_coldprep(lua_State *L);
  * Written by the signal handler, hence volatile; the program is single-threaded. */
 static lua_State *volatile running_state = NULL;
 static volatile sig_atomic_t interrupt_pending = 0;
+
+/* The coroutines being resumed, outermost first (only the first MAX_RESUMED of deeper
+ * nests are recorded).  Each is on its resumer's stack meanwhile, so it stays alive. */
+enum { MAX_RESUMED = 32 };
+static lua_State *volatile resumed[MAX_RESUMED];
+static volatile sig_atomic_t resumed_count = 0;
 
 static void interrupt_hook(lua_State *L, lua_Debug *ar)
 {
@@ -37,9 +46,87 @@ static void on_sigint(int sig)
         return;
     }
     interrupt_pending = 1;
-    if (running_state) /* Lua allows lua_sethook in a signal handler (ldebug.c) */
-        lua_sethook(running_state, interrupt_hook,
-                    LUA_MASKCALL | LUA_MASKRET | LUA_MASKLINE | LUA_MASKCOUNT, 1);
+    if (running_state == NULL)
+        return;
+    /* Lua allows lua_sethook in a signal handler (see lua_sethook in ldebug.c) */
+    int mask = LUA_MASKCALL | LUA_MASKRET | LUA_MASKLINE | LUA_MASKCOUNT;
+    lua_sethook(running_state, interrupt_hook, mask, 1);
+    for (int i = 0; i < resumed_count && i < MAX_RESUMED; i++)
+        lua_sethook(resumed[i], interrupt_hook, mask, 1);
+}
+
+/* Calls the function below the n arguments on top with co recorded as running; errors
+ * propagate.  The record is written before the count so the handler never reads a stale
+ * entry. */
+static int call_tracking(lua_State *L, lua_State *co, int n)
+{
+    int depth = resumed_count;
+    if (depth < MAX_RESUMED)
+        resumed[depth] = co;
+    resumed_count = depth + 1;
+    int status = lua_pcall(L, n, LUA_MULTRET, 0);
+    resumed_count = depth;
+    return status;
+}
+
+/* coroutine.resume(co, ...) recording co.  Upvalue 1: the library's resume. */
+static int tracked_resume(lua_State *L)
+{
+    lua_State *co = lua_tothread(L, 1);
+    luaL_argexpected(L, co != NULL, 1, "coroutine");
+    int n = lua_gettop(L);
+    lua_pushvalue(L, lua_upvalueindex(1));
+    lua_insert(L, 1);
+    if (call_tracking(L, co, n) != LUA_OK)
+        return lua_error(L);
+    return lua_gettop(L);
+}
+
+/* The function coroutine.wrap returns, recording its coroutine.  Upvalues: the library's
+ * wrapper function and its coroutine.  An error gets the caller's position prefixed, as
+ * the library's wrapper would have done had it been called from Lua directly. */
+static int tracked_wrapped(lua_State *L)
+{
+    int n = lua_gettop(L);
+    lua_pushvalue(L, lua_upvalueindex(1));
+    lua_insert(L, 1);
+    if (call_tracking(L, lua_tothread(L, lua_upvalueindex(2)), n) != LUA_OK) {
+        if (lua_type(L, -1) == LUA_TSTRING) {
+            luaL_where(L, 1);
+            lua_insert(L, -2);
+            lua_concat(L, 2);
+        }
+        return lua_error(L);
+    }
+    return lua_gettop(L);
+}
+
+/* coroutine.wrap(f): the library's wrapper, whose first upvalue is the coroutine, inside a
+ * tracked_wrapped.  Upvalue 1: the library's wrap. */
+static int tracked_wrap(lua_State *L)
+{
+    lua_pushvalue(L, lua_upvalueindex(1));
+    lua_insert(L, 1);
+    lua_call(L, lua_gettop(L) - 1, 1);
+    if (lua_getupvalue(L, -1, 1) == NULL || !lua_isthread(L, -1)) {
+        lua_settop(L, 1); /* a wrapper of another shape: leave it untracked */
+        return 1;
+    }
+    lua_pushcclosure(L, tracked_wrapped, 2);
+    return 1;
+}
+
+static void track_coroutines(lua_State *L)
+{
+    if (lua_getglobal(L, "coroutine") == LUA_TTABLE) {
+        lua_getfield(L, -1, "resume");
+        lua_pushcclosure(L, tracked_resume, 1);
+        lua_setfield(L, -2, "resume");
+        lua_getfield(L, -1, "wrap");
+        lua_pushcclosure(L, tracked_wrap, 1);
+        lua_setfield(L, -2, "wrap");
+    }
+    lua_pop(L, 1);
 }
 
 /* Upvalue 1: whether this is the outermost cpl_pcall.  Only there has an interruption
@@ -107,6 +194,7 @@ void cpl_report(lua_State *L, const char *progname)
 static int open_everything(lua_State *L)
 {
     luaL_openlibs(L);
+    track_coroutines(L);
     luaL_requiref(L, "coldprep", luaopen_coldprep, 0);
     lua_pushvalue(L, -1);
     lua_setglobal(L, "coldprep");

@@ -56,7 +56,7 @@ exit 0
 EOF
 
 # TTY-2: Ctrl-C stops a running computation and the session goes on; a pcall inside
-# the loop cannot swallow the interruption.
+# the loop cannot swallow the interruption; a loop inside a coroutine is stopped too.
 pty TTY-2 <<'EOF'
 expect coldprep> 
 send print("st".."art") while true do end\n
@@ -74,6 +74,14 @@ expect interrupted
 expect coldprep> 
 send 6*8\n
 expect 48
+expect coldprep> 
+send coroutine.wrap(function() print("in".."side") while true do end end)()\n
+expect inside
+send \x03
+expect interrupted
+expect coldprep> 
+send 6*6\n
+expect 36
 expect coldprep> 
 send \x04
 exit 0

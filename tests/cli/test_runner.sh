@@ -141,6 +141,7 @@ out_is RUN-14h "the help script"
 # when the script catches errors with pcall.  The script says "ready" inside its loop.
 interrupt() {
   local id=$1 code=$2
+  rm -f "$tmp/int.out" "$tmp/int.err" # no "ready" left from the previous run
   "$coldprep" -e "$code" >"$tmp/int.out" 2>"$tmp/int.err" &
   local pid=$! waited=0
   until grep -q ready "$tmp/int.out" 2>/dev/null || [ $waited -ge 200 ]; do
@@ -173,5 +174,30 @@ interrupt RUN-15d 'io.stdout:setvbuf("line")
   end'
 status RUN-15e 1
 err_has RUN-15f "interrupted"
+# inside coroutines, which have hooks of their own (both ways of running one)
+interrupt RUN-15g 'io.stdout:setvbuf("line")
+  coroutine.wrap(function() print("ready") while true do end end)()'
+status RUN-15h 1
+err_has RUN-15i "interrupted"
+interrupt RUN-15j 'io.stdout:setvbuf("line")
+  local inner = coroutine.create(function() print("ready") while true do end end)
+  local outer = coroutine.create(function() while true do coroutine.resume(inner) end end)
+  coroutine.resume(outer)
+  while true do end'
+status RUN-15k 1
+err_has RUN-15l "interrupted"
+
+# RUN-16: coroutines still behave as in stock Lua (their functions are wrapped to track
+# them for Ctrl-C): values in and out, errors with positions, dead coroutines.
+run "$coldprep" -e 'local f = coroutine.wrap(function(a, b) local c = coroutine.yield(a + b) return c * 2 end)
+  print(f(1, 2), f(10))
+  local co = coroutine.create(function(x) error("x" .. x) end)
+  print(coroutine.resume(co, 1))
+  print(coroutine.resume(co))'
+out_is RUN-16a $'3\t20\nfalse\t(command line):3: x1\nfalse\tcannot resume dead coroutine'
+run "$coldprep" -e 'coroutine.wrap(function() error("inside") end)()'
+err_is RUN-16b "(command line):1: (command line):1: inside"
+run "$coldprep" -e 'coroutine.resume(1)'
+err_has RUN-16c "bad argument #1 to 'resume'"
 
 finish
