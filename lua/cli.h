@@ -12,7 +12,8 @@
 enum { CPL_EXIT_OK = 0, CPL_EXIT_ERROR = 1, CPL_EXIT_USAGE = 2 };
 
 /* A new Lua state with the standard libraries, `coldprep` loaded and the globals
- * `coldprep`, `cp` and `help` set.  On failure prints a message and returns NULL. */
+ * `coldprep`, `cp` and `help` set; coroutine.resume and coroutine.wrap are wrapped so that
+ * cpl_pcall's Ctrl-C reaches coroutines.  On failure prints a message and returns NULL. */
 lua_State *cpl_new_state(void);
 
 /* Call the function below nargs arguments on the stack in protected mode, like lua_pcall.

@@ -133,6 +133,8 @@ static int collect(lua_State *L)
         }
         return 1;
     }
+    if (sep == word) /* ".x" after a call or a string: nothing known to complete */
+        return 1;
     for (const char *seg = word; seg < sep;) { /* walk the path a.b.c before sep */
         const char *end = seg;
         while (end < sep && *end != '.' && *end != ':')

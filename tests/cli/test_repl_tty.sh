@@ -18,8 +18,8 @@ pty() {
 }
 
 # TTY-1: Tab completes globals, fields along a path, fields of __index tables, methods
-# of strings, keywords; a double Tab lists the fields without the path; inside a string
-# Tab completes file names.
+# of strings, keywords; after a call it offers nothing (two bells); a double Tab lists
+# the fields without the path; inside a string Tab completes file names.
 printf 'print("loaded " .. "ok")\n' >comp_target.lua
 pty TTY-1 <<'EOF'
 expect help() lists the library
@@ -42,6 +42,10 @@ expect ABC
 expect coldprep> 
 send local v = 0 whi\t v < 3 do v = v + 1 end print("v=" .. v)\n
 expect v=3
+expect coldprep> 
+send cp.species.atom("40K").sta\t\t
+expect sta\x07\x07
+send \x03
 expect coldprep> 
 send cp.species.add_\t\t
 expect \nadd_atom
