@@ -98,7 +98,9 @@ static void cancel_line(void)
 }
 
 /* A Ctrl-C that came while SIGINT was blocked stays pending, and pselect does not
- * deliver it when input is ready at once (keys typed after it): take it here. */
+ * deliver it when input is ready at once (keys typed after it): take it here.  (A Ctrl-C
+ * in the instant between this check and readline's read of a key that the terminal then
+ * discards leaves readline waiting; the next key brings the cancellation.) */
 static int take_pending_sigint(void)
 {
     sigset_t pending, sigint;

@@ -2,7 +2,9 @@
 # Tab completion, Ctrl-C during a computation and at the prompt, Ctrl-D, persistent
 # history, and -i.  cli_pty types the `send` lines and waits for the `expect` lines; typed
 # text is echoed, so every expected result differs from what was typed ("st".."art"
-# prints start).
+# prints start).  Ctrl-C is sent only once the keys before it have been echoed: the
+# terminal discards unread input on Ctrl-C, and keys typed during a computation go to the
+# terminal driver, not readline.
 source "$(dirname "$0")/lib.sh"
 [ -x "$cli_pty" ] || { echo "usage: $0 COLDPREP CLI_PTY (the pty driver is missing)" >&2; exit 1; }
 cd "$tmp" || exit 1
@@ -109,8 +111,10 @@ expect coldprep>
 send 5*11\n
 expect 55
 expect coldprep> 
-send \x12*1
+send \x12
 expect reverse-i-search
+send *1
+expect 1': 5*11
 send \x03
 expect coldprep> 
 send 3*37\n
