@@ -9,34 +9,40 @@
 
 #include "cli.h"
 
-/* Protected: pushes the value at the dotted path argv[1] (a light userdata string), or
- * raises an error naming the first missing part. */
+/* Protected: pushes the value at the dotted path given as a light userdata string, or
+ * raises an error naming it.  The first part is looked up among the globals, else inside
+ * the library (`species.atom` means cp.species.atom). */
 static int resolve(lua_State *L)
 {
     const char *path = lua_touserdata(L, 1);
     lua_settop(L, 0);
-    const char *dot = strchr(path, '.');
-    size_t first = dot ? (size_t)(dot - path) : strlen(path);
     lua_pushglobaltable(L);
+    size_t first = strcspn(path, ".");
     lua_pushlstring(L, path, first);
-    if (lua_rawget(L, 1) == LUA_TNIL) { /* not a global: a name inside the library */
+    size_t at = 0; /* offset of the next part to look up in the value at index 1 */
+    if (lua_rawget(L, 1) != LUA_TNIL) {
+        lua_replace(L, 1);
+        if (path[first] == '\0')
+            return 1;
+        at = first + 1;
+    } else {
         lua_settop(L, 0);
         lua_getglobal(L, "cp");
-        dot = path - 1;
-    } else {
-        lua_replace(L, 1);
     }
-    while (dot) {
-        const char *name = dot + 1;
-        dot = strchr(name, '.');
-        size_t len = dot ? (size_t)(dot - name) : strlen(name);
-        if (lua_type(L, 1) != LUA_TTABLE)
-            return luaL_error(L, "no such name: %s (%.*s is not a table)", path,
-                              (int)(name - 1 - path), path);
-        lua_pushlstring(L, name, len);
+    for (;;) {
+        size_t len = strcspn(path + at, ".");
+        if (lua_type(L, 1) != LUA_TTABLE) {
+            lua_pushlstring(L, path, at ? at - 1 : 0);
+            return luaL_error(L, "no such name: %s (%s is not a table)", path,
+                              lua_tostring(L, -1));
+        }
+        lua_pushlstring(L, path + at, len);
         if (lua_rawget(L, 1) == LUA_TNIL)
             return luaL_error(L, "no such name: %s (help lists the library)", path);
         lua_replace(L, 1);
+        if (path[at + len] == '\0')
+            break;
+        at += len + 1;
     }
     return 1;
 }
@@ -61,7 +67,14 @@ int cpl_cmd_help(int argc, char **argv)
             return CPL_EXIT_USAGE;
         }
     }
-    if (cpl_pcall(L, argc - 1, 0) != LUA_OK) {
+    int nargs = argc - 1;
+    lua_getglobal(L, "cp");
+    if (nargs == 1 && lua_rawequal(L, -1, -2)) { /* the library itself: list it all */
+        lua_pop(L, 1);
+        nargs = 0;
+    }
+    lua_pop(L, 1);
+    if (cpl_pcall(L, nargs, 0) != LUA_OK) {
         cpl_report(L, "coldprep help");
         rc = CPL_EXIT_ERROR;
     }
