@@ -191,6 +191,8 @@ static void poison(cp_raman_result *res, cp_raman_trace *tr)
     cp_poison(&res->overlap_time, 1);
     cp_poison(&res->decay_loss_estimate, 1);
     cp_poison(&res->dephasing_loss_estimate, 1);
+    cp_poison(&res->nonadiabatic_loss_estimate, 1);
+    cp_poison(&res->nonadiabatic_exponent, 1);
     res->steps = 0;
     res->integrator = NULL;
     if (tr && tr->n >= 2 && tr->n <= max_trace)

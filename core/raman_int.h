@@ -39,7 +39,13 @@ double cp_raman_pulses_break(const cp_raman_pulses *pl, size_t i);
 double cp_raman_pulses_hmax(const cp_raman_pulses *pl, double ta, double tb);
 double cp_raman_pulses_hstart(const cp_raman_pulses *pl);
 
-/* Fill the estimate fields of res (adiabaticity, overlap time, decay and dephasing loss). */
+/* Fill the estimate fields of res (adiabaticity, overlap time, decay, dephasing and
+ * non-adiabatic loss). */
 void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res);
+
+/* Dykhne-Davis-Pechukas estimate of the non-adiabatic loss 1 - P3 of resonant lossless
+ * STIRAP and its exponent 2 Im D(t_c) (raman_ddp.c); both NaN where it is not defined
+ * (shapes other than Gaussian, delay <= 0, a zero Rabi frequency, Delta or delta != 0). */
+void cp_raman_ddp(const cp_raman_params *p, double *loss, double *exponent);
 
 #endif

@@ -260,4 +260,5 @@ void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
     res->decay_loss_estimate = -expm1(-decay);
     /* the dark state cos(theta)|1> - sin(theta)|3> leaves at 2 kappa_13 cos^2 sin^2 */
     res->dephasing_loss_estimate = 0.5 * kappa13 * mix;
+    cp_raman_ddp(p, &res->nonadiabatic_loss_estimate, &res->nonadiabatic_exponent);
 }
