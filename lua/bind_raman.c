@@ -116,9 +116,13 @@ static int l_transfer(lua_State *L)
         cpl_set_number(L, "round_trip_efficiency", r.round_trip_efficiency);
     cpl_set_number(L, "adiabaticity", r.adiabaticity);
     cpl_set_number(L, "overlap_time", r.overlap_time);
-    lua_createtable(L, 0, 2);
+    lua_createtable(L, 0, 4);
     cpl_set_number(L, "decay_loss", r.decay_loss_estimate);
     cpl_set_number(L, "dephasing_loss", r.dephasing_loss_estimate);
+    if (!isnan(r.nonadiabatic_loss_estimate)) { /* defined for resonant Gaussians only */
+        cpl_set_number(L, "nonadiabatic_loss", r.nonadiabatic_loss_estimate);
+        cpl_set_number(L, "nonadiabatic_exponent", r.nonadiabatic_exponent);
+    }
     lua_setfield(L, -2, "estimates");
     cpl_set_number(L, "t_start", r.t_start);
     cpl_set_number(L, "t_end", r.t_end);
@@ -201,7 +205,10 @@ static const cpl_function functions[] = {
      "  trace = 0  number of equally spaced samples of the forward sequence to return\n"
      "Returns {efficiency, populations = {initial, excited, target}, lost,\n"
      "  round_trip_efficiency (if round_trip), adiabaticity (max Omega_rms * overlap_time),\n"
-     "  overlap_time (s), estimates = {decay_loss, dephasing_loss} (closed forms),\n"
+     "  overlap_time (s), estimates = {decay_loss, dephasing_loss, nonadiabatic_loss,\n"
+     "  nonadiabatic_exponent} (closed forms; the last two, the Dykhne-Davis-Pechukas loss\n"
+     "  4p(1-p), p = exp(-nonadiabatic_exponent), only for Gaussian pulses with delay > 0 and\n"
+     "  detuning = two_photon_detuning = 0),\n"
      "  t_start, t_end (s), steps, integrator (\"rk8pd\" or \"msbdf\"), trace = {time, initial, excited, target, lost,\n"
      "  coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if trace)}.\n"
      "Example: cp.raman.transfer{rabi_pump = 2*math.pi*5*cp.units.MHz,\n"

@@ -31,6 +31,19 @@ T.check(cp.raman.transfer(ref).round_trip_efficiency == nil, "no round trip unle
 T.check(r.integrator == "rk8pd" and cp.raman.transfer(with { detuning = 2 * pi * 200 * MHz }).integrator == "msbdf",
   "explicit near resonance, stiff far off it")
 
+-- RAMAN-L1b: the Dykhne-Davis-Pechukas estimate (Davis & Pechukas, J. Chem. Phys. 64, 3129
+-- (1976) [M]; docs/models/raman.md): lossless, resonant, delay = 2 widths, Omega0 T = 50,
+-- where the propagation gives 1 - P3 within 10% of 4p(1 - p), p = exp(-exponent).
+local na = cp.raman.transfer { rabi_pump = 50 / us, rabi_stokes = 50 / us, width = us,
+  delay = 2 * us, gamma = 0 }
+local pna = math.exp(-na.estimates.nonadiabatic_exponent)
+T.near(na.estimates.nonadiabatic_loss, 4 * pna * (1 - pna), 1e-15, "loss from the exponent")
+T.near(math.log(1 - na.efficiency), math.log(na.estimates.nonadiabatic_loss), 0.1,
+  "non-adiabatic loss vs DDP")
+T.check(cp.raman.transfer(with { shape = "sin2" }).estimates.nonadiabatic_loss == nil and
+  cp.raman.transfer(with { detuning = 1e6 }).estimates.nonadiabatic_exponent == nil,
+  "DDP estimate only for resonant Gaussian pulses")
+
 -- RAMAN-L2: two-level limit, P2 = sin^2(A/2) with A = sqrt(pi) rabi width (area theorem [M]).
 local A = 2.3
 local two = cp.raman.transfer { rabi_pump = A / (math.sqrt(pi) * us), rabi_stokes = 0,
