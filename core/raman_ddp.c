@@ -49,8 +49,10 @@ static double integrand(double v, void *vp)
 void cp_raman_ddp(const cp_raman_params *p, double *loss, double *exponent)
 {
     *loss = *exponent = NAN;
-    /* defined for resonant Gaussian pulses, Stokes first, both present */
-    if (p->shape != CP_RAMAN_GAUSSIAN || !(p->delay > 0) || !(p->rabi_pump > 0) ||
+    /* defined for resonant Gaussian pulses, Stokes first by at least a width (for shorter
+     * delays the wings of the pulses dominate the loss by orders of magnitude: the DDP
+     * number would mislead), both present */
+    if (p->shape != CP_RAMAN_GAUSSIAN || !(p->delay >= p->width) || !(p->rabi_pump > 0) ||
         !(p->rabi_stokes > 0) || p->detuning != 0 || p->two_photon_detuning != 0)
         return;
     double T = p->width, a = p->delay / T;
@@ -69,5 +71,7 @@ void cp_raman_ddp(const cp_raman_params *p, double *loss, double *exponent)
         return;
     double pr = exp(-2 * im_d);
     *exponent = 2 * im_d;
-    *loss = 4 * pr * (1 - pr);
+    /* p > 1/2 is outside the asymptotic regime (no adiabatic following at all): the loss
+     * estimate saturates at 1, where 4p(1 - p) peaks, instead of falling back to 0 */
+    *loss = pr < 0.5 ? 4 * pr * (1 - pr) : 1.0;
 }

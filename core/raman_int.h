@@ -45,7 +45,7 @@ void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res);
 
 /* Dykhne-Davis-Pechukas estimate of the non-adiabatic loss 1 - P3 of resonant lossless
  * STIRAP and its exponent 2 Im D(t_c) (raman_ddp.c); both NaN where it is not defined
- * (shapes other than Gaussian, delay <= 0, a zero Rabi frequency, Delta or delta != 0). */
+ * (shapes other than Gaussian, delay < width, a zero Rabi frequency, Delta or delta != 0). */
 void cp_raman_ddp(const cp_raman_params *p, double *loss, double *exponent);
 
 #endif

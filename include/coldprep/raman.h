@@ -69,9 +69,9 @@ typedef struct cp_raman_result {
     double decay_loss_estimate;    /* 1 - exp(-int 4 gamma thetadot^2 / Omega_rms^2 dt) */
     double dephasing_loss_estimate; /* (kappa_13 / 2) int sin^2(2 theta) dt */
     /* Dykhne-Davis-Pechukas estimate of the non-adiabatic loss of resonant lossless STIRAP,
-     * 4p(1 - p) with p = exp(-nonadiabatic_exponent), nonadiabatic_exponent = 2 Im D(t_c)
-     * (docs/models/raman.md); NaN unless Gaussian, delay > 0, both Rabi frequencies > 0 and
-     * Delta = delta = 0 */
+     * 4p(1 - p) with p = exp(-nonadiabatic_exponent) (1 for p > 1/2), nonadiabatic_exponent
+     * = 2 Im D(t_c) (docs/models/raman.md); NaN unless Gaussian, delay >= width, both Rabi
+     * frequencies > 0 and Delta = delta = 0 */
     double nonadiabatic_loss_estimate;
     double nonadiabatic_exponent;
     size_t steps;             /* accepted integrator steps (one way) */

@@ -412,7 +412,21 @@ static void test_nonadiabatic_ddp(void **state)
     p.delay = -p.width;
     assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
     assert_true(isnan(r.nonadiabatic_loss_estimate));
+    p.delay = 0.5 * p.width; /* the wings dominate: no estimate (loss 0.055 against 7e-63) */
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_true(isnan(r.nonadiabatic_loss_estimate) && isnan(r.nonadiabatic_exponent));
+    /* pulses 5 widths apart hardly overlap: p = exp(-0.013) > 1/2, the estimate saturates
+     * at 1 (the propagation: nothing transferred) */
+    p.delay = 5 * p.width;
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_true(r.nonadiabatic_exponent < log(2.0));
+    assert_close(r.nonadiabatic_loss_estimate, 1.0, 0.0, "DDP loss, no overlap");
+    assert_close(1 - r.efficiency, 1.0, 1e-3, "no overlap, no transfer");
     p.delay = p.width;
+    p.rabi_stokes = 1e-6 * p.rabi_pump; /* very unequal peaks: NaN or a finite estimate */
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_true(isnan(r.nonadiabatic_loss_estimate) || isfinite(r.nonadiabatic_loss_estimate));
+    p.rabi_stokes = p.rabi_pump;
     p.detuning = TWO_PI * 1e6;
     assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
     assert_true(isnan(r.nonadiabatic_loss_estimate));
