@@ -9,11 +9,16 @@
 #include <string.h>
 
 #include "cli.h"
+#include "cli_sweep.h"
 #include "coldprep/status.h"
 
-/* Subcommands: add a line per command (its function is declared in cli.h). */
+/* Subcommands: add a line per command (its function is declared in cli.h or, for sweep
+ * and merge, cli_sweep.h). */
 static const cpl_command COMMANDS[] = {
     {"help", cpl_cmd_help, "help [NAME]", "print the help of NAME (e.g. cp.species.atom)"},
+    {"sweep", cpl_sweep_main, "sweep FILE.lua",
+     "run the sweep FILE.lua returns [--jobs N] [--out PATH] [--resume] [--shard K/N]"},
+    {"merge", cpl_merge_main, "merge OUT SLICE...", "join the slices of a sharded sweep"},
     {NULL, NULL, NULL, NULL},
 };
 

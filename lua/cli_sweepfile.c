@@ -1,0 +1,187 @@
+/*
+ * Sweep output files as `coldprep sweep --resume` and `coldprep merge` read them: a
+ * scanner that checks the row numbering and finds where the last complete row ends (a
+ * row torn by SIGKILL has no line end yet), the balanced shard ranges, and the PATH.done
+ * marker written once a file is complete.  CSV rows end with CRLF outside quotes; JSON
+ * Lines rows end with LF (JSON strings escape line breaks).
+ */
+#include <errno.h>
+#include <fcntl.h>
+#include <inttypes.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "cli_sweep.h"
+
+void cpl_shard_range(int64_t count, int64_t k, int64_t n, int64_t *first, int64_t *last)
+{
+    /* shard k covers points floor((k-1) count / n) + 1 .. floor(k count / n), computed
+     * as k q + floor(k r / n) with count = q n + r so that nothing overflows (n < 2^31). */
+    int64_t q = count / n, r = count % n;
+    *first = (k - 1) * q + ((k - 1) * r) / n + 1;
+    *last = k * q + (k * r) / n;
+}
+
+void cpl_marker_path(const char *path, char *buf, size_t n)
+{
+    snprintf(buf, n, "%s.done", path);
+}
+
+/* Read the point number at the start of a row: "123," (CSV) or {"point":123, (JSON). */
+static int row_point(const char *row, size_t len, const char *format, int64_t *point)
+{
+    size_t i = 0;
+    if (strcmp(format, "jsonl") == 0) {
+        static const char prefix[] = "{\"point\":";
+        if (len < sizeof prefix - 1 || memcmp(row, prefix, sizeof prefix - 1) != 0)
+            return -1;
+        i = sizeof prefix - 1;
+    }
+    int64_t v = 0;
+    size_t start = i;
+    while (i < len && row[i] >= '0' && row[i] <= '9' && i - start < 18)
+        v = v * 10 + (row[i++] - '0');
+    if (i == start || i >= len || row[i] != ',')
+        return -1;
+    *point = v;
+    return 0;
+}
+
+int cpl_sweep_scan(const char *path, const char *format, const char *header, int64_t first,
+                   int64_t *next, off_t *good_end, off_t *torn, char *err, size_t errlen)
+{
+    FILE *f = fopen(path, "rb");
+    if (f == NULL) {
+        snprintf(err, errlen, "cannot open %s: %s", path, strerror(errno));
+        return -1;
+    }
+    int csv = strcmp(format, "csv") == 0, rc = 0;
+    size_t hlen = strlen(header);
+    off_t pos = 0, row_start = 0;
+    *next = first;
+    *good_end = 0;
+
+    /* The header must be there whole and identical; a torn header counts as empty. */
+    char *hbuf = malloc(hlen + 1);
+    size_t got = hbuf ? fread(hbuf, 1, hlen, f) : 0;
+    if (hbuf == NULL) {
+        snprintf(err, errlen, "out of memory");
+        rc = -1;
+    } else if (got < hlen) {
+        if (memcmp(hbuf, header, got) != 0) {
+            snprintf(err, errlen, "%s does not start with this sweep's header", path);
+            rc = -1;
+        }
+        pos = (off_t)got;
+    } else if (memcmp(hbuf, header, hlen) != 0) {
+        snprintf(err, errlen, "%s has another header than this sweep's (%.*s): it is not "
+                 "this sweep's output", path, (int)(hlen > 2 ? hlen - 2 : hlen), header);
+        rc = -1;
+    } else {
+        pos = row_start = *good_end = (off_t)hlen;
+    }
+    free(hbuf);
+
+    /* Rows: keep the first 40 bytes of each to read its point number. */
+    char head[40];
+    size_t head_len = 0;
+    int quoted = 0, c;
+    while (rc == 0 && got == hlen && (c = getc(f)) != EOF) {
+        pos++;
+        if (head_len < sizeof head)
+            head[head_len++] = (char)c;
+        if (csv && c == '"')
+            quoted = !quoted;
+        if (c != '\n' || quoted)
+            continue;
+        int64_t point;
+        if (row_point(head, head_len, format, &point) != 0 || point != *next) {
+            char shown[41];
+            size_t n = head_len;
+            while (n > 0 && (head[n - 1] == '\n' || head[n - 1] == '\r'))
+                n--;
+            memcpy(shown, head, n);
+            shown[n] = '\0';
+            snprintf(err, errlen, "%s: the row at byte %jd should be point %" PRId64
+                     " but reads \"%s\": the file is not this sweep's (or shard's) output",
+                     path, (intmax_t)row_start, *next, shown);
+            rc = -1;
+            break;
+        }
+        (*next)++;
+        row_start = *good_end = pos;
+        head_len = 0;
+    }
+    if (rc == 0 && ferror(f)) {
+        snprintf(err, errlen, "cannot read %s: %s", path, strerror(errno));
+        rc = -1;
+    }
+    *torn = pos - *good_end;
+    fclose(f);
+    return rc;
+}
+
+int cpl_marker_write(const char *path, const cpl_sweep_marker *m, char *err, size_t errlen)
+{
+    char done[4096], tmp[4200];
+    cpl_marker_path(path, done, sizeof done);
+    snprintf(tmp, sizeof tmp, "%s.tmp", done);
+    FILE *f = fopen(tmp, "wb");
+    if (f == NULL) {
+        snprintf(err, errlen, "cannot write %s: %s", tmp, strerror(errno));
+        return -1;
+    }
+    fprintf(f,
+            "{\"format\":\"%s\",\"points\":%" PRId64 ",\"shard\":%" PRId64 ",\"shards\":%" PRId64
+            ",\"first\":%" PRId64 ",\"last\":%" PRId64 "}\n",
+            m->format, m->points, m->shard, m->shards, m->first, m->last);
+    int bad = fflush(f) != 0 || fsync(fileno(f)) != 0;
+    bad |= fclose(f) != 0;
+    if (bad || rename(tmp, done) != 0) {
+        snprintf(err, errlen, "cannot write %s: %s", done, strerror(errno));
+        remove(tmp);
+        return -1;
+    }
+    return 0;
+}
+
+static int marker_field(const char *text, const char *key, int64_t *v)
+{
+    char pattern[32];
+    snprintf(pattern, sizeof pattern, "\"%s\":", key);
+    const char *p = strstr(text, pattern);
+    if (p == NULL)
+        return -1;
+    char *end;
+    long long x = strtoll(p + strlen(pattern), &end, 10);
+    if (end == p + strlen(pattern))
+        return -1;
+    *v = x;
+    return 0;
+}
+
+int cpl_marker_read(const char *path, cpl_sweep_marker *m, char *err, size_t errlen)
+{
+    char done[4096], text[512];
+    cpl_marker_path(path, done, sizeof done);
+    FILE *f = fopen(done, "rb");
+    if (f == NULL) {
+        snprintf(err, errlen, "%s is not complete (no %s): finish it with `coldprep sweep "
+                 "... --resume`", path, done);
+        return -1;
+    }
+    size_t n = fread(text, 1, sizeof text - 1, f);
+    fclose(f);
+    text[n] = '\0';
+    const char *fmt = strstr(text, "\"format\":\"");
+    if (fmt == NULL || marker_field(text, "points", &m->points) || marker_field(text, "shard", &m->shard)
+        || marker_field(text, "shards", &m->shards) || marker_field(text, "first", &m->first)
+        || marker_field(text, "last", &m->last)) {
+        snprintf(err, errlen, "%s is not a sweep completion marker", done);
+        return -1;
+    }
+    fmt += strlen("\"format\":\"");
+    snprintf(m->format, sizeof m->format, "%.*s", (int)strcspn(fmt, "\""), fmt);
+    return 0;
+}

@@ -1,0 +1,545 @@
+-- coldprep.sweep: parameter sweeps.  A sweep description names parameters (linear or
+-- logarithmic ranges, lists, zipped lists) combined as a full grid, a function that
+-- evaluates one point (any Lua function of the parameters, or one that returns a plan,
+-- which is then run), and the outputs to keep.  Points are numbered 1..count in grid
+-- order (the first axis varies slowest); each becomes one row: point, inputs, outputs,
+-- error.  Rows are written as CSV (RFC 4180: comma-separated, CRLF line ends, fields with
+-- a comma, quote or line break quoted) or JSON Lines, one whole row per write, flushed,
+-- so the file holds only finished rows at every moment.  `coldprep sweep` (lua/cli_sweep.c)
+-- runs the same description on several Lua states in parallel through M.prepare.
+local cp = require "coldprep"
+local named = require "coldprep.named"
+
+local M = {}
+
+-- Number formatting shared by CSV and JSON: integers as integers, floats with the fewest
+-- significant digits (15, 16 or 17) that read back as the same double.
+local function format_number(v)
+  if math.type(v) == "integer" then return string.format("%d", v) end
+  if v ~= v then return "nan" end
+  if v == math.huge then return "inf" end
+  if v == -math.huge then return "-inf" end
+  for _, digits in ipairs { "%.15g", "%.16g" } do
+    local s = string.format(digits, v)
+    if tonumber(s) == v then return s end
+  end
+  return string.format("%.17g", v)
+end
+M.format_number = format_number
+
+local function csv_field(v)
+  if v == nil then return "" end
+  local s
+  if type(v) == "number" then
+    s = format_number(v)
+  else
+    s = tostring(v)
+  end
+  if s:find('[,"\r\n]') then s = '"' .. s:gsub('"', '""') .. '"' end
+  return s
+end
+
+local json_escapes = { ['"'] = '\\"', ["\\"] = "\\\\", ["\b"] = "\\b", ["\f"] = "\\f",
+  ["\n"] = "\\n", ["\r"] = "\\r", ["\t"] = "\\t" }
+
+local function json_string(s)
+  return '"' .. s:gsub('[%c"\\]', function(c)
+    return json_escapes[c] or string.format("\\u%04x", c:byte())
+  end) .. '"'
+end
+
+local function json_value(v)
+  if v == nil then return "null" end
+  if type(v) == "number" then
+    if v ~= v or v == math.huge or v == -math.huge then return "null" end
+    return format_number(v)
+  end
+  if type(v) == "boolean" then return tostring(v) end
+  return json_string(tostring(v))
+end
+
+-- One axis of the grid: a list of names and, for index j (1-based), their values.
+local function parse_parameter(fname, spec, where)
+  if type(spec) ~= "table" then
+    named.fail(fname, "%s must be a table such as {name = \"x\", from = 0, to = 1, points = 11}, got %s",
+      where, type(spec))
+  end
+  named.check(fname, spec, { "name", "from", "to", "points", "scale", "values" })
+  local name = spec.name
+  if type(name) ~= "string" or not name:match("^[%a_][%w_]*$") then
+    named.fail(fname, "%s needs a name (letters, digits, _), got %s", where, tostring(name))
+  end
+  local label = string.format("parameter '%s'", name)
+  if spec.values ~= nil then
+    if spec.from ~= nil or spec.to ~= nil or spec.points ~= nil or spec.scale ~= nil then
+      named.fail(fname, "%s: give either values = {...} or from/to/points, not both", label)
+    end
+    local vals = spec.values
+    if type(vals) ~= "table" or #vals == 0 then
+      named.fail(fname, "%s: values must be a non-empty list", label)
+    end
+    for i, v in ipairs(vals) do
+      local t = type(v)
+      if not (t == "string" or t == "boolean" or named.is_finite(v)) then
+        named.fail(fname, "%s: values[%d] must be a finite number, a string or a boolean, got %s",
+          label, i, tostring(v))
+      end
+    end
+    local copy = table.move(vals, 1, #vals, 1, {})
+    return { name = name, len = #copy, value = function(j) return copy[j] end }
+  end
+  local scale = named.option(fname, spec, "scale", { "linear", "log" }, "linear")
+  local from = named.number(fname, spec, "from")
+  local points = named.integer(fname, spec, "points", nil, 1, 1 << 40)
+  local to = points == 1 and named.number(fname, spec, "to", from) or named.number(fname, spec, "to")
+  if scale == "log" and (from <= 0 or to <= 0) then
+    named.fail(fname, "%s: a logarithmic range needs from > 0 and to > 0, got from = %s, to = %s",
+      label, format_number(from), format_number(to))
+  end
+  local value
+  if points == 1 then
+    value = function() return from end
+  elseif scale == "linear" then
+    value = function(j)
+      if j == points then return to end
+      return from + (to - from) * (j - 1) / (points - 1)
+    end
+  else
+    local ratio = to / from
+    value = function(j)
+      if j == 1 then return from end
+      if j == points then return to end
+      return from * ratio ^ ((j - 1) / (points - 1))
+    end
+  end
+  return { name = name, len = points, value = value }
+end
+
+-- An axis: one parameter, or {zip = {p1, p2, ...}} whose lists advance together.
+local function parse_axis(fname, spec, where)
+  if type(spec) == "table" and spec.zip ~= nil then
+    named.check(fname, spec, { "zip" })
+    if type(spec.zip) ~= "table" or #spec.zip == 0 then
+      named.fail(fname, "%s: zip must be a non-empty list of parameters", where)
+    end
+    local members = {}
+    for i, p in ipairs(spec.zip) do
+      members[i] = parse_parameter(fname, p, string.format("%s.zip[%d]", where, i))
+      if members[i].len ~= members[1].len then
+        named.fail(fname, "%s: zipped parameters need equal lengths; '%s' has %d, '%s' has %d",
+          where, members[1].name, members[1].len, members[i].name, members[i].len)
+      end
+    end
+    return { members = members, len = members[1].len }
+  end
+  local p = parse_parameter(fname, spec, where)
+  return { members = { p }, len = p.len }
+end
+
+local DESCRIPTION_KEYS = { "parameters", "combine", "evaluate", "outputs", "out", "format",
+  "on_row" }
+
+-- Validate a sweep description; returns the compiled sweep (see M.prepare).
+local function compile(fname, desc, format)
+  named.check(fname, desc, DESCRIPTION_KEYS)
+  local params = named.typed(fname, desc, "parameters", "table")
+  if #params == 0 then named.fail(fname, "parameters must be a non-empty list") end
+  local combine = named.option(fname, desc, "combine", { "grid", "zip" }, "grid")
+  local axes = {}
+  if combine == "zip" then
+    axes[1] = parse_axis(fname, { zip = params }, "parameters")
+  else
+    for i, spec in ipairs(params) do
+      axes[i] = parse_axis(fname, spec, string.format("parameters[%d]", i))
+    end
+  end
+  local evaluate = named.typed(fname, desc, "evaluate", "function")
+  local outputs = desc.outputs
+  if outputs ~= nil then
+    if type(outputs) ~= "table" or #outputs == 0 then
+      named.fail(fname, "outputs must be a non-empty list of result names, e.g. {\"final.number\"}")
+    end
+    for i, o in ipairs(outputs) do
+      if type(o) ~= "string" or o == "" then
+        named.fail(fname, "outputs[%d] must be a result name (string), got %s", i, tostring(o))
+      end
+    end
+  end
+
+  local columns, seen, count = { "point" }, { point = true, error = true }, 1
+  for _, axis in ipairs(axes) do
+    for _, p in ipairs(axis.members) do
+      if seen[p.name] then named.fail(fname, "parameter name '%s' is used twice (or reserved)", p.name) end
+      seen[p.name] = true
+      columns[#columns + 1] = p.name
+    end
+    count = count * axis.len
+  end
+  if count > (1 << 53) then named.fail(fname, "the grid has more than 2^53 points") end
+  local nparams = #columns - 1
+  local outnames = outputs or { "value" }
+  for _, o in ipairs(outnames) do
+    if seen[o] then named.fail(fname, "output '%s' has the name of a parameter or column", o) end
+    seen[o] = true
+    columns[#columns + 1] = o
+  end
+  columns[#columns + 1] = "error"
+
+  local s = { count = count, columns = columns, format = format, nparams = nparams }
+
+  -- The parameters of point i (1-based): decode i - 1 in mixed radix, last axis fastest.
+  function s.point(i)
+    if math.type(i) ~= "integer" or i < 1 or i > count then
+      named.fail(fname, "point %s is out of range; allowed 1 to %d", tostring(i), count)
+    end
+    local p, k = {}, i - 1
+    for a = #axes, 1, -1 do
+      local axis = axes[a]
+      local j = k % axis.len + 1
+      k = k // axis.len
+      for _, m in ipairs(axis.members) do p[m.name] = m.value(j) end
+    end
+    return p
+  end
+
+  local paths = {}
+  for i, o in ipairs(outnames) do
+    local parts = {}
+    for part in o:gmatch("[^.]+") do parts[#parts + 1] = part end
+    paths[i] = parts
+  end
+
+  local function pick(result, o)
+    local v = result
+    for _, part in ipairs(paths[o]) do
+      if type(v) ~= "table" then return nil end
+      v = v[part]
+    end
+    local t = type(v)
+    if t == "table" or t == "function" or t == "userdata" or t == "thread" then
+      error(string.format("%s: output '%s' is a %s; outputs must be numbers, strings or booleans",
+        fname, outnames[o], t), 0)
+    end
+    return v
+  end
+
+  -- Evaluate point i: returns the row's values as a list aligned with `columns`
+  -- (with field n) and the parameter table.  A Lua error inside `evaluate` becomes the
+  -- row's error text; a result of the wrong shape is an error of the whole sweep.
+  function s.evaluate(i)
+    local p = s.point(i)
+    local values = { i, n = #columns }
+    for c = 2, nparams + 1 do values[c] = p[columns[c]] end
+    local arg = {}
+    for k, v in pairs(p) do arg[k] = v end
+    local ok, result = pcall(evaluate, arg)
+    if ok and type(result) == "table" and type(result.run) == "function" then
+      ok, result = pcall(result.run, result) -- a plan: run it
+    end
+    if not ok then
+      values[#columns] = tostring(result)
+      return values, p
+    end
+    if outputs == nil then
+      if type(result) ~= "number" then
+        error(string.format("%s: evaluate returned a %s at point %d; list the results to keep in " ..
+          "outputs = {...} or return a number", fname, type(result), i), 0)
+      end
+      values[nparams + 2] = result
+    else
+      if type(result) ~= "table" then
+        error(string.format("%s: evaluate returned a %s at point %d; with outputs it must return a table",
+          fname, type(result), i), 0)
+      end
+      for o = 1, #outnames do values[nparams + 1 + o] = pick(result, o) end
+    end
+    return values, p
+  end
+
+  function s.format_row(values)
+    local parts = {}
+    if format == "csv" then
+      for c = 1, #columns do parts[c] = csv_field(values[c]) end
+      return table.concat(parts, ",") .. "\r\n"
+    end
+    for c = 1, #columns do
+      parts[c] = json_string(columns[c]) .. ":" .. json_value(values[c])
+    end
+    return "{" .. table.concat(parts, ",") .. "}\n"
+  end
+
+  -- The whole text of row i, ready to append to the file.
+  function s.row(i)
+    return s.format_row((s.evaluate(i)))
+  end
+
+  if format == "csv" then
+    local h = {}
+    for c = 1, #columns do h[c] = csv_field(columns[c]) end
+    s.header = table.concat(h, ",") .. "\r\n"
+  else
+    s.header = ""
+  end
+  return s
+end
+
+-- The format a path implies: JSON Lines for .jsonl/.ndjson, CSV otherwise.
+function M.format_of(path)
+  local ext = path:match("%.([%w]+)$")
+  ext = ext and ext:lower()
+  if ext == "jsonl" or ext == "ndjson" then return "jsonl" end
+  return "csv"
+end
+
+function M.prepare(args)
+  local fname = "sweep.prepare"
+  named.check(fname, args, { "sweep", "format" })
+  local desc = named.typed(fname, args, "sweep", "table")
+  local format = named.option(fname, args, "format", { "csv", "jsonl" }, "csv")
+  return compile("sweep", desc, format)
+end
+
+cp.set_help(M.prepare, [[
+sweep.prepare{sweep = DESCRIPTION, format = "csv" | "jsonl"}: check a sweep description
+(the table cp.sweep takes) and return it compiled, without running it:
+  {count, columns = {"point", params..., outputs..., "error"}, header (CSV header line or ""),
+   point(i) -> the parameter table of point i (1..count),
+   evaluate(i) -> the row's values aligned with columns, row(i) -> the row's text}
+`coldprep sweep` uses it to run one description on several Lua states.
+Example: local s = cp.sweep.prepare{sweep = {parameters = {{name = "x", values = {1, 2}}},
+                                     evaluate = function(p) return p.x^2 end}}
+         print(s.count, s.row(2))   --> 2   2,2,4,]])
+
+local function run(args)
+  local fname = "sweep"
+  named.check(fname, args, DESCRIPTION_KEYS)
+  local out = named.typed(fname, args, "out", "string", false) or nil
+  local format = args.format or (out and M.format_of(out)) or "csv"
+  format = named.option(fname, { format = format }, "format", { "csv", "jsonl" })
+  local on_row = named.typed(fname, args, "on_row", "function", false) or nil
+  local s = compile(fname, args, format)
+  local f
+  if out then
+    local err
+    f, err = io.open(out, "wb")
+    if not f then named.fail(fname, "cannot open the output file: %s", err) end
+    f:setvbuf("full")
+    f:write(s.header)
+    f:flush()
+  end
+  local rows = (not out) and {} or nil
+  local failed = 0
+  local ok, err = pcall(function()
+    for i = 1, s.count do
+      local values, p = s.evaluate(i)
+      if values[#s.columns] ~= nil then failed = failed + 1 end
+      if f then
+        f:write(s.format_row(values))
+        f:flush()
+      end
+      if rows or on_row then
+        local row = {}
+        for c = 1, #s.columns do row[s.columns[c]] = values[c] end
+        if rows then rows[i] = row end
+        if on_row then on_row(row, p) end
+      end
+    end
+  end)
+  if f then f:close() end
+  if not ok then error(err, 0) end
+  return { count = s.count, columns = s.columns, rows = rows, out = out, format = format,
+    failed = failed }
+end
+
+-- Load a sweep file (a Lua chunk that returns a sweep description) and compile it for
+-- the output path `out` (default: desc.out, else FILE with .lua replaced by .csv).
+function M.load(args)
+  local fname = "sweep.load"
+  named.check(fname, args, { "file", "out", "format" })
+  local file = named.typed(fname, args, "file", "string")
+  local chunk, err = loadfile(file, "t")
+  if not chunk then error(err, 0) end
+  local desc = chunk()
+  if type(desc) ~= "table" then
+    error(string.format("%s: a sweep file must return a sweep description table " ..
+      "(return {parameters = ..., evaluate = ...}), got %s", file, type(desc)), 0)
+  end
+  local out = args.out or desc.out or (file:gsub("%.lua$", "") .. ".csv")
+  if type(out) ~= "string" then named.fail("sweep", "out must be a path (string), got %s", type(out)) end
+  local format = args.format or desc.format or M.format_of(out)
+  format = named.option("sweep", { format = format }, "format", { "csv", "jsonl" })
+  local s = compile("sweep", desc, format)
+  s.out = out
+  return s
+end
+
+cp.set_help(M.load, [[
+sweep.load{file = "scan.lua" [, out = PATH] [, format = "csv" | "jsonl"]}: run a sweep file
+(a Lua chunk returning a sweep description, as `coldprep sweep` reads it) and return the
+compiled sweep (see sweep.prepare) with its output path in field out.
+Example: local s = cp.sweep.load{file = "scan.lua"}; print(s.count, s.out)]])
+
+-- Parse one flat JSON object (string keys; number, string, boolean or null values), the
+-- shape of the rows written here; returns nil if the line is not such an object.
+local json_unescapes = { b = "\b", f = "\f", n = "\n", r = "\r", t = "\t" }
+local function parse_json_object(line)
+  local pos, obj = 1, {}
+  local function skip() pos = line:find("[^ \t\r]", pos) or #line + 1 end
+  local function str()
+    if line:sub(pos, pos) ~= '"' then return nil end
+    local parts, p = {}, pos + 1
+    while true do
+      local e = line:find('["\\]', p)
+      if not e then return nil end
+      parts[#parts + 1] = line:sub(p, e - 1)
+      if line:sub(e, e) == '"' then
+        pos = e + 1
+        return table.concat(parts)
+      end
+      local c = line:sub(e + 1, e + 1)
+      if c == "u" then
+        parts[#parts + 1] = utf8.char(tonumber(line:sub(e + 2, e + 5), 16) or 63)
+        p = e + 6
+      else
+        parts[#parts + 1] = json_unescapes[c] or c
+        p = e + 2
+      end
+    end
+  end
+  skip()
+  if line:sub(pos, pos) ~= "{" then return nil end
+  pos = pos + 1
+  skip()
+  if line:sub(pos, pos) == "}" then return obj end
+  while true do
+    skip()
+    local key = str()
+    if not key then return nil end
+    skip()
+    if line:sub(pos, pos) ~= ":" then return nil end
+    pos = pos + 1
+    skip()
+    local c, v = line:sub(pos, pos), nil
+    if c == '"' then
+      v = str()
+      if v == nil then return nil end
+    else
+      local word = line:match("^[^,}%s]+", pos)
+      if not word then return nil end
+      pos = pos + #word
+      if word == "true" then v = true
+      elseif word == "false" then v = false
+      elseif word ~= "null" then
+        v = tonumber(word)
+        if v == nil then return nil end
+      end
+    end
+    obj[key] = v
+    skip()
+    c = line:sub(pos, pos)
+    pos = pos + 1
+    if c == "}" then return obj end
+    if c ~= "," then return nil end
+  end
+end
+
+-- Read a sweep file (CSV as written here, or JSON Lines) back into a list of rows.
+function M.read(args)
+  local fname = "sweep.read"
+  named.check(fname, args, { "path", "format" })
+  local path = named.typed(fname, args, "path", "string")
+  local format = named.option(fname, args, "format", { "csv", "jsonl" }, M.format_of(path))
+  local f, err = io.open(path, "rb")
+  if not f then named.fail(fname, "cannot open %s", err) end
+  local text = f:read("a")
+  f:close()
+  local rows, columns = {}, nil
+  local function convert(field, quoted)
+    if quoted then return field end
+    if field == "" then return nil end
+    if field == "true" then return true elseif field == "false" then return false end
+    if field == "nan" then return 0 / 0 end
+    return tonumber(field) or field
+  end
+  if format == "csv" then
+    local pos, n = 1, #text
+    local record, fields, quoted = {}, {}, {}
+    while pos <= n do
+      local field, q
+      if text:sub(pos, pos) == '"' then
+        local parts, p = {}, pos + 1
+        while true do
+          local e = text:find('"', p, true)
+          if not e then named.fail(fname, "%s: unterminated quoted field", path) end
+          parts[#parts + 1] = text:sub(p, e - 1)
+          if text:sub(e + 1, e + 1) == '"' then
+            parts[#parts + 1] = '"'
+            p = e + 2
+          else
+            pos = e + 1
+            break
+          end
+        end
+        field, q = table.concat(parts), true
+      else
+        local e = text:find("[,\r\n]", pos) or n + 1
+        field, q = text:sub(pos, e - 1), false
+        pos = e
+      end
+      fields[#fields + 1], quoted[#fields + 1] = field, q
+      local c = text:sub(pos, pos)
+      if c == "," then
+        pos = pos + 1
+      else
+        if c == "\r" then pos = pos + 1 end
+        if text:sub(pos, pos) == "\n" then pos = pos + 1 end
+        if not columns then
+          columns = fields
+        else
+          record = {}
+          for i, name in ipairs(columns) do record[name] = convert(fields[i] or "", quoted[i]) end
+          rows[#rows + 1] = record
+        end
+        fields, quoted = {}, {}
+      end
+    end
+  else
+    for line in text:gmatch("[^\n]+") do
+      local record = parse_json_object(line)
+      if not record then named.fail(fname, "%s: a line is not a flat JSON object: %s", path, line) end
+      rows[#rows + 1] = record
+    end
+  end
+  return { rows = rows, columns = columns }
+end
+
+cp.set_help(M.read, [[
+sweep.read{path = FILE [, format = "csv" | "jsonl"]}: read a sweep's output back.
+Returns {rows = {{point = 1, x = ..., y = ..., error = nil}, ...}, columns = {...} (CSV)}.
+Empty fields are nil; numbers are converted.  Example: cp.sweep.read{path = "scan.csv"}]])
+
+setmetatable(M, { __call = function(_, args) return run(args) end })
+M.run = run
+
+cp.set_help(run, [[
+cp.sweep{parameters = {...}, evaluate = function(p) ... end [, outputs = {...}]
+         [, combine = "grid" | "zip"] [, out = PATH] [, format = "csv" | "jsonl"]
+         [, on_row = function(row, p) end]}
+Evaluate a function (or a plan) at every point of a parameter grid.
+parameters: a list of axes, the first varying slowest; each axis is
+  {name = "x", from = a, to = b, points = n [, scale = "linear" | "log"]}  (SI units)
+  {name = "x", values = {v1, v2, ...}}
+  {zip = {{name = "x", values = {...}}, {name = "y", values = {...}}}}  (advance together)
+  combine = "zip" zips all parameters instead of forming the full grid.
+evaluate(p): p = {x = ..., y = ...}; returns a number (column "value") or a table from
+  which outputs picks values by name ("number", or a path such as "final.t_over_tf");
+  if it returns a plan (a table with a run method) the plan is run.  A Lua error in
+  evaluate is recorded in the row's "error" column and the sweep goes on.
+out: stream rows to this file as they finish (CSV, or JSON Lines for .jsonl), memory
+  flat; without out the rows are returned.
+Returns {count, columns, rows (without out), out, format, failed = rows with an error}.
+Parallel runs, resuming and sharding: `coldprep sweep FILE.lua` (docs/cli-sweep.md).
+Example: cp.sweep{parameters = {{name = "x", from = 0, to = 1, points = 5}},
+                  evaluate = function(p) return {y = p.x^2} end, outputs = {"y"}}]])
+
+return M
