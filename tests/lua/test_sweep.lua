@@ -1,0 +1,101 @@
+-- cp.sweep from Lua: the grid order and values (worked out by hand below), zipped
+-- axes, logarithmic ranges, CSV quoting per RFC 4180 section 2 and the JSON Lines
+-- escapes (RFC 8259 section 7), reading files back, errors of evaluate recorded per row,
+-- and bad descriptions rejected with clear messages.
+local fails = 0
+local function check(name, ok, detail)
+  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
+  if not ok then fails = fails + 1 end
+end
+local function raises(name, pattern, f, ...)
+  local ok, err = pcall(f, ...)
+  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+end
+
+-- Grid: first axis slowest.  By hand: x in {0, 0.5, 1} (3 points from 0 to 1) and the
+-- zipped pair (a, s) in {(1, "u"), (2, "v")}: 6 points, x = 0, 0, 0.5, 0.5, 1, 1.
+local r = cp.sweep{
+  parameters = { {name = "x", from = 0, to = 1, points = 3},
+                 {zip = {{name = "a", values = {1, 2}}, {name = "s", values = {"u", "v"}}}} },
+  evaluate = function(p) return {y = p.x * p.a, t = {name = p.s}} end,
+  outputs = {"y", "t.name"},
+}
+check("grid size 3 x 2", r.count == 6 and #r.rows == 6)
+local xs, as, ys = {}, {}, {}
+for i, row in ipairs(r.rows) do xs[i], as[i], ys[i] = row.x, row.a, row.y end
+check("first axis slowest", table.concat(xs, " ") == "0.0 0.0 0.5 0.5 1 1", table.concat(xs, " "))
+check("zipped axis advances together", table.concat(as, " ") == "1 2 1 2 1 2"
+  and r.rows[4].s == "v" and r.rows[3]["t.name"] == "u")
+check("outputs picked by path", ys[6] == 2 and ys[3] == 0.5)
+check("columns", table.concat(r.columns, ",") == "point,x,a,s,y,t.name,error")
+
+-- Logarithmic range: 1, 10, 100, 1000 (4 points, a factor 10 apart, exact endpoints).
+local s = cp.sweep.prepare{sweep = {parameters = {{name = "f", from = 1, to = 1000, points = 4, scale = "log"}},
+  evaluate = function(p) return p.f end}}
+local lv = {}
+for i = 1, 4 do lv[i] = s.point(i).f end
+check("log range endpoints exact", lv[1] == 1 and lv[4] == 1000)
+check("log range ratio 10 (to 1e-14)", math.abs(lv[2] / 10 - 1) < 1e-14 and math.abs(lv[3] / 100 - 1) < 1e-14,
+  table.concat(lv, " "))
+
+-- combine = "zip": all parameters paired, 3 points.
+local z = cp.sweep{parameters = {{name = "p", values = {1, 2, 3}}, {name = "q", from = 10, to = 30, points = 3}},
+  combine = "zip", evaluate = function(p) return p.p + p.q end}
+check("combine zip pairs", z.count == 3 and z.rows[2].value == 22 and z.rows[3].value == 33)
+
+-- CSV per RFC 4180 section 2: fields with comma or quote are quoted, quotes doubled,
+-- records end with CRLF; an evaluate error goes to the error column.
+local path = os.tmpname()
+cp.sweep{parameters = {{name = "k", values = {1, 2}}},
+  evaluate = function(p)
+    if p.k == 2 then error("no good", 0) end
+    return {label = 'a,"b"', flag = true}
+  end,
+  outputs = {"label", "flag"}, out = path}
+local f = io.open(path, "rb")
+local text = f:read("a")
+f:close()
+check("CSV text", text == 'point,k,label,flag,error\r\n1,1,"a,""b""",true,\r\n2,2,,,no good\r\n', text)
+local back = cp.sweep.read{path = path}
+check("CSV read back", back.rows[1].label == 'a,"b"' and back.rows[1].flag == true
+  and back.rows[2].error == "no good" and back.rows[2].label == nil)
+os.remove(path)
+
+-- JSON Lines: strings escaped, NaN has no JSON form so it is written as null.
+local jpath = path .. ".jsonl"
+cp.sweep{parameters = {{name = "k", values = {1}}},
+  evaluate = function() return {s = "line\nnext \"q\"", v = 0 / 0, w = 0.1} end,
+  outputs = {"s", "v", "w"}, out = jpath}
+f = io.open(jpath, "rb")
+text = f:read("a")
+f:close()
+check("JSON Lines text", text == '{"point":1,"k":1,"s":"line\\nnext \\"q\\"","v":null,"w":0.1,"error":null}\n', text)
+local jb = cp.sweep.read{path = jpath}
+check("JSON Lines read back", jb.rows[1].s == 'line\nnext "q"' and jb.rows[1].w == 0.1 and jb.rows[1].v == nil)
+os.remove(jpath)
+
+-- Shortest round-trip number text.
+check("0.1 written as 0.1", cp.sweep.format_number(0.1) == "0.1")
+check("1/3 round-trips", tonumber(cp.sweep.format_number(1 / 3)) == 1 / 3)
+
+-- A plan-like result: a table with a run method is run.
+local planlike = { run = function(self) return {final = {number = 7}} end }
+local pr = cp.sweep{parameters = {{name = "k", values = {1}}}, evaluate = function() return planlike end,
+  outputs = {"final.number"}}
+check("a returned plan is run", pr.rows[1]["final.number"] == 7)
+
+-- Bad descriptions.
+local ok_eval = function(p) return 1 end
+raises("unknown key suggests", "did you mean 'evaluate'", cp.sweep, {parameters = {{name = "x", values = {1}}}, evalute = ok_eval})
+raises("unknown parameter key", "did you mean 'points'", cp.sweep, {parameters = {{name = "x", from = 0, to = 1, point = 3}}, evaluate = ok_eval})
+raises("NaN bound", "argument 'to' must be a finite number, got nan", cp.sweep, {parameters = {{name = "x", from = 0, to = 0 / 0, points = 3}}, evaluate = ok_eval})
+raises("log range through zero", "logarithmic range needs from > 0", cp.sweep, {parameters = {{name = "x", from = 0, to = 1, points = 3, scale = "log"}}, evaluate = ok_eval})
+raises("zero points", "'points' is 0; allowed 1", cp.sweep, {parameters = {{name = "x", from = 0, to = 1, points = 0}}, evaluate = ok_eval})
+raises("zip lengths", "need equal lengths", cp.sweep, {parameters = {{zip = {{name = "a", values = {1}}, {name = "b", values = {1, 2}}}}}, evaluate = ok_eval})
+raises("duplicate names", "used twice", cp.sweep, {parameters = {{name = "a", values = {1}}, {name = "a", values = {2}}}, evaluate = ok_eval})
+raises("missing evaluate", "missing argument 'evaluate'", cp.sweep, {parameters = {{name = "a", values = {1}}}})
+raises("table without outputs", "list the results to keep", cp.sweep, {parameters = {{name = "a", values = {1}}}, evaluate = function() return {} end})
+raises("not a table", "expects one table", cp.sweep, 3)
+check("help text", cp.get_help(cp.sweep.run) ~= nil and cp.get_help(cp.sweep.prepare) ~= nil)
+
+if fails > 0 then error(fails .. " check(s) failed") end
