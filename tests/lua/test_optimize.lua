@@ -1,0 +1,94 @@
+-- cp.optimize and cp.optim.nmsimplex: the optimum of a plan-like model (a Feshbach ramp
+-- whose efficiency falls for fast ramps and whose losses grow for slow ones, then a hold
+-- that cools but loses molecules) under the constraint T/T_F <= 0.5, checked against a
+-- dense grid scan done here; an optimum on a bound; the +-10 % sensitivity; bad input.
+local fails = 0
+local function check(name, ok, detail)
+  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
+  if not ok then fails = fails + 1 end
+end
+local function raises(name, pattern, f, ...)
+  local ok, err = pcall(f, ...)
+  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+end
+
+-- Plain simplex on a quadratic with its minimum at (1, -2) (by inspection).
+local q = cp.optim.nmsimplex{f = function(x) return (x[1] - 1)^2 + 10 * (x[2] + 2)^2 end,
+  start = {0, 1}, step = {0.5, 0.5}, tolerance = 1e-9}
+check("nmsimplex finds (1, -2)", math.abs(q.x[1] - 1) < 1e-6 and math.abs(q.x[2] + 2) < 1e-6 and q.converged,
+  q.x[1] .. " " .. q.x[2])
+
+-- The plan-like model.  r: ramp rate (G/s), h: hold time (s).
+local function model(p)
+  local n = 1e5 * math.exp(-2e3 / p.r) * (1 - math.exp(-4e4 / p.r)) * math.exp(-p.h / 0.5)
+  return { final = { number = n, t_over_tf = 0.1 + 0.9 * math.exp(-p.h / 0.25) } }
+end
+
+-- Dense scan (the outside reference): 601 x 601 points, r on a log grid over [1e3, 1e6],
+-- h linear over [0, 1]; keep the best feasible point.
+local best, br, bh = -math.huge, nil, nil
+for i = 0, 600 do
+  local r = 1e3 * 1000 ^ (i / 600)
+  for j = 0, 600 do
+    local h = j / 600
+    local m = model { r = r, h = h }
+    if m.final.t_over_tf <= 0.5 and m.final.number > best then best, br, bh = m.final.number, r, h end
+  end
+end
+
+local o = cp.optimize{
+  parameters = { {name = "r", min = 1e3, max = 1e6, scale = "log"}, {name = "h", min = 0, max = 1} },
+  evaluate = model, merit = "final.number",
+  constraints = { {output = "final.t_over_tf", max = 0.5} } }
+check("optimum is feasible", o.feasible and o.constraints[1].value <= 0.5 + 1e-6, o.constraints[1].value)
+check("merit at least the scan's best (to 1e-6)", o.merit >= best * (1 - 1e-6), o.merit .. " vs " .. best)
+-- the scan can miss the true optimum by one grid step: in h, N falls by exp(-h/0.5), i.e.
+-- 2/600 = 0.33 % per step; in r the maximum is flat to second order
+check("merit within one grid step (0.4 %) of the scan's best", o.merit <= best * 1.004, o.merit .. " vs " .. best)
+-- grid steps: r by a factor 1000^(1/600) = 1.0116, h by 1/600
+check("r within two grid steps of the scan", math.abs(math.log(o.parameters.r / br)) < 2 * math.log(1000) / 600,
+  o.parameters.r .. " vs " .. br)
+check("h within two grid steps of the scan", math.abs(o.parameters.h - bh) < 2 / 600, o.parameters.h .. " vs " .. bh)
+check("the constraint is active (T/T_F = 0.5 to 1e-4)", math.abs(o.constraints[1].value - 0.5) < 1e-4)
+
+-- Sensitivity: at the optimum r is a smooth maximum, so both sides lose merit; h sits on
+-- the constraint, so -10 % of h is infeasible and gains merit, +10 % loses it.
+local sr, sh = o.sensitivity[1], o.sensitivity[2]
+check("sensitivity to r: both sides lower", sr.parameter == "r" and sr.minus.change < 0 and sr.plus.change < 0)
+check("sensitivity to h: -10 % infeasible, +10 % lower",
+  sh.minus.feasible == false and sh.plus.feasible and sh.plus.change < 0)
+-- +10 % in h multiplies N by exp(-0.1 h / 0.5) (model above): the change by hand
+check("sensitivity value by hand", math.abs(sh.plus.change - (math.exp(-0.1 * o.parameters.h / 0.5) - 1)) < 1e-9)
+
+-- An optimum on a bound: maximise x over [0, 3] with merit -(x - 5)^2 -> x = 3.
+local b = cp.optimize{ parameters = { {name = "x", min = 0, max = 3} },
+  evaluate = function(p) return -(p.x - 5)^2 end }
+check("optimum on the upper bound", math.abs(b.parameters.x - 3) < 1e-4, b.parameters.x)
+-- Minimising, interior: (x - 2)^2 + 1 has its minimum 1 at x = 2.
+local m = cp.optimize{ parameters = { {name = "x", min = 0, max = 10, start = 9} }, goal = "min",
+  evaluate = function(p) return (p.x - 2)^2 + 1 end }
+check("minimum at x = 2", math.abs(m.parameters.x - 2) < 1e-3 and math.abs(m.merit - 1) < 1e-6, m.parameters.x)
+-- Failing evaluations are avoided, not fatal.
+local f = cp.optimize{ parameters = { {name = "x", min = 0, max = 3} },
+  evaluate = function(p) if p.x > 2.5 then error("plan fails") end return p.x end }
+check("a failing region is avoided", f.parameters.x <= 2.5 and f.parameters.x > 2.49, f.parameters.x)
+
+raises("unknown key", "did you mean 'constraints'", cp.optimize, { parameters = { {name = "x", min = 0, max = 1} },
+  evaluate = function() return 1 end, constrains = {} })
+raises("max below min", "must be larger than min", cp.optimize, { parameters = { {name = "x", min = 1, max = 0} },
+  evaluate = function() return 1 end })
+raises("log scale through 0", "needs min > 0", cp.optimize, { parameters = { {name = "x", min = 0, max = 1, scale = "log"} },
+  evaluate = function() return 1 end })
+raises("start outside", "outside", cp.optimize, { parameters = { {name = "x", min = 0, max = 1, start = 2} },
+  evaluate = function() return 1 end })
+raises("NaN bound", "must be a finite number", cp.optimize, { parameters = { {name = "x", min = 0 / 0, max = 1} },
+  evaluate = function() return 1 end })
+raises("nothing evaluates", "no parameter set could be evaluated", cp.optimize,
+  { parameters = { {name = "x", min = 0, max = 1} }, evaluate = function() error("always") end })
+raises("nmsimplex: step count", "give one step per coordinate", cp.optim.nmsimplex,
+  { f = function() return 0 end, start = {0, 0}, step = {1} })
+raises("nmsimplex: objective error propagates", "boom", cp.optim.nmsimplex,
+  { f = function() error("boom") end, start = {0}, step = {1} })
+check("help texts", cp.get_help(cp.optimize.run) ~= nil and cp.get_help(cp.optim.nmsimplex) ~= nil)
+
+if fails > 0 then error(fails .. " check(s) failed") end
