@@ -1,0 +1,103 @@
+-- cp.uncertainty and cp.random: zero widths reproduce the plain evaluation; the same seed
+-- gives the same draws; sample statistics agree with the distributions' moments within
+-- their standard errors; the probability of degeneracy agrees with a case computed by
+-- hand; Spearman's rho matches the no-ties formula rho = 1 - 6 sum d^2 / (n (n^2 - 1))
+-- (Spearman 1904); the ranking puts the dominant input first; bad input is refused.
+local fails = 0
+local function check(name, ok, detail)
+  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
+  if not ok then fails = fails + 1 end
+end
+local function raises(name, pattern, f, ...)
+  local ok, err = pcall(f, ...)
+  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+end
+
+-- A plan-like model: molecule number and T/T_F from a ramp rate, a hold and a loss rate.
+local function model(p)
+  local n = 1e5 * math.exp(-2e3 / p.r) * (1 - math.exp(-4e4 / p.r)) * math.exp(-p.h * p.loss)
+  local t = 0.1 + 0.9 * math.exp(-p.h / 0.25)
+  return { final = { number = n, t_over_tf = t }, degenerate = t <= 0.5 }
+end
+local plain = model { r = 1.3e4, h = 0.3, loss = 2 }
+
+-- Zero widths: every draw is the plain plan.
+local z = cp.uncertainty{
+  parameters = { {name = "r", distribution = "normal", mean = 1.3e4, sd = 0},
+                 {name = "h", distribution = "uniform", min = 0.3, max = 0.3},
+                 {name = "loss", distribution = "lognormal", median = 2, sigma = 0} },
+  evaluate = model, outputs = { "final.number", "final.t_over_tf" }, samples = 50, seed = 7 }
+local zn = z.outputs["final.number"]
+check("zero widths: every sample equals the plain plan",
+  zn.min == plain.final.number and zn.max == plain.final.number and zn.sd == 0, zn.min .. " " .. plain.final.number)
+check("zero widths: T/T_F equals the plain plan", z.outputs["final.t_over_tf"].mean == plain.final.t_over_tf)
+check("zero widths: nominal equals the plain plan", z.nominal["final.number"] == plain.final.number)
+check("zero widths: degeneracy certain", z.probability_degenerate == 1 and z.probability_error == 0)
+check("zero widths: no rank correlation", z.ranking["final.number"][1].rank_correlation == nil)
+
+-- Uncertain hold (uniform 0.1 .. 0.4 s) and loss; degenerate when T/T_F <= 0.5, i.e.
+-- h >= 0.25 ln(9/4) = 0.2027 s (from the model by hand): P = (0.4 - 0.2027) / 0.3.
+local args = {
+  parameters = { {name = "r", distribution = "lognormal", median = 1.3e4, sigma = 0.05},
+                 {name = "h", distribution = "uniform", min = 0.1, max = 0.4},
+                 {name = "loss", distribution = "normal", mean = 2, sd = 0.2} },
+  evaluate = model, outputs = { "final.number", "final.t_over_tf" }, samples = 4000, seed = 11 }
+local u = cp.uncertainty(args)
+local p_hand = (0.4 - 0.25 * math.log(9 / 4)) / 0.3
+local se = math.sqrt(p_hand * (1 - p_hand) / 4000)
+check("P(degenerate) within 4 standard errors of the hand value",
+  math.abs(u.probability_degenerate - p_hand) < 4 * se, u.probability_degenerate .. " vs " .. p_hand)
+check("T/T_F is driven by the hold only", u.ranking["final.t_over_tf"][1].parameter == "h"
+  and math.abs(u.ranking["final.t_over_tf"][1].rank_correlation + 1) < 1e-12)
+check("the hold matters most overall", u.importance[1].parameter == "h")
+local again = cp.uncertainty(args)
+check("same seed, same result", again.outputs["final.number"].mean == u.outputs["final.number"].mean
+  and again.rows[123].r == u.rows[123].r)
+args.seed = 12
+check("another seed, other draws", cp.uncertainty(args).rows[1].r ~= u.rows[1].r)
+
+-- Moments of the generators: mean within 4 standard errors (n = 20000).
+local g = cp.random.generator{seed = 5}
+local n, s1, s2, below = 20000, 0, 0, 0
+for _ = 1, n do
+  local x = g:normal{mean = 3, sd = 2}
+  s1, s2 = s1 + x, s2 + x * x
+end
+local mean = s1 / n
+check("normal: mean 3 within 4 standard errors", math.abs(mean - 3) < 4 * 2 / math.sqrt(n), mean)
+check("normal: sd 2 within 3 %", math.abs(math.sqrt(s2 / n - mean^2) / 2 - 1) < 0.03)
+for _ = 1, n do if g:lognormal{median = 5, sigma = 0.7} < 5 then below = below + 1 end end
+check("lognormal: half below the median", math.abs(below / n - 0.5) < 4 * 0.5 / math.sqrt(n), below / n)
+local su = 0
+for _ = 1, n do su = su + g:uniform{min = -1, max = 3} end
+-- uniform on [-1, 3]: mean 1, sd 4/sqrt(12)
+check("uniform: mean 1 within 4 standard errors", math.abs(su / n - 1) < 4 * (4 / math.sqrt(12)) / math.sqrt(n))
+
+-- Spearman's rho against the no-ties formula: d = (-1, 1, -1, 1, 0), rho = 1 - 24/120.
+check("Spearman rho = 0.8", math.abs(cp.uncertainty.spearman({1, 2, 3, 4, 5}, {2, 1, 4, 3, 5}) - 0.8) < 1e-15)
+-- With ties (average ranks): x = 1..4, y = {1, 2, 2, 3} -> ranks 1, 2.5, 2.5, 4; Pearson of
+-- ranks = 4.5 / sqrt(5 * 4.5) = 0.9486832980505138 (by hand).
+check("Spearman rho with ties", math.abs(cp.uncertainty.spearman({1, 2, 3, 4}, {1, 2, 2, 3}) - 4.5 / math.sqrt(22.5)) < 1e-15)
+
+-- Failing evaluations are counted, not fatal.
+local f = cp.uncertainty{ parameters = { {name = "x", distribution = "uniform", min = 0, max = 1} },
+  evaluate = function(p) if p.x > 0.5 then error("no") end return {y = p.x} end, outputs = {"y"},
+  samples = 400, seed = 3 }
+check("failures counted", f.failed > 150 and f.failed < 250 and f.outputs.y.n == 400 - f.failed)
+check("no degeneracy flag, no probability", f.probability_degenerate == nil)
+
+raises("unknown distribution", "normal, uniform or lognormal", cp.uncertainty,
+  { parameters = { {name = "x", distribution = "gauss", mean = 0, sd = 1} }, evaluate = model, outputs = {"y"} })
+raises("key of another distribution", "did you mean", cp.uncertainty,
+  { parameters = { {name = "x", distribution = "normal", mean = 0, sigma = 1} }, evaluate = model, outputs = {"y"} })
+raises("negative width", "widths must be >= 0", cp.uncertainty,
+  { parameters = { {name = "x", distribution = "normal", mean = 0, sd = -1} }, evaluate = model, outputs = {"y"} })
+raises("NaN mean", "must be a finite number", cp.uncertainty,
+  { parameters = { {name = "x", distribution = "normal", mean = 0 / 0, sd = 1} }, evaluate = model, outputs = {"y"} })
+raises("one sample", "allowed 2", cp.uncertainty,
+  { parameters = { {name = "x", distribution = "normal", mean = 0, sd = 1} }, evaluate = model, outputs = {"y"}, samples = 1 })
+raises("generator: negative sd", "negative", g.normal, g, {mean = 0, sd = -1})
+raises("generator: bad seed", "seed", cp.random.generator, {seed = -1})
+check("help texts", cp.get_help(cp.uncertainty.run) ~= nil and cp.get_help(cp.random.generator) ~= nil)
+
+if fails > 0 then error(fails .. " check(s) failed") end
