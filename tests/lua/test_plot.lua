@@ -1,0 +1,95 @@
+-- cp.plot: every figure is written in the format its name asks for, checked by the file
+-- signatures of the formats (PNG: 8-byte signature and the IHDR chunk with width and height
+-- as big-endian integers, PNG specification 2nd ed. sections 5.2 and 11.2.2; PDF: "%PDF-"
+-- header, ISO 32000-1 section 7.5.2; SVG: an <svg> root element, SVG 1.1 section 5.1);
+-- bad input is refused before anything is drawn.
+local fails = 0
+local function check(name, ok, detail)
+  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
+  if not ok then fails = fails + 1 end
+end
+local function raises(name, pattern, f, ...)
+  local ok, err = pcall(f, ...)
+  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+end
+
+local dir = os.tmpname()
+os.remove(dir)
+assert(os.execute("mkdir -p " .. dir))
+local function slurp(path)
+  local f = io.open(path, "rb")
+  if not f then return nil end
+  local s = f:read("a")
+  f:close()
+  return s
+end
+local function png_size(path)
+  local s = slurp(path)
+  if not s or s:sub(1, 8) ~= "\137PNG\r\n\26\n" or s:sub(13, 16) ~= "IHDR" then return nil end
+  return string.unpack(">I4", s, 17), string.unpack(">I4", s, 21)
+end
+
+local x, y = {}, {}
+for i = 1, 40 do x[i] = 10 ^ (i / 10); y[i] = math.sin(i / 6) + 2 end
+local r = cp.plot.render{out = dir .. "/c.png", width = 640, height = 480,
+  panels = {{xlabel = "x", ylabel = "y", xlog = true, lines = {{x = x, y = y, label = "curve"}},
+             hlines = {{y = 2, label = "two"}}}}}
+local w, h = png_size(dir .. "/c.png")
+check("PNG written at the requested size", w == 640 and h == 480, tostring(w) .. "x" .. tostring(h))
+check("device reported", r.device == "pngcairo")
+cp.plot.render{out = dir .. "/c.svg", panels = {{lines = {{x = x, y = y}}}}}
+check("SVG written", (slurp(dir .. "/c.svg") or ""):find("<svg", 1, true) ~= nil)
+cp.plot.render{out = dir .. "/c.pdf", panels = {{lines = {{x = x, y = y}}}}}
+check("PDF written", (slurp(dir .. "/c.pdf") or ""):sub(1, 5) == "%PDF-")
+
+-- The ready-made figures.
+local sw = cp.sweep{parameters = {{name = "a", from = 1, to = 100, points = 8, scale = "log"},
+                                  {name = "b", values = {1, 2, 3}}},
+  evaluate = function(p) return {n = p.a * p.b} end, outputs = {"n"}}
+cp.plot.sweep{data = sw, x = "a", y = "n", group = "b", xlog = true, ylog = true, out = dir .. "/s.png"}
+check("sweep curves", png_size(dir .. "/s.png") == 900)
+cp.plot.map{data = sw.rows, x = "a", y = "b", z = "n", xlog = true, zlog = true, out = dir .. "/m.png"}
+check("sweep map", png_size(dir .. "/m.png") == 900)
+local csv = dir .. "/sw.csv"
+cp.sweep{parameters = {{name = "a", from = 1, to = 2, points = 5}}, evaluate = function(p) return p.a end, out = csv}
+cp.plot.sweep{data = csv, x = "a", y = "value", out = dir .. "/f.svg"}
+check("sweep curve from a CSV file", (slurp(dir .. "/f.svg") or ""):find("<svg", 1, true) ~= nil)
+local budget = {stages = {{name = "atoms", number = 1e6, t_over_tf = 1.1},
+                          {name = "Feshbach", number = 2e5, t_over_tf = 0.8},
+                          {name = "lattice", number = 1e5, t_over_tf = 0.45}}}
+cp.plot.waterfall{budget = budget, out = dir .. "/w.pdf"}
+check("budget waterfall", (slurp(dir .. "/w.pdf") or ""):sub(1, 5) == "%PDF-")
+local t, p1, p3 = {}, {}, {}
+for i = 0, 50 do t[#t + 1] = i * 1e-7; p1[#p1 + 1] = 1 - i / 50; p3[#p3 + 1] = i / 50 end
+cp.plot.raman{time = t, initial = p1, target = p3, pump = p1, stokes = p3, out = dir .. "/r.png"}
+local _, rh = png_size(dir .. "/r.png")
+check("Raman trace (two panels, taller)", rh == 750, rh)
+cp.plot.bands{quasimomenta = {-1, 0, 1}, energies_er = {{1, 1}, {0, 4}, {1, 1}}, out = dir .. "/b.png"}
+check("band structure", png_size(dir .. "/b.png") == 900)
+
+-- Bad input.
+raises("unknown format", "must end in .png, .svg or .pdf", cp.plot.render,
+  {out = dir .. "/x.gif", panels = {{lines = {{x = {1, 2}, y = {1, 2}}}}}})
+raises("NaN data", "must be a finite number", cp.plot.render,
+  {out = dir .. "/x.png", panels = {{lines = {{x = {1, 0 / 0}, y = {1, 2}}}}}})
+raises("log axis with zero", "logarithmic axis", cp.plot.render,
+  {out = dir .. "/x.png", panels = {{ylog = true, lines = {{x = {1, 2}, y = {0, 2}}}}}})
+raises("lengths differ", "2 x values but 3 y values", cp.plot.render,
+  {out = dir .. "/x.png", panels = {{lines = {{x = {1, 2}, y = {1, 2, 3}}}}}})
+raises("unwritable file", "cannot write", cp.plot.render,
+  {out = dir .. "/no/such/dir/x.png", panels = {{lines = {{x = {1, 2}, y = {1, 2}}}}}})
+raises("unknown panel key", "did you mean 'ylabel'", cp.plot.render,
+  {out = dir .. "/x.png", panels = {{ylabl = "y", lines = {{x = {1, 2}, y = {1, 2}}}}}})
+raises("empty panel", "needs lines, bars or a map", cp.plot.render, {out = dir .. "/x.png", panels = {{}}})
+raises("map not increasing", "must increase", cp.plot.render,
+  {out = dir .. "/x.png", panels = {{map = {x = {2, 1}, y = {1, 2}, z = {{1, 2}, {3, 4}}}}}})
+raises("sweep: unknown column", "no row has a value in column 'nn'", cp.plot.sweep,
+  {data = sw, x = "a", y = "nn", out = dir .. "/x.png"})
+raises("waterfall: zero molecules", "positive finite number", cp.plot.waterfall,
+  {budget = {stages = {{name = "a", number = 0}}}, out = dir .. "/x.png"})
+raises("bands: ragged energies", "must list 2 band energies", cp.plot.bands,
+  {quasimomenta = {0, 1}, energies_er = {{1, 2}, {1}}, out = dir .. "/x.png"})
+check("help texts", cp.get_help(cp.plot.render) and cp.get_help(cp.plot.sweep) and cp.get_help(cp.plot.map)
+  and cp.get_help(cp.plot.waterfall) and cp.get_help(cp.plot.raman) and cp.get_help(cp.plot.bands))
+os.execute("rm -rf " .. dir)
+if fails > 0 then error(fails .. " check(s) failed") end
