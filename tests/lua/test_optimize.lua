@@ -2,14 +2,15 @@
 -- whose efficiency falls for fast ramps and whose losses grow for slow ones, then a hold
 -- that cools but loses molecules) under the constraint T/T_F <= 0.5, checked against a
 -- dense grid scan done here; an optimum on a bound; the +-10 % sensitivity; bad input.
-local fails = 0
+local T = require "testlib"
+-- name + condition (+ what was seen, printed on failure), in the order these tests read best
 local function check(name, ok, detail)
-  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
-  if not ok then fails = fails + 1 end
+  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
+  T.check(ok, name)
 end
 local function raises(name, pattern, f, ...)
-  local ok, err = pcall(f, ...)
-  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+  local args = table.pack(...)
+  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
 end
 
 -- Plain simplex on a quadratic with its minimum at (1, -2) (by inspection).
@@ -91,4 +92,4 @@ raises("nmsimplex: objective error propagates", "boom", cp.optim.nmsimplex,
   { f = function() error("boom") end, start = {0}, step = {1} })
 check("help texts", cp.get_help(cp.optimize.run) ~= nil and cp.get_help(cp.optim.nmsimplex) ~= nil)
 
-if fails > 0 then error(fails .. " check(s) failed") end
+T.done()

@@ -3,14 +3,15 @@
 -- as big-endian integers, PNG specification 2nd ed. sections 5.2 and 11.2.2; PDF: "%PDF-"
 -- header, ISO 32000-1 section 7.5.2; SVG: an <svg> root element, SVG 1.1 section 5.1);
 -- bad input is refused before anything is drawn.
-local fails = 0
+local T = require "testlib"
+-- name + condition (+ what was seen, printed on failure), in the order these tests read best
 local function check(name, ok, detail)
-  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
-  if not ok then fails = fails + 1 end
+  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
+  T.check(ok, name)
 end
 local function raises(name, pattern, f, ...)
-  local ok, err = pcall(f, ...)
-  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+  local args = table.pack(...)
+  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
 end
 
 local dir = os.tmpname()
@@ -92,4 +93,4 @@ raises("bands: ragged energies", "must list 2 band energies", cp.plot.bands,
 check("help texts", cp.get_help(cp.plot.render) and cp.get_help(cp.plot.sweep) and cp.get_help(cp.plot.map)
   and cp.get_help(cp.plot.waterfall) and cp.get_help(cp.plot.raman) and cp.get_help(cp.plot.bands))
 os.execute("rm -rf " .. dir)
-if fails > 0 then error(fails .. " check(s) failed") end
+T.done()

@@ -2,14 +2,15 @@
 -- axes, logarithmic ranges, CSV quoting per RFC 4180 section 2 and the JSON Lines
 -- escapes (RFC 8259 section 7), reading files back, errors of evaluate recorded per row,
 -- and bad descriptions rejected with clear messages.
-local fails = 0
+local T = require "testlib"
+-- name + condition (+ what was seen, printed on failure), in the order these tests read best
 local function check(name, ok, detail)
-  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
-  if not ok then fails = fails + 1 end
+  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
+  T.check(ok, name)
 end
 local function raises(name, pattern, f, ...)
-  local ok, err = pcall(f, ...)
-  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+  local args = table.pack(...)
+  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
 end
 
 -- Grid: first axis slowest.  By hand: x in {0, 0.5, 1} (3 points from 0 to 1) and the
@@ -98,4 +99,4 @@ raises("table without outputs", "list the results to keep", cp.sweep, {parameter
 raises("not a table", "expects one table", cp.sweep, 3)
 check("help text", cp.get_help(cp.sweep.run) ~= nil and cp.get_help(cp.sweep.prepare) ~= nil)
 
-if fails > 0 then error(fails .. " check(s) failed") end
+T.done()

@@ -3,14 +3,15 @@
 -- their standard errors; the probability of degeneracy agrees with a case computed by
 -- hand; Spearman's rho matches the no-ties formula rho = 1 - 6 sum d^2 / (n (n^2 - 1))
 -- (Spearman 1904); the ranking puts the dominant input first; bad input is refused.
-local fails = 0
+local T = require "testlib"
+-- name + condition (+ what was seen, printed on failure), in the order these tests read best
 local function check(name, ok, detail)
-  print((ok and "ok   " or "FAIL ") .. name .. ((not ok and detail) and (": " .. tostring(detail)) or ""))
-  if not ok then fails = fails + 1 end
+  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
+  T.check(ok, name)
 end
 local function raises(name, pattern, f, ...)
-  local ok, err = pcall(f, ...)
-  check(name, not ok and tostring(err):find(pattern, 1, true) ~= nil, err)
+  local args = table.pack(...)
+  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
 end
 
 -- A plan-like model: molecule number and T/T_F from a ramp rate, a hold and a loss rate.
@@ -100,4 +101,4 @@ raises("generator: negative sd", "negative", g.normal, g, {mean = 0, sd = -1})
 raises("generator: bad seed", "seed", cp.random.generator, {seed = -1})
 check("help texts", cp.get_help(cp.uncertainty.run) ~= nil and cp.get_help(cp.random.generator) ~= nil)
 
-if fails > 0 then error(fails .. " check(s) failed") end
+T.done()
