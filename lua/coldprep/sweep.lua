@@ -25,7 +25,6 @@ local function format_number(v)
   end
   return string.format("%.17g", v)
 end
-M.format_number = format_number
 
 local function csv_field(v)
   if v == nil then return "" end
@@ -284,7 +283,7 @@ local function compile(fname, desc, format)
 end
 
 -- The format a path implies: JSON Lines for .jsonl/.ndjson, CSV otherwise.
-function M.format_of(path)
+local function format_of(path)
   local ext = path:match("%.([%w]+)$")
   ext = ext and ext:lower()
   if ext == "jsonl" or ext == "ndjson" then return "jsonl" end
@@ -314,7 +313,7 @@ local function run(args)
   local fname = "sweep"
   named.check(fname, args, DESCRIPTION_KEYS)
   local out = named.typed(fname, args, "out", "string", false) or nil
-  local format = args.format or (out and M.format_of(out)) or "csv"
+  local format = args.format or (out and format_of(out)) or "csv"
   format = named.option(fname, { format = format }, "format", { "csv", "jsonl" })
   local on_row = named.typed(fname, args, "on_row", "function", false) or nil
   local s = compile(fname, args, format)
@@ -366,7 +365,7 @@ function M.load(args)
   end
   local out = args.out or desc.out or (file:gsub("%.lua$", "") .. ".csv")
   if type(out) ~= "string" then named.fail("sweep", "out must be a path (string), got %s", type(out)) end
-  local format = args.format or desc.format or M.format_of(out)
+  local format = args.format or desc.format or format_of(out)
   format = named.option("sweep", { format = format }, "format", { "csv", "jsonl" })
   local s = compile("sweep", desc, format)
   s.out = out
@@ -448,7 +447,7 @@ function M.read(args)
   local fname = "sweep.read"
   named.check(fname, args, { "path", "format" })
   local path = named.typed(fname, args, "path", "string")
-  local format = named.option(fname, args, "format", { "csv", "jsonl" }, M.format_of(path))
+  local format = named.option(fname, args, "format", { "csv", "jsonl" }, format_of(path))
   local f, err = io.open(path, "rb")
   if not f then named.fail(fname, "cannot open %s", err) end
   local text = f:read("a")

@@ -121,7 +121,24 @@ local function spearman(x, y)
   if sxx == 0 or syy == 0 then return nil end
   return sxy / math.sqrt(sxx * syy)
 end
-M.spearman = spearman
+
+function M.rank_correlation(args)
+  local fname = "uncertainty.rank_correlation"
+  named.check(fname, args, { "x", "y" })
+  local x, y = named.typed(fname, args, "x", "table"), named.typed(fname, args, "y", "table")
+  if #x ~= #y or #x < 2 then named.fail(fname, "x and y must be lists of equal length >= 2") end
+  for i = 1, #x do
+    if not (named.is_finite(x[i]) and named.is_finite(y[i])) then
+      named.fail(fname, "x[%d] and y[%d] must be finite numbers", i, i)
+    end
+  end
+  return { rho = spearman(x, y) }
+end
+
+cp.set_help(M.rank_correlation, [[
+uncertainty.rank_correlation{x = {...}, y = {...}}: Spearman's rank correlation of two
+equally long lists (ties get their average rank).  Returns {rho} (rho = nil when either
+list is constant).  Example: cp.uncertainty.rank_correlation{x = {1, 2, 3}, y = {1, 4, 9}}.rho --> 1]])
 
 local function run(args)
   local fname = "uncertainty"

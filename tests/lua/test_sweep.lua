@@ -75,9 +75,13 @@ local jb = cp.sweep.read{path = jpath}
 check("JSON Lines read back", jb.rows[1].s == 'line\nnext "q"' and jb.rows[1].w == 0.1 and jb.rows[1].v == nil)
 os.remove(jpath)
 
--- Shortest round-trip number text.
-check("0.1 written as 0.1", cp.sweep.format_number(0.1) == "0.1")
-check("1/3 round-trips", tonumber(cp.sweep.format_number(1 / 3)) == 1 / 3)
+-- Shortest round-trip number text: 0.1 as "0.1" (15 digits suffice), 1/3 with 16, and
+-- integers without a decimal point.
+local nums = cp.sweep.prepare{sweep = {parameters = {{name = "k", values = {1}}},
+  evaluate = function() return {a = 0.1, b = 1 / 3, c = 7} end, outputs = {"a", "b", "c"}}}
+local row = nums.row(1)
+check("numbers written shortest", row == "1,1,0.1,0.3333333333333333,7,\r\n", row)
+check("1/3 round-trips", tonumber(row:match("^1,1,0.1,([^,]+)")) == 1 / 3)
 
 -- A plan-like result: a table with a run method is run.
 local planlike = { run = function(self) return {final = {number = 7}} end }

@@ -75,10 +75,10 @@ for _ = 1, n do su = su + g:uniform{min = -1, max = 3} end
 check("uniform: mean 1 within 4 standard errors", math.abs(su / n - 1) < 4 * (4 / math.sqrt(12)) / math.sqrt(n))
 
 -- Spearman's rho against the no-ties formula: d = (-1, 1, -1, 1, 0), rho = 1 - 24/120.
-check("Spearman rho = 0.8", math.abs(cp.uncertainty.spearman({1, 2, 3, 4, 5}, {2, 1, 4, 3, 5}) - 0.8) < 1e-15)
+check("Spearman rho = 0.8", math.abs(cp.uncertainty.rank_correlation{x = {1, 2, 3, 4, 5}, y = {2, 1, 4, 3, 5}}.rho - 0.8) < 1e-15)
 -- With ties (average ranks): x = 1..4, y = {1, 2, 2, 3} -> ranks 1, 2.5, 2.5, 4; Pearson of
 -- ranks = 4.5 / sqrt(5 * 4.5) = 0.9486832980505138 (by hand).
-check("Spearman rho with ties", math.abs(cp.uncertainty.spearman({1, 2, 3, 4}, {1, 2, 2, 3}) - 4.5 / math.sqrt(22.5)) < 1e-15)
+check("Spearman rho with ties", math.abs(cp.uncertainty.rank_correlation{x = {1, 2, 3, 4}, y = {1, 2, 2, 3}}.rho - 4.5 / math.sqrt(22.5)) < 1e-15)
 
 -- Failing evaluations are counted, not fatal.
 local f = cp.uncertainty{ parameters = { {name = "x", distribution = "uniform", min = 0, max = 1} },
@@ -97,6 +97,7 @@ raises("NaN mean", "must be a finite number", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0 / 0, sd = 1} }, evaluate = model, outputs = {"y"} })
 raises("one sample", "allowed 2", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sd = 1} }, evaluate = model, outputs = {"y"}, samples = 1 })
+raises("rank correlation: lengths", "equal length", cp.uncertainty.rank_correlation, {x = {1, 2}, y = {1}})
 raises("generator: negative sd", "negative", g.normal, g, {mean = 0, sd = -1})
 raises("generator: bad seed", "seed", cp.random.generator, {seed = -1})
 check("help texts", cp.get_help(cp.uncertainty.run) ~= nil and cp.get_help(cp.random.generator) ~= nil)
