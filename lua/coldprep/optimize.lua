@@ -249,6 +249,7 @@ cp.optimize{parameters = {{name = "x", min = a, max = b [, start = x0] [, scale 
             evaluate = function(p) ... end [, merit = "final.number" | function(result, p)]
             [, goal = "max" | "min"] [, constraints = {{output = "final.t_over_tf", max = 0.5}, ...}]
             [, tolerance = 1e-5] [, max_evaluations = 4000] [, penalty = 100]}
+(max_evaluations caps the search; the +-10 % report adds 2 evaluations per parameter)
 Find the parameters (within [min, max], SI units) that maximise (goal = "max", default)
 or minimise the merit of evaluate(p) - a number, or the value merit names in the result
 table; a returned plan is run.  Constraints (min and/or max on an output) are kept by an

@@ -125,7 +125,7 @@ Example: cp.plot.map{data = "scan.csv", x = "ramp_rate", y = "hold", z = "final.
                      xlog = true, out = "scan.png"}]])
 
 local function format_count(n)
-  if n >= 1e4 then return string.format("%.2g", n) end
+  if n >= 1e6 then return string.format("%.3g", n) end
   return string.format("%.0f", n)
 end
 
@@ -156,8 +156,14 @@ local function waterfall(args)
       ratio_x[#ratio_x + 1], ratio_y[#ratio_y + 1] = i, r
     end
   end
+  local lo, hi = math.huge, 0
+  for _, n in ipairs(numbers) do lo, hi = math.min(lo, n), math.max(hi, n) end
+  local verdict = budget.verdict
+  if type(verdict) == "table" then verdict = verdict.text end
   local panels = { {
-    title = args.title or budget.verdict, ylabel = "molecules", ylog = true,
+    -- a logarithmic axis once the numbers span more than a factor 20 (PLplot labels decades)
+    title = args.title or (type(verdict) == "string" and verdict or nil), ylabel = "molecules",
+    ylog = hi / lo > 20,
     bars = { values = numbers, categories = names, notes = notes } } }
   if #ratio_x > 0 then
     local limit = named.number(fname, args, "limit", ratio_label == "T/T#dF#u" and 0.5 or 1, "positive")
