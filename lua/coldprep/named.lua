@@ -1,6 +1,6 @@
 -- coldprep.named: checks for the one-table-of-named-arguments convention, for functions
 -- written in Lua (the C bindings use lua/args.c).  Messages follow the same shape:
---   "sweep: unknown argument 'ouputs'; did you mean 'outputs'?"
+--   "sweep: unknown argument 'ouputs' (did you mean 'outputs'?)"
 --   "optimize: argument 'tolerance' must be a finite positive number, got -1"
 local M = {}
 
@@ -47,7 +47,7 @@ function M.check(fname, args, known)
         local d = distance(k, c)
         if d < bd then best, bd = c, d end
       end
-      M.fail(fname, "unknown argument '%s'; did you mean '%s'?", k, best)
+      M.fail(fname, "unknown argument '%s' (did you mean '%s'?)", k, best)
     end
   end
   return args

@@ -226,12 +226,14 @@ local function optimize(args)
     xbest[i] = best.p[par.name]
     out.parameters[par.name] = xbest[i]
   end
-  -- How the merit changes at -10 % and +10 % of each parameter, the others held.
+  -- How the merit changes at -10 % and +10 % of each parameter, the others held (10 %
+  -- of the range for a parameter that sits at 0).
   for i, par in ipairs(params) do
     local row = { parameter = par.name, value = xbest[i] }
-    for _, side in ipairs { { "minus", 0.9 }, { "plus", 1.1 } } do
+    local step = xbest[i] ~= 0 and 0.1 * xbest[i] or 0.1 * (par.max - par.min)
+    for _, side in ipairs { { "minus", -1 }, { "plus", 1 } } do
       local x = table.move(xbest, 1, #xbest, 1, {})
-      x[i] = xbest[i] * side[2]
+      x[i] = xbest[i] + side[2] * step
       local a = assess(x)
       row[side[1]] = {
         value = x[i], merit = a.merit, feasible = a.feasible or false, failed = a.failed,
