@@ -246,8 +246,13 @@ static int write_rows(sweep_run *r, int fd, int tty)
             if (len + r->slot_len[k] > cap) {
                 size_t ncap = 2 * (len + r->slot_len[k]) + 4096;
                 char *nb = realloc(batch, ncap);
-                if (nb == NULL)
+                if (nb == NULL) {
+                    r->stop = 1; /* write what is batched, then stop */
+                    if (r->error[0] == '\0')
+                        snprintf(r->error, sizeof r->error, "out of memory");
+                    pthread_cond_broadcast(&r->space_free);
                     break;
+                }
                 batch = nb;
                 cap = ncap;
             }
@@ -270,7 +275,7 @@ static int write_rows(sweep_run *r, int fd, int tty)
             if (rc)
                 break;
         }
-        if (r->next_write > r->last)
+        if (r->next_write > r->last || (r->stop && r->error[0]))
             break;
         int next_ready = r->slot[r->next_write % (int64_t)r->window] != NULL;
         if (r->workers_alive == 0 && !next_ready)
@@ -333,8 +338,9 @@ static int shard_from_env(int64_t *k, int64_t *n, char *err, size_t errlen)
     if (have > 0) {
         /* SLURM numbers tasks as the user's --array range says: offset by its minimum. */
         if (env_int("SLURM_ARRAY_TASK_COUNT", &count) <= 0
-            || env_int("SLURM_ARRAY_TASK_MIN", &lo) < 0) {
-            snprintf(err, errlen, "SLURM_ARRAY_TASK_ID is set but SLURM_ARRAY_TASK_COUNT is not");
+            || env_int("SLURM_ARRAY_TASK_MIN", &lo) <= 0) {
+            snprintf(err, errlen, "SLURM_ARRAY_TASK_ID is set but SLURM_ARRAY_TASK_COUNT or "
+                     "SLURM_ARRAY_TASK_MIN is not; give --shard K/N");
             return -1;
         }
         if (env_int("SLURM_ARRAY_TASK_STEP", &step) <= 0)
