@@ -94,6 +94,22 @@ rm part.2-of-3.csv.done
 check "an unfinished slice is refused" grep -q "is not complete" merge.err
 check "nothing written when refused" test ! -e bad.csv
 
+"$bin" sweep scan.lua --out part.jsonl --shard 2/2 2>/dev/null
+"$bin" sweep scan.lua --out part.jsonl --shard 1/2 2>/dev/null
+"$bin" merge merged.jsonl part.2-of-2.jsonl part.1-of-2.jsonl 2>/dev/null
+check "JSON Lines slices merge to the unsharded run" cmp -s merged.jsonl one.jsonl
+
+# Progress: a bar with rate and ETA on a terminal (script(1) gives it one), one summary
+# line otherwise.
+if command -v script > /dev/null; then
+  script -qec "$bin sweep scan.lua --out tty.csv" /dev/null > tty.out 2>&1
+  check "progress bar on a terminal" grep -q 'ETA.*' tty.out
+  check "progress bar shows the rate" grep -q 'points/s' tty.out
+fi
+"$bin" sweep scan.lua --out notty.csv 2> notty.err
+check "one summary line when not a terminal" test "$(wc -l < notty.err)" -eq 1
+check "summary names points, rate and jobs" grep -q '^coldprep sweep: 300 of 300 points in notty.csv .* points/s, [0-9]* jobs\?$' notty.err
+
 # Usage and file errors.
 "$bin" sweep scan.lua --jobs 0 2>/dev/null
 check "--jobs 0 is a usage error" test $? -eq 2
