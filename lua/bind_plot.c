@@ -64,6 +64,7 @@ typedef struct panel {
     size_t nx, ny;
     const char *zlabel;
     int zlog;
+    int legend_position; /* PL_POSITION_* flags */
     double hline[MAX_HLINES];
     const char *hline_label[MAX_HLINES];
     int nhlines;
@@ -261,11 +262,18 @@ static void read_panel(lua_State *L, int pt, panel *p)
 {
     static const char *const known[] = {"title", "xlabel", "ylabel", "xlog", "ylog", "ymin",
                                         "ymax", "lines", "bars", "map", "hlines", "categories",
-                                        NULL};
+                                        "legend", NULL};
+    static const char *const legends[] = {"top right", "top left", "bottom right",
+                                          "bottom left", "right", "left", "top", "bottom", NULL};
+    static const int legend_flags[] = {
+        PL_POSITION_TOP | PL_POSITION_RIGHT, PL_POSITION_TOP | PL_POSITION_LEFT,
+        PL_POSITION_BOTTOM | PL_POSITION_RIGHT, PL_POSITION_BOTTOM | PL_POSITION_LEFT,
+        PL_POSITION_RIGHT, PL_POSITION_LEFT, PL_POSITION_TOP, PL_POSITION_BOTTOM};
     cpl_check_args(L, pt, "plot.render (a panel)", known);
     p->title = opt_string_field(L, pt, "title");
     p->xlabel = opt_string_field(L, pt, "xlabel");
     p->ylabel = opt_string_field(L, pt, "ylabel");
+    p->legend_position = legend_flags[cpl_option(L, pt, FNAME, "legend", legends, "top right")];
     p->xlog = opt_bool_field(L, pt, "xlog", 0);
     p->ylog = opt_bool_field(L, pt, "ylog", 0);
     p->has_ymin = cpl_has(L, pt, "ymin");
@@ -431,7 +439,7 @@ static void draw_legend(const panel *p)
     PLFLT w, h;
     plschr(0, 0.75);
     pllegend(&w, &h, PL_LEGEND_BACKGROUND | PL_LEGEND_BOUNDING_BOX,
-             PL_POSITION_TOP | PL_POSITION_RIGHT | PL_POSITION_INSIDE, 0.02, 0.02, 0.06, 0, 1, 1,
+             p->legend_position | PL_POSITION_INSIDE, 0.02, 0.02, 0.06, 0, 1, 1,
              0, 0, n, opts, 1.0, 1.0, 2.0, 0.0, colours, text, NULL, NULL, NULL, NULL, colours,
              styles, widths, symcol, symscale, symnum, symbols);
     plschr(0, 1.0);
@@ -665,7 +673,8 @@ static const cpl_function plot_functions[] = {
      "  bars = {values = {...}, categories = {\"name\", ...}, notes = {\"text\", ...}},\n"
      "  categories = {\"name\", ...} (names for x = 1, 2, ... instead of numbers),\n"
      "  map = {x = {...increasing}, y = {...}, z = {{row for y[1]}, ...}, zlabel, zlog},\n"
-     "  hlines = {{y = 0.5, label = \"T/T_F = 0.5\"}, ...}}\n"
+     "  hlines = {{y = 0.5, label = \"T/T_F = 0.5\"}, ...},\n"
+     "  legend = \"top right\" | \"top left\" | \"bottom right\" | \"bottom left\" | \"right\" | ...}\n"
      "Labels use PLplot's text escapes (#u superscript, #d subscript, #gw omega).\n"
      "Draws with PLplot's Cairo drivers; returns {out, device}.  cp.plot.sweep, .map,\n"
      ".waterfall, .raman and .bands build common figures on it.\n"

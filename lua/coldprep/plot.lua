@@ -192,10 +192,18 @@ end
 
 local function raman(args)
   local fname = "plot.raman"
-  named.check(fname, args, { "time", "initial", "excited", "target", "pump", "stokes", "out", "title",
-    "time_unit" })
+  named.check(fname, args, { "time", "initial", "excited", "target", "pump", "stokes", "trace",
+    "pulses", "out", "title", "time_unit" })
   local out = named.typed(fname, args, "out", "string")
-  local time = named.typed(fname, args, "time", "table")
+  -- a trace from cp.raman.transfer{..., trace = n} supplies time and the populations
+  local src = args
+  if args.trace ~= nil then
+    src = named.typed(fname, args, "trace", "table")
+    for _, key in ipairs { "time", "initial", "excited", "target" } do
+      if args[key] ~= nil then named.fail(fname, "give either trace or %s, not both", key) end
+    end
+  end
+  local time = named.typed(fname, src, "time", "table")
   local n = #time
   if n < 2 then named.fail(fname, "time must hold at least 2 values (s)") end
   local unit = named.number(fname, args, "time_unit", 1e-6, "positive")
@@ -207,35 +215,56 @@ local function raman(args)
   local tlabel = unit == 1e-6 and "time (#gms)" or string.format("time (units of %g s)", unit)
   local pops = {}
   for _, key in ipairs { "initial", "excited", "target" } do
-    local v = series(fname, args, key, n)
+    local v = series(fname, src, key, n)
     if v then pops[#pops + 1] = { x = t, y = v, label = key } end
   end
   if #pops == 0 then named.fail(fname, "give at least one of initial, excited, target (populations)") end
-  local panels = {}
-  local rabi = {}
-  for _, key in ipairs { "pump", "stokes" } do
-    local v = series(fname, args, key, n)
-    if v then
+  -- Rabi frequencies: given per time, or Gaussian pulses in cp.raman's convention,
+  -- Omega(t) = rabi exp(-(t - tc)^2 / width^2), Stokes delay/2 before t = 0, pump delay/2 after
+  local pump, stokes = series(fname, args, "pump", n), series(fname, args, "stokes", n)
+  if args.pulses ~= nil then
+    if pump or stokes then named.fail(fname, "give either pulses or pump/stokes, not both") end
+    local pl = named.check(fname, named.typed(fname, args, "pulses", "table"),
+      { "rabi_pump", "rabi_stokes", "width", "delay" })
+    local rp, rs = named.number(fname, pl, "rabi_pump", nil, "nonnegative", "rad/s"),
+      named.number(fname, pl, "rabi_stokes", nil, "nonnegative", "rad/s")
+    local w, d = named.number(fname, pl, "width", nil, "positive", "s"), named.number(fname, pl, "delay", nil, nil, "s")
+    pump, stokes = {}, {}
+    for i = 1, n do
+      pump[i] = rp * math.exp(-((time[i] - d / 2) / w)^2)
+      stokes[i] = rs * math.exp(-((time[i] + d / 2) / w)^2)
+    end
+  end
+  local panels, rabi = {}, {}
+  for _, pair in ipairs { { "pump", pump }, { "stokes", stokes } } do
+    if pair[2] then
       local scaled = {}
-      for i = 1, n do scaled[i] = v[i] / (2 * math.pi * 1e6) end
-      rabi[#rabi + 1] = { x = t, y = scaled, label = key, dashed = key == "stokes" }
+      for i = 1, n do scaled[i] = pair[2][i] / (2 * math.pi * 1e6) end
+      rabi[#rabi + 1] = { x = t, y = scaled, label = pair[1], dashed = pair[1] == "stokes" }
     end
   end
   if #rabi > 0 then
     panels[#panels + 1] = { title = args.title, ylabel = "#gW/2#gp (MHz)", lines = rabi }
   end
   panels[#panels + 1] = { title = #rabi == 0 and args.title or nil, xlabel = tlabel,
-    ylabel = "population", ymin = 0, ymax = 1.05, lines = pops }
+    ylabel = "population", ymin = 0, ymax = 1.05, lines = pops, legend = "right" }
   return P.render { out = out, panels = panels, height = #panels == 2 and 750 or 500 }
 end
 
 cp.set_help(raman, [[
-plot.raman{time = {...} (s), initial = {...}, excited = {...}, target = {...}
-           [, pump = {...}, stokes = {...} (Rabi frequencies, rad/s)] , out = "raman.png"
+plot.raman{trace = RESULT.trace | time = {...} (s), initial = {...}, excited = {...},
+           target = {...} [, pump = {...}, stokes = {...} (rad/s) |
+           pulses = {rabi_pump, rabi_stokes, width, delay}], out = "raman.png"
            [, title] [, time_unit = 1e-6 (s)]}
 A Raman (STIRAP) time trace: the pulses' Rabi frequencies (as Omega/2pi in MHz) above and
-the populations of the three states below, against time.  Returns {out, device}.
-Example: cp.plot.raman{time = t, initial = p1, excited = p2, target = p3, out = "stirap.png"}]])
+the populations of the three states below, against time.  trace is what
+cp.raman.transfer{..., trace = n} returns; pulses draws Gaussian pulses in cp.raman's
+convention (Stokes delay/2 before t = 0, pump delay/2 after).  Returns {out, device}.
+Example: local a = {rabi_pump = 2*math.pi*5e6, rabi_stokes = 2*math.pi*5e6, width = 3e-6,
+                    delay = 3e-6}
+         local r = cp.raman.transfer{rabi_pump = a.rabi_pump, rabi_stokes = a.rabi_stokes,
+           width = a.width, delay = a.delay, gamma = 2*math.pi*6e6, trace = 400}
+         cp.plot.raman{trace = r.trace, pulses = a, out = "stirap.png"}]])
 
 local function bands(args)
   local fname = "plot.bands"

@@ -67,6 +67,17 @@ local _, rh = png_size(dir .. "/r.png")
 check("Raman trace (two panels, taller)", rh == 750, rh)
 cp.plot.bands{quasimomenta = {-1, 0, 1}, energies_er = {{1, 1}, {0, 4}, {1, 1}}, out = dir .. "/b.png"}
 check("band structure", png_size(dir .. "/b.png") == 900)
+-- straight from the models: a STIRAP trace of cp.raman.transfer and cp.lattice.bands
+local a = {rabi_pump = 2 * math.pi * 5e6, rabi_stokes = 2 * math.pi * 5e6, width = 3e-6, delay = 3e-6}
+local tr = cp.raman.transfer{rabi_pump = a.rabi_pump, rabi_stokes = a.rabi_stokes, width = a.width,
+  delay = a.delay, gamma = 2 * math.pi * 6e6, trace = 100}
+cp.plot.raman{trace = tr.trace, pulses = a, out = dir .. "/rt.svg"}
+check("Raman trace from cp.raman.transfer", (slurp(dir .. "/rt.svg") or ""):find("<svg", 1, true) ~= nil)
+local q = {}
+for i = 0, 20 do q[#q + 1] = -1 + i / 10 end
+local lb = cp.lattice.bands{depth_er = 5, bands = 3, quasimomenta = q}
+cp.plot.bands{quasimomenta = q, energies_er = lb.energies_er, depth_er = 5, out = dir .. "/lb.pdf"}
+check("bands from cp.lattice.bands", (slurp(dir .. "/lb.pdf") or ""):sub(1, 5) == "%PDF-")
 
 -- Bad input.
 raises("unknown format", "must end in .png, .svg or .pdf", cp.plot.render,
@@ -88,6 +99,12 @@ raises("sweep: unknown column", "no row has a value in column 'nn'", cp.plot.swe
   {data = sw, x = "a", y = "nn", out = dir .. "/x.png"})
 raises("waterfall: zero molecules", "positive finite number", cp.plot.waterfall,
   {budget = {stages = {{name = "a", number = 0}}}, out = dir .. "/x.png"})
+raises("raman: trace and time both", "either trace or time", cp.plot.raman,
+  {trace = tr.trace, time = {0, 1}, out = dir .. "/x.png"})
+raises("raman: negative width", "'width' must be a finite positive number", cp.plot.raman,
+  {trace = tr.trace, pulses = {rabi_pump = 1, rabi_stokes = 1, width = -1, delay = 0}, out = dir .. "/x.png"})
+raises("legend position", "must be one of", cp.plot.render,
+  {out = dir .. "/x.png", panels = {{legend = "middle", lines = {{x = {1, 2}, y = {1, 2}}}}}})
 raises("bands: ragged energies", "must list 2 band energies", cp.plot.bands,
   {quasimomenta = {0, 1}, energies_er = {{1, 2}, {1}}, out = dir .. "/x.png"})
 check("help texts", cp.get_help(cp.plot.render) and cp.get_help(cp.plot.sweep) and cp.get_help(cp.plot.map)
