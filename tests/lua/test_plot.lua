@@ -103,7 +103,7 @@ raises("raman: trace and time both", "either trace or time", cp.plot.raman,
   {trace = tr.trace, time = {0, 1}, out = dir .. "/x.png"})
 raises("raman: negative width", "'width' must be a finite positive number", cp.plot.raman,
   {trace = tr.trace, pulses = {rabi_pump = 1, rabi_stokes = 1, width = -1, delay = 0}, out = dir .. "/x.png"})
-raises("legend position", "must be one of", cp.plot.render,
+raises("legend position", "is not one of", cp.plot.render,
   {out = dir .. "/x.png", panels = {{legend = "middle", lines = {{x = {1, 2}, y = {1, 2}}}}}})
 raises("bands: ragged energies", "must list 2 band energies", cp.plot.bands,
   {quasimomenta = {0, 1}, energies_er = {{1, 2}, {1}}, out = dir .. "/x.png"})
