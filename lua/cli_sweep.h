@@ -1,12 +1,16 @@
 /*
  * `coldprep sweep` and `coldprep merge` (docs/cli-sweep.md), and the sweep output files
  * they share: a data file (CSV with a header, or JSON Lines, one row per point, first
- * column "point") plus, once the run is complete, a small marker PATH.done recording which
+ * column "point"), while it runs a journal PATH.pending of rows finished ahead of an
+ * earlier point, and once the run is complete a small marker PATH.done recording which
  * slice of which sweep the file holds.
  */
 #ifndef COLDPREP_CLI_SWEEP_H
 #define COLDPREP_CLI_SWEEP_H
 
+#include <lua.h>
+#include <pthread.h>
+#include <signal.h>
 #include <stdint.h>
 #include <stdio.h>
 #include <sys/types.h>
@@ -35,6 +39,61 @@ void cpl_shard_range(int64_t count, int64_t k, int64_t n, int64_t *first, int64_
  * bytes of an incomplete last row after it.  Returns 0, or -1 with a message in err. */
 int cpl_sweep_scan(const char *path, const char *format, const char *header, int64_t first,
                    int64_t *next, off_t *good_end, off_t *torn, char *err, size_t errlen);
+
+/* One finished row: its point number and its text (with its line end), malloc'd. */
+typedef struct cpl_row {
+    int64_t point;
+    char *text;
+    size_t len;
+} cpl_row;
+
+/* Read the complete rows of a journal PATH.pending whose points lie in [lo, hi], sorted by
+ * point, duplicates dropped; an incomplete last row is ignored.  *rows is malloc'd (free
+ * each text and the array); a missing file gives no rows.  0, or -1 with err. */
+int cpl_journal_read(const char *path, const char *format, int64_t lo, int64_t hi,
+                     cpl_row **rows, size_t *n, char *err, size_t errlen);
+
+/* Rows each worker may run ahead of the first row not yet written. */
+enum { CPL_SWEEP_WINDOW_PER_JOB = 64 };
+
+/* A run of the engine in cli_sweep_run.c.  The caller fills the first block, with the
+ * output open for appending after its finished rows and the journal open for appending
+ * and holding exactly the recovered rows (journal_rows of them); the engine owns the
+ * recovered rows' texts. */
+typedef struct cpl_sweep_run {
+    const char *file, *out, *journal, *format, *header;
+    int64_t count, last, next_write; /* next_write: the first point not yet in the file */
+    int fd, jfd;
+    cpl_row *recovered;
+    size_t nrecovered;
+    long journal_rows;
+
+    /* the engine's own state */
+    long jobs_used;
+    double elapsed;
+    char error[1024]; /* the first error; "" if none */
+    int64_t next_claim;
+    size_t window, waiting, rec_write, rec_claim;
+    struct { char *text; size_t len; } *slot; /* row of point i at slot[i % window] */
+    char *batch;
+    size_t batch_len, batch_cap;
+    int stop, workers_alive;
+    pthread_mutex_t mu;
+    pthread_cond_t space_free, progress;
+} cpl_sweep_run;
+
+/* Compute every point from next_write to last on `jobs` threads (fewer if fewer points
+ * remain), appending rows in point order, until done, an error, or *stop_signal becomes
+ * non-zero (then the points in progress finish).  Draws a progress bar on stderr when tty.
+ * Returns 0, or -1 with r->error. */
+int cpl_sweep_execute(cpl_sweep_run *r, long jobs, volatile sig_atomic_t *stop_signal, int tty);
+
+/* Run a sweep file in L (cp.sweep.load) and leave the compiled sweep on the stack; 0, or -1
+ * with the error message on the stack. */
+int cpl_sweep_load(lua_State *L, const char *file, const char *out, const char *format);
+
+/* write(2) all of buf, retrying after EINTR; 0 or -1 (errno set). */
+int cpl_write_all(int fd, const char *buf, size_t len);
 
 /* Write PATH.done atomically (temporary file + rename); read it back.  0 or -1 + err. */
 int cpl_marker_write(const char *path, const cpl_sweep_marker *m, char *err, size_t errlen);

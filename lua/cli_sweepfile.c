@@ -185,3 +185,96 @@ int cpl_marker_read(const char *path, cpl_sweep_marker *m, char *err, size_t err
     snprintf(m->format, sizeof m->format, "%.*s", (int)strcspn(fmt, "\""), fmt);
     return 0;
 }
+
+static int row_order(const void *a, const void *b)
+{
+    int64_t pa = ((const cpl_row *)a)->point, pb = ((const cpl_row *)b)->point;
+    return (pa > pb) - (pa < pb);
+}
+
+int cpl_journal_read(const char *path, const char *format, int64_t lo, int64_t hi,
+                     cpl_row **rows, size_t *n, char *err, size_t errlen)
+{
+    *rows = NULL;
+    *n = 0;
+    err[0] = '\0';
+    FILE *f = fopen(path, "rb");
+    if (f == NULL)
+        return errno == ENOENT ? 0 : (snprintf(err, errlen, "cannot open %s: %s", path,
+                                               strerror(errno)), -1);
+    char *text = NULL;
+    size_t len = 0, cap = 0, got;
+    char buf[1 << 16];
+    int rc = 0;
+    while ((got = fread(buf, 1, sizeof buf, f)) > 0) {
+        if (len + got > cap) {
+            cap = 2 * (len + got);
+            char *t = realloc(text, cap);
+            if (t == NULL) {
+                rc = -1;
+                break;
+            }
+            text = t;
+        }
+        memcpy(text + len, buf, got);
+        len += got;
+    }
+    fclose(f);
+    int csv = strcmp(format, "csv") == 0, quoted = 0;
+    size_t start = 0, cap_rows = 0;
+    for (size_t i = 0; rc == 0 && i < len; i++) {
+        if (csv && text[i] == '"')
+            quoted = !quoted;
+        if (text[i] != '\n' || quoted)
+            continue;
+        int64_t point;
+        size_t rlen = i + 1 - start;
+        if (row_point(text + start, rlen, format, &point) != 0) {
+            snprintf(err, errlen, "%s: a row at byte %zu has no point number; remove the file to "
+                     "recompute its rows", path, start);
+            rc = -1;
+            break;
+        }
+        if (point >= lo && point <= hi) {
+            if (*n == cap_rows) {
+                cap_rows = 2 * cap_rows + 16;
+                cpl_row *nr = realloc(*rows, cap_rows * sizeof *nr);
+                if (nr == NULL) {
+                    rc = -1;
+                    break;
+                }
+                *rows = nr;
+            }
+            char *copy = malloc(rlen);
+            if (copy == NULL) {
+                rc = -1;
+                break;
+            }
+            memcpy(copy, text + start, rlen);
+            (*rows)[(*n)++] = (cpl_row){point, copy, rlen};
+        }
+        start = i + 1;
+    }
+    free(text);
+    if (rc != 0) {
+        if (!err[0])
+            snprintf(err, errlen, "out of memory reading %s", path);
+        for (size_t i = 0; i < *n; i++)
+            free((*rows)[i].text);
+        free(*rows);
+        *rows = NULL;
+        *n = 0;
+        return -1;
+    }
+    qsort(*rows, *n, sizeof **rows, row_order);
+    size_t kept = 0;
+    for (size_t i = 0; i < *n; i++) {
+        if (kept > 0 && (*rows)[kept - 1].point == (*rows)[i].point) {
+            free((*rows)[i].text);
+            continue;
+        }
+        (*rows)[kept++] = (*rows)[i];
+    }
+    *n = kept;
+    return 0;
+}
