@@ -266,7 +266,8 @@ int cpl_journal_read(const char *path, const char *format, int64_t lo, int64_t h
         *n = 0;
         return -1;
     }
-    qsort(*rows, *n, sizeof **rows, row_order);
+    if (*n > 1)
+        qsort(*rows, *n, sizeof **rows, row_order);
     size_t kept = 0;
     for (size_t i = 0; i < *n; i++) {
         if (kept > 0 && (*rows)[kept - 1].point == (*rows)[i].point) {
