@@ -44,7 +44,7 @@ end
 
 -- 1. Throughput: the demo plan's sweep (scripts/examples/sweep_tidewater.lua, 10 000
 -- points at about 0.1-0.3 s each) when cp.plan exists, on the slice BENCH_SWEEP_SHARD
--- (default 37/100: 100 of its points, since the whole sweep takes an hour of CPU);
+-- (default 5/20: 500 of its points; the whole sweep takes about 20 min of CPU);
 -- otherwise a plan-like function over all 10 000 points.
 local top = bin:match("^(.*)/build[^/]*/[^/]+$") or "."
 local function env(name)
@@ -56,7 +56,7 @@ local shard = env("BENCH_SWEEP_SHARD")
 local what
 if not file and cp.plan and cp.stages then
   file = top .. "/scripts/examples/sweep_tidewater.lua"
-  shard = shard or "37/100"
+  shard = shard or "5/20"
   what = "the demo plan (scripts/examples/sweep_tidewater.lua)"
 elseif file then
   what = file
