@@ -101,7 +101,7 @@ raises("waterfall: zero molecules", "positive finite number", cp.plot.waterfall,
   {budget = {stages = {{name = "a", number = 0}}}, out = dir .. "/x.png"})
 raises("raman: trace and time both", "either trace or time", cp.plot.raman,
   {trace = tr.trace, time = {0, 1}, out = dir .. "/x.png"})
-raises("raman: negative width", "'width' must be a finite positive number", cp.plot.raman,
+raises("raman: negative width", "argument 'width' = -1 s is out of range", cp.plot.raman,
   {trace = tr.trace, pulses = {rabi_pump = 1, rabi_stokes = 1, width = -1, delay = 0}, out = dir .. "/x.png"})
 raises("legend position", "is not one of", cp.plot.render,
   {out = dir .. "/x.png", panels = {{legend = "middle", lines = {{x = {1, 2}, y = {1, 2}}}}}})
