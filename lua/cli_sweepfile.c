@@ -1,8 +1,9 @@
 /*
  * Sweep output files as `coldprep sweep --resume` and `coldprep merge` read them: a
  * scanner that checks the row numbering and finds where the last complete row ends (a
- * row torn by SIGKILL has no line end yet), the balanced shard ranges, and the PATH.done
- * marker written once a file is complete.  CSV rows end with CRLF outside quotes; JSON
+ * row torn by SIGKILL has no line end yet), the reader of the journal PATH.pending (rows
+ * finished out of order), the balanced shard ranges, and the PATH.done marker written once
+ * a file is complete.  CSV rows end with CRLF outside quotes; JSON
  * Lines rows end with LF (JSON strings escape line breaks).
  */
 #include <errno.h>
