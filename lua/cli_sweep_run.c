@@ -16,6 +16,7 @@
 #include <fcntl.h>
 #include <inttypes.h>
 #include <lauxlib.h>
+#include <lualib.h>
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
@@ -229,14 +230,42 @@ int cpl_sweep_load(lua_State *L, const char *file, const char *out, const char *
     return lua_pcall(L, 1, 1, 0) == LUA_OK ? 0 : -1;
 }
 
+int luaopen_coldprep(lua_State *L);
+
+static int open_worker_libraries(lua_State *L)
+{
+    luaL_openlibs(L);
+    luaL_requiref(L, "coldprep", luaopen_coldprep, 0);
+    lua_pushvalue(L, -1);
+    lua_setglobal(L, "coldprep");
+    lua_setglobal(L, "cp");
+    return 0;
+}
+
+/* A worker's Lua state: the standard libraries and `cp`, as in scripts, but not built by
+ * cpl_new_state, whose Ctrl-C machinery keeps process-wide records meant for the one
+ * interactive thread (workers never see signals: the main thread takes them). */
+static lua_State *worker_state(void)
+{
+    lua_State *L = luaL_newstate();
+    if (L == NULL)
+        return NULL;
+    lua_pushcfunction(L, open_worker_libraries);
+    if (lua_pcall(L, 0, 0, 0) != LUA_OK) {
+        lua_close(L);
+        return NULL;
+    }
+    return L;
+}
+
 /* One worker: its own Lua state, then claim, compute and deposit rows until done. */
 static void *worker(void *arg)
 {
     cpl_sweep_run *r = arg;
     char msg[1024];
-    lua_State *L = cpl_new_state();
+    lua_State *L = worker_state();
     if (L == NULL) {
-        fail(r, "a worker could not create its Lua state");
+        fail(r, "a worker could not create its Lua state (out of memory?)");
         goto out;
     }
     if (cpl_sweep_load(L, r->file, r->out, r->format) != 0) {
