@@ -63,7 +63,7 @@ local function finite(v)
 end
 
 -- A number under `key`.  opt: optional (return opt.default when absent), positive,
--- nonnegative, min, max (inclusive), below (exclusive upper bound).
+-- nonnegative, min, max (inclusive).
 function M.number(fname, args, key, unit, opt)
   opt = opt or {}
   local v = args[key]
@@ -106,13 +106,16 @@ function M.option(fname, args, key, options, default)
     table.concat(options, ", "))
 end
 
+-- The trap frequencies the thermodynamics model accepts (rad/s; as in core/check_int.h).
+local OMEGA_RANGE = { min = 1e-2, max = 1e7 }
+
 -- Three trap frequencies (rad/s) as a list {wx, wy, wz}; a single number means isotropic.
 function M.frequencies(fname, args, key, opt)
   opt = opt or {}
   local v = args[key]
   if v == nil and opt.optional then return nil end
   if type(v) == "number" then
-    local w = M.number(fname, args, key, "rad/s", { positive = true })
+    local w = M.number(fname, args, key, "rad/s", OMEGA_RANGE)
     return { w, w, w }
   end
   if type(v) ~= "table" or #v ~= 3 then
@@ -122,7 +125,7 @@ function M.frequencies(fname, args, key, opt)
   local out = {}
   for i = 1, 3 do
     out[i] = M.number(fname, { [key .. "[" .. i .. "]"] = v[i] }, key .. "[" .. i .. "]", "rad/s",
-      { positive = true })
+      OMEGA_RANGE)
   end
   return out
 end

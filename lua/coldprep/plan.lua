@@ -22,6 +22,14 @@ Plan.__index = Plan
 local DEFAULT_THRESHOLD = { fermion = 0.5, boson = 1.0 }
 local DEFAULT_PERTURBATION = 0.1
 
+-- An error message from inside the library without the library's own source position
+-- ("lua/coldprep/stages.lua:83: "), which tells a user nothing; positions in the user's
+-- own files are kept.
+local function plain(msg)
+  msg = tostring(msg)
+  return (msg:gsub("^[^:\n]*coldprep/%w+%.lua:%d+: ", ""))
+end
+
 -- ---- the start ------------------------------------------------------------------------
 
 local CLOUD_KEYS = { "atom", "number", "trap_frequencies", "beam_power" }
@@ -46,7 +54,9 @@ local function start_cloud(where, c, molecule, temperature)
     trap_frequencies = A.frequencies(where, c, "trap_frequencies"),
     beam_power = A.number(where, c, "beam_power", "W", { optional = true, positive = true }),
   }
-  return S.derive(cloud)
+  local ok, err = pcall(S.derive, cloud)
+  if not ok then A.fail(where, "%s", plain(err)) end
+  return cloud
 end
 
 -- The starting sample from the `start` table of a plan.
@@ -125,6 +135,18 @@ function P.new(args)
   return self
 end
 
+-- For a mixture the followed fields are copies of the minority cloud: a stage that
+-- changed them, not the clouds, would see its change silently undone.
+local function check_mixture(before, after, who)
+  local m = after.atoms[S.minority(after.atoms)]
+  for _, k in ipairs { "number", "temperature" } do
+    if after[k] ~= m[k] and after[k] ~= before[k] then
+      error(string.format("%s: sample field '%s' changed, but in an atom mixture the clouds "
+        .. "s.atoms[1] and s.atoms[2] hold the numbers and temperatures: change those", who, k), 0)
+    end
+  end
+end
+
 -- Run stages first..last on sample s; returns the list of {stage, before, after, info}
 -- and the final sample.
 local function run_stages(self, s, first, last)
@@ -139,16 +161,36 @@ local function run_stages(self, s, first, last)
       local who = string.format("stage %d (%s)", i, st.name)
       local ok
       ok, after, info = pcall(st.run, st, S.copy(before))
-      if not ok then error(who .. ": " .. tostring(after), 0) end
+      if not ok then error(who .. ": " .. plain(after), 0) end
       S.check(after, who)
+      -- the kind a stage hands on is the one the order check assumed
+      local want = st.produces or before.kind
+      if after.kind ~= want then
+        error(string.format("%s: sample field 'kind' = %s, but the stage declares that it hands on "
+          .. "%s (give produces = \"%s\" to cp.stages.custom)", who, after.kind, want, after.kind), 0)
+      end
       info = info or {}
       after.elapsed = before.elapsed + (info.duration or 0)
-      if after.kind == "atom-mixture" then
-        -- a stage acting on a mixture changes the clouds; the followed fields follow them
-        for _, c in ipairs(after.atoms) do S.derive(c) end
-        S.follow(after, after.atoms[S.minority(after.atoms)])
-      else
-        S.derive(after)
+      ok, info.error = pcall(function()
+        if after.kind == "atom-mixture" then
+          check_mixture(before, after, who)
+          -- a stage acting on a mixture changes the clouds; the followed fields follow them
+          for _, c in ipairs(after.atoms) do S.derive(c) end
+          S.follow(after, after.atoms[S.minority(after.atoms)])
+        else
+          S.derive(after)
+        end
+      end)
+      if not ok then
+        local msg = plain(info.error)
+        error(msg:find(who, 1, true) == 1 and msg
+          or string.format("%s: the sample it hands on is outside the thermodynamics model: %s", who, msg), 0)
+      end
+      info.error = nil
+      if after.number > before.number * (1 + 1e-12) then
+        info.notes = info.notes or {}
+        table.insert(info.notes, 1, string.format("the number of particles rose by a factor %.3g: "
+          .. "check that this stage really adds particles", after.number / before.number))
       end
     end
     steps[#steps + 1] = { index = i, stage = st, before = before, after = after, info = info }

@@ -202,8 +202,17 @@ function M.custom(args)
       if type(duration) ~= "number" or not (duration >= 0) or duration == math.huge then
         error(string.format("record field 'duration' = %s must be >= 0 (s)", tostring(duration)), 0)
       end
+      local notes = rec.notes or {}
+      if type(notes) ~= "table" then
+        error(string.format("record field 'notes' must be a list of strings, got %s", type(notes)), 0)
+      end
+      for i, n in ipairs(notes) do
+        if type(n) ~= "string" then
+          error(string.format("record field 'notes[%d]' must be a string, got %s", i, type(n)), 0)
+        end
+      end
       if type(out) == "table" and self.produces then out.kind = self.produces end
-      return out, { duration = duration, notes = rec.notes or {} }
+      return out, { duration = duration, notes = notes }
     end,
   })
 end

@@ -142,6 +142,32 @@ T.raises(function() cp.plan { start = start(), stages = { raiser } }:run() end,
 T.raises(function() cp.stages.custom { fn = function() end } end,
   { "stages.custom", "'name'" }, "custom stage without a name")
 
+-- PLAN-F7b: a custom stage that changes what it must not, or hands on a sample outside the
+-- thermodynamics model, is an error naming the stage and the field (not a silent no-op or
+-- a message from deep inside the library).
+local top_only = cp.stages.custom { name = "lose half", fn = function(s) s.number = s.number / 2; return s end }
+T.raises(function() cp.plan { start = start(), stages = { top_only } }:run() end,
+  { "stage 1 (lose half)", "'number'", "s.atoms[1]" }, "mixture changed through s.number, not s.atoms")
+local magic = cp.stages.custom { name = "magic", fn = function(s) s.kind = "ground-state-molecules"; return s end }
+T.raises(function() cp.plan { start = start(), stages = { magic, keep(1) } }:run() end,
+  { "stage 1 (magic)", "'kind'", "produces" }, "undeclared change of kind")
+local frozen = cp.stages.custom { name = "freeze", fn = function(s) s.temperature = 1e-15; return s end }
+local err = select(2, pcall(function() cp.plan { start = start(), stages = { convert(0.5), frozen } }:run() end))
+T.check(tostring(err):find("^stage 2 %(freeze%): .*temperature") ~= nil
+  and not tostring(err):find("coldprep/", 1, true), "too cold a sample: named stage, no library path: " .. tostring(err))
+T.raises(function() cp.plan { start = start(), stages = { cp.stages.custom { name = "n", fn = function(s)
+  return s, { notes = "one note" } end } } }:run() end, { "stage 1 (n)", "'notes'" }, "notes must be a list")
+local grow = cp.plan { start = start(), stages = { convert(0.5), keep(2, "reload") } }:run { limiting = false }
+T.check(grow.stages[2].notes[1]:find("rose by a factor 2", 1, true) ~= nil, "a stage that adds particles is flagged")
+local s1 = start()
+s1.atoms[1].trap_frequencies = 1e-5
+T.raises(function() cp.plan { start = s1, stages = { keep(1) } } end,
+  { "plan: start.atoms[1]", "'trap_frequencies'", "1e-05" }, "absurd trap frequency")
+s1 = start()
+s1.temperature = 1e-14
+T.raises(function() cp.plan { start = s1, stages = { keep(1) } } end,
+  { "plan: start.atoms[1]", "temperature" }, "a temperature below the model's range names the cloud")
+
 -- PLAN-F8: losing everything is a verdict, not a crash.
 local gone = cp.plan { start = start(), stages = { convert(0.5), keep(1e-9, "wipe"), heat(2) } }:run()
 T.check(not gone.degenerate and gone.verdict:find("no molecules survive", 1, true), "empty plan verdict")
