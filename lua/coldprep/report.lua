@@ -38,7 +38,8 @@ local function record(index, name, s, info, start_number, before_number)
     entropy_per_particle = s.entropy_per_particle,
     efficiency = before_number and (before_number > 0 and s.number / before_number or 0) or 1,
     cumulative_efficiency = s.number / start_number,
-    duration = info and info.duration or 0, elapsed = s.elapsed,
+    -- an unknown duration is NaN: "-" in the table, empty in CSV, null in JSON
+    duration = info and (info.duration_unknown and 0 / 0 or info.duration) or 0, elapsed = s.elapsed,
     adiabatic = info and info.adiabatic or false,
     notes = {},
   }

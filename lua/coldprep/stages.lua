@@ -477,12 +477,18 @@ local function leftover_note(s, notes)
   end
 end
 
-local function thermal_note(s, notes, what)
+-- The hold and evaporation models assume a thermal (non-degenerate) cloud; say so when the
+-- cloud `when` ("starts" or "ends") the stage degenerate.
+local function thermal_note(s, notes, what, when)
   if s.degeneracy < 1 then
-    notes[#notes + 1] = string.format("the %s model treats the cloud as thermal; here %s = %.2g",
-      what, s.degeneracy_name, s.degeneracy)
+    notes[#notes + 1] = string.format("the %s model treats the cloud as thermal; it %s at %s = %.2g",
+      what, when, s.degeneracy_name, s.degeneracy)
   end
 end
+
+-- Evaporation longer than this (s) gets a note that one-body loss is missing from it
+-- (common practice, no source: molecule lifetimes in optical traps are of order seconds).
+local LONG_EVAPORATION = 1
 
 -- cp.stages.hold{duration (s) [, lifetime (s), heating_rate (K/s), loss_rate (m^3/s), label]}
 function M.hold(args)
@@ -507,7 +513,7 @@ function M.hold(args)
           s.lattice.heating_rate / cp.units.nK)
       end
       leftover_note(s, notes)
-      thermal_note(s, notes, "hold")
+      thermal_note(s, notes, "hold", "starts")
       local r = MODEL.hold(s, beta, p.lifetime, heating, p.duration)
       return S.with(s, { number = r.number, temperature = r.temperature }),
         { duration = p.duration, notes = notes }
@@ -525,6 +531,9 @@ local function induced_dipole_debye(mol, field)
   local B = cp.consts.h * mol.rot_const_hz
   return math.min(d * d * field / (3 * B), d) / cp.consts.debye, d * field / B
 end
+
+-- The largest elastic-to-loss ratio cp.collisions.evaporation accepts.
+local NO_LOSS_RATIO = 1e12
 
 -- cp.stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J),
 --   electric_field (V/m) | cross_section (m^2) [, ratio, kappa, loss_rate, label]}
@@ -544,6 +553,10 @@ function M.evaporate(args)
     kappa = A.number(fname, args, "kappa", "kB T", { optional = true, min = 0, max = 2 }),
     loss_rate = A.number(fname, args, "loss_rate", "m^3/s", { optional = true, nonnegative = true, max = 1e-8 }),
   }
+  if p.keep == 1 then
+    A.fail(fname, "argument 'keep' = 1 fraction is out of range; allowed (0, 1) fraction "
+      .. "(an evaporation must lose particles)")
+  end
   local ends = 0
   for _, k in ipairs { "final_number", "keep", "final_temperature", "final_depth" } do
     if p[k] then ends = ends + 1 end
@@ -576,26 +589,56 @@ function M.evaporate(args)
           .. "dipolar elastic cross section %.3g cm^2", d, p.electric_field / 1e5, x,
           x > 0.3 and ", beyond the weak-field formula" or "", sigma / 1e-4)
       end
-      local ratio = p.ratio or cp.collisions.collision_ratio { cross_section = sigma, rate = beta,
-        mass = mol.mass, temperature = s.temperature }.ratio
-      notes[#notes + 1] = string.format("ratio of elastic to loss collisions %.3g at the start", ratio)
+      local ratio = p.ratio
+      if not ratio and beta == 0 then
+        -- no two-body loss: the largest ratio the scaling model takes stands for "no loss"
+        ratio = NO_LOSS_RATIO
+        notes[#notes + 1] = string.format("no two-body loss: ratio of elastic to loss collisions "
+          .. "taken as %.0e, the model's limit", ratio)
+      else
+        ratio = ratio or cp.collisions.collision_ratio { cross_section = sigma, rate = beta,
+          mass = mol.mass, temperature = s.temperature }.ratio
+        notes[#notes + 1] = string.format("ratio of elastic to loss collisions %.3g at the start", ratio)
+      end
       leftover_note(s, notes)
-      thermal_note(s, notes, "evaporation")
+      thermal_note(s, notes, "evaporation", "starts")
       local target = { number = p.final_number or (p.keep and p.keep * s.number),
         temperature = p.final_temperature or (p.final_depth and p.final_depth / (p.eta * cp.consts.kB)) }
+      if target.number and target.number >= s.number then
+        error(string.format("argument 'final_number' = %.4g is not below the %.4g molecules the "
+          .. "evaporation starts with", target.number, s.number), 0)
+      end
+      if target.temperature and target.temperature >= s.temperature then
+        error(string.format("argument '%s' asks for %.4g nK, not below the %.4g nK the evaporation "
+          .. "starts at%s", p.final_temperature and "final_temperature" or "final_depth",
+          target.temperature / cp.units.nK, s.temperature / cp.units.nK,
+          p.final_depth and string.format(" (final_depth / (eta kB) at eta = %g)", p.eta) or ""), 0)
+      end
+      if s.lattice then
+        notes[#notes + 1] = "in the lattice: the evaporation model uses the envelope trap of the same "
+          .. "entropy; evaporation out of a deep lattice is not what it describes"
+      end
       local r = MODEL.evaporate(s, p.eta, p.kappa, ratio, target)
       if r.efficiency <= 0 then
         notes[#notes + 1] = string.format("evaporation does not gain phase-space density "
           .. "(efficiency %.2g): losses outrun thermalisation", r.efficiency)
       end
-      local duration = 0
+      local out = S.with(s, { number = r.number, temperature = r.temperature })
+      if s.degeneracy >= 1 then thermal_note(out, notes, "evaporation", "ends") end
+      local duration, unknown = 0, false
       if sigma then
         duration = MODEL.evaporation_time(s, r, p.eta, sigma, beta)
+        if duration > LONG_EVAPORATION then
+          notes[#notes + 1] = string.format("the evaporation takes %.3g s%s: one-body loss "
+            .. "(background gas, light scattering) during it is not modelled, and molecule "
+            .. "lifetimes in optical traps are typically seconds", duration,
+            duration > 60 and " (minutes: not a realistic plan)" or "")
+        end
       else
-        notes[#notes + 1] = "duration unknown (only the collision ratio was given)"
+        unknown = true
+        notes[#notes + 1] = "duration unknown (only the collision ratio was given); not counted in the elapsed time"
       end
-      return S.with(s, { number = r.number, temperature = r.temperature }),
-        { duration = duration, notes = notes }
+      return out, { duration = duration, duration_unknown = unknown, notes = notes }
     end,
   })
 end
@@ -743,8 +786,10 @@ Evaporation of ground-state molecules at truncation eta (5..30) in the fixed tra
 (cp.collisions.evaporation, the scaling model).  Elastic collisions: the dipolar cross
 section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_field
 (d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
-collisions.  Ends at a number, a kept fraction, a temperature, or a trap depth (T =
-depth/(eta kB)).  Example: cp.stages.evaporate{eta = 8, final_temperature = 60e-9,
+collisions.  Ends at a number, a kept fraction (0 < keep < 1), a temperature, or a trap
+depth (T = depth/(eta kB)), which must lie below the sample's.  Duration from the
+trajectory (unknown, NaN, with only a ratio); one-body loss is not modelled (a note
+flags evaporations longer than 1 s).  Example: cp.stages.evaporate{eta = 8, final_temperature = 60e-9,
 electric_field = 0.6e5}]],
 }
 for name, text in pairs(HELP) do cp.set_help(M[name], text) end
