@@ -130,7 +130,7 @@ function R.budget(run)
   b.stages = {}
   for k, st in ipairs(run.steps) do
     b.stages[k] = record(st.index, st.stage.name, st.after, st.info, run.start.number, st.before.number)
-    b.stages[k].adiabatic = st.stage.adiabatic
+    b.stages[k].adiabatic = st.stage.adiabatic == true
   end
   b.final = b.stages[#b.stages]
   b.degenerate = run.verdict.degenerate
@@ -169,9 +169,22 @@ local COLUMNS = {
   { "time", "ms", "%.4g", function(r) return r.duration / cp.units.ms end, 8 },
 }
 
+-- Text as it takes one line of the table: line breaks, tabs and other control characters
+-- become spaces.
+local function one_line(text)
+  return (tostring(text):gsub("%c", " "))
+end
+
+-- Characters on screen: UTF-8 sequences count once (bytes of invalid UTF-8 each once).
+local function display_width(text)
+  return utf8.len(text) or #text
+end
+
+-- Text padded to |width| characters (width < 0: left-aligned).
 local function cell(text, width)
-  if width < 0 then return text .. string.rep(" ", -width - #text) end
-  return string.rep(" ", width - #text) .. text
+  local pad = string.rep(" ", math.max(0, math.abs(width) - display_width(text)))
+  if width < 0 then return text .. pad end
+  return pad .. text
 end
 
 local function wrap(text, indent, width)
@@ -191,23 +204,31 @@ end
 -- The printed report as one string.
 function Budget:text()
   local out = {}
-  out[#out + 1] = string.format("Preparation budget: %s (%s)", self.name, self.species)
-  local head, units = {}, {}
-  for _, c in ipairs(COLUMNS) do
-    head[#head + 1] = cell(c[1], c[5])
-    units[#units + 1] = cell(c[2], c[5])
-  end
-  out[#out + 1] = table.concat(head, " ")
-  out[#out + 1] = table.concat(units, " ")
-  local function row(r)
+  out[#out + 1] = one_line(string.format("Preparation budget: %s (%s)", self.name, self.species))
+  -- every cell's text first, then each column as wide as its widest cell (a long label
+  -- or a long number widens its column instead of shifting the row)
+  local rows = {}
+  for _, r in ipairs { self.start, table.unpack(self.stages) } do
     local cells = {}
-    for _, c in ipairs(COLUMNS) do
-      cells[#cells + 1] = cell(fmt(c[4](r), c[3]), c[5])
-    end
-    out[#out + 1] = table.concat(cells, " ")
+    for i, c in ipairs(COLUMNS) do cells[i] = one_line(fmt(c[4](r), c[3])) end
+    rows[#rows + 1] = cells
   end
-  row(self.start)
-  for _, r in ipairs(self.stages) do row(r) end
+  local widths = {}
+  for i, c in ipairs(COLUMNS) do
+    local w = math.max(math.abs(c[5]), display_width(c[1]), display_width(c[2]))
+    for _, cells in ipairs(rows) do w = math.max(w, display_width(cells[i])) end
+    widths[i] = c[5] < 0 and -w or w
+  end
+  local function line(texts)
+    local cells = {}
+    for i, t in ipairs(texts) do cells[i] = cell(t, widths[i]) end
+    out[#out + 1] = (table.concat(cells, " "):gsub("%s+$", ""))
+  end
+  local head, units = {}, {}
+  for i, c in ipairs(COLUMNS) do head[i], units[i] = c[1], c[2] end
+  line(head)
+  line(units)
+  for _, cells in ipairs(rows) do line(cells) end
   out[#out + 1] = "T/Tdeg: T/T_F (F, fermions) or T/T_c (c, bosons); PSD: peak phase-space density n(0) lambda^3."
   out[#out + 1] = ""
   out[#out + 1] = "Notes:"
@@ -290,8 +311,26 @@ end
 
 -- ---- JSON -----------------------------------------------------------------------------
 
+-- s as valid UTF-8: a byte that does not belong to a valid sequence becomes U+FFFD, so
+-- a label or note typed in another encoding cannot make the JSON invalid.
+local function valid_utf8(s)
+  if utf8.len(s) then return s end
+  local out, i = {}, 1
+  while i <= #s do
+    local lead = s:byte(i)
+    local n = (lead >= 0xF0 and 4) or (lead >= 0xE0 and 3) or (lead >= 0xC0 and 2) or 1
+    local seq = s:sub(i, i + n - 1)
+    if #seq == n and utf8.len(seq) == 1 then
+      out[#out + 1], i = seq, i + n
+    else
+      out[#out + 1], i = "\u{FFFD}", i + 1
+    end
+  end
+  return table.concat(out)
+end
+
 local function json_string(s)
-  return '"' .. s:gsub('[%c"\\]', function(ch)
+  return '"' .. valid_utf8(s):gsub('[%c"\\]', function(ch)
     local esc = { ['"'] = '\\"', ["\\"] = "\\\\", ["\n"] = "\\n", ["\r"] = "\\r", ["\t"] = "\\t" }
     return esc[ch] or string.format("\\u%04x", ch:byte())
   end) .. '"'
@@ -348,15 +387,19 @@ cp.set_help(Budget.print, [[
 budget:print([file]) prints the budget: one aligned row per stage with units (number,
 temperature in nK, T/T_F or T/T_c, peak density in cm^-3, peak phase-space density, entropy
 per particle in kB, step and cumulative efficiency in %, duration in ms), the notes, the
-verdict with the limiting stage and its reason, and the safety cautions for this plan.]])
+verdict with the limiting stage and its reason, and the safety cautions for this plan.
+Columns widen to fit long labels.  Example: cp.plan{...}:run():print()]])
 cp.set_help(Budget.write_csv, [[
 budget:write_csv(path) writes the start and one line per stage as CSV (RFC 4180: comma
 separated, CRLF line ends, fields with commas, quotes or line breaks quoted).  Columns:
 index, name, kind, particles, number, temperature_K, degeneracy_name, degeneracy,
 peak_density_m3, phase_space_density, entropy_per_particle_kB, efficiency,
-cumulative_efficiency, duration_s, elapsed_s, adiabatic, notes.]])
+cumulative_efficiency, duration_s, elapsed_s, adiabatic, notes (joined by "; ").
+Example: cp.plan{...}:run():write_csv("budget.csv")]])
 cp.set_help(Budget.write_json, [[
 budget:write_json(path) writes the whole budget (stages, start, final, verdict, ranking,
-reason, safety) as one JSON object, SI units, NaN as null.]])
+reason, safety) as one JSON object, SI units, NaN as null, always valid UTF-8 (bytes of
+another encoding in a label or note become U+FFFD).
+Example: cp.plan{...}:run():write_json("budget.json")]])
 
 return R

@@ -45,6 +45,9 @@ T.raises(function() plan { cp.stages.evaporate { eta = 8, final_number = 1e6, ra
 local b = plan { cp.stages.evaporate { eta = 8, keep = 0.5, ratio = 300 } }:run { limiting = false }
 local ev = b.stages[4]
 T.check(ev.duration ~= ev.duration, "unknown evaporation time is NaN")
+for i, r in ipairs(b.stages) do
+  T.check(type(r.adiabatic) == "boolean", "stage " .. i .. ": adiabatic is true or false (CSV, JSON)")
+end
 T.check(notes(ev):find("duration unknown", 1, true) ~= nil, "and a note says so")
 T.near(ev.elapsed, b.stages[3].elapsed, 1e-12, "the elapsed time counts only known durations")
 

@@ -188,8 +188,27 @@ T.check(width_ok, "all table rows have the same width")
 T.check(text:find("nK", 1, true) and text:find("cm^-3", 1, true) and text:find("ms", 1, true), "units shown")
 T.check(text:find("Safety:", 1, true) and text:find("laser safety officer", 1, true), "ends with safety")
 
+-- A label longer than its column, with a line break and non-ASCII letters, widens the
+-- column instead of shifting its row: every row's particles column starts under the
+-- header (positions counted in characters, utf8.len).
+local long = cp.plan { start = start(), stages = { convert(0.5),
+  keep(0.9, "µwave clean, \"fast\"\nwith a very long label") } }:run { limiting = false }
+local lrows = {}
+for line in long:text():gmatch("[^\n]+") do
+  if line:match("^T/Tdeg") then break end
+  if line:find("particles", 1, true) or line:find("40K atoms", 1, true) or line:find("(Feshbach)", 1, true) then
+    lrows[#lrows + 1] = line
+  end
+end
+T.check(#lrows == 4, "long label: header, start and two stages on one line each")
+local col = utf8.len(lrows[1]:sub(1, lrows[1]:find("particles", 1, true) - 1))
+for i = 2, #lrows do
+  local at = lrows[i]:find("40K atoms", 1, true) or lrows[i]:find("23Na40K (", 1, true)
+  T.check(utf8.len(lrows[i]:sub(1, at - 1)) == col, "long label: particles column aligned in row " .. i)
+end
+
 local noisy = cp.stages.custom { name = "quote", fn = function(s)
-  return s, { notes = { 'a "quoted", noted\nline' } } end }
+  return s, { notes = { 'a "quoted", noted\nline', "tab\tctrl\1 ünï", "latin-1 \233t\233" } } end }
 local nb = cp.plan { start = start(), stages = { convert(0.5), noisy } }:run()
 local path = os.tmpname()
 nb:write_csv(path)
@@ -219,7 +238,8 @@ T.check(csv:sub(-2) == "\r\n", "CSV ends in CRLF")
 local recs = parse_csv(csv)
 T.check(#recs == 4, "CSV: header, start and two stages")
 T.check(recs[1][1] == "index" and recs[1][#recs[1]] == "notes", "CSV header")
-T.check(recs[4][#recs[4]] == 'a "quoted", noted\nline', "CSV quoting round-trips")
+T.check(recs[4][#recs[4]] == 'a "quoted", noted\nline; tab\tctrl\1 ünï; latin-1 \233t\233',
+  "CSV quoting round-trips (notes joined by '; ')")
 T.near(tonumber(recs[4][5]), nb.final.number, 1e-9, "CSV number column")
 os.remove(path)
 
@@ -228,6 +248,86 @@ f = assert(io.open(path, "rb"))
 local js = f:read("a")
 f:close()
 os.remove(path)
+-- A small JSON reader written here (RFC 8259 grammar: objects, arrays, strings with
+-- escapes, numbers, true/false/null) must accept the whole file, and the file must be
+-- valid UTF-8 (RFC 8259 section 8.1).
+local function parse_json(str)
+  local i = 1
+  local function ws() i = str:find("[^ \t\r\n]", i) or #str + 1 end
+  local value
+  local function string_()
+    local out = {}
+    i = i + 1
+    while true do
+      local ch = str:sub(i, i)
+      if ch == "" or ch:byte() < 32 then error("bad string at " .. i) end
+      if ch == '"' then i = i + 1; return table.concat(out) end
+      if ch == "\\" then
+        local e = str:sub(i + 1, i + 1)
+        local simple = { ['"'] = '"', ["\\"] = "\\", ["/"] = "/", b = "\b", f = "\f", n = "\n", r = "\r", t = "\t" }
+        if simple[e] then out[#out + 1] = simple[e]; i = i + 2
+        elseif e == "u" and str:sub(i + 2, i + 5):match("^%x%x%x%x$") then
+          out[#out + 1] = utf8.char(tonumber(str:sub(i + 2, i + 5), 16)); i = i + 6
+        else error("bad escape at " .. i) end
+      else out[#out + 1] = ch; i = i + 1 end
+    end
+  end
+  function value()
+    ws()
+    local ch = str:sub(i, i)
+    if ch == "{" then
+      local o = {}
+      i = i + 1; ws()
+      if str:sub(i, i) == "}" then i = i + 1; return o end
+      while true do
+        ws()
+        if str:sub(i, i) ~= '"' then error("key expected at " .. i) end
+        local k = string_()
+        ws()
+        if str:sub(i, i) ~= ":" then error("':' expected at " .. i) end
+        i = i + 1
+        o[k] = value()
+        ws()
+        local sep = str:sub(i, i); i = i + 1
+        if sep == "}" then return o end
+        if sep ~= "," then error("',' expected at " .. i) end
+      end
+    elseif ch == "[" then
+      local a = {}
+      i = i + 1; ws()
+      if str:sub(i, i) == "]" then i = i + 1; return a end
+      while true do
+        a[#a + 1] = value()
+        ws()
+        local sep = str:sub(i, i); i = i + 1
+        if sep == "]" then return a end
+        if sep ~= "," then error("',' expected at " .. i) end
+      end
+    elseif ch == '"' then return string_()
+    elseif str:sub(i, i + 3) == "true" then i = i + 4; return true
+    elseif str:sub(i, i + 4) == "false" then i = i + 5; return false
+    elseif str:sub(i, i + 3) == "null" then i = i + 4; return nil
+    end
+    local num = str:match("^-?%d+%.?%d*[eE]?[-+]?%d*", i)
+    if not num or not tonumber(num) then error("value expected at " .. i) end
+    i = i + #num
+    return tonumber(num)
+  end
+  local v = value()
+  ws()
+  if i <= #str then error("trailing text at " .. i) end
+  return v
+end
+T.check(utf8.len(js) ~= nil, "JSON is valid UTF-8 (a Latin-1 byte in a note is replaced)")
+local okj, doc = pcall(parse_json, js)
+T.check(okj, "JSON parses: " .. tostring(okj or doc))
+if okj then
+  T.check(doc.stages[2].notes[1] == 'a "quoted", noted\nline', "JSON note round-trips")
+  T.check(doc.stages[2].notes[2] == "tab\tctrl\1 ünï", "JSON control characters and UTF-8 round-trip")
+  T.check(doc.stages[2].notes[3] == "latin-1 \u{FFFD}t\u{FFFD}", "invalid UTF-8 bytes become U+FFFD")
+  T.check(doc.stages[2].adiabatic == false and doc.stages[1].adiabatic == false, "adiabatic is a boolean in every stage")
+  T.near(doc.final.number, nb.final.number, 1e-15, "JSON number")
+end
 T.check(js:find('"degenerate": false', 1, true) ~= nil, "JSON verdict")
 T.check(js:find('a \\"quoted\\", noted\\nline', 1, true) ~= nil, "JSON string escapes")
 T.check(not js:find("nan", 1, true) and not js:find("inf", 1, true), "JSON has no NaN or inf")
