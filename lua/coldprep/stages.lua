@@ -261,15 +261,23 @@ end
 
 -- The resonance a stage names: nil (the first known for the molecule), an index into the
 -- molecule's list, or a table {b0, width, abg, dmu} (T, T, m, J/T).
-local function resonance_of(spec, molecule)
-  local where = "argument 'resonance'"
-  if spec == nil or math.type(spec) == "integer" then
-    local ok, r = pcall(cp.species.resonance, molecule, spec or 1)
-    if not ok then A.fail(where, "%s", tostring(r)) end
-    return r
-  end
+local RESONANCE_KEYS = { "b0", "width", "abg", "dmu", "c6_au", "molecule", "states", "source", "verified" }
+
+-- A resonance table's fields checked where the stage is built (as cp.feshbach reads them).
+local function check_resonance_table(spec)
+  local where = "stages.associate: argument 'resonance'"
+  A.table(where, spec, RESONANCE_KEYS)
   for _, k in ipairs { "b0", "width", "abg", "dmu" } do
     A.number(where, spec, k, ({ b0 = "T", width = "T", abg = "m", dmu = "J/T" })[k])
+  end
+  A.number(where, spec, "c6_au", "a.u.", { optional = true, positive = true })
+end
+
+local function resonance_of(spec, molecule)
+  if spec == nil or math.type(spec) == "integer" then
+    local ok, r = pcall(cp.species.resonance, molecule, spec or 1)
+    if not ok then A.fail("argument 'resonance'", "%s", tostring(r)) end
+    return r
   end
   return spec
 end
@@ -303,6 +311,7 @@ function M.associate(args)
     A.fail(fname, "argument 'resonance' must be an index or a table {b0, width, abg, dmu}, got %s",
       type(args.resonance))
   end
+  if type(args.resonance) == "table" then check_resonance_table(args.resonance) end
   return new_stage("associate", args, {
     accepts = { ["atom-mixture"] = true }, produces = "feshbach-molecules", params = p,
     hint = "magnetoassociation acts on the atom mixture, so it comes first",
@@ -313,6 +322,20 @@ function M.associate(args)
       local ib = S.minority(s.atoms)
       local b, a = s.atoms[ib], s.atoms[3 - ib]
       local notes = {}
+      if r.verified == false then
+        notes[#notes + 1] = string.format("the %s resonance at %.4g G is built-in data marked "
+          .. "unverified (see its source in cp.species.resonance): check b0, width and abg before "
+          .. "trusting this stage", mol.name, r.b0 / cp.units.G)
+      end
+      for _, c in ipairs { a, b } do
+        if c.statistics == "boson" and c.degeneracy < 1 then
+          -- overlap_density has no profile for a partly condensed cloud without the atoms'
+          -- scattering length (not in the species data)
+          notes[#notes + 1] = string.format("%s is below T_c (condensed fraction %.2g): the overlap "
+            .. "density treats it as a thermal cloud; a condensate is denser and smaller", c.name,
+            c.condensed_fraction or 0)
+        end
+      end
       local ov = MODEL.overlap(a, b)
       local pmax = p.max_efficiency
       if not pmax then
@@ -382,18 +405,21 @@ function M.transfer(args)
     equipment[#equipment + 1] = { kind = "laser", what = (k == "pump_power" and "pump" or "Stokes")
       .. " laser of the two-photon transfer", power = w }
   end
+  -- the model result does not depend on the sample: compute it once, here, so that a bad
+  -- pulse parameter is an error of this constructor rather than of a later plan run
+  local result
+  if not eff then
+    local ok, r = pcall(cp.raman.transfer, pulse)
+    if not ok then A.fail(fname, "%s", (tostring(r):gsub("^[^:\n]*coldprep/%w+%.lua:%d+: ", ""))) end
+    result = r
+  end
   local st = new_stage("transfer", args, {
     accepts = { ["feshbach-molecules"] = true }, produces = "ground-state-molecules",
     equipment = equipment, params = { efficiency = eff, pulse = pulse },
     hint = "the two-photon transfer starts from Feshbach molecules: place it after cp.stages.associate",
   })
-  -- the model result does not depend on the sample: compute it once, when first run
-  local result
-  st.run = function(self, s)
+  st.run = function(_, s)
     local notes = {}
-    if not eff and not result then
-      result = cp.raman.transfer(pulse)
-    end
     local e = eff or result.efficiency
     if result then
       notes[#notes + 1] = string.format("one-way efficiency %.4g from the Lambda-system model; "
@@ -438,6 +464,12 @@ function M.change_trap(args)
       end
       local T = MODEL.match_harmonic(s, w_to)
       local out = S.with(s, { trap_frequencies = w_to, temperature = T })
+      if s.lattice then
+        -- the lattice sample is described by its envelope trap at the same entropy, so the
+        -- change is the lattice ramped down adiabatically into the new trap
+        out.lattice = nil
+        notes[#notes + 1] = "leaves the lattice: its photon-scattering heating no longer applies"
+      end
       return out, { duration = ramp, notes = notes, adiabatic = true }
     end,
   })
@@ -511,6 +543,9 @@ function M.hold(args)
         heating = heating + s.lattice.heating_rate
         notes[#notes + 1] = string.format("photon scattering in the lattice heats at %.3g nK/s",
           s.lattice.heating_rate / cp.units.nK)
+        notes[#notes + 1] = "in the lattice: two-body loss at the mean density of the envelope trap; "
+          .. "on-site loss and its suppression by the lattice (one fermion per site in the lowest "
+          .. "band) are not modelled"
       end
       leftover_note(s, notes)
       thermal_note(s, notes, "hold", "starts")
@@ -742,8 +777,10 @@ stages.transfer{rabi_pump, rabi_stokes (rad/s), width, delay (s), gamma (rad/s)
 Two-photon (STIRAP) transfer of Feshbach molecules to the ground state.  With pulse
 parameters the one-way efficiency comes from cp.raman.transfer (arguments as there); or
 give a measured one-way efficiency, or a round trip (one way = sqrt(round trip)).  Number
-times efficiency, temperature and trap unchanged.  Example: cp.stages.transfer{
-round_trip_efficiency = 0.8}]],
+times efficiency, temperature and trap unchanged: the ground-state molecules are assumed to
+have the Feshbach molecules' polarizability at the trap wavelength (if not, their trap
+frequencies scale as sqrt(alpha_ground / alpha_Feshbach): add a cp.stages.change_trap).
+Example: cp.stages.transfer{round_trip_efficiency = 0.8}]],
   remove_atoms = [[
 stages.remove_atoms{[efficiency = 1, molecule_loss = 0, heating_per_atom = 0 (J),
   duration = 0 (s), label]} -> stage
@@ -756,7 +793,8 @@ model's energy per particle).  Example: cp.stages.remove_atoms{heating_per_atom 
 stages.change_trap{trap_frequencies = {wx, wy, wz} (rad/s), ramp_time (s) [, beam_power (W),
   label]} -> stage
 An adiabatic change of the harmonic trap: the temperature from entropy matching
-(cp.thermo.match_harmonic).  A note warns when |d omega/dt|/omega^2 > 0.1 on an axis (the
+(cp.thermo.match_harmonic).  After load_lattice it ramps the lattice down into the new
+trap (the lattice's heating stops).  A note warns when |d omega/dt|/omega^2 > 0.1 on an axis (the
 ramp is then too fast for the adiabatic result).  Example: cp.stages.change_trap{
 trap_frequencies = {2*math.pi*60, 2*math.pi*70, 2*math.pi*200}, ramp_time = 0.05}]],
   load_lattice = [[

@@ -74,4 +74,44 @@ local rbcs = cp.plan { start = { molecule = "87Rb133Cs", temperature = 150 * u.n
 T.check(rbcs.final.degeneracy < 1 and notes(rbcs.final):find("it ends at T/T_c", 1, true) ~= nil,
   "evaporation into the condensate is flagged")
 
+-- EDGE-5 bad model parameters are errors where the stage is built, naming the stage
+-- constructor and the field (they surfaced only when the plan ran).
+T.raises(function() cp.stages.transfer { rabi_pump = 1e7, rabi_stokes = 1e7, width = 1e-5, delay = 1e-5,
+  gamma = 1e7, shape = "gauss" } end, { "stages.transfer", "'shape'" }, "bad pulse shape at construction")
+T.raises(function() cp.stages.associate { ramp_rate = 1, resonance = { b0 = 0.01387, width = -1e-4,
+  abg = -3.7e-8, dmu = 1.85e-23, c6au = 2447 } } end,
+  { "stages.associate", "'resonance'", "unknown argument 'c6au'", "c6_au" }, "misspelt resonance field")
+T.raises(function() cp.stages.associate { ramp_rate = 1, resonance = { b0 = 0.01387, abg = -3.7e-8,
+  dmu = 1.85e-23 } } end, { "stages.associate", "'width'" }, "missing resonance field")
+
+-- EDGE-6 the association says when its inputs are weak: built-in resonance data marked
+-- unverified (cp.species.resonance(...).verified == false), and a bosonic cloud below T_c
+-- whose overlap is computed as if it were thermal.  23Na at 180 nK with 4e5 atoms in
+-- (90, 110, 220) Hz: T_c = hbar w (N / zeta(3))^(1/3) / kB = 430 nK (Dalfovo et al. 1999),
+-- so it is below T_c.
+local res = cp.species.resonance("23Na40K")
+local cold = plan({}, 180 * u.nK):run { limiting = false }
+local an = notes(cold.stages[1])
+T.check(res.verified ~= false or an:find("marked unverified", 1, true) ~= nil, "unverified resonance flagged")
+local wna = (2 * pi) * (90 * 110 * 220) ^ (1 / 3)
+local tc_na = cp.consts.hbar * wna * (4e5 / 1.2020569031595942) ^ (1 / 3) / cp.consts.kB
+T.check(180 * u.nK < tc_na and an:find("23Na is below T_c", 1, true) ~= nil, "condensed partner flagged")
+local hot = plan({}, 600 * u.nK):run { limiting = false }
+T.check(600 * u.nK > tc_na and not notes(hot.stages[1]):find("below T_c", 1, true), "thermal partner: no note")
+
+-- EDGE-7 a trap change after lattice loading leaves the lattice: the next hold has no
+-- photon-scattering heating (it kept heating at the lattice's rate).
+local lat = { wavelength = 1064 * u.nm, power = 0.6, waist = 180 * u.um, polarizability_au = 700,
+  imag_polarizability_au = 2e-5, ramp_time = 50 * u.ms }
+local inl = plan { cp.stages.load_lattice(lat), cp.stages.hold { duration = 0.05, loss_rate = 0 } }:run { limiting = false }
+T.check(notes(inl.stages[5]):find("photon scattering in the lattice", 1, true) ~= nil
+  and notes(inl.stages[5]):find("on-site loss", 1, true) ~= nil, "a hold in the lattice says what it assumes")
+local out = plan { cp.stages.load_lattice(lat),
+  cp.stages.change_trap { trap_frequencies = { Hz(60), Hz(70), Hz(200) }, ramp_time = 0.1 },
+  cp.stages.hold { duration = 0.05, loss_rate = 0 } }:run { limiting = false }
+T.check(notes(out.stages[5]):find("leaves the lattice", 1, true) ~= nil, "the trap change leaves the lattice")
+T.check(not notes(out.stages[6]):find("lattice", 1, true), "no lattice heating after leaving it")
+-- no loss and no heating: the hold keeps N and T exactly (cp.collisions.hold, trivially)
+T.near(out.stages[6].temperature, out.stages[5].temperature, 1e-9, "no heating after leaving the lattice")
+
 T.done()
