@@ -245,23 +245,33 @@ local function verdict(self, final)
 end
 
 -- Rank the stages by the gain in final trap phase-space density when each is improved.
+-- A rerun that fails (e.g. the improved sample is already colder than a later
+-- evaporation's final temperature) leaves that stage unranked: gain NaN, `failed` = the
+-- message, sorted last; the plan's own run is not affected.
 local function limiting(self, steps, final)
   local base = final.trap_phase_space_density
   local ranking = {}
   for i = 1, #steps do
-    local gain
+    local entry = { index = i, name = steps[i].stage.name }
     if steps[i].info.skipped then
-      gain = 0
+      entry.gain = 0
     else
       -- the stage's recorded outcome, made better, handed to the stages after it
-      local better = improved(self.perturbation)(steps[i].before, steps[i].after)
-      local _, f = run_stages(self, better, i + 1, #steps)
-      gain = (base > 0) and (f.trap_phase_space_density / base - 1) or f.trap_phase_space_density
+      local ok, f = pcall(function()
+        local better = improved(self.perturbation)(steps[i].before, steps[i].after)
+        return select(2, run_stages(self, better, i + 1, #steps))
+      end)
+      if ok then
+        entry.gain = (base > 0) and (f.trap_phase_space_density / base - 1) or f.trap_phase_space_density
+      else
+        entry.gain, entry.failed = 0 / 0, plain(f)
+      end
     end
-    ranking[#ranking + 1] = { index = i, name = steps[i].stage.name, gain = gain }
+    ranking[#ranking + 1] = entry
   end
   table.sort(ranking, function(a, b)
-    if a.gain ~= b.gain then return a.gain > b.gain end
+    if (a.failed ~= nil) ~= (b.failed ~= nil) then return b.failed ~= nil end
+    if not a.failed and a.gain ~= b.gain then return a.gain > b.gain end
     return a.index < b.index
   end)
   return ranking
@@ -280,6 +290,10 @@ local function reason(self, steps, ranking, v, start, final)
   end
   local top = ranking[1]
   if not top then return parts[1] end
+  local unranked = {}
+  for _, g in ipairs(ranking) do
+    if g.failed then unranked[#unranked + 1] = string.format("%d (%s)", g.index, g.name) end
+  end
   local st = steps[top.index]
   local kept = st.before.number > 0 and st.after.number / st.before.number or 0
   local ds = st.after.entropy_per_particle - st.before.entropy_per_particle
@@ -287,16 +301,22 @@ local function reason(self, steps, ranking, v, start, final)
   if ds == ds and ds > 0 then
     what[#what + 1] = string.format("adds %.2g kB of entropy per particle", ds)
   end
-  if top.gain > 0 then
+  if top.failed then
+    parts[2] = "No stage could be ranked: the plan fails when a stage is made better (" .. top.failed .. ")."
+  elseif top.gain > 0 then
     parts[2] = string.format("The limiting stage is %d (%s): it %s; making it %.0f %% better would "
       .. "raise the final phase-space density by %.3g %%, more than any other stage.",
       top.index, top.name, table.concat(what, " and "), 100 * self.perturbation, 100 * top.gain)
   else
     parts[2] = "No stage loses particles or adds entropy in a way that limits the final phase-space density."
   end
-  if not v.degenerate and ranking[2] and ranking[2].gain > 0 then
+  if not v.degenerate and ranking[2] and not ranking[2].failed and ranking[2].gain > 0 then
     parts[3] = string.format("Next: stage %d (%s), %+.3g %%.", ranking[2].index, ranking[2].name,
       100 * ranking[2].gain)
+  end
+  if #unranked > 0 and not top.failed then
+    parts[#parts + 1] = string.format("Not ranked, because a later stage fails when they are made "
+      .. "better: %s.", table.concat(unranked, ", "))
   end
   return table.concat(parts, " ")
 end

@@ -12,8 +12,9 @@
 --              elapsed (s), adiabatic, notes (list of strings)
 --   start, final  records of the starting and the final sample (same fields)
 --   degenerate, threshold, verdict (text), limiting_stage (name), limiting_index, reason,
---   ranking ({index, name, gain} sorted, gain = relative rise of the final phase-space
---   density when that stage is improved), safety (list of caution texts)
+--   ranking ({index, name, gain [, failed]} sorted, gain = relative rise of the final
+--   phase-space density when that stage is improved; NaN, with the message in `failed`,
+--   when the plan fails with that stage improved), safety (list of caution texts)
 local cp = require "coldprep"
 
 local R = {}
@@ -242,8 +243,12 @@ function Budget:text()
   out[#out + 1] = wrap(self.reason, "  ", 96)
   local rank = {}
   for _, g in ipairs(self.ranking or {}) do
-    local gain = math.abs(g.gain) < 1e-9 and 0 or g.gain
-    rank[#rank + 1] = string.format("%d %s %+.3g %%", g.index, g.name, 100 * gain)
+    if g.failed then
+      rank[#rank + 1] = string.format("%d %s not ranked (the rerun failed: %s)", g.index, g.name, g.failed)
+    else
+      local gain = math.abs(g.gain) < 1e-9 and 0 or g.gain
+      rank[#rank + 1] = string.format("%d %s %+.3g %%", g.index, g.name, 100 * gain)
+    end
   end
   if #rank > 0 then
     out[#out + 1] = wrap("Gain in final phase-space density per stage made better: "
