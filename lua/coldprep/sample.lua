@@ -124,6 +124,21 @@ function S.temperature_after_heating(c, energy)
   return T
 end
 
+-- Cloud or sample c after losing particles at random, uniformly in phase space (a
+-- transfer that fails for some molecules, a lossy cleaning pulse), down to `number`: the
+-- lost particles carry the mean energy, so the energy per particle is kept and the rest
+-- rethermalise at it in the same trap.  A classical gas keeps its temperature; a
+-- degenerate Fermi gas heats (the losses leave holes below the Fermi energy, Timmermans,
+-- PRL 87, 240403 (2001) [M]); a gas below T_c cools (its energy, all in the thermal part,
+-- does not depend on N).  Returns the new sample, re-derived.
+function S.after_uniform_loss(c, number)
+  local n = S.with(c, { number = number })
+  if S.is_empty(n) or S.is_empty(c) then return n end
+  local de = c.energy_per_particle - n.energy_per_particle
+  if math.abs(de) <= 1e-9 * c.energy_per_particle then return n end
+  return S.with(n, { temperature = S.temperature_after_heating(n, de) })
+end
+
 -- A copy of cloud or sample c with the fields of `changes` replaced, re-derived.
 function S.with(c, changes)
   local n = deep_copy(c)

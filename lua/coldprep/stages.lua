@@ -240,7 +240,8 @@ function M.remove_atoms(args)
         removed = removed + r
         a.number = a.number - r
       end
-      local out = S.with(s, { number = s.number * (1 - p.molecule_loss) })
+      -- molecules lost with the atoms are lost at random (the energy per molecule is kept)
+      local out = S.after_uniform_loss(s, s.number * (1 - p.molecule_loss))
       if removed > 0 and p.heating_per_atom > 0 and not S.is_empty(out) then
         -- the energy the removed atoms leave behind is shared by the molecules
         out = S.with(out, { temperature = S.temperature_after_heating(out, p.heating_per_atom * removed / out.number) })
@@ -427,7 +428,8 @@ function M.transfer(args)
     else
       notes[#notes + 1] = string.format("one-way efficiency %.4g as given", e)
     end
-    local out = S.with(s, { kind = "ground-state-molecules", number = s.number * e })
+    -- the molecules that fail to transfer are lost at random (the energy per molecule is kept)
+    local out = S.after_uniform_loss(S.with(s, { kind = "ground-state-molecules" }), s.number * e)
     return out, { duration = result and MODEL.pulse_duration(result) or 0, notes = notes }
   end
   return st
@@ -777,7 +779,8 @@ stages.transfer{rabi_pump, rabi_stokes (rad/s), width, delay (s), gamma (rad/s)
 Two-photon (STIRAP) transfer of Feshbach molecules to the ground state.  With pulse
 parameters the one-way efficiency comes from cp.raman.transfer (arguments as there); or
 give a measured one-way efficiency, or a round trip (one way = sqrt(round trip)).  Number
-times efficiency, temperature and trap unchanged: the ground-state molecules are assumed to
+times efficiency; the failed molecules are lost at random, so the energy per molecule is
+kept (a degenerate Fermi gas heats).  Trap unchanged: the ground-state molecules are assumed to
 have the Feshbach molecules' polarizability at the trap wavelength (if not, their trap
 frequencies scale as sqrt(alpha_ground / alpha_Feshbach): add a cp.stages.change_trap).
 Example: cp.stages.transfer{round_trip_efficiency = 0.8}]],
@@ -785,7 +788,8 @@ Example: cp.stages.transfer{round_trip_efficiency = 0.8}]],
 stages.remove_atoms{[efficiency = 1, molecule_loss = 0, heating_per_atom = 0 (J),
   duration = 0 (s), label]} -> stage
 Removes the fraction `efficiency` of the leftover atoms (resonant light, microwave
-sweeps); a fraction molecule_loss of the molecules is lost with them, and each removed atom
+sweeps); a fraction molecule_loss of the molecules is lost with them (at random, energy
+per molecule kept), and each removed atom
 leaves heating_per_atom of energy in the molecules (the new temperature from the thermo
 model's energy per particle).  Example: cp.stages.remove_atoms{heating_per_atom =
 2*cp.units.nK*cp.consts.kB}]],

@@ -334,6 +334,36 @@ T.check(not js:find("nan", 1, true) and not js:find("inf", 1, true), "JSON has n
 T.raises(function() nb:write_csv("/nonexistent-dir/x.csv") end, { "budget:write_csv", "cannot write" },
   "unwritable path")
 
+-- PLAN-F9b: molecules lost at random (a transfer of efficiency 0.9) carry the mean energy,
+-- so E/N is kept and a degenerate Fermi gas heats.  By hand: the Sommerfeld expansion
+-- (Ashcroft & Mermin ch. 2 [M]) with the harmonic-trap density of states g ~ e^2 (Butts &
+-- Rokhsar 1997) ends at (kB T)^4 for a polynomial g, so with m = mu/E_F and x = T/T_F
+--   m^3 + pi^2 x^2 m = 1,   E/(N E_F) = 3 [m^4/4 + (pi^2/2) x^2 m^2 + (7 pi^4/60) x^4]
+-- up to terms ~exp(-mu/kB T) ~ 1e-5 here; E_F ~ N^(1/3).  Keeping E/N as N drops by 0.9
+-- takes T/T_F from 0.05 to ~0.09 (keeping T instead would give 0.0518).
+local x0, Nm = 0.05, 3e3
+local TFm = c.hbar * W * (6 * Nm) ^ (1 / 3) / c.kB
+local cold = cp.stages.custom { name = "cold molecules", accepts = "atom-mixture", produces = "feshbach-molecules",
+  fn = function(s)
+    s.number, s.mass, s.statistics, s.temperature = Nm, s.molecule.mass, s.molecule.statistics, x0 * TFm
+    for _, a in ipairs(s.atoms) do a.number = a.number - Nm end
+    return s
+  end }
+local lossy = cp.plan { start = start(), stages = { cold, cp.stages.transfer { efficiency = 0.9 } } }:run { limiting = false }
+T.near(lossy.stages[1].degeneracy, x0, 1e-9, "degenerate Feshbach molecules at T/T_F = 0.05")
+local function e_per_n(x)
+  local m = 1
+  for _ = 1, 60 do m = m - (m ^ 3 + pi * pi * x * x * m - 1) / (3 * m * m + pi * pi * x * x) end
+  return 3 * (m ^ 4 / 4 + pi * pi / 2 * x * x * m * m + 7 * pi ^ 4 / 60 * x ^ 4)
+end
+local want_e, lo, hi = e_per_n(x0) / 0.9 ^ (1 / 3), x0, 0.5
+for _ = 1, 100 do
+  local mid = 0.5 * (lo + hi)
+  if e_per_n(mid) < want_e then lo = mid else hi = mid end
+end
+T.check(lo > 0.088 and lo < 0.092, "hand value near 0.09")
+T.near(lossy.final.degeneracy, lo, 1e-3, "random loss heats the Fermi sea (E/N kept, Sommerfeld by hand)")
+
 -- PLAN-F10: every public function has a help text.
 for _, k in ipairs { "custom", "associate", "transfer", "remove_atoms", "change_trap", "load_lattice",
   "hold", "evaporate" } do
