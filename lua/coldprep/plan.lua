@@ -351,8 +351,16 @@ threshold: the degeneracy threshold (default T/T_F <= 0.5 for fermionic molecule
   T/T_c <= 1 for bosonic ones); perturbation: how much better a stage is made when
   looking for the limiting stage (fraction, default 0.1).
 plan:run() -> budget with stages, final, degenerate, verdict, limiting_stage, reason;
-  budget:print(), budget:write_csv(path), budget:write_json(path).
-Example: see scripts/demo.lua and docs/planning.md.]])
+  budget:print(), budget:write_csv(path), budget:write_json(path).  A full scenario:
+  scripts/demo.lua and docs/planning.md.
+Example:
+  w = 2*math.pi*100
+  p = cp.plan{start = {molecule = 'KRb', temperature = 300e-9, atoms = {
+        {atom = '87Rb', number = 2e5, trap_frequencies = w},
+        {atom = '40K', number = 1e5, trap_frequencies = w}}},
+      stages = {cp.stages.associate{ramp_rate = 10}, cp.stages.transfer{efficiency = 0.9},
+                cp.stages.hold{duration = 0.05}}}
+  print(p:run().verdict)]])
 cp.set_help(Plan.run, [[
 plan:run([{limiting = true}]) -> budget: runs every stage, then reruns the plan from each
 stage's outcome made `perturbation` better to find the limiting stage (limiting = false
@@ -360,6 +368,7 @@ skips that analysis, e.g. inside a sweep).
 budget.stages[i] = {name, number, temperature (K), t_over_tf | t_over_tc, peak_density (m^-3),
   phase_space_density, entropy_per_particle (kB), efficiency, cumulative_efficiency,
   duration (s), elapsed (s), notes}; budget.final, budget.degenerate, budget.verdict,
-  budget.limiting_stage, budget.reason.  Example: cp.plan{...}:run():print()]])
+  budget.limiting_stage, budget.reason, budget.ranking ({index, name, gain [, failed]}).
+Example (p from help(cp.plan)): b = p:run(); print(b.final.number, b.limiting_stage)]])
 
 return P

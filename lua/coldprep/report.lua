@@ -394,6 +394,9 @@ temperature in nK, T/T_F or T/T_c, peak density in cm^-3, peak phase-space densi
 per particle in kB, step and cumulative efficiency in %, duration in ms), the notes, the
 verdict with the limiting stage and its reason, and the safety cautions for this plan.
 Columns widen to fit long labels.  Example: cp.plan{...}:run():print()]])
+cp.set_help(Budget.text, [[
+budget:text() -> string: the report budget:print() writes (table, notes, verdict, ranking,
+safety cautions).  Example: io.open("budget.txt", "w"):write(cp.plan{...}:run():text())]])
 cp.set_help(Budget.write_csv, [[
 budget:write_csv(path) writes the start and one line per stage as CSV (RFC 4180: comma
 separated, CRLF line ends, fields with commas, quotes or line breaks quoted).  Columns:

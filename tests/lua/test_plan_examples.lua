@@ -50,4 +50,28 @@ if rows then
     "the lattice beams are flagged Class 4")
 end
 
+-- EX-4 the help examples of cp.plan and of every stage constructor run as pasted (a fresh
+-- environment with only cp and the standard library); the budget methods have one.
+local function run_example(name, fn)
+  local example = (cp.get_help(fn) or ""):match("Example:%s*(.*)$")
+  if not example then return T.check(false, name .. ": help text has no example") end
+  local env = setmetatable({ cp = cp, print = function() end }, { __index = _G })
+  local chunk = load(example, "example", "t", env) or load("return " .. example, "example", "t", env)
+  local ok, err = false, "does not compile"
+  if chunk then ok, err = pcall(chunk) end
+  T.check(ok, name .. " example runs" .. (ok and "" or (": " .. tostring(err))))
+end
+run_example("cp.plan", cp.plan.new)
+for _, k in ipairs { "custom", "associate", "transfer", "remove_atoms", "change_trap", "load_lattice",
+  "hold", "evaporate" } do
+  run_example("cp.stages." .. k, cp.stages[k])
+end
+for _, k in ipairs { "run" } do
+  T.check((cp.get_help(cp.plan.Plan[k]) or ""):find("Example", 1, true) ~= nil, "plan:" .. k .. " help has an example")
+end
+local R = require "coldprep.report"
+for _, k in ipairs { "print", "text", "write_csv", "write_json" } do
+  T.check((cp.get_help(R.Budget[k]) or ""):find("Example", 1, true) ~= nil, "budget:" .. k .. " help has an example")
+end
+
 T.done()
