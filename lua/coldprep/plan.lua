@@ -219,7 +219,15 @@ end
 -- improved, otherwise the followed particles.
 local function improved(d)
   return function(before, after)
-    if after.kind ~= "atom-mixture" then return improve_cloud(before, after, d) end
+    if after.kind ~= "atom-mixture" then
+      local better = improve_cloud(before, after, d)
+      if before.kind == "atom-mixture" then
+        -- the extra molecules of a better association are made of leftover atoms
+        local extra = better.number - after.number
+        for _, a in ipairs(better.atoms) do a.number = math.max(0, a.number - extra) end
+      end
+      return better
+    end
     local out = S.copy(after)
     for i = 1, 2 do out.atoms[i] = improve_cloud(before.atoms[i], after.atoms[i], d) end
     return S.follow(out, out.atoms[S.minority(out.atoms)])

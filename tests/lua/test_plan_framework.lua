@@ -77,6 +77,18 @@ T.near(gain.heat, 2 ^ 0.3 - 1, 2e-3, "gain of the heating stage")
 T.check(b.limiting_stage == "keep" and b.limiting_index == 3, "the lossy stage limits")
 T.check(b.reason:find("stage is 3 (keep)", 1, true) ~= nil, "reason names the limiting stage")
 
+-- PLAN-F3a: the rerun from a better association takes the extra molecules out of the
+-- leftover atoms: 5e4 Na + 1e4 K, half the K converted -> 5e3 molecules, 4.5e4 Na left;
+-- made 10 % better: 1e4 - 0.9 * 5e3 = 5.5e3 molecules, so 4.45e4 Na left (by hand).
+local seen = {}
+local recorder = cp.stages.custom { name = "look", accepts = { "feshbach-molecules" }, fn = function(s)
+  seen[#seen + 1] = s.atoms[1].number
+  return s
+end }
+cp.plan { start = start(), stages = { convert(0.5), recorder } }:run()
+T.near(seen[1], 4.5e4, 1e-12, "leftover Na after the association")
+T.near(seen[2], 4.45e4, 1e-12, "leftover Na in the rerun from the better association")
+
 -- PLAN-F3b: the analysis can be skipped (for sweeps); the rest of the budget is the same.
 local quick = plan:run { limiting = false }
 T.check(quick.limiting_stage == nil and #quick.ranking == 0, "limiting = false: no ranking")
