@@ -50,7 +50,10 @@ end
 
 -- ---- safety ---------------------------------------------------------------------------
 
-local CLASS4_W = 0.5 -- W; IEC 60825-1 / ANSI Z136.1 boundary for CW sources (physics.md section 9)
+-- W; IEC 60825-1 / ANSI Z136.1 boundaries for CW sources (physics.md section 9 [M]):
+-- Class 4 above 0.5 W, Class 3B above 5 mW (Class 3R up to 5x the Class 1/2 limit)
+local CLASS4_W = 0.5
+local CLASS3B_W = 5e-3
 
 -- Collect the equipment the plan declares: the start's trap beams and each stage's
 -- `equipment` list ({kind = "laser", what, power (W) [, wavelength]}, {kind = "coil",
@@ -72,13 +75,15 @@ local function equipment(plan)
 end
 
 local function cautions(plan)
-  local out, class4, unknown, coils, hv = {}, {}, {}, {}, {}
+  local out, class4, class3b, unknown, coils, hv = {}, {}, {}, {}, {}, {}
   for _, e in ipairs(equipment(plan)) do
     if e.kind == "laser" then
       if e.power == nil then
         unknown[#unknown + 1] = e.what
       elseif e.power > CLASS4_W then
         class4[#class4 + 1] = string.format("%s, %.3g W", e.what, e.power)
+      elseif e.power > CLASS3B_W then
+        class3b[#class3b + 1] = string.format("%s, %.3g mW", e.what, e.power * 1e3)
       end
     elseif e.kind == "coil" then
       coils[#coils + 1] = string.format("%s, %.4g G", e.what, e.field / cp.units.G)
@@ -91,6 +96,11 @@ local function cautions(plan)
       .. ". Diffuse reflections, skin and fire hazards; eyewear rated for every wavelength in use"
       .. " (infrared beams are invisible), enclosed beams and dumps, interlocked controlled area,"
       .. " alignment at reduced power."
+  end
+  if #class3b > 0 then
+    out[#out + 1] = "Class 3B laser (beam power 5 mW to 0.5 W): " .. table.concat(class3b, "; ")
+      .. ". The direct beam and its specular reflections are eye hazards: eyewear rated for the"
+      .. " wavelength, beams kept below eye level and terminated in dumps, controlled access."
   end
   if #unknown > 0 then
     out[#out + 1] = "Beam power not given for: " .. table.concat(unknown, "; ")

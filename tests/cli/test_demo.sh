@@ -15,6 +15,11 @@ grep -q "Preparation budget: Tidewater lab, first NaK plan" <<<"$out" || fail "f
 grep -q "Preparation budget: Tidewater lab, NaK plan at 0.3 kV/cm" <<<"$out" || fail "second budget"
 grep -q "Verdict at 0.6 kV/cm: degenerate; at 0.3 kV/cm: not degenerate." <<<"$out" || fail "flipped verdict"
 grep -q "Class 4 laser" <<<"$out" || fail "laser caution"
+# the STIRAP lasers (30 and 60 mW) are between 5 mW and 0.5 W: Class 3B (IEC 60825-1,
+# physics.md section 9 [M])
+flat=$(tr -s ' \n' '  ' <<<"$out")   # the report wraps its lines
+grep -q "Class 3B laser (beam power 5 mW to 0.5 W): stage 3 (transfer): pump laser of the two-photon transfer, 30 mW" <<<"$flat" \
+  || fail "Class 3B caution for the STIRAP lasers"
 grep -q "High-current coils" <<<"$out" || fail "coil caution"
 grep -q "High voltage" <<<"$out" || fail "high-voltage caution"
 grep -q "laser safety officer" <<<"$out" || fail "deference to the laser safety officer"
