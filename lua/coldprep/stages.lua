@@ -479,6 +479,10 @@ end
 
 -- ---- hold -----------------------------------------------------------------------------
 
+-- Above this fraction of the p-wave barrier height the universal rate gets a note
+-- (common practice, no source: the threshold laws need kB T well below the barrier).
+local BARRIER_FRACTION = 0.1
+
 -- Two-body loss coefficient of the sample's molecules (m^3/s) at its temperature: the
 -- given one, or the universal rate from the molecule's C6 (Idziaszek & Julienne 2010,
 -- through cp.collisions.universal_rate); notes say which and what it assumes.
@@ -496,6 +500,12 @@ local function loss_rate(s, given, notes)
   end
   if not mol.reactive then
     why[#why + 1] = "non-reactive " .. mol.name .. ": sticky-complex loss taken at the universal rate"
+  end
+  -- the threshold laws behind the universal rate hold well below the p-wave barrier
+  local barrier = cp.collisions.pwave_barrier { c6_au = mol.c6_au, mass = mol.mass / 2 }.temperature
+  if s.temperature > BARRIER_FRACTION * barrier then
+    why[#why + 1] = string.format("T is %.2g of the p-wave barrier (%.3g uK): beyond the threshold "
+      .. "regime this rate is only an estimate", s.temperature / barrier, barrier / cp.units.uK)
   end
   notes[#notes + 1] = string.format("two-body loss: universal %s-wave rate %.3g cm^3/s at %.3g nK "
     .. "(C6 = %.4g a.u.)%s", s.statistics == "fermion" and "p" or "s", beta / cp.units.cm3,

@@ -102,6 +102,25 @@ if okr then
   T.check(not br.ranking[1].failed, "a ranked stage comes first")
 end
 
+-- EDGE-4c the universal loss rate rests on threshold laws: a hold at a temperature near
+-- the p-wave barrier says so.  NaCs (C6 ~ 6.8e6 a.u., physics.md 3) has a barrier of
+-- ~0.9 uK (E_1 = [2 hbar^2]^(3/2) / (3 sqrt 6 mu^(3/2) C6^(1/2)), physics.md 8.1), KRb
+-- (C6 = 16130 a.u.) ~24 uK; at 300 nK NaCs is past a tenth of it, KRb is not.
+local function hold_note(molecule, a, b)
+  local bud = cp.plan { start = { molecule = molecule, temperature = 300 * u.nK, atoms = {
+      { atom = a, number = 3e5, trap_frequencies = Hz(100) }, { atom = b, number = 1e5, trap_frequencies = Hz(100) } } },
+    stages = { cp.stages.associate { ramp_rate = 1, max_efficiency = 0.1 }, cp.stages.remove_atoms {},
+      cp.stages.hold { duration = 1e-3 } } }:run { limiting = false }
+  return notes(bud.stages[3])
+end
+local mol = cp.species.molecule("NaCs")
+local mu = mol.mass / 2
+local c6 = mol.c6_au * 4.3597447222071e-18 * 5.29177210903e-11 ^ 6 -- E_h a0^6 (CODATA 2018, physics.md 1)
+local e1 = (2 * cp.consts.hbar ^ 2) ^ 1.5 / (3 * math.sqrt(6) * mu ^ 1.5 * math.sqrt(c6)) / cp.consts.kB
+T.check(e1 < 3e-6 and 300 * u.nK > 0.1 * e1, "NaCs: 300 nK is past a tenth of the barrier (by hand)")
+T.check(hold_note("23Na133Cs", "23Na", "133Cs"):find("of the p-wave barrier", 1, true) ~= nil, "NaCs near its barrier: noted")
+T.check(not hold_note("40K87Rb", "87Rb", "40K"):find("p-wave barrier", 1, true), "KRb far below its barrier: no note")
+
 -- EDGE-5 bad model parameters are errors where the stage is built, naming the stage
 -- constructor and the field (they surfaced only when the plan ran).
 T.raises(function() cp.stages.transfer { rabi_pump = 1e7, rabi_stokes = 1e7, width = 1e-5, delay = 1e-5,
