@@ -140,6 +140,25 @@ T.near(st[6].number, N5 / 3, 1e-6, "evaporation keeps a third")
 T.near(st[6].temperature, math.exp(lnT), 1e-6, "temperature after evaporation (RK4 here)")
 T.near(b.final.degeneracy, math.exp(lnT) / tc(N5 / 3, w4), 1e-6, "final T/T_c by hand")
 
+-- WORKED-7 the evaporation's duration without two-body loss (cross section given): with
+-- T = T0 x^alpha (x = N/N0, alpha = (eta + kappa)/3 - 1, the no-loss scaling above) the
+-- per-particle loss rate <n> f sigma v_rel, <n> = N (m wbar^2 / (4 pi kB T))^(3/2),
+-- v_rel = sqrt(16 kB T / (pi m)), f = eta e^-eta / sqrt 2 (docs/models/collisions.md) is
+-- Gamma0 x^(1 - alpha), so t = integral dx x^(alpha - 2) / Gamma0 from x_f to 1
+-- = (1 - x_f^(alpha - 1)) / ((alpha - 1) Gamma0)   (integrated here by hand).
+local sigma, eta7 = 1e-16, 8
+local b7 = cp.plan { start = { molecule = "87Rb133Cs", temperature = T0, atoms = {
+      { atom = "87Rb", number = N_rb, trap_frequencies = w_rb }, { atom = "133Cs", number = N_cs, trap_frequencies = w_cs } } },
+  stages = { cp.stages.associate { ramp_rate = ramp, max_efficiency = pmax }, cp.stages.transfer { efficiency = 0.9 },
+    cp.stages.evaporate { eta = eta7, keep = 0.5, cross_section = sigma, loss_rate = 0 } } }:run { limiting = false }
+local N6, T6 = b7.stages[2].number, b7.stages[2].temperature
+local alpha = (eta7 + (eta7 - 5) / (eta7 - 4)) / 3 - 1
+local n_mean = N6 * (mol.mass * wbar * wbar / (4 * pi * c.kB * T6)) ^ 1.5
+local gamma0 = n_mean * eta7 * math.exp(-eta7) / math.sqrt(2) * sigma * math.sqrt(16 * c.kB * T6 / (pi * mol.mass))
+T.near(b7.final.temperature, T6 * 0.5 ^ alpha, 1e-6, "no-loss evaporation: T ~ N^alpha")
+T.near(b7.final.duration, (1 - 0.5 ^ (alpha - 1)) / ((alpha - 1) * gamma0), 1e-4,
+  "evaporation time without loss (closed form)")
+
 -- the bookkeeping over the whole plan
 local eff = 1
 for _, r in ipairs(st) do eff = eff * r.efficiency end
