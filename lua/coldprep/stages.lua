@@ -329,6 +329,11 @@ function M.associate(args)
           .. "trusting this stage", mol.name, r.b0 / cp.units.G)
       end
       for _, c in ipairs { a, b } do
+        if c.statistics == "fermion" and c.degeneracy < 1 then
+          notes[#notes + 1] = string.format("%s is degenerate (T/T_F = %.2g): the molecules take the "
+            .. "pairs' temperature and leave out the Fermi motion of its atoms, so they start colder "
+            .. "than they would", c.name, c.degeneracy)
+        end
         if c.statistics == "boson" and c.degeneracy < 1 then
           -- overlap_density has no profile for a partly condensed cloud without the atoms'
           -- scattering length (not in the species data)
@@ -695,6 +700,9 @@ end
 -- Excited fraction above which the budget warns that loading was not adiabatic
 -- (common practice, no source).
 local EXCITED_WARNING = 0.01
+-- A lattice shallower than this many kB T does not hold the molecules (common practice,
+-- no source: optical traps are made ~10 kB T deep and deeper).
+local SHALLOW_LATTICE = 10
 
 -- cp.stages.load_lattice{wavelength (m), power (W per beam), waist (m), polarizability_au,
 --   ramp_time (s) [, ramp_shape = "s-shaped", imag_polarizability_au, reflectivity = 1,
@@ -727,6 +735,11 @@ function M.load_lattice(args)
         lat.omega[2] / (2 * math.pi), lat.omega[3] / (2 * math.pi))
       -- entropy is conserved by the adiabatic part of the loading (cp.thermo.match_lattice)
       local m = MODEL.match_lattice(s, lat)
+      local depth_kt = lat.depth / (cp.consts.kB * m.temperature)
+      if depth_kt < SHALLOW_LATTICE then
+        notes[#notes + 1] = string.format("the lattice is only %.2g kB T deep: molecules are not held "
+          .. "in it (the model takes it as infinitely deep and ignores gravity)", depth_kt)
+      end
       -- molecules left in excited bands carry the interband energy; once it is shared it
       -- adds dS = dE / (kB T) per particle, to first order in the excited fraction
       local f = lat.excited_fraction

@@ -146,6 +146,17 @@ T.check(180 * u.nK < tc_na and an:find("23Na is below T_c", 1, true) ~= nil, "co
 local hot = plan({}, 600 * u.nK):run { limiting = false }
 T.check(600 * u.nK > tc_na and not notes(hot.stages[1]):find("below T_c", 1, true), "thermal partner: no note")
 
+-- EDGE-6b a lattice of 1 uW per beam is far too shallow to hold molecules at ~100 nK:
+-- V0 = 4 Re(alpha) P / (pi eps0 c w^2) (physics.md 6.1) with 700 a.u. = 1.154e-38 SI,
+-- 1e-6 W, 180 um gives V0/kB ~ 1e-11 K, i.e. ~1e-4 kB T (by hand).
+local alpha_si = 700 * 1.6487772743602864e-41
+local v0 = 4 * alpha_si * 1e-6 / (pi * 8.8541878128e-12 * 299792458 * (180 * u.um) ^ 2)
+T.check(v0 / cp.consts.kB < 1e-9, "1 uW lattice: nK-shallow (by hand)")
+local shallow = plan { cp.stages.load_lattice { wavelength = 1064 * u.nm, power = 1e-6, waist = 180 * u.um,
+  polarizability_au = 700, ramp_time = 0.05 } }:run { limiting = false }
+T.check(notes(shallow.stages[4]):find("molecules are not held", 1, true) ~= nil, "too shallow a lattice is flagged")
+T.check(notes(cold.stages[1]):find("40K is degenerate", 1, true) ~= nil, "degenerate fermionic partner noted")
+
 -- EDGE-7 a trap change after lattice loading leaves the lattice: the next hold has no
 -- photon-scattering heating (it kept heating at the lattice's rate).
 local lat = { wavelength = 1064 * u.nm, power = 0.6, waist = 180 * u.um, polarizability_au = 700,
