@@ -272,7 +272,12 @@ end
 
 -- budget:print([file]): write the report to `file` (default io.stdout).
 function Budget:print(file)
-  (file or io.stdout):write(self:text())
+  if file ~= nil and io.type(file) ~= "file" then
+    error("budget:print: expects an open file (e.g. io.stdout or io.open(path, \"w\")), got "
+      .. (io.type(file) or type(file)) .. "; to write to a path use io.open or budget:text()", 2)
+  end
+  local ok, err = (file or io.stdout):write(self:text())
+  if not ok then error("budget:print: cannot write: " .. tostring(err), 2) end
 end
 
 -- ---- CSV (RFC 4180) -------------------------------------------------------------------
@@ -320,8 +325,11 @@ function Budget:write_csv(path)
     for i, fld in ipairs(CSV_FIELDS) do cells[i] = csv_field(csv_value(r, fld)) end
     lines[#lines + 1] = table.concat(cells, ",")
   end
-  f:write(table.concat(lines, "\r\n"), "\r\n")
-  f:close()
+  local ok, err = f:write(table.concat(lines, "\r\n"), "\r\n")
+  local closed, cerr = f:close()
+  if not ok or not closed then
+    error("budget:write_csv: cannot write " .. path .. ": " .. tostring(err or cerr), 2)
+  end
 end
 
 -- ---- JSON -----------------------------------------------------------------------------
@@ -392,8 +400,11 @@ function Budget:write_json(path)
     limiting_index = self.limiting_index, reason = self.reason, ranking = self.ranking,
     safety = self.safety,
   }
-  f:write(json(doc, 0), "\n")
-  f:close()
+  local ok, err = f:write(json(doc, 0), "\n")
+  local closed, cerr = f:close()
+  if not ok or not closed then
+    error("budget:write_json: cannot write " .. path .. ": " .. tostring(err or cerr), 2)
+  end
 end
 
 R.Budget = Budget

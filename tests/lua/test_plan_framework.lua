@@ -345,6 +345,12 @@ T.check(js:find('a \\"quoted\\", noted\\nline', 1, true) ~= nil, "JSON string es
 T.check(not js:find("nan", 1, true) and not js:find("inf", 1, true), "JSON has no NaN or inf")
 T.raises(function() nb:write_csv("/nonexistent-dir/x.csv") end, { "budget:write_csv", "cannot write" },
   "unwritable path")
+T.raises(function() nb:print("budget.txt") end, { "budget:print", "expects an open file", "string" },
+  "print given a path instead of a file")
+if io.open("/dev/full", "wb") then
+  -- a full disk (Linux /dev/full: every write fails with ENOSPC) is an error, not a silent loss
+  T.raises(function() nb:write_json("/dev/full") end, { "budget:write_json", "cannot write" }, "full disk")
+end
 
 -- PLAN-F9b: molecules lost at random (a transfer of efficiency 0.9) carry the mean energy,
 -- so E/N is kept and a degenerate Fermi gas heats.  By hand: the Sommerfeld expansion
