@@ -332,7 +332,12 @@ end
 -- plan:run([{limiting = true}]) -> budget (see coldprep.report).  limiting = false skips
 -- the limiting-stage analysis (one rerun per stage), e.g. inside a sweep.
 function Plan:run(opts)
-  if opts ~= nil then A.table("plan:run", opts, { "limiting" }) end
+  if opts ~= nil then
+    A.table("plan:run", opts, { "limiting" })
+    if opts.limiting ~= nil and type(opts.limiting) ~= "boolean" then
+      A.fail("plan:run", "argument 'limiting' must be true or false, got %s", type(opts.limiting))
+    end
+  end
   local steps, final = run_stages(self, self.start, 1, #self.stages)
   local v = verdict(self, final)
   local ranking = (opts and opts.limiting == false) and {} or limiting(self, steps, final)

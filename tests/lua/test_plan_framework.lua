@@ -94,6 +94,8 @@ local quick = plan:run { limiting = false }
 T.check(quick.limiting_stage == nil and #quick.ranking == 0, "limiting = false: no ranking")
 T.near(quick.final.degeneracy, b.final.degeneracy, 1e-12, "limiting = false: same final state")
 T.raises(function() plan:run { limting = false } end, { "plan:run", "did you mean 'limiting'" }, "run option checked")
+T.raises(function() plan:run { limiting = "no" } end, { "plan:run", "'limiting'", "true or false" },
+  "run option is a boolean (\"no\" ran the analysis)")
 
 -- PLAN-F4: the threshold is settable and flips the verdict.
 local pass = cp.plan { start = start(), stages = { convert(1) }, threshold = 50 }:run()
