@@ -187,6 +187,13 @@ local function run_stages(self, s, first, last)
           or string.format("%s: the sample it hands on is outside the thermodynamics model: %s", who, msg), 0)
       end
       info.error = nil
+      if st.adiabatic and before.kind == after.kind
+        and after.entropy_per_particle < before.entropy_per_particle * (1 - 1e-6) then
+        -- an adiabatic change keeps the entropy per particle or adds to it, never lowers it
+        info.notes = info.notes or {}
+        table.insert(info.notes, 1, string.format("entropy per particle fell from %.4g to %.4g kB in a "
+          .. "stage declared adiabatic: it cannot", before.entropy_per_particle, after.entropy_per_particle))
+      end
       if after.number > before.number * (1 + 1e-12) then
         info.notes = info.notes or {}
         table.insert(info.notes, 1, string.format("the number of particles rose by a factor %.3g: "

@@ -171,6 +171,11 @@ T.check(tostring(err):find("^stage 2 %(freeze%): .*temperature") ~= nil
   and not tostring(err):find("coldprep/", 1, true), "too cold a sample: named stage, no library path: " .. tostring(err))
 T.raises(function() cp.plan { start = start(), stages = { cp.stages.custom { name = "n", fn = function(s)
   return s, { notes = "one note" } end } } }:run() end, { "stage 1 (n)", "'notes'" }, "notes must be a list")
+local fake = cp.stages.custom { name = "magic cooling", adiabatic = true, fn = function(s)
+  s.temperature = s.temperature / 2; return s end }
+local fb = cp.plan { start = start(), stages = { convert(0.5), fake } }:run { limiting = false }
+T.check(fb.stages[2].notes[1]:find("declared adiabatic", 1, true) ~= nil,
+  "an 'adiabatic' stage that lowers the entropy per particle is flagged")
 local grow = cp.plan { start = start(), stages = { convert(0.5), keep(2, "reload") } }:run { limiting = false }
 T.check(grow.stages[2].notes[1]:find("rose by a factor 2", 1, true) ~= nil, "a stage that adds particles is flagged")
 local s1 = start()
