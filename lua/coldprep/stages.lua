@@ -69,10 +69,35 @@ function MODEL.hold(s, beta, lifetime, heating, duration)
     heating_rate = heating, duration = duration, points = 2 }
 end
 
+-- The time the evaporation takes along its trajectory (N_k, T_k): particles leave at the
+-- evaporation rate f Gamma_el (f = eta e^-eta / sqrt 2 of the elastic collisions, Ketterle
+-- & van Druten 1996, as in cp.collisions.evaporation) plus the two-body loss rate, so
+-- dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2),
+-- v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
+-- Returns the time (s) at each point of the trajectory, 0 at the first.
+function MODEL.evaporation_times(s, r, eta, sigma, beta0)
+  local m, kB = s.mass, cp.consts.kB
+  local wbar = S.omega_bar(s.trap_frequencies)
+  local f = eta * math.exp(-eta) / math.sqrt(2)
+  local function rate(N, T)
+    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5
+    local beta = s.statistics == "fermion" and beta0 * T / s.temperature or beta0
+    return n * (f * sigma * math.sqrt(16 * kB * T / (math.pi * m)) + beta)
+  end
+  local times = { 0 }
+  for i = 2, #r.numbers do
+    local n0, n1, t0, t1 = r.numbers[i - 1], r.numbers[i], r.temperatures[i - 1], r.temperatures[i]
+    -- trapezoid in ln N of 1/rate
+    times[i] = times[i - 1] + 0.5 * (1 / rate(n0, t0) + 1 / rate(n1, t1)) * math.log(n0 / n1)
+  end
+  return times
+end
+
 -- Evaporation at truncation eta in the fixed trap (cp.collisions.evaporation) down to
--- target.number, or to the number at which the trajectory reaches target.temperature
--- (interpolated in ln N over a fine trajectory): {number, temperature, efficiency,
--- numbers, temperatures}.
+-- target.number, or to the number at which the trajectory reaches target.temperature or
+-- lasts target.duration (interpolated in ln N over a fine trajectory; a duration needs
+-- target.sigma and target.beta for the rates): {number, temperature, efficiency, numbers,
+-- temperatures}.
 function MODEL.evaporate(s, eta, kappa, ratio, target)
   local w = s.trap_frequencies
   local args = { number = s.number, temperature = s.temperature, mass = s.mass,
@@ -85,40 +110,30 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
   args.final_number, args.points = math.max(1, s.number * 1e-6), 400
   local tr = cp.collisions.evaporation(args)
   local n, t = tr.numbers, tr.temperatures
+  -- the quantity that marks the end point along the trajectory, and its target value
+  local along, goal
+  if target.temperature then
+    along, goal = function(i) return math.log(t[i]) end, math.log(target.temperature)
+  else
+    local times = MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)
+    along, goal = function(i) return -times[i] end, -target.duration
+  end
   for i = 2, #n do
-    if t[i] <= target.temperature then
-      local f = math.log(target.temperature / t[i - 1]) / math.log(t[i] / t[i - 1])
+    if along(i) <= goal then
+      local f = (goal - along(i - 1)) / (along(i) - along(i - 1))
       args.final_number = n[i - 1] * (n[i] / n[i - 1]) ^ f
       args.points = 64
       return cp.collisions.evaporation(args)
     end
   end
-  error(string.format("stage evaporate: the temperature never falls to %.3g nK (it ends at %.3g nK "
-    .. "with %.3g particles); losses outrun the cooling", target.temperature / cp.units.nK,
-    t[#t] / cp.units.nK, n[#n]), 0)
-end
-
--- The time the evaporation takes along its trajectory (N_k, T_k): particles leave at the
--- evaporation rate f Gamma_el (f = eta e^-eta / sqrt 2 of the elastic collisions, Ketterle
--- & van Druten 1996, as in cp.collisions.evaporation) plus the two-body loss rate, so
--- dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2),
--- v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
-function MODEL.evaporation_time(s, r, eta, sigma, beta0)
-  local m, kB = s.mass, cp.consts.kB
-  local wbar = S.omega_bar(s.trap_frequencies)
-  local f = eta * math.exp(-eta) / math.sqrt(2)
-  local function rate(N, T)
-    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5
-    local beta = s.statistics == "fermion" and beta0 * T / s.temperature or beta0
-    return n * (f * sigma * math.sqrt(16 * kB * T / (math.pi * m)) + beta)
+  if target.temperature then
+    error(string.format("stage evaporate: the temperature never falls to %.3g nK (it ends at %.3g nK "
+      .. "with %.3g particles); losses outrun the cooling", target.temperature / cp.units.nK,
+      t[#t] / cp.units.nK, n[#n]), 0)
   end
-  local t = 0
-  for i = 2, #r.numbers do
-    local n0, n1, t0, t1 = r.numbers[i - 1], r.numbers[i], r.temperatures[i - 1], r.temperatures[i]
-    -- trapezoid in ln N of 1/rate
-    t = t + 0.5 * (1 / rate(n0, t0) + 1 / rate(n1, t1)) * math.log(n0 / n1)
-  end
-  return t
+  error(string.format("argument 'duration' = %.3g s is longer than the evaporation can last: after "
+    .. "%.3g s only %.3g of %.3g particles are left", target.duration,
+    MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number), 0)
 end
 
 -- The cubic lattice of three equal retro-reflected beams (cp.lattice.depth3d), its
@@ -587,18 +602,19 @@ end
 -- The largest elastic-to-loss ratio cp.collisions.evaporation accepts.
 local NO_LOSS_RATIO = 1e12
 
--- cp.stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J),
---   electric_field (V/m) | cross_section (m^2) [, ratio, kappa, loss_rate, label]}
+-- cp.stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J) |
+--   duration (s), electric_field (V/m) | cross_section (m^2) [, ratio, kappa, loss_rate, label]}
 function M.evaporate(args)
   local fname = "stages.evaporate"
   A.table(fname, args, { "eta", "final_number", "keep", "final_temperature", "final_depth",
-    "electric_field", "cross_section", "ratio", "kappa", "loss_rate", "label" })
+    "duration", "electric_field", "cross_section", "ratio", "kappa", "loss_rate", "label" })
   local p = {
     eta = A.number(fname, args, "eta", "U/kB T", { min = 5, max = 30 }),
     final_number = A.number(fname, args, "final_number", "particles", { optional = true, min = 1 }),
     keep = A.number(fname, args, "keep", "fraction", { optional = true, positive = true, max = 1 }),
     final_temperature = A.number(fname, args, "final_temperature", "K", { optional = true, positive = true }),
     final_depth = A.number(fname, args, "final_depth", "J", { optional = true, positive = true }),
+    duration = A.number(fname, args, "duration", "s", { optional = true, positive = true, max = 1e5 }),
     electric_field = A.number(fname, args, "electric_field", "V/m", { optional = true, positive = true, max = 1e8 }),
     cross_section = A.number(fname, args, "cross_section", "m^2", { optional = true, positive = true }),
     ratio = A.number(fname, args, "ratio", "elastic/loss", { optional = true, positive = true }),
@@ -610,16 +626,20 @@ function M.evaporate(args)
       .. "(an evaporation must lose particles)")
   end
   local ends = 0
-  for _, k in ipairs { "final_number", "keep", "final_temperature", "final_depth" } do
+  for _, k in ipairs { "final_number", "keep", "final_temperature", "final_depth", "duration" } do
     if p[k] then ends = ends + 1 end
   end
   if ends ~= 1 then
     A.fail(fname, "give exactly one end point: 'final_number', 'keep' (fraction kept), "
-      .. "'final_temperature' (K) or 'final_depth' (J)")
+      .. "'final_temperature' (K), 'final_depth' (J) or 'duration' (s)")
   end
   if not (p.ratio or p.electric_field or p.cross_section) then
     A.fail(fname, "missing argument 'electric_field' (V/m, polarises the molecules for dipolar "
       .. "elastic collisions) or 'cross_section' (m^2) or 'ratio' (elastic to loss collisions)")
+  end
+  if p.duration and p.ratio then
+    A.fail(fname, "argument 'duration' needs the collision rates: give 'electric_field' or "
+      .. "'cross_section' instead of 'ratio'")
   end
   local equipment = {}
   if p.electric_field then
@@ -655,7 +675,8 @@ function M.evaporate(args)
       leftover_note(s, notes)
       thermal_note(s, notes, "evaporation", "starts")
       local target = { number = p.final_number or (p.keep and p.keep * s.number),
-        temperature = p.final_temperature or (p.final_depth and p.final_depth / (p.eta * cp.consts.kB)) }
+        temperature = p.final_temperature or (p.final_depth and p.final_depth / (p.eta * cp.consts.kB)),
+        duration = p.duration, sigma = sigma, beta = beta }
       if target.number and target.number >= s.number then
         error(string.format("argument 'final_number' = %.4g is not below the %.4g molecules the "
           .. "evaporation starts with", target.number, s.number), 0)
@@ -679,7 +700,8 @@ function M.evaporate(args)
       if s.degeneracy >= 1 then thermal_note(out, notes, "evaporation", "ends") end
       local duration, unknown = 0, false
       if sigma then
-        duration = MODEL.evaporation_time(s, r, p.eta, sigma, beta)
+        local times = MODEL.evaporation_times(s, r, p.eta, sigma, beta)
+        duration = times[#times]
         if duration > LONG_EVAPORATION then
           notes[#notes + 1] = string.format("the evaporation takes %.3g s%s: one-body loss "
             .. "(background gas, light scattering) during it is not modelled, and molecule "
@@ -844,15 +866,17 @@ heating, one-body loss, technical heating, and the lattice's photon-scattering h
 (cp.collisions.hold, a thermal-cloud model).  Example: cp.stages.hold{duration = 0.1,
 lifetime = 5}]],
   evaporate = [[
-stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J),
-  electric_field (V/m) | cross_section (m^2) | ratio [, kappa, loss_rate (m^3/s), label]}
+stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J) |
+  duration (s), electric_field (V/m) | cross_section (m^2) | ratio [, kappa,
+  loss_rate (m^3/s), label]}
   -> stage
 Evaporation of ground-state molecules at truncation eta (5..30) in the fixed trap
 (cp.collisions.evaporation, the scaling model).  Elastic collisions: the dipolar cross
 section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_field
 (d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
 collisions.  Ends at a number, a kept fraction (0 < keep < 1), a temperature, or a trap
-depth (T = depth/(eta kB)), which must lie below the sample's.  Duration from the
+depth (T = depth/(eta kB)), which must lie below the sample's, or after a duration (needs
+electric_field or cross_section).  Duration from the
 trajectory (unknown, NaN, with only a ratio); one-body loss is not modelled (a note
 flags evaporations longer than 1 s).  Example: cp.stages.evaporate{eta = 8, final_temperature = 60e-9,
 electric_field = 0.6e5}]],

@@ -40,6 +40,11 @@ T.raises(function() plan { cp.stages.evaporate { eta = 8, final_depth = 8 * cp.c
 T.raises(function() plan { cp.stages.evaporate { eta = 8, final_number = 1e6, ratio = 100 } }:run() end,
   { "stage 4 (evaporate)", "'final_number'", "not below" }, "final number above the start")
 
+T.raises(function() cp.stages.evaporate { eta = 8, duration = 1, ratio = 100 } end,
+  { "stages.evaporate", "'duration'", "cross_section" }, "a duration end point needs the collision rates")
+T.raises(function() plan { cp.stages.evaporate { eta = 8, duration = 1e5, cross_section = 1e-15, loss_rate = 0 } }:run() end,
+  { "stage 4 (evaporate)", "'duration'", "longer than the evaporation can last" }, "an unreachable duration")
+
 -- EDGE-2 an evaporation whose duration follows only from a collision ratio has an unknown
 -- duration: NaN ("-"), not 0 ms, and the elapsed time says it is not counted.
 local b = plan { cp.stages.evaporate { eta = 8, keep = 0.5, ratio = 300 } }:run { limiting = false }

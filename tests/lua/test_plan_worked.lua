@@ -159,6 +159,18 @@ T.near(b7.final.temperature, T6 * 0.5 ^ alpha, 1e-6, "no-loss evaporation: T ~ N
 T.near(b7.final.duration, (1 - 0.5 ^ (alpha - 1)) / ((alpha - 1) * gamma0), 1e-4,
   "evaporation time without loss (closed form)")
 
+-- WORKED-7b the same evaporation ended by a duration: inverting the closed form,
+-- x = (1 - (alpha - 1) Gamma0 t)^(1/(alpha - 1)) and T = T6 x^alpha (by hand).
+local t7 = 0.5 * (1 - 0.5 ^ (alpha - 1)) / ((alpha - 1) * gamma0)
+local b7t = cp.plan { start = { molecule = "87Rb133Cs", temperature = T0, atoms = {
+      { atom = "87Rb", number = N_rb, trap_frequencies = w_rb }, { atom = "133Cs", number = N_cs, trap_frequencies = w_cs } } },
+  stages = { cp.stages.associate { ramp_rate = ramp, max_efficiency = pmax }, cp.stages.transfer { efficiency = 0.9 },
+    cp.stages.evaporate { eta = eta7, duration = t7, cross_section = sigma, loss_rate = 0 } } }:run { limiting = false }
+local x7 = (1 - (alpha - 1) * gamma0 * t7) ^ (1 / (alpha - 1))
+T.near(b7t.final.number, N6 * x7, 1e-4, "evaporation ended by a duration: number (closed form)")
+T.near(b7t.final.temperature, T6 * x7 ^ alpha, 1e-4, "evaporation ended by a duration: temperature")
+T.near(b7t.final.duration, t7, 1e-4, "evaporation ended by a duration: duration")
+
 -- the bookkeeping over the whole plan
 local eff = 1
 for _, r in ipairs(st) do eff = eff * r.efficiency end
