@@ -443,8 +443,10 @@ function M.transfer(args)
     local notes = {}
     local e = eff or result.efficiency
     if result then
-      notes[#notes + 1] = string.format("one-way efficiency %.4g from the Lambda-system model; "
-        .. "%.3g lost through the excited state", e, result.lost)
+      notes[#notes + 1] = string.format("one-way efficiency %.4g from the Lambda-system model "
+        .. "(round trip %.3g if both ways are alike, what imaging after a return pulse sees); "
+        .. "%.3g lost through the excited state, %.3g left in the Feshbach state", e, e * e,
+        result.lost, result.populations.initial)
     else
       notes[#notes + 1] = string.format("one-way efficiency %.4g as given", e)
     end
