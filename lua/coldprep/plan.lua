@@ -187,6 +187,11 @@ local function run_stages(self, s, first, last)
           or string.format("%s: the sample it hands on is outside the thermodynamics model: %s", who, msg), 0)
       end
       info.error = nil
+      local sc = S.semiclassical_note(after)
+      if sc then
+        info.notes = info.notes or {}
+        info.notes[#info.notes + 1] = sc
+      end
       if st.adiabatic and before.kind == after.kind
         and after.entropy_per_particle < before.entropy_per_particle * (1 - 1e-6) then
         -- an adiabatic change keeps the entropy per particle or adds to it, never lowers it

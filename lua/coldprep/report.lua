@@ -16,6 +16,7 @@
 --   phase-space density when that stage is improved; NaN, with the message in `failed`,
 --   when the plan fails with that stage improved), safety (list of caution texts)
 local cp = require "coldprep"
+local S = require "coldprep.sample"
 
 local R = {}
 local Budget = {}
@@ -137,6 +138,7 @@ function R.budget(run)
   for _, c in ipairs(run.start.atoms) do
     b.start.notes[#b.start.notes + 1] = string.format("%s: %.3g atoms at %.4g nK, %s = %.3g",
       c.name, c.number, c.temperature / cp.units.nK, c.degeneracy_name, c.degeneracy)
+    b.start.notes[#b.start.notes + 1] = S.semiclassical_note(c)
   end
   b.stages = {}
   for k, st in ipairs(run.steps) do

@@ -94,6 +94,20 @@ function S.derive(c)
   return c
 end
 
+-- The thermo model is semiclassical: it needs many trap levels thermally occupied,
+-- kB T >> hbar omega_bar (physics.md 7).  Below SEMICLASSICAL times hbar omega_bar (common
+-- practice, no source: the corrections grow as (hbar omega_bar / kB T)^2) this returns a
+-- note for the budget, else nil.
+local SEMICLASSICAL = 3
+function S.semiclassical_note(c)
+  if S.is_empty(c) then return nil end
+  local r = cp.consts.kB * c.temperature / (cp.consts.hbar * c.omega_bar)
+  if r >= SEMICLASSICAL then return nil end
+  return string.format("kB T is only %.2g hbar omega_bar for the %s: the thermodynamics assumes many "
+    .. "trap levels occupied (kB T >> hbar omega_bar), so %s and the densities are rough", r, c.name,
+    c.degeneracy_name)
+end
+
 -- The trap of cloud c in the form cp.thermo takes (number, mass, three frequencies).
 local function thermo_trap(c)
   return { number = c.number, mass = c.mass, statistics = c.statistics,

@@ -176,6 +176,14 @@ local fake = cp.stages.custom { name = "magic cooling", adiabatic = true, fn = f
 local fb = cp.plan { start = start(), stages = { convert(0.5), fake } }:run { limiting = false }
 T.check(fb.stages[2].notes[1]:find("declared adiabatic", 1, true) ~= nil,
   "an 'adiabatic' stage that lowers the entropy per particle is flagged")
+-- 2 nK in a 100 Hz trap is kB T / (hbar w) = 2e-9 * 1.380649e-23 / (1.054571817e-34 * 2 pi
+-- 100) = 0.42 (by hand, CODATA 2018): far from the semiclassical regime the thermo model
+-- assumes; 3 uK (the start) is 625, fine.
+local few = cp.plan { start = start(), stages = { convert(0.5), cp.stages.custom { name = "deep cool",
+  fn = function(s) s.number, s.temperature = 50, 2e-9; return s end } } }:run { limiting = false }
+local semi = table.concat(few.stages[2].notes, " ")
+T.check(semi:find("kB T is only 0.42 hbar omega_bar", 1, true) ~= nil, "semiclassical limit flagged: " .. semi)
+T.check(not table.concat(few.stages[1].notes, " "):find("hbar omega_bar", 1, true), "hot sample: no note")
 local grow = cp.plan { start = start(), stages = { convert(0.5), keep(2, "reload") } }:run { limiting = false }
 T.check(grow.stages[2].notes[1]:find("rose by a factor 2", 1, true) ~= nil, "a stage that adds particles is flagged")
 local s1 = start()
