@@ -4,11 +4,6 @@
 set -euo pipefail
 bin=$1
 top=$(cd "$(dirname "$0")/../.." && pwd)
-for m in feshbach raman thermo collisions; do
-  if [ "$("$bin" -e "io.write(tostring(cp.$m ~= nil))")" != true ]; then
-    echo "SKIP: cp.$m is not in this build yet"; exit 0
-  fi
-done
 out=$("$bin" "$top/scripts/demo.lua")
 fail() { echo "FAIL: $1"; exit 1; }
 grep -q "Preparation budget: Tidewater lab, first NaK plan" <<<"$out" || fail "first budget"
