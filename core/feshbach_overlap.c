@@ -8,15 +8,17 @@
  *  - first a fixed product rule (feshbach_overlap_rule.c): spherical coordinates about the
  *    sharper cloud, each profile a function of its scaled potential tabulated once per call
  *    (feshbach_profile.c), Gauss–Legendre panels along each ray that end where a profile
- *    ends or turns over.  It is evaluated at two sizes and accepted when they agree to
- *    1e-8 relative (~0.5 ms for the demo plan's clouds); on disagreement a third, larger
- *    size is compared with the second.  Measured against the adaptive path below, the
- *    accepted values agree to better than 1e-7 (test FB-9);
- *  - otherwise (deeply degenerate, T/T_F below ~0.004; two Thomas–Fermi clouds of different
- *    shapes whose surfaces cross; a small cloud far off the other's centre) the reference:
- *    nested GSL adaptive Gauss–Kronrod quadrature over the clouds' common support in
- *    Cartesian coordinates, using the x -> -x and y -> -y symmetry (~0.1 s per call).
- * Measured costs in docs/models/feshbach.md.
+ *    ends or turns over.  It runs at two sizes and the larger is accepted when they agree
+ *    to 1e-8 relative (0.65 ms for the demo plan's clouds, whose result it gives to 2e-11);
+ *    on disagreement a third, larger size is compared with the second;
+ *  - where it declines — no two sizes agree (two Thomas–Fermi clouds of different shapes,
+ *    whose surfaces cross), a Fermi cloud too degenerate for its table (T/T_F below
+ *    ~0.004), or neither cloud's centre inside the other's bulk (clouds sagged apart: seen
+ *    from outside, a cloud fills a narrow cone of directions that every rule size could
+ *    miss alike) — the reference: nested GSL adaptive Gauss–Kronrod quadrature over the
+ *    clouds' common support in Cartesian coordinates, using the x -> -x and y -> -y
+ *    symmetry (0.1–0.3 s per call for Fermi clouds).  The tests hold the two paths
+ *    against each other (FB-9b) and against closed forms (FB-8, FB-9).
  */
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_integration.h>
