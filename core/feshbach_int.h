@@ -82,10 +82,11 @@ cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_st
                                       double *overlap, cp_error *err);
 
 /* The fast path (feshbach_overlap.c): the spherical rule below at successive sizes
- * (12, 16, 6), (16, 24, 8), (24, 36, 12), accepted when two agree to 1e-8 relative; CP_OK
- * and *overlap, else CP_ENOCONV and NaN (rule sizes disagree, a Fermi cloud too degenerate
- * for its table, or neither cloud's centre inside the other's core).  No cp_error: its
- * caller falls back. */
+ * (12, 16, 6), (16, 24, 8), (24, 36, 12), accepted when two agree to 1e-8 relative, about
+ * one cloud's centre and then the other's; CP_OK and *overlap, else CP_ENOCONV and NaN
+ * (rule sizes disagree, a Fermi cloud too degenerate for its table, or neither centre sees
+ * the other cloud's core in a cone of >= 30 degrees).  No cp_error: its caller falls
+ * back. */
 cp_status cp_feshbach_overlap_fixed(const cp_cloud_state *a, const cp_cloud_state *b,
                                     double *overlap);
 

@@ -13,9 +13,9 @@
  *    on disagreement a third, larger size is compared with the second;
  *  - where it declines — no two sizes agree (two Thomas–Fermi clouds of different shapes,
  *    whose surfaces cross), a Fermi cloud too degenerate for its table (T/T_F below
- *    ~0.004), or neither cloud's centre inside the other's bulk (clouds sagged apart: seen
- *    from outside, a cloud fills a narrow cone of directions that every rule size could
- *    miss alike) — the reference: nested GSL adaptive Gauss–Kronrod quadrature over the
+ *    ~0.004), or neither cloud's centre sees the other's bulk in a wide cone (clouds sagged
+ *    far apart: seen from outside, a cloud fills a narrow cone of directions that every
+ *    rule size could miss alike) — the reference: nested GSL adaptive Gauss–Kronrod quadrature over the
  *    clouds' common support in Cartesian coordinates, using the x -> -x and y -> -y
  *    symmetry (0.1–0.3 s per call for Fermi clouds).  The tests hold the two paths
  *    against each other (FB-9b) and against closed forms (FB-8, FB-9).
@@ -162,13 +162,42 @@ static double sharpness(const cp_cloud_profile *p)
     }
 }
 
-/* Whether the centre of c lies in the core of o: then every ray from it starts inside o's
- * bulk and the directions resolve o, whereas a cloud seen from outside fills a narrow cone
- * that every rule size could miss alike (and so agree on a wrong value). */
-static int inside_core(const cp_cloud_profile *c, const cp_cloud_profile *o)
+/* Whether the rays from the centre of c see the core of o (u_o <= u_core) in a wide cone:
+ * a cloud seen from outside fills a cone of directions that every rule size could miss
+ * alike (and so agree on a wrong value).  In c's scaled coordinates o's scaled position is
+ * (q_x y_x, q_y y_y, q_z y_z + d), q_i = L_ci / L_oi; a ray at angle theta from the z axis
+ * in the x-z plane passes within the core when tan(theta) <= (q_z / q_x)
+ * sqrt(u_core / (d^2 - u_core)) (minimising the quadratic along the ray), likewise in y-z.  Accepted:
+ * the centre inside the core (2, preferred), or a cone of half-angle >= 30 degrees about
+ * both axes (1: two or three polar nodes of the smallest rule in it; the size comparison
+ * judges the rest); else 0. */
+static int sees_core(const cp_cloud_profile *c, const cp_cloud_profile *o)
 {
-    double d = (c->centre - o->centre) / o->length[2];
-    return d * d < o->u_core;
+    static const double open_cone = CP_PI / 6.0;
+    double d = (c->centre - o->centre) / o->length[2], u = o->u_core;
+    if (d * d < u)
+        return 2;
+    for (int i = 0; i < 2; i++) {
+        double qi = c->length[i] / o->length[i], qz = c->length[2] / o->length[2];
+        if (qz / qi * sqrt(u / (d * d - u)) < tan(open_cone))
+            return 0;
+    }
+    return 1;
+}
+
+/* The rule about centre c at successive sizes: CP_OK and the integral when two agree. */
+static cp_status ladder(const cp_cloud_profile *c, const cp_cloud_profile *o, double *integral)
+{
+    double prev = cp_feshbach_overlap_rule(c, o, RULES[0]);
+    for (size_t k = 1; k < sizeof RULES / sizeof RULES[0]; k++) {
+        double v = cp_feshbach_overlap_rule(c, o, RULES[k]);
+        if (isfinite(v) && fabs(v - prev) <= RULE_TOL * fabs(v)) {
+            *integral = v;
+            return CP_OK;
+        }
+        prev = v;
+    }
+    return CP_ENOCONV;
 }
 
 cp_status cp_feshbach_overlap_fixed(const cp_cloud_state *a, const cp_cloud_state *b,
@@ -178,24 +207,24 @@ cp_status cp_feshbach_overlap_fixed(const cp_cloud_state *a, const cp_cloud_stat
     *overlap = NAN;
     if (cp_cloud_profile_init(a, &pa) != CP_OK || cp_cloud_profile_init(b, &pb) != CP_OK)
         return CP_ENOCONV;
-    /* the centre: the sharper cloud, else the other, if its centre is in the other's core */
-    const cp_cloud_profile *c = sharpness(&pa) > sharpness(&pb) ? &pa : &pb;
-    const cp_cloud_profile *o = c == &pa ? &pb : &pa;
-    if (!inside_core(c, o)) {
-        const cp_cloud_profile *t = c;
-        c = o;
-        o = t;
-        if (!inside_core(c, o))
-            return CP_ENOCONV;
+    /* centres: one inside the other's core first, else the sharper cloud's; each only
+     * where it sees the other's core in a wide cone */
+    const cp_cloud_profile *first = sharpness(&pa) > sharpness(&pb) ? &pa : &pb;
+    const cp_cloud_profile *centres[2] = {first, first == &pa ? &pb : &pa};
+    int view[2] = {sees_core(centres[0], centres[1]), sees_core(centres[1], centres[0])};
+    if (view[1] > view[0]) {
+        centres[1] = first;
+        centres[0] = first == &pa ? &pb : &pa;
+        view[0] = view[1];
+        view[1] = sees_core(centres[1], centres[0]);
     }
-    double prev = cp_feshbach_overlap_rule(c, o, RULES[0]);
-    for (size_t k = 1; k < sizeof RULES / sizeof RULES[0]; k++) {
-        double v = cp_feshbach_overlap_rule(c, o, RULES[k]);
-        if (isfinite(v) && fabs(v - prev) <= RULE_TOL * fabs(v)) {
-            *overlap = v / b->number;
+    for (int k = 0; k < 2; k++) {
+        const cp_cloud_profile *c = centres[k], *o = centres[1 - k];
+        double integral;
+        if (view[k] > 0 && ladder(c, o, &integral) == CP_OK) {
+            *overlap = integral / b->number;
             return CP_OK;
         }
-        prev = v;
     }
     return CP_ENOCONV;
 }

@@ -448,7 +448,9 @@ static void prepare_pair(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
  * demo plan's clouds (23Na thermal, 4e5 atoms, 2 pi x (90, 110, 220) Hz; 40K Fermi,
  * 1.5e5 atoms, 2 pi x (110, 135, 270) Hz; 180 nK, T/T_F ~ 0.25, scripts/demo.lua), a
  * degenerate 6Li–40K Fermi–Fermi pair with sag, and a Thomas–Fermi condensate with a
- * Fermi gas at T/T_F ~ 0.1.  The fast path must accept its result for all three (a silent
+ * Fermi gas at T/T_F ~ 0.1, and a condensate and a Fermi gas in a weak trap, sagged apart
+ * by more than 4 thermal lengths of the Fermi cloud (the rule runs about the condensate's
+ * centre, outside the Fermi cloud's core).  The fast path must accept its result for all four (a silent
  * fallback would cost 100 ms per plan).  Two Thomas–Fermi clouds of different shapes
  * (their surfaces cross: kinks the fixed rule does not follow) are declined and the
  * public path gives the reference's value. */
@@ -485,6 +487,16 @@ static void test_overlap_fast(void **state)
                             {tp * 80, tp * 90, tp * 200}, 0.0};
     prepare_pair(&rb, &kc, 40e-9, &sa, &sb);
     assert_true(sb.eta > 10.0);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+
+    cp_feshbach_cloud rb_weak = {CP_PROFILE_THOMAS_FERMI, 4e5, 86.909180529 * CP_AMU,
+                                 {tp * 20, tp * 20, tp * 30}, 100.0 * CP_A0};
+    cp_feshbach_cloud k_weak = {CP_PROFILE_FERMI, 1e5, 39.963998165 * CP_AMU,
+                                {tp * 25, tp * 25, tp * 40}, 0.0};
+    prepare_pair(&rb_weak, &k_weak, 100e-9, &sa, &sb);
+    assert_true(fabs(sa.sag - sb.sag) > 4.0 * sb.ell[2]);
     assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
     assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
     assert_rel(fast, ref, 1e-6);
