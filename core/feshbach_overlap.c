@@ -15,9 +15,9 @@
  *    whose surfaces cross), a Fermi cloud too degenerate for its table (T/T_F below
  *    ~0.004), or neither cloud's centre sees the other's bulk in a wide cone (clouds sagged
  *    far apart: seen from outside, a cloud fills a narrow cone of directions that every
- *    rule size could miss alike) — the reference: nested GSL adaptive Gauss–Kronrod quadrature over the
- *    clouds' common support in Cartesian coordinates, using the x -> -x and y -> -y
- *    symmetry (0.1–0.3 s per call for Fermi clouds).  The tests hold the two paths
+ *    rule size could miss alike) — the reference: nested GSL adaptive Gauss–Kronrod
+ *    quadrature over the clouds' common support in Cartesian coordinates, using the
+ *    x -> -x and y -> -y symmetry (0.1–0.3 s per call for Fermi clouds).  The tests hold the two paths
  *    against each other (FB-9b) and against closed forms (FB-8, FB-9).
  */
 #include <gsl/gsl_errno.h>
@@ -166,9 +166,9 @@ static double sharpness(const cp_cloud_profile *p)
  * a cloud seen from outside fills a cone of directions that every rule size could miss
  * alike (and so agree on a wrong value).  In c's scaled coordinates o's scaled position is
  * (q_x y_x, q_y y_y, q_z y_z + d), q_i = L_ci / L_oi; a ray at angle theta from the z axis
- * in the x-z plane passes within the core when tan(theta) <= (q_z / q_x)
- * sqrt(u_core / (d^2 - u_core)) (minimising the quadratic along the ray), likewise in y-z.  Accepted:
- * the centre inside the core (2, preferred), or a cone of half-angle >= 30 degrees about
+ * in the x-z plane passes within the core when
+ * tan(theta) <= (q_z / q_x) sqrt(u_core / (d^2 - u_core)) (minimising the quadratic along
+ * the ray), likewise in y-z.  Accepted: the centre inside the core (2, preferred), or a cone of half-angle >= 30 degrees about
  * both axes (1: two or three polar nodes of the smallest rule in it; the size comparison
  * judges the rest); else 0. */
 static int sees_core(const cp_cloud_profile *c, const cp_cloud_profile *o)

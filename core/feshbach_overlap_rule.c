@@ -15,6 +15,7 @@
  * Weideman, SIAM Review 56, 385 (2014) [M]).  Gauss–Legendre nodes and weights by Newton's
  * method on the three-term recurrence of the Legendre polynomials.
  */
+#include <assert.h>
 #include <float.h>
 #include <math.h>
 
@@ -122,6 +123,8 @@ double cp_feshbach_overlap_rule(const cp_cloud_profile *c, const cp_cloud_profil
     double xt[CP_OVERLAP_MAX_POINTS], wt[CP_OVERLAP_MAX_POINTS];
     double cphi[CP_OVERLAP_MAX_POINTS], sphi[CP_OVERLAP_MAX_POINTS];
     int m = rule.azimuthal;
+    assert(rule.radial <= CP_OVERLAP_MAX_POINTS && rule.polar <= CP_OVERLAP_MAX_POINTS &&
+           m <= CP_OVERLAP_MAX_POINTS && rule.radial > 0 && rule.polar > 0 && m > 0);
     gauss_legendre(rule.radial, xr, wr);
     gauss_legendre(rule.polar, xt, wt);
     double dphi = 0.5 * CP_PI / m;
@@ -140,7 +143,8 @@ double cp_feshbach_overlap_rule(const cp_cloud_profile *c, const cp_cloud_profil
         double t = xt[j], s2 = 1.0 - t * t, sum = 0.0;
         double az = q[2] * q[2] * t * t, b = q[2] * t * d;
         for (int k = 0; k < m; k++) {
-            double a = s2 * (q[0] * q[0] * cphi[k] * cphi[k] + q[1] * q[1] * sphi[k] * sphi[k]) + az;
+            double qx = q[0] * cphi[k], qy = q[1] * sphi[k];
+            double a = s2 * (qx * qx + qy * qy) + az;
             sum += ray(c, o, a, b, d * d, rr);
         }
         total += wt[j] * sum;

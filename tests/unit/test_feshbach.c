@@ -450,8 +450,8 @@ static void prepare_pair(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
  * degenerate 6Li–40K Fermi–Fermi pair with sag, and a Thomas–Fermi condensate with a
  * Fermi gas at T/T_F ~ 0.1, and a condensate and a Fermi gas in a weak trap, sagged apart
  * by more than 4 thermal lengths of the Fermi cloud (the rule runs about the condensate's
- * centre, outside the Fermi cloud's core).  The fast path must accept its result for all four (a silent
- * fallback would cost 100 ms per plan).  Two Thomas–Fermi clouds of different shapes
+ * centre, outside the Fermi cloud's core).  The fast path must accept its result for all
+ * four (a silent fallback would cost 100 ms per plan).  Two Thomas–Fermi clouds of different shapes
  * (their surfaces cross: kinks the fixed rule does not follow) are declined and the
  * public path gives the reference's value. */
 static void test_overlap_fast(void **state)
