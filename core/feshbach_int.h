@@ -45,11 +45,71 @@ double cp_cloud_occupation(const cp_cloud_state *s, const double rt[3], const do
  * *status = CP_EINVAL).  Sets *status to CP_ENUMERIC if a GSL special function fails. */
 double cp_cloud_density(const cp_cloud_state *s, const double r[3], cp_status *status);
 
-/* The overlap integral (1/N_b) Int n_a n_b d^3r by numerical quadrature for any pair of
- * prepared clouds (feshbach_overlap.c); exposed so tests can check it against the closed
- * form for Gaussians. */
+/* The density of a THERMAL, FERMI or THOMAS_FERMI cloud as a function of its scaled
+ * potential u = sum_i ((r_i - c_i) / L_i)^2, c = (0, 0, sag) (feshbach_profile.c): a
+ * closed form, or for FERMI a Chebyshev table of F_{1/2}(eta - u) built once.  Plain data,
+ * no pointers: lives on the caller's stack (about 17 kB). */
+enum { CP_PROFILE_PANELS = 128, CP_PROFILE_ORDER = 16, CP_PROFILE_BREAKS = 12 };
+typedef struct cp_cloud_profile {
+    cp_feshbach_profile kind;
+    double length[3];  /* L_i, m */
+    double centre;     /* z of the cloud's centre (its sag), m */
+    double amplitude;  /* density prefactor, m^-3 */
+    double eta;        /* FERMI: ln fugacity */
+    double u_max;      /* beyond it the density is zero (TF) or below e^-45 of its peak */
+    double u_core;     /* the bulk of the cloud: u <= u_core (TF: 1; else e^-4 of the peak or
+                          of the Fermi-surface density) */
+    int nbreak;        /* levels of u where the profile changes character (FERMI) */
+    double u_break[CP_PROFILE_BREAKS];
+    int npanel;        /* FERMI: Chebyshev panels of width 2 in x = eta - u over [x_lo, eta] */
+    double x_lo;
+    double coef[CP_PROFILE_PANELS][CP_PROFILE_ORDER];
+} cp_cloud_profile;
+
+/* Fill *p from a prepared cloud.  CP_EINVAL for a BOSE cloud, CP_ENUMERIC if GSL fails,
+ * CP_ENOCONV if a FERMI cloud is too degenerate for the table (eta > 2 CP_PROFILE_PANELS
+ * - 8, T/T_F below ~0.004): the caller then uses the adaptive quadrature.  No cp_error:
+ * every failure is handled by the caller's fallback. */
+cp_status cp_cloud_profile_init(const cp_cloud_state *s, cp_cloud_profile *p);
+
+/* Density at scaled potential u >= 0, m^-3. */
+double cp_cloud_profile_density(const cp_cloud_profile *p, double u);
+
+/* The overlap integral (1/N_b) Int n_a n_b d^3r of two prepared clouds
+ * (feshbach_overlap.c): cp_feshbach_overlap_fixed, else cp_feshbach_overlap_adaptive.
+ * Relative accuracy ~1e-7. */
 cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_state *b,
                                       double *overlap, cp_error *err);
+
+/* The fast path (feshbach_overlap.c): the spherical rule below at successive sizes
+ * (12, 16, 6), (16, 24, 8), (24, 36, 12), accepted when two agree to 1e-8 relative, about
+ * one cloud's centre and then the other's; CP_OK and *overlap, else CP_ENOCONV and NaN
+ * (rule sizes disagree, a Fermi cloud too degenerate for its table, or neither centre sees
+ * the other cloud's core in a cone of >= 30 degrees).  No cp_error: its caller falls
+ * back. */
+cp_status cp_feshbach_overlap_fixed(const cp_cloud_state *a, const cp_cloud_state *b,
+                                    double *overlap);
+
+/* The reference: nested GSL adaptive Gauss–Kronrod quadrature (relative tolerances 1e-7
+ * outer, 1e-8, 1e-9 inner) in Cartesian coordinates (feshbach_overlap.c); ~0.1 s per call.
+ * The fallback of cp_feshbach_overlap_numeric and the tests' reference. */
+cp_status cp_feshbach_overlap_adaptive(const cp_cloud_state *a, const cp_cloud_state *b,
+                                       double *overlap, cp_error *err);
+
+/* Rule sizes of the fixed spherical quadrature: Gauss–Legendre points per radial panel,
+ * in cos(theta), and midpoint-rule points in phi over [0, pi/2]. */
+typedef struct cp_overlap_rule {
+    int radial, polar, azimuthal;
+} cp_overlap_rule;
+
+/* The overlap integral (without the 1/N_b) with one fixed rule (feshbach_overlap_rule.c),
+ * in spherical coordinates about the centre of the sharper cloud c (scaled by its own L),
+ * the other cloud o entering along each ray through its quadratic scaled potential; the
+ * radial panels end where either profile changes character or ends.  Sizes up to
+ * CP_OVERLAP_MAX_POINTS each; no allocation. */
+enum { CP_OVERLAP_MAX_POINTS = 64 };
+double cp_feshbach_overlap_rule(const cp_cloud_profile *c, const cp_cloud_profile *o,
+                                cp_overlap_rule rule);
 
 /* efficiency[i] = max_efficiency (1 - exp(-coefficient/|rates[i]|)) for validated inputs
  * (feshbach_kernel.c, compiled for vectorisation). */

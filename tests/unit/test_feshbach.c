@@ -350,13 +350,19 @@ static void test_overlap_thermal(void **state)
     /* the sag cuts the overlap: compare with no gravity by hand (exp factor) */
     assert_true(n < 1e5 / sqrt(prod));
 
-    /* numerical quadrature against the closed form, with sag */
+    /* both numerical paths against the closed form, with sag: the adaptive reference and
+     * the fixed spherical rule (which must accept its own result here) */
     cp_cloud_state sa, sb;
     assert_int_equal(cp_cloud_prepare(&a, t, "test", "a", 1u, &sa, NULL), CP_OK);
     assert_int_equal(cp_cloud_prepare(&b, t, "test", "b", 1u, &sb, NULL), CP_OK);
     double num;
-    assert_int_equal(cp_feshbach_overlap_numeric(&sa, &sb, &num, NULL), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &num, NULL), CP_OK);
     assert_rel(num, want, 1e-6);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &num), CP_OK);
+    assert_rel(num, want, 1e-9);
+    /* roles swapped: (1/N_a) Int n_a n_b = want N_b / N_a */
+    assert_int_equal(cp_feshbach_overlap_fixed(&sb, &sa, &num), CP_OK);
+    assert_rel(num, want * 3e4 / 1e5, 1e-9);
     /* a weak trap (large sag, 20 Hz): overlap cut by orders of magnitude, still matched */
     cp_feshbach_cloud a2 = cloud(CP_PROFILE_THERMAL, 1e5, 86.909180529, 2 * M_PI * 20.0);
     cp_feshbach_cloud b2 = cloud(CP_PROFILE_THERMAL, 1e5, 39.963998165, 2 * M_PI * 26.0);
@@ -372,9 +378,13 @@ static void test_overlap_thermal(void **state)
  * Int (1-u)^2 / Int (1-u) over the unit ball = (8/105)/(2/15)); ideal Fermi gas: the LDA
  * profile seen by a much broader Gaussian gives N_a n_b(0)/N_b (normalisation through GSL's
  * F_1/2 vs the F_2 fugacity equation), at T/T_F = 20 it meets the Gaussian closed form, and
- * at T/T_F = 0.03 the self-overlap approaches the
- * T = 0 value (4608 / (2835 pi)) n0(T=0), n0 = (2 m E_F / hbar^2)^(3/2) / (6 pi^2) (hand,
- * Butts & Rokhsar 1997 [M]). */
+ * at T/T_F = tau = 0.01 the self-overlap is the T = 0 value (4608 / (2835 pi)) n0(T=0),
+ * n0 = (2 m E_F / hbar^2)^(3/2) / (6 pi^2) (hand, Butts & Rokhsar 1997 [M]), times the
+ * Sommerfeld correction 1 - (27 pi^2 / 32) tau^2 (derived by hand: with E_F = 1, positions
+ * weighted by sqrt(V) dV, the local density n = h0 * K, h0 = (2/3) x^(3/2) smeared by the
+ * thermal kernel K = -f' of variance pi^2 tau^2 / 3, so Int n^2 ~ mu^(9/2) 128/2835
+ * + (pi^2 tau^2 / 3) (4/45) mu^(5/2) at fixed N, mu^3 + pi^2 tau^2 mu = 1; the remainder is
+ * O(tau^4 ln tau), ~2e-6 here). */
 static void test_overlap_degenerate(void **state)
 {
     (void)state;
@@ -387,7 +397,7 @@ static void test_overlap_degenerate(void **state)
     assert_int_equal(cp_cloud_prepare(&tf, 0.0, "t", "a", 1u << CP_PROFILE_THOMAS_FERMI, &s,
                                       NULL), CP_OK);
     double n0 = 15.0 * 1e5 / (8 * M_PI * s.radius[0] * s.radius[1] * s.radius[2]);
-    assert_rel(n, 4.0 / 7.0 * n0, 1e-6);
+    assert_rel(n, 4.0 / 7.0 * n0, 1e-9);
     /* n0 = mu / g (Dalfovo et al. 1999 [M]) */
     assert_rel(n0, s.mu_tf * tf.mass / (4 * M_PI * CP_HBAR * CP_HBAR * tf.scattering_length),
                1e-9);
@@ -413,13 +423,92 @@ static void test_overlap_degenerate(void **state)
     assert_int_equal(cp_feshbach_overlap_density(&rb, &hot, thot, &n_cl, &sag, NULL), CP_OK);
     assert_rel(n, n_cl, 1e-4);
 
-    /* Fermi at T/T_F = 0.03 vs T = 0 */
+    /* Fermi at T/T_F = 0.01 vs T = 0 with the Sommerfeld correction */
     cp_feshbach_cloud g = cloud(CP_PROFILE_FERMI, 1e5, 39.963998165, w);
-    double ef = CP_HBAR * w * cbrt(6e5);
-    double tt = 0.03 * ef / CP_KB;
-    assert_int_equal(cp_feshbach_overlap_density(&g, &g, tt, &n, &sag, NULL), CP_OK);
+    double ef = CP_HBAR * w * cbrt(6e5), tau = 0.01;
+    assert_int_equal(cp_feshbach_overlap_density(&g, &g, tau * ef / CP_KB, &n, &sag, NULL),
+                     CP_OK);
     double n00 = pow(2 * g.mass * ef / (CP_HBAR * CP_HBAR), 1.5) / (6 * M_PI * M_PI);
-    assert_rel(n, 4608.0 / (2835.0 * M_PI) * n00, 1e-2);
+    assert_rel(n, 4608.0 / (2835.0 * M_PI) * n00 * (1.0 - 27.0 * M_PI * M_PI / 32.0 * tau * tau),
+               1e-5);
+}
+
+/* Prepared states of two clouds for the overlap checks. */
+static void prepare_pair(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b, double t,
+                         cp_cloud_state *sa, cp_cloud_state *sb)
+{
+    const unsigned all = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
+                         (1u << CP_PROFILE_THOMAS_FERMI);
+    assert_int_equal(cp_cloud_prepare(a, t, "test", "a", all, sa, NULL), CP_OK);
+    assert_int_equal(cp_cloud_prepare(b, t, "test", "b", all, sb, NULL), CP_OK);
+}
+
+/* FB-9b: the fixed spherical rule (the fast path) against the independent adaptive
+ * Cartesian quadrature (the reference, GSL QAG nested three deep), to 1e-6 relative: the
+ * demo plan's clouds (23Na thermal, 4e5 atoms, 2 pi x (90, 110, 220) Hz; 40K Fermi,
+ * 1.5e5 atoms, 2 pi x (110, 135, 270) Hz; 180 nK, T/T_F ~ 0.25, scripts/demo.lua), a
+ * degenerate 6Li–40K Fermi–Fermi pair with sag, and a Thomas–Fermi condensate with a
+ * Fermi gas at T/T_F ~ 0.1, and a condensate and a Fermi gas in a weak trap, sagged apart
+ * by more than 4 thermal lengths of the Fermi cloud (the rule runs about the condensate's
+ * centre, outside the Fermi cloud's core).  The fast path must accept its result for all
+ * four (a silent fallback would cost 100 ms per plan).  Two Thomas–Fermi clouds of different shapes
+ * (their surfaces cross: kinks the fixed rule does not follow) are declined and the
+ * public path gives the reference's value. */
+static void test_overlap_fast(void **state)
+{
+    (void)state;
+    double tp = 2 * M_PI, fast, ref, num;
+    cp_cloud_state sa, sb;
+    cp_feshbach_cloud na = {CP_PROFILE_THERMAL, 4e5, 22.98976928 * CP_AMU,
+                            {tp * 90, tp * 110, tp * 220}, 0.0};
+    cp_feshbach_cloud k = {CP_PROFILE_FERMI, 1.5e5, 39.963998165 * CP_AMU,
+                           {tp * 110, tp * 135, tp * 270}, 0.0};
+    prepare_pair(&na, &k, 180e-9, &sa, &sb);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+    /* the other way round: N_a <n_b>_a = N_b <n_a>_b (the same integral) */
+    assert_int_equal(cp_feshbach_overlap_fixed(&sb, &sa, &num), CP_OK);
+    assert_rel(num * sa.number, fast * sb.number, 1e-9);
+
+    cp_feshbach_cloud kf = {CP_PROFILE_FERMI, 1e5, 39.963998165 * CP_AMU,
+                            {tp * 110, tp * 135, tp * 270}, 0.0};
+    cp_feshbach_cloud li = {CP_PROFILE_FERMI, 2e5, 6.0151228 * CP_AMU,
+                            {tp * 300, tp * 350, tp * 700}, 0.0};
+    prepare_pair(&kf, &li, 300e-9, &sa, &sb);
+    assert_true(sb.eta > 5.0); /* the Li cloud is degenerate, T/T_F ~ 0.15 */
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+
+    cp_feshbach_cloud rb = {CP_PROFILE_THOMAS_FERMI, 4e5, 86.909180529 * CP_AMU,
+                            {tp * 60, tp * 70, tp * 150}, 100.0 * CP_A0};
+    cp_feshbach_cloud kc = {CP_PROFILE_FERMI, 1e5, 39.963998165 * CP_AMU,
+                            {tp * 80, tp * 90, tp * 200}, 0.0};
+    prepare_pair(&rb, &kc, 40e-9, &sa, &sb);
+    assert_true(sb.eta > 10.0);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+
+    cp_feshbach_cloud rb_weak = {CP_PROFILE_THOMAS_FERMI, 4e5, 86.909180529 * CP_AMU,
+                                 {tp * 20, tp * 20, tp * 30}, 100.0 * CP_A0};
+    cp_feshbach_cloud k_weak = {CP_PROFILE_FERMI, 1e5, 39.963998165 * CP_AMU,
+                                {tp * 25, tp * 25, tp * 40}, 0.0};
+    prepare_pair(&rb_weak, &k_weak, 100e-9, &sa, &sb);
+    assert_true(fabs(sa.sag - sb.sag) > 4.0 * sb.ell[2]);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+
+    cp_feshbach_cloud na_tf = {CP_PROFILE_THOMAS_FERMI, 4e5, 22.98976928 * CP_AMU,
+                               {tp * 90, tp * 110, tp * 220}, 52.0 * CP_A0};
+    prepare_pair(&na_tf, &rb, 0.0, &sa, &sb);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_ENOCONV);
+    assert_true(isnan(fast));
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_numeric(&sa, &sb, &num, NULL), CP_OK);
+    assert_true(num == ref);
 }
 
 /* FB-10: SPSS ceiling.  (a) Classical limit: P_max -> <x> = gamma (M/m_b)^3 <f_a>_b, and
@@ -738,6 +827,7 @@ int main(void)
         cmocka_unit_test(test_site),
         cmocka_unit_test(test_overlap_thermal),
         cmocka_unit_test(test_overlap_degenerate),
+        cmocka_unit_test(test_overlap_fast),
         cmocka_unit_test(test_spss),
         cmocka_unit_test(test_spss_closure),
         cmocka_unit_test(test_dissociation),
