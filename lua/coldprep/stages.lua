@@ -127,8 +127,8 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
     end
   end
   if target.temperature then
-    error(string.format("stage evaporate: the temperature never falls to %.3g nK (it ends at %.3g nK "
-      .. "with %.3g particles); losses outrun the cooling", target.temperature / cp.units.nK,
+    error(string.format("the temperature never falls to %.3g nK (it ends at %.3g nK "
+      .. "with %.3g particles left); losses outrun the cooling", target.temperature / cp.units.nK,
       t[#t] / cp.units.nK, n[#n]), 0)
   end
   error(string.format("argument 'duration' = %.3g s is longer than the evaporation can last: after "

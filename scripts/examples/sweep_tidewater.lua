@@ -3,7 +3,10 @@
 -- electric field of the final evaporation.  100 x 100 = 10 000 points.
 --   coldprep sweep scripts/examples/sweep_tidewater.lua --out tidewater.csv
 --   cp.plot.map{data = "tidewater.csv", x = "ramp_rate", y = "electric_field",
---               z = "final.t_over_tf", xlog = true, out = "tidewater.png"}
+--               z = "final.t_over_tf", xlog = true, out = "tidewater.png",
+--               xlabel = "ramp rate (T/s)", ylabel = "electric field (V/m)", zlabel = "T/T_F"}
+-- Points whose plan fails (e.g. an evaporation that never reaches its target temperature)
+-- keep their row, with the reason in the `error` column and empty outputs.
 local u = cp.units
 local pi = math.pi
 local function Hz(f) return 2 * pi * f end
@@ -36,7 +39,7 @@ end
 
 return {
   parameters = {
-    { name = "ramp_rate", from = 0.05 * u.G / u.ms, to = 5 * u.G / u.ms, points = 100, scale = "log" },
+    { name = "ramp_rate", from = 0.1 * u.G / u.ms, to = 100 * u.G / u.ms, points = 100, scale = "log" },
     { name = "electric_field", from = 0.1e5, to = 1e5, points = 100 },
   },
   evaluate = tidewater_plan,   -- the returned plan is run

@@ -140,20 +140,15 @@ sed -i '1s/label/lable/' other.csv && rm other.csv.done
 "$bin" sweep scan.lua --out other.csv --resume 2> other.err
 check "resume refuses another sweep's file" grep -q "another header" other.err
 
-# The demo plan's sweep (needs cp.plan and its stages): points 5049-5052 of its 10 000
-# (slice 1263 of 2500), 2 jobs.  Each row must carry a verdict consistent with the
-# fermionic threshold T/T_F <= 0.5 (docs/api: the plan's default threshold).
+# The demo plan's sweep: points 5049-5052 of its 10 000 (slice 1263 of 2500), 2 jobs.
+# Each row must carry a verdict consistent with the fermionic threshold T/T_F <= 0.5 (docs/api: the plan's default threshold).
 demo=$here/../../scripts/examples/sweep_tidewater.lua
-if "$bin" -e 'assert(cp.plan and cp.stages)' 2>/dev/null; then
-  "$bin" sweep "$demo" --jobs 2 --shard 1263/2500 --out demo.csv 2>/dev/null
-  f=demo.1263-of-2500.csv
-  check "demo plan sweep: 4 rows" test "$(wc -l < "$f")" -eq 5
-  check "demo plan sweep: header" grep -q '^point,ramp_rate,electric_field,final.number,final.temperature,final.t_over_tf,degenerate,limiting_stage,error' "$f"
-  check "demo plan sweep: points 5049-5052" awk -F, 'NR > 1 && $1 != 5047 + NR { exit 1 }' "$f"
-  check "demo plan sweep: verdict agrees with T/T_F <= 0.5" \
-    awk -F, 'NR > 1 && !(($6 <= 0.5 && $7 == "true") || ($6 > 0.5 && $7 == "false")) { exit 1 }' "$f"
-else
-  echo "skip demo plan sweep (cp.plan is not in this build)"
-fi
+"$bin" sweep "$demo" --jobs 2 --shard 1263/2500 --out demo.csv 2>/dev/null
+f=demo.1263-of-2500.csv
+check "demo plan sweep: 4 rows" test "$(wc -l < "$f")" -eq 5
+check "demo plan sweep: header" grep -q '^point,ramp_rate,electric_field,final.number,final.temperature,final.t_over_tf,degenerate,limiting_stage,error' "$f"
+check "demo plan sweep: points 5049-5052" awk -F, 'NR > 1 && $1 != 5047 + NR { exit 1 }' "$f"
+check "demo plan sweep: verdict agrees with T/T_F <= 0.5" \
+  awk -F, 'NR > 1 && !(($6 <= 0.5 && $7 == "true") || ($6 > 0.5 && $7 == "false")) { exit 1 }' "$f"
 
 exit $((fails > 0))
