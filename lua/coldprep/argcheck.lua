@@ -1,4 +1,4 @@
--- coldprep.argcheck: named-argument checks for the Lua-side library (plans and stages),
+-- coldprep.argcheck: named-argument checks for the Lua-side library (species, plans, stages),
 -- with the same messages as the C readers in lua/args.c:
 --   "stages.transfer: missing argument 'width' (s)",
 --   "stages.hold: unknown argument 'duraton' (did you mean 'duration'?)".

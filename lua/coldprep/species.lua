@@ -3,7 +3,7 @@
 -- User entries shadow built-in ones of the same name.
 local cp = require "coldprep"
 local builtin = cp.species -- the C binding (lua/bind_species.c)
-local units = cp.units
+local A = require "coldprep.argcheck"
 
 local M = {}
 local user_atoms, user_molecules, user_resonances = {}, {}, {}
@@ -94,42 +94,17 @@ function M.list()
   return names
 end
 
--- Argument checking for the add_* functions (Lua-side, same messages as the C readers).
-local function want_number(fname, args, k, unit, positive)
-  local v = args[k]
-  if type(v) ~= "number" then
-    error(string.format("%s: argument '%s' must be a number (%s), got %s", fname, k, unit, type(v)), 3)
-  end
-  if v ~= v or v == math.huge or v == -math.huge then
-    error(string.format("%s: argument '%s' must be a finite number (%s), got %s", fname, k, unit, tostring(v)), 3)
-  end
-  if positive and v <= 0 then
-    error(string.format("%s: argument '%s' = %g %s is out of range; allowed (0, inf) %s", fname, k, v, unit, unit), 3)
-  end
-  return v
-end
-
-local function check_keys(fname, args, known)
-  if type(args) ~= "table" then
-    error(string.format("%s: expects one table of named arguments, got %s", fname, type(args)), 3)
-  end
-  for k in pairs(args) do
-    local found = false
-    for _, kk in ipairs(known) do if k == kk then found = true end end
-    if not found then
-      error(string.format("%s: unknown argument '%s'; known: %s", fname, tostring(k), table.concat(known, ", ")), 3)
-    end
-  end
+-- The add_* functions check their arguments with the shared Lua-side readers.
+local function number(fname, args, k, unit, positive)
+  return A.number(fname, args, k, unit, { positive = positive })
 end
 
 function M.add_atom(args)
   local fname = "species.add_atom"
-  check_keys(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "source" })
+  A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "source" })
   check_name(fname, args.name)
-  local mass_u = want_number(fname, args, "mass_u", "u", true)
-  if args.statistics ~= "boson" and args.statistics ~= "fermion" then
-    error(fname .. ": argument 'statistics' must be \"boson\" or \"fermion\"", 2)
-  end
+  local mass_u = number(fname, args, "mass_u", "u", true)
+  A.option(fname, args, "statistics", { "boson", "fermion" })
   local a = {
     kind = "atom", name = args.name, mass_u = mass_u, mass = mass_u * cp.consts.amu,
     statistics = args.statistics, nuclear_spin = args.nuclear_spin,
@@ -143,7 +118,7 @@ end
 
 function M.add_molecule(args)
   local fname = "species.add_molecule"
-  check_keys(fname, args, { "name", "atoms", "dipole_debye", "rot_const_hz", "c6_au",
+  A.table(fname, args, { "name", "atoms", "dipole_debye", "rot_const_hz", "c6_au",
     "reactive", "source" })
   check_name(fname, args.name)
   if type(args.atoms) ~= "table" or #args.atoms ~= 2 then
@@ -155,9 +130,9 @@ function M.add_molecule(args)
     mass = a.mass + b.mass, mass_u = (a.mass + b.mass) / cp.consts.amu,
     reduced_mass = a.mass * b.mass / (a.mass + b.mass),
     statistics = (a.statistics == b.statistics) and "boson" or "fermion",
-    dipole_debye = want_number(fname, args, "dipole_debye", "D", false),
-    rot_const_hz = want_number(fname, args, "rot_const_hz", "Hz", true),
-    c6_au = want_number(fname, args, "c6_au", "a.u.", true),
+    dipole_debye = number(fname, args, "dipole_debye", "D", false),
+    rot_const_hz = number(fname, args, "rot_const_hz", "Hz", true),
+    c6_au = number(fname, args, "c6_au", "a.u.", true),
     reactive = args.reactive and true or false,
     source = args.source or "user-supplied",
   }
@@ -167,16 +142,16 @@ end
 
 function M.add_resonance(args)
   local fname = "species.add_resonance"
-  check_keys(fname, args, { "molecule", "b0", "width", "abg", "dmu", "c6_au", "states",
+  A.table(fname, args, { "molecule", "b0", "width", "abg", "dmu", "c6_au", "states",
     "source" })
   local m = M.molecule(args.molecule)
   local r = {
     molecule = m.name, states = args.states or "user-supplied",
-    b0 = want_number(fname, args, "b0", "T", true),
-    width = want_number(fname, args, "width", "T", false),
-    abg = want_number(fname, args, "abg", "m", false),
-    dmu = want_number(fname, args, "dmu", "J/T", true),
-    c6_au = args.c6_au ~= nil and want_number(fname, args, "c6_au", "a.u.", true) or nil,
+    b0 = number(fname, args, "b0", "T", true),
+    width = number(fname, args, "width", "T", false),
+    abg = number(fname, args, "abg", "m", false),
+    dmu = number(fname, args, "dmu", "J/T", true),
+    c6_au = A.number(fname, args, "c6_au", "a.u.", { optional = true, positive = true }),
     verified = true, source = args.source or "user-supplied",
   }
   if r.width == 0 or r.abg == 0 then
