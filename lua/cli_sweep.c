@@ -13,6 +13,7 @@
 #include <signal.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/file.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
@@ -252,7 +253,42 @@ static void close_output(cpl_sweep_run *r)
     r->nrecovered = 0;
 }
 
-static int run_sweep(cpl_sweep_run *r, const sweep_options *o, int64_t shard, int64_t shards)
+/* Take the output's lock, PATH.lock, so that two sweeps never write one file (their rows
+ * would interleave).  Returns the held descriptor, or -1 after printing why.  The inode
+ * check guards against a lock file that a finishing sweep unlinked meanwhile. */
+static int lock_output(const char *out, char *lock, size_t size)
+{
+    snprintf(lock, size, "%s.lock", out);
+    for (;;) {
+        int fd = open(lock, O_RDWR | O_CREAT | O_CLOEXEC, 0644);
+        if (fd < 0) {
+            fprintf(stderr, "coldprep sweep: cannot create %s: %s\n", lock, strerror(errno));
+            return -1;
+        }
+        if (flock(fd, LOCK_EX | LOCK_NB) != 0) {
+            int busy = errno == EWOULDBLOCK;
+            fprintf(stderr, "coldprep sweep: %s%s%s\n",
+                    busy ? "another coldprep sweep is writing " : "cannot lock ",
+                    busy ? out : lock, busy ? "; wait for it to end or stop it first" : "");
+            close(fd);
+            return -1;
+        }
+        struct stat held, now;
+        if (fstat(fd, &held) == 0 && stat(lock, &now) == 0 && held.st_ino == now.st_ino &&
+            held.st_dev == now.st_dev)
+            return fd;
+        close(fd); /* the file was replaced between open and flock: take the new one */
+    }
+}
+
+static void unlock_output(int fd, const char *lock)
+{
+    unlink(lock);
+    close(fd);
+}
+
+static int run_sweep_locked(cpl_sweep_run *r, const sweep_options *o, int64_t shard,
+                            int64_t shards)
 {
     int64_t first;
     cpl_shard_range(r->count, shard, shards, &first, &r->last);
@@ -313,6 +349,17 @@ static int run_sweep(cpl_sweep_run *r, const sweep_options *o, int64_t shard, in
                 (int)got_signal);
         rc = 128 + got_signal;
     }
+    return rc;
+}
+
+static int run_sweep(cpl_sweep_run *r, const sweep_options *o, int64_t shard, int64_t shards)
+{
+    char lock[4200];
+    int lfd = lock_output(r->out, lock, sizeof lock);
+    if (lfd < 0)
+        return CPL_EXIT_ERROR;
+    int rc = run_sweep_locked(r, o, shard, shards);
+    unlock_output(lfd, lock);
     return rc;
 }
 

@@ -2,7 +2,8 @@
 # `coldprep sweep` and `coldprep merge` through the real binary: output identical under
 # --jobs 1 and 2; a run killed with SIGKILL (for real, mid-sweep) then --resume'd equals an
 # uninterrupted run; a torn last row is dropped; SIGTERM stops cleanly; shards merge to
-# the unsharded file and a missing shard is refused; bad options are usage errors.
+# the unsharded file and a missing shard is refused; a second sweep on a busy output is
+# refused; bad options are usage errors.
 set -uo pipefail
 bin=$(realpath "$1")
 here=$(cd "$(dirname "$0")" && pwd)
@@ -66,6 +67,19 @@ SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 2 --out killed.csv --resume 2> resu
 check "resume drops the torn row" grep -q "dropped an incomplete last row" resume.err
 check "kill -9 then --resume equals an uninterrupted run" cmp -s killed.csv ref.csv
 check "resume of a finished file does nothing" "$bin" sweep scan.lua --out ref.csv --resume
+
+# Two sweeps never write one file: while one runs, a second on the same output (even with
+# --resume) is refused, and the file the first writes stays in point order.
+SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 1 --out busy.csv 2>/dev/null &
+pid=$!
+for _ in $(seq 1 400); do [ -f busy.csv.lock ] && break; sleep 0.02; done
+"$bin" sweep scan.lua --out busy.csv --resume 2> busy.err
+check "a second sweep on a busy output exits 1" test $? -eq 1
+check "and says another sweep is writing it" grep -q "another coldprep sweep is writing busy.csv" busy.err
+wait "$pid"
+check "the first sweep's file is whole and ordered" cmp -s busy.csv <(SCAN_WORK=30000 \
+  "$bin" sweep scan.lua --jobs 1 --out busy2.csv 2>/dev/null; cat busy2.csv)
+check "the lock is gone after a finished sweep" test ! -e busy.csv.lock
 
 # The journal: rows finished ahead of an unfinished earlier point are kept in
 # PATH.pending and recovered by --resume (rows 103 and 105 here, the first one marked so
