@@ -4,7 +4,8 @@
 --   coldprep sweep scripts/examples/sweep_tidewater.lua --out tidewater.csv
 --   cp.plot.map{data = "tidewater.csv", x = "ramp_rate", y = "electric_field",
 --               z = "final.t_over_tf", xlog = true, out = "tidewater.png",
---               xlabel = "ramp rate (T/s)", ylabel = "electric field (V/m)", zlabel = "T/T_F"}
+--               zlog = true, xlabel = "ramp rate (T/s)", ylabel = "electric field (V/m)",
+--               zlabel = "T/T_F"}
 -- Points whose plan fails (e.g. an evaporation that never reaches its target temperature)
 -- keep their row, with the reason in the `error` column and empty outputs.
 local u = cp.units
