@@ -49,39 +49,80 @@ static size_t edit_distance(const char *s, const char *t)
     return row[lt];
 }
 
-void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const known[])
+/* Push the set {key = true} of a NULL-terminated key list, built once per list and kept
+ * in the registry under the list's address (the lists are static arrays), so that
+ * checking a key costs one table lookup instead of a string comparison per known key. */
+static void push_key_set(lua_State *L, const char *const known[])
+{
+    if (lua_rawgetp(L, LUA_REGISTRYINDEX, known) == LUA_TTABLE)
+        return;
+    lua_pop(L, 1);
+    lua_newtable(L);
+    for (int i = 0; known[i]; i++) {
+        lua_pushboolean(L, 1);
+        lua_setfield(L, -2, known[i]);
+    }
+    lua_pushvalue(L, -1);
+    lua_rawsetp(L, LUA_REGISTRYINDEX, known);
+}
+
+/* Raise "fname[: what]: unknown <noun> 'key' (did you mean 'closest'?)". */
+static int unknown_key(lua_State *L, const char *fname, const char *what, const char *key,
+                       const char *const known[])
+{
+    const char *best = NULL;
+    size_t best_d = (size_t)-1;
+    for (int i = 0; known[i]; i++) {
+        size_t d = edit_distance(key, known[i]);
+        if (d < best_d) {
+            best_d = d;
+            best = known[i];
+        }
+    }
+    const char *sep = what ? ": " : "", *w = what ? what : "";
+    const char *noun = what ? "field" : "argument";
+    if (best)
+        return luaL_error(L, "%s%s%s: unknown %s '%s' (did you mean '%s'?)", fname, sep, w, noun,
+                          key, best);
+    return luaL_error(L, "%s%s%s: unknown %s '%s' (none are taken)", fname, sep, w, noun, key);
+}
+
+static void check_keys(lua_State *L, int arg, const char *fname, const char *what,
+                       const char *const known[])
 {
     arg = lua_absindex(L, arg);
-    if (!lua_istable(L, arg))
+    if (!lua_istable(L, arg)) {
+        if (what)
+            cpl_error(L, fname, "%s must be a table, got %s", what, luaL_typename(L, arg));
         cpl_error(L, fname, "expects one table of named arguments, got %s (call it as %s{...})",
                   luaL_typename(L, arg), fname);
+    }
+    push_key_set(L, known);
+    int set = lua_gettop(L);
     lua_pushnil(L);
     while (lua_next(L, arg)) {
         lua_pop(L, 1);
         if (lua_type(L, -1) != LUA_TSTRING)
-            cpl_error(L, fname, "argument keys must be names, got a %s key",
-                      luaL_typename(L, -1));
-        const char *key = lua_tostring(L, -1);
-        const char *best = NULL;
-        size_t best_d = (size_t)-1;
-        int found = 0;
-        for (int i = 0; known[i] && !found; i++)
-            found = strcmp(key, known[i]) == 0;
-        /* edit distances only for an unknown key: they dominate the cost of a call */
-        for (int i = 0; known[i] && !found; i++) {
-            size_t d = edit_distance(key, known[i]);
-            if (d < best_d) {
-                best_d = d;
-                best = known[i];
-            }
-        }
-        if (!found) {
-            if (best)
-                cpl_error(L, fname, "unknown argument '%s' (did you mean '%s'?)", key, best);
-            cpl_error(L, fname, "unknown argument '%s' (this function takes no arguments)",
-                      key);
-        }
+            cpl_error(L, fname, "%s%skeys must be names, got a %s key", what ? what : "argument ",
+                      what ? " " : "", luaL_typename(L, -1));
+        lua_pushvalue(L, -1);
+        int found = lua_rawget(L, set) != LUA_TNIL;
+        lua_pop(L, 1);
+        if (!found)
+            unknown_key(L, fname, what, lua_tostring(L, -1), known);
     }
+    lua_pop(L, 1); /* the key set */
+}
+
+void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const known[])
+{
+    check_keys(L, arg, fname, NULL, known);
+}
+
+void cpl_check_fields(lua_State *L, int idx, const char *fname, const char *what,
+                      const char *const known[])
+{
+    check_keys(L, idx, fname, what, known);
 }
 
 int cpl_has(lua_State *L, int arg, const char *key)

@@ -20,6 +20,12 @@
  * an unknown key is an error suggesting the closest known key. */
 void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const known[]);
 
+/* Check that the table at idx, a table-valued argument `what` of fname (e.g.
+ * "resonance"), has only the fields in `known`; an unknown field is an error
+ * "fname: what: unknown field 'x' (did you mean 'y'?)". */
+void cpl_check_fields(lua_State *L, int idx, const char *fname, const char *what,
+                      const char *const known[]);
+
 /* Required finite number. */
 double cpl_number(lua_State *L, int arg, const char *fname, const char *key, const char *unit);
 

@@ -64,7 +64,6 @@ static void read_resonance(lua_State *L, const char *fname, int need_c6,
     /* the fields of a cp.species.resonance table; any other key is a typo (c6au, ...) */
     static const char *const known[] = {"b0", "width", "abg", "dmu", "c6_au", "molecule",
                                         "states", "source", "verified", NULL};
-    char tname[96];
     int t = lua_getfield(L, 1, "resonance");
     if (t == LUA_TSTRING) {
         species_call(L, "resonance", -1);
@@ -74,8 +73,7 @@ static void read_resonance(lua_State *L, const char *fname, int need_c6,
                   "[, c6_au]} (cp.species.resonance) or a molecule name, got %s",
                   luaL_typename(L, -1));
     }
-    snprintf(tname, sizeof tname, "%s: resonance", fname);
-    cpl_check_args(L, lua_gettop(L), tname, known);
+    cpl_check_fields(L, lua_gettop(L), fname, "resonance", known);
     r->b0 = field_number(L, -1, fname, "resonance", "b0", "T", 1, 0.0);
     r->width = field_number(L, -1, fname, "resonance", "width", "T", 1, 0.0);
     r->abg = field_number(L, -1, fname, "resonance", "abg", "m", 1, 0.0);

@@ -215,7 +215,7 @@ T.raises(function() fb.associate { resonance = r, molecule = "XyZ", ramp_rate = 
   { "unknown molecule" }, "unknown molecule")
 T.raises(function() fb.binding_energy { resonance = { b0 = r.b0, width = r.width, abg = r.abg,
   dmu = r.dmu, c6au = 4274 }, molecule = m, field = r.b0 - 0.1 * G } end,
-  { "resonance", "unknown argument 'c6au'", "did you mean 'c6_au'" }, "typo in a resonance field")
+  { "resonance", "resonance: unknown field 'c6au'", "did you mean 'c6_au'" }, "typo in a resonance field")
 T.raises(function() fb.associate { resonance = { b0 = 0.05 }, molecule = m, ramp_rate = rate, density = n } end,
   { "width" }, "resonance table lacking fields")
 T.raises(function() fb.associate(5) end, { "one table" }, "not a table")
