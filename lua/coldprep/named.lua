@@ -29,11 +29,11 @@ function M.integer(fname, t, key, dflt, lo, hi)
   if math.type(v) ~= "integer" and not (is_finite(v) and v == math.floor(v)) then
     M.fail(fname, "argument '%s' must be an integer, got %s", key, tostring(v))
   end
-  v = math.tointeger(v)
-  if v < lo or v > hi then
-    M.fail(fname, "argument '%s' is %d; allowed %d to %d", key, v, lo, hi)
+  local iv = math.tointeger(v) -- nil for a whole float beyond the integers (1e300)
+  if iv == nil or iv < lo or iv > hi then
+    M.fail(fname, "argument '%s' is %s; allowed %d to %d", key, tostring(v), lo, hi)
   end
-  return v
+  return iv
 end
 
 -- A value of Lua type `ty` under key (required unless dflt ~= nil).

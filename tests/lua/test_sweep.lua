@@ -96,6 +96,7 @@ raises("unknown parameter key", "did you mean 'points'", cp.sweep, {parameters =
 raises("NaN bound", "argument 'to' must be a finite number", cp.sweep, {parameters = {{name = "x", from = 0, to = 0 / 0, points = 3}}, evaluate = ok_eval})
 raises("log range through zero", "logarithmic range needs from > 0", cp.sweep, {parameters = {{name = "x", from = 0, to = 1, points = 3, scale = "log"}}, evaluate = ok_eval})
 raises("zero points", "'points' is 0; allowed 1", cp.sweep, {parameters = {{name = "x", from = 0, to = 1, points = 0}}, evaluate = ok_eval})
+raises("points beyond the integers", "'points' is 1e+300; allowed 1", cp.sweep, {parameters = {{name = "x", from = 0, to = 1, points = 1e300}}, evaluate = ok_eval})
 raises("zip lengths", "need equal lengths", cp.sweep, {parameters = {{zip = {{name = "a", values = {1}}, {name = "b", values = {1, 2}}}}}, evaluate = ok_eval})
 raises("duplicate names", "used twice", cp.sweep, {parameters = {{name = "a", values = {1}}, {name = "a", values = {2}}}, evaluate = ok_eval})
 raises("missing evaluate", "missing argument 'evaluate'", cp.sweep, {parameters = {{name = "a", values = {1}}}})
