@@ -62,47 +62,73 @@ static int parse_shard(const char *s, int64_t *k, int64_t *n)
     return 1;
 }
 
-static int env_int(const char *name, long long *v)
+/* The integer in environment variable `name`: 1 if set, 0 if unset or empty, -1 (with a
+ * message in err) if it is not a whole number. */
+static int env_int(const char *name, long long *v, char *err, size_t errlen)
 {
     const char *s = getenv(name);
     char *end;
     if (s == NULL || *s == '\0')
         return 0;
+    errno = 0;
     *v = strtoll(s, &end, 10);
-    return *end == '\0' ? 1 : -1;
+    if (*end != '\0' || errno != 0) {
+        snprintf(err, errlen, "%s is '%.100s', not a whole number; give --shard K/N", name, s);
+        return -1;
+    }
+    return 1;
 }
 
 static int shard_from_env(int64_t *k, int64_t *n, char *err, size_t errlen)
 {
     long long id, count, lo = 0, hi, step = 1;
-    int have = env_int("SLURM_ARRAY_TASK_ID", &id);
+    int have = env_int("SLURM_ARRAY_TASK_ID", &id, err, errlen);
+    if (have < 0)
+        return -1;
     if (have > 0) {
         /* SLURM numbers tasks as the user's --array range says: offset by its minimum. */
-        if (env_int("SLURM_ARRAY_TASK_COUNT", &count) <= 0
-            || env_int("SLURM_ARRAY_TASK_MIN", &lo) <= 0) {
+        int c = env_int("SLURM_ARRAY_TASK_COUNT", &count, err, errlen);
+        int m = c < 0 ? 0 : env_int("SLURM_ARRAY_TASK_MIN", &lo, err, errlen);
+        if (c < 0 || m < 0)
+            return -1;
+        if (c == 0 || m == 0) {
             snprintf(err, errlen, "SLURM_ARRAY_TASK_ID is set but SLURM_ARRAY_TASK_COUNT or "
                      "SLURM_ARRAY_TASK_MIN is not; give --shard K/N");
             return -1;
         }
-        if (env_int("SLURM_ARRAY_TASK_STEP", &step) <= 0)
+        int st = env_int("SLURM_ARRAY_TASK_STEP", &step, err, errlen);
+        if (st < 0)
+            return -1;
+        if (st == 0)
             step = 1;
-        *k = (id - lo) / step + 1;
         *n = count;
-    } else if ((have = env_int("SGE_TASK_ID", &id)) > 0) {
-        if (env_int("SGE_TASK_FIRST", &lo) <= 0 || env_int("SGE_TASK_LAST", &hi) <= 0) {
+    } else {
+        have = env_int("SGE_TASK_ID", &id, err, errlen);
+        if (have <= 0)
+            return have;
+        int f = env_int("SGE_TASK_FIRST", &lo, err, errlen);
+        int l = f < 0 ? 0 : env_int("SGE_TASK_LAST", &hi, err, errlen);
+        if (f < 0 || l < 0)
+            return -1;
+        if (f == 0 || l == 0) {
             snprintf(err, errlen, "SGE_TASK_ID is set but SGE_TASK_FIRST/SGE_TASK_LAST are not");
             return -1;
         }
-        if (env_int("SGE_TASK_STEPSIZE", &step) <= 0 || step < 1)
+        int st = env_int("SGE_TASK_STEPSIZE", &step, err, errlen);
+        if (st < 0)
+            return -1;
+        if (st == 0)
             step = 1;
-        *k = (id - lo) / step + 1;
-        *n = (hi - lo) / step + 1;
-    } else {
-        return have < 0 ? -1 : 0;
+        *n = step >= 1 ? (hi - lo) / step + 1 : 0;
     }
-    if (*n < 1 || *k < 1 || *k > *n) {
+    if (step < 1) {
+        snprintf(err, errlen, "the scheduler's array step is %lld; allowed >= 1", step);
+        return -1;
+    }
+    *k = (id - lo) / step + 1;
+    if (*n < 1 || *n > (1LL << 30) || *k < 1 || *k > *n) {
         snprintf(err, errlen, "the scheduler's array variables give slice %" PRId64 " of %" PRId64
-                 ", which is not a valid slice", *k, *n);
+                 ", which is not a valid slice (1 <= K <= N <= 2^30)", *k, *n);
         return -1;
     }
     return 1;
@@ -378,9 +404,8 @@ int cpl_sweep_main(int argc, char **argv)
         have_shard |= strcmp(argv[i], "--shard") == 0;
     if (!have_shard) {
         char err[256];
-        int env = shard_from_env(&o.shard, &o.shards, err, sizeof err);
-        if (env < 0)
-            return usage(err[0] ? err : "a scheduler array variable is not a number", NULL);
+        if (shard_from_env(&o.shard, &o.shards, err, sizeof err) < 0)
+            return usage(err, NULL);
     }
 
     lua_State *L = cpl_new_state();

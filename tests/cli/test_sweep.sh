@@ -144,6 +144,13 @@ check "summary names points, rate and jobs" grep -q '^coldprep sweep: 300 of 300
 check "--jobs 0 is a usage error" test $? -eq 2
 "$bin" sweep scan.lua --shard 4/3 2>/dev/null
 check "--shard 4/3 is a usage error" test $? -eq 2
+SLURM_ARRAY_TASK_ID=abc "$bin" sweep scan.lua --out env.csv 2> env.err
+check "a malformed SLURM_ARRAY_TASK_ID is a usage error, not an unsharded run" \
+  test $? -eq 2 -a ! -e env.csv
+check "the malformed variable is named" grep -q "SLURM_ARRAY_TASK_ID is 'abc'" env.err
+SLURM_ARRAY_TASK_ID=1 SLURM_ARRAY_TASK_MIN=1 SLURM_ARRAY_TASK_COUNT=2 SLURM_ARRAY_TASK_STEP=0 \
+  "$bin" sweep scan.lua --out env.csv 2> env.err
+check "an array step of 0 is a usage error (was a division by zero)" test $? -eq 2
 "$bin" sweep scan.lua --out one.csv 2> exists.err
 check "an existing output is not overwritten" grep -q -- "--resume" exists.err
 echo 'return 42' > notasweep.lua
