@@ -170,10 +170,13 @@ local function optimize(args)
     for i, par in ipairs(params) do x[i] = par.from_u(u[i]) end
     return x
   end
+  local start = {}
   for k = 0, #params do
     local u = table.move(u0, 1, #u0, 1, {})
     if k > 0 then u[k] = u[k] + 1 end
     local a = assess(x_of(u))
+    a.u = u
+    start[#start + 1] = a
     if a.merit then scale = math.max(scale, math.abs(a.merit)) end
   end
   if scale == 0 then scale = 1 end
@@ -181,9 +184,7 @@ local function optimize(args)
   local evaluations = #params + 1
   local best = nil
 
-  local function objective(u)
-    evaluations = evaluations + 1
-    local a = assess(x_of(u))
+  local function consider(a)
     local f
     if not a.merit then
       f = big -- a failed plan ranks below every feasible or infeasible one
@@ -194,9 +195,21 @@ local function optimize(args)
     end
     if not best or f < best.f then
       best = a
-      best.f, best.u = f, u
+      best.f = f
     end
     return f
+  end
+  for _, a in ipairs(start) do consider(a) end
+
+  -- Raised (a unique table) inside the simplex once max_evaluations are spent; the search
+  -- stops there with the best point so far.  Any other error (Ctrl-C) goes on up.
+  local OUT_OF_BUDGET = {}
+  local function objective(u)
+    if evaluations >= max_evals then error(OUT_OF_BUDGET) end
+    evaluations = evaluations + 1
+    local a = assess(x_of(u))
+    a.u = u
+    return consider(a)
   end
 
   local u, last_f, iterations, converged = u0, nil, 0, false
@@ -205,8 +218,13 @@ local function optimize(args)
     if budget < #params + 2 then break end
     local steps = {}
     for i = 1, #params do steps[i] = 1 end
-    local r = cp.optim.nmsimplex { f = objective, start = u, step = steps, tolerance = tol,
-      max_iterations = budget }
+    local ok, r = pcall(cp.optim.nmsimplex, { f = objective, start = u, step = steps,
+      tolerance = tol, max_iterations = budget })
+    if not ok then
+      if r ~= OUT_OF_BUDGET then error(r, 0) end
+      converged = false
+      break
+    end
     iterations = iterations + r.iterations
     converged = r.converged
     u = best.u

@@ -90,6 +90,31 @@ raises("nmsimplex: step count", "give one step per coordinate", cp.optim.nmsimpl
   { f = function() return 0 end, start = {0, 0}, step = {1} })
 raises("nmsimplex: objective error propagates", "boom", cp.optim.nmsimplex,
   { f = function() error("boom") end, start = {0}, step = {1} })
+-- max_evaluations is a cap on calls of evaluate (the +-10 % report adds 2 per parameter):
+-- counted here, outside the optimiser.
+local calls = 0
+local capped = cp.optimize{ parameters = { {name = "x", min = -3, max = 3}, {name = "y", min = -3, max = 3} },
+  evaluate = function(p) calls = calls + 1; return -(p.x - 1)^2 - (p.y - 0.5)^2 end, max_evaluations = 30 }
+check("max_evaluations caps the calls of evaluate", calls <= 30 + 2 * 2 and capped.evaluations <= 30,
+  calls .. " calls, " .. capped.evaluations .. " reported")
+-- A budget smaller than the starting simplex still reports its best point.
+local many = {}
+for i = 1, 12 do many[i] = { name = "x" .. i, min = 0, max = 1 } end
+local tiny = cp.optimize{ parameters = many, max_evaluations = 10,
+  evaluate = function(p) return p.x1 end }
+check("a budget below the starting simplex returns its best point", tiny.merit ~= nil and tiny.parameters.x1 > 0.5,
+  tiny.merit)
+-- Any other error inside the simplex (here a constraint's getter failing after the
+-- starting simplex) still goes up.
+local getter_calls = 0
+raises("an error inside the simplex propagates", "getter boom", cp.optimize,
+  { parameters = { {name = "x", min = 0, max = 1} }, evaluate = function(p) return { n = p.x } end,
+    merit = "n", constraints = { { max = 1, output = function(r)
+      getter_calls = getter_calls + 1
+      if getter_calls > 5 then error("getter boom") end
+      return r.n
+    end } } })
+
 check("help texts", cp.get_help(cp.optimize.run) ~= nil and cp.get_help(cp.optim.nmsimplex) ~= nil)
 
 T.done()
