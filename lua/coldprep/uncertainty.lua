@@ -158,7 +158,9 @@ local function run(args)
   if type(degenerate) == "table" then
     named.check(fname, degenerate, { "output", "max", "min" })
     local get = getter(named.typed(fname, degenerate, "output", "string"))
-    local lo, hi = degenerate.min, degenerate.max
+    local lo = degenerate.min ~= nil and named.number(fname, degenerate, "min") or nil
+    local hi = degenerate.max ~= nil and named.number(fname, degenerate, "max") or nil
+    if lo == nil and hi == nil then named.fail(fname, "degenerate needs min or max") end
     is_degenerate = function(result)
       local v = get(result)
       if not named.is_finite(v) then return nil end
@@ -217,8 +219,17 @@ local function run(args)
     local row = {}
     for k, v in pairs(p) do row[k] = v end
     local good, result = evaluate_at(p)
+    local vals
     if good then
-      local vals = outputs_of(result)
+      vals = outputs_of(result)
+      for i, v in ipairs(vals) do
+        if not named.is_finite(v) then -- it would poison the mean and the sorting
+          good, result = false, string.format("output '%s' is %s", outputs[i], tostring(v))
+          break
+        end
+      end
+    end
+    if good then
       n_ok = n_ok + 1
       for _, par in ipairs(params) do inputs[par.name][n_ok] = p[par.name] end
       for i, o in ipairs(outputs) do
@@ -280,7 +291,7 @@ Monte Carlo over uncertain inputs.  Each parameter: {name = "x", distribution = 
 mean = m, sd = s} | {..., distribution = "uniform", min = a, max = b} |
 {..., distribution = "lognormal", median = m, sigma = s (width of ln x)}; SI units.
 evaluate(p) returns a result table (a returned plan is run); outputs name numbers in it.
-Returns {samples, seed, failed (evaluations that raised), nominal (at the centres),
+Returns {samples, seed, failed (evaluations that raised or gave a non-finite output), nominal (at the centres),
  outputs = {[name] = {n, mean, sd, median, p05, p16, p84, p95, min, max}},
  probability_degenerate, probability_error (binomial standard error),
  ranking = {[output] = {{parameter, rank_correlation}, ...} by |Spearman rho|},

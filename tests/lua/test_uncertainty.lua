@@ -97,6 +97,20 @@ raises("NaN mean", "must be a finite number", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0 / 0, sd = 1} }, evaluate = model, outputs = {"y"} })
 raises("one sample", "allowed 2", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sd = 1} }, evaluate = model, outputs = {"y"}, samples = 1 })
+-- A draw with a non-finite output is a failed draw, kept out of the statistics: here
+-- y = NaN above x = 1, so the statistics are those of the draws below 1 (checked by hand
+-- against the rows).
+local half = cp.uncertainty{parameters = {{name = "x", distribution = "normal", mean = 1, sd = 0.1}},
+  evaluate = function(p) return {y = p.x > 1 and 0 / 0 or p.x} end, outputs = {"y"}, samples = 200}
+local below, top = 0, -math.huge
+for _, r in ipairs(half.rows) do
+  if r.x <= 1 then below, top = below + 1, math.max(top, r.x) end
+end
+check("NaN outputs are failed draws", half.failed == 200 - below and half.outputs.y.n == below
+  and half.outputs.y.max == top and half.outputs.y.mean == half.outputs.y.mean, half.failed)
+raises("degenerate: max must be a number", "argument 'max' must be a number", cp.uncertainty,
+  {parameters = {{name = "x", distribution = "normal", mean = 1, sd = 0.1}}, outputs = {"y"},
+   evaluate = function(p) return {y = p.x} end, degenerate = {output = "y", max = "0.5"}})
 raises("rank correlation: lengths", "equal length", cp.uncertainty.rank_correlation, {x = {1, 2}, y = {1}})
 raises("generator: negative sd", "negative", g.normal, g, {mean = 0, sd = -1})
 raises("generator: bad seed", "seed", cp.random.generator, {seed = -1})
