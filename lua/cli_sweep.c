@@ -247,19 +247,25 @@ static int open_output(cpl_sweep_run *r, const sweep_options *o, int64_t first, 
                     r->nrecovered, r->journal);
         *complete = r->next_write > r->last && stat(done, &st) == 0;
     } else {
+        remove(done); /* before the old rows go: a marker must never outlive its file */
         r->fd = open(r->out, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
         if (r->fd < 0 || cpl_write_all(r->fd, r->header, strlen(r->header)) != 0) {
             fprintf(stderr, "coldprep sweep: cannot write %s: %s\n", r->out, strerror(errno));
             return -1;
         }
     }
-    /* the journal holds exactly the recovered rows (a torn row of it is gone) */
-    r->jfd = open(r->journal, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
+    /* The journal holds exactly the recovered rows (a torn row of it is gone).  They are
+     * written to PATH.pending.tmp that then replaces it, so that a kill meanwhile leaves
+     * the old journal with the same rows: never a truncated one. */
+    char tmp[4300];
+    snprintf(tmp, sizeof tmp, "%s.tmp", r->journal);
+    r->jfd = open(tmp, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
     int bad = r->jfd < 0;
     for (size_t i = 0; i < r->nrecovered && !bad; i++)
         bad = cpl_write_all(r->jfd, r->recovered[i].text, r->recovered[i].len) != 0;
-    if (bad) {
+    if (bad || rename(tmp, r->journal) != 0) {
         fprintf(stderr, "coldprep sweep: cannot write %s: %s\n", r->journal, strerror(errno));
+        unlink(tmp);
         return -1;
     }
     r->journal_rows = (long)r->nrecovered;
