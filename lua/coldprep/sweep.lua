@@ -318,13 +318,18 @@ local function run(args)
   local on_row = named.typed(fname, args, "on_row", "function", false) or nil
   local s = compile(fname, args, format)
   local f
+  -- Write and flush text, failing the sweep when the disk refuses (full, quota, I/O error).
+  local function put(text)
+    local ok, err = f:write(text)
+    if ok then ok, err = f:flush() end
+    if not ok then named.fail(fname, "cannot write %s: %s", out, tostring(err)) end
+  end
   if out then
     local err
     f, err = io.open(out, "wb")
     if not f then named.fail(fname, "cannot open the output file: %s", err) end
     f:setvbuf("full")
-    f:write(s.header)
-    f:flush()
+    put(s.header)
   end
   local rows = (not out) and {} or nil
   local failed = 0
@@ -332,10 +337,7 @@ local function run(args)
     for i = 1, s.count do
       local values, p = s.evaluate(i)
       if values[#s.columns] ~= nil then failed = failed + 1 end
-      if f then
-        f:write(s.format_row(values))
-        f:flush()
-      end
+      if f then put(s.format_row(values)) end
       if rows or on_row then
         local row = {}
         for c = 1, #s.columns do row[s.columns[c]] = values[c] end
@@ -344,7 +346,10 @@ local function run(args)
       end
     end
   end)
-  if f then f:close() end
+  if f then
+    local closed, cerr = f:close()
+    if ok and not closed then ok, err = false, string.format("%s: cannot write %s: %s", fname, out, tostring(cerr)) end
+  end
   if not ok then error(err, 0) end
   return { count = s.count, columns = s.columns, rows = rows, out = out, format = format,
     failed = failed }

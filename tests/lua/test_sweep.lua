@@ -102,6 +102,11 @@ raises("duplicate names", "used twice", cp.sweep, {parameters = {{name = "a", va
 raises("missing evaluate", "missing argument 'evaluate'", cp.sweep, {parameters = {{name = "a", values = {1}}}})
 raises("table without outputs", "list the results to keep", cp.sweep, {parameters = {{name = "a", values = {1}}}, evaluate = function() return {} end})
 raises("not a table", "expects one table", cp.sweep, 3)
+-- A full disk (Linux's /dev/full refuses every write with ENOSPC) fails the sweep.
+if io.open("/dev/full", "wb") then
+  raises("a refused write fails the sweep", "cannot write /dev/full", cp.sweep,
+    {parameters = {{name = "x", values = {1, 2}}}, evaluate = ok_eval, out = "/dev/full"})
+end
 check("help text", cp.get_help(cp.sweep.run) ~= nil and cp.get_help(cp.sweep.prepare) ~= nil)
 
 T.done()
