@@ -413,6 +413,16 @@ static void panel_limits(const panel *p, double *x0, double *x1, double *y0, dou
     widen(y0, y1);
 }
 
+/* PLplot line style of curve i: solid or (dashed) short dashes for the first COLOURS
+ * curves, long dashes or long-short dashes once the colours repeat, so that no two curves
+ * of a panel look alike. */
+static PLINT line_style(const curve *c, int i)
+{
+    if (i < COLOURS)
+        return c->dashed ? 2 : 1;
+    return c->dashed ? 5 : 3;
+}
+
 static void draw_legend(const panel *p)
 {
     PLINT opts[MAX_LINES], colours[MAX_LINES], styles[MAX_LINES], symcol[MAX_LINES];
@@ -426,7 +436,7 @@ static void draw_legend(const panel *p)
             continue;
         opts[n] = (c->line ? PL_LEGEND_LINE : 0) | (c->points ? PL_LEGEND_SYMBOL : 0);
         colours[n] = symcol[n] = 2 + i % COLOURS;
-        styles[n] = c->dashed ? 2 : 1;
+        styles[n] = line_style(c, i);
         widths[n] = 2;
         symscale[n] = 1;
         symnum[n] = 1;
@@ -544,7 +554,7 @@ static void draw_panel(const panel *p, int index, int npanels)
         const curve *c = &p->curves[i];
         PLFLT xs[4096], ys[4096];
         plcol0(2 + i % COLOURS);
-        pllsty(c->dashed ? 2 : 1);
+        pllsty(line_style(c, i));
         plwidth(2);
         /* in chunks so that no allocation is needed; chunks overlap by one point */
         for (size_t start = 0; start < c->n; start += 4095) {

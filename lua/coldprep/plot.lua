@@ -30,7 +30,7 @@ end
 local function sweep(args)
   local fname = "plot.sweep"
   named.check(fname, args, { "data", "x", "y", "group", "out", "title", "xlabel", "ylabel",
-    "xlog", "ylog", "points" })
+    "xlog", "ylog", "points", "legend" })
   local out = named.typed(fname, args, "out", "string")
   local rows = rows_of(fname, args.data)
   local ys = type(args.y) == "table" and args.y or { args.y }
@@ -42,12 +42,17 @@ local function sweep(args)
   local curves, order = {}, {}
   for _, r in ipairs(rows) do
     for _, y in ipairs(ys) do
-      local key = y
-      if args.group then key = string.format("%s = %s", args.group, tostring(r[args.group])) end
-      if #ys > 1 and args.group then key = y .. ", " .. key end
+      local key, label = y, y
+      if args.group then
+        local g = r[args.group]
+        key = string.format("%s = %s", args.group, tostring(g))
+        -- the legend shows 6 significant digits: 28947.368421053 would hide the curves
+        label = type(g) == "number" and string.format("%s = %.6g", args.group, g) or key
+        if #ys > 1 then key, label = y .. ", " .. key, y .. ", " .. label end
+      end
       local c = curves[key]
       if not c then
-        c = { x = {}, y = {}, label = key, points = args.points or false }
+        c = { x = {}, y = {}, label = label, points = args.points or false }
         curves[key] = c
         order[#order + 1] = key
       end
@@ -65,15 +70,16 @@ local function sweep(args)
   if #lines == 1 and #ys == 1 and not args.group then lines[1].label = nil end
   return P.render { out = out, panels = { {
     title = args.title, xlabel = args.xlabel or args.x, ylabel = args.ylabel or table.concat(ys, ", "),
-    xlog = xlog, ylog = ylog, lines = lines } } }
+    xlog = xlog, ylog = ylog, lines = lines, legend = args.legend } } }
 end
 
 cp.set_help(sweep, [[
 plot.sweep{data = ROWS | RESULT | "scan.csv", x = "column", y = "column" | {"col", ...},
            out = "fig.png" [, group = "column"] [, title, xlabel, ylabel] [, xlog, ylog]
-           [, points = false]}
+           [, points = false] [, legend = "top right" | "bottom left" | ...]}
 A sweep's curve(s): y against x, one curve per y column, or per value of `group` (the
 other parameter of a 2D sweep).  Rows with errors or non-finite values are skipped.
+legend: the corner (or side) of the frame the legend sits in, as in plot.render.
 Returns {out, device}.  Example:
   local r = cp.sweep{parameters = {{name = "x", from = 0, to = 1, points = 21}},
                      evaluate = function(p) return p.x^2 end}

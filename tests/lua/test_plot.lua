@@ -51,6 +51,21 @@ cp.plot.sweep{data = sw, x = "a", y = "n", group = "b", xlog = true, ylog = true
 check("sweep curves", png_size(dir .. "/s.png") == 900)
 cp.plot.map{data = sw.rows, x = "a", y = "b", z = "n", xlog = true, zlog = true, out = dir .. "/m.png"}
 check("sweep map", png_size(dir .. "/m.png") == 900)
+-- The legend of a grouped sweep: numbers to 6 significant digits (by hand: 1/3 ->
+-- 0.333333), while group values that agree to 6 digits still make separate curves.
+do
+  local seen
+  local render = cp.plot.render
+  cp.plot.render = function(a) seen = a; return {} end
+  local ok, err = pcall(cp.plot.sweep, {data = {{x = 1, y = 1, g = 1 / 3}, {x = 2, y = 2, g = 1 / 3},
+    {x = 1, y = 3, g = 1 / 3 + 1e-9}, {x = 2, y = 4, g = 1 / 3 + 1e-9}}, x = "x", y = "y", group = "g",
+    legend = "bottom left", out = dir .. "/unused.png"})
+  cp.plot.render = render
+  local lines = ok and seen.panels[1].lines or {}
+  check("legend labels to 6 significant digits", ok and lines[1].label == "g = 0.333333", err or lines[1].label)
+  check("groups that agree to 6 digits stay apart", #lines == 2 and lines[2].y[1] == 3, #lines)
+  check("the legend position is passed on", ok and seen.panels[1].legend == "bottom left")
+end
 local csv = dir .. "/sw.csv"
 cp.sweep{parameters = {{name = "a", from = 1, to = 2, points = 5}}, evaluate = function(p) return p.a end, out = csv}
 cp.plot.sweep{data = csv, x = "a", y = "value", out = dir .. "/f.svg"}
