@@ -460,6 +460,34 @@ static void colour_for(double t)
     plcol1(fmin(1, fmax(0, t)));
 }
 
+/* The axis of a logarithmic colour bar (window log10 z in [lo, hi]) that spans less than
+ * a decade, where PLplot would label one decade or none: ticks at round values of z
+ * (steps of 1, 2 or 5 times a power of ten, 2 to 6 of them) labelled with their values.
+ * Returns the length of the longest label (characters). */
+static size_t log_bar_ticks(double lo, double hi)
+{
+    size_t longest = 0;
+    plbox("bc", 0, 0, "bc", 0, 0);
+    double zlo = pow(10, lo), zhi = pow(10, hi);
+    double step = pow(10, floor(log10((zhi - zlo) / 5)));
+    if ((zhi - zlo) / step > 6)
+        step *= (zhi - zlo) / (2 * step) > 6 ? 5 : 2;
+    for (double z = ceil(zlo / step) * step; z <= zhi * (1 + 1e-12); z += step) {
+        double t = log10(z);
+        if (!(z > 0) || t < lo || t > hi)
+            continue;
+        PLFLT tx[2] = {0.7, 1}, ty[2] = {t, t};
+        plline(2, tx, ty);
+        char label[32]; /* enough digits to tell neighbouring ticks apart */
+        int digits = (int)ceil(log10(zhi / step)) + 1;
+        snprintf(label, sizeof label, "%.*g", digits < 2 ? 2 : digits > 12 ? 12 : digits, z);
+        plmtex("rv", 0.5, (t - lo) / (hi - lo), 0, label);
+        if (strlen(label) > longest)
+            longest = strlen(label);
+    }
+    return longest;
+}
+
 static void draw_map(const panel *p, double x0, double x1, double y0, double y1)
 {
     double zmin = INFINITY, zmax = -INFINITY;
@@ -502,9 +530,13 @@ static void draw_map(const panel *p, double x0, double x1, double y0, double y1)
         plfill(4, bx, by);
     }
     plcol0(1);
-    plbox("bc", 0, 0, p->zlog ? "bcmstvl" : "bcmstv", 0, 0);
+    double label_offset = 5.0; /* character heights right of the bar: past the tick labels */
+    if (p->zlog && zmax - zmin < 1)
+        label_offset = fmax(label_offset, 1.5 + 0.75 * (double)log_bar_ticks(zmin, zmax));
+    else
+        plbox("bc", 0, 0, p->zlog ? "bcmstvl" : "bcmstv", 0, 0);
     if (p->zlabel)
-        plmtex("r", 5.0, 0.5, 0.5, p->zlabel);
+        plmtex("r", label_offset, 0.5, 0.5, p->zlabel);
     plvpor(vx0, vx1, vy0, vy1);
     plwind(x0, x1, y0, y1);
 }

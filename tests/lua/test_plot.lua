@@ -66,6 +66,16 @@ do
   check("groups that agree to 6 digits stay apart", #lines == 2 and lines[2].y[1] == 3, #lines)
   check("the legend position is passed on", ok and seen.panels[1].legend == "bottom left")
 end
+-- Logarithmic colour bars spanning less than a decade (labelled by round values rather
+-- than decades), down to a nearly constant map.
+for _, spread in ipairs {0.5, 1e-3, 0} do
+  local rows = {}
+  for i = 1, 3 do for j = 1, 3 do rows[#rows + 1] = {a = i, b = j, z = 1 + spread * (i + j)} end end
+  local ok, err = pcall(cp.plot.map, {data = rows, x = "a", y = "b", z = "z", zlog = true,
+    out = dir .. "/narrow.png"})
+  check("log colour bar over a factor " .. (1 + 6 * spread), ok and png_size(dir .. "/narrow.png") == 900, err)
+  os.remove(dir .. "/narrow.png")
+end
 local csv = dir .. "/sw.csv"
 cp.sweep{parameters = {{name = "a", from = 1, to = 2, points = 5}}, evaluate = function(p) return p.a end, out = csv}
 cp.plot.sweep{data = csv, x = "a", y = "value", out = dir .. "/f.svg"}
