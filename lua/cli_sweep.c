@@ -432,6 +432,14 @@ int cpl_sweep_main(int argc, char **argv)
     else
         snprintf(out, sizeof out, "%s", lua_tostring(L, -1));
     snprintf(journal, sizeof journal, "%s.pending", out);
+    struct stat in_st, out_st;
+    if (stat(o.file, &in_st) == 0 && stat(out, &out_st) == 0 && in_st.st_dev == out_st.st_dev
+        && in_st.st_ino == out_st.st_ino) {
+        fprintf(stderr, "coldprep sweep: the output %s is the sweep file itself; give another "
+                "--out\n", out);
+        lua_close(L);
+        return CPL_EXIT_USAGE;
+    }
     cpl_sweep_run r = {.file = o.file, .out = out, .journal = journal,
                        .count = lua_tointeger(L, -4), .header = lua_tostring(L, -3),
                        .format = lua_tostring(L, -2), .fd = -1, .jfd = -1};

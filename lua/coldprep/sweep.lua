@@ -462,7 +462,8 @@ function M.read(args)
     if quoted then return field end
     if field == "" then return nil end
     if field == "true" then return true elseif field == "false" then return false end
-    if field == "nan" then return 0 / 0 end
+    if field == "nan" then return 0 / 0 end -- the texts format_number writes
+    if field == "inf" then return math.huge elseif field == "-inf" then return -math.huge end
     return tonumber(field) or field
   end
   if format == "csv" then

@@ -151,6 +151,9 @@ check "the malformed variable is named" grep -q "SLURM_ARRAY_TASK_ID is 'abc'" e
 SLURM_ARRAY_TASK_ID=1 SLURM_ARRAY_TASK_MIN=1 SLURM_ARRAY_TASK_COUNT=2 SLURM_ARRAY_TASK_STEP=0 \
   "$bin" sweep scan.lua --out env.csv 2> env.err
 check "an array step of 0 is a usage error (was a division by zero)" test $? -eq 2
+cp scan.lua self.lua
+"$bin" sweep self.lua --out self.lua --force 2> self.err
+check "the sweep file is never its own output" test $? -eq 2 -a "$(cat self.lua)" = "$(cat scan.lua)"
 "$bin" sweep scan.lua --out one.csv 2> exists.err
 check "an existing output is not overwritten" grep -q -- "--resume" exists.err
 echo 'return 42' > notasweep.lua

@@ -61,6 +61,13 @@ local back = cp.sweep.read{path = path}
 check("CSV read back", back.rows[1].label == 'a,"b"' and back.rows[1].flag == true
   and back.rows[2].error == "no good" and back.rows[2].label == nil)
 os.remove(path)
+-- inf, -inf and nan, as written, read back as numbers.
+cp.sweep{parameters = {{name = "k", values = {1}}}, outputs = {"a", "b", "c"}, out = path,
+  evaluate = function() return {a = math.huge, b = -math.huge, c = 0 / 0} end}
+local inf = cp.sweep.read{path = path}.rows[1]
+check("inf, -inf, nan read back", inf.a == math.huge and inf.b == -math.huge and inf.c ~= inf.c,
+  tostring(inf.a) .. " " .. tostring(inf.b))
+os.remove(path)
 
 -- JSON Lines: strings escaped, NaN has no JSON form so it is written as null.
 local jpath = path .. ".jsonl"
