@@ -34,7 +34,7 @@ static const char SWEEP_USAGE[] =
     "  --shard K/N  compute only slice K of N (output PATH gets .K-of-N before its\n"
     "               extension); without it, SLURM_ARRAY_TASK_ID/_COUNT or SGE_TASK_ID/\n"
     "               _FIRST/_LAST/_STEPSIZE give the slice when set\n"
-    "Join slices with `coldprep merge OUT SLICES...`.  See docs/cli-sweep.md.\n";
+    "Join slices with `coldprep merge OUT SLICES...`.  See docs/cli.md (Sweeps).\n";
 
 enum { MAX_JOBS = 1024 };
 

@@ -1,5 +1,5 @@
 /*
- * `coldprep sweep` and `coldprep merge` (docs/cli-sweep.md), and the sweep output files
+ * `coldprep sweep` and `coldprep merge` (docs/cli.md, "Sweeps"), and the sweep output files
  * they share: a data file (CSV with a header, or JSON Lines, one row per point, first
  * column "point"), while it runs a journal PATH.pending of rows finished ahead of an
  * earlier point, and once the run is complete a small marker PATH.done recording which

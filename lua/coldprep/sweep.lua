@@ -543,7 +543,7 @@ evaluate(p): p = {x = ..., y = ...}; returns a number (column "value") or a tabl
 out: stream rows to this file as they finish (CSV, or JSON Lines for .jsonl), memory
   flat; without out the rows are returned.
 Returns {count, columns, rows (without out), out, format, failed = rows with an error}.
-Parallel runs, resuming and sharding: `coldprep sweep FILE.lua` (docs/cli-sweep.md).
+Parallel runs, resuming and sharding: `coldprep sweep FILE.lua` (docs/cli.md, "Sweeps").
 Example: cp.sweep{parameters = {{name = "x", from = 0, to = 1, points = 5}},
                   evaluate = function(p) return {y = p.x^2} end, outputs = {"y"}}]])
 
