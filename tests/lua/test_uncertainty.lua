@@ -57,6 +57,19 @@ check("same seed, same result", again.outputs["final.number"].mean == u.outputs[
 args.seed = 12
 check("another seed, other draws", cp.uncertainty(args).rows[1].r ~= u.rows[1].r)
 
+-- Summary statistics by hand on five known values (the evaluation returns them in a
+-- shuffled order whatever the draw; the first call is the nominal one): sorted 10..50,
+-- mean 30, sd sqrt(1000 / 4); quantiles by Hyndman & Fan's type 7, h = 4 q + 1:
+-- p05 = 10 + 0.2 * 10 = 12, p16 = 16.4, median 30, p84 = 43.6, p95 = 48.
+local fixed, call = {[0] = 0, 40, 10, 50, 30, 20}, -1
+local st = cp.uncertainty{parameters = {{name = "x", distribution = "uniform", min = 0, max = 1}},
+  evaluate = function() call = call + 1; return {y = fixed[call]} end, outputs = {"y"}, samples = 5}
+local sy = st.outputs.y
+local function near(a, b) return math.abs(a - b) < 1e-12 end
+check("summary by hand", sy.n == 5 and near(sy.mean, 30) and near(sy.sd, math.sqrt(250)) and sy.min == 10
+  and sy.max == 50 and near(sy.p05, 12) and near(sy.p16, 16.4) and near(sy.median, 30) and near(sy.p84, 43.6)
+  and near(sy.p95, 48), string.format("%g %g %g %g %g %g", sy.mean, sy.sd, sy.p05, sy.p16, sy.p84, sy.p95))
+
 -- Moments of the generators: mean within 4 standard errors (n = 20000).
 local g = cp.random.generator{seed = 5}
 local n, s1, s2, below = 20000, 0, 0, 0
