@@ -192,6 +192,9 @@ int cpl_merge_main(int argc, char **argv)
     int bad = fflush(dst) != 0 || fsync(fileno(dst)) != 0;
     bad |= fclose(dst) != 0;
     dst = NULL;
+    char done[4096];
+    cpl_marker_path(out, done, sizeof done);
+    remove(done); /* an older OUT's marker must not describe the new OUT */
     if (bad || rename(tmp, out) != 0) {
         snprintf(err, sizeof err, "cannot write %s: %s", out, strerror(errno));
         goto done;
