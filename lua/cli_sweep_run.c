@@ -269,7 +269,8 @@ static void *worker(void *arg)
         goto out;
     }
     if (cpl_sweep_load(L, r->file, r->out, r->format) != 0) {
-        snprintf(msg, sizeof msg, "%s", lua_tostring(L, -1));
+        const char *why = lua_tostring(L, -1);
+        snprintf(msg, sizeof msg, "%s", why ? why : "the sweep file raised a non-string error");
         fail(r, msg);
         goto out;
     }

@@ -154,6 +154,16 @@ check "an array step of 0 is a usage error (was a division by zero)" test $? -eq
 cp scan.lua self.lua
 "$bin" sweep self.lua --out self.lua --force 2> self.err
 check "the sweep file is never its own output" test $? -eq 2 -a "$(cat self.lua)" = "$(cat scan.lua)"
+cat > flaky.lua <<'LUA'
+-- describes the sweep the first time it runs (the main thread), raises a table after
+local seen = io.open("flaky.seen")
+if seen then seen:close(); error({}) end
+io.open("flaky.seen", "w"):close()
+return {parameters = {{name = "x", values = {1, 2}}}, evaluate = function(p) return p.x end}
+LUA
+"$bin" sweep flaky.lua --jobs 1 --out flaky.csv 2> flaky.err
+check "a worker whose sweep file raises a non-string error says so" \
+  grep -q "the sweep file raised a non-string error" flaky.err
 "$bin" sweep scan.lua --out one.csv 2> exists.err
 check "an existing output is not overwritten" grep -q -- "--resume" exists.err
 echo 'return 42' > notasweep.lua
