@@ -11,6 +11,10 @@ local P = cp.plot -- the C binding: P.render
 local function rows_of(fname, data)
   if type(data) == "string" then return cp.sweep.read { path = data }.rows end
   if type(data) == "table" and type(data.rows) == "table" then return data.rows end
+  -- a cp.sweep result streamed to a file keeps no rows: read them back
+  if type(data) == "table" and type(data.out) == "string" and type(data.columns) == "table" then
+    return cp.sweep.read { path = data.out, format = data.format }.rows
+  end
   if type(data) == "table" then return data end
   named.fail(fname, "data must be rows, a cp.sweep result or a file name, got %s", type(data))
 end

@@ -80,6 +80,10 @@ local csv = dir .. "/sw.csv"
 cp.sweep{parameters = {{name = "a", from = 1, to = 2, points = 5}}, evaluate = function(p) return p.a end, out = csv}
 cp.plot.sweep{data = csv, x = "a", y = "value", out = dir .. "/f.svg"}
 check("sweep curve from a CSV file", (slurp(dir .. "/f.svg") or ""):find("<svg", 1, true) ~= nil)
+local streamed = cp.sweep{parameters = {{name = "a", from = 1, to = 2, points = 5}},
+  evaluate = function(p) return p.a end, out = dir .. "/streamed.jsonl"}
+local ok, err = pcall(cp.plot.sweep, {data = streamed, x = "a", y = "value", out = dir .. "/streamed.png"})
+check("a sweep result streamed to a file is read back", ok and png_size(dir .. "/streamed.png") == 900, err)
 local budget = {stages = {{name = "atoms", number = 1e6, t_over_tf = 1.1},
                           {name = "Feshbach", number = 2e5, t_over_tf = 0.8},
                           {name = "lattice", number = 1e5, t_over_tf = 0.45}}}
