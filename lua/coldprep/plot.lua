@@ -7,6 +7,16 @@ local named = require "coldprep.named"
 
 local P = cp.plot -- the C binding: P.render
 
+-- Draw a figure with P.render; its argument errors are reported as fname's, without
+-- the position inside this file (the caller's argument is what was wrong).
+local function render(fname, figure)
+  local ok, res = pcall(P.render, figure)
+  if ok then return res end
+  local msg = type(res) == "string" and res:match("plot%.render: (.*)$")
+  if msg then named.fail(fname, "%s", msg) end
+  error(res, 0)
+end
+
 -- Rows from `data`: a list of row tables, a cp.sweep result (its rows), or a file name.
 local function rows_of(fname, data)
   if type(data) == "string" then return cp.sweep.read { path = data }.rows end
@@ -72,9 +82,9 @@ local function sweep(args)
   if #lines == 0 then named.fail(fname, "no row has finite values to plot") end
   if #lines > 16 then named.fail(fname, "%d curves; at most 16 (choose fewer group values)", #lines) end
   if #lines == 1 and #ys == 1 and not args.group then lines[1].label = nil end
-  return P.render { out = out, panels = { {
+  return render(fname, { out = out, panels = { {
     title = args.title, xlabel = args.xlabel or args.x, ylabel = args.ylabel or table.concat(ys, ", "),
-    xlog = xlog, ylog = ylog, lines = lines, legend = args.legend } } }
+    xlog = xlog, ylog = ylog, lines = lines, legend = args.legend } } })
 end
 
 cp.set_help(sweep, [[
@@ -120,10 +130,10 @@ local function map(args)
       if z[j][i] == nil then z[j][i] = 0 / 0 end
     end
   end
-  return P.render { out = out, panels = { {
+  return render(fname, { out = out, panels = { {
     title = args.title, xlabel = args.xlabel or args.x, ylabel = args.ylabel or args.y,
     xlog = args.xlog or false, ylog = args.ylog or false,
-    map = { x = xs, y = ys, z = z, zlabel = args.zlabel or args.z, zlog = args.zlog or false } } } }
+    map = { x = xs, y = ys, z = z, zlabel = args.zlabel or args.z, zlog = args.zlog or false } } } })
 end
 
 cp.set_help(map, [[
@@ -181,7 +191,7 @@ local function waterfall(args)
       lines = { { x = ratio_x, y = ratio_y, points = true } },
       hlines = { { y = limit, label = string.format("degenerate below %g", limit) } } }
   end
-  return P.render { out = out, panels = panels, height = #panels == 2 and 800 or 500 }
+  return render(fname, { out = out, panels = panels, height = #panels == 2 and 800 or 500 })
 end
 
 cp.set_help(waterfall, [[
@@ -258,7 +268,7 @@ local function raman(args)
   end
   panels[#panels + 1] = { title = #rabi == 0 and args.title or nil, xlabel = tlabel,
     ylabel = "population", ymin = 0, ymax = 1.05, lines = pops, legend = "right" }
-  return P.render { out = out, panels = panels, height = #panels == 2 and 750 or 500 }
+  return render(fname, { out = out, panels = panels, height = #panels == 2 and 750 or 500 })
 end
 
 cp.set_help(raman, [[
@@ -303,8 +313,8 @@ local function bands(args)
   end
   local title = args.title
   if not title and args.depth_er then title = string.format("lattice depth %g E#dR#u", args.depth_er) end
-  return P.render { out = out, panels = { { title = title, xlabel = "quasimomentum q (units of k)",
-    ylabel = "energy (E#dR#u)", lines = lines } } }
+  return render(fname, { out = out, panels = { { title = title, xlabel = "quasimomentum q (units of k)",
+    ylabel = "energy (E#dR#u)", lines = lines } } })
 end
 
 cp.set_help(bands, [[

@@ -109,6 +109,8 @@ cp.plot.bands{quasimomenta = q, energies_er = lb.energies_er, depth_er = 5, out 
 check("bands from cp.lattice.bands", (slurp(dir .. "/lb.pdf") or ""):sub(1, 5) == "%PDF-")
 
 -- Bad input.
+raises("a figure's argument error names the figure", "plot.sweep: 'xlog' must be true or false", cp.plot.sweep,
+  {data = {{x = 1, y = 1}, {x = 2, y = 2}}, x = "x", y = "y", xlog = "yes", out = dir .. "/never.png"})
 raises("unknown format", "must end in .png, .svg or .pdf", cp.plot.render,
   {out = dir .. "/x.gif", panels = {{lines = {{x = {1, 2}, y = {1, 2}}}}}})
 raises("NaN data", "must be a finite number", cp.plot.render,
