@@ -41,7 +41,23 @@ end
 local json_escapes = { ['"'] = '\\"', ["\\"] = "\\\\", ["\b"] = "\\b", ["\f"] = "\\f",
   ["\n"] = "\\n", ["\r"] = "\\r", ["\t"] = "\\t" }
 
+-- s with every byte that is not part of valid UTF-8 replaced by U+FFFD (JSON text is
+-- UTF-8, RFC 8259 section 8.1; a Latin-1 string would make the row invalid).
+local function valid_utf8(s)
+  if utf8.len(s) then return s end
+  local parts, i = {}, 1
+  while true do
+    local n, bad = utf8.len(s, i)
+    if n then break end
+    parts[#parts + 1] = s:sub(i, bad - 1) .. "\u{FFFD}"
+    i = bad + 1
+  end
+  parts[#parts + 1] = s:sub(i)
+  return table.concat(parts)
+end
+
 local function json_string(s)
+  s = valid_utf8(s)
   return '"' .. s:gsub('[%c"\\]', function(c)
     return json_escapes[c] or string.format("\\u%04x", c:byte())
   end) .. '"'

@@ -78,6 +78,15 @@ f = io.open(jpath, "rb")
 text = f:read("a")
 f:close()
 check("JSON Lines text", text == '{"point":1,"k":1,"s":"line\\nnext \\"q\\"","v":null,"w":0.1,"error":null}\n', text)
+-- JSON text must be UTF-8 (RFC 8259 section 8.1): a Latin-1 byte becomes U+FFFD (EF BF BD).
+cp.sweep{parameters = {{name = "k", values = {1}}}, evaluate = function() return {s = "caf\xe9 \u{b5}K"} end,
+  outputs = {"s"}, out = jpath .. "2", format = "jsonl"}
+f = io.open(jpath .. "2", "rb")
+local latin = f:read("a")
+f:close()
+os.remove(jpath .. "2")
+check("JSON strings are valid UTF-8", latin:find('"s":"caf\xef\xbf\xbd \xc2\xb5K"', 1, true) ~= nil
+  and utf8.len(latin) ~= nil, latin)
 local jb = cp.sweep.read{path = jpath}
 check("JSON Lines read back", jb.rows[1].s == 'line\nnext "q"' and jb.rows[1].w == 0.1 and jb.rows[1].v == nil)
 os.remove(jpath)
