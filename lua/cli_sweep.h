@@ -78,6 +78,7 @@ typedef struct cpl_sweep_run {
     char *batch;
     size_t batch_len, batch_cap;
     int stop, workers_alive;
+    int out_broken; /* a write to the output failed: nothing more is appended to it */
     pthread_mutex_t mu;
     pthread_cond_t space_free, progress;
 } cpl_sweep_run;

@@ -89,32 +89,50 @@ static int batch_add(cpl_sweep_run *r, const char *text, size_t len)
 }
 
 /* Write every consecutive finished row from next_write on (from the window or from the
- * rows recovered from an earlier run's journal) in one write. */
+ * rows recovered from an earlier run's journal), a window's worth per write.  A row
+ * leaves memory only once its write succeeded; after a failed write (disk full) nothing
+ * more is appended, so the file never gets a gap that --resume would refuse. */
 static void drain(cpl_sweep_run *r)
 {
-    r->batch_len = 0;
-    while (r->next_write <= r->last) {
-        size_t k = (size_t)(r->next_write % (int64_t)r->window);
-        cpl_row *rec = r->rec_write < r->nrecovered ? &r->recovered[r->rec_write] : NULL;
-        if (r->slot[k].text) {
-            if (batch_add(r, r->slot[k].text, r->slot[k].len) != 0)
+    while (!r->out_broken && r->next_write <= r->last) {
+        /* collect at most `window` rows: beyond that a slot would be read twice */
+        int64_t p = r->next_write;
+        size_t rec = r->rec_write;
+        r->batch_len = 0;
+        while (p <= r->last && p - r->next_write < (int64_t)r->window) {
+            size_t k = (size_t)(p % (int64_t)r->window);
+            cpl_row *rr = rec < r->nrecovered ? &r->recovered[rec] : NULL;
+            if (r->slot[k].text) {
+                if (batch_add(r, r->slot[k].text, r->slot[k].len) != 0)
+                    break;
+            } else if (rr && rr->point == p) {
+                if (batch_add(r, rr->text, rr->len) != 0)
+                    break;
+                rec++;
+            } else {
                 break;
-            free(r->slot[k].text);
-            r->slot[k].text = NULL;
-            r->waiting--;
-        } else if (rec && rec->point == r->next_write) {
-            if (batch_add(r, rec->text, rec->len) != 0)
-                break;
-            free(rec->text);
-            rec->text = NULL;
-            r->rec_write++;
-        } else {
+            }
+            p++;
+        }
+        if (p == r->next_write)
+            break;
+        if (cpl_write_all(r->fd, r->batch, r->batch_len) != 0) {
+            r->out_broken = 1;
+            write_failed(r, r->out);
             break;
         }
-        r->next_write++;
+        for (; r->next_write < p; r->next_write++) {
+            size_t k = (size_t)(r->next_write % (int64_t)r->window);
+            if (r->slot[k].text) {
+                free(r->slot[k].text);
+                r->slot[k].text = NULL;
+                r->waiting--;
+            } else {
+                free(r->recovered[r->rec_write].text);
+                r->recovered[r->rec_write++].text = NULL;
+            }
+        }
     }
-    if (r->batch_len > 0 && cpl_write_all(r->fd, r->batch, r->batch_len) != 0)
-        write_failed(r, r->out);
     if (r->next_write > r->last)
         pthread_cond_broadcast(&r->progress);
     pthread_cond_broadcast(&r->space_free);
@@ -148,7 +166,7 @@ static int journal_rewrite(cpl_sweep_run *r)
 /* After a drain: empty the journal when nothing waits, compact it when it has grown. */
 static void journal_tidy(cpl_sweep_run *r)
 {
-    if (r->journal_rows == 0)
+    if (r->journal_rows == 0 || r->out_broken)
         return;
     if (r->waiting == 0 && r->rec_write == r->nrecovered) {
         if (ftruncate(r->jfd, 0) != 0)
@@ -168,8 +186,9 @@ static void deposit(cpl_sweep_run *r, int64_t i, char *text, size_t len)
     r->slot[k].text = text;
     r->slot[k].len = len;
     r->waiting++;
-    if (i != r->next_write) {
-        /* an earlier point is still running: keep this row on disk meanwhile */
+    if (i != r->next_write || r->out_broken) {
+        /* an earlier point is still running (or the file takes no more rows): keep this
+         * row on disk meanwhile */
         if (cpl_write_all(r->jfd, text, len) != 0)
             write_failed(r, r->journal);
         r->journal_rows++;

@@ -68,6 +68,17 @@ check "resume drops the torn row" grep -q "dropped an incomplete last row" resum
 check "kill -9 then --resume equals an uninterrupted run" cmp -s killed.csv ref.csv
 check "resume of a finished file does nothing" "$bin" sweep scan.lua --out ref.csv --resume
 
+# A write the system refuses (here the file-size limit, EFBIG with SIGXFSZ ignored, in
+# place of a full disk) ends the run with status 1; the file keeps whole rows in order
+# (nothing is appended after the failed write), and --resume completes it exactly.
+(trap '' XFSZ; ulimit -f 8; "$bin" sweep scan.lua --jobs 2 --out efbig.csv 2> efbig.err)
+check "a refused write ends the run with status 1" test $? -eq 1
+check "and names the file" grep -q "cannot write efbig.csv: File too large" efbig.err
+check "the summary counts only the rows in the file" \
+  grep -q "^coldprep sweep: $(($(wc -l < efbig.csv) - 1)) of 300 points" efbig.err
+"$bin" sweep scan.lua --jobs 2 --out efbig.csv --resume 2>/dev/null
+check "after a refused write --resume equals an uninterrupted run" cmp -s efbig.csv one.csv
+
 # Two sweeps never write one file: while one runs, a second on the same output (even with
 # --resume) is refused, and the file the first writes stays in point order.
 SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 1 --out busy.csv 2>/dev/null &
