@@ -78,7 +78,8 @@ typedef struct cpl_sweep_run {
     char *batch;
     size_t batch_len, batch_cap;
     int stop, workers_alive;
-    int out_broken; /* a write to the output failed: nothing more is appended to it */
+    int out_broken;     /* a write to the output failed: nothing more is appended to it */
+    int journal_broken; /* likewise for the journal (a torn row there must stay last) */
     pthread_mutex_t mu;
     pthread_cond_t space_free, progress;
 } cpl_sweep_run;

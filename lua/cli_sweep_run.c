@@ -166,7 +166,7 @@ static int journal_rewrite(cpl_sweep_run *r)
 /* After a drain: empty the journal when nothing waits, compact it when it has grown. */
 static void journal_tidy(cpl_sweep_run *r)
 {
-    if (r->journal_rows == 0 || r->out_broken)
+    if (r->journal_rows == 0 || r->out_broken || r->journal_broken)
         return;
     if (r->waiting == 0 && r->rec_write == r->nrecovered) {
         if (ftruncate(r->jfd, 0) != 0)
@@ -189,9 +189,13 @@ static void deposit(cpl_sweep_run *r, int64_t i, char *text, size_t len)
     if (i != r->next_write || r->out_broken) {
         /* an earlier point is still running (or the file takes no more rows): keep this
          * row on disk meanwhile */
-        if (cpl_write_all(r->jfd, text, len) != 0)
-            write_failed(r, r->journal);
-        r->journal_rows++;
+        if (!r->journal_broken) {
+            if (cpl_write_all(r->jfd, text, len) != 0) {
+                r->journal_broken = 1; /* a later row would join the torn one */
+                write_failed(r, r->journal);
+            }
+            r->journal_rows++;
+        }
     } else {
         drain(r);
         journal_tidy(r);
