@@ -111,7 +111,8 @@ static const cpl_function generator_methods[] = {
 static const cpl_function random_functions[] = {
     {"generator", l_generator,
      "random.generator{[seed = 1]}: a reproducible random-number generator (GSL's MT19937)\n"
-     "seeded with an integer 0 .. 2^32-1; methods g:normal{mean, sd}, g:uniform{min, max},\n"
+     "seeded with an integer 0 .. 2^32-1 (GSL reads 0 as its default seed 4357: both give\n"
+     "the same draws); methods g:normal{mean, sd}, g:uniform{min, max},\n"
      "g:lognormal{median, sigma}.  Example: local g = cp.random.generator{seed = 42}\n"
      "                                   print(g:normal{mean = 0, sd = 1})"},
     {NULL, NULL, NULL}};
