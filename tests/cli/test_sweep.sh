@@ -74,8 +74,11 @@ check "resume of a finished file does nothing" "$bin" sweep scan.lua --out ref.c
 (trap '' XFSZ; ulimit -f 8; "$bin" sweep scan.lua --jobs 2 --out efbig.csv 2> efbig.err)
 check "a refused write ends the run with status 1" test $? -eq 1
 check "and names the file" grep -q "cannot write efbig.csv: File too large" efbig.err
-check "the summary counts only the rows in the file" \
-  grep -q "^coldprep sweep: $(($(wc -l < efbig.csv) - 1)) of 300 points" efbig.err
+# (the failed write may have put some whole rows of its batch in the file before it
+# stopped: the summary counts the rows known to be written, never more than are there)
+said=$(sed -n 's/^coldprep sweep: \([0-9]*\) of 300 points.*/\1/p' efbig.err)
+check "the summary counts no row that is not in the file" \
+  test -n "$said" -a "${said:-0}" -le "$(($(wc -l < efbig.csv) - 1))" -a "${said:-0}" -gt 0
 "$bin" sweep scan.lua --jobs 2 --out efbig.csv --resume 2>/dev/null
 check "after a refused write --resume equals an uninterrupted run" cmp -s efbig.csv one.csv
 
