@@ -49,7 +49,7 @@ static size_t edit_distance(const char *s, const char *t)
     return row[lt];
 }
 
-/* Push the set {key = true} of a NULL-terminated key list, built once per list and kept
+/* Push the set {key = position} of a NULL-terminated key list, built once per list and kept
  * in the registry under the list's address (the lists are static arrays), so that
  * checking a key costs one table lookup instead of a string comparison per known key. */
 static void push_key_set(lua_State *L, const char *const known[])
@@ -59,7 +59,7 @@ static void push_key_set(lua_State *L, const char *const known[])
     lua_pop(L, 1);
     lua_newtable(L);
     for (int i = 0; known[i]; i++) {
-        lua_pushboolean(L, 1);
+        lua_pushinteger(L, i); /* the key's position in the list */
         lua_setfield(L, -2, known[i]);
     }
     lua_pushvalue(L, -1);
@@ -119,10 +119,42 @@ void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const 
     check_keys(L, arg, fname, NULL, known);
 }
 
-void cpl_check_fields(lua_State *L, int idx, const char *fname, const char *what,
-                      const char *const known[])
+void cpl_read_fields(lua_State *L, int idx, const char *fname, const char *what,
+                     const char *const known[], int nnum, const char *const units[],
+                     double values[])
 {
-    check_keys(L, idx, fname, what, known);
+    idx = lua_absindex(L, idx);
+    if (!lua_istable(L, idx))
+        cpl_error(L, fname, "%s must be a table, got %s", what, luaL_typename(L, idx));
+    for (int i = 0; i < nnum; i++)
+        values[i] = NAN;
+    push_key_set(L, known);
+    int set = lua_gettop(L);
+    lua_pushnil(L);
+    while (lua_next(L, idx)) { /* key at -2, value at -1 */
+        if (lua_type(L, -2) != LUA_TSTRING)
+            cpl_error(L, fname, "%s keys must be names, got a %s key", what,
+                      luaL_typename(L, -2));
+        lua_pushvalue(L, -2);
+        int isnum = 0;
+        lua_rawget(L, set);
+        lua_Integer i = lua_tointegerx(L, -1, &isnum);
+        lua_pop(L, 1);
+        if (!isnum)
+            unknown_key(L, fname, what, lua_tostring(L, -2), known);
+        if (i < nnum) {
+            const char *key = known[i], *unit = units[i];
+            if (lua_type(L, -1) != LUA_TNUMBER)
+                cpl_error(L, fname, "%s field '%s' must be a number (%s), got %s", what, key,
+                          unit, luaL_typename(L, -1));
+            values[i] = lua_tonumber(L, -1);
+            if (!isfinite(values[i]))
+                cpl_error(L, fname, "%s field '%s' must be a finite number (%s), got %g", what,
+                          key, unit, values[i]);
+        }
+        lua_pop(L, 1);
+    }
+    lua_pop(L, 1); /* the key set */
 }
 
 int cpl_has(lua_State *L, int arg, const char *key)

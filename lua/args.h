@@ -20,11 +20,13 @@
  * an unknown key is an error suggesting the closest known key. */
 void cpl_check_args(lua_State *L, int arg, const char *fname, const char *const known[]);
 
-/* Check that the table at idx, a table-valued argument `what` of fname (e.g.
- * "resonance"), has only the fields in `known`; an unknown field is an error
- * "fname: what: unknown field 'x' (did you mean 'y'?)". */
-void cpl_check_fields(lua_State *L, int idx, const char *fname, const char *what,
-                      const char *const known[]);
+/* Read the table at idx, the table-valued argument `what` of fname (e.g. "resonance"), in
+ * one pass: every key must be in `known` (else "fname: what: unknown field 'x' (did you mean
+ * 'y'?)"); the first nnum known keys must hold finite numbers (unit units[i]), stored in
+ * values[i], NaN when absent; the other known keys may hold anything. */
+void cpl_read_fields(lua_State *L, int idx, const char *fname, const char *what,
+                     const char *const known[], int nnum, const char *const units[],
+                     double values[]);
 
 /* Required finite number. */
 double cpl_number(lua_State *L, int arg, const char *fname, const char *key, const char *unit);

@@ -56,14 +56,17 @@ static double field_number(lua_State *L, int idx, const char *fname, const char 
     return v;
 }
 
-/* args.resonance -> r; with need_c6 the resonance's c6_au (optional) is read too and an
- * explicit args.c6_au overrides it, else r->c6_au = 0 (not used by the caller). */
+/* args.resonance -> r; with need_c6 the resonance's c6_au (optional) is read too, every
+ * field is checked against the known ones, and an explicit args.c6_au overrides it; else
+ * only b0, width, abg, dmu are read and r->c6_au = 0 (not used by the caller). */
 static void read_resonance(lua_State *L, const char *fname, int need_c6,
                            cp_feshbach_resonance *r)
 {
-    /* the fields of a cp.species.resonance table; any other key is a typo (c6au, ...) */
+    /* the fields of a cp.species.resonance table, numbers first; any other key is a typo */
     static const char *const known[] = {"b0", "width", "abg", "dmu", "c6_au", "molecule",
                                         "states", "source", "verified", NULL};
+    static const char *const units[] = {"T", "T", "m", "J/T", "a.u."};
+    double v[5];
     int t = lua_getfield(L, 1, "resonance");
     if (t == LUA_TSTRING) {
         species_call(L, "resonance", -1);
@@ -73,17 +76,26 @@ static void read_resonance(lua_State *L, const char *fname, int need_c6,
                   "[, c6_au]} (cp.species.resonance) or a molecule name, got %s",
                   luaL_typename(L, -1));
     }
-    cpl_check_fields(L, lua_gettop(L), fname, "resonance", known);
-    r->b0 = field_number(L, -1, fname, "resonance", "b0", "T", 1, 0.0);
-    r->width = field_number(L, -1, fname, "resonance", "width", "T", 1, 0.0);
-    r->abg = field_number(L, -1, fname, "resonance", "abg", "m", 1, 0.0);
-    r->dmu = field_number(L, -1, fname, "resonance", "dmu", "J/T", 1, 0.0);
+    if (need_c6) {
+        /* c6_au is optional here: scan every field so that a misspelt one is an error */
+        cpl_read_fields(L, -1, fname, "resonance", known, 5, units, v);
+    } else {
+        /* only the four required fields matter, and a missing or misspelt one is caught
+         * as missing; skipping the scan keeps associate{} lean for tight Lua loops */
+        for (int i = 0; i < 4; i++)
+            v[i] = field_number(L, -1, fname, "resonance", known[i], units[i], 1, 0.0);
+    }
+    lua_pop(L, 1);
+    for (int i = 0; i < 4; i++)
+        if (isnan(v[i]))
+            cpl_error(L, fname, "resonance has no field '%s' (%s)", known[i], units[i]);
+    r->b0 = v[0];
+    r->width = v[1];
+    r->abg = v[2];
+    r->dmu = v[3];
     r->c6_au = 0.0;
     if (need_c6)
-        r->c6_au = field_number(L, -1, fname, "resonance", "c6_au", "a.u.", 0, 0.0);
-    lua_pop(L, 1);
-    if (need_c6)
-        r->c6_au = cpl_opt_number(L, 1, fname, "c6_au", "a.u.", r->c6_au);
+        r->c6_au = cpl_opt_number(L, 1, fname, "c6_au", "a.u.", isnan(v[4]) ? 0.0 : v[4]);
 }
 
 /* Mass of an atom given by name or table (field mass). */
