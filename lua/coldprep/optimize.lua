@@ -63,25 +63,6 @@ local function parse_parameters(fname, list)
   return params
 end
 
--- A getter for a result value: a path "a.b" or a function(result, p).
-local function getter(fname, what, spec)
-  if type(spec) == "function" then return spec end
-  if type(spec) ~= "string" then
-    named.fail(fname, "%s must be a result name (string) or a function(result, p), got %s",
-      what, type(spec))
-  end
-  local parts = {}
-  for part in spec:gmatch("[^.]+") do parts[#parts + 1] = part end
-  return function(result)
-    local v = result
-    for _, k in ipairs(parts) do
-      if type(v) ~= "table" then return nil end
-      v = v[k]
-    end
-    return v
-  end
-end
-
 local function parse_constraints(fname, list)
   local out = {}
   if list == nil then return out end
@@ -94,7 +75,7 @@ local function parse_constraints(fname, list)
     end
     out[i] = {
       label = type(c.output) == "string" and c.output or ("constraint " .. i),
-      get = getter(fname, string.format("constraints[%d].output", i), c.output),
+      get = named.result_getter(fname, string.format("constraints[%d].output", i), c.output),
       min = c.min ~= nil and named.number(fname, c, "min") or nil,
       max = c.max ~= nil and named.number(fname, c, "max") or nil,
     }
@@ -113,7 +94,7 @@ local function optimize(args)
     "tolerance", "max_evaluations", "penalty" })
   local params = parse_parameters(fname, args.parameters)
   local evaluate = named.typed(fname, args, "evaluate", "function")
-  local merit_of = args.merit ~= nil and getter(fname, "merit", args.merit) or nil
+  local merit_of = args.merit ~= nil and named.result_getter(fname, "merit", args.merit) or nil
   local goal = named.option(fname, args, "goal", { "max", "min" }, "max")
   local sign = goal == "max" and 1 or -1
   local constraints = parse_constraints(fname, args.constraints)

@@ -217,19 +217,13 @@ local function compile(fname, desc, format)
     return p
   end
 
-  local paths = {}
+  local getters = {}
   for i, o in ipairs(outnames) do
-    local parts = {}
-    for part in o:gmatch("[^.]+") do parts[#parts + 1] = part end
-    paths[i] = parts
+    getters[i] = named.result_getter(fname, string.format("outputs[%d]", i), o)
   end
 
   local function pick(result, o)
-    local v = result
-    for _, part in ipairs(paths[o]) do
-      if type(v) ~= "table" then return nil end
-      v = v[part]
-    end
+    local v = getters[o](result)
     local t = type(v)
     if t == "table" or t == "function" or t == "userdata" or t == "thread" then
       error(string.format("%s: output '%s' is a %s; outputs must be numbers, strings or booleans",

@@ -52,20 +52,6 @@ local function parse_parameters(fname, list)
   return params
 end
 
-local function getter(spec)
-  if type(spec) == "function" then return spec end
-  local parts = {}
-  for part in spec:gmatch("[^.]+") do parts[#parts + 1] = part end
-  return function(result)
-    local v = result
-    for _, k in ipairs(parts) do
-      if type(v) ~= "table" then return nil end
-      v = v[k]
-    end
-    return v
-  end
-end
-
 -- Quantile q of sorted values (linear interpolation between order statistics, the
 -- "type 7" rule of Hyndman & Fan 1996).
 local function quantile(sorted, q)
@@ -150,14 +136,15 @@ local function run(args)
   local getters = {}
   for i, o in ipairs(outputs) do
     if type(o) ~= "string" then named.fail(fname, "outputs[%d] must be a result name", i) end
-    getters[i] = getter(o)
+    getters[i] = named.result_getter(fname, string.format("outputs[%d]", i), o)
   end
   local degenerate = args.degenerate
   if degenerate == nil then degenerate = "degenerate" end
   local is_degenerate
   if type(degenerate) == "table" then
     named.check(fname, degenerate, { "output", "max", "min" })
-    local get = getter(named.typed(fname, degenerate, "output", "string"))
+    local get = named.result_getter(fname, "degenerate.output",
+      named.typed(fname, degenerate, "output", "string"))
     local lo = degenerate.min ~= nil and named.number(fname, degenerate, "min") or nil
     local hi = degenerate.max ~= nil and named.number(fname, degenerate, "max") or nil
     if lo == nil and hi == nil then named.fail(fname, "degenerate needs min or max") end
@@ -167,7 +154,7 @@ local function run(args)
       return (hi == nil or v <= hi) and (lo == nil or v >= lo)
     end
   elseif type(degenerate) == "string" or type(degenerate) == "function" then
-    is_degenerate = getter(degenerate)
+    is_degenerate = named.result_getter(fname, "degenerate", degenerate)
   else
     named.fail(fname, "degenerate must be a result name, a function(result, p) or " ..
       "{output = ..., max = ...}, got %s", type(degenerate))
