@@ -299,6 +299,36 @@ double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *k
     return v;
 }
 
+/* The range the core models accept for trap frequencies (core/check_int.h,
+ * CP_MIN_TRAP_OMEGA and the 1e7 rad/s cap); checked here so the message names the key the
+ * caller gave (e.g. omega_bar), not the axis value the core receives. */
+static const double TRAP_OMEGA_MIN = 1e-2, TRAP_OMEGA_MAX = 1e7;
+
+static double trap_omega(lua_State *L, int arg, const char *fname, const char *key)
+{
+    double w = cpl_number(L, arg, fname, key, "rad/s");
+    if (!(w >= TRAP_OMEGA_MIN && w <= TRAP_OMEGA_MAX))
+        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed [%g, %g] rad/s",
+                  key, w, TRAP_OMEGA_MIN, TRAP_OMEGA_MAX);
+    return w;
+}
+
+void cpl_trap_frequencies(lua_State *L, int arg, const char *fname, const char *bar_key,
+                          const char *const axes[3], double omega[3])
+{
+    int has_bar = cpl_has(L, arg, bar_key), n_axes = 0;
+    for (int i = 0; i < 3; i++)
+        n_axes += cpl_has(L, arg, axes[i]);
+    if (has_bar && n_axes > 0)
+        cpl_error(L, fname, "give either '%s' or '%s', '%s', '%s' (rad/s), not both", bar_key,
+                  axes[0], axes[1], axes[2]);
+    if (!has_bar && n_axes != 3)
+        cpl_error(L, fname, "missing trap frequency: give '%s' or all three of '%s', '%s', "
+                  "'%s' (rad/s)", bar_key, axes[0], axes[1], axes[2]);
+    for (int i = 0; i < 3; i++)
+        omega[i] = trap_omega(L, arg, fname, has_bar ? bar_key : axes[i]);
+}
+
 void cpl_set_number(lua_State *L, const char *key, double value)
 {
     lua_pushnumber(L, value);

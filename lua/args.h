@@ -58,6 +58,12 @@ int cpl_option(lua_State *L, int arg, const char *fname, const char *key,
 double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *key,
                          const char *unit, size_t min_len, size_t *n);
 
+/* Harmonic trap frequencies (rad/s) from argument `arg`: either bar_key (the geometric mean,
+ * used on all three axes) or all three of axes[0..2]; giving both, or only some axes, is
+ * an error, and each value must lie in the models' range [1e-2, 1e7] rad/s. */
+void cpl_trap_frequencies(lua_State *L, int arg, const char *fname, const char *bar_key,
+                          const char *const axes[3], double omega[3]);
+
 /* Raise err->message as a Lua error (never returns). */
 int cpl_raise(lua_State *L, const cp_error *err);
 

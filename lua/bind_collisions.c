@@ -29,30 +29,11 @@ static cp_pair_statistics read_pair(lua_State *L, const char *fname)
     }
 }
 
-/* A geometric-mean trap frequency `key` (rad/s), range-checked here so that the error names
- * the key the caller gave, not the omega_x the core receives (core range [1e-2, 1e7] rad/s). */
-static double read_omega_bar(lua_State *L, const char *fname, const char *key)
-{
-    double w = cpl_number(L, 1, fname, key, "rad/s");
-    if (!(w >= 1e-2 && w <= 1e7))
-        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed [0.01, 1e+07] rad/s",
-                  key, w);
-    return w;
-}
-
 /* omega_bar or omega_x, omega_y, omega_z (rad/s) from argument 1. */
 static void read_omega(lua_State *L, const char *fname, double omega[3])
 {
     static const char *const axes[3] = {"omega_x", "omega_y", "omega_z"};
-    int n_axes = cpl_has(L, 1, axes[0]) + cpl_has(L, 1, axes[1]) + cpl_has(L, 1, axes[2]);
-    if (cpl_has(L, 1, "omega_bar") == (n_axes > 0) || (n_axes != 0 && n_axes != 3))
-        cpl_error(L, fname, "give either 'omega_bar' or all three of 'omega_x', 'omega_y', "
-                            "'omega_z' (rad/s)");
-    if (n_axes == 0)
-        omega[0] = omega[1] = omega[2] = read_omega_bar(L, fname, "omega_bar");
-    else
-        for (int i = 0; i < 3; i++)
-            omega[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
+    cpl_trap_frequencies(L, 1, fname, "omega_bar", axes, omega);
 }
 
 static int l_mean_scattering_length(lua_State *L)

@@ -21,43 +21,11 @@ int cpl_open_thermo(lua_State *L);
 
 static const char *const STATISTICS[] = {"boson", "fermion", NULL};
 
-/* A geometric-mean trap frequency `key` (rad/s), range-checked here so that the error names
- * the key the caller gave, not the omega_x the core receives (core range [1e-2, 1e7] rad/s). */
-static double read_omega_bar(lua_State *L, const char *fname, const char *key)
-{
-    double w = cpl_number(L, 1, fname, key, "rad/s");
-    if (!(w >= 1e-2 && w <= 1e7))
-        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed [0.01, 1e+07] rad/s",
-                  key, w);
-    return w;
-}
-
-/* The trap frequencies from argument 1: either bar_key (the geometric mean, used on all
- * three axes) or all three axis keys, rad/s. */
-static void read_frequencies(lua_State *L, const char *fname, const char *bar_key,
-                             const char *const axes[3], double omega[3])
-{
-    int has_bar = cpl_has(L, 1, bar_key), n_axes = 0;
-    for (int i = 0; i < 3; i++)
-        n_axes += cpl_has(L, 1, axes[i]);
-    if (has_bar && n_axes > 0)
-        cpl_error(L, fname, "give either '%s' or '%s', '%s', '%s' (rad/s), not both", bar_key,
-                  axes[0], axes[1], axes[2]);
-    if (!has_bar && n_axes != 3)
-        cpl_error(L, fname, "missing trap frequency: give '%s' or all three of '%s', '%s', "
-                  "'%s' (rad/s)", bar_key, axes[0], axes[1], axes[2]);
-    if (has_bar)
-        omega[0] = omega[1] = omega[2] = read_omega_bar(L, fname, bar_key);
-    else
-        for (int i = 0; i < 3; i++)
-            omega[i] = cpl_number(L, 1, fname, axes[i], "rad/s");
-}
-
 /* number, mass and the trap frequencies from argument 1. */
 static void read_trap(lua_State *L, const char *fname, cp_thermo_trap *trap)
 {
     static const char *const axes[3] = {"omega_x", "omega_y", "omega_z"};
-    read_frequencies(L, fname, "omega_bar", axes, trap->omega);
+    cpl_trap_frequencies(L, 1, fname, "omega_bar", axes, trap->omega);
     trap->number = cpl_number(L, 1, fname, "number", "");
     trap->mass = cpl_number(L, 1, fname, "mass", "kg");
 }
@@ -246,7 +214,7 @@ static int l_match_harmonic(lua_State *L)
     cp_statistics stat = read_statistics(L, fname);
     double t = cpl_number(L, 1, fname, "temperature", "K");
     double to[3];
-    read_frequencies(L, fname, "omega_bar_to", axes, to);
+    cpl_trap_frequencies(L, 1, fname, "omega_bar_to", axes, to);
     double t_to;
     cp_error err;
     if (cp_thermo_match_harmonic(&trap, stat, t, to, &t_to, &err) != CP_OK)
@@ -282,14 +250,7 @@ static void read_lattice(lua_State *L, const char *fname, double mass, cp_thermo
         depth[0] = depth[1] = depth[2] = cpl_number(L, 1, fname, "depth_er", "E_r");
     }
     double wavelength = cpl_number(L, 1, fname, "wavelength", "m");
-    int n_axes = cpl_has(L, 1, axes[0]) + cpl_has(L, 1, axes[1]) + cpl_has(L, 1, axes[2]);
-    if (cpl_has(L, 1, "envelope_omega_bar") == (n_axes > 0) || (n_axes != 0 && n_axes != 3))
-        cpl_error(L, fname, "give either 'envelope_omega_bar' or all three of "
-                            "'envelope_omega_x', 'envelope_omega_y', 'envelope_omega_z' "
-                            "(rad/s)");
-    for (int i = 0; i < 3; i++)
-        lat->omega_envelope[i] = n_axes ? cpl_number(L, 1, fname, axes[i], "rad/s")
-                                        : cpl_number(L, 1, fname, "envelope_omega_bar", "rad/s");
+    cpl_trap_frequencies(L, 1, fname, "envelope_omega_bar", axes, lat->omega_envelope);
     int bands = (int)cpl_opt_integer(L, 1, fname, "bands", 1, 1, 8);
     int points = (int)cpl_opt_integer(L, 1, fname, "points", 32, 4, 256);
     lat->bins = (int)cpl_opt_integer(L, 1, fname, "bins", 96, 8, 4096);
