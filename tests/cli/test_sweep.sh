@@ -49,7 +49,7 @@ check "JSON Lines resume after a torn row" cmp -s cut.jsonl one.jsonl
 # SIGKILL in the middle, for real: wait until some rows are on disk, kill -9, resume.
 # (Every finished row is on disk: in the file, or in the journal PATH.pending when an
 # earlier point was still running.)
-SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 2 --out killed.csv 2>/dev/null &
+SCAN_WORK=300000 "$bin" sweep scan.lua --jobs 2 --out killed.csv 2>/dev/null &
 pid=$!
 for _ in $(seq 1 400); do
   [ -f killed.csv ] && [ "$(wc -l < killed.csv)" -ge 20 ] && break
@@ -62,8 +62,8 @@ check "killed mid-sweep (some rows, not all: $rows)" test "$rows" -ge 19 -a "$ro
 check "no completion marker after the kill" test ! -e killed.csv.done
 check "every row in the killed file is whole" awk 'NR > 1 && !/\r$/ { exit 1 }' killed.csv
 printf '%d,0.99,1,0.12' "$((rows + 1))" >> killed.csv # what a torn write would leave
-SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 2 --out ref.csv 2>/dev/null
-SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 2 --out killed.csv --resume 2> resume.err
+SCAN_WORK=300000 "$bin" sweep scan.lua --jobs 2 --out ref.csv 2>/dev/null
+SCAN_WORK=300000 "$bin" sweep scan.lua --jobs 2 --out killed.csv --resume 2> resume.err
 check "resume drops the torn row" grep -q "dropped an incomplete last row" resume.err
 check "kill -9 then --resume equals an uninterrupted run" cmp -s killed.csv ref.csv
 check "resume of a finished file does nothing" "$bin" sweep scan.lua --out ref.csv --resume
@@ -84,14 +84,14 @@ check "after a refused write --resume equals an uninterrupted run" cmp -s efbig.
 
 # Two sweeps never write one file: while one runs, a second on the same output (even with
 # --resume) is refused, and the file the first writes stays in point order.
-SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 1 --out busy.csv 2>/dev/null &
+SCAN_WORK=300000 "$bin" sweep scan.lua --jobs 1 --out busy.csv 2>/dev/null &
 pid=$!
 for _ in $(seq 1 400); do [ -f busy.csv.lock ] && break; sleep 0.02; done
 "$bin" sweep scan.lua --out busy.csv --resume 2> busy.err
 check "a second sweep on a busy output exits 1" test $? -eq 1
 check "and says another sweep is writing it" grep -q "another coldprep sweep is writing busy.csv" busy.err
 wait "$pid"
-check "the first sweep's file is whole and ordered" cmp -s busy.csv <(SCAN_WORK=30000 \
+check "the first sweep's file is whole and ordered" cmp -s busy.csv <(SCAN_WORK=300000 \
   "$bin" sweep scan.lua --jobs 1 --out busy2.csv 2>/dev/null; cat busy2.csv)
 check "the lock is gone after a finished sweep" test ! -e busy.csv.lock
 
@@ -109,7 +109,7 @@ check "otherwise equal to the uninterrupted run" \
 check "the journal is removed once complete" test ! -e journal.csv.pending
 
 # SIGTERM: stops claiming points, writes what is finished, exits 143; resume completes.
-SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 2 --out term.csv 2>/dev/null &
+SCAN_WORK=300000 "$bin" sweep scan.lua --jobs 2 --out term.csv 2>/dev/null &
 pid=$!
 for _ in $(seq 1 400); do
   [ -f term.csv ] && [ "$(wc -l < term.csv)" -ge 10 ] && break
@@ -118,7 +118,7 @@ done
 kill -TERM "$pid"
 wait "$pid"
 check "SIGTERM exit status 143" test $? -eq 143
-SCAN_WORK=30000 "$bin" sweep scan.lua --jobs 1 --out term.csv --resume 2>/dev/null
+SCAN_WORK=300000 "$bin" sweep scan.lua --jobs 1 --out term.csv --resume 2>/dev/null
 check "SIGTERM then --resume equals an uninterrupted run" cmp -s term.csv ref.csv
 
 # Shards: three slices (one from the SLURM variables), merged in any order.
