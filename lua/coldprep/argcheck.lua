@@ -1,5 +1,5 @@
 -- coldprep.argcheck: named-argument checks for the Lua-side library (species, plans, stages),
--- with the same messages as the C readers in lua/args.c:
+-- with the same messages as the C readers in lua/bind/args.c:
 --   "stages.transfer: missing argument 'width' (s)",
 --   "stages.hold: unknown argument 'duraton' (did you mean 'duration'?)".
 -- Every reader takes the function name used in the message, the argument table and a key.

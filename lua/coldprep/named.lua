@@ -1,5 +1,5 @@
 -- coldprep.named: the argument checks of the sweep, optimisation, uncertainty and plot
--- layers.  The common ones are coldprep.argcheck's (same messages as lua/args.c); this
+-- layers.  The common ones are coldprep.argcheck's (same messages as lua/bind/args.c); this
 -- adds the few these layers need besides: integers in a range, values of a Lua type, and
 -- a finiteness test.
 local argcheck = require "coldprep.argcheck"

@@ -1,6 +1,6 @@
 -- coldprep.optimize: the best settings of a plan.  cp.optimize maximises (or minimises) a
 -- figure of merit over named parameters within bounds, subject to constraints on other
--- outputs, with GSL's Nelder-Mead simplex (cp.optim.nmsimplex, lua/bind_optim.c).
+-- outputs, with GSL's Nelder-Mead simplex (cp.optim.nmsimplex, lua/bind/bind_optim.c).
 --  * Bounds by transformation: the simplex moves an unbounded u per parameter, mapped to
 --    x = lo + (hi - lo) / (1 + exp(-u)) (on log x for scale = "log"), so every trial point
 --    lies inside the bounds (a standard device, e.g. Nocedal & Wright, Numerical

@@ -1,4 +1,4 @@
--- coldprep.plot: ready-made figures on plot.render (lua/bind_plot.c, PLplot): a sweep's
+-- coldprep.plot: ready-made figures on plot.render (lua/bind/bind_plot.c, PLplot): a sweep's
 -- curve(s) or 2D map from its rows or its CSV/JSON Lines file, a budget's waterfall of
 -- molecule number and T/T_F through the stages, a Raman time trace and a band structure.
 -- The output format follows the file name: .png, .svg or .pdf.

@@ -2,7 +2,7 @@
 -- and resonances a user adds in this Lua state (cp.species.add_atom{...} and friends).
 -- User entries shadow built-in ones of the same name.
 local cp = require "coldprep"
-local builtin = cp.species -- the C binding (lua/bind_species.c)
+local builtin = cp.species -- the C binding (lua/bind/bind_species.c)
 local A = require "coldprep.argcheck"
 
 local M = {}

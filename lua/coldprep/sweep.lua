@@ -5,7 +5,7 @@
 -- order (the first axis varies slowest); each becomes one row: point, inputs, outputs,
 -- error.  Rows are written as CSV (RFC 4180: comma-separated, CRLF line ends, fields with
 -- a comma, quote or line break quoted) or JSON Lines, one whole row per write, flushed,
--- so the file holds only finished rows at every moment.  `coldprep sweep` (lua/cli_sweep.c)
+-- so the file holds only finished rows at every moment.  `coldprep sweep` (lua/cli/cli_sweep.c)
 -- runs the same description on several Lua states in parallel through M.prepare.
 local cp = require "coldprep"
 local named = require "coldprep.named"

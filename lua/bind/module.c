@@ -1,6 +1,6 @@
 /*
  * luaopen_coldprep: assembles the `coldprep` Lua module.  It opens every C binding
- * (lua/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
+ * (lua/bind/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
  * module table, makes the embedded Lua-side library requirable ("coldprep.plan", ...),
  * publishes the table as package.loaded.coldprep so those modules can require it while
  * it is being built, then runs "coldprep.init", which completes the table.
