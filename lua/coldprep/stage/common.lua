@@ -1,0 +1,83 @@
+-- coldprep.stage.common: what the stage files share: the stage metatable, the sets of
+-- sample kinds, the stage constructor, and the loss and validity notes of hold and evaporate.
+local cp = require "coldprep"
+local A = require "coldprep.argcheck"
+
+local M = {}
+
+local Stage = {}
+M.Stage = Stage
+Stage.__index = Stage
+
+M.MOLECULES = { ["feshbach-molecules"] = true, ["ground-state-molecules"] = true }
+M.ANY = { ["atom-mixture"] = true, ["feshbach-molecules"] = true, ["ground-state-molecules"] = true }
+
+function M.new_stage(kind, args, fields)
+  if args.label ~= nil and type(args.label) ~= "string" then
+    A.fail("stages." .. kind, "argument 'label' must be a string")
+  end
+  local st = setmetatable(fields, Stage)
+  st.kind = kind
+  st.name = args.label or kind
+  st.equipment = st.equipment or {}
+  return st
+end
+
+
+-- Above this fraction of the p-wave barrier height the universal rate gets a note
+-- (common practice, no source: the threshold laws need kB T well below the barrier).
+local BARRIER_FRACTION = 0.1
+
+-- Two-body loss coefficient of the sample's molecules (m^3/s) at its temperature: the
+-- given one, or the universal rate from the molecule's C6 (Idziaszek & Julienne 2010,
+-- through cp.collisions.universal_rate); notes say which and what it assumes.
+function M.loss_rate(s, given, notes)
+  if given then
+    notes[#notes + 1] = string.format("two-body loss coefficient %.3g cm^3/s as given", given / cp.units.cm3)
+    return given
+  end
+  local mol = s.molecule
+  local beta = cp.collisions.universal_rate { c6_au = mol.c6_au, mass = mol.mass / 2,
+    temperature = s.temperature, statistics = s.statistics }.rate
+  local why = {}
+  if s.kind == "feshbach-molecules" then
+    why[#why + 1] = "Feshbach molecules relax faster than this ground-state estimate"
+  end
+  if not mol.reactive then
+    why[#why + 1] = "non-reactive " .. mol.name .. ": sticky-complex loss taken at the universal rate"
+  end
+  -- the threshold laws behind the universal rate hold well below the p-wave barrier
+  local barrier = cp.collisions.pwave_barrier { c6_au = mol.c6_au, mass = mol.mass / 2 }.temperature
+  if s.temperature > BARRIER_FRACTION * barrier then
+    why[#why + 1] = string.format("T is %.2g of the p-wave barrier (%.3g uK): beyond the threshold "
+      .. "regime this rate is only an estimate", s.temperature / barrier, barrier / cp.units.uK)
+  end
+  notes[#notes + 1] = string.format("two-body loss: universal %s-wave rate %.3g cm^3/s at %.3g nK "
+    .. "(C6 = %.4g a.u.)%s", s.statistics == "fermion" and "p" or "s", beta / cp.units.cm3,
+    s.temperature / cp.units.nK, mol.c6_au, #why > 0 and ("; " .. table.concat(why, "; ")) or "")
+  return beta
+end
+
+function M.leftover_note(s, notes)
+  local left = s.atoms[1].number + s.atoms[2].number
+  if left >= 1 then
+    notes[#notes + 1] = string.format("%.3g leftover atoms still present: atom-molecule collisions "
+      .. "are not modelled (remove them first)", left)
+  end
+end
+
+-- The hold and evaporation models assume a thermal (non-degenerate) cloud; say so when the
+-- cloud `when` ("starts" or "ends") the stage degenerate.
+function M.thermal_note(s, notes, what, when)
+  if s.degeneracy < 1 then
+    notes[#notes + 1] = string.format("the %s model treats the cloud as thermal; it %s at %s = %.2g",
+      what, when, s.degeneracy_name, s.degeneracy)
+  end
+end
+
+-- Evaporation longer than this (s) gets a note that one-body loss is missing from it
+-- (common practice, no source: molecule lifetimes in optical traps are of order seconds).
+M.LONG_EVAPORATION = 1
+
+
+return M
