@@ -10,12 +10,7 @@
 
 #include "coldprep/status.h"
 
-/* Floors below which an input is absurd rather than physical, shared so that every model
- * rejects the same values: 1 pK (the coldest gases made are a few tens of pK, e.g. Deppner
- * et al., PRL 127, 100401 (2021) [M]) and a trap frequency of 1e-2 rad/s (common practice,
- * no source: no trap is that weak).  Below them the formulas return meaningless numbers. */
-#define CP_MIN_TEMPERATURE 1e-12 /* K */
-#define CP_MIN_TRAP_OMEGA 1e-2   /* rad/s */
+#include "coldprep/limits.h" /* the shared input limits, CP_MIN_TEMPERATURE, ... */
 
 /* Bounds flags for cp_check_range: which ends of [lo, hi] are excluded. */
 enum { CP_CLOSED = 0, CP_LO_OPEN = 1, CP_HI_OPEN = 2, CP_OPEN = 3 };

@@ -64,7 +64,7 @@ cp_status cp_collisions_universal_rate(double c6_au, double reduced_mass, double
     const char *ctx = "collisions universal_rate";
     *rate = NAN;
     CP_TRY(check_pair(ctx, stat, err));
-    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1e-2,
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, CP_MAX_TEMPERATURE,
                           CP_CLOSED));
     double abar;
     CP_TRY(check_c6_mu(ctx, c6_au, reduced_mass, err));
@@ -109,7 +109,7 @@ cp_status cp_collisions_collision_ratio(double cross_section, double rate, doubl
                           CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "rate", rate, "m^3/s", 0.0, 1e-8, CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "mass", mass, "kg", 1e-28, 1e-22, CP_LO_OPEN));
-    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1e-2,
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, CP_MAX_TEMPERATURE,
                           CP_CLOSED));
     double vrel = sqrt(16.0 * CP_KB * temperature / (CP_PI * mass));
     *ratio = cross_section * vrel / rate;
@@ -121,10 +121,10 @@ cp_status cp_collisions_check_cloud(const char *ctx, double number, double tempe
 {
     static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
     CP_TRY(cp_check_range(err, ctx, "number", number, "", 1.0, 1e12, CP_CLOSED));
-    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1e-2,
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, CP_MAX_TEMPERATURE,
                           CP_CLOSED));
     for (int i = 0; i < 3; i++)
-        CP_TRY(cp_check_range(err, ctx, names[i], omega[i], "rad/s", CP_MIN_TRAP_OMEGA, 1e7,
+        CP_TRY(cp_check_range(err, ctx, names[i], omega[i], "rad/s", CP_MIN_TRAP_OMEGA, CP_MAX_TRAP_OMEGA,
                               CP_CLOSED));
     return cp_check_range(err, ctx, "mass", mass, "kg", 1e-28, 1e-22, CP_LO_OPEN);
 }

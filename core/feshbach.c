@@ -273,7 +273,7 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
         return cp_fail(err, CP_EINVAL, "%s: omega_rel is NULL", ctx);
     for (int i = 0; i < 3; i++)
         CP_TRY(cp_check_range(err, ctx, names[i], omega_rel[i], "rad/s", CP_MIN_TRAP_OMEGA,
-                              2.0 * CP_PI * 1e7, CP_CLOSED));
+                              CP_MAX_TRAP_OMEGA, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "max_efficiency", max_efficiency, "", 0.0, 1.0,
                           CP_LO_OPEN));
     /* |psi_rel(0)|^2 of the harmonic ground state of relative motion (physics.md §4.1.5) */

@@ -34,7 +34,7 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
     for (int i = 0; i < 3; i++) {
         snprintf(what, sizeof what, "%s %s", name, axis[i]);
         CP_TRY(cp_check_range(err, ctx, what, c->omega[i], "rad/s", CP_MIN_TRAP_OMEGA,
-                              2.0 * CP_PI * 1e6, CP_CLOSED));
+                              CP_MAX_TRAP_OMEGA, CP_CLOSED));
     }
     s->profile = c->profile;
     s->mass = c->mass;
@@ -59,7 +59,7 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
         return CP_OK;
     }
 
-    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1e-3,
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, CP_MAX_TEMPERATURE,
                           CP_CLOSED));
     s->temperature = temperature;
     double kt = CP_KB * temperature;

@@ -43,14 +43,14 @@ cp_status cp_thermo_check_trap(const cp_thermo_trap *trap, const char *ctx, cp_e
     CP_TRY(cp_check_range(err, ctx, "number", trap->number, "", 1.0, 1e12, CP_CLOSED));
     for (int i = 0; i < 3; i++)
         CP_TRY(cp_check_range(err, ctx, names[i], trap->omega[i], "rad/s", CP_MIN_TRAP_OMEGA,
-                              1e7, CP_CLOSED));
+                              CP_MAX_TRAP_OMEGA, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "mass", trap->mass, "kg", 1e-30, 1e-21, CP_LO_OPEN));
     return CP_OK;
 }
 
 cp_status cp_thermo_check_temperature(double temperature, const char *ctx, cp_error *err)
 {
-    return cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1.0,
+    return cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, CP_MAX_TEMPERATURE,
                           CP_CLOSED);
 }
 

@@ -56,7 +56,7 @@ static cp_status check_lattice(const cp_thermo_lattice *lat, const char *ctx, cp
         combos *= t->bands;
         samples *= t->points;
         CP_TRY(cp_check_range(err, ctx, envs[a], lat->omega_envelope[a], "rad/s",
-                              CP_MIN_TRAP_OMEGA, 1e7, CP_CLOSED));
+                              CP_MIN_TRAP_OMEGA, CP_MAX_TRAP_OMEGA, CP_CLOSED));
     }
     CP_TRY(cp_check_range(err, ctx, "recoil_energy", lat->recoil_energy, "J", 0.0, 1e-25,
                           CP_LO_OPEN));

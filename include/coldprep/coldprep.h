@@ -7,6 +7,7 @@
 
 #include "coldprep/status.h"
 #include "coldprep/consts.h"
+#include "coldprep/limits.h"
 #include "coldprep/species.h"
 #include "coldprep/lattice.h"
 #include "coldprep/thermo.h"

@@ -3,6 +3,7 @@
  * with the function name first so a user sees at once which call was wrong.
  */
 #include "args.h"
+#include "coldprep/limits.h"
 
 #include <math.h>
 #include <stdarg.h>
@@ -299,10 +300,10 @@ double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *k
     return v;
 }
 
-/* The range the core models accept for trap frequencies (core/check_int.h,
- * CP_MIN_TRAP_OMEGA and the 1e7 rad/s cap); checked here so the message names the key the
- * caller gave (e.g. omega_bar), not the axis value the core receives. */
-static const double TRAP_OMEGA_MIN = 1e-2, TRAP_OMEGA_MAX = 1e7;
+/* The range the core models accept for trap frequencies (coldprep/limits.h), checked here
+ * so the message names the key the caller gave (e.g. omega_bar), not the axis value the
+ * core receives. */
+static const double TRAP_OMEGA_MIN = CP_MIN_TRAP_OMEGA, TRAP_OMEGA_MAX = CP_MAX_TRAP_OMEGA;
 
 static double trap_omega(lua_State *L, int arg, const char *fname, const char *key)
 {

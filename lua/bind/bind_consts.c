@@ -4,6 +4,7 @@
 
 #include "args.h"
 #include "coldprep/consts.h"
+#include "coldprep/limits.h"
 
 int cpl_open_consts(lua_State *L);
 
@@ -19,8 +20,15 @@ int cpl_open_consts(lua_State *L)
         {"Eh", CP_EH},     {"pi", CP_PI},     {"au_polarizability", CP_AU_POLARIZABILITY},
         {"au_dipole", CP_AU_DIPOLE},          {"au_c6", CP_AU_C6},
     };
-    lua_createtable(L, 0, (int)(sizeof table / sizeof table[0]));
+    lua_createtable(L, 0, (int)(sizeof table / sizeof table[0]) + 1);
     for (size_t i = 0; i < sizeof table / sizeof table[0]; i++)
         cpl_set_number(L, table[i].name, table[i].value);
+    /* consts.limits: the shared input limits of coldprep/limits.h, for the Lua library */
+    lua_createtable(L, 0, 4);
+    cpl_set_number(L, "min_temperature", CP_MIN_TEMPERATURE);
+    cpl_set_number(L, "max_temperature", CP_MAX_TEMPERATURE);
+    cpl_set_number(L, "min_trap_omega", CP_MIN_TRAP_OMEGA);
+    cpl_set_number(L, "max_trap_omega", CP_MAX_TRAP_OMEGA);
+    lua_setfield(L, -2, "limits");
     return 1;
 }

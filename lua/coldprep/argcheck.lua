@@ -106,8 +106,9 @@ function M.option(fname, args, key, options, default)
     table.concat(options, ", "))
 end
 
--- The trap frequencies the thermodynamics model accepts (rad/s; as in core/check_int.h).
-local OMEGA_RANGE = { min = 1e-2, max = 1e7 }
+-- The trap frequencies every model accepts (rad/s; the shared limits of coldprep/limits.h).
+local LIMITS = require("coldprep").consts.limits
+local OMEGA_RANGE = { min = LIMITS.min_trap_omega, max = LIMITS.max_trap_omega }
 
 -- Three trap frequencies (rad/s) as a list {wx, wy, wz}; a single number means isotropic.
 function M.frequencies(fname, args, key, opt)
