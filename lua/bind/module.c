@@ -3,7 +3,7 @@
  * (lua/bind/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
  * module table, makes the embedded Lua-side library requirable ("coldprep.plan", ...),
  * publishes the table as package.loaded.coldprep so those modules can require it while
- * it is being built, then runs "coldprep.init", which completes the table.
+ * it is being built, then runs "coldprep.library", which completes the table.
  */
 #include <lauxlib.h>
 #include <lua.h>
@@ -75,7 +75,7 @@ int luaopen_coldprep(lua_State *L)
     lua_pop(L, 1);
 
     lua_getglobal(L, "require");
-    lua_pushliteral(L, "coldprep.init");
+    lua_pushliteral(L, "coldprep.library");
     lua_call(L, 1, 1); /* init returns nothing useful; it extends the module table */
     lua_pop(L, 1);
     return 1;

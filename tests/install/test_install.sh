@@ -59,7 +59,11 @@ cmake --build "$tmp/cm/build" >/dev/null
 
 # 3. the installed executable and the Lua C module from a stock lua5.4
 "$prefix/bin/coldprep" -e 'assert(cp.species.atom("87Rb").statistics == "boson")'
-LUA_CPATH="$libdir/lua/5.4/?.so" LUA_PATH="$prefix/share/lua/5.4/?.lua" \
+# The search templates of a stock interpreter's default paths (lua5.4 -e 'print(package.path)'),
+# rooted at the prefix: '?/init.lua' included, where a Lua file named coldprep/init.lua once
+# shadowed the C module and recursed until the C stack overflowed.
+LUA_CPATH="$libdir/lua/5.4/?.so" \
+  LUA_PATH="$prefix/share/lua/5.4/?.lua;$prefix/share/lua/5.4/?/init.lua;./?.lua;./?/init.lua" \
   lua5.4 -e 'local cp = require "coldprep"
              assert(cp.species.molecule("KRb").statistics == "fermion")
              assert(type(cp.version) == "string")

@@ -1,7 +1,9 @@
--- coldprep.init: completes the `coldprep` module table that luaopen_coldprep built from
+-- coldprep.library: completes the `coldprep` module table that luaopen_coldprep built from
 -- the C bindings, by loading the Lua-side library: units, the species registry, help,
 -- the preparation budget (plan, stages, report) and the studies built on it (sweep,
--- optimize, uncertainty, plot).  Runs once, from luaopen_coldprep.
+-- optimize, uncertainty, plot).  Runs once, from luaopen_coldprep.  (Not named init.lua:
+-- a stock interpreter's '?/init.lua' search path would find it for require "coldprep" before
+-- the C module, and it requires "coldprep" itself.)
 local cp = require "coldprep"
 
 cp.units = require "coldprep.units"
