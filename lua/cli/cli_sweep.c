@@ -81,7 +81,7 @@ static int env_int(const char *name, long long *v, char *err, size_t errlen)
 
 static int shard_from_env(int64_t *k, int64_t *n, char *err, size_t errlen)
 {
-    long long id, count, lo = 0, hi, step = 1;
+    long long id = 0, count = 0, lo = 0, hi = 0, step = 1;
     int have = env_int("SLURM_ARRAY_TASK_ID", &id, err, errlen);
     if (have < 0)
         return -1;
