@@ -13,6 +13,7 @@
 
 #include "check_int.h"
 #include "coldprep/consts.h"
+#include "coldprep/names.h"
 #include "species_int.h"
 
 enum { NAME_MAX_LEN = 64, MAX_FORMS = 6 };
@@ -89,29 +90,6 @@ static const cp_molecule *find_molecule(const char *key)
     return NULL;
 }
 
-static size_t edit_distance(const char *s, const char *t)
-{
-    size_t ls = strlen(s), lt = strlen(t);
-    size_t row[NAME_MAX_LEN + 1];
-    for (size_t j = 0; j <= lt; j++)
-        row[j] = j;
-    for (size_t i = 1; i <= ls; i++) {
-        size_t diag = row[0];
-        row[0] = i;
-        for (size_t j = 1; j <= lt; j++) {
-            size_t up = row[j];
-            size_t best = diag + (s[i - 1] != t[j - 1]);
-            if (up + 1 < best)
-                best = up + 1;
-            if (row[j - 1] + 1 < best)
-                best = row[j - 1] + 1;
-            row[j] = best;
-            diag = up;
-        }
-    }
-    return row[lt];
-}
-
 typedef struct candidate {
     const char *name;
     size_t distance;
@@ -134,7 +112,7 @@ static size_t min_distance(const char *key, char forms[MAX_FORMS][NAME_MAX_LEN],
 {
     size_t d = (size_t)-1;
     for (int k = 0; k < n; k++) {
-        size_t dk = edit_distance(key, forms[k]);
+        size_t dk = cp_edit_distance(key, forms[k]);
         if (dk < d)
             d = dk;
     }

@@ -8,6 +8,7 @@
 #include "coldprep/status.h"
 #include "coldprep/consts.h"
 #include "coldprep/limits.h"
+#include "coldprep/names.h"
 #include "coldprep/species.h"
 #include "coldprep/lattice.h"
 #include "coldprep/thermo.h"

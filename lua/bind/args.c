@@ -4,6 +4,7 @@
  */
 #include "args.h"
 #include "coldprep/limits.h"
+#include "coldprep/names.h"
 
 #include <math.h>
 #include <stdarg.h>
@@ -23,31 +24,6 @@ int cpl_error(lua_State *L, const char *fname, const char *fmt, ...)
 int cpl_raise(lua_State *L, const cp_error *err)
 {
     return luaL_error(L, "%s", err->message);
-}
-
-static size_t edit_distance(const char *s, const char *t)
-{
-    enum { MAXLEN = 64 };
-    size_t ls = strlen(s), lt = strlen(t);
-    if (ls >= MAXLEN || lt >= MAXLEN)
-        return (size_t)-1;
-    size_t row[MAXLEN + 1];
-    for (size_t j = 0; j <= lt; j++)
-        row[j] = j;
-    for (size_t i = 1; i <= ls; i++) {
-        size_t diag = row[0];
-        row[0] = i;
-        for (size_t j = 1; j <= lt; j++) {
-            size_t up = row[j], best = diag + (s[i - 1] != t[j - 1]);
-            if (up + 1 < best)
-                best = up + 1;
-            if (row[j - 1] + 1 < best)
-                best = row[j - 1] + 1;
-            row[j] = best;
-            diag = up;
-        }
-    }
-    return row[lt];
 }
 
 /* Push the set {key = position} of a NULL-terminated key list, built once per list and kept
@@ -71,15 +47,10 @@ static void push_key_set(lua_State *L, const char *const known[])
 static int unknown_key(lua_State *L, const char *fname, const char *what, const char *key,
                        const char *const known[])
 {
-    const char *best = NULL;
-    size_t best_d = (size_t)-1;
-    for (int i = 0; known[i]; i++) {
-        size_t d = edit_distance(key, known[i]);
-        if (d < best_d) {
-            best_d = d;
-            best = known[i];
-        }
-    }
+    size_t n = 0;
+    while (known[n])
+        n++;
+    const char *best = cp_closest_name(key, known, n);
     const char *sep = what ? ": " : "", *w = what ? what : "";
     const char *noun = what ? "field" : "argument";
     if (best)

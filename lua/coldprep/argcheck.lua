@@ -3,34 +3,12 @@
 --   "stages.transfer: missing argument 'width' (s)",
 --   "stages.hold: unknown argument 'duraton' (did you mean 'duration'?)".
 -- Every reader takes the function name used in the message, the argument table and a key.
+local cp = require "coldprep" -- the C bindings (cp.names, cp.consts), opened before this file
 local M = {}
-
-local function edit_distance(s, t)
-  local row = {}
-  for j = 0, #t do row[j] = j end
-  for i = 1, #s do
-    local diag = row[0]
-    row[0] = i
-    for j = 1, #t do
-      local up = row[j]
-      local best = diag + ((s:sub(i, i) ~= t:sub(j, j)) and 1 or 0)
-      if up + 1 < best then best = up + 1 end
-      if row[j - 1] + 1 < best then best = row[j - 1] + 1 end
-      row[j] = best
-      diag = up
-    end
-  end
-  return row[#t]
-end
 
 -- The name in `known` closest to `key` (edit distance), or nil when `known` is empty.
 function M.closest(key, known)
-  local best, best_d
-  for _, k in ipairs(known) do
-    local d = edit_distance(key, k)
-    if not best_d or d < best_d then best, best_d = k, d end
-  end
-  return best
+  return cp.names.closest(key, known)
 end
 
 local function fail(fname, fmt, ...)
@@ -107,7 +85,7 @@ function M.option(fname, args, key, options, default)
 end
 
 -- The trap frequencies every model accepts (rad/s; the shared limits of coldprep/limits.h).
-local LIMITS = require("coldprep").consts.limits
+local LIMITS = cp.consts.limits
 local OMEGA_RANGE = { min = LIMITS.min_trap_omega, max = LIMITS.max_trap_omega }
 
 -- Three trap frequencies (rad/s) as a list {wx, wy, wz}; a single number means isotropic.
