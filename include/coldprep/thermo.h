@@ -91,6 +91,13 @@ cp_status cp_thermo_bose(const cp_thermo_trap *trap, double temperature,
 cp_status cp_thermo_bose_at(const cp_thermo_trap *trap, double t_over_tc,
                             cp_thermo_bose_result *out, cp_error *err);
 
+/* The number N that puts an ideal gas of statistics stat at temperature T (K) in trap
+ * frequencies omega (rad/s) at t_over_tdeg = T/T_F (fermions, k_B T_F = hbar wbar (6N)^(1/3))
+ * or T/T_c (bosons, k_B T_c = hbar wbar (N/zeta(3))^(1/3)), t_over_tdeg in (0, 1000].
+ * CP_EINVAL for bad input (*number NaN). */
+cp_status cp_thermo_number_at(cp_statistics stat, double temperature, const double omega[3],
+                              double t_over_tdeg, double *number, cp_error *err);
+
 /* The temperature (K) at which the trapped gas has entropy per particle s (units of k_B,
  * in (0, 40]) — the inverse of entropy_per_particle.  Fermions: s > 0 at any T; bosons:
  * s <= 4 zeta(4)/zeta(3) (T/T_c)^3 below T_c is inverted in closed form.  Brent's method

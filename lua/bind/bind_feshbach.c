@@ -14,11 +14,10 @@
 #include "args.h"
 #include "coldprep/consts.h"
 #include "coldprep/feshbach.h"
+#include "coldprep/thermo.h"
 #include "help.h"
 
 int cpl_open_feshbach(lua_State *L);
-
-#define ZETA3 1.2020569031595942
 
 /* Call cp.species.<fn>(value at idx) and leave the result on the stack. */
 static void species_call(lua_State *L, const char *fn, int idx)
@@ -367,10 +366,10 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
             cpl_error(L, cname, "argument '%s' = %g is out of range; allowed (0, 1000]", k, x);
         if (!(temperature > 0.0))
             cpl_error(L, cname, "'%s' needs a positive 'temperature'", k);
-        double wbar = cbrt(c->omega[0] * c->omega[1] * c->omega[2]);
-        double r3 = pow(CP_KB * temperature / (CP_HBAR * wbar * x), 3.0);
-        /* E_F = hbar wbar (6N)^(1/3); k T_c = hbar wbar (N/zeta(3))^(1/3) (physics.md §7) */
-        c->number = has_f ? r3 / 6.0 : ZETA3 * r3;
+        cp_error err;
+        if (cp_thermo_number_at(has_f ? CP_FERMION : CP_BOSON, temperature, c->omega, x,
+                                &c->number, &err))
+            cpl_raise(L, &err);
     }
     lua_settop(L, t - 1);
 }
