@@ -106,6 +106,15 @@ cp_status cp_thermo_temperature_from_entropy(const cp_thermo_trap *trap, cp_stat
                                              double entropy_per_particle, double *temperature,
                                              cp_error *err);
 
+/* The temperature (K) at which the trapped gas has energy per particle E/N (J, in
+ * (0, 3 k_B x 10 mK]) at its number and trap: where a cloud rethermalises after energy is
+ * added at fixed N and trap.  Brent's method on ln T.  CP_EINVAL for bad input or an energy
+ * the gas reaches only outside the models' temperature range (for fermions, below the
+ * Fermi sea's 3/4 E_F); *temperature NaN on error. */
+cp_status cp_thermo_temperature_from_energy(const cp_thermo_trap *trap, cp_statistics stat,
+                                            double energy_per_particle, double *temperature,
+                                            cp_error *err);
+
 /* Entropy matching harmonic -> harmonic: the temperature (K) after an adiabatic (entropy
  * and N conserving) change of the trap frequencies from trap->omega to omega_to[3]. */
 cp_status cp_thermo_match_harmonic(const cp_thermo_trap *trap, cp_statistics stat,

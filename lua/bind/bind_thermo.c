@@ -150,6 +150,23 @@ static int l_temperature_from_entropy(lua_State *L)
     return 1;
 }
 
+static int l_temperature_from_energy(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "statistics", "energy_per_particle", NULL};
+    const char *fname = "thermo.temperature_from_energy";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    read_trap(L, fname, &trap);
+    cp_statistics stat = read_statistics(L, fname);
+    double e = cpl_number(L, 1, fname, "energy_per_particle", "J");
+    double t;
+    cp_error err;
+    if (cp_thermo_temperature_from_energy(&trap, stat, e, &t, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    push_state(L, &trap, stat, t);
+    return 1;
+}
+
 static int l_density(lua_State *L)
 {
     static const char *const keys[] = {TRAP_KEYS, "statistics", "temperature", "x", "y", "z",
@@ -353,6 +370,16 @@ static const cpl_function functions[] = {
      "Returns the thermo.fermi or thermo.bose table at that temperature.\n"
      "Example: cp.thermo.temperature_from_entropy{number = 2e4, omega_bar = 600, mass = "
      "2.1e-25, statistics = \"fermion\", entropy_per_particle = 2}"},
+    {"temperature_from_energy", l_temperature_from_energy,
+     "thermo.temperature_from_energy{number, omega_bar, mass, statistics, "
+     "energy_per_particle}: the temperature at which the trapped gas has the given energy "
+     "per particle (where it rethermalises after heating at fixed number and trap).\n"
+     TRAP_HELP
+     "  statistics  \"fermion\" or \"boson\"\n"
+     "  energy_per_particle  E/N, J\n"
+     "Returns the thermo.fermi or thermo.bose table at that temperature.\n"
+     "Example: cp.thermo.temperature_from_energy{number = 2e4, omega_bar = 600, mass = "
+     "2.1e-25, statistics = \"fermion\", energy_per_particle = 3e-30}"},
     {"density", l_density,
      "thermo.density{number, omega_bar, mass, statistics, temperature, x = 0, y = 0, z = 0}: "
      "local density (local-density approximation) at position (x, y, z), m.\n" TRAP_HELP

@@ -124,18 +124,11 @@ function S.temperature_for_entropy(c, entropy)
 end
 
 -- The temperature of cloud c after `energy` (J) per particle is added at fixed number and
--- trap: dS = dE / (kB T) (the thermodynamic identity at fixed N and trap), integrated in
--- HEAT_STEPS midpoint steps through the model's T(S) (cp.thermo.temperature_from_entropy).
-local HEAT_STEPS = 8
+-- trap: where the gas rethermalises, at E/N + energy (cp.thermo.temperature_from_energy).
 function S.temperature_after_heating(c, energy)
-  local s, T = c.entropy_per_particle, c.temperature
-  local de = energy / HEAT_STEPS
-  for _ = 1, HEAT_STEPS do
-    local T_mid = S.temperature_for_entropy(c, s + 0.5 * de / (cp.consts.kB * T))
-    s = s + de / (cp.consts.kB * T_mid)
-    T = S.temperature_for_entropy(c, s)
-  end
-  return T
+  local args = thermo_trap(c)
+  args.energy_per_particle = c.energy_per_particle + energy
+  return cp.thermo.temperature_from_energy(args).temperature
 end
 
 -- Cloud or sample c after losing particles at random, uniformly in phase space (a
