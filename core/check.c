@@ -21,9 +21,13 @@ cp_status cp_fail(cp_error *err, cp_status status, const char *fmt, ...)
     return status;
 }
 
+/* %.6g, but NaN and the infinities in one spelling on every platform (printf may write
+ * "-nan" for a NaN with its sign bit set). */
 static void format_bound(char *buf, size_t size, double v)
 {
-    if (isinf(v))
+    if (isnan(v))
+        snprintf(buf, size, "NaN");
+    else if (isinf(v))
         snprintf(buf, size, "%s", v > 0 ? "inf" : "-inf");
     else
         snprintf(buf, size, "%.6g", v);
@@ -38,15 +42,16 @@ cp_status cp_check_range(cp_error *err, const char *context, const char *name, d
     if (ok)
         return CP_OK;
 
-    char los[32], his[32];
+    char los[32], his[32], vals[32];
     format_bound(los, sizeof los, lo);
     format_bound(his, sizeof his, hi);
+    format_bound(vals, sizeof vals, value);
     const char *problem = isnan(value)   ? "not a number"
                           : isinf(value) ? "infinite"
                                          : "out of range";
     const char *sep = (unit && unit[0]) ? " " : "";
-    return cp_fail(err, CP_EINVAL, "%s: %s %.6g%s%s is %s; allowed %c%s, %s%c%s%s", context, name,
-                   value, sep, unit ? unit : "", problem, lo_open || isinf(lo) ? '(' : '[', los,
+    return cp_fail(err, CP_EINVAL, "%s: %s %s%s%s is %s; allowed %c%s, %s%c%s%s", context, name,
+                   vals, sep, unit ? unit : "", problem, lo_open || isinf(lo) ? '(' : '[', los,
                    his, hi_open || isinf(hi) ? ')' : ']', sep, unit ? unit : "");
 }
 

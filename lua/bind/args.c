@@ -26,6 +26,12 @@ int cpl_raise(lua_State *L, const cp_error *err)
     return luaL_error(L, "%s", err->message);
 }
 
+/* A non-finite number as text, one spelling on every platform ("NaN", "inf", "-inf"). */
+static const char *nonfinite_text(double v)
+{
+    return isnan(v) ? "NaN" : v > 0 ? "inf" : "-inf";
+}
+
 /* Push the set {key = position} of a NULL-terminated key list, built once per list and kept
  * in the registry under the list's address (the lists are static arrays), so that
  * checking a key costs one table lookup instead of a string comparison per known key. */
@@ -121,8 +127,8 @@ void cpl_read_fields(lua_State *L, int idx, const char *fname, const char *what,
                           unit, luaL_typename(L, -1));
             values[i] = lua_tonumber(L, -1);
             if (!isfinite(values[i]))
-                cpl_error(L, fname, "%s field '%s' must be a finite number (%s), got %g", what,
-                          key, unit, values[i]);
+                cpl_error(L, fname, "%s field '%s' must be a finite number (%s), got %s", what,
+                          key, unit, nonfinite_text(values[i]));
         }
         lua_pop(L, 1);
     }
@@ -144,7 +150,8 @@ static double to_finite(lua_State *L, const char *fname, const char *key, const 
                   luaL_typename(L, -1));
     double v = lua_tonumber(L, -1);
     if (!isfinite(v))
-        cpl_error(L, fname, "argument '%s' must be a finite number (%s), got %g", key, u, v);
+        cpl_error(L, fname, "argument '%s' must be a finite number (%s), got %s", key, u,
+                  nonfinite_text(v));
     return v;
 }
 

@@ -26,4 +26,8 @@ for name, call in pairs(calls) do
   T.raises(function() call(2 * math.pi * 100, L.max_temperature * 1.01) end, { "temperature" },
     name .. ": above the temperature cap refused")
 end
+
+-- A NaN with its sign bit set (0/0 on x86 is one) reads "NaN" on every platform, not "-nan".
+local ok, msg = pcall(cp.thermo.fermi, { number = 1e5, omega_bar = 100, mass = mass, temperature = -(0 / 0) })
+T.check(not ok and msg:find("got NaN", 1, true) and not msg:find("-nan", 1, true), "NaN spelled NaN: " .. tostring(msg))
 T.done()

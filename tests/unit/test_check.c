@@ -21,6 +21,10 @@ static void test_positive_messages(void **state)
                         "lattice depth: wavelength 0 m is out of range; allowed (0, inf) m");
     assert_int_equal(cp_check_positive(&err, "lattice depth", "waist", NAN, "m"), CP_EINVAL);
     assert_non_null(strstr(err.message, "not a number"));
+    /* a NaN with its sign bit set is spelled like any other, never "-nan" */
+    assert_int_equal(cp_check_positive(&err, "lattice depth", "waist", -NAN, "m"), CP_EINVAL);
+    assert_string_equal(err.message, "lattice depth: waist NaN m is not a number; allowed (0, "
+                                     "inf) m");
     assert_int_equal(cp_check_positive(&err, "x", "power", INFINITY, "W"), CP_EINVAL);
     assert_non_null(strstr(err.message, "infinite"));
     assert_int_equal(cp_check_positive(&err, "x", "power", 1e-300, "W"), CP_OK);
