@@ -3,15 +3,7 @@
 -- that cools but loses molecules) under the constraint T/T_F <= 0.5, checked against a
 -- dense grid scan done here; an optimum on a bound; the +-10 % sensitivity; bad input.
 local T = require "testlib"
--- name + condition (+ what was seen, printed on failure), in the order these tests read best
-local function check(name, ok, detail)
-  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
-  T.check(ok, name)
-end
-local function raises(name, pattern, f, ...)
-  local args = table.pack(...)
-  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
-end
+local check, raises = T.expect, T.raises_named
 
 -- Plain simplex on a quadratic with its minimum at (1, -2) (by inspection).
 local q = cp.optim.nmsimplex{f = function(x) return (x[1] - 1)^2 + 10 * (x[2] + 2)^2 end,

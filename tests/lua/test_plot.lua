@@ -4,15 +4,7 @@
 -- header, ISO 32000-1 section 7.5.2; SVG: an <svg> root element, SVG 1.1 section 5.1);
 -- bad input is refused before anything is drawn.
 local T = require "testlib"
--- name + condition (+ what was seen, printed on failure), in the order these tests read best
-local function check(name, ok, detail)
-  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
-  T.check(ok, name)
-end
-local function raises(name, pattern, f, ...)
-  local args = table.pack(...)
-  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
-end
+local check, raises = T.expect, T.raises_named
 
 local dir = os.tmpname()
 os.remove(dir)

@@ -3,15 +3,7 @@
 -- escapes (RFC 8259 section 7), reading files back, errors of evaluate recorded per row,
 -- and bad descriptions rejected with clear messages.
 local T = require "testlib"
--- name + condition (+ what was seen, printed on failure), in the order these tests read best
-local function check(name, ok, detail)
-  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
-  T.check(ok, name)
-end
-local function raises(name, pattern, f, ...)
-  local args = table.pack(...)
-  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
-end
+local check, raises = T.expect, T.raises_named
 
 -- Grid: first axis slowest.  By hand: x in {0, 0.5, 1} (3 points from 0 to 1) and the
 -- zipped pair (a, s) in {(1, "u"), (2, "v")}: 6 points, x = 0, 0, 0.5, 0.5, 1, 1.

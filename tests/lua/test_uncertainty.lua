@@ -4,15 +4,7 @@
 -- hand; Spearman's rho matches the no-ties formula rho = 1 - 6 sum d^2 / (n (n^2 - 1))
 -- (Spearman 1904); the ranking puts the dominant input first; bad input is refused.
 local T = require "testlib"
--- name + condition (+ what was seen, printed on failure), in the order these tests read best
-local function check(name, ok, detail)
-  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
-  T.check(ok, name)
-end
-local function raises(name, pattern, f, ...)
-  local args = table.pack(...)
-  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { pattern }, name)
-end
+local check, raises = T.expect, T.raises_named
 
 -- A plan-like model: molecule number and T/T_F from a ramp rate, a hold and a loss rate.
 local function model(p)

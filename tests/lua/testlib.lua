@@ -36,6 +36,19 @@ function T.raises(fn, fragments, what)
   report(true, what)
 end
 
+-- The named form the study-layer tests read best in: name first, then the condition, and
+-- what was seen (printed on failure only).
+function T.expect(name, ok, detail)
+  if not ok and detail ~= nil then io.stderr:write("  seen: ", tostring(detail), "\n") end
+  T.check(ok, name)
+end
+
+-- name first: f(...) must raise an error containing the plain-text fragment `fragment`.
+function T.raises_named(name, fragment, f, ...)
+  local args = table.pack(...)
+  T.raises(function() return f(table.unpack(args, 1, args.n)) end, { fragment }, name)
+end
+
 function T.done()
   print(string.format("%d passed, %d failed", T.passed, T.failed))
   os.exit(T.failed == 0 and 0 or 1)
