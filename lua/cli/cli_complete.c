@@ -38,6 +38,16 @@ static int is_identifier(const char *s, size_t len)
     return 1;
 }
 
+/* The library's plumbing rather than its interface, left out of the candidates as help()
+ * leaves it out of its listing: cp.set_help, cp.get_help and cp.species.builtin_*. */
+static int is_internal(const char *key, size_t len)
+{
+    static const char builtin[] = "builtin_";
+    size_t nb = sizeof builtin - 1;
+    return (len >= nb && memcmp(key, builtin, nb) == 0) ||
+           (len == 8 && (memcmp(key, "set_help", 8) == 0 || memcmp(key, "get_help", 8) == 0));
+}
+
 /* Replace the table to search (top of stack) by its metatable's __index if that is a
  * table; returns 0 (popping it) when there is none. */
 static int next_index_table(lua_State *L)
@@ -93,7 +103,7 @@ static void add_fields(lua_State *L, int out, const char *base, size_t base_len,
                 const char *key = lua_type(L, -2) == LUA_TSTRING ? lua_tolstring(L, -2, &klen)
                                                                 : NULL;
                 if (key && klen >= prefix_len && memcmp(key, prefix, prefix_len) == 0 &&
-                    is_identifier(key, klen) &&
+                    is_identifier(key, klen) && !is_internal(key, klen) &&
                     (!only_functions || lua_type(L, -1) == LUA_TFUNCTION)) {
                     lua_pushlstring(L, base, base_len);
                     lua_pushvalue(L, -3);

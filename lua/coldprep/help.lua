@@ -1,9 +1,62 @@
--- coldprep.help: `help()` lists the modules and their functions with the first line of
--- each help text; `help(f)` prints f's full help text; `help(module)` lists one module.
+-- coldprep.help: `help()` lists the modules and their functions with each one's complete
+-- signature, wrapped to 100 columns; `help(f)` prints f's full help text; `help(module)` lists one module.
 local cp = require "coldprep"
 
-local function first_line(text)
-  return (text or ""):match("^[^\n]*")
+local WIDTH = 100 -- the listing fits a terminal this wide
+
+-- Names that are the library's plumbing rather than its interface: left out of the listing
+-- (and of Tab completion, lua/cli/cli_complete.c).
+local function is_internal(name)
+  return name:match("^builtin_") or name == "set_help" or name == "get_help"
+end
+
+-- The complete call signature at the start of a help text: up to the bracket that closes
+-- the argument list, then a "-> result" that follows it (to its own closing bracket, or to
+-- the end of its line); line breaks inside become single spaces.
+local function closing(text, from)
+  local depth = 0
+  for i = from, #text do
+    local c = text:sub(i, i)
+    if c == "{" or c == "(" or c == "[" then depth = depth + 1
+    elseif c == "}" or c == ")" or c == "]" then
+      depth = depth - 1
+      if depth == 0 then return i end
+    end
+  end
+end
+
+local function signature(text)
+  text = text or ""
+  local open = text:find("[{(]")
+  local stop = open and closing(text, open)
+  if not stop then return (text:match("^[^\n:]*")) end
+  local arrow = text:match("^%s*%->%s*", stop + 1)
+  if arrow then
+    local r = stop + #arrow + 1
+    if text:sub(r, r):match("[{(%[]") then
+      stop = closing(text, r) or stop
+    else
+      stop = (text:find("\n", r, true) or #text + 1) - 1
+    end
+  end
+  return (text:sub(1, stop):gsub("%s+", " "))
+end
+
+-- `text` word-wrapped to WIDTH columns, the first line after `indent`, the rest after `cont`.
+local function wrap(text, indent, cont)
+  local lines, line = {}, indent
+  for word in text:gmatch("%S+") do
+    if #line + #word + 1 > WIDTH and #line > #cont then
+      lines[#lines + 1] = line
+      line = cont .. word
+    elseif line == indent or line == cont then
+      line = line .. word
+    else
+      line = line .. " " .. word
+    end
+  end
+  lines[#lines + 1] = line
+  return table.concat(lines, "\n")
 end
 
 local function sorted_keys(t)
@@ -19,8 +72,10 @@ local function list_module(name, mod, out)
   out[#out + 1] = name
   for _, k in ipairs(sorted_keys(mod)) do
     local v = mod[k]
-    if type(v) == "function" and not k:match("^builtin_") then
-      out[#out + 1] = string.format("  %-28s %s", name .. "." .. k, first_line(cp.get_help(v)))
+    if type(v) == "function" and not is_internal(k) then
+      local help_text = cp.get_help(v)
+      local sig = help_text and signature(help_text) or (k .. "(...)")
+      out[#out + 1] = wrap("cp." .. sig:gsub("^cp%.", ""), "  ", "      ")
     end
   end
 end
@@ -36,8 +91,8 @@ local function help(x)
         list_module("cp." .. k, cp[k], out)
       end
     end
-    out[#out + 1] = "cp.units: " .. table.concat(sorted_keys(cp.units), " ")
-    out[#out + 1] = "cp.consts: " .. table.concat(sorted_keys(cp.consts), " ")
+    out[#out + 1] = wrap("cp.units: " .. table.concat(sorted_keys(cp.units), " "), "", "    ")
+    out[#out + 1] = wrap("cp.consts: " .. table.concat(sorted_keys(cp.consts), " "), "", "    ")
   elseif type(x) == "function" then
     out[1] = cp.get_help(x) or "no help text for this function"
   elseif type(x) == "table" then

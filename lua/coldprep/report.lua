@@ -21,6 +21,8 @@ local S = require "coldprep.sample"
 local R = {}
 local Budget = {}
 Budget.__index = Budget
+-- a budget typed at the prompt (or given to print/tostring) shows as its report
+Budget.__tostring = function(self) return self:text() end
 
 -- ---- records --------------------------------------------------------------------------
 

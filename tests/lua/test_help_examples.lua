@@ -36,4 +36,22 @@ for _, module in ipairs { "feshbach", "raman", "lattice", "thermo", "collisions"
   end
 end
 
+-- help(): every line of the listing fits 100 columns, each function's signature is complete
+-- (its brackets balance) and the library's plumbing (set_help, builtin_*) is not listed.
+local printed = {}
+local real_print = print
+print = function(s) printed[#printed + 1] = s end -- luacheck: ignore
+help()
+print = real_print -- luacheck: ignore
+local listing = table.concat(printed, "\n")
+local widest = 0
+for line in listing:gmatch("[^\n]+") do widest = math.max(widest, #line) end
+T.check(widest <= 100, "help() fits 100 columns (widest line " .. widest .. ")")
+T.check(not listing:find("set_help", 1, true) and not listing:find("builtin_", 1, true),
+  "help() hides the library's plumbing")
+local entry = listing:match("\n  (cp%.collisions%.hold.-)\n  cp%.")
+local _, opened = entry:gsub("[{(%[]", "")
+local _, closed = entry:gsub("[})%]]", "")
+T.check(entry:find("points = 101}", 1, true) and opened == closed,
+  "help() gives collisions.hold's whole signature: " .. tostring(entry))
 T.done()
