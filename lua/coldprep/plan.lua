@@ -361,7 +361,12 @@ end
 
 P.Plan = Plan
 
-setmetatable(P, { __call = function(_, args) return P.new(args) end })
+-- cp.plan{...}: a bad plan is reported at the line of the file that wrote it
+setmetatable(P, { __call = function(_, args)
+  local ok, plan = pcall(P.new, args)
+  if not ok then error(plan, 2) end
+  return plan
+end })
 
 cp.set_help(P.new, [[
 cp.plan{start = {...}, stages = {...} [, name, threshold, perturbation]} -> plan

@@ -18,7 +18,12 @@ M.Stage = require("coldprep.stage.common").Stage
 for _, name in ipairs { "custom", "remove_atoms", "associate", "transfer", "change_trap", "hold",
   "evaporate", "load_lattice" } do
   local stage = require("coldprep.stage." .. name)
-  M[name] = stage.constructor
+  -- a bad argument is reported at the line of the plan file that built the stage
+  M[name] = function(args)
+    local ok, built = pcall(stage.constructor, args)
+    if not ok then error(built, 2) end
+    return built
+  end
   cp.set_help(M[name], stage.help)
 end
 

@@ -33,6 +33,13 @@ run "$coldprep" lib_error.lua </dev/null
 err_has RUN-4a "lib_error.lua:2: "
 err_has RUN-4b "closest known names"
 status RUN-4c 1
+# ... and so does a bad argument of a stage or a plan, raised while the plan is written
+printf 'local u = cp.units\nlocal s = cp.stages.hold { duraton = 1 }\n' >stage_error.lua
+run "$coldprep" stage_error.lua </dev/null
+err_has RUN-4d "stage_error.lua:2: stages.hold: unknown argument 'duraton'"
+printf '\n\nlocal p = cp.plan { start = {} }\n' >plan_error.lua
+run "$coldprep" plan_error.lua </dev/null
+err_has RUN-4e "plan_error.lua:3: plan: argument 'stages'"
 
 # RUN-5: the acceptance checks of issue 2.
 run "$coldprep" -e 'print(require("coldprep").species.atom("40K").statistics)'
