@@ -53,7 +53,10 @@ T.check(e.efficiency > 0 and #e.phase_space_densities == 51, "PSD grows; default
 local x = cp.collisions.dipolar_cross_section { dipole_debye = 0.2, mass = mu, statistics = "fermion" }
 T.near(x.cross_section, 32 * math.pi / 15 * x.dipole_length ^ 2, 1e-14, "sigma_F = 32 pi/15 D^2")
 local r = cp.collisions.collision_ratio { cross_section = x.cross_section, rate = kp.rate, mass = M, temperature = 1e-6 }
-T.check(r.ratio > 0, "collision ratio")
+-- sigma v_rel / beta with the mean relative speed of a thermal gas v_rel = sqrt(16 kB T/(pi m))
+-- (Maxwell-Boltzmann, e.g. Reif, Fundamentals of Statistical and Thermal Physics, sec. 7.10)
+T.near(r.ratio, x.cross_section * math.sqrt(16 * cp.consts.kB * 1e-6 / (math.pi * M)) / kp.rate, 1e-12,
+  "collision ratio = sigma v_rel / beta")
 
 -- COLL-L7: errors.
 T.raises(function() cp.collisions.pwave_barrier { c6au = 16000, mass = mu } end,

@@ -55,10 +55,10 @@ T.check(b.start.particles == "40K atoms", "the minority species is followed")
 T.near(b.stages[1].number, 3e3, 1e-12, "convert keeps 30 % of 1e4")
 T.near(b.stages[3].number, 300, 1e-12, "keep 10 %")
 T.near(b.stages[2].temperature, 2 * T0, 1e-12, "heat doubles T")
-local prod = 1
-for _, r in ipairs(b.stages) do prod = prod * r.efficiency end
-T.near(prod, b.final.number / b.start.number, 1e-12, "product of step efficiencies = N_final/N_start")
-T.near(b.final.cumulative_efficiency, 0.03, 1e-12, "cumulative efficiency")
+T.near(b.stages[1].efficiency, 0.3, 1e-12, "convert: step efficiency 30 %")
+T.near(b.stages[2].efficiency, 1, 1e-12, "heating: step efficiency 100 %")
+T.near(b.stages[3].efficiency, 0.1, 1e-12, "keep: step efficiency 10 %")
+T.near(b.final.cumulative_efficiency, 0.03, 1e-12, "cumulative efficiency 0.3 x 0.1")
 T.near(b.final.elapsed, 17 * u.ms, 1e-12, "elapsed = sum of durations")
 T.check(b.stages[1].kind == "feshbach-molecules" and b.stages[1].particles == "23Na40K (Feshbach)",
   "custom stage with produces= changes the kind")
