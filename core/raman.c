@@ -3,10 +3,11 @@
  * Lambda system plus a sink.  The state is the 3x3 density matrix as 9 reals
  * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population, which is
  * integrated on its own so that trace + lost = 1 is a check of the integrator, not an
- * identity.  The integrator is GSL's embedded Runge-Kutta Prince-Dormand 8(9) (rk8pd) with
- * absolute error control, or far off resonance GSL's variable-order BDF (msbdf) with the
- * exact Jacobian and rk8pd as fallback; docs/models/raman.md explains the choice (measured
- * against Magnus propagators with exact matrix exponentials and exponential integrators).
+ * identity.  The integrator is the Dormand-Prince 5(4) pair of raman_dp.c with absolute
+ * error control set from the accuracy asked for, or far off resonance GSL's variable-order
+ * BDF (msbdf) with the exact Jacobian and the explicit pair as fallback;
+ * docs/models/raman.md explains the choice (measured against GSL's rk8pd, Magnus
+ * propagators with exact matrix exponentials and exponential integrators).
  */
 #include <math.h>
 
@@ -14,18 +15,35 @@
 #include <gsl/gsl_odeiv2.h>
 
 #include "check_int.h"
+#include "raman_dp_int.h"
 #include "raman_int.h"
 
 #define CTX "raman transfer"
-enum { DIM = 10 };
+enum { DIM = CP_RAMAN_DIM };
 static const size_t max_trace = 10000000;
 
-/* Absolute error per step asked of the integrator.  Local errors add up over the steps, whose
- * number grows with the phase (sum of the rates x duration), so the tolerance shrinks with it:
- * 1e-9 up to 2000 rad (the reference case of issue 4, ~1e-10 final error), less beyond. */
-static double tolerance(double phase)
+/* The largest rate of the constant part of the generator (decay, dephasing, detunings), 1/s:
+ * it sets the stability bound of the explicit pair. */
+static double constant_rate(const cp_raman_params *p)
 {
-    return 1e-9 * fmin(1.0, 2000.0 / phase);
+    double kappa = 2 * M_PI * (p->pump_linewidth_hz + p->stokes_linewidth_hz +
+                               (p->use_relative ? p->relative_linewidth_hz : 0.0));
+    return p->gamma + p->gamma_initial + p->gamma_target + fabs(p->detuning) +
+           fabs(p->two_photon_detuning) + kappa;
+}
+
+/* Absolute error per step asked of the explicit pair for a final accuracy acc.  Measured
+ * (docs/models/raman.md, "Integrator and error control"): the final error is about 0.01 x
+ * steps x tolerance when nothing damps the local errors (gamma = 0), and 0.01-0.04 x the
+ * tolerance when the decay of |2> is comparable to the Rabi frequencies (the errors of the
+ * bright states die out).  Hence the tolerance falls with the phase (sum of the rates x
+ * window, which sets the number of steps) and rises with gamma / peak Rabi frequency. */
+static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, double rate0)
+{
+    double f = fmin(1.0, 2000.0 / pl->phase);
+    double rabi = pl->phase / (pl->t_end - pl->t_start) - rate0; /* the peak Rabi frequency */
+    double damp = rabi > 0 ? fmin(1.0, gamma / rabi) : 1.0;
+    return acc * f * f * (0.1 + 20 * damp * damp);
 }
 
 /* Far off resonance (|Delta| above stiff_ratio times the sum of all other rates) the
@@ -34,7 +52,7 @@ static double tolerance(double phase)
  * in the tests).  Closer to resonance msbdf was measured to be erratic (BDF orders >= 3 are
  * not stable near the imaginary axis), hence the large ratio. */
 static const double stiff_ratio = 10.0;
-static const double stiff_tolerance = 1e-10;
+static const double stiff_tolerance_per_accuracy = 1e-2;
 
 /* The constant parts of the generator. */
 typedef struct model {
@@ -104,6 +122,13 @@ static int rhs(double t, const double y[], double dy[], void *params)
     return GSL_SUCCESS;
 }
 
+/* The generator as the explicit pair calls it, with the envelopes it computed. */
+static void dp_gen(const void *ctx, double t, double op, double os, const double y[], double dy[])
+{
+    (void)t;
+    generator(ctx, op / 2, os / 2, y, dy);
+}
+
 /* The Jacobian for the stiff integrator.  The system is linear, so d f/d y is the generator
  * itself (its columns are the images of unit vectors), and it is affine in the half Rabi
  * frequencies (a, b), so d f/d t = G(a', b') y - G(0, 0) y. */
@@ -142,11 +167,39 @@ static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
             tr->column[c][i] = y[trace_index[c]];
 }
 
+/* One of the two integrators: GSL's driver (msbdf) or the explicit pair of raman_dp.c. */
+typedef struct stepper {
+    gsl_odeiv2_driver *drv;
+    cp_raman_dp *dp;
+} stepper;
+
+static void set_hmax(stepper *s, double hmax)
+{
+    if (s->drv)
+        gsl_odeiv2_driver_set_hmax(s->drv, hmax);
+    else
+        s->dp->hmax = hmax;
+}
+
+static cp_status advance(stepper *s, double *t, double t1, double *y, cp_error *err)
+{
+    if (s->drv) {
+        int st = gsl_odeiv2_driver_apply(s->drv, t, t1, y);
+        if (st != GSL_SUCCESS)
+            return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (%s)",
+                           *t, gsl_strerror(st));
+    } else if (cp_raman_dp_apply(s->dp, t, t1, y) != 0) {
+        return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (step "
+                       "budget exceeded or step size too small)", *t);
+    }
+    return CP_OK;
+}
+
 /* Integrate y over the window of pl (forward or reversed), recording the trace if given.
  * The window is cut at break points — the edges of each analytic pulse, every sample time
  * of a sampled shape — so that no step can jump over a short pulse and none straddles a
  * kink of the envelope; inside an analytic pulse steps are at most width/2. */
-static cp_status propagate(gsl_odeiv2_driver *drv, const cp_raman_pulses *pl, double *y,
+static cp_status propagate(stepper *drv, const cp_raman_pulses *pl, double *y,
                            cp_raman_trace *tr, cp_error *err)
 {
     size_t nb = cp_raman_pulses_breaks(pl), k = 0, ntr = tr ? tr->n : 0;
@@ -154,26 +207,18 @@ static cp_status propagate(gsl_odeiv2_driver *drv, const cp_raman_pulses *pl, do
     for (size_t b = 1; b <= nb; b++) {
         double tb = b < nb ? cp_raman_pulses_break(pl, b) : t1;
         if (b < nb && tb > t)
-            gsl_odeiv2_driver_set_hmax(drv, cp_raman_pulses_hmax(pl, t, tb));
+            set_hmax(drv, cp_raman_pulses_hmax(pl, t, tb));
         /* trace samples up to tb, then tb itself */
         while (k < ntr) {
             double tk = k + 1 == ntr ? t1 : t0 + (t1 - t0) * (double)k / (double)(ntr - 1);
             if (tk > tb)
                 break;
-            if (tk > t) {
-                int st = gsl_odeiv2_driver_apply(drv, &t, tk, y);
-                if (st != GSL_SUCCESS)
-                    return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = "
-                                   "%.6g s (%s)", t, gsl_strerror(st));
-            }
+            if (tk > t)
+                CP_TRY(advance(drv, &t, tk, y, err));
             store_trace(tr, k++, t, y);
         }
-        if (tb > t) {
-            int st = gsl_odeiv2_driver_apply(drv, &t, tb, y);
-            if (st != GSL_SUCCESS)
-                return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g "
-                               "s (%s)", t, gsl_strerror(st));
-        }
+        if (tb > t)
+            CP_TRY(advance(drv, &t, tb, y, err));
     }
     return CP_OK;
 }
@@ -217,35 +262,49 @@ static void fill_result(const double *y, cp_raman_result *res)
     res->lost = y[9];
 }
 
-/* Run the forward sequence (and the return trip) with one integrator; nmax bounds the steps
- * per segment (0: no bound).  Fills the propagation part of res. */
+/* Run the forward sequence (and the return trip) with msbdf (nmax bounds the steps per
+ * segment) or, if type is NULL, with the explicit pair.  Fills the propagation part of res. */
 static cp_status integrate(model *m, const gsl_odeiv2_step_type *type, double tol, size_t nmax,
                            int round_trip, cp_raman_result *res, cp_raman_trace *trace,
                            cp_error *err)
 {
     gsl_odeiv2_system sys = {rhs, jacobian, DIM, m};
     double hstart = cp_raman_pulses_hstart(&m->pulses);
-    gsl_odeiv2_driver *drv = gsl_odeiv2_driver_alloc_y_new(&sys, type, hstart, tol, 0.0);
-    if (!drv)
-        return cp_fail(err, CP_ENOMEM, CTX ": out of memory for the integrator");
-    if (nmax)
-        gsl_odeiv2_driver_set_nmax(drv, nmax);
+    cp_raman_dp dp;
+    double hstab = 3.2 / constant_rate(m->pulses.p);
+    stepper s = {NULL, NULL};
+    if (type) {
+        s.drv = gsl_odeiv2_driver_alloc_y_new(&sys, type, hstart, tol, 0.0);
+        if (!s.drv)
+            return cp_fail(err, CP_ENOMEM, CTX ": out of memory for the integrator");
+        if (nmax)
+            gsl_odeiv2_driver_set_nmax(s.drv, nmax);
+    } else {
+        s.dp = &dp;
+    }
     double y[DIM] = {1.0};
     m->pulses.reversed = 0;
-    cp_status st = propagate(drv, &m->pulses, y, trace, err);
+    if (s.dp)
+        cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab, 0);
+    cp_status st = propagate(&s, &m->pulses, y, trace, err);
     if (st == CP_OK) {
         fill_result(y, res);
-        res->steps = drv->e->count;
+        res->steps = s.drv ? s.drv->e->count : dp.steps;
     }
     if (st == CP_OK && round_trip) {
         /* the return trip: the same pulses reversed in time, from the final state */
         m->pulses.reversed = 1;
-        gsl_odeiv2_driver_reset(drv);
-        gsl_odeiv2_driver_reset_hstart(drv, hstart);
-        st = propagate(drv, &m->pulses, y, NULL, err);
+        if (s.drv) {
+            gsl_odeiv2_driver_reset(s.drv);
+            gsl_odeiv2_driver_reset_hstart(s.drv, hstart);
+        } else {
+            cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab, 0);
+        }
+        st = propagate(&s, &m->pulses, y, NULL, err);
         res->round_trip_efficiency = y[0];
     }
-    gsl_odeiv2_driver_free(drv);
+    if (s.drv)
+        gsl_odeiv2_driver_free(s.drv);
     return st;
 }
 
@@ -261,6 +320,8 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     if (trace && (trace->n < 2 || trace->n > max_trace))
         return cp_fail(err, CP_EINVAL, CTX ": trace samples %zu is out of range; allowed 2 to "
                        "%zu", trace->n, max_trace);
+    double acc = p->accuracy == 0.0 ? 1e-8 : p->accuracy;
+    CP_TRY(cp_check_range(err, CTX, "accuracy", acc, "", 1e-12, 1e-3, CP_CLOSED));
     model m;
     CP_TRY(cp_raman_pulses_init(&m.pulses, p, err));
     model_init(&m, p);
@@ -269,22 +330,23 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     double window = m.pulses.t_end - m.pulses.t_start;
     if (fabs(p->detuning) > stiff_ratio * m.pulses.other_rate) {
         /* far off resonance: a stiff solver with a step budget per segment (there are
-         * usually three) of a sixth of what rk8pd would need (|Delta| window / 5); if it
-         * fails or runs over, rk8pd below does the job */
+         * usually three) of about a tenth of what the explicit pair needs (|Delta| window /
+         * 3.2); if it fails or runs over, the explicit pair below does the job */
         double budget = fmax(1000.0, fabs(p->detuning) * window / 30);
-        st = integrate(&m, gsl_odeiv2_step_msbdf, stiff_tolerance, (size_t)budget, round_trip,
-                       res, trace, err);
+        st = integrate(&m, gsl_odeiv2_step_msbdf, stiff_tolerance_per_accuracy * acc,
+                       (size_t)budget, round_trip, res, trace, err);
         res->integrator = "msbdf";
     }
     if (st == CP_ENUMERIC) {
-        st = integrate(&m, gsl_odeiv2_step_rk8pd, tolerance(m.pulses.phase), 0, round_trip, res,
-                       trace, err);
-        res->integrator = "rk8pd";
+        st = integrate(&m, NULL, tolerance(acc, &m.pulses, p->gamma, constant_rate(p)), 0,
+                       round_trip, res, trace, err);
+        res->integrator = "dopri5";
     }
     if (st == CP_OK) {
         res->t_start = m.pulses.t_start;
         res->t_end = m.pulses.t_end;
-        cp_raman_estimates(&m.pulses, res);
+        if (p->estimates)
+            cp_raman_estimates(&m.pulses, res);
     }
     cp_raman_pulses_free(&m.pulses);
     if (st != CP_OK)

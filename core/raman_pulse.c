@@ -19,7 +19,7 @@ static const double max_phase = 1e6;
 
 void cp_raman_params_init(cp_raman_params *p)
 {
-    *p = (cp_raman_params){.shape = CP_RAMAN_GAUSSIAN};
+    *p = (cp_raman_params){.shape = CP_RAMAN_GAUSSIAN, .accuracy = 1e-8};
 }
 
 static cp_status check_rate(cp_error *err, const char *name, double v, double hi)

@@ -51,12 +51,21 @@ typedef struct cp_raman_params {
     double stokes_linewidth_hz;  /* FWHM, Hz, >= 0; must be 0 when use_relative */
     int use_relative;            /* nonzero: lasers share a reference (see below) */
     double relative_linewidth_hz; /* FWHM of the pump-Stokes beat note, Hz, >= 0 */
+
+    /* Absolute accuracy asked of the final populations (1e-12 to 1e-3; 0 means the default
+     * 1e-8): the error control of the propagator is set from it. */
+    double accuracy;
+    /* Nonzero: also compute the closed-form estimates of the result (adiabaticity,
+     * overlap_time, *_loss_estimate, nonadiabatic_exponent); otherwise they are NaN. */
+    int estimates;
 } cp_raman_params;
 
-/* Fill p with the defaults: Gaussian, everything zero, no relative linewidth. */
+/* Fill p with the defaults: Gaussian, everything zero, no relative linewidth, accuracy
+ * 1e-8, no estimates. */
 void cp_raman_params_init(cp_raman_params *p);
 
-/* Final state and the closed-form estimates of physics.md §5.2. */
+/* Final state and, if asked for (params.estimates), the closed-form estimates of
+ * physics.md §5.2. */
 typedef struct cp_raman_result {
     double efficiency;        /* population of |3> at the end (one way) */
     double populations[3];    /* rho_11, rho_22, rho_33 at the end */
@@ -75,7 +84,7 @@ typedef struct cp_raman_result {
     double nonadiabatic_loss_estimate;
     double nonadiabatic_exponent;
     size_t steps;             /* accepted integrator steps (one way) */
-    const char *integrator;   /* "rk8pd" or, far off resonance, "msbdf" (static string) */
+    const char *integrator;   /* "dopri5" or, far off resonance, "msbdf" (static string) */
 } cp_raman_result;
 
 /* Columns of a time trace: time (s), populations, sink, and the coherences rho_ij. */

@@ -18,9 +18,10 @@ int cpl_open_raman(lua_State *L);
     "rabi_pump", "rabi_stokes", "width", "delay", "gamma", "detuning", "two_photon_detuning", \
         "pump_linewidth_hz", "stokes_linewidth_hz", "relative_linewidth_hz", "shape",       \
         "times", "pump", "stokes", "branching_initial", "branching_target", "gamma_initial", \
-        "gamma_target"
+        "gamma_target", "accuracy"
 
-static const char *const transfer_keys[] = {PULSE_KEYS, "round_trip", "trace", NULL};
+static const char *const transfer_keys[] = {PULSE_KEYS, "round_trip", "trace", "estimates",
+                                            NULL};
 static const char *const lineshape_keys[] = {PULSE_KEYS, "scan", "values", "from", "to",
                                              "points", "threads", NULL};
 static const char *const trace_names[CP_RAMAN_TRACE_COLUMNS] = {
@@ -75,6 +76,7 @@ static void read_params(lua_State *L, const char *fname, cp_raman_params *p)
     p->branching_target = cpl_opt_number(L, 1, fname, "branching_target", "", 0.0);
     p->gamma_initial = cpl_opt_number(L, 1, fname, "gamma_initial", "1/s", 0.0);
     p->gamma_target = cpl_opt_number(L, 1, fname, "gamma_target", "1/s", 0.0);
+    p->accuracy = cpl_opt_number(L, 1, fname, "accuracy", "", 1e-8);
 }
 
 static double *new_array(lua_State *L, size_t n)
@@ -89,6 +91,7 @@ static int l_transfer(lua_State *L)
     cp_raman_params p;
     read_params(L, fname, &p);
     int round_trip = cpl_opt_boolean(L, 1, fname, "round_trip", 0);
+    p.estimates = cpl_opt_boolean(L, 1, fname, "estimates", 1);
     long ntrace = cpl_opt_integer(L, 1, fname, "trace", 0, 0, 100000);
     if (ntrace == 1)
         cpl_error(L, fname, "argument 'trace' = 1 is out of range; allowed 0 (none) or 2 to "
@@ -114,16 +117,18 @@ static int l_transfer(lua_State *L)
     cpl_set_number(L, "lost", r.lost);
     if (round_trip)
         cpl_set_number(L, "round_trip_efficiency", r.round_trip_efficiency);
-    cpl_set_number(L, "adiabaticity", r.adiabaticity);
-    cpl_set_number(L, "overlap_time", r.overlap_time);
-    lua_createtable(L, 0, 4);
-    cpl_set_number(L, "decay_loss", r.decay_loss_estimate);
-    cpl_set_number(L, "dephasing_loss", r.dephasing_loss_estimate);
-    if (!isnan(r.nonadiabatic_loss_estimate)) { /* defined for resonant Gaussians only */
-        cpl_set_number(L, "nonadiabatic_loss", r.nonadiabatic_loss_estimate);
-        cpl_set_number(L, "nonadiabatic_exponent", r.nonadiabatic_exponent);
+    if (p.estimates) {
+        cpl_set_number(L, "adiabaticity", r.adiabaticity);
+        cpl_set_number(L, "overlap_time", r.overlap_time);
+        lua_createtable(L, 0, 4);
+        cpl_set_number(L, "decay_loss", r.decay_loss_estimate);
+        cpl_set_number(L, "dephasing_loss", r.dephasing_loss_estimate);
+        if (!isnan(r.nonadiabatic_loss_estimate)) { /* defined for resonant Gaussians only */
+            cpl_set_number(L, "nonadiabatic_loss", r.nonadiabatic_loss_estimate);
+            cpl_set_number(L, "nonadiabatic_exponent", r.nonadiabatic_exponent);
+        }
+        lua_setfield(L, -2, "estimates");
     }
-    lua_setfield(L, -2, "estimates");
     cpl_set_number(L, "t_start", r.t_start);
     cpl_set_number(L, "t_end", r.t_end);
     cpl_set_integer(L, "steps", (lua_Integer)r.steps);
@@ -195,7 +200,8 @@ static int l_lineshape(lua_State *L)
     "  shape = \"gaussian\" | \"sin2\" | \"sampled\"; sampled: times (s, increasing, >= 3),\n" \
     "           pump, stokes (rad/s at those times; Steffen interpolation, 0 outside)\n"      \
     "  branching_initial = 0, branching_target = 0  fractions of the |2> decay into |1>, |3>\n" \
-    "  gamma_initial = 0, gamma_target = 0  slow loss rates of |1>, |3> (1/s)\n"
+    "  gamma_initial = 0, gamma_target = 0  slow loss rates of |1>, |3> (1/s)\n"          \
+    "  accuracy = 1e-8  absolute accuracy asked of the final populations (1e-12 to 1e-3)\n"
 
 static const cpl_function functions[] = {
     {"transfer", l_transfer,
@@ -203,13 +209,15 @@ static const cpl_function functions[] = {
      "propagation from |1>.  Arguments:\n" COMMON_HELP
      "  round_trip = false  also run the time-reversed sequence back to |1>\n"
      "  trace = 0  number of equally spaced samples of the forward sequence to return\n"
+     "  estimates = true  also return the closed-form estimates (false: skip them)\n"
      "Returns {efficiency, populations = {initial, excited, target}, lost,\n"
      "  round_trip_efficiency (if round_trip), adiabaticity (max Omega_rms * overlap_time),\n"
      "  overlap_time (s), estimates = {decay_loss, dephasing_loss, nonadiabatic_loss,\n"
      "  nonadiabatic_exponent} (closed forms; the last two, the Dykhne-Davis-Pechukas loss\n"
      "  4p(1-p), p = exp(-nonadiabatic_exponent), only for Gaussian pulses with delay >= width\n"
-     "  and detuning = two_photon_detuning = 0),\n"
-     "  t_start, t_end (s), steps, integrator (\"rk8pd\" or \"msbdf\"), trace = {time, initial, excited, target, lost,\n"
+     "  and detuning = two_photon_detuning = 0; these three only with estimates = true),\n"
+     "  t_start, t_end (s), steps, integrator (\"dopri5\" or \"msbdf\"),\n"
+     "  trace = {time, initial, excited, target, lost,\n"
      "  coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if trace)}.\n"
      "Example: cp.raman.transfer{rabi_pump = 2*math.pi*5*cp.units.MHz,\n"
      "  rabi_stokes = 2*math.pi*5*cp.units.MHz, width = 2*cp.units.us, delay = 2.4*cp.units.us,\n"

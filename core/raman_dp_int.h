@@ -1,0 +1,63 @@
+/*
+ * Private to the Raman model: the explicit propagator of raman_dp.c, an embedded
+ * Dormand-Prince 5(4) Runge-Kutta pair written out for the ten reals of the Lindblad state,
+ * with the Gaussian envelopes carried from step to step by an exact multiplicative
+ * recurrence instead of two exp() per evaluation.  Not installed.
+ */
+#ifndef COLDPREP_RAMAN_DP_INT_H
+#define COLDPREP_RAMAN_DP_INT_H
+
+#include <stddef.h>
+
+#include "raman_int.h"
+
+enum { CP_RAMAN_DIM = 10 };
+
+/* The generator: dy = G(t; Op, Os) y for the Rabi frequencies op, os (rad/s) at time t. */
+typedef void (*cp_raman_gen)(const void *ctx, double t, double op, double os, const double y[],
+                             double dy[]);
+
+/* One Gaussian envelope at the nodes of the current step (see raman_dp.c). */
+typedef struct cp_raman_gauss_rec {
+    double e;        /* envelope at the start of the step, rad/s */
+    double p[5];     /* exp(-2 x c d) for the nodes c of the pair */
+} cp_raman_gauss_rec;
+
+/* State of the propagator between calls (on the caller's stack; no allocation). */
+typedef struct cp_raman_dp {
+    const cp_raman_pulses *pl;
+    cp_raman_gen gen;
+    const void *ctx;
+    double tol;     /* absolute error allowed per step (max norm over the ten reals) */
+    double h;       /* step size to try next, s */
+    double hmax;    /* largest step, s (set per segment by the caller) */
+    double hstab;   /* stability bound on the step, s */
+    size_t steps;   /* accepted steps */
+    size_t max_steps;
+    /* envelope recurrence for Gaussian pulses, valid for step size hrec from time trec */
+    int rec_ok;
+    size_t rec_steps; /* steps since the recurrence was anchored */
+    double hrec, trec;
+    double k[5], q[5]; /* exp(-c^2 d^2), exp(-2 c d^2), d = step / width */
+    cp_raman_gauss_rec pump, stokes;
+    double dy0[CP_RAMAN_DIM]; /* derivative at time tdy0 (the first stage, same as last) */
+    double tdy0;
+    int dy0_ok;
+} cp_raman_dp;
+
+/* Set up s for the pulses pl and generator gen(ctx, ...); tol as above, hstart the first
+ * step (s), hstab a bound on every step (s): 3.2 over the largest decay or rotation rate of
+ * the constant part of the generator keeps the pair inside its stability region (its
+ * boundary is near 3.3 on the real axis), so that the controller does not hover at the edge
+ * of stability, where its error estimate is unreliable; max_steps bounds the accepted steps
+ * over all calls (0: none). */
+void cp_raman_dp_init(cp_raman_dp *s, const cp_raman_pulses *pl, cp_raman_gen gen,
+                      const void *ctx, double tol, double hstart, double hstab,
+                      size_t max_steps);
+
+/* Advance y (CP_RAMAN_DIM reals) from *t to t1 > *t with steps of at most s->hmax; *t is t1
+ * on success.  Returns 0, or -1 when the step bound is exceeded or the step size underflows
+ * (then *t and y hold the last accepted point). */
+int cp_raman_dp_apply(cp_raman_dp *s, double *t, double t1, double y[]);
+
+#endif
