@@ -7,7 +7,7 @@
 typedef struct cpl_embedded_chunk {
     const char *module;    /* "coldprep.plan" */
     const char *chunkname; /* "@lua/coldprep/plan.lua", shown in error messages */
-    const char *bytes;
+    const char *bytes;     /* Lua 5.4 bytecode (debug information kept) or source */
     size_t size;
 } cpl_embedded_chunk;
 

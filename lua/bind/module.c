@@ -1,7 +1,9 @@
 /*
  * luaopen_coldprep: assembles the `coldprep` Lua module.  It opens every C binding
  * (lua/bind/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
- * module table, makes the embedded Lua-side library requirable ("coldprep.plan", ...),
+ * module table, makes the embedded Lua-side library requirable ("coldprep.plan", ...; a
+ * loader already in package.preload is kept, so a developer or a test can run modules from
+ * their source files),
  * publishes the table as package.loaded.coldprep so those modules can require it while
  * it is being built, then runs "coldprep.library", which completes the table.
  */
@@ -18,11 +20,13 @@
 
 int luaopen_coldprep(lua_State *L);
 
-/* package.preload loader for an embedded chunk: upvalue 1 is its index. */
+/* package.preload loader for an embedded chunk: upvalue 1 is its index.  The chunks are
+ * precompiled bytecode (or source when the build had no luac5.4); both are ours, built
+ * into the binary, never read from outside. */
 static int load_embedded(lua_State *L)
 {
     const cpl_embedded_chunk *c = &cpl_embedded_chunks[lua_tointeger(L, lua_upvalueindex(1))];
-    if (luaL_loadbufferx(L, c->bytes, c->size, c->chunkname, "t") != LUA_OK)
+    if (luaL_loadbufferx(L, c->bytes, c->size, c->chunkname, "bt") != LUA_OK)
         return lua_error(L);
     lua_pushstring(L, c->module);
     lua_call(L, 1, 1);
@@ -63,9 +67,12 @@ int luaopen_coldprep(lua_State *L)
 
     luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_PRELOAD_TABLE);
     for (lua_Integer i = 0; cpl_embedded_chunks[i].module; i++) {
-        lua_pushinteger(L, i);
-        lua_pushcclosure(L, load_embedded, 1);
-        lua_setfield(L, -2, cpl_embedded_chunks[i].module);
+        if (lua_getfield(L, -1, cpl_embedded_chunks[i].module) == LUA_TNIL) {
+            lua_pushinteger(L, i);
+            lua_pushcclosure(L, load_embedded, 1);
+            lua_setfield(L, -3, cpl_embedded_chunks[i].module);
+        }
+        lua_pop(L, 1);
     }
     lua_pop(L, 1);
 

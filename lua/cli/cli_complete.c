@@ -1,8 +1,9 @@
 /*
  * Tab completion for the REPL.  The word before the cursor is split at its last '.' or
  * ':' into a path and a prefix: the path (`cp.species`) is resolved from the globals one
- * field at a time, reading raw fields and following __index tables, so completing never
- * runs Lua code; the candidates are the identifier keys of the value (and of its __index
+ * field at a time, reading raw fields and following __index tables, so completing runs no
+ * Lua code except the __load of a library module loaded on first use (cp.plot, ...: see
+ * lua/coldprep/library.lua), which requires it; the candidates are the identifier keys of the value (and of its __index
  * tables) that start with the prefix — only functions after ':'.  A word without a path
  * completes global names and keywords.  Inside a string readline completes file names.
  * The listing shown on a double Tab gives the field names without the repeated path.
@@ -67,6 +68,22 @@ static int next_index_table(lua_State *L)
     return 1;
 }
 
+/* If the table on top is a module placeholder (a metatable with a __load function), replace
+ * it by the module its __load returns (an error propagates to the protected caller). */
+static void load_placeholder(lua_State *L)
+{
+    if (lua_type(L, -1) != LUA_TTABLE || !lua_getmetatable(L, -1))
+        return;
+    lua_pushliteral(L, "__load");
+    if (lua_rawget(L, -2) != LUA_TFUNCTION) {
+        lua_pop(L, 2);
+        return;
+    }
+    lua_remove(L, -2);
+    lua_call(L, 0, 1);
+    lua_remove(L, -2);
+}
+
 /* Replace the value on top by its field `name` (raw, then through __index tables);
  * returns 0 (popping it) if the field is nil. */
 static int lookup(lua_State *L, const char *name, size_t len)
@@ -76,6 +93,7 @@ static int lookup(lua_State *L, const char *name, size_t len)
             lua_pushlstring(L, name, len);
             if (lua_rawget(L, -2) != LUA_TNIL) {
                 lua_remove(L, -2);
+                load_placeholder(L);
                 return 1;
             }
             lua_pop(L, 1);

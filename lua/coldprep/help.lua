@@ -96,6 +96,10 @@ local function help(x)
   elseif type(x) == "function" then
     out[1] = cp.get_help(x) or "no help text for this function"
   elseif type(x) == "table" then
+    local mt = getmetatable(x)
+    if type(mt) == "table" and type(rawget(mt, "__load")) == "function" then
+      x = mt.__load() -- a module loaded on first use (coldprep.library)
+    end
     local name
     for k, v in pairs(cp) do
       if v == x then name = "cp." .. k end

@@ -1,7 +1,10 @@
 -- coldprep.library: completes the `coldprep` module table that luaopen_coldprep built from
 -- the C bindings, by loading the Lua-side library: units, the species registry, help,
 -- the preparation budget (plan, stages, report) and the studies built on it (sweep,
--- optimize, uncertainty, plot).  Runs once, from luaopen_coldprep.  (Not named init.lua:
+-- optimize, uncertainty, plot).  The studies are loaded on first use, so that a start does
+-- not pay for them: cp.sweep etc. are placeholders whose first indexing (or pairs, or
+-- help, or Tab completion through their __load) requires the module and puts it in their
+-- place.  Runs once, from luaopen_coldprep.  (Not named init.lua:
 -- a stock interpreter's '?/init.lua' search path would find it for require "coldprep" before
 -- the C module, and it requires "coldprep" itself.)
 local cp = require "coldprep"
@@ -10,8 +13,31 @@ cp.units = require "coldprep.units"
 cp.species = require "coldprep.species"
 cp.help = require "coldprep.help"
 
-for _, name in ipairs { "plan", "stages", "report", "sweep", "optimize", "uncertainty", "plot" } do
+for _, name in ipairs { "plan", "stages", "report" } do
   cp[name] = require("coldprep." .. name)
+end
+
+-- A placeholder for the module coldprep.NAME at cp[name], loaded on first use.  A C binding
+-- already there (cp.plot.render) is put back before the module runs, which extends it.
+local function on_first_use(name)
+  local binding = rawget(cp, name)
+  local function load()
+    rawset(cp, name, binding)
+    local m = require("coldprep." .. name)
+    rawset(cp, name, m)
+    return m
+  end
+  return setmetatable({}, {
+    __index = function(_, k) return load()[k] end,
+    __newindex = function(_, k, v) load()[k] = v end,
+    __pairs = function() return next, load(), nil end,
+    __call = function(_, ...) return load()(...) end, -- cp.sweep{...}
+    __load = load,
+  })
+end
+
+for _, name in ipairs { "sweep", "optimize", "uncertainty", "plot" } do
+  cp[name] = on_first_use(name)
 end
 
 return cp

@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
-# Start-up time and resident memory of the coldprep program (issue 2 targets: `coldprep
-# -e ''` under 15 ms, the REPL waiting at its prompt under 10 MB).
+# Start-up time and resident memory of the coldprep program (targets: `coldprep -e ''`
+# under 15 ms and at most 2x the stock interpreter's instructions, the REPL waiting at its
+# prompt under 10 MB).
 #   bench_cli.sh COLDPREP CLI_PTY      (scripts/bench passes build/coldprep and
 #                                       build/tests/cli_pty)
 # Start-up: wall time of 100 runs of `coldprep -e ''`, best of 3 rounds, less nothing
@@ -21,6 +22,16 @@ for round in 1 2 3; do
 done
 printf "start-up of coldprep -e '': %d.%02d ms per run (best of 3 x 100; target < 15 ms)\n" \
   $((best / 100)) $((best % 100))
+
+# Instruction counts (valgrind's callgrind; unaffected by the load of a shared machine):
+# coldprep -e '' against the stock interpreter's lua5.4 -e '' (target: at most 2x).
+if command -v valgrind >/dev/null && command -v lua5.4 >/dev/null; then
+  count() { valgrind --tool=callgrind --callgrind-out-file=/dev/null "$@" 2>&1 |
+    awk '/Collected/ {print $4}'; }
+  ours=$(count "$coldprep" -e '')
+  stock=$(count lua5.4 -e '')
+  awk -v a="$ours" -v b="$stock" 'BEGIN { printf "instructions: coldprep -e \047\047 %.2f M, lua5.4 -e \047\047 %.2f M (%.1fx; target <= 2x)\n", a / 1e6, b / 1e6, a / b }'
+fi
 
 state=$(mktemp -d)
 trap 'rm -rf "$state"' EXIT

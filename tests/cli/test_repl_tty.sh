@@ -21,7 +21,8 @@ pty() {
 
 # TTY-1: Tab completes globals, fields along a path, fields of __index tables, methods
 # of strings, keywords; after a call it offers nothing (two bells); a double Tab lists
-# the fields without the path; inside a string Tab completes file names.
+# the fields without the path; inside a string Tab completes file names; the fields of a
+# module loaded on first use (cp.uncertainty, not loaded before) complete too.
 printf 'print("loaded " .. "ok")\n' >comp_target.lua
 pty TTY-1 <<'EOF'
 expect help() lists the library
@@ -33,6 +34,12 @@ expect fermion
 expect coldprep> 
 send pri\t("hel".."lo")\n
 expect hello
+expect coldprep> 
+send print(rawequal(cp.uncertainty, package.loaded["coldprep.uncertainty"]) and "load".."ed" or "not ".."loaded")\n
+expect not loaded
+expect coldprep> 
+send print(type(cp.uncertainty.rank_corr\t) .. "!")\n
+expect function!
 expect coldprep> 
 send obj = setmetatable({}, {__index = {frobnicate = function() return "fro".."bbed" end}})\n
 send obj.frob\t()\n
