@@ -95,35 +95,62 @@ static cp_status prepare(const char *ctx, double depth_er, int bands, int basis_
     return CP_OK;
 }
 
-/* Energies at nq quasimomenta with a prepared basis size; each solution seeds the next
- * (linear extrapolation in |q| from the two previous points). */
+/* A folded quasimomentum and the caller's index, sorted by the first. */
+typedef struct q_order {
+    double q;
+    size_t i;
+} q_order;
+
+static int compare_q(const void *a, const void *b)
+{
+    const q_order *x = a, *y = b;
+    if (x->q != y->q)
+        return x->q < y->q ? -1 : 1;
+    return (x->i > y->i) - (x->i < y->i); /* ties in the caller's order: deterministic */
+}
+
+/* Energies at nq quasimomenta with a prepared basis size.  The points are solved in the order
+ * of their folded quasimomenta, whatever the caller's order, and each solution seeds the next
+ * (linear extrapolation in |q| from the two previous points): neighbours in that order are
+ * close, so the seeded iteration converges in a few steps.  Results go to the caller's
+ * positions. */
 static cp_status solve(double depth_er, int bands, int size, size_t nq, const double *qs,
                        double *energies, cp_error *err, const char *ctx)
 {
     double *diag = malloc(((size_t)size + 4 * ((size_t)bands + 1)) * sizeof *diag);
-    if (!diag)
+    q_order *order = malloc(nq * sizeof *order);
+    if (!diag || !order) {
+        free(diag);
+        free(order);
         return cp_fail(err, CP_ENOMEM, "%s: out of memory for a %d-state basis", ctx, size);
+    }
+    for (size_t i = 0; i < nq; i++)
+        order[i] = (q_order){cp_lattice_fold_q(qs[i]), i};
+    qsort(order, nq, sizeof *order, compare_q);
     double *work = diag + size;
     cp_tridiag t = {size, diag, -0.25 * depth_er, -0.25 * depth_er};
+    const double *x1 = NULL, *x2 = NULL; /* the two previous solutions */
     double qprev = NAN, qprev2 = NAN;
     cp_status st = CP_OK;
-    for (size_t i = 0; i < nq && st == CP_OK; i++) {
-        double q = cp_lattice_fold_q(qs[i]);
-        double *x = energies + i * (size_t)bands;
-        int guess = i > 0;
+    for (size_t k = 0; k < nq && st == CP_OK; k++) {
+        double q = order[k].q;
+        double *x = energies + order[k].i * (size_t)bands;
+        int guess = k > 0;
         if (guess) {
-            const double *x1 = x - bands;
             double slope = 0.0;
-            if (i > 1 && qprev != qprev2)
+            if (k > 1 && qprev != qprev2)
                 slope = (q - qprev) / (qprev - qprev2);
             for (int n = 0; n < bands; n++)
-                x[n] = x1[n] + (i > 1 ? slope * (x1[n] - x1[n - bands]) : 0.0);
+                x[n] = x1[n] + (k > 1 ? slope * (x1[n] - x2[n]) : 0.0);
         }
         cp_lattice_fill_diagonal(depth_er, q, size, diag);
         st = cp_tridiag_lowest(&t, bands, guess, x, work);
+        x2 = x1;
+        x1 = x;
         qprev2 = qprev;
         qprev = q;
     }
+    free(order);
     free(diag);
     if (st != CP_OK)
         return cp_fail(err, st, "%s: eigenvalue iteration did not converge at depth %.6g E_r",

@@ -77,6 +77,31 @@ static void test_edges_vs_gsl_mathieu(void **state)
     }
 }
 
+/* LAT-1b: the quasimomenta are solved in sorted order internally, the results returned in
+ * the caller's order: 300 quasimomenta in a scrambled order (a fixed permutation, folded and
+ * unfolded values, repeats) give, at each position, the energies of that quasimomentum
+ * solved alone (one point per call, no seeding: a second computation), to 1e-12 E_r (the
+ * eigenvalue iteration stops at 2e-14 (1 + |E|)). */
+static void test_band_order(void **state)
+{
+    (void)state;
+    enum { NQ = 300, NB = 5 };
+    static double q[NQ], e[NQ * NB];
+    for (int i = 0; i < NQ; i++) {
+        int k = (i * 7919) % NQ; /* 7919 is prime to 300: a permutation */
+        q[i] = -3.0 + 6.0 * k / NQ + (i % 50 == 0 ? 0.0 : 1e-3);
+    }
+    q[17] = q[3]; /* a repeat */
+    assert_int_equal(cp_lattice_band_energies(10.0, NB, 0, NQ, q, e, NULL, NULL), CP_OK);
+    for (int i = 0; i < NQ; i++) {
+        double alone[NB];
+        assert_int_equal(cp_lattice_band_energies(10.0, NB, 0, 1, &q[i], alone, NULL, NULL),
+                         CP_OK);
+        for (int n = 0; n < NB; n++)
+            assert_close(e[i * NB + n], alone[n], 1e-12);
+    }
+}
+
 /* LAT-2: the automatic basis is converged: a basis 60 plane waves larger (an independent
  * truncation) changes no energy by more than 1e-10 E_r, at depths over the whole allowed
  * range and at generic quasimomenta, folded or not. */
@@ -685,6 +710,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_edges_vs_gsl_mathieu),
+        cmocka_unit_test(test_band_order),
         cmocka_unit_test(test_basis_converged),
         cmocka_unit_test(test_free_particle_limit),
         cmocka_unit_test(test_harmonic_limit),
