@@ -36,7 +36,15 @@ LUA
   done
 } >"$tmp/source.lua"
 
-runlua() { LUA_CPATH="$luamod/?.so" LUA_PATH="" lua5.4 -e "DEMO = '$top/scripts/demo.lua'" "$@"; }
+# a module built with the sanitizers needs their runtimes loaded first into the stock
+# (uninstrumented) interpreter
+preload=
+if ldd "$luamod/coldprep.so" 2>/dev/null | grep -q libasan; then
+  preload="$(gcc -print-file-name=libasan.so) $(gcc -print-file-name=libubsan.so)"
+  export ASAN_OPTIONS=detect_leaks=0
+fi
+runlua() { LD_PRELOAD=$preload LUA_CPATH="$luamod/?.so" LUA_PATH="" lua5.4 \
+  -e "DEMO = '$top/scripts/demo.lua'" "$@"; }
 (cd "$tmp" && runlua "$tmp/work.lua") >"$tmp/bytecode.out" 2>&1
 rc_b=$?
 (cd "$tmp" && runlua -e "dofile('$tmp/source.lua')" "$tmp/work.lua") >"$tmp/source.out" 2>&1
