@@ -4,6 +4,8 @@
  * optional c6_au, or a molecule name whose first listed resonance is used; a `molecule` is a
  * name or a table from cp.species.molecule (its reduced_mass, else its two atoms' masses).
  * associate is kept lean: with tables for resonance and molecule it does no lookups.
+ * overlap_density and max_efficiency remember their results per Lua state (memo.h): a plan
+ * sweep starts every point from the same mixture, and these two are most of a point's cost.
  */
 #include <lauxlib.h>
 #include <lua.h>
@@ -16,8 +18,23 @@
 #include "coldprep/feshbach.h"
 #include "coldprep/thermo.h"
 #include "help.h"
+#include "memo.h"
 
 int cpl_open_feshbach(lua_State *L);
+
+/* Memo keys: a tag for the function, then every input that determines the result. */
+enum { TAG_OVERLAP = 1, TAG_MAX_EFFICIENCY = 2, CLOUD_KEY = 7 };
+
+static void cloud_key(const cp_feshbach_cloud *c, double *k)
+{
+    k[0] = (double)c->profile;
+    k[1] = c->number;
+    k[2] = c->mass;
+    k[3] = c->omega[0];
+    k[4] = c->omega[1];
+    k[5] = c->omega[2];
+    k[6] = c->scattering_length;
+}
 
 /* Call cp.species.<fn>(value at idx) and leave the result on the stack. */
 static void species_call(lua_State *L, const char *fn, int idx)
@@ -385,11 +402,19 @@ static int l_overlap_density(lua_State *L)
     double temp = cpl_opt_number(L, 1, fname, "temperature", "K", 0.0);
     read_cloud(L, fname, "a", temp, 0, &a);
     read_cloud(L, fname, "b", temp, 0, &b);
-    if (cp_feshbach_overlap_density(&a, &b, temp, &n, &sag, &err))
-        return cpl_raise(L, &err);
+    double key[2 + 2 * CLOUD_KEY] = {TAG_OVERLAP, temp}, res[2];
+    cloud_key(&a, key + 2);
+    cloud_key(&b, key + 2 + CLOUD_KEY);
+    if (!cpl_memo_get(L, key, sizeof key / sizeof key[0], res, 2)) {
+        if (cp_feshbach_overlap_density(&a, &b, temp, &n, &sag, &err))
+            return cpl_raise(L, &err);
+        res[0] = n;
+        res[1] = sag;
+        cpl_memo_put(L, key, sizeof key / sizeof key[0], res, 2);
+    }
     lua_createtable(L, 0, 2);
-    cpl_set_number(L, "density", n);
-    cpl_set_number(L, "sag", sag);
+    cpl_set_number(L, "density", res[0]);
+    cpl_set_number(L, "sag", res[1]);
     return 1;
 }
 
@@ -410,11 +435,35 @@ static int l_max_efficiency(lua_State *L)
     opts.samples = cpl_opt_integer(L, 1, fname, "samples", 20000, 100, 10000000);
     opts.seed = (unsigned long)cpl_opt_integer(L, 1, fname, "seed", 1, 0, 4294967295L);
     opts.include_sag = cpl_opt_boolean(L, 1, fname, "sag", 1);
-    if (cp_feshbach_max_efficiency(&a, &b, temp, &opts, &p, &se, &err))
-        return cpl_raise(L, &err);
+    double key[6 + 2 * CLOUD_KEY] = {TAG_MAX_EFFICIENCY, temp, opts.gamma, (double)opts.samples,
+                                     (double)opts.seed, opts.include_sag},
+           res[2];
+    cloud_key(&a, key + 6);
+    cloud_key(&b, key + 6 + CLOUD_KEY);
+    if (!cpl_memo_get(L, key, sizeof key / sizeof key[0], res, 2)) {
+        if (cp_feshbach_max_efficiency(&a, &b, temp, &opts, &p, &se, &err))
+            return cpl_raise(L, &err);
+        res[0] = p;
+        res[1] = se;
+        cpl_memo_put(L, key, sizeof key / sizeof key[0], res, 2);
+    }
     lua_createtable(L, 0, 2);
-    cpl_set_number(L, "max_efficiency", p);
-    cpl_set_number(L, "std_error", se);
+    cpl_set_number(L, "max_efficiency", res[0]);
+    cpl_set_number(L, "std_error", res[1]);
+    return 1;
+}
+
+static int l_memo(lua_State *L)
+{
+    static const char fname[] = "feshbach.memo";
+    static const char *const known[] = {"enabled", NULL};
+    if (lua_isnoneornil(L, 1))
+        lua_newtable(L);
+    cpl_check_args(L, 1, fname, known);
+    if (cpl_has(L, 1, "enabled"))
+        cpl_memo_enable(L, cpl_opt_boolean(L, 1, fname, "enabled", 1));
+    lua_createtable(L, 0, 1);
+    cpl_set_integer(L, "size", cpl_memo_size(L));
     return 1;
 }
 
@@ -496,6 +545,12 @@ static const cpl_function functions[] = {
      "  cp.feshbach.max_efficiency{temperature = 200e-9,\n"
      "  a = {atom = '87Rb', t_over_tc = 1.2, omega_x = w, omega_y = w, omega_z = w},\n"
      "  b = {atom = '40K', t_over_tf = 0.3, omega_x = w, omega_y = w, omega_z = w}}"},
+    {"memo", l_memo,
+     "feshbach.memo{[enabled = true | false]} -> {size}\n"
+     "overlap_density and max_efficiency remember their results for the inputs already seen\n"
+     "in this session (each sweep worker has its own memo; a result is returned bit for bit\n"
+     "as first computed).  enabled = false turns that off and empties the memo; size is the\n"
+     "number of results kept (at most 256).  Example: cp.feshbach.memo{enabled = false}"},
     {NULL, NULL, NULL}};
 
 int cpl_open_feshbach(lua_State *L)

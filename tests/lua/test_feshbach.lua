@@ -234,4 +234,21 @@ T.raises(function() fb.overlap_density { a = { atom = "87Rb", number = 1e5, omeg
 T.raises(function() fb.ramp_law { resonance = r, molecule = m, density = n, ramp_rates = { 1, 0 } } end,
   { "rates[1]" }, "batch names the bad element (0-based)")
 
+-- FESH-MEMO: a remembered result is the first one, bit for bit; off and on again agree.
+do
+  local w = 2 * math.pi * 100
+  local args = { temperature = 200e-9, samples = 2000,
+    a = { atom = "87Rb", t_over_tc = 1.2, omega_x = w, omega_y = w, omega_z = w },
+    b = { atom = "40K", t_over_tf = 0.3, omega_x = w, omega_y = w, omega_z = w } }
+  fb.memo { enabled = false }
+  local fresh = fb.max_efficiency(args).max_efficiency
+  fb.memo { enabled = true }
+  local first, again = fb.max_efficiency(args).max_efficiency, fb.max_efficiency(args).max_efficiency
+  T.check(fresh == first and first == again and fb.memo().size == 1, "memo returns the same bits")
+  args.seed = 2
+  T.check(fb.max_efficiency(args).max_efficiency ~= first and fb.memo().size == 2,
+    "another seed is another entry")
+  T.raises(function() fb.memo { enable = false } end, { "did you mean 'enabled'" }, "memo typo")
+end
+
 T.done()
