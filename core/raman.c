@@ -190,7 +190,7 @@ static cp_status advance(stepper *s, double *t, double t1, double *y, cp_error *
                            *t, gsl_strerror(st));
     } else if (cp_raman_dp_apply(s->dp, t, t1, y) != 0) {
         return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (step "
-                       "budget exceeded or step size too small)", *t);
+                       "size too small)", *t);
     }
     return CP_OK;
 }
@@ -285,7 +285,7 @@ static cp_status integrate(model *m, const gsl_odeiv2_step_type *type, double to
     double y[DIM] = {1.0};
     m->pulses.reversed = 0;
     if (s.dp)
-        cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab, 0);
+        cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab);
     cp_status st = propagate(&s, &m->pulses, y, trace, err);
     if (st == CP_OK) {
         fill_result(y, res);
@@ -298,7 +298,7 @@ static cp_status integrate(model *m, const gsl_odeiv2_step_type *type, double to
             gsl_odeiv2_driver_reset(s.drv);
             gsl_odeiv2_driver_reset_hstart(s.drv, hstart);
         } else {
-            cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab, 0);
+            cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab);
         }
         st = propagate(&s, &m->pulses, y, NULL, err);
         res->round_trip_efficiency = y[0];

@@ -46,11 +46,10 @@ static const double grow_err = 0.0778;
 static const size_t rec_anchor = 64;
 
 void cp_raman_dp_init(cp_raman_dp *s, const cp_raman_pulses *pl, cp_raman_gen gen,
-                      const void *ctx, double tol, double hstart, double hstab,
-                      size_t max_steps)
+                      const void *ctx, double tol, double hstart, double hstab)
 {
     *s = (cp_raman_dp){.hstab = hstab, .pl = pl, .gen = gen, .ctx = ctx, .tol = tol, .h = hstart,
-                       .hmax = INFINITY, .max_steps = max_steps};
+                       .hmax = INFINITY};
 }
 
 /* Set up the recurrence of one pulse centred at tc for a step from pulse time u of length du
@@ -201,8 +200,6 @@ int cp_raman_dp_apply(cp_raman_dp *s, double *t, double t1, double y[])
         *t = last ? t1 : *t + h;
         s->tdy0 = *t;
         s->steps++;
-        if (s->max_steps && s->steps > s->max_steps)
-            return -1;
         /* a shortened last step keeps the step size asked for before it (it can only grow
          * it), so a sliver of a step before a break point cannot shrink the next ones */
         if (factor >= grow_min)
