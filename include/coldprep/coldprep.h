@@ -8,6 +8,7 @@
 #include "coldprep/status.h"
 #include "coldprep/consts.h"
 #include "coldprep/species.h"
+#include "coldprep/species_sources.h"
 #include "coldprep/lattice.h"
 #include "coldprep/thermo.h"
 #include "coldprep/collisions.h"

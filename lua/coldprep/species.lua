@@ -88,6 +88,56 @@ function M.resonance(name, index)
   return list[index]
 end
 
+-- The built-in polarizability (a.u.) of a named species at a trap wavelength (m); the
+-- error asks for polarizability_au where none is built in.
+function M.polarizability(name, wavelength)
+  check_name("species.polarizability", name)
+  if math.type(wavelength) == nil then
+    error(string.format("species.polarizability: wavelength must be a number (m), got %s",
+      type(wavelength)), 2)
+  end
+  local ok, r = pcall(builtin.builtin_polarizability, name, wavelength)
+  if ok then return r end
+  error(r, 2)
+end
+
+local function citation(ref)
+  if not ref then return "no publication identified" end
+  local ids = {}
+  if ref.doi then ids[#ids + 1] = "doi:" .. ref.doi end
+  if ref.arxiv then ids[#ids + 1] = "arXiv:" .. ref.arxiv end
+  return string.format("%s, %s %s, %s (%d)%s", ref.authors, ref.journal, ref.volume, ref.page,
+    ref.year, #ids > 0 and ", " .. table.concat(ids, ", ") or "")
+end
+
+-- Every built-in value with its publication, status and whether it was checked against
+-- the paper; `name` (optional) keeps one species (its resonances included).  Prints one
+-- block per value unless quiet is true; returns the entries.
+function M.sources(name, quiet)
+  local list = builtin.builtin_sources()
+  if name ~= nil then
+    check_name("species.sources", name)
+    local ok, rec = pcall(builtin.builtin_atom, name)
+    if not ok then ok, rec = pcall(builtin.builtin_molecule, name) end
+    if not ok then error(rec, 2) end
+    local keep = {}
+    for _, d in ipairs(list) do
+      if d.record == rec.name or d.record:match("^(.-)#") == rec.name then keep[#keep + 1] = d end
+    end
+    list = keep
+  end
+  if not quiet then
+    for _, d in ipairs(list) do
+      local unc = d.uncertainty and string.format(" +- %.3g", d.uncertainty) or ""
+      print(string.format("%s %s = %.6g %s%s  [%s, %s]", d.record, d.field, d.value, d.unit,
+        unc, d.status, d.verified and "checked against the paper" or "NOT checked"))
+      print("    " .. citation(d.reference))
+      if d.note then print("    " .. d.note) end
+    end
+  end
+  return list
+end
+
 function M.list()
   local names = builtin.builtin_list()
   for _, n in ipairs(user_names()) do names[#names + 1] = n end
@@ -165,21 +215,36 @@ end
 local H = {
   atom = [[
 species.atom(name) -> {kind, name, symbol, protons, mass_number, mass (kg), mass_u (u),
-  nuclear_spin, statistics = "boson"|"fermion", source}
+  nuclear_spin, statistics = "boson"|"fermion", pol_1064_au, pol_1550_au, source}
+(a polarizability is nil where none is built in)
 Names as "87Rb" or "Rb87" (case-insensitive).  An unknown name is an error listing the
 closest known names.  Example: cp.species.atom("40K").statistics  --> "fermion"]],
   molecule = [[
 species.molecule(name) -> {kind, name, atoms = {a, b}, mass (kg), mass_u,
   reduced_mass (kg, of the two atoms), statistics,
-  dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.), reactive, source}
+  dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.), reactive, pol_1064_au,
+  pol_1064_par_au, pol_1064_perp_au, pol_1550_au (a.u.), loss_rate (m^3/s, no shielding)
+  and loss_temperature (K), source}   (nil where the table has no value)
 Names as "40K87Rb", "K40Rb87" or "KRb".  Example: cp.species.molecule("NaK").dipole_debye]],
   resonance = [[
 species.resonance(molecule [, index = 1]) -> {molecule, states, b0 (T), width (T),
   abg (m), dmu (J/T), c6_au (atom-atom C6, a.u.), verified, source}
 The index-th interspecies Feshbach resonance known for the pair (built-in first, then
-user-added).  Built-in values are from memory (verified = false): check them.
+user-added).  Built-in values are not yet checked against their papers (verified =
+false): see cp.species.sources(molecule) and calibrate them.
 Example: r = cp.species.resonance("KRb"); print(r.b0 / cp.units.G)]],
   list = "species.list() -> names of every known atom and molecule (built-in and user-added).",
+  polarizability = [[
+species.polarizability(name, wavelength (m)) -> ground-state dynamic polarizability, a.u.
+Built in at 1064 nm (and 1550 nm where published) for a named atom or molecule (the
+isotropic part); elsewhere an error asks for polarizability_au.
+Example: cp.species.polarizability("87Rb", 1064 * cp.units.nm)]],
+  sources = [[
+species.sources([name] [, quiet]) -> list of {record, field, value, unit, uncertainty,
+  status = "measured"|"calculated"|"estimated", verified, reference = {key, authors,
+  journal, volume, page, year, doi, arxiv}, note}
+Every built-in number with its publication; prints them unless quiet.  "NOT checked"
+marks values to calibrate.  Example: cp.species.sources("KRb")]],
   add_atom = [[
 species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin, source]}
 Adds an atom to this session.  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,

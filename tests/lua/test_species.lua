@@ -44,3 +44,39 @@ for _, f in ipairs { "atom", "molecule", "resonance", "list", "add_atom", "add_m
 end
 
 T.done()
+
+-- SPECIES-L4: built-in polarizabilities at the trap wavelengths.  87Rb at 1064 nm is the
+-- single-oscillator estimate from the static 47.24e-24 cm^3 of W. F. Holmgren et al., PRA
+-- 81, 053607 (2010), arXiv:1001.3888 (abstract): recomputed here from the vacuum D lines
+-- 794.979 and 780.241 nm [M] weighted 1:2.
+local centroid = 3 / (1 / 794.979 + 2 / 780.241)
+local want = 47.24e-24 / 1.481847e-25 / (1 - (centroid / 1064) ^ 2)
+T.near(cp.species.polarizability("Rb87", 1064 * cp.units.nm), want, 5e-4, "87Rb alpha(1064 nm)")
+T.near(cp.species.atom("87Rb").pol_1064_au, want, 5e-4, "the atom record carries it")
+T.check(cp.species.atom("88Sr").pol_1064_au == nil, "no value: nil in the record")
+T.raises(function() cp.species.polarizability("KRb", 1064 * cp.units.nm) end,
+  { "no published polarizability of 40K87Rb", "1064 nm", "polarizability_au" }, "molecule without data")
+T.raises(function() cp.species.polarizability("87Rb", 532 * cp.units.nm) end,
+  { "87Rb", "532 nm", "polarizability_au" }, "untabulated wavelength")
+T.raises(function() cp.species.polarizability("87Rb", "1064") end, { "wavelength must be a number" }, "wrong type")
+
+-- SPECIES-L5: sources() lists every built-in value with a publication or an [M] mark;
+-- KRb's dipole moment is the verified 0.566(17) D of K.-K. Ni et al., Science 322, 231
+-- (2008), arXiv:0808.2963 (abstract).
+local all = cp.species.sources(nil, true)
+T.check(#all > 100, "over a hundred built-in values are listed")
+for _, d in ipairs(all) do
+  T.check(d.reference ~= nil or (d.note or ""):find("[M]", 1, true) ~= nil,
+    d.record .. "." .. d.field .. " has a source or an [M] mark")
+  T.check(not d.verified or (d.reference and (d.reference.doi or d.reference.arxiv)) ~= nil,
+    d.record .. "." .. d.field .. ": verified values cite a DOI or arXiv id")
+end
+local krb = cp.species.sources("KRb", true)
+local dip
+for _, d in ipairs(krb) do if d.field == "dipole_debye" then dip = d end end
+T.near(dip.value, 0.566, 1e-12, "KRb d value")
+T.check(dip.verified and dip.status == "measured" and dip.reference.arxiv == "0808.2963", "KRb d source")
+local has_resonance = false
+for _, d in ipairs(krb) do if d.record == "40K87Rb#1" then has_resonance = true end end
+T.check(has_resonance, "a molecule's sources include its resonances")
+T.raises(function() cp.species.sources("Xx99") end, { "unknown" }, "unknown species")
