@@ -75,8 +75,9 @@ const size_t cp_molecule_table_size = sizeof cp_molecule_table / sizeof cp_molec
 
 #define GAUSS 1e-4
 
-/* The four resonance parameters of each entry are attributed to one paper; none has been
- * checked against its text yet (verified = 0; details per value in species_provenance.c).
+/* The four resonance parameters of each entry are attributed to one paper (for NaRb the
+ * position to a later one); only the NaRb position has been checked against its paper's
+ * text, so every record has verified = 0 (details per value in species_provenance.c).
  * c6_au is the atom-atom C6 of the entrance pair (Derevianko, Babb, Dalgarno 2001); it
  * sets the mean scattering length abar. */
 const cp_resonance cp_resonance_table[] = {
@@ -88,8 +89,10 @@ const cp_resonance cp_resonance_table[] = {
     {"87Rb133Cs", "87Rb |1,1> + 133Cs |3,3>", 197.1 * GAUSS, 0.6 * GAUSS, 650.0 * CP_A0,
      2.0 * CP_MUB, 5284.0, 0,
      "Takekoshi et al., PRA 85, 032506 (2012); C6: Derevianko et al. 2001"},
-    {"23Na87Rb", "23Na |1,1> + 87Rb |1,1>", 347.6 * GAUSS, 5.0 * GAUSS, 66.0 * CP_A0,
-     2.0 * CP_MUB, 2683.0, 0, "Wang et al., PRA 87, 050702(R) (2013); C6: Derevianko et al. 2001"},
+    {"23Na87Rb", "23Na |1,1> + 87Rb |1,1>", 347.64 * GAUSS, 5.0 * GAUSS, 66.0 * CP_A0,
+     2.0 * CP_MUB, 2683.0, 0,
+     "B0: Guo et al., arXiv:2108.01856 (2021); width, abg: Wang et al., PRA 87, 050702(R) "
+     "(2013); C6: Derevianko et al. 2001"},
     {"23Na133Cs", "23Na |1,1> + 133Cs |3,3>", 864.1 * GAUSS, 1.0 * GAUSS, 30.0 * CP_A0,
      2.0 * CP_MUB, 3227.0, 0,
      "B0 recalled, paper not identified [M]; width, abg and dmu are placeholders; "

@@ -110,6 +110,16 @@ local function citation(ref)
     ref.year, #ids > 0 and ", " .. table.concat(ids, ", ") or "")
 end
 
+-- A value in the unit a lab uses (G, a0, muB, MHz) for printing.
+local function shown(d)
+  if d.field == "reactive" then return d.value ~= 0 and "yes" or "no" end
+  local scale = { T = { cp.units.G, "G" }, m = { cp.units.a0, "a0" }, ["J/T"] = { cp.consts.muB, "muB" },
+    Hz = { cp.units.MHz, "MHz" }, ["1"] = { 1, "" } }
+  local sc = scale[d.unit] or { 1, d.unit }
+  local unc = d.uncertainty and string.format(" +- %.3g", d.uncertainty / sc[1]) or ""
+  return string.format("%.6g%s%s", d.value / sc[1], sc[2] ~= "" and " " .. sc[2] or "", unc)
+end
+
 -- Every built-in value with its publication, status and whether it was checked against
 -- the paper; `name` (optional) keeps one species (its resonances included).  Prints one
 -- block per value unless quiet is true; returns the entries.
@@ -128,9 +138,8 @@ function M.sources(name, quiet)
   end
   if not quiet then
     for _, d in ipairs(list) do
-      local unc = d.uncertainty and string.format(" +- %.3g", d.uncertainty) or ""
-      print(string.format("%s %s = %.6g %s%s  [%s, %s]", d.record, d.field, d.value, d.unit,
-        unc, d.status, d.verified and "checked against the paper" or "NOT checked"))
+      print(string.format("%s %s = %s  [%s, %s]", d.record, d.field, shown(d), d.status,
+        d.verified and "checked against the paper" or "NOT checked"))
       print("    " .. citation(d.reference))
       if d.note then print("    " .. d.note) end
     end

@@ -177,9 +177,15 @@ static void test_spot_checks(void **state)
     const cp_atom *rb;
     assert_int_equal(cp_species_atom("87Rb", &rb, NULL), CP_OK);
     assert_rel(rb->pol_1064_au, 687.0, 0.03);
+    const cp_resonance *r;
+    /* Z. Guo et al., arXiv:2108.01856 (2021), abstract: the 23Na-87Rb resonance "near
+     * 347.64 G" in the absolute ground states */
+    assert_int_equal(cp_species_resonance("NaRb", 0, &r, NULL), CP_OK);
+    assert_rel(r->b0, 347.64e-4, 1e-12);
+    assert_non_null(strstr(r->states, "23Na |1,1>"));
+    assert_non_null(strstr(r->states, "87Rb |1,1>"));
     /* S.-K. Tung et al., PRA 87, 010702(R) (2013), arXiv:1211.2888, abstract: two 6Li-133Cs
      * resonances "as wide as 6 mT (60 G)" */
-    const cp_resonance *r;
     assert_int_equal(cp_species_resonance("LiCs", 0, &r, NULL), CP_OK);
     assert_rel(fabs(r->width), 60e-4, 0.05);
 }
