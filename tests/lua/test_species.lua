@@ -2,14 +2,15 @@
 local T = require "testlib"
 local cp = require "coldprep"
 
--- SPECIES-L1: lookups and name forms; AME2020 mass of 40K (physics.md §2).
+-- SPECIES-L1: lookups and name forms; AME2020 mass of 40K (Wang et al., Chinese Phys. C 45,
+-- 030003 (2021), mass_1.mas20).
 local k = cp.species.atom("40K")
 T.check(k.statistics == "fermion", "40K is a fermion (odd neutron number)")
 T.near(k.mass_u, 39.963998165, 1e-12, "40K mass, AME2020")
 T.check(cp.species.atom("Rb87").name == "87Rb", "Rb87 is accepted for 87Rb")
 T.check(cp.species.molecule("KRb").name == "40K87Rb", "KRb resolves to 40K87Rb")
-T.near(cp.species.molecule("40K87Rb").mass_u, 126.873178694, 1e-10, "KRb mass = sum of atoms (physics.md §2)")
-T.check(cp.species.molecule("RbCs").statistics == "boson", "RbCs is a boson (physics.md §3)")
+T.near(cp.species.molecule("40K87Rb").mass_u, 126.873178694, 1e-10, "KRb mass = sum of the AME2020 atom masses")
+T.check(cp.species.molecule("RbCs").statistics == "boson", "RbCs is a boson (neutrons 50 + 78 = 128, even)")
 T.check(#cp.species.list() >= 22, "list has the 14 atoms and 8 molecules")
 
 -- SPECIES-L2: unknown names suggest known ones, and are catchable.

