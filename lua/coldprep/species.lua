@@ -88,13 +88,24 @@ function M.resonance(name, index)
   return list[index]
 end
 
--- The built-in polarizability (a.u.) of a named species at a trap wavelength (m); the
--- error asks for polarizability_au where none is built in.
+-- The polarizability (a.u.) of a named species at a trap wavelength (m): a user-added
+-- species' own value, else the built-in one; the error asks for polarizability_au where
+-- there is none.
 function M.polarizability(name, wavelength)
   check_name("species.polarizability", name)
   if math.type(wavelength) == nil then
     error(string.format("species.polarizability: wavelength must be a number (m), got %s",
       type(wavelength)), 2)
+  end
+  local user = user_atoms[key(name)] or user_molecules[key(name)]
+  if user then
+    local nm = wavelength / 1e-9
+    local v = math.abs(nm - 1064) <= 1 and user.pol_1064_au or math.abs(nm - 1550) <= 1
+      and user.pol_1550_au or nil
+    if v then return v end
+    error(string.format("species polarizability: no polarizability of %s at %.6g nm was given; "
+      .. "give polarizability_au (a.u.) for this species and wavelength (or pol_1064_au / "
+      .. "pol_1550_au when adding it)", user.name, nm), 2)
   end
   local ok, r = pcall(builtin.builtin_polarizability, name, wavelength)
   if ok then return r end
@@ -154,19 +165,22 @@ function M.list()
 end
 
 -- The add_* functions check their arguments with the shared Lua-side readers.
-local function number(fname, args, k, unit, positive)
-  return A.number(fname, args, k, unit, { positive = positive })
+local function number(fname, args, k, unit, positive, optional)
+  return A.number(fname, args, k, unit, { positive = positive, optional = optional })
 end
 
 function M.add_atom(args)
   local fname = "species.add_atom"
-  A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "source" })
+  A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "pol_1064_au",
+    "pol_1550_au", "source" })
   check_name(fname, args.name)
   local mass_u = number(fname, args, "mass_u", "u", true)
   A.option(fname, args, "statistics", { "boson", "fermion" })
   local a = {
     kind = "atom", name = args.name, mass_u = mass_u, mass = mass_u * cp.consts.amu,
     statistics = args.statistics, nuclear_spin = args.nuclear_spin,
+    pol_1064_au = number(fname, args, "pol_1064_au", "a.u.", true, true),
+    pol_1550_au = number(fname, args, "pol_1550_au", "a.u.", true, true),
     source = args.source or "user-supplied",
   }
   user_atoms[key(args.name)] = a
@@ -178,7 +192,8 @@ end
 function M.add_molecule(args)
   local fname = "species.add_molecule"
   A.table(fname, args, { "name", "atoms", "dipole_debye", "rot_const_hz", "c6_au",
-    "reactive", "source" })
+    "reactive", "pol_1064_au", "pol_1064_par_au", "pol_1064_perp_au", "pol_1550_au",
+    "loss_rate", "loss_temperature", "source" })
   check_name(fname, args.name)
   if type(args.atoms) ~= "table" or #args.atoms ~= 2 then
     error(fname .. ": argument 'atoms' must be a list of two atom names", 2)
@@ -193,8 +208,24 @@ function M.add_molecule(args)
     rot_const_hz = number(fname, args, "rot_const_hz", "Hz", true),
     c6_au = number(fname, args, "c6_au", "a.u.", true),
     reactive = args.reactive and true or false,
+    pol_1064_par_au = number(fname, args, "pol_1064_par_au", "a.u.", true, true),
+    pol_1064_perp_au = number(fname, args, "pol_1064_perp_au", "a.u.", true, true),
+    pol_1550_au = number(fname, args, "pol_1550_au", "a.u.", true, true),
+    loss_rate = number(fname, args, "loss_rate", "m^3/s", true, true),
+    loss_temperature = number(fname, args, "loss_temperature", "K", true, true),
     source = args.source or "user-supplied",
   }
+  -- the isotropic part: given, or (alpha_par + 2 alpha_perp) / 3 from the two components
+  m.pol_1064_au = number(fname, args, "pol_1064_au", "a.u.", true, true)
+  if (m.pol_1064_par_au == nil) ~= (m.pol_1064_perp_au == nil) then
+    error(fname .. ": give both 'pol_1064_par_au' and 'pol_1064_perp_au', or neither", 2)
+  end
+  if m.pol_1064_par_au and not m.pol_1064_au then
+    m.pol_1064_au = (m.pol_1064_par_au + 2 * m.pol_1064_perp_au) / 3
+  end
+  if (m.loss_rate == nil) ~= (m.loss_temperature == nil) then
+    error(fname .. ": give 'loss_rate' with the 'loss_temperature' it was measured at", 2)
+  end
   user_molecules[key(args.name)] = m
   return copy(m)
 end
@@ -255,13 +286,16 @@ species.sources([name] [, quiet]) -> list of {record, field, value, unit, uncert
 Every built-in number with its publication; prints them unless quiet.  "NOT checked"
 marks values to calibrate.  Example: cp.species.sources("KRb")]],
   add_atom = [[
-species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin, source]}
+species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin,
+  pol_1064_au, pol_1550_au (a.u.), source]}
 Adds an atom to this session.  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
 statistics = "boson"}]],
   add_molecule = [[
 species.add_molecule{name, atoms = {a, b}, dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.)
-  [, reactive = false, source]}
-Adds a molecule; its mass and statistics follow from its atoms.]],
+  [, reactive = false, pol_1064_au | pol_1064_par_au + pol_1064_perp_au, pol_1550_au (a.u.),
+  loss_rate (m^3/s) + loss_temperature (K), source]}
+Adds a molecule; its mass and statistics follow from its atoms; a lattice for it given as
+power and waist then uses its polarizability (cp.species.polarizability).]],
   add_resonance = [[
 species.add_resonance{molecule, b0 (T), width (T), abg (m), dmu (J/T)
   [, c6_au (atom-atom C6, a.u.), states, source]}

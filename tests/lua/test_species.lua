@@ -44,7 +44,6 @@ for _, f in ipairs { "atom", "molecule", "resonance", "list", "add_atom", "add_m
   T.check(type(cp.get_help(cp.species[f])) == "string", "help text for species." .. f)
 end
 
-T.done()
 
 -- SPECIES-L4: built-in polarizabilities at the trap wavelengths.  87Rb at 1064 nm is the
 -- single-oscillator estimate from the static 47.24e-24 cm^3 of W. F. Holmgren et al., PRA
@@ -81,3 +80,22 @@ local has_resonance = false
 for _, d in ipairs(krb) do if d.record == "40K87Rb#1" then has_resonance = true end end
 T.check(has_resonance, "a molecule's sources include its resonances")
 T.raises(function() cp.species.sources("Xx99") end, { "unknown" }, "unknown species")
+
+-- SPECIES-L6: a user-added species carries its own polarizabilities; the isotropic part of
+-- a molecule given by components is (alpha_par + 2 alpha_perp) / 3 (definition).
+cp.species.add_molecule { name = "40K162Dy", atoms = { "40K", "162Dy" }, dipole_debye = 0.1,
+  rot_const_hz = 1e9, c6_au = 5000, pol_1064_par_au = 900, pol_1064_perp_au = 300 }
+T.near(cp.species.polarizability("40K162Dy", 1064 * cp.units.nm), 500, 1e-15, "user molecule alpha(1064)")
+T.raises(function() cp.species.polarizability("40K162Dy", 1550 * cp.units.nm) end,
+  { "no polarizability of 40K162Dy at 1550 nm", "polarizability_au" }, "user molecule without a 1550 nm value")
+T.raises(function() cp.species.add_molecule { name = "X2", atoms = { "40K", "162Dy" }, dipole_debye = 0.1,
+  rot_const_hz = 1e9, c6_au = 5000, pol_1064_par_au = 900 } end, { "pol_1064_perp_au" }, "one component only")
+T.raises(function() cp.species.add_molecule { name = "X2", atoms = { "40K", "162Dy" }, dipole_debye = 0.1,
+  rot_const_hz = 1e9, c6_au = 5000, loss_rate = 1e-17 } end, { "loss_temperature" }, "loss rate without its temperature")
+T.raises(function() cp.species.add_atom { name = "X3", mass_u = 3, statistics = "boson", pol_1064_au = -1 } end,
+  { "pol_1064_au" }, "negative polarizability rejected")
+for _, f in ipairs { "polarizability", "sources" } do
+  T.check(type(cp.get_help(cp.species[f])) == "string", "help text for species." .. f)
+end
+
+T.done()
