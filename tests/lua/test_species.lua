@@ -32,7 +32,8 @@ T.raises(function() cp.species.add_atom { name = "X", mass_u = 1, statistics = "
 cp.species.add_resonance { molecule = "KRb", b0 = 0.05, width = -3e-4, abg = -1e-8, dmu = 2e-23 }
 T.check(cp.species.resonance("KRb", 2).b0 == 0.05, "user resonance appended after the built-in one")
 
--- UNITS-L1: scale factors (SI) and constants (CODATA 2018, physics.md §1).
+-- UNITS-L1: scale factors (SI) and constants (CODATA 2018: E. Tiesinga et al., Rev. Mod. Phys.
+-- 93, 025010 (2021)).
 T.check(cp.units.G == 1e-4 and cp.units.uK == 1e-6 and cp.units.MHz == 1e6, "unit scale factors")
 T.near(cp.units.a0, 5.29177210903e-11, 1e-12, "a0 in m")
 T.near(cp.consts.kB, 1.380649e-23, 0, "kB exact")
