@@ -3,8 +3,9 @@
  * dipole moment: the Gribakin-Flambaum mean scattering length, the centrifugal barrier,
  * the universal loss rate coefficients and the threshold dipolar elastic cross section;
  * also the argument checks shared with collisions_hold.c and collisions_evap.c.  Formulas
- * and sources: ../shared/reference/physics.md §4.1 and §8, docs/models/
- * collisions.md.
+ * and sources: docs/models/collisions.md; the dipolar cross-section factors are the Born
+ * threshold values (Bohn, Cavagnero & Ticknor, NJP 11, 055039 (2009), arXiv:0901.1281;
+ * the factors themselves not read there, docs/data.md "Model constants").
  */
 #include "coldprep/collisions.h"
 

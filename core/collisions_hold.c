@@ -4,8 +4,9 @@
  * <n> = (1/N) int n^2 d^3r = N (m omega_bar^2 / (4 pi k_B T))^{3/2}; the loss removes
  * particles where the density is highest, i.e. with less than the mean energy, and so
  * heats the remainder (anti-evaporation): dT/dt = h beta <n> T with h = 1/4 for a
- * T-independent beta (../shared/reference/physics.md §8) and h = 1/12 for the p-wave
- * beta proportional to the pair's relative energy (docs/models/collisions.md).  The two
+ * T-independent beta and h = 1/12 for the p-wave beta proportional to the pair's relative
+ * energy; both are the project's own derivation (docs/models/collisions.md: the energy a
+ * particle lost at a rate proportional to n^2 carries out of a thermal harmonic cloud).  The two
  * coupled equations are integrated with GSL's Runge-Kutta-Prince-Dormand (8,9) stepper.
  */
 #include "coldprep/collisions.h"

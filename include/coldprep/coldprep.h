@@ -10,6 +10,7 @@
 #include "coldprep/limits.h"
 #include "coldprep/names.h"
 #include "coldprep/species.h"
+#include "coldprep/species_sources.h"
 #include "coldprep/lattice.h"
 #include "coldprep/thermo.h"
 #include "coldprep/collisions.h"

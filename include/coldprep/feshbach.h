@@ -143,7 +143,9 @@ cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshb
  * (0, 100]; samples in [100, 1e7]; seed any value.  Deterministic for a given seed.
  * *std_error is the Monte Carlo standard error of *p_max. */
 typedef struct cp_feshbach_spss {
-    double gamma;            /* cell volume / h^3 in relative phase space; 0.38 [M] default */
+    double gamma;            /* cell volume / h^3 in relative phase space; default 0.38, the
+                                value fitted by Hodby et al. (recalled [M]), a fit
+                                parameter of this cell (docs/data.md) */
     unsigned long seed;
     long samples;
     int include_sag;         /* 1: displace the clouds by their gravitational sag */

@@ -13,6 +13,7 @@
 #include "args.h"
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
+#include "coldprep/species.h"
 #include "help.h"
 
 int cpl_open_lattice(lua_State *L);
@@ -56,7 +57,30 @@ static double read_polarizability(lua_State *L, int arg, const char *fname, cons
 
 static const char *const BEAM_KEYS[] = {"power",          "waist",        "wavelength",
                                         "polarizability_au", "polarizability", "polarizability_hz",
-                                        "reflectivity",   "angle",        NULL};
+                                        "species",        "reflectivity", "angle",
+                                        NULL};
+
+/* The polarizability of a beam: given under one of the polarizability keys, or else the
+ * built-in value of 'species' at the beam's wavelength (cp_species_polarizability, whose
+ * error asks for polarizability_au where there is none). */
+static double beam_polarizability(lua_State *L, int arg, const char *fname, double wavelength,
+                                  cp_polarizability_unit *unit)
+{
+    int given = cpl_has(L, arg, "polarizability_au") || cpl_has(L, arg, "polarizability") ||
+                cpl_has(L, arg, "polarizability_hz");
+    if (!cpl_has(L, arg, "species") || given) {
+        if (given && cpl_has(L, arg, "species"))
+            cpl_error(L, fname, "give either 'species' or a polarizability, not both");
+        return read_polarizability(L, arg, fname, "polarizability", unit);
+    }
+    const char *name = cpl_opt_string(L, arg, fname, "species", NULL);
+    double alpha;
+    cp_error err;
+    if (cp_species_polarizability(name, wavelength, &alpha, &err) != CP_OK)
+        cpl_error(L, fname, "%s", err.message);
+    *unit = CP_POLARIZABILITY_AU;
+    return alpha;
+}
 
 /* Read the beam fields from the table at arg (keys checked by the caller). */
 static cp_lattice_beam read_beam(lua_State *L, int arg, const char *fname)
@@ -65,7 +89,7 @@ static cp_lattice_beam read_beam(lua_State *L, int arg, const char *fname)
     b.power = cpl_number(L, arg, fname, "power", "W");
     b.waist = cpl_number(L, arg, fname, "waist", "m");
     b.wavelength = cpl_number(L, arg, fname, "wavelength", "m");
-    b.polarizability = read_polarizability(L, arg, fname, "polarizability", &b.unit);
+    b.polarizability = beam_polarizability(L, arg, fname, b.wavelength, &b.unit);
     b.reflectivity = cpl_opt_number(L, arg, fname, "reflectivity", "", 1.0);
     b.angle = cpl_opt_number(L, arg, fname, "angle", "rad", CP_PI);
     return b;
@@ -114,8 +138,8 @@ static int l_depth(lua_State *L)
 {
     static const char *const keys[] = {"power",          "waist",          "wavelength",
                                        "polarizability_au", "polarizability", "polarizability_hz",
-                                       "reflectivity",   "angle",          "mass",
-                                       NULL};
+                                       "species",        "reflectivity",   "angle",
+                                       "mass",           NULL};
     const char *fname = "lattice.depth";
     cpl_check_args(L, 1, fname, keys);
     cp_lattice_beam b = read_beam(L, 1, fname);
@@ -495,11 +519,13 @@ static const cpl_function functions[] = {
      "         wavelength = 1064*cp.units.nm}"},
     {"depth", l_depth,
      "lattice.depth{power, waist, wavelength, polarizability_au | polarizability |\n"
-     "              polarizability_hz [, reflectivity = 1] [, angle = pi] [, mass]}\n"
+     "              polarizability_hz | species [, reflectivity = 1] [, angle = pi] [, mass]}\n"
      "Depth of the 1D lattice of a Gaussian beam (power W, waist m = 1/e^2 intensity radius,\n"
      "wavelength m) and its retro-reflection (reflectivity = return/incoming power) or a second\n"
      "beam crossing at full angle `angle` (rad; spacing lambda/(2 sin(angle/2))).  The real\n"
-     "polarizability in atomic units, in C m^2/V, or in Hz/(W/cm^2); > 0 (red-detuned).\n"
+     "polarizability in atomic units, in C m^2/V, or in Hz/(W/cm^2); > 0 (red-detuned); or\n"
+     "species = a name whose polarizability is built in at this wavelength\n"
+     "(cp.species.polarizability: 1064 nm for Na, K, Rb, Cs; else an error asks for it).\n"
      "V0 = 4 sqrt(reflectivity) Re(alpha) I0/(2 eps0 c), I0 = 2 P/(pi w^2).\n"
      "Returns {depth (J), depth_hz (V0/h), well_bottom (J), offset (J, barrier tops),\n"
      "spacing (m), peak_intensity (I0, W/m^2), polarizability (C m^2/V), rayleigh_range (m)};\n"

@@ -1,14 +1,18 @@
 /*
- * Lua binding: coldprep.species over the built-in tables (core/species.c).  The
- * user-added species live in the Lua-side library (lua/coldprep/species.lua), which wraps
- * these functions; the raw C lookups are published as species.builtin_*.
+ * Lua binding: coldprep.species over the built-in tables (core/species.c) and their
+ * provenance (core/species_sources.c).  The user-added species live in the Lua-side
+ * library (lua/coldprep/species.lua), which wraps these functions; the raw C lookups are
+ * published as species.builtin_*.  A value with no data is left out of the record (nil).
  */
+#include <math.h>
+
 #include <lauxlib.h>
 #include <lua.h>
 
 #include "args.h"
 #include "coldprep/consts.h"
 #include "coldprep/species.h"
+#include "coldprep/species_sources.h"
 #include "help.h"
 
 int cpl_open_species(lua_State *L);
@@ -18,9 +22,16 @@ static const char *statistics_name(cp_statistics s)
     return s == CP_FERMION ? "fermion" : "boson";
 }
 
+/* Set t[key] = v when v is a number, leave it nil when the table has no data (NaN). */
+static void set_known(lua_State *L, const char *key, double v)
+{
+    if (isfinite(v))
+        cpl_set_number(L, key, v);
+}
+
 static void push_atom(lua_State *L, const cp_atom *a)
 {
-    lua_createtable(L, 0, 9);
+    lua_createtable(L, 0, 12);
     cpl_set_string(L, "kind", "atom");
     cpl_set_string(L, "name", a->name);
     cpl_set_string(L, "symbol", a->symbol);
@@ -30,12 +41,14 @@ static void push_atom(lua_State *L, const cp_atom *a)
     cpl_set_number(L, "mass_u", a->mass_u);
     cpl_set_number(L, "nuclear_spin", a->nuclear_spin);
     cpl_set_string(L, "statistics", statistics_name(cp_atom_statistics(a)));
+    set_known(L, "pol_1064_au", a->pol_1064_au);
+    set_known(L, "pol_1550_au", a->pol_1550_au);
     cpl_set_string(L, "source", a->source);
 }
 
 static void push_molecule(lua_State *L, const cp_molecule *m)
 {
-    lua_createtable(L, 0, 13);
+    lua_createtable(L, 0, 19);
     cpl_set_string(L, "kind", "molecule");
     cpl_set_string(L, "name", m->name);
     lua_createtable(L, 2, 0);
@@ -55,6 +68,13 @@ static void push_molecule(lua_State *L, const cp_molecule *m)
     cpl_set_number(L, "rot_const_hz", m->rot_const_hz);
     cpl_set_number(L, "c6_au", m->c6_au);
     cpl_set_boolean(L, "reactive", m->reactive);
+    set_known(L, "pol_1064_au", m->pol_1064_au);
+    set_known(L, "pol_1064_par_au", m->pol_1064_par_au);
+    set_known(L, "pol_1064_perp_au", m->pol_1064_perp_au);
+    set_known(L, "pol_1550_au", m->pol_1550_au);
+    set_known(L, "loss_rate", m->loss_rate);
+    if (isfinite(m->loss_rate))
+        set_known(L, "loss_temperature", m->loss_temperature);
     cpl_set_string(L, "source", m->source);
 }
 
@@ -131,6 +151,72 @@ static int l_suggest(lua_State *L)
     return 1;
 }
 
+static const char *status_name(cp_data_status s)
+{
+    return s == CP_DATA_MEASURED ? "measured" : s == CP_DATA_CALCULATED ? "calculated" : "estimated";
+}
+
+static void set_optional_string(lua_State *L, const char *key, const char *v)
+{
+    if (v)
+        cpl_set_string(L, key, v);
+}
+
+/* One provenance entry with its value and publication, as a table. */
+static void push_datum(lua_State *L, const cp_datum *d)
+{
+    double value;
+    const char *unit;
+    lua_createtable(L, 0, 10);
+    cpl_set_string(L, "record", d->record);
+    cpl_set_string(L, "field", d->field);
+    if (cp_species_value(d->record, d->field, &value, &unit, NULL) == CP_OK) {
+        set_known(L, "value", value);
+        cpl_set_string(L, "unit", unit);
+    }
+    if (d->uncertainty > 0)
+        cpl_set_number(L, "uncertainty", d->uncertainty);
+    cpl_set_string(L, "status", status_name(d->status));
+    cpl_set_boolean(L, "verified", d->verified);
+    set_optional_string(L, "note", d->note);
+    const cp_reference *r = cp_species_reference(d->reference);
+    if (r) {
+        lua_createtable(L, 0, 8);
+        cpl_set_string(L, "key", r->key);
+        cpl_set_string(L, "authors", r->authors);
+        cpl_set_string(L, "journal", r->journal);
+        cpl_set_string(L, "volume", r->volume);
+        cpl_set_string(L, "page", r->page);
+        cpl_set_integer(L, "year", r->year);
+        set_optional_string(L, "doi", r->doi);
+        set_optional_string(L, "arxiv", r->arxiv);
+        lua_setfield(L, -2, "reference");
+    }
+}
+
+static int l_sources(lua_State *L)
+{
+    size_t n = cp_species_datum_count();
+    lua_createtable(L, (int)n, 0);
+    for (size_t i = 0; i < n; i++) {
+        push_datum(L, cp_species_datum_at(i));
+        lua_rawseti(L, -2, (lua_Integer)i + 1);
+    }
+    return 1;
+}
+
+static int l_polarizability(lua_State *L)
+{
+    const char *name = luaL_checkstring(L, 1);
+    double wavelength = luaL_checknumber(L, 2);
+    double alpha;
+    cp_error err;
+    if (cp_species_polarizability(name, wavelength, &alpha, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_pushnumber(L, alpha);
+    return 1;
+}
+
 static const cpl_function functions[] = {
     {"builtin_atom", l_atom, "species.builtin_atom(name): an atom from the built-in table only."},
     {"builtin_molecule", l_molecule,
@@ -138,6 +224,11 @@ static const cpl_function functions[] = {
     {"builtin_resonance", l_resonance,
      "species.builtin_resonance(molecule [, index]): a built-in Feshbach resonance."},
     {"builtin_list", l_list, "species.builtin_list(): names of the built-in atoms and molecules."},
+    {"builtin_sources", l_sources,
+     "species.builtin_sources(): every built-in value with its publication, status and check."},
+    {"builtin_polarizability", l_polarizability,
+     "species.builtin_polarizability(name, wavelength): built-in polarizability (a.u.) at 1064 "
+     "or 1550 nm."},
     {"builtin_suggest", l_suggest,
      "species.builtin_suggest(name): the built-in names closest to `name`, comma-separated."},
     {NULL, NULL, NULL}};

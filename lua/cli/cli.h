@@ -49,4 +49,7 @@ typedef struct cpl_command {
 /* `coldprep help [NAME]` (cli_help.c). */
 int cpl_cmd_help(int argc, char **argv);
 
+/* `coldprep data [NAME]` (cli_data.c). */
+int cpl_cmd_data(int argc, char **argv);
+
 #endif

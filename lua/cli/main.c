@@ -16,6 +16,8 @@
  * and merge, cli_sweep.h). */
 static const cpl_command COMMANDS[] = {
     {"help", cpl_cmd_help, "help [NAME]", "print the help of NAME (e.g. cp.species.atom)"},
+    {"data", cpl_cmd_data, "data [SPECIES]",
+     "list the built-in species values with their publications and checks"},
     {"sweep", cpl_sweep_main, "sweep FILE.lua",
      "run the sweep FILE.lua returns [--jobs N] [--out PATH] [--resume] [--shard K/N]"},
     {"merge", cpl_merge_main, "merge OUT SLICE...", "join the slices of a sharded sweep"},

@@ -146,6 +146,25 @@ T.raises(function() cp.lattice.depth3d { beams = { beam, beam }, mass = krb } en
   { "3 beam tables" }, "3D needs three beams")
 
 -- HELP-L2: every lattice function has a help text.
+-- LAT-L-SPECIES: a beam given with a species takes its built-in polarizability at the beam's
+-- wavelength.  The depth is linear in alpha, so 87Rb (699.8 a.u. at 1064 nm, the estimate in
+-- docs/data.md from Holmgren et al., PRA 81, 053607 (2010)) gives 0.6998 of LAT-L2's
+-- 1.19356658 MHz for 1000 a.u. (by hand).
+local d_rb = cp.lattice.depth(with(base, { species = "87Rb" }))
+T.near(d_rb.depth_hz, 1.19356658e6 * cp.species.polarizability("87Rb", 1064 * u.nm) / 1000, 1e-8,
+  "depth from the species' built-in polarizability")
+T.near(cp.species.polarizability("87Rb", 1064 * u.nm), 699.8, 1e-12, "87Rb alpha(1064) as tabulated")
+T.raises(function() cp.lattice.depth(with(base, { species = "KRb" })) end,
+  { "lattice.depth", "no published polarizability of 40K87Rb", "polarizability_au" },
+  "no built-in molecular polarizability: asks for it")
+T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", wavelength = 780.5 * u.nm })) end,
+  { "87Rb", "780.5 nm", "polarizability_au" }, "an untabulated wavelength asks for the value")
+T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", polarizability_au = 700 })) end,
+  { "either 'species' or a polarizability" }, "both given")
+local d3 = cp.lattice.depth3d { beams = { with(base, { species = "Rb87" }), with(base, { species = "Rb87" }),
+  with(base, { species = "Rb87" }) }, mass = cp.species.atom("87Rb").mass }
+T.near(d3.axes[1].depth / cp.consts.h, d_rb.depth_hz, 1e-12, "depth3d beams take a species too")
+
 for name, f in pairs(cp.lattice) do
   T.check(type(cp.get_help(f)) == "string", "help text for lattice." .. name)
 end

@@ -154,6 +154,13 @@ local shallow = plan { cp.stages.load_lattice { wavelength = 1064 * u.nm, power 
 T.check(notes(shallow.stages[4]):find("molecules are not held", 1, true) ~= nil, "too shallow a lattice is flagged")
 T.check(notes(cold.stages[1]):find("40K is degenerate", 1, true) ~= nil, "degenerate fermionic partner noted")
 
+-- EDGE-6c without polarizability_au the lattice takes the molecules' built-in value at its
+-- wavelength; NaK has none built in, so the stage asks for it plainly.
+T.raises(function() plan { cp.stages.load_lattice { wavelength = 1064 * u.nm, power = 0.6,
+  waist = 180 * u.um, ramp_time = 0.05 } }:run { limiting = false } end,
+  { "stages.load_lattice", "no published polarizability of 23Na40K", "polarizability_au" },
+  "no built-in molecular polarizability: the stage asks for it")
+
 -- EDGE-7 a trap change after lattice loading leaves the lattice: the next hold has no
 -- photon-scattering heating (it kept heating at the lattice's rate).
 local lat = { wavelength = 1064 * u.nm, power = 0.6, waist = 180 * u.um, polarizability_au = 700,

@@ -14,8 +14,24 @@ local EXCITED_WARNING = 0.01
 -- no source: optical traps are made ~10 kB T deep and deeper).
 local SHALLOW_LATTICE = 10
 
--- cp.stages.load_lattice{wavelength (m), power (W per beam), waist (m), polarizability_au,
---   ramp_time (s) [, ramp_shape = "s-shaped", imag_polarizability_au, reflectivity = 1,
+-- The molecules' polarizability at the lattice wavelength: the one given, else for
+-- ground-state molecules the built-in value (cp.species.polarizability); the error asks
+-- for polarizability_au where there is none.
+local function polarizability(fname, p, s)
+  if p.polarizability_au then return p.polarizability_au, nil end
+  if s.kind ~= "ground-state-molecules" then
+    A.fail(fname, "%s", string.format("argument 'polarizability_au' is needed for %s (%s): built-in "
+      .. "polarizabilities are those of ground-state molecules", s.species, s.kind))
+  end
+  local ok, r = pcall(cp.species.polarizability, s.species, p.wavelength)
+  if not ok then A.fail(fname, "%s", (tostring(r):gsub("^species polarizability: ", ""))) end
+  return r, string.format("polarizability %.4g a.u. of %s at %.6g nm from the built-in data "
+    .. "(cp.species.sources(%q) gives its source and status)", r, s.species,
+    p.wavelength / cp.units.nm, s.species)
+end
+
+-- cp.stages.load_lattice{wavelength (m), power (W per beam), waist (m), ramp_time (s)
+--   [, polarizability_au, ramp_shape = "s-shaped", imag_polarizability_au, reflectivity = 1,
 --   label]}: a cubic lattice of three retro-reflected beams, the molecules' new trap.
 local function load_lattice(args)
   local fname = "stages.load_lattice"
@@ -25,7 +41,8 @@ local function load_lattice(args)
     wavelength = A.number(fname, args, "wavelength", "m", { positive = true }),
     power = A.number(fname, args, "power", "W", { positive = true }),
     waist = A.number(fname, args, "waist", "m", { positive = true }),
-    polarizability_au = A.number(fname, args, "polarizability_au", "a.u.", { positive = true }),
+    polarizability_au = A.number(fname, args, "polarizability_au", "a.u.",
+      { optional = true, positive = true }),
     ramp_time = A.number(fname, args, "ramp_time", "s", { positive = true, max = 1e4 }),
     ramp_shape = A.option(fname, args, "ramp_shape", { "linear", "s-shaped" }, "s-shaped"),
     imag_polarizability_au = A.number(fname, args, "imag_polarizability_au", "a.u.",
@@ -39,7 +56,9 @@ local function load_lattice(args)
     hint = "the lattice holds molecules; associate first",
     run = function(_, s)
       local notes = {}
-      local lat = MODEL.lattice(s, p)
+      local alpha, alpha_note = polarizability(fname, p, s)
+      notes[#notes + 1] = alpha_note
+      local lat = MODEL.lattice(s, setmetatable({ polarizability_au = alpha }, { __index = p }))
       notes[#notes + 1] = string.format("depth %.3g E_r (%.3g uK) per axis; envelope %.3g x %.3g x "
         .. "%.3g Hz", lat.depth_er, lat.depth / cp.consts.kB / cp.units.uK, lat.omega[1] / (2 * math.pi),
         lat.omega[2] / (2 * math.pi), lat.omega[3] / (2 * math.pi))
@@ -79,9 +98,12 @@ local function load_lattice(args)
 end
 
 return { constructor = load_lattice, help = [[
-stages.load_lattice{wavelength (m), power (W per beam), waist (m), polarizability_au,
-  ramp_time (s) [, ramp_shape = "s-shaped" | "linear", imag_polarizability_au,
+stages.load_lattice{wavelength (m), power (W per beam), waist (m), ramp_time (s)
+  [, polarizability_au, ramp_shape = "s-shaped" | "linear", imag_polarizability_au,
   reflectivity = 1, label]} -> stage
+polarizability_au defaults, for ground-state molecules, to the built-in value at the
+lattice wavelength (cp.species.polarizability); where none is built in the stage asks
+for it.
 Loading into a cubic lattice of three retro-reflected beams: depth and envelope from
 cp.lattice.depth3d, adiabatic loading by entropy matching (cp.thermo.match_lattice), the
 fraction left in excited bands by a finite ramp (cp.lattice.loading; it adds its interband
