@@ -16,22 +16,9 @@
 #include "coldprep/feshbach.h"
 #include "coldprep/thermo.h"
 #include "help.h"
+#include "species_lookup.h"
 
 int cpl_open_feshbach(lua_State *L);
-
-/* Call cp.species.<fn>(value at idx) and leave the result on the stack. */
-static void species_call(lua_State *L, const char *fn, int idx)
-{
-    idx = lua_absindex(L, idx);
-    luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_LOADED_TABLE);
-    lua_getfield(L, -1, "coldprep");
-    lua_getfield(L, -1, "species");
-    lua_getfield(L, -1, fn);
-    lua_pushvalue(L, idx);
-    lua_call(L, 1, 1);
-    lua_replace(L, -4);
-    lua_pop(L, 2);
-}
 
 /* A number field of the table at idx: required (no default) or optional (dflt). */
 static double field_number(lua_State *L, int idx, const char *fname, const char *tname,
@@ -68,7 +55,7 @@ static void read_resonance(lua_State *L, const char *fname, int need_c6,
     double v[5];
     int t = lua_getfield(L, 1, "resonance");
     if (t == LUA_TSTRING) {
-        species_call(L, "resonance", -1);
+        cpl_push_first_resonance(L, -1);
         lua_remove(L, -2);
     } else if (t != LUA_TTABLE) {
         cpl_error(L, fname, "argument 'resonance' must be a table {b0, width, abg, dmu "
@@ -101,7 +88,7 @@ static void read_resonance(lua_State *L, const char *fname, int need_c6,
 static double atom_mass(lua_State *L, int idx, const char *fname)
 {
     if (lua_type(L, idx) == LUA_TSTRING) {
-        species_call(L, "atom", idx);
+        cpl_push_atom(L, idx);
         lua_replace(L, idx);
     }
     if (lua_type(L, idx) != LUA_TTABLE)
@@ -114,7 +101,7 @@ static double read_reduced_mass(lua_State *L, const char *fname)
 {
     int t = lua_getfield(L, 1, "molecule");
     if (t == LUA_TSTRING) {
-        species_call(L, "molecule", -1);
+        cpl_push_molecule(L, -1);
         lua_remove(L, -2);
     } else if (t != LUA_TTABLE) {
         cpl_error(L, fname, "argument 'molecule' must be a name or a table from "
@@ -323,7 +310,7 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
     if (cpl_has(L, t, "atom")) {
         lua_getfield(L, t, "atom");
         if (lua_type(L, -1) == LUA_TSTRING) {
-            species_call(L, "atom", -1);
+            cpl_push_atom(L, -1);
             lua_remove(L, -2);
         }
         if (!lua_istable(L, -1))

@@ -1,10 +1,14 @@
 /*
  * Lua binding: coldprep.species over the built-in tables (core/species.c) and their
- * provenance (core/species_sources.c).  The user-added species live in the Lua-side
- * library (lua/coldprep/species.lua), which wraps these functions; the raw C lookups are
- * published as species.builtin_*.  A value with no data is left out of the record (nil).
+ * provenance (core/species_sources.c), and the lookup other bindings use
+ * (species_lookup.h).  The user-added species are kept in registry tables this file
+ * creates (species.builtin_user_tables) and the Lua-side library (lua/coldprep/species.lua)
+ * fills; the raw C lookups are published as species.builtin_*.  A value with no data is
+ * left out of the record (nil).
  */
+#include <ctype.h>
 #include <math.h>
+#include <string.h>
 
 #include <lauxlib.h>
 #include <lua.h>
@@ -14,6 +18,7 @@
 #include "coldprep/species.h"
 #include "coldprep/species_sources.h"
 #include "help.h"
+#include "species_lookup.h"
 
 int cpl_open_species(lua_State *L);
 
@@ -127,6 +132,126 @@ static int l_resonance(lua_State *L)
     return 1;
 }
 
+/* ---- the user-added species of this Lua state ------------------------------------------ */
+
+static const char USER_KEY[] = "coldprep.species.user";
+
+/* Push the registry table of user-added "atoms", "molecules" or "resonances" (created on
+ * first use): atoms and molecules keyed by the normalised name, resonances by the
+ * molecule's name, each a list. */
+static void push_user_table(lua_State *L, const char *which)
+{
+    luaL_getsubtable(L, LUA_REGISTRYINDEX, USER_KEY);
+    luaL_getsubtable(L, -1, which);
+    lua_remove(L, -2);
+}
+
+/* species.builtin_user_tables() -> atoms, molecules, resonances: the tables the Lua
+ * library fills with cp.species.add_*. */
+static int l_user_tables(lua_State *L)
+{
+    push_user_table(L, "atoms");
+    push_user_table(L, "molecules");
+    push_user_table(L, "resonances");
+    return 3;
+}
+
+/* The key user entries are filed under: lower case without '-', '_' or spaces (as the
+ * Lua library files them). */
+static void normalised(const char *name, char *out, size_t size)
+{
+    size_t n = 0;
+    for (; *name && n + 1 < size; name++)
+        if (*name != '-' && *name != '_' && *name != ' ')
+            out[n++] = (char)tolower((unsigned char)*name);
+    out[n] = '\0';
+}
+
+/* Push the user entry of `which` named by the string at idx, or return 0 (nothing pushed). */
+static int push_user_entry(lua_State *L, const char *which, int idx)
+{
+    char key[128];
+    normalised(lua_tostring(L, idx), key, sizeof key);
+    push_user_table(L, which);
+    if (lua_getfield(L, -1, key) == LUA_TTABLE) {
+        lua_remove(L, -2);
+        return 1;
+    }
+    lua_pop(L, 2);
+    return 0;
+}
+
+/* Raise the core's not-found message, with the names the user added appended. */
+static int not_found(lua_State *L, const cp_error *err)
+{
+    luaL_Buffer b;
+    luaL_buffinit(L, &b);
+    luaL_addstring(&b, err->message);
+    const char *sep = "; user-added: ";
+    for (int k = 0; k < 2; k++) {
+        push_user_table(L, k == 0 ? "atoms" : "molecules");
+        lua_pushnil(L);
+        while (lua_next(L, -2)) {
+            if (lua_istable(L, -1) && lua_getfield(L, -1, "name") == LUA_TSTRING) {
+                lua_pushstring(L, sep);
+                luaL_addvalue(&b);
+                lua_pushvalue(L, -1);
+                luaL_addvalue(&b);
+                sep = ", ";
+            }
+            lua_pop(L, 2);
+        }
+        lua_pop(L, 1);
+    }
+    luaL_pushresult(&b);
+    return lua_error(L);
+}
+
+void cpl_push_atom(lua_State *L, int idx)
+{
+    idx = lua_absindex(L, idx);
+    if (push_user_entry(L, "atoms", idx))
+        return;
+    const cp_atom *a;
+    cp_error err;
+    if (cp_species_atom(lua_tostring(L, idx), &a, &err) != CP_OK)
+        not_found(L, &err);
+    push_atom(L, a);
+}
+
+void cpl_push_molecule(lua_State *L, int idx)
+{
+    idx = lua_absindex(L, idx);
+    if (push_user_entry(L, "molecules", idx))
+        return;
+    const cp_molecule *m;
+    cp_error err;
+    if (cp_species_molecule(lua_tostring(L, idx), &m, &err) != CP_OK)
+        not_found(L, &err);
+    push_molecule(L, m);
+}
+
+void cpl_push_first_resonance(lua_State *L, int idx)
+{
+    cpl_push_molecule(L, idx);
+    lua_getfield(L, -1, "name");
+    const char *name = lua_tostring(L, -1);
+    const cp_resonance *r;
+    if (cp_species_resonance(name, 0, &r, NULL) == CP_OK) {
+        push_resonance(L, r);
+    } else {
+        push_user_table(L, "resonances");
+        if (lua_getfield(L, -1, name) != LUA_TTABLE || lua_rawgeti(L, -1, 1) != LUA_TTABLE)
+            luaL_error(L, "species.resonance: no Feshbach resonance is known for %s; add one "
+                       "with cp.species.add_resonance{molecule = \"%s\", b0 = ..., width = ..., "
+                       "abg = ..., dmu = ...}", name, name);
+        lua_replace(L, -3); /* the resonance replaces the user table */
+        lua_pop(L, 1);
+    }
+    lua_replace(L, -3); /* drop the molecule and its name */
+    lua_pop(L, 1);
+}
+
 static int l_list(lua_State *L)
 {
     size_t na = cp_species_atom_count(), nm = cp_species_molecule_count();
@@ -223,6 +348,9 @@ static const cpl_function functions[] = {
      "species.builtin_molecule(name): a molecule from the built-in table only."},
     {"builtin_resonance", l_resonance,
      "species.builtin_resonance(molecule [, index]): a built-in Feshbach resonance."},
+    {"builtin_user_tables", l_user_tables,
+     "species.builtin_user_tables(): the registry tables of user-added atoms, molecules and "
+     "resonances."},
     {"builtin_list", l_list, "species.builtin_list(): names of the built-in atoms and molecules."},
     {"builtin_sources", l_sources,
      "species.builtin_sources(): every built-in value with its publication, status and check."},

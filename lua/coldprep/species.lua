@@ -6,7 +6,9 @@ local builtin = cp.species -- the C binding (lua/bind/bind_species.c)
 local A = require "coldprep.argcheck"
 
 local M = {}
-local user_atoms, user_molecules, user_resonances = {}, {}, {}
+-- the registry tables the bindings read too (a binding given a species name finds the
+-- user's entries there without calling back into this library)
+local user_atoms, user_molecules, user_resonances = builtin.builtin_user_tables()
 
 local function key(name)
   return (name:lower():gsub("[%-_ ]", ""))

@@ -31,6 +31,21 @@ T.raises(function() cp.species.add_atom { name = "X", mass_u = 1, statistics = "
   { "unknown argument 'colour'" }, "unknown key rejected")
 cp.species.add_resonance { molecule = "KRb", b0 = 0.05, width = -3e-4, abg = -1e-8, dmu = 2e-23 }
 T.check(cp.species.resonance("KRb", 2).b0 == 0.05, "user resonance appended after the built-in one")
+-- The bindings find user-added species by name too (same result as passing the tables).
+cp.species.add_resonance { molecule = "40K162Dy", b0 = 0.02, width = 1e-4, abg = 5e-9, dmu = 2e-23 }
+local by_name = cp.feshbach.associate { resonance = "40K162Dy", molecule = "40K162Dy",
+  ramp_rate = 1e-3 / 1e-3, density = 1e18 }
+local by_table = cp.feshbach.associate { resonance = cp.species.resonance("40K162Dy"),
+  molecule = cp.species.molecule("40K162Dy"), ramp_rate = 1e-3 / 1e-3, density = 1e18 }
+T.near(by_name.efficiency, by_table.efficiency, 1e-15, "feshbach takes a user molecule by name")
+local cloud = cp.feshbach.overlap_density { temperature = 1e-6,
+  a = { atom = "Dy162", number = 1e4, omega_x = 600, omega_y = 600, omega_z = 600 },
+  b = { atom = "40K", number = 1e4, omega_x = 600, omega_y = 600, omega_z = 600 } }
+T.check(cloud.density > 0, "feshbach takes a user atom by name")
+T.raises(function() cp.feshbach.overlap_density { temperature = 1e-6,
+  a = { atom = "Dy163", number = 1e4, omega_x = 600, omega_y = 600, omega_z = 600 },
+  b = { atom = "40K", number = 1e4, omega_x = 600, omega_y = 600, omega_z = 600 } } end,
+  { "Dy163", "user-added: ", "162Dy" }, "an unknown name lists the user-added species")
 
 -- UNITS-L1: scale factors (SI) and constants (CODATA 2018: E. Tiesinga et al., Rev. Mod. Phys.
 -- 93, 025010 (2021)).
