@@ -94,15 +94,27 @@ cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *tim
 cp_status cp_collisions_collision_ratio(double cross_section, double rate, double mass,
                                         double temperature, double *ratio, cp_error *err);
 
+/* Evaporation rate of a truncated Boltzmann gas in a 3D harmonic trap at truncation eta =
+ * U/k_B T (in [5, 30]), constant cross-section (A. J. Luiten, M. W. Reynolds & J. T. M.
+ * Walraven, PRA 53, 381 (1996)):
+ *   *ratio = Gamma_ev / Gamma_el = 2 e^{-eta} [eta - 4 P(4, eta) / P(3, eta)]
+ * (-> 2 (eta - 4) e^{-eta} at large eta), P the regularised lower incomplete gamma
+ * function.  Density convention: Gamma_el = <n> sigma v_rel, v_rel = sqrt(16 k_B T/(pi m)),
+ * <n> = n0 / 2^{3/2} the mean density of the Gaussian cloud with the central density n0 =
+ * N / V_e of the truncated one; *truncated_fraction = P(3, eta) = N / (n0 V_inf), so
+ * <n> = N (m omega_bar^2 / (4 pi k_B T))^{3/2} / P(3, eta). */
+cp_status cp_collisions_evaporation_rate(double eta, double *ratio, double *truncated_fraction,
+                                         cp_error *err);
+
 /* Evaporation at constant truncation parameter eta in a fixed harmonic trap, the scaling
  * model of W. Ketterle & N. J. van Druten, Adv. At. Mol. Opt. Phys. 37, 181 (1996): each
- * evaporated particle carries (eta + kappa) k_B T, evaporation occurs in a fraction
- * eta e^{-eta}/sqrt(2) of the elastic collisions, each particle lost by two-body loss
- * carries epsilon k_B T (9/4 s-wave, 11/4 p-wave: anti-evaporation); the ratio of elastic
- * to loss collisions R scales as T^{1/2} (s-wave loss) or T^{-1/2} (p-wave loss) at fixed
- * cross-section:
- *   d ln T / d ln N = [(eta + kappa - 3) r - (3 - epsilon)] / (3 (r + 1)),  r = R/lambda,
- *   lambda = sqrt(2) e^eta / eta.                                                       */
+ * evaporated particle carries (eta + kappa) k_B T, particles evaporate at Gamma_ev = f
+ * Gamma_el with f from cp_collisions_evaporation_rate (same density convention), each
+ * particle lost by two-body loss carries epsilon k_B T (9/4 s-wave, 11/4 p-wave:
+ * anti-evaporation); the ratio of elastic to loss collisions R = sigma v_rel / beta (both
+ * rates at the same <n>) scales as T^{1/2} (s-wave loss) or T^{-1/2} (p-wave loss) at
+ * fixed cross-section:
+ *   d ln T / d ln N = [(eta + kappa - 3) r - (3 - epsilon)] / (3 (r + 1)),  r = f R. */
 typedef struct cp_evaporation_params {
     double number;       /* N0, in [1, 1e12] */
     double temperature;  /* T0, K, in [1e-12, 1e-2] */

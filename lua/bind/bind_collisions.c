@@ -164,6 +164,21 @@ static int l_hold(lua_State *L)
     return 1;
 }
 
+static int l_evaporation_rate(lua_State *L)
+{
+    static const char *const keys[] = {"eta", NULL};
+    const char *fname = "collisions.evaporation_rate";
+    cpl_check_args(L, 1, fname, keys);
+    double eta = cpl_number(L, 1, fname, "eta", ""), ratio, fraction;
+    cp_error err;
+    if (cp_collisions_evaporation_rate(eta, &ratio, &fraction, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 2);
+    cpl_set_number(L, "ratio", ratio);
+    cpl_set_number(L, "truncated_fraction", fraction);
+    return 1;
+}
+
 static int l_evaporation(lua_State *L)
 {
     static const char *const keys[] = {"number", "temperature", "omega_bar", "omega_x",
@@ -259,10 +274,20 @@ static const cpl_function functions[] = {
      "Returns {number, temperature, surviving_fraction, times, numbers, temperatures}.\n"
      "Example: cp.collisions.hold{number = 2e4, temperature = 300e-9, omega_bar = 2*math.pi*100,"
      " mass = 2.1e-25, rate = 1e-17, duration = 0.5}"},
+    {"evaporation_rate", l_evaporation_rate,
+     "collisions.evaporation_rate{eta}: evaporation rate of a truncated Boltzmann gas in a 3D "
+     "harmonic trap over the elastic collision rate (Luiten, Reynolds & Walraven, PRA 53, 381 "
+     "(1996)), ratio = 2 e^-eta [eta - 4 P(4, eta)/P(3, eta)].\n"
+     "  eta  trap depth / k_B T, [5, 30]\n"
+     "Density convention: Gamma_el = <n> sigma v_rel, <n> = N (m wbar^2/(4 pi kB T))^(3/2) / "
+     "P(3, eta) (the Gaussian mean density of the truncated cloud's central density).\n"
+     "Returns {ratio (Gamma_ev / Gamma_el), truncated_fraction (P(3, eta))}.\n"
+     "Example: cp.collisions.evaporation_rate{eta = 8}"},
     {"evaporation", l_evaporation,
      "collisions.evaporation{number, temperature, omega_bar, mass, eta, ratio, final_number, "
      "wave = \"s\", kappa, points = 51}: evaporation at constant truncation eta in a fixed "
-     "harmonic trap with two-body loss (Ketterle & van Druten scaling model).\n"
+     "harmonic trap with two-body loss (Ketterle & van Druten scaling model; evaporation rate "
+     "from evaporation_rate).\n"
      "  number N0;  temperature T0, K;  omega_bar (or omega_x, _y, _z), rad/s;  mass, kg\n"
      "  eta  trap depth / k_B T, [5, 30];  kappa  extra energy per evaporated particle "
      "(default (eta-5)/(eta-4))\n"

@@ -49,17 +49,18 @@ function MODEL.hold(s, beta, lifetime, heating, duration)
 end
 
 -- The time the evaporation takes along its trajectory (N_k, T_k): particles leave at the
--- evaporation rate f Gamma_el (f = eta e^-eta / sqrt 2 of the elastic collisions, Ketterle
--- & van Druten 1996, as in cp.collisions.evaporation) plus the two-body loss rate, so
--- dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2),
--- v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
+-- evaporation rate f Gamma_el (f and the truncated fraction P from
+-- cp.collisions.evaporation_rate, as in cp.collisions.evaporation) plus the two-body loss
+-- rate, so dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2)
+-- / P, v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
 -- Returns the time (s) at each point of the trajectory, 0 at the first.
 function MODEL.evaporation_times(s, r, eta, sigma, beta0)
   local m, kB = s.mass, cp.consts.kB
   local wbar = S.omega_bar(s.trap_frequencies)
-  local f = eta * math.exp(-eta) / math.sqrt(2)
+  local ev = cp.collisions.evaporation_rate { eta = eta }
+  local f = ev.ratio
   local function rate(N, T)
-    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5
+    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5 / ev.truncated_fraction
     local beta = s.statistics == "fermion" and beta0 * T / s.temperature or beta0
     return n * (f * sigma * math.sqrt(16 * kB * T / (math.pi * m)) + beta)
   end
