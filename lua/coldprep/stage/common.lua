@@ -23,6 +23,22 @@ function M.new_stage(kind, args, fields)
   return st
 end
 
+-- A stage whose physics does not work out (an evaporation that never reaches its end
+-- point, a model driven out of its range by the sample) calls M.fail(reason): the plan
+-- then returns its budget with that stage marked failed and the verdict "not degenerate",
+-- instead of an error.  Errors (error(...), A.fail) stay for wrong input.
+local FAILURE = {}
+FAILURE.__tostring = function(e) return e.reason end
+
+function M.fail(reason)
+  error(setmetatable({ reason = reason }, FAILURE), 0)
+end
+
+-- The reason when e is a failure raised by M.fail, else nil.
+function M.failure_reason(e)
+  if getmetatable(e) == FAILURE then return e.reason end
+  return nil
+end
 
 -- Above this fraction of the p-wave barrier height the universal rate gets a note
 -- (common practice, no source: the threshold laws need kB T well below the barrier).

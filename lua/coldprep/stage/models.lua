@@ -3,6 +3,7 @@
 -- a model call's arguments.  Used by the stage files in this folder.
 local cp = require "coldprep"
 local S = require "coldprep.sample"
+local common = require "coldprep.stage.common"
 
 local MODEL = {}
 
@@ -78,6 +79,15 @@ end
 -- lasts target.duration (interpolated in ln N over a fine trajectory; a duration needs
 -- target.sigma and target.beta for the rates): {number, temperature, efficiency, numbers,
 -- temperatures}.
+-- cp.collisions.evaporation; a runaway that leaves the classical model (the phase-space
+-- density overflows) is a failed stage, not an input error.
+local function trajectory(args)
+  local ok, r = pcall(cp.collisions.evaporation, args)
+  if ok then return r end
+  if tostring(r):find("phase-space density overflows", 1, true) then common.fail(tostring(r)) end
+  error(r, 0)
+end
+
 function MODEL.evaporate(s, eta, kappa, ratio, target)
   local w = s.trap_frequencies
   local args = { number = s.number, temperature = s.temperature, mass = s.mass,
@@ -85,10 +95,10 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
     wave = s.statistics == "fermion" and "p" or "s" }
   if target.number then
     args.final_number, args.points = target.number, 64
-    return cp.collisions.evaporation(args)
+    return trajectory(args)
   end
   args.final_number, args.points = math.max(1, s.number * 1e-6), 400
-  local tr = cp.collisions.evaporation(args)
+  local tr = trajectory(args)
   local n, t = tr.numbers, tr.temperatures
   -- the quantity that marks the end point along the trajectory, and its target value
   local along, goal
@@ -103,17 +113,18 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
       local f = (goal - along(i - 1)) / (along(i) - along(i - 1))
       args.final_number = n[i - 1] * (n[i] / n[i - 1]) ^ f
       args.points = 64
-      return cp.collisions.evaporation(args)
+      return trajectory(args)
     end
   end
+  -- physics, not input: the stage is marked failed and the plan still returns its budget
   if target.temperature then
-    error(string.format("the temperature never falls to %.3g nK (it ends at %.3g nK "
+    common.fail(string.format("the temperature never falls to %.3g nK (it ends at %.3g nK "
       .. "with %.3g particles left); losses outrun the cooling", target.temperature / cp.units.nK,
-      t[#t] / cp.units.nK, n[#n]), 0)
+      t[#t] / cp.units.nK, n[#n]))
   end
-  error(string.format("argument 'duration' = %.3g s is longer than the evaporation can last: after "
-    .. "%.3g s only %.3g of %.3g particles are left", target.duration,
-    MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number), 0)
+  common.fail(string.format("the requested duration %.3g s is longer than the evaporation can "
+    .. "last: after %.3g s only %.3g of %.3g particles are left", target.duration,
+    MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number))
 end
 
 -- The cubic lattice of three equal retro-reflected beams (cp.lattice.depth3d), its
