@@ -102,6 +102,8 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
         size_t n = p->n_samples;
         pl->t_start = p->times[0];
         pl->t_end = p->times[n - 1];
+        pl->loss_from = pl->t_start;
+        pl->loss_to = pl->t_end;
         pl->pump = gsl_interp_alloc(gsl_interp_steffen, n);
         pl->stokes = gsl_interp_alloc(gsl_interp_steffen, n);
         if (!pl->pump || !pl->stokes) {
@@ -120,6 +122,10 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
         pl->half = half;
         pl->t_start = -a - half;
         pl->t_end = a + half;
+        /* the transfer duration: from the first pulse's rise to the last pulse's fall
+         * through 1/e of its peak (Gaussian) or over the pulses' support (sin2) */
+        pl->loss_from = -a - p->width;
+        pl->loss_to = a + p->width;
         /* -a-half <= -a+half and a-half <= a+half; the middle two may be in either order */
         pl->edges[0] = -a - half;
         pl->edges[1] = fmin(-a + half, a - half);
@@ -229,6 +235,12 @@ void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, doubl
         *dos = sign * ds;
 }
 
+int cp_raman_pulses_slow_on(const cp_raman_pulses *pl, double t)
+{
+    double u = pl->reversed ? -t : t;
+    return u >= pl->loss_from && u <= pl->loss_to;
+}
+
 void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
 {
     enum { M = 401 };
@@ -261,4 +273,13 @@ void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
     /* the dark state cos(theta)|1> - sin(theta)|3> leaves at 2 kappa_13 cos^2 sin^2 */
     res->dephasing_loss_estimate = 0.5 * kappa13 * mix;
     cp_raman_ddp(p, &res->nonadiabatic_loss_estimate, &res->nonadiabatic_exponent);
+    res->transfer_duration = pl->loss_to - pl->loss_from;
+    /* decay_loss and dephasing_loss are derived on resonance: flag a two-photon detuning
+     * that dephases the dark state over the overlap (|delta| T_overlap > 0.5) or a one-photon
+     * detuning beyond both the linewidth and the Rabi frequency (common practice, no source;
+     * the measured errors are in docs/models/raman.md) */
+    res->flags = 0;
+    if (fabs(p->two_photon_detuning) * res->overlap_time > 0.5 ||
+        fabs(p->detuning) > fmax(p->gamma, rms_max))
+        res->flags |= CP_RAMAN_FLAG_ESTIMATES_DETUNED;
 }

@@ -40,6 +40,14 @@ function M.failure_reason(e)
   return nil
 end
 
+-- A validity flag: an estimate a stage used outside its model's stated range.  Appended to
+-- `flags` (the stage record's list of {model, flag, text}, readable by the caller) and, as
+-- a note "outside its range (model.flag): text", to `notes`.
+function M.flag(flags, notes, model, flag, text)
+  flags[#flags + 1] = { model = model, flag = flag, text = text }
+  notes[#notes + 1] = string.format("outside its range (%s.%s): %s", model, flag, text)
+end
+
 -- Above this fraction of the p-wave barrier height the universal rate gets a note
 -- (common practice, no source: the threshold laws need kB T well below the barrier).
 local BARRIER_FRACTION = 0.1

@@ -25,9 +25,10 @@ function MODEL.max_efficiency(a, b, samples, seed)
     samples = math.floor(samples), seed = math.floor(seed) }.max_efficiency
 end
 
--- The time the two-photon pulse sequence takes: the model's integration window.
+-- The time the two-photon pulse sequence takes: the model's transfer duration |delay| +
+-- 2 width (over which its slow losses act), not the longer integration window.
 function MODEL.pulse_duration(result)
-  return result.t_end - result.t_start
+  return result.transfer_duration
 end
 
 -- The temperature after an adiabatic change of the trap (cp.thermo.match_harmonic).
