@@ -49,6 +49,21 @@ cp_status cp_collisions_barrier(double c6_au, double reduced_mass, int l, double
 cp_status cp_collisions_universal_rate(double c6_au, double reduced_mass, double temperature,
                                        cp_pair_statistics stat, double *rate, cp_error *err);
 
+/* Validity flags of the universal rate (bits of *flags of cp_collisions_universal_validity). */
+enum {
+    /* k_B T above a tenth of the p-wave barrier E_1: the threshold laws behind the universal
+     * rates (s-wave constant, p-wave proportional to T) no longer hold */
+    CP_COLLISIONS_FLAG_ABOVE_BARRIER = 1u
+};
+
+/* Where the universal rate at temperature T (K, in [1e-12, 1e-2]) stands against its range:
+ * *barrier_fraction = k_B T / E_1 (E_1 the p-wave barrier, cp_collisions_barrier with l = 1)
+ * and *flags = CP_COLLISIONS_FLAG_ABOVE_BARRIER when that exceeds 0.1 (common practice, no
+ * source: "well below the barrier"), else 0.  Arguments as cp_collisions_universal_rate. */
+cp_status cp_collisions_universal_validity(double c6_au, double reduced_mass, double temperature,
+                                           unsigned *flags, double *barrier_fraction,
+                                           cp_error *err);
+
 /* Threshold (Born) elastic cross section (m^2) of two polarised dipoles with dipole
  * moment d (debye, in (0, 20]), dipole length D = mu d^2 / (4 pi eps0 hbar^2) (m):
  * identical fermions (32 pi/15) D^2, identical bosons (32 pi/45) D^2 (dipolar part only;

@@ -79,15 +79,23 @@ static int l_universal_rate(lua_State *L)
     double c6 = cpl_number(L, 1, fname, "c6_au", "a.u.");
     double mu = cpl_number(L, 1, fname, "mass", "kg");
     cp_pair_statistics stat = read_pair(L, fname);
-    /* The s-wave rates do not depend on T; the p-wave rate needs it. */
+    /* The s-wave rates do not depend on T; the p-wave rate needs it.  Without T there is
+     * no barrier check. */
+    int has_t = cpl_has(L, 1, "temperature");
     double t = stat == CP_PAIR_FERMIONS ? cpl_number(L, 1, fname, "temperature", "K")
                                         : cpl_opt_number(L, 1, fname, "temperature", "K", 1e-6);
-    double rate;
+    double rate, fraction = NAN;
+    unsigned flags = 0;
     cp_error err;
-    if (cp_collisions_universal_rate(c6, mu, t, stat, &rate, &err) != CP_OK)
+    if (cp_collisions_universal_rate(c6, mu, t, stat, &rate, &err) != CP_OK ||
+        (has_t && cp_collisions_universal_validity(c6, mu, t, &flags, &fraction, &err) != CP_OK))
         return cpl_raise(L, &err);
-    lua_createtable(L, 0, 1);
+    lua_createtable(L, 0, 3);
     cpl_set_number(L, "rate", rate);
+    if (has_t)
+        cpl_set_number(L, "barrier_fraction", fraction);
+    static const char *const flag_names[] = {"above_barrier", NULL};
+    cpl_set_flags(L, flags, flag_names);
     return 1;
 }
 
@@ -240,7 +248,9 @@ static const cpl_function functions[] = {
      "abar / mu),\n"
      "              \"fermion\" (identical, p-wave: 1513 abar^3 k_B T / h)\n"
      "  temperature K, [1e-12, 0.01]; required for fermions only\n"
-     "Returns {rate} in m^3/s: beta in dn/dt = -beta n^2 (identical) or dn_a/dt = -beta n_a n_b.\n"
+     "Returns {rate} in m^3/s: beta in dn/dt = -beta n^2 (identical) or dn_a/dt = -beta n_a n_b;\n"
+     "  with a temperature also barrier_fraction = k_B T / E_1 (the p-wave barrier) and\n"
+     "  flags = {\"above_barrier\"} when it exceeds 0.1 (threshold laws no longer hold), else {}.\n"
      "Example: cp.collisions.universal_rate{c6_au = 16130, mass = 127*cp.units.amu/2, "
      "temperature = 300e-9, statistics = \"fermion\"}"},
     {"dipolar_cross_section", l_dipolar_cross_section,

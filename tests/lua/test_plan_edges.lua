@@ -64,6 +64,19 @@ local okb = plan { cp.stages.evaporate { eta = 8, final_temperature = 250 * u.nK
 T.check(okb.failed_stage == nil and okb.stages[4].failed == false and okb.final.temperature < 251 * u.nK,
   "a reachable final temperature: no failure")
 
+-- EDGE-1c validity flags reach the budget: a hold of 23Na40K molecules with the universal
+-- p-wave rate at 300 nK (k_B T / E_1 ~ 0.025 of the barrier, E_1/k_B = 12 uK from
+-- cp.collisions.pwave_barrier) carries no flag; at 5 uK (0.41 > 0.1) the stage record
+-- carries {model = "collisions", flag = "above_barrier"}, a note, and the CSV names it.
+local function hold_at(T0)
+  return plan({ cp.stages.hold { duration = 0.01 } }, T0):run { limiting = false }.stages[4]
+end
+local cold, hot = hold_at(300 * u.nK), hold_at(5 * u.uK)
+T.check(#cold.flags == 0, "universal rate inside its range: no flag")
+T.check(#hot.flags == 1 and hot.flags[1].model == "collisions" and hot.flags[1].flag == "above_barrier",
+  "universal rate above a tenth of the p-wave barrier: flagged")
+T.check(notes(hot):find("outside its range (collisions.above_barrier)", 1, true) ~= nil, "and noted")
+
 -- EDGE-2 an evaporation whose duration follows only from a collision ratio has an unknown
 -- duration: NaN ("-"), not 0 ms, and the elapsed time says it is not counted.
 local b = plan { cp.stages.evaporate { eta = 8, keep = 0.5, ratio = 300 } }:run { limiting = false }

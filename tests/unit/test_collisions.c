@@ -307,6 +307,32 @@ static void test_evaporation_rate(void **state)
     assert_int_equal(cp_collisions_evaporation_rate(8.0, NULL, &p3, &err), CP_EINVAL);
 }
 
+/* COLL-5b: the validity flag of the universal rate.  KRb (C6 16130 a.u., mu = 127 u / 2):
+ * the p-wave barrier E_1/k_B is ~24 uK (tested against a numerical maximisation above);
+ * at 300 nK (k_B T / E_1 ~ 0.013, inside) no flag, at 10 uK (~0.4, outside the stated 0.1)
+ * the flag; the fraction is k_B T over the barrier. */
+static void test_universal_validity(void **state)
+{
+    (void)state;
+    unsigned flags;
+    double frac, e1;
+    assert_int_equal(cp_collisions_barrier(16130.0, MU_KRB, 1, &e1, NULL), CP_OK);
+    assert_int_equal(cp_collisions_universal_validity(16130.0, MU_KRB, 300e-9, &flags, &frac,
+                                                      NULL), CP_OK);
+    assert_int_equal(flags, 0);
+    assert_rel(frac, CP_KB * 300e-9 / e1, 1e-14);
+    assert_true(frac < 0.1);
+    assert_int_equal(cp_collisions_universal_validity(16130.0, MU_KRB, 10e-6, &flags, &frac,
+                                                      NULL), CP_OK);
+    assert_int_equal(flags, CP_COLLISIONS_FLAG_ABOVE_BARRIER);
+    assert_true(frac > 0.1 && frac < 1.0);
+    cp_error err;
+    assert_int_equal(cp_collisions_universal_validity(16130.0, MU_KRB, NAN, &flags, &frac, &err),
+                     CP_EINVAL);
+    assert_true(isnan(frac) && flags == 0);
+    assert_non_null(strstr(err.message, "temperature"));
+}
+
 /* COLL-6: evaporation.  Without losses (ratio -> infinity) T ~ N^alpha with
  * alpha = (eta + kappa)/3 - 1 for a 3D harmonic trap (Ketterle & van Druten, Adv. At. Mol.
  * Opt. Phys. 37, 181 (1996) [M eq.]), so PSD ~ N^{1 - 3 alpha}; dominated by s-wave loss
@@ -442,7 +468,8 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_abar),      cmocka_unit_test(test_barrier),
         cmocka_unit_test(test_universal), cmocka_unit_test(test_dipolar),
-        cmocka_unit_test(test_hold),      cmocka_unit_test(test_evaporation_rate),
+        cmocka_unit_test(test_hold),      cmocka_unit_test(test_universal_validity),
+        cmocka_unit_test(test_evaporation_rate),
         cmocka_unit_test(test_evaporation),
         cmocka_unit_test(test_bad_input),
     };

@@ -69,9 +69,9 @@ local function evaporate(args)
     accepts = { ["ground-state-molecules"] = true }, params = p, equipment = equipment,
     hint = "evaporation of molecules needs ground-state molecules: place it after cp.stages.transfer",
     run = function(_, s)
-      local notes = {}
+      local notes, flags = {}, {}
       local mol = s.molecule
-      local beta = loss_rate(s, p.loss_rate, notes)
+      local beta = loss_rate(s, p.loss_rate, notes, flags)
       local sigma = p.cross_section
       if not sigma and not p.ratio then
         local d, x = induced_dipole_debye(mol, p.electric_field)
@@ -132,7 +132,7 @@ local function evaporate(args)
         unknown = true
         notes[#notes + 1] = "duration unknown (only the collision ratio was given); not counted in the elapsed time"
       end
-      return out, { duration = duration, duration_unknown = unknown, notes = notes }
+      return out, { duration = duration, duration_unknown = unknown, notes = notes, flags = flags }
     end,
   })
 end
