@@ -22,8 +22,8 @@ local function plan(stages, T0)
 end
 local function notes(r) return table.concat(r.notes, " | ") end
 
--- EDGE-1 evaporation end points that cannot be reached are errors naming the stage and the
--- argument (they reached the C model as a final_number out of its range).
+-- EDGE-1 evaporation end points the sample has already passed are input errors naming the
+-- stage and the argument (they reached the C model as a final_number out of its range).
 T.raises(function() cp.stages.evaporate { eta = 8, keep = 1, ratio = 100 } end,
   { "stages.evaporate", "'keep'", "(0, 1)" }, "keep = 1 is no evaporation")
 T.raises(function() plan { cp.stages.evaporate { eta = 8, final_temperature = 1 * u.uK, ratio = 100 } }:run() end,

@@ -148,7 +148,8 @@ section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_
 (d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
 collisions.  Ends at a number, a kept fraction (0 < keep < 1), a temperature, or a trap
 depth (T = depth/(eta kB)), which must lie below the sample's, or after a duration (needs
-electric_field or cross_section).  Duration from the
+electric_field or cross_section).  An end point the physics never reaches (losses outrun
+the cooling, the cloud empties first) marks the stage failed in the budget.  Duration from the
 trajectory (unknown, NaN, with only a ratio); one-body loss is not modelled (a note
 flags evaporations longer than 1 s).  Example: cp.stages.evaporate{eta = 8, final_temperature = 60e-9,
 electric_field = 0.6e5}]] }
