@@ -80,15 +80,6 @@ end
 -- lasts target.duration (interpolated in ln N over a fine trajectory; a duration needs
 -- target.sigma and target.beta for the rates): {number, temperature, efficiency, numbers,
 -- temperatures}.
--- cp.collisions.evaporation; a runaway that leaves the classical model (the phase-space
--- density overflows) is a failed stage, not an input error.
-local function trajectory(args)
-  local ok, r = pcall(cp.collisions.evaporation, args)
-  if ok then return r end
-  if tostring(r):find("phase-space density overflows", 1, true) then common.fail(tostring(r)) end
-  error(r, 0)
-end
-
 function MODEL.evaporate(s, eta, kappa, ratio, target)
   local w = s.trap_frequencies
   local args = { number = s.number, temperature = s.temperature, mass = s.mass,
@@ -96,10 +87,10 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
     wave = s.statistics == "fermion" and "p" or "s" }
   if target.number then
     args.final_number, args.points = target.number, 64
-    return trajectory(args)
+    return cp.collisions.evaporation(args)
   end
   args.final_number, args.points = math.max(1, s.number * 1e-6), 400
-  local tr = trajectory(args)
+  local tr = cp.collisions.evaporation(args)
   local n, t = tr.numbers, tr.temperatures
   -- the quantity that marks the end point along the trajectory, and its target value
   local along, goal
@@ -114,7 +105,7 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
       local f = (goal - along(i - 1)) / (along(i) - along(i - 1))
       args.final_number = n[i - 1] * (n[i] / n[i - 1]) ^ f
       args.points = 64
-      return trajectory(args)
+      return cp.collisions.evaporation(args)
     end
   end
   -- physics, not input: the stage is marked failed and the plan still returns its budget
