@@ -20,7 +20,9 @@ typedef struct cp_raman_pulses {
     double phase;              /* sum of the rates x (t_end - t_start), rad */
     double other_rate;         /* sum of all rates except |Delta|, 1/s */
     double half;               /* half-length of an analytic pulse's support, s */
-    double edges[4];           /* sorted support edges of the two analytic pulses, s */
+    double edges[6];           /* sorted support edges of the two analytic pulses and, with
+                                  slow losses, the ends of the transfer duration, s */
+    size_t n_edges;            /* 4, or 6 with slow losses */
     double loss_from, loss_to; /* the transfer duration, in which the slow losses act, s */
 } cp_raman_pulses;
 

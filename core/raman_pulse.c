@@ -126,11 +126,19 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
          * through 1/e of its peak (Gaussian) or over the pulses' support (sin2) */
         pl->loss_from = -a - p->width;
         pl->loss_to = a + p->width;
-        /* -a-half <= -a+half and a-half <= a+half; the middle two may be in either order */
-        pl->edges[0] = -a - half;
-        pl->edges[1] = fmin(-a + half, a - half);
-        pl->edges[2] = fmax(-a + half, a - half);
-        pl->edges[3] = a + half;
+        /* the support edges and, with slow losses, the ends of the transfer duration (where
+         * they switch), sorted: the integrator then never steps across a switch */
+        double e[6] = {-a - half, -a + half, a - half, a + half, -a - p->width, a + p->width};
+        size_t n = p->gamma_initial > 0.0 || p->gamma_target > 0.0 ? 6 : 4;
+        for (size_t i = 1; i < n; i++)
+            for (size_t j = i; j > 0 && e[j - 1] > e[j]; j--) {
+                double x = e[j];
+                e[j] = e[j - 1];
+                e[j - 1] = x;
+            }
+        for (size_t i = 0; i < n; i++)
+            pl->edges[i] = e[i];
+        pl->n_edges = n;
         rabi_max = fmax(p->rabi_pump, p->rabi_stokes);
     }
     double kappa = 2 * M_PI * (p->pump_linewidth_hz + p->stokes_linewidth_hz +
@@ -151,7 +159,7 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
 
 size_t cp_raman_pulses_breaks(const cp_raman_pulses *pl)
 {
-    return pl->p->shape == CP_RAMAN_SAMPLED ? pl->p->n_samples : 4;
+    return pl->p->shape == CP_RAMAN_SAMPLED ? pl->p->n_samples : pl->n_edges;
 }
 
 double cp_raman_pulses_break(const cp_raman_pulses *pl, size_t i)
