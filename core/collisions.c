@@ -80,6 +80,25 @@ cp_status cp_collisions_universal_rate(double c6_au, double reduced_mass, double
     return CP_OK;
 }
 
+cp_status cp_collisions_universal_validity(double c6_au, double reduced_mass, double temperature,
+                                           unsigned *flags, double *barrier_fraction,
+                                           cp_error *err)
+{
+    const char *ctx = "collisions universal_rate";
+    if (!flags || !barrier_fraction)
+        return cp_fail(err, CP_EINVAL, "%s: flags and barrier_fraction must not be NULL", ctx);
+    *flags = 0;
+    *barrier_fraction = NAN;
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1e-2,
+                          CP_CLOSED));
+    double e1;
+    CP_TRY(cp_collisions_barrier(c6_au, reduced_mass, 1, &e1, err));
+    *barrier_fraction = CP_KB * temperature / e1;
+    if (*barrier_fraction > 0.1)
+        *flags = CP_COLLISIONS_FLAG_ABOVE_BARRIER;
+    return CP_OK;
+}
+
 cp_status cp_collisions_dipolar_cross_section(double dipole_debye, double reduced_mass,
                                               cp_pair_statistics stat, double *cross_section,
                                               double *dipole_length, cp_error *err)

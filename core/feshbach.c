@@ -102,6 +102,7 @@ static void poison_binding(cp_feshbach_binding *out)
 {
     out->energy = out->a = out->abar = out->rstar = out->s_res = NAN;
     out->model = CP_FESHBACH_AUTO;
+    out->flags = 0;
 }
 
 cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu, double field,
@@ -171,6 +172,15 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
     out->rstar = rstar;
     out->s_res = s_res;
     out->model = model;
+    /* validity (docs/models/feshbach.md): NaN comparisons are false, so an unknown C6
+     * raises neither abar nor s_res flags */
+    int broad = s_res >= 1.0;
+    if (a > 0.0 && a < abar && (model != CP_FESHBACH_LINEAR || broad))
+        out->flags |= CP_FESHBACH_FLAG_BELOW_ABAR;
+    if (!(a > 0.0))
+        out->flags |= CP_FESHBACH_FLAG_PAST_ZERO;
+    if (model == CP_FESHBACH_LINEAR && broad)
+        out->flags |= CP_FESHBACH_FLAG_LINEAR_BROAD;
     return CP_OK;
 }
 

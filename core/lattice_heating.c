@@ -35,6 +35,7 @@ cp_status cp_lattice_heating(double scattering_rate, double recoil, double depth
                              cp_lattice_heating_result *r, cp_error *err)
 {
     r->energy_rate = r->temperature_rate = r->band_excitation_rate = r->lamb_dicke = NAN;
+    r->flags = 0;
     CP_TRY(cp_check_range(err, CTX_HEATING, "scattering rate", scattering_rate, "1/s", 0.0,
                           1e9, CP_CLOSED));
     CP_TRY(cp_check_range(err, CTX_HEATING, "recoil", recoil, "J", 0.0, 1e-20, CP_LO_OPEN));
@@ -46,5 +47,9 @@ cp_status cp_lattice_heating(double scattering_rate, double recoil, double depth
     r->temperature_rate = r->energy_rate / (3.0 * CP_KB);
     r->band_excitation_rate = scattering_rate * eta * eta / 3.0;
     r->lamb_dicke = eta;
+    /* below ~3 E_r eta^2 ~ 0.3-0.5: not Lamb-Dicke, the well not harmonic (common practice,
+     * no source, for the boundary) */
+    if (depth_er < 3.0)
+        r->flags = CP_LATTICE_FLAG_SHALLOW;
     return CP_OK;
 }

@@ -173,6 +173,7 @@ static void poison(cp_lattice_loading_result *r)
     r->max_adiabaticity = r->max_time = r->max_depth_er = NAN;
     r->simple_criterion = r->excited_fraction = NAN;
     r->basis_size = 0;
+    r->flags = 0;
 }
 
 /* Time, depth and the depth rates just after (rate_right) and before (rate_left) sample i. */
@@ -267,5 +268,9 @@ cp_status cp_lattice_loading(const cp_lattice_ramp *ramp, cp_lattice_loading_res
     res->simple_criterion = simple;
     res->excited_fraction = fraction;
     res->basis_size = size;
+    /* first order holds while the excitation is small: above 5 % (common practice, no
+     * source) the depletion of band 0 and higher-order paths matter */
+    if (fraction > 0.05)
+        res->flags = CP_LATTICE_FLAG_BEYOND_FIRST_ORDER;
     return CP_OK;
 }

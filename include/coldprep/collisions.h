@@ -49,6 +49,21 @@ cp_status cp_collisions_barrier(double c6_au, double reduced_mass, int l, double
 cp_status cp_collisions_universal_rate(double c6_au, double reduced_mass, double temperature,
                                        cp_pair_statistics stat, double *rate, cp_error *err);
 
+/* Validity flags of the universal rate (bits of *flags of cp_collisions_universal_validity). */
+enum {
+    /* k_B T above a tenth of the p-wave barrier E_1: the threshold laws behind the universal
+     * rates (s-wave constant, p-wave proportional to T) no longer hold */
+    CP_COLLISIONS_FLAG_ABOVE_BARRIER = 1u
+};
+
+/* Where the universal rate at temperature T (K, in [1e-12, 1e-2]) stands against its range:
+ * *barrier_fraction = k_B T / E_1 (E_1 the p-wave barrier, cp_collisions_barrier with l = 1)
+ * and *flags = CP_COLLISIONS_FLAG_ABOVE_BARRIER when that exceeds 0.1 (common practice, no
+ * source: "well below the barrier"), else 0.  Arguments as cp_collisions_universal_rate. */
+cp_status cp_collisions_universal_validity(double c6_au, double reduced_mass, double temperature,
+                                           unsigned *flags, double *barrier_fraction,
+                                           cp_error *err);
+
 /* Threshold (Born) elastic cross section (m^2) of two polarised dipoles with dipole
  * moment d (debye, in (0, 20]), dipole length D = mu d^2 / (4 pi eps0 hbar^2) (m):
  * identical fermions (32 pi/15) D^2, identical bosons (32 pi/45) D^2 (dipolar part only;
@@ -94,15 +109,27 @@ cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *tim
 cp_status cp_collisions_collision_ratio(double cross_section, double rate, double mass,
                                         double temperature, double *ratio, cp_error *err);
 
+/* Evaporation rate of a truncated Boltzmann gas in a 3D harmonic trap at truncation eta =
+ * U/k_B T (in [5, 30]), constant cross-section (A. J. Luiten, M. W. Reynolds & J. T. M.
+ * Walraven, PRA 53, 381 (1996)):
+ *   *ratio = Gamma_ev / Gamma_el = 2 e^{-eta} [eta - 4 P(4, eta) / P(3, eta)]
+ * (-> 2 (eta - 4) e^{-eta} at large eta), P the regularised lower incomplete gamma
+ * function.  Density convention: Gamma_el = <n> sigma v_rel, v_rel = sqrt(16 k_B T/(pi m)),
+ * <n> = n0 / 2^{3/2} the mean density of the Gaussian cloud with the central density n0 =
+ * N / V_e of the truncated one; *truncated_fraction = P(3, eta) = N / (n0 V_inf), so
+ * <n> = N (m omega_bar^2 / (4 pi k_B T))^{3/2} / P(3, eta). */
+cp_status cp_collisions_evaporation_rate(double eta, double *ratio, double *truncated_fraction,
+                                         cp_error *err);
+
 /* Evaporation at constant truncation parameter eta in a fixed harmonic trap, the scaling
  * model of W. Ketterle & N. J. van Druten, Adv. At. Mol. Opt. Phys. 37, 181 (1996): each
- * evaporated particle carries (eta + kappa) k_B T, evaporation occurs in a fraction
- * eta e^{-eta}/sqrt(2) of the elastic collisions, each particle lost by two-body loss
- * carries epsilon k_B T (9/4 s-wave, 11/4 p-wave: anti-evaporation); the ratio of elastic
- * to loss collisions R scales as T^{1/2} (s-wave loss) or T^{-1/2} (p-wave loss) at fixed
- * cross-section:
- *   d ln T / d ln N = [(eta + kappa - 3) r - (3 - epsilon)] / (3 (r + 1)),  r = R/lambda,
- *   lambda = sqrt(2) e^eta / eta.                                                       */
+ * evaporated particle carries (eta + kappa) k_B T, particles evaporate at Gamma_ev = f
+ * Gamma_el with f from cp_collisions_evaporation_rate (same density convention), each
+ * particle lost by two-body loss carries epsilon k_B T (9/4 s-wave, 11/4 p-wave:
+ * anti-evaporation); the ratio of elastic to loss collisions R = sigma v_rel / beta (both
+ * rates at the same <n>) scales as T^{1/2} (s-wave loss) or T^{-1/2} (p-wave loss) at
+ * fixed cross-section:
+ *   d ln T / d ln N = [(eta + kappa - 3) r - (3 - epsilon)] / (3 (r + 1)),  r = f R. */
 typedef struct cp_evaporation_params {
     double number;       /* N0, in [1, 1e12] */
     double temperature;  /* T0, K, in [1e-12, 1e-2] */

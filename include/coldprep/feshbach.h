@@ -54,6 +54,19 @@ typedef enum cp_feshbach_model {
 /* The name of a model: "auto", "universal", "corrected", "linear". */
 const char *cp_feshbach_model_name(cp_feshbach_model model);
 
+/* Validity flags of a binding energy (bits of cp_feshbach_binding.flags). */
+enum {
+    /* 0 < a < abar where the linear form does not take over (a universal form used, or
+     * s_res >= 1): the state is no longer a halo molecule and no form here describes it */
+    CP_FESHBACH_FLAG_BELOW_ABAR = 1u,
+    /* a <= 0: the field is past the zero crossing B0 + Delta of the scattering length; only
+     * the linear extrapolation is left, and it ignores the background bound state */
+    CP_FESHBACH_FLAG_PAST_ZERO = 2u,
+    /* the linear (closed-channel) form used on an open-channel-dominated resonance,
+     * s_res >= 1, where it is not meant to hold */
+    CP_FESHBACH_FLAG_LINEAR_BROAD = 4u
+};
+
 typedef struct cp_feshbach_binding {
     double energy;           /* binding energy E_b > 0, J */
     double a;                /* scattering length at the field, m */
@@ -61,6 +74,7 @@ typedef struct cp_feshbach_binding {
     double rstar;            /* R* = hbar^2 / (2 mu abg dmu width), m */
     double s_res;            /* resonance strength abar / R* (NaN when c6_au = 0) */
     cp_feshbach_model model; /* the model used (never AUTO) */
+    unsigned flags;          /* CP_FESHBACH_FLAG_* bits: outside the model's stated range */
 } cp_feshbach_binding;
 
 /* Binding energy of the Feshbach molecule at `field` (molecular side, B < b0).

@@ -217,11 +217,22 @@ cp_status cp_lattice_wannier(double depth_er, int band, double half_range, size_
 cp_status cp_lattice_scattering_rate(double alpha_imag, cp_polarizability_unit unit,
                                      double intensity, double *rate, cp_error *err);
 
+/* Validity flags of the lattice heating and loading results (bits of their `flags`). */
+enum {
+    /* heating: depth below 3 E_r, where eta^2 = 1/(2 sqrt(depth_er)) exceeds ~0.3 and the
+     * Lamb-Dicke (eta^2 << 1), harmonic-well band-excitation rate does not hold */
+    CP_LATTICE_FLAG_SHALLOW = 1u,
+    /* loading: excited_fraction above 0.05, beyond where first-order adiabatic
+     * perturbation theory is trustworthy */
+    CP_LATTICE_FLAG_BEYOND_FIRST_ORDER = 2u
+};
+
 typedef struct cp_lattice_heating_result {
     double energy_rate;          /* J/s per particle: 2 E_rec Gamma_sc */
     double temperature_rate;     /* K/s in a 3D harmonic trap (E = 3 kB T): 2 E_rec Gamma/(3 kB) */
     double band_excitation_rate; /* 1/s: rate out of the lowest band along the lattice axis */
     double lamb_dicke;           /* eta of the trap light along the axis (see cp_lattice_site) */
+    unsigned flags;              /* CP_LATTICE_FLAG_SHALLOW when depth_er < 3, else 0 */
 } cp_lattice_heating_result;
 
 /* Heating of a molecule in the lowest band of a 1D lattice of depth depth_er ((0, 1e4])
@@ -268,6 +279,8 @@ typedef struct cp_lattice_loading_result {
     double excited_fraction; /* first-order estimate of the population left in bands 2 and
                                 4 at the end (q = 0) */
     int basis_size;          /* even-parity plane waves used */
+    unsigned flags;          /* CP_LATTICE_FLAG_BEYOND_FIRST_ORDER when excited_fraction >
+                                0.05, else 0 */
 } cp_lattice_loading_result;
 
 /* Interband adiabaticity of loading a condensate (quasimomentum 0, band 0) by a depth

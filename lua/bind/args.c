@@ -326,6 +326,18 @@ void cpl_set_boolean(lua_State *L, const char *key, int value)
     lua_setfield(L, -2, key);
 }
 
+void cpl_set_flags(lua_State *L, unsigned flags, const char *const names[])
+{
+    lua_newtable(L);
+    lua_Integer n = 0;
+    for (unsigned i = 0; names[i]; i++)
+        if (flags & (1u << i)) {
+            lua_pushstring(L, names[i]);
+            lua_rawseti(L, -2, ++n);
+        }
+    lua_setfield(L, -2, "flags");
+}
+
 void cpl_set_integer(lua_State *L, const char *key, lua_Integer value)
 {
     lua_pushinteger(L, value);

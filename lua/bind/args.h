@@ -76,6 +76,11 @@ void cpl_set_string(lua_State *L, const char *key, const char *value);
 void cpl_set_boolean(lua_State *L, const char *key, int value);
 void cpl_set_integer(lua_State *L, const char *key, lua_Integer value);
 
+/* Set t.flags on the table at the top of the stack to the list of names[i] for every bit
+ * 1 << i set in `flags` (names NULL-terminated): the validity flags of a model result, an
+ * empty list when every estimate is inside its range. */
+void cpl_set_flags(lua_State *L, unsigned flags, const char *const names[]);
+
 /* Push a Lua array of n numbers. */
 void cpl_push_array(lua_State *L, const double *values, size_t n);
 

@@ -79,15 +79,23 @@ static int l_universal_rate(lua_State *L)
     double c6 = cpl_number(L, 1, fname, "c6_au", "a.u.");
     double mu = cpl_number(L, 1, fname, "mass", "kg");
     cp_pair_statistics stat = read_pair(L, fname);
-    /* The s-wave rates do not depend on T; the p-wave rate needs it. */
+    /* The s-wave rates do not depend on T; the p-wave rate needs it.  Without T there is
+     * no barrier check. */
+    int has_t = cpl_has(L, 1, "temperature");
     double t = stat == CP_PAIR_FERMIONS ? cpl_number(L, 1, fname, "temperature", "K")
                                         : cpl_opt_number(L, 1, fname, "temperature", "K", 1e-6);
-    double rate;
+    double rate, fraction = NAN;
+    unsigned flags = 0;
     cp_error err;
-    if (cp_collisions_universal_rate(c6, mu, t, stat, &rate, &err) != CP_OK)
+    if (cp_collisions_universal_rate(c6, mu, t, stat, &rate, &err) != CP_OK ||
+        (has_t && cp_collisions_universal_validity(c6, mu, t, &flags, &fraction, &err) != CP_OK))
         return cpl_raise(L, &err);
-    lua_createtable(L, 0, 1);
+    lua_createtable(L, 0, 3);
     cpl_set_number(L, "rate", rate);
+    if (has_t)
+        cpl_set_number(L, "barrier_fraction", fraction);
+    static const char *const flag_names[] = {"above_barrier", NULL};
+    cpl_set_flags(L, flags, flag_names);
     return 1;
 }
 
@@ -164,6 +172,21 @@ static int l_hold(lua_State *L)
     return 1;
 }
 
+static int l_evaporation_rate(lua_State *L)
+{
+    static const char *const keys[] = {"eta", NULL};
+    const char *fname = "collisions.evaporation_rate";
+    cpl_check_args(L, 1, fname, keys);
+    double eta = cpl_number(L, 1, fname, "eta", ""), ratio, fraction;
+    cp_error err;
+    if (cp_collisions_evaporation_rate(eta, &ratio, &fraction, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 2);
+    cpl_set_number(L, "ratio", ratio);
+    cpl_set_number(L, "truncated_fraction", fraction);
+    return 1;
+}
+
 static int l_evaporation(lua_State *L)
 {
     static const char *const keys[] = {"number", "temperature", "omega_bar", "omega_x",
@@ -225,7 +248,9 @@ static const cpl_function functions[] = {
      "abar / mu),\n"
      "              \"fermion\" (identical, p-wave: 1513 abar^3 k_B T / h)\n"
      "  temperature K, [1e-12, 0.01]; required for fermions only\n"
-     "Returns {rate} in m^3/s: beta in dn/dt = -beta n^2 (identical) or dn_a/dt = -beta n_a n_b.\n"
+     "Returns {rate} in m^3/s: beta in dn/dt = -beta n^2 (identical) or dn_a/dt = -beta n_a n_b;\n"
+     "  with a temperature also barrier_fraction = k_B T / E_1 (the p-wave barrier) and\n"
+     "  flags = {\"above_barrier\"} when it exceeds 0.1 (threshold laws no longer hold), else {}.\n"
      "Example: cp.collisions.universal_rate{c6_au = 16130, mass = 127*cp.units.amu/2, "
      "temperature = 300e-9, statistics = \"fermion\"}"},
     {"dipolar_cross_section", l_dipolar_cross_section,
@@ -259,10 +284,20 @@ static const cpl_function functions[] = {
      "Returns {number, temperature, surviving_fraction, times, numbers, temperatures}.\n"
      "Example: cp.collisions.hold{number = 2e4, temperature = 300e-9, omega_bar = 2*math.pi*100,"
      " mass = 2.1e-25, rate = 1e-17, duration = 0.5}"},
+    {"evaporation_rate", l_evaporation_rate,
+     "collisions.evaporation_rate{eta}: evaporation rate of a truncated Boltzmann gas in a 3D "
+     "harmonic trap over the elastic collision rate (Luiten, Reynolds & Walraven, PRA 53, 381 "
+     "(1996)), ratio = 2 e^-eta [eta - 4 P(4, eta)/P(3, eta)].\n"
+     "  eta  trap depth / k_B T, [5, 30]\n"
+     "Density convention: Gamma_el = <n> sigma v_rel, <n> = N (m wbar^2/(4 pi kB T))^(3/2) / "
+     "P(3, eta) (the Gaussian mean density of the truncated cloud's central density).\n"
+     "Returns {ratio (Gamma_ev / Gamma_el), truncated_fraction (P(3, eta))}.\n"
+     "Example: cp.collisions.evaporation_rate{eta = 8}"},
     {"evaporation", l_evaporation,
      "collisions.evaporation{number, temperature, omega_bar, mass, eta, ratio, final_number, "
      "wave = \"s\", kappa, points = 51}: evaporation at constant truncation eta in a fixed "
-     "harmonic trap with two-body loss (Ketterle & van Druten scaling model).\n"
+     "harmonic trap with two-body loss (Ketterle & van Druten scaling model; evaporation rate "
+     "from evaporation_rate).\n"
      "  number N0;  temperature T0, K;  omega_bar (or omega_x, _y, _z), rad/s;  mass, kg\n"
      "  eta  trap depth / k_B T, [5, 30];  kappa  extra energy per evaporated particle "
      "(default (eta-5)/(eta-4))\n"

@@ -162,6 +162,9 @@ static int l_binding_energy(lua_State *L)
         cpl_set_number(L, "abar", out.abar);
         cpl_set_number(L, "s_res", out.s_res);
     }
+    static const char *const flag_names[] = {"below_abar", "past_zero_crossing", "linear_broad",
+                                             NULL};
+    cpl_set_flags(L, out.flags, flag_names);
     return 1;
 }
 
@@ -415,10 +418,12 @@ static const cpl_function functions[] = {
      "  cp.feshbach.scattering_length{resonance = r, field = 546*cp.units.G}.a / cp.units.a0"},
     {"binding_energy", l_binding_energy,
      "feshbach.binding_energy{resonance, field (T), molecule [, model = 'auto', c6_au]}\n"
-     "  -> {energy (J), energy_hz (Hz), model, a (m), rstar (m), abar (m), s_res}\n"
+     "  -> {energy (J), energy_hz (Hz), model, a (m), rstar (m), abar (m), s_res, flags}\n"
      "Binding energy below the resonance (field < b0).  model: 'universal' hbar^2/(2 mu a^2),\n"
      "'corrected' hbar^2/(2 mu (a - abar)^2) (needs the atom-pair C6: resonance.c6_au or\n"
      "c6_au), 'linear' dmu |B - b0|, 'auto' (corrected where a > 2 abar + R*, else linear).\n"
+     "flags: validity flags, {} inside the range: 'below_abar' (0 < a < abar, no halo form\n"
+     "applies), 'past_zero_crossing' (a <= 0), 'linear_broad' (linear form at s_res >= 1).\n"
      "molecule: a name or cp.species.molecule table (for the reduced mass).  Example:\n"
      "  cp.feshbach.binding_energy{resonance = 'KRb', molecule = 'KRb',\n"
      "                             field = 546.4*cp.units.G}.energy_hz"},

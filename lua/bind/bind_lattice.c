@@ -367,6 +367,9 @@ static int l_scattering_rate(lua_State *L)
     return 1;
 }
 
+/* Names of the CP_LATTICE_FLAG_* bits, in bit order. */
+static const char *const FLAG_NAMES[] = {"shallow", "beyond_first_order", NULL};
+
 static int l_heating(lua_State *L)
 {
     static const char *const keys[] = {"scattering_rate", "polarizability_imag_au",
@@ -399,6 +402,7 @@ static int l_heating(lua_State *L)
     cpl_set_number(L, "temperature_rate", r.temperature_rate);
     cpl_set_number(L, "band_excitation_rate", r.band_excitation_rate);
     cpl_set_number(L, "lamb_dicke", r.lamb_dicke);
+    cpl_set_flags(L, r.flags, FLAG_NAMES);
     return 1;
 }
 
@@ -506,6 +510,7 @@ static int l_loading(lua_State *L)
     cpl_set_number(L, "simple_criterion", res.simple_criterion);
     cpl_set_number(L, "excited_fraction", res.excited_fraction);
     cpl_set_integer(L, "basis_size", res.basis_size);
+    cpl_set_flags(L, res.flags, FLAG_NAMES);
     return 1;
 }
 
@@ -589,7 +594,8 @@ static const cpl_function functions[] = {
      "Heating by photon scattering in a retro-reflected lattice of depth depth_er: each\n"
      "photon adds 2 E_rec.  Returns {scattering_rate (1/s), energy_rate (J/s per particle),\n"
      "temperature_rate (K/s, 3D harmonic), band_excitation_rate (1/s, out of the lowest band\n"
-     "along the axis: Gamma eta^2/3), lamb_dicke}.\n"
+     "along the axis: Gamma eta^2/3), lamb_dicke, flags ({\"shallow\"} below 3 E_r, where\n"
+     "eta^2 > 0.3 and the band-excitation rate does not hold; else {})}.\n"
      "Example: cp.lattice.heating{scattering_rate = 0.1, mass = cp.species.molecule('KRb').mass,\n"
      "         wavelength = 1064*cp.units.nm,\n"
      "         depth_er = 30}"},
@@ -604,7 +610,8 @@ static const cpl_function functions[] = {
      "sampled `samples` times over [0, duration]).  Returns {max_adiabaticity (max of\n"
      "hbar |<2|dH/dt|0>|/(E2-E0)^2, << 1 is adiabatic), max_time (s), max_depth_er,\n"
      "simple_criterion (max hbar |dV0/dt|/(16 E_r^2)), excited_fraction (first-order\n"
-     "estimate, bands 3 and 5 at q = 0), basis_size}.\n"
+     "estimate, bands 3 and 5 at q = 0), basis_size, flags ({\"beyond_first_order\"} when\n"
+     "excited_fraction > 0.05, past first-order perturbation theory; else {})}.\n"
      "Example: cp.lattice.loading{end_er = 20, duration = 10*cp.units.ms,\n"
      "         mass = cp.species.molecule('KRb').mass, wavelength = 1064*cp.units.nm}"},
     {NULL, NULL, NULL}};

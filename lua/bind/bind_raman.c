@@ -126,6 +126,9 @@ static int l_transfer(lua_State *L)
     lua_setfield(L, -2, "estimates");
     cpl_set_number(L, "t_start", r.t_start);
     cpl_set_number(L, "t_end", r.t_end);
+    cpl_set_number(L, "transfer_duration", r.transfer_duration);
+    static const char *const flag_names[] = {"estimates_detuned", NULL};
+    cpl_set_flags(L, r.flags, flag_names);
     cpl_set_integer(L, "steps", (lua_Integer)r.steps);
     cpl_set_string(L, "integrator", r.integrator);
     if (ntrace) {
@@ -195,7 +198,8 @@ static int l_lineshape(lua_State *L)
     "  shape = \"gaussian\" | \"sin2\" | \"sampled\"; sampled: times (s, increasing, >= 3),\n" \
     "           pump, stokes (rad/s at those times; Steffen interpolation, 0 outside)\n"      \
     "  branching_initial = 0, branching_target = 0  fractions of the |2> decay into |1>, |3>\n" \
-    "  gamma_initial = 0, gamma_target = 0  slow loss rates of |1>, |3> (1/s)\n"
+    "  gamma_initial = 0, gamma_target = 0  slow loss rates of |1>, |3> (1/s), acting over the\n" \
+    "           transfer duration |delay| + 2 width (sampled: the sample span)\n"
 
 static const cpl_function functions[] = {
     {"transfer", l_transfer,
@@ -209,7 +213,9 @@ static const cpl_function functions[] = {
      "  nonadiabatic_exponent} (closed forms; the last two, the Dykhne-Davis-Pechukas loss\n"
      "  4p(1-p), p = exp(-nonadiabatic_exponent), only for Gaussian pulses with delay >= width\n"
      "  and detuning = two_photon_detuning = 0),\n"
-     "  t_start, t_end (s), steps, integrator (\"rk8pd\" or \"msbdf\"), trace = {time, initial, excited, target, lost,\n"
+     "  flags = {\"estimates_detuned\"} when decay_loss and dephasing_loss are outside their\n"
+     "  range (|delta| overlap_time > 0.5 or |Delta| > max(gamma, Omega_rms)), else {},\n"
+     "  transfer_duration (s), t_start, t_end (s), steps, integrator (\"rk8pd\" or \"msbdf\"), trace = {time, initial, excited, target, lost,\n"
      "  coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if trace)}.\n"
      "Example: cp.raman.transfer{rabi_pump = 2*math.pi*5*cp.units.MHz,\n"
      "  rabi_stokes = 2*math.pi*5*cp.units.MHz, width = 2*cp.units.us, delay = 2.4*cp.units.us,\n"

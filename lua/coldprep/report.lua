@@ -9,8 +9,12 @@
 --              "T/T_c"), degeneracy, t_over_tf or t_over_tc, peak_density (m^-3),
 --              phase_space_density (peak), entropy_per_particle (kB), efficiency (this
 --              stage's N_out/N_in), cumulative_efficiency (N/N_start), duration (s),
---              elapsed (s), adiabatic, notes (list of strings)
+--              elapsed (s), adiabatic, failed (true when the stage's physics did not
+--              work out), failure (its reason, or nil), flags (list of {model, flag, text}:
+--              estimates used outside their stated range), notes (list of strings)
 --   start, final  records of the starting and the final sample (same fields)
+--   failed_stage (index) and failure (reason) when a stage failed: the verdict is then
+--   "not degenerate" and the stages after it were not run
 --   degenerate, threshold, verdict (text), limiting_stage (name), limiting_index, reason,
 --   ranking ({index, name, gain [, failed]} sorted, gain = relative rise of the final
 --   phase-space density when that stage is improved; NaN, with the message in `failed`,
@@ -45,9 +49,11 @@ local function record(index, name, s, info, start_number, before_number)
     -- an unknown duration is NaN: "-" in the table, empty in CSV, null in JSON
     duration = info and (info.duration_unknown and 0 / 0 or info.duration) or 0, elapsed = s.elapsed,
     adiabatic = info and info.adiabatic or false,
-    notes = {},
+    failed = info and info.failed ~= nil or false, failure = info and info.failed,
+    flags = {}, notes = {},
   }
   for _, n in ipairs(info and info.notes or {}) do r.notes[#r.notes + 1] = n end
+  for _, f in ipairs(info and info.flags or {}) do r.flags[#r.flags + 1] = f end
   return r
 end
 
@@ -157,6 +163,7 @@ function R.budget(run)
     b.limiting_stage = run.ranking[1].name
   end
   b.reason = run.reason
+  if run.failure then b.failed_stage, b.failure = run.failure.index, run.failure.reason end
   b.safety = cautions(plan)
   return b
 end
@@ -170,7 +177,7 @@ end
 
 local COLUMNS = {
   { "#", "", "%d", function(r) return r.index end, 2 },
-  { "stage", "", "%s", function(r) return r.name end, -16 },
+  { "stage", "", "%s", function(r) return r.failed and (r.name .. " FAILED") or r.name end, -16 },
   { "particles", "", "%s", function(r) return r.particles end, -22 },
   { "N", "", "%.3g", function(r) return r.number end, 9 },
   { "T", "nK", "%.4g", function(r) return r.temperature / cp.units.nK end, 8 },
@@ -287,15 +294,20 @@ end
 -- ---- CSV (RFC 4180) -------------------------------------------------------------------
 
 local CSV_FIELDS = { "index", "name", "kind", "particles", "number", "temperature_K",
-  "degeneracy_name", "degeneracy", "peak_density_m3", "phase_space_density",
+  "degeneracy_name", "degeneracy", "peak_density_per_m3", "phase_space_density",
   "entropy_per_particle_kB", "efficiency", "cumulative_efficiency", "duration_s", "elapsed_s",
-  "adiabatic", "notes" }
+  "adiabatic", "failed", "flags", "notes" }
 
 local function csv_value(r, f)
-  local map = { temperature_K = "temperature", peak_density_m3 = "peak_density",
+  local map = { temperature_K = "temperature", peak_density_per_m3 = "peak_density",
     entropy_per_particle_kB = "entropy_per_particle", duration_s = "duration", elapsed_s = "elapsed" }
   local v = r[map[f] or f]
   if f == "notes" then v = table.concat(r.notes, "; ") end
+  if f == "flags" then
+    local names = {}
+    for _, g in ipairs(r.flags) do names[#names + 1] = g.model .. "." .. g.flag end
+    v = table.concat(names, " ")
+  end
   if type(v) == "number" then
     if v ~= v or v == math.huge or v == -math.huge then return "" end
     if math.type(v) == "integer" then return tostring(v) end
@@ -402,7 +414,7 @@ function Budget:write_json(path)
     final = self.final, degenerate = self.degenerate, threshold = self.threshold,
     verdict = self.verdict, limiting_stage = self.limiting_stage,
     limiting_index = self.limiting_index, reason = self.reason, ranking = self.ranking,
-    safety = self.safety,
+    failed_stage = self.failed_stage, failure = self.failure, safety = self.safety,
   }
   local ok, err = f:write(json(doc, 0), "\n")
   local closed, cerr = f:close()
@@ -425,9 +437,10 @@ safety cautions).  Example: io.open("budget.txt", "w"):write(cp.plan{...}:run():
 cp.set_help(Budget.write_csv, [[
 budget:write_csv(path) writes the start and one line per stage as CSV (RFC 4180: comma
 separated, CRLF line ends, fields with commas, quotes or line breaks quoted).  Columns:
-index, name, kind, particles, number, temperature_K, degeneracy_name, degeneracy,
-peak_density_m3, phase_space_density, entropy_per_particle_kB, efficiency,
-cumulative_efficiency, duration_s, elapsed_s, adiabatic, notes (joined by "; ").
+index, name, kind, particles, number, temperature_K, degeneracy_name (T/T_F or T/T_c),
+degeneracy (its value), peak_density_per_m3, phase_space_density, entropy_per_particle_kB,
+efficiency, cumulative_efficiency, duration_s, elapsed_s, adiabatic, failed, flags (model.flag
+names, space separated), notes (joined by "; ").
 Example: cp.plan{...}:run():write_csv("budget.csv")]])
 cp.set_help(Budget.write_json, [[
 budget:write_json(path) writes the whole budget (stages, start, final, verdict, ranking,

@@ -49,6 +49,26 @@ local e = cp.collisions.evaporation { number = 2e4, temperature = 1e-6, omega_ba
 T.near(e.temperature, 1e-6 * 0.1 ^ ((8.6) / 3 - 1), 1e-6, "lossless evaporation scaling")
 T.check(e.efficiency > 0 and #e.phase_space_densities == 51, "PSD grows; default 51 points")
 
+-- COLL-L4b: the universal rate's validity flag: KRb (E_1/k_B ~ 24 uK) at 300 nK none, at
+-- 10 uK "above_barrier" (k_B T / E_1 > 0.1); the fraction against pwave_barrier.
+local KRB = cp.species.molecule("KRb")
+local bar = cp.collisions.pwave_barrier { c6_au = KRB.c6_au, mass = KRB.mass / 2 }.temperature
+local cold = cp.collisions.universal_rate { c6_au = KRB.c6_au, mass = KRB.mass / 2, temperature = 300e-9, statistics = "fermion" }
+local hot = cp.collisions.universal_rate { c6_au = KRB.c6_au, mass = KRB.mass / 2, temperature = 10e-6, statistics = "fermion" }
+T.check(#cold.flags == 0 and hot.flags[1] == "above_barrier", "above_barrier flag only when hot")
+T.near(hot.barrier_fraction, 10e-6 / bar, 1e-12, "barrier fraction k_B T / E_1")
+
+-- COLL-L5b: the evaporation rate constant at eta = 10 against the closed form of Luiten,
+-- Reynolds & Walraven, PRA 53, 381 (1996), P(n, x) = 1 - e^-x sum_{k<n} x^k/k! written out;
+-- bad eta raises naming the key.
+local x = 10
+local p3 = 1 - math.exp(-x) * (1 + x + x * x / 2)
+local p4 = p3 - math.exp(-x) * x ^ 3 / 6
+local ev = cp.collisions.evaporation_rate { eta = x }
+T.near(ev.ratio, 2 * math.exp(-x) * (x - 4 * p4 / p3), 1e-12, "Gamma_ev / Gamma_el at eta = 10")
+T.near(ev.truncated_fraction, p3, 1e-12, "P(3, 10)")
+T.raises(function() cp.collisions.evaporation_rate { eta = 4 } end, { "eta", "[5, 30]" }, "eta below 5")
+
 -- COLL-L6: dipolar cross-section and the collision ratio.
 local x = cp.collisions.dipolar_cross_section { dipole_debye = 0.2, mass = mu, statistics = "fermion" }
 T.near(x.cross_section, 32 * math.pi / 15 * x.dipole_length ^ 2, 1e-14, "sigma_F = 32 pi/15 D^2")

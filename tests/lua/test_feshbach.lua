@@ -32,6 +32,13 @@ local l = fb.binding_energy { resonance = r, molecule = m, field = 540 * G }
 T.check(l.model == "linear", "far below (a < 0) the linear form")
 T.near(l.energy, r.dmu * 6.7 * G, 1e-9, "linear dmu |B - B0|")
 T.near(b.abar / a0, 68.8, 0.01, "abar(40K-87Rb) = 68.8 a0 (Chin et al. RMP 2010 [M])")
+-- FB-L2b validity flags reach Lua: none near the pole; past the zero crossing B0 + Delta =
+-- 543.66 G (a = abg (1 + Delta/(B0 - B)) < 0 at 540 G, by hand) and the linear form on this
+-- s_res > 1 resonance are flagged.
+T.check(#b.flags == 0, "near the pole: no flag")
+local lf = {}
+for _, f in ipairs(l.flags) do lf[f] = true end
+T.check(lf.past_zero_crossing and lf.linear_broad and b.s_res > 1, "540 G: past the zero crossing, linear on a broad resonance")
 local nc = fb.binding_energy { resonance = r, molecule = m, field = 546.6 * G, c6_au = 8000 }
 T.check(nc.abar > b.abar, "explicit c6_au overrides the resonance's")
 

@@ -169,4 +169,16 @@ for name, f in pairs(cp.lattice) do
   T.check(type(cp.get_help(f)) == "string", "help text for lattice." .. name)
 end
 
+-- LAT-L-FLAG: the validity flags reach Lua: heating at 2 E_r is "shallow" (eta^2 =
+-- 1/(2 sqrt 2) > 0.3), at 10 E_r not; a linear 0 -> 10 E_r load in 0.1 ms leaves more than
+-- 5 % excited ("beyond_first_order"), in 1 ms not (first-order fractions, checked against
+-- an exact propagation in the unit test).
+local KM = cp.species.molecule("KRb").mass
+T.check(cp.lattice.heating { scattering_rate = 0.1, mass = KM, wavelength = 1064e-9, depth_er = 2 }.flags[1] == "shallow"
+  and #cp.lattice.heating { scattering_rate = 0.1, mass = KM, wavelength = 1064e-9, depth_er = 10 }.flags == 0,
+  "heating: shallow flag below 3 E_r only")
+local fast = cp.lattice.loading { shape = "linear", end_er = 10, duration = 1e-4, mass = KM, wavelength = 1064e-9 }
+local slow = cp.lattice.loading { shape = "linear", end_er = 10, duration = 1e-3, mass = KM, wavelength = 1064e-9 }
+T.check(fast.flags[1] == "beyond_first_order" and fast.excited_fraction > 0.05 and #slow.flags == 0,
+  "loading: beyond_first_order above 5 % excitation only")
 T.done()

@@ -1,6 +1,7 @@
 -- Sharp edges of the model stages that a user hits with unrealistic or impossible plans:
--- each must be an error naming the stage and the field, or a note in the budget, never a
--- silently implausible number.
+-- wrong input is an error naming the stage and the field; physics that does not work out
+-- is a failed stage in a budget that is still returned; an estimate out of its range is a
+-- note; never a silently implausible number.
 local T = require "testlib"
 local cp = require "coldprep"
 
@@ -21,8 +22,8 @@ local function plan(stages, T0)
 end
 local function notes(r) return table.concat(r.notes, " | ") end
 
--- EDGE-1 evaporation end points that cannot be reached are errors naming the stage and the
--- argument (they reached the C model as a final_number out of its range).
+-- EDGE-1 evaporation end points the sample has already passed are input errors naming the
+-- stage and the argument (they reached the C model as a final_number out of its range).
 T.raises(function() cp.stages.evaporate { eta = 8, keep = 1, ratio = 100 } end,
   { "stages.evaporate", "'keep'", "(0, 1)" }, "keep = 1 is no evaporation")
 T.raises(function() plan { cp.stages.evaporate { eta = 8, final_temperature = 1 * u.uK, ratio = 100 } }:run() end,
@@ -34,8 +35,47 @@ T.raises(function() plan { cp.stages.evaporate { eta = 8, final_number = 1e6, ra
 
 T.raises(function() cp.stages.evaporate { eta = 8, duration = 1, ratio = 100 } end,
   { "stages.evaporate", "'duration'", "cross_section" }, "a duration end point needs the collision rates")
-T.raises(function() plan { cp.stages.evaporate { eta = 8, duration = 1e5, cross_section = 1e-15, loss_rate = 0 } }:run() end,
-  { "stage 4 (evaporate)", "'duration'", "longer than the evaporation can last" }, "an unreachable duration")
+
+-- EDGE-1b end points the physics never reaches are a failed stage, not an error: the plan
+-- returns its budget, the stage is marked failed with the reason, the verdict is "not
+-- degenerate", the stages after it are not run and the sample is the one that entered it.
+-- Without loss no evaporation of 2.7e4 molecules lasts 1e5 s at sigma = 1e-15 m^2; with an
+-- elastic/loss ratio of 3 at eta = 8 the evaporating fraction f R ~ 8e-3 is far below the
+-- loss, so the cloud heats (Ketterle & van Druten 1996 [M]: d ln T/d ln N < 0 while
+-- (eta + kappa - 3) f R < 3 - 9/4) and never reaches 40 nK.
+local function failed_case(evap, what, reason)
+  local fb = plan { evap, cp.stages.hold { duration = 0.1 } }:run()
+  T.check(fb.failed_stage == 4 and fb.stages[4].failed == true, what .. ": stage 4 marked failed")
+  T.check(fb.failure:find(reason, 1, true) ~= nil and fb.stages[4].failure == fb.failure, what .. ": the reason")
+  T.check(fb.degenerate == false and fb.verdict:find("not degenerate: stage 4 (evaporate) failed", 1, true) == 1,
+    what .. ": verdict not degenerate, naming the stage")
+  T.check(fb.stages[5].failed == false and notes(fb.stages[5]):find("not run: stage 4", 1, true) ~= nil,
+    what .. ": the hold after it is not run")
+  T.near(fb.final.number, fb.stages[3].number, 1e-15, what .. ": the sample as it entered the stage")
+  T.check(fb.reason:find("failed", 1, true) ~= nil and #fb.ranking == 0, what .. ": reason, no ranking")
+  T.check(fb:text():find("evaporate FAILED", 1, true) ~= nil, what .. ": the table marks the row")
+end
+failed_case(cp.stages.evaporate { eta = 8, duration = 1e5, cross_section = 1e-15, loss_rate = 0 },
+  "unreachable duration", "longer than the evaporation can last")
+failed_case(cp.stages.evaporate { eta = 8, final_temperature = 40 * u.nK, ratio = 3 },
+  "unreachable temperature", "never falls to 40 nK")
+-- the same plans with reachable end points do not fail
+local okb = plan { cp.stages.evaporate { eta = 8, final_temperature = 250 * u.nK, ratio = 300 } }:run { limiting = false }
+T.check(okb.failed_stage == nil and okb.stages[4].failed == false and okb.final.temperature < 251 * u.nK,
+  "a reachable final temperature: no failure")
+
+-- EDGE-1c validity flags reach the budget: a hold of 23Na40K molecules with the universal
+-- p-wave rate at 300 nK (k_B T / E_1 ~ 0.025 of the barrier, E_1/k_B = 12 uK from
+-- cp.collisions.pwave_barrier) carries no flag; at 5 uK (0.41 > 0.1) the stage record
+-- carries {model = "collisions", flag = "above_barrier"}, a note, and the CSV names it.
+local function hold_at(T0)
+  return plan({ cp.stages.hold { duration = 0.01 } }, T0):run { limiting = false }.stages[4]
+end
+local cold, hot = hold_at(300 * u.nK), hold_at(5 * u.uK)
+T.check(#cold.flags == 0, "universal rate inside its range: no flag")
+T.check(#hot.flags == 1 and hot.flags[1].model == "collisions" and hot.flags[1].flag == "above_barrier",
+  "universal rate above a tenth of the p-wave barrier: flagged")
+T.check(notes(hot):find("outside its range (collisions.above_barrier)", 1, true) ~= nil, "and noted")
 
 -- EDGE-2 an evaporation whose duration follows only from a collision ratio has an unknown
 -- duration: NaN ("-"), not 0 ms, and the elapsed time says it is not counted.
@@ -51,8 +91,9 @@ T.near(ev.elapsed, b.stages[3].elapsed, 1e-12, "the elapsed time counts only kno
 -- EDGE-3 a slow evaporation (weak dipolar collisions) is flagged: its one-body loss is
 -- not modelled, and one lasting minutes is not a realistic plan.  The cross section of
 -- 1e-17 m^2 with ~1e18 m^-3 gives elastic rates of ~0.1 /s (order of magnitude by hand:
--- n sigma v = 1e18 * 1e-17 * 1e-2 m/s), of which a fraction eta e^-eta / sqrt 2 ~ 2e-3
--- evaporates (Ketterle & van Druten 1996 [M]): losing half takes ~1e3 s, far above a minute.
+-- n sigma v = 1e18 * 1e-17 * 1e-2 m/s), of which a fraction 2 (eta - 4) e^-eta ~ 3e-3
+-- evaporates (Luiten, Reynolds & Walraven, PRA 53, 381 (1996)): losing half takes ~1e3 s,
+-- far above a minute.
 local slow = plan { cp.stages.evaporate { eta = 8, keep = 0.5, cross_section = 1e-17, loss_rate = 0 } }
   :run { limiting = false }
 T.check(slow.stages[4].duration > 60, "slow evaporation: minutes")

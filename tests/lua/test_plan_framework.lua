@@ -265,6 +265,16 @@ T.check(csv:sub(-2) == "\r\n", "CSV ends in CRLF")
 local recs = parse_csv(csv)
 T.check(#recs == 4, "CSV: header, start and two stages")
 T.check(recs[1][1] == "index" and recs[1][#recs[1]] == "notes", "CSV header")
+-- every column with a unit names it (SI): K, per m^3, kB, s
+local col = {}
+for i, name in ipairs(recs[1]) do col[name] = i end
+for _, name in ipairs { "temperature_K", "peak_density_per_m3", "entropy_per_particle_kB", "duration_s",
+  "elapsed_s", "degeneracy_name", "degeneracy", "failed", "flags" } do
+  T.check(col[name] ~= nil, "CSV column " .. name)
+end
+T.near(tonumber(recs[4][col.peak_density_per_m3]), nb.final.peak_density, 1e-9, "CSV peak density in m^-3")
+T.check(recs[4][col.degeneracy_name] == nb.final.degeneracy_name and recs[4][col.failed] == "false",
+  "CSV: T/T_F or T/T_c named in every row; not failed")
 T.check(recs[4][#recs[4]] == 'a "quoted", noted\nline; tab\tctrl\1 ünï; latin-1 \233t\233',
   "CSV quoting round-trips (notes joined by '; ')")
 T.near(tonumber(recs[4][5]), nb.final.number, 1e-9, "CSV number column")

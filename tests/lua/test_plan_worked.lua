@@ -111,12 +111,21 @@ T.near(st[5].temperature, T5, 1e-6, "temperature after the hold (closed form)")
 
 -- WORKED-6 evaporation (Ketterle & van Druten 1996 scaling model, as documented in
 -- docs/models/collisions.md): d ln T / d ln N = [(eta + kappa - 3) r - (3 - eps)] / (3 (r + 1)),
--- r = R / lambda, lambda = sqrt(2) e^eta / eta, kappa = (eta - 5)/(eta - 4), eps = 9/4
--- (s-wave), R = R0 (T/T0)^(1/2).  Integrated here with classical RK4 in ln N.
+-- r = f R, f = 2 e^-eta [eta - 4 P(4, eta) / P(3, eta)] (Luiten, Reynolds & Walraven, PRA 53,
+-- 381 (1996); P(n, x) = 1 - e^-x sum_{k<n} x^k/k! written out here), kappa = (eta - 5)/(eta - 4),
+-- eps = 9/4 (s-wave), R = R0 (T/T0)^(1/2).  Integrated here with classical RK4 in ln N.
+local function gamma_p(n, x)
+  local s, term = 0, 1
+  for k = 0, n - 1 do
+    if k > 0 then term = term * x / k end
+    s = s + term
+  end
+  return 1 - math.exp(-x) * s
+end
+local function evap_f(e) return 2 * math.exp(-e) * (e - 4 * gamma_p(4, e) / gamma_p(3, e)) end
 local kappa = (eta - 5) / (eta - 4)
-local lam = math.sqrt(2) * math.exp(eta) / eta
 local function slope(lnT, T_start)
-  local r = ratio * math.sqrt(math.exp(lnT) / T_start) / lam
+  local r = ratio * math.sqrt(math.exp(lnT) / T_start) * evap_f(eta)
   return ((eta + kappa - 3) * r - (3 - 9 / 4)) / (3 * (r + 1))
 end
 local lnT, steps = math.log(T5), 2000
@@ -134,8 +143,8 @@ T.near(b.final.degeneracy, math.exp(lnT) / tc(N5 / 3, w4), 1e-6, "final T/T_c by
 
 -- WORKED-7 the evaporation's duration without two-body loss (cross section given): with
 -- T = T0 x^alpha (x = N/N0, alpha = (eta + kappa)/3 - 1, the no-loss scaling above) the
--- per-particle loss rate <n> f sigma v_rel, <n> = N (m wbar^2 / (4 pi kB T))^(3/2),
--- v_rel = sqrt(16 kB T / (pi m)), f = eta e^-eta / sqrt 2 (docs/models/collisions.md) is
+-- per-particle loss rate <n> f sigma v_rel, <n> = N (m wbar^2 / (4 pi kB T))^(3/2) / P(3, eta),
+-- v_rel = sqrt(16 kB T / (pi m)), f as in WORKED-6 (docs/models/collisions.md) is
 -- Gamma0 x^(1 - alpha), so t = integral dx x^(alpha - 2) / Gamma0 from x_f to 1
 -- = (1 - x_f^(alpha - 1)) / ((alpha - 1) Gamma0)   (integrated here by hand).
 local sigma, eta7 = 1e-16, 8
@@ -145,8 +154,8 @@ local b7 = cp.plan { start = { molecule = "87Rb133Cs", temperature = T0, atoms =
     cp.stages.evaporate { eta = eta7, keep = 0.5, cross_section = sigma, loss_rate = 0 } } }:run { limiting = false }
 local N6, T6 = b7.stages[2].number, b7.stages[2].temperature
 local alpha = (eta7 + (eta7 - 5) / (eta7 - 4)) / 3 - 1
-local n_mean = N6 * (mol.mass * wbar * wbar / (4 * pi * c.kB * T6)) ^ 1.5
-local gamma0 = n_mean * eta7 * math.exp(-eta7) / math.sqrt(2) * sigma * math.sqrt(16 * c.kB * T6 / (pi * mol.mass))
+local n_mean = N6 * (mol.mass * wbar * wbar / (4 * pi * c.kB * T6)) ^ 1.5 / gamma_p(3, eta7)
+local gamma0 = n_mean * evap_f(eta7) * sigma * math.sqrt(16 * c.kB * T6 / (pi * mol.mass))
 T.near(b7.final.temperature, T6 * 0.5 ^ alpha, 1e-6, "no-loss evaporation: T ~ N^alpha")
 T.near(b7.final.duration, (1 - 0.5 ^ (alpha - 1)) / ((alpha - 1) * gamma0), 1e-4,
   "evaporation time without loss (closed form)")

@@ -124,6 +124,48 @@ static void test_resonance_strength_published(void **state)
     assert_rel(out.abar / CP_A0, 68.8, 0.01);
 }
 
+/* FB-4b: validity flags of the binding energy, each with one case inside and one outside
+ * its range.  40K87Rb 546.7 G (Delta -3.04 G, abg -187 a0: a = abg (1 + Delta/(B0 - B)),
+ * zero crossing at B0 + Delta = 543.66 G, hand algebra; abar = 68.8 a0, s_res > 1): near
+ * the pole (546.6 G) no flag; at 544.0 G a = 23.5 a0 lies between 0 and abar (below_abar,
+ * and auto picks the linear form on this broad resonance: linear_broad); at 540 G a < 0
+ * (past_zero_crossing).  A narrow resonance (s_res << 1, the 87Rb133Cs-like one below)
+ * far from its pole uses the linear form where it belongs: no flag (its C6 5700 a.u. [M]
+ * only makes abar and s_res defined). */
+static void test_binding_flags(void **state)
+{
+    (void)state;
+    cp_feshbach_resonance r = krb();
+    double mu = mu_krb();
+    cp_feshbach_binding c;
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 546.6 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.flags, 0);
+    assert_true(c.s_res > 1.0);
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 544.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_rel(c.a / CP_A0, -187.0 * (1.0 - 3.04 / 2.7), 1e-9);
+    assert_int_equal(c.flags, CP_FESHBACH_FLAG_BELOW_ABAR | CP_FESHBACH_FLAG_LINEAR_BROAD);
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 540.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_true(c.flags & CP_FESHBACH_FLAG_PAST_ZERO);
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 545.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_false(c.flags & CP_FESHBACH_FLAG_PAST_ZERO);
+    cp_feshbach_resonance narrow = {197.1 * GAUSS, 0.0006 * GAUSS, 650.0 * CP_A0, 2.0 * CP_MUB,
+                                    5700.0};
+    double m2 = cp_reduced_mass(86.9 * CP_AMU, 132.9 * CP_AMU);
+    assert_int_equal(cp_feshbach_binding_energy(&narrow, m2, 196.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.model, CP_FESHBACH_LINEAR);
+    assert_true(c.s_res < 1.0);
+    assert_int_equal(c.flags, 0);
+    /* the linear form forced near the pole of the broad resonance */
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 546.6 * GAUSS, CP_FESHBACH_LINEAR, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.flags, CP_FESHBACH_FLAG_LINEAR_BROAD);
+}
+
 /* FB-4: binding energy.  Universal form hbar^2/(2 mu a^2) evaluated by hand; the corrected
  * form converges to it as a >> abar (ratio 1 + 2 abar/a + ...); far from resonance the auto
  * choice is the closed-channel line dmu |B - B0|; forced models outside their domain and
@@ -821,7 +863,7 @@ int main(void)
         cmocka_unit_test(test_scattering_length),
         cmocka_unit_test(test_mean_scattering_length),
         cmocka_unit_test(test_resonance_strength_published),
-        cmocka_unit_test(test_binding_energy),
+        cmocka_unit_test(test_binding_energy), cmocka_unit_test(test_binding_flags),
         cmocka_unit_test(test_lz_ode),
         cmocka_unit_test(test_ramp_law),
         cmocka_unit_test(test_site),

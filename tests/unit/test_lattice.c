@@ -594,6 +594,39 @@ static void test_loading(void **state)
     assert_close(b.max_time - 0.5, a.max_time, 1e-9);
 }
 
+/* LAT-15b: validity flags, each with one case inside and one outside its range.  Loading,
+ * linear 0 -> 10 E_r: in 1 ms the first-order fraction is below 1e-2 (LAT-15, no flag); in
+ * 0.1 ms it exceeds the stated 0.05, the flag is set, and the exact propagation above (the
+ * independent method) shows first order has left its range: 0.068 against 0.062, more than
+ * the 3 % of LAT-15 apart (checked: over 5 %).
+ * Heating: at 10 E_r no flag; at 2 E_r eta^2 = 1/(2 sqrt 2) = 0.35 (hand), flagged. */
+static void test_validity_flags(void **state)
+{
+    (void)state;
+    gsl_set_error_handler_off();
+    const double er = CP_H * 1389.0, unit = CP_HBAR / er;
+    cp_lattice_loading_result r;
+    cp_lattice_ramp slow = {CP_RAMP_LINEAR, 0.0, 10.0, 1e-3, 0, 1000, NULL, NULL, 0, er};
+    assert_int_equal(cp_lattice_loading(&slow, &r, NULL), CP_OK);
+    assert_true(r.excited_fraction < 0.05);
+    assert_int_equal(r.flags, 0);
+    cp_lattice_ramp fast = {CP_RAMP_LINEAR, 0.0, 10.0, 1e-4, 0, 1000, NULL, NULL, 0, er};
+    assert_int_equal(cp_lattice_loading(&fast, &r, NULL), CP_OK);
+    assert_true(r.excited_fraction > 0.05);
+    assert_int_equal(r.flags, CP_LATTICE_FLAG_BEYOND_FIRST_ORDER);
+    ode_ramp o = {CP_RAMP_LINEAR, 0.0, 10.0, 1e-4 / unit, 0.0};
+    double exact = ode_excited_fraction(&o);
+    if (!(fabs(r.excited_fraction / exact - 1.0) > 0.05))
+        fail_msg("first order %.4g vs exact %.4g: expected them to differ", r.excited_fraction,
+                 exact);
+    cp_lattice_heating_result h;
+    assert_int_equal(cp_lattice_heating(0.1, er, 10.0, &h, NULL), CP_OK);
+    assert_int_equal(h.flags, 0);
+    assert_int_equal(cp_lattice_heating(0.1, er, 2.0, &h, NULL), CP_OK);
+    assert_int_equal(h.flags, CP_LATTICE_FLAG_SHALLOW);
+    assert_rel(h.lamb_dicke * h.lamb_dicke, 1.0 / (2.0 * sqrt(2.0)), 1e-12);
+}
+
 /* LAT-16: bad input for depth, recoil, Wannier and loading. */
 static void test_other_bad_input(void **state)
 {
@@ -685,6 +718,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_edges_vs_gsl_mathieu),
+        cmocka_unit_test(test_validity_flags),
         cmocka_unit_test(test_basis_converged),
         cmocka_unit_test(test_free_particle_limit),
         cmocka_unit_test(test_harmonic_limit),

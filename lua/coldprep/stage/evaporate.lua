@@ -69,9 +69,9 @@ local function evaporate(args)
     accepts = { ["ground-state-molecules"] = true }, params = p, equipment = equipment,
     hint = "evaporation of molecules needs ground-state molecules: place it after cp.stages.transfer",
     run = function(_, s)
-      local notes = {}
+      local notes, flags = {}, {}
       local mol = s.molecule
-      local beta = loss_rate(s, p.loss_rate, notes)
+      local beta = loss_rate(s, p.loss_rate, notes, flags)
       local sigma = p.cross_section
       if not sigma and not p.ratio then
         local d, x = induced_dipole_debye(mol, p.electric_field)
@@ -132,7 +132,7 @@ local function evaporate(args)
         unknown = true
         notes[#notes + 1] = "duration unknown (only the collision ratio was given); not counted in the elapsed time"
       end
-      return out, { duration = duration, duration_unknown = unknown, notes = notes }
+      return out, { duration = duration, duration_unknown = unknown, notes = notes, flags = flags }
     end,
   })
 end
@@ -148,7 +148,8 @@ section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_
 (d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
 collisions.  Ends at a number, a kept fraction (0 < keep < 1), a temperature, or a trap
 depth (T = depth/(eta kB)), which must lie below the sample's, or after a duration (needs
-electric_field or cross_section).  Duration from the
+electric_field or cross_section).  An end point the physics never reaches (losses outrun
+the cooling, the cloud empties first) marks the stage failed in the budget.  Duration from the
 trajectory (unknown, NaN, with only a ratio); one-body loss is not modelled (a note
 flags evaporations longer than 1 s).  Example: cp.stages.evaporate{eta = 8, final_temperature = 60e-9,
 electric_field = 0.6e5}]] }

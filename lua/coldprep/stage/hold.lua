@@ -24,8 +24,8 @@ local function hold(args)
     accepts = MOLECULES, params = p,
     hint = "the hold models molecule losses; associate first",
     run = function(_, s)
-      local notes = {}
-      local beta = loss_rate(s, p.loss_rate, notes)
+      local notes, flags = {}, {}
+      local beta = loss_rate(s, p.loss_rate, notes, flags)
       local heating = p.heating_rate
       if s.lattice then
         heating = heating + s.lattice.heating_rate
@@ -39,7 +39,7 @@ local function hold(args)
       thermal_note(s, notes, "hold", "starts")
       local r = MODEL.hold(s, beta, p.lifetime, heating, p.duration)
       return S.with(s, { number = r.number, temperature = r.temperature }),
-        { duration = p.duration, notes = notes }
+        { duration = p.duration, notes = notes, flags = flags }
     end,
   })
 end

@@ -3,6 +3,7 @@
 -- a model call's arguments.  Used by the stage files in this folder.
 local cp = require "coldprep"
 local S = require "coldprep.sample"
+local common = require "coldprep.stage.common"
 
 local MODEL = {}
 
@@ -24,9 +25,10 @@ function MODEL.max_efficiency(a, b, samples, seed)
     samples = math.floor(samples), seed = math.floor(seed) }.max_efficiency
 end
 
--- The time the two-photon pulse sequence takes: the model's integration window.
+-- The time the two-photon pulse sequence takes: the model's transfer duration |delay| +
+-- 2 width (over which its slow losses act), not the longer integration window.
 function MODEL.pulse_duration(result)
-  return result.t_end - result.t_start
+  return result.transfer_duration
 end
 
 -- The temperature after an adiabatic change of the trap (cp.thermo.match_harmonic).
@@ -49,17 +51,18 @@ function MODEL.hold(s, beta, lifetime, heating, duration)
 end
 
 -- The time the evaporation takes along its trajectory (N_k, T_k): particles leave at the
--- evaporation rate f Gamma_el (f = eta e^-eta / sqrt 2 of the elastic collisions, Ketterle
--- & van Druten 1996, as in cp.collisions.evaporation) plus the two-body loss rate, so
--- dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2),
--- v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
+-- evaporation rate f Gamma_el (f and the truncated fraction P from
+-- cp.collisions.evaporation_rate, as in cp.collisions.evaporation) plus the two-body loss
+-- rate, so dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2)
+-- / P, v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
 -- Returns the time (s) at each point of the trajectory, 0 at the first.
 function MODEL.evaporation_times(s, r, eta, sigma, beta0)
   local m, kB = s.mass, cp.consts.kB
   local wbar = S.omega_bar(s.trap_frequencies)
-  local f = eta * math.exp(-eta) / math.sqrt(2)
+  local ev = cp.collisions.evaporation_rate { eta = eta }
+  local f = ev.ratio
   local function rate(N, T)
-    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5
+    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5 / ev.truncated_fraction
     local beta = s.statistics == "fermion" and beta0 * T / s.temperature or beta0
     return n * (f * sigma * math.sqrt(16 * kB * T / (math.pi * m)) + beta)
   end
@@ -105,14 +108,15 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
       return cp.collisions.evaporation(args)
     end
   end
+  -- physics, not input: the stage is marked failed and the plan still returns its budget
   if target.temperature then
-    error(string.format("the temperature never falls to %.3g nK (it ends at %.3g nK "
+    common.fail(string.format("the temperature never falls to %.3g nK (it ends at %.3g nK "
       .. "with %.3g particles left); losses outrun the cooling", target.temperature / cp.units.nK,
-      t[#t] / cp.units.nK, n[#n]), 0)
+      t[#t] / cp.units.nK, n[#n]))
   end
-  error(string.format("argument 'duration' = %.3g s is longer than the evaporation can last: after "
-    .. "%.3g s only %.3g of %.3g particles are left", target.duration,
-    MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number), 0)
+  common.fail(string.format("the requested duration %.3g s is longer than the evaporation can "
+    .. "last: after %.3g s only %.3g of %.3g particles are left", target.duration,
+    MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number))
 end
 
 -- The cubic lattice of three equal retro-reflected beams (cp.lattice.depth3d), its
