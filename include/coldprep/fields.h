@@ -108,45 +108,68 @@ cp_status cp_fields_shielding_gap(const cp_fields_rotor *rotor, double field, do
 
 /* ---- microwave dressing ------------------------------------------------------------------ */
 
-#define CP_FIELDS_MAX_ELLIPTICITY 0.7853981633974483 /* pi/4 rad: linear polarisation */
+#define CP_FIELDS_MAX_ELLIPTICITY 0.7853981633974483 /* pi/4 rad: linear, excluded */
+#define CP_FIELDS_MAX_DRESSING 0.1 /* Omega and Delta at most this fraction of 2B/hbar */
 
-/* A microwave near the J = 0 -> 1 transition (frequency 2B/h), coupling |0,0> to the
- * J = 1 state its polarisation addresses with Rabi frequency `rabi` (coupling hbar rabi / 2).
- * The polarisation is cos(xi) sigma+ + sin(xi) sigma- (xi = 0: circular, xi = pi/4:
- * linear), the ellipticity angle xi of Deng et al., PRL 130, 183001 (2023). */
+/* A microwave near the J = 0 -> 1 transition (angular frequency 2B/hbar) with polarisation
+ * cos(xi) sigma+ + sin(xi) sigma- (xi = 0: circular; the ellipticity angle of Deng et al.,
+ * PRL 130, 183001 (2023)).  It couples |0,0> to the J = 1 state |a> = cos(xi) |1,1>
+ * + sin(xi) |1,-1> with Rabi frequency Omega (coupling hbar Omega / 2); detuning
+ * Delta = omega_mw - 2B/hbar, blue > 0.  Rules (anything else is CP_EINVAL):
+ *   rabi         Omega in (0, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s;
+ *   detuning     Delta in [0, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s.  Red detuning
+ *                (Delta < 0) is refused: a molecule dressed from |0,0> then follows the
+ *                lower dressed state, which is not shielded.  Delta = 0 (resonant) is
+ *                allowed: the upper dressed state, reached by sweeping a blue-detuned
+ *                microwave onto resonance, is then an equal mixture, d_eff = d / sqrt(12);
+ *   ellipticity  xi in [0, pi/4) rad.  Linear polarisation (xi = pi/4) is refused: the
+ *                repulsive r^-6 core vanishes side by side (theta = pi/2) along the
+ *                polarisation, where the dipolar term attracts, so there is no shield. */
 typedef struct cp_fields_microwave_params {
-    double rabi;        /* Omega, rad/s, (0, 2 pi x 1e10] and below 0.2 x 2B/hbar */
-    double detuning;    /* Delta = omega_mw - 2B/hbar, rad/s, blue > 0; |Delta| below
-                           0.2 x 2B/hbar; see cp_fields_microwave for Delta <= 0 */
-    double ellipticity; /* xi, rad, [0, CP_FIELDS_MAX_ELLIPTICITY] */
+    double rabi;        /* Omega, rad/s */
+    double detuning;    /* Delta, rad/s */
+    double ellipticity; /* xi, rad */
 } cp_fields_microwave_params;
 
+/* Results for a molecule in the upper dressed state |+> = cos(m) |0,0> + sin(m) |a>. */
 typedef struct cp_fields_microwave_result {
-    double upper_hz;          /* E+/h, Hz: upper dressed state, rotating frame, from the
-                                 undressed |0,0> with one more photon (zero when Omega = 0
-                                 and Delta > 0) */
-    double lower_hz;          /* E-/h, Hz: lower dressed state */
-    double splitting_hz;      /* (E+ - E-)/h = sqrt(Delta^2 + Omega^2) / 2 pi, Hz */
-    double mixing_angle;      /* theta, rad, in (0, pi/2): |+> = cos(theta) |0,0>
-                                 + sin(theta) |1,*>, tan(2 theta) = Omega / Delta */
-    double effective_dipole;  /* d_eff = d sin(2 theta) / sqrt(12), C m: the static dipole
-                                 whose dipolar interaction has the dressed pair's strength */
-    double c3;                /* C3 = d_eff^2 / (4 pi eps0), J m^3; the long-range potential
-                                 of two molecules in |+> is -C3 (3 cos^2 - 1) / r^3 for
-                                 circular polarisation: sign-reversed dipolar */
-    double c6;                /* C6, J m^6: coefficient of the repulsive r^-6 shielding core
-                                 of Deng et al.'s effective potential (see fields_microwave.c) */
-    double delta_ratio;       /* Delta / Omega */
+    double upper_hz;         /* E+/h = (-Delta + Omega_e) / (4 pi), Hz, in the frame rotating
+                                with the microwave, from |0,0>; Omega_e = sqrt(Delta^2 +
+                                Omega^2) */
+    double lower_hz;         /* E-/h = (-Delta - Omega_e) / (4 pi), Hz */
+    double splitting_hz;     /* Omega_e / (2 pi), Hz */
+    double mixing_angle;     /* m, rad, in (0, pi/4]: tan(2 m) = Omega / Delta */
+    double delta_ratio;      /* delta = Delta / Omega */
+    double effective_dipole; /* d_eff = d sin(2 m) / sqrt(12) = d / sqrt(12 (1 + delta^2)),
+                                C m */
+    double c3;               /* C3 = d_eff^2 / (4 pi eps0) = d^2 / (48 pi eps0 (1 + delta^2)),
+                                J m^3 */
+    double c6;               /* C6 = d^4 / (128 pi^2 eps0^2 hbar Omega (1 + delta^2)^(3/2)),
+                                J m^6: the scale of the repulsive core */
+    double core_spectator;   /* s6 = 1 + (Omega_e - Delta) / (Delta + 3 Omega_e) */
+    double core_dressed;     /* t6 = (4/9) (cos^2 2m + sin^2 2m / 4) */
+    double ellipticity;      /* xi, rad (copied, used by cp_fields_microwave_potential) */
 } cp_fields_microwave_result;
 
-/* Dressed single-molecule quantities and the effective pair-potential coefficients for
- * molecules in the upper dressed state |+>.  Shielding (a repulsive core) needs blue
- * detuning: Delta < 0 is accepted for the single-molecule quantities, but c6 is then
- * NaN-free and negative-definite is not claimed: see the contract in fields_microwave.c.
- * CP_EINVAL for bad input (out poisoned). */
+/* Dressed single-molecule quantities and the coefficients of the long-range potential of
+ * two molecules in |+> (see cp_fields_microwave_potential).  CP_EINVAL for bad input
+ * (out poisoned). */
 cp_status cp_fields_microwave(const cp_fields_rotor *rotor,
                               const cp_fields_microwave_params *params,
                               cp_fields_microwave_result *out, cp_error *err);
+
+/* The effective potential (J) of two molecules in |+> at separation r (m, > 0) in the
+ * direction (theta, phi) (rad; theta from the microwave's propagation axis z, phi from the
+ * polarisation ellipse's axis), to second order in the dipole-dipole coupling:
+ *   V = 2 C3 (1 - 3p) / r^3 + C6 [4 p (1 - p) s6 + t6 (1 - 3p)^2] / r^6,
+ *   p = |eta . r^|^2 = (sin^2 theta / 2)(1 - sin 2xi cos 2phi),
+ * which for circular polarisation is C3 (3 cos^2 theta - 1) / r^3 (the sign-reversed
+ * dipolar interaction) + C6 [(1 - cos^4 theta) s6 + t6 (3 cos^2 theta - 1)^2 / 4] / r^6.
+ * Valid where the dipolar coupling d_eff^2 / (4 pi eps0 r^3) is small against
+ * hbar Omega_e (fields_microwave.c derives it).  mw from cp_fields_microwave. */
+cp_status cp_fields_microwave_potential(const cp_fields_microwave_result *mw, double r,
+                                        double theta, double phi, double *potential,
+                                        cp_error *err);
 
 #ifdef __cplusplus
 }
