@@ -25,11 +25,11 @@ static double coupling(int j, int m)
 
 cp_fields_work *cp_fields_work_alloc(int cap, int cap_levels)
 {
-    /* one block: the struct, 7 basis arrays of cap + 1 doubles, 6 level arrays of
-     * cap_levels doubles and 5 of 2 cap_levels, 3 level arrays of ints and 1 of 2 */
+    /* one block: the struct, 7 basis arrays of cap + 1 doubles, 7 level arrays of
+     * cap_levels doubles and 5 of 2 cap_levels, cap_levels + 2 cap_levels ints */
     size_t nb = (size_t)cap + 1, nl = (size_t)cap_levels;
-    size_t size = sizeof(cp_fields_work) + (7 * nb + 16 * nl) * sizeof(double) +
-                  5 * nl * sizeof(int);
+    size_t size = sizeof(cp_fields_work) + (7 * nb + 17 * nl) * sizeof(double) +
+                  3 * nl * sizeof(int);
     cp_fields_work *w = malloc(size);
     if (!w)
         return NULL;
@@ -40,17 +40,14 @@ cp_fields_work *cp_fields_work_alloc(int cap, int cap_levels)
     for (size_t i = 0; i < sizeof basis / sizeof basis[0]; i++, d += nb)
         *basis[i] = d;
     cp_fields_tri_scratch *t = &w->tri;
-    double **level[] = {&w->lambda, &w->scale, &w->energy, &w->cos_theta, &t->lo, &t->hi};
+    double **level[] = {&w->lambda, &w->scale, &w->energy, &w->cos_theta, &t->lo, &t->hi, &t->x};
     for (size_t i = 0; i < sizeof level / sizeof level[0]; i++, d += nl)
         *level[i] = d;
     double **level2[] = {&t->s, &t->step, &t->r, &t->dp, &t->sum};
     for (size_t i = 0; i < sizeof level2 / sizeof level2[0]; i++, d += 2 * nl)
         *level2[i] = d;
-    int *c = (int *)d;
-    int **ints[] = {&t->clo, &t->chi, &t->done};
-    for (size_t i = 0; i < sizeof ints / sizeof ints[0]; i++, c += nl)
-        *ints[i] = c;
-    t->count = c;
+    t->state = (int *)d;
+    t->count = t->state + nl;
     return w;
 }
 
