@@ -242,12 +242,13 @@ static void test_stark_map_vs_reference(void **state)
     assert_true(e2[NL] == 0.0 && e2[NL + 1] == 2 * KRB.rot_const_hz);
 }
 
-/* FLD-6: highly excited and strong-field states converge: J = 40 at |M| = 3, and 10 levels
- * at x = 1e5, against the reference with twice the basis. */
+/* FLD-6: highly excited and strong-field states converge: J = 40 at |M| = 3, J = 9 at
+ * x = 1e5 and J = 60 at x = 3e4 (whose basis outgrows the first workspace), against the
+ * reference with twice the basis. */
 static void test_hard_states(void **state)
 {
     (void)state;
-    double e, c, er[38], cr[38];
+    double e, c, er[61], cr[61];
     int n;
     assert_int_equal(cp_fields_stark_reduced(300.0, 40, 3, &e, &c, &n, NULL), CP_OK);
     reference(300.0, 3, 2 * n, 38, er, cr);
@@ -257,6 +258,11 @@ static void test_hard_states(void **state)
     reference(1e5, 0, 2 * n, 10, er, cr);
     assert_rel(e, er[9], 1e-10);
     assert_close(c, cr[9], 1e-8);
+    assert_int_equal(cp_fields_stark_reduced(3e4, 60, -1, &e, &c, &n, NULL), CP_OK);
+    assert_true(n > 200);
+    reference(3e4, -1, 2 * n, 60, er, cr);
+    assert_rel(e, er[59], 1e-10);
+    assert_close(c, cr[59], 1e-8);
 }
 
 /* The pair gap 2E(1,0) - E(0,0) - E(2,0) (units of B) from the reference solver. */
