@@ -40,9 +40,9 @@ void cp_fields_work_free(cp_fields_work *w);
 cp_status cp_fields_solve(cp_fields_work *w, double x, int m, int levels, const double *guess,
                           double *energy, double *cos_theta, int *basis_size);
 
-/* A basis capacity that usually holds the automatic basis at reduced field x for levels up
- * to J = |m| + levels - 1 (so that a solve seldom reallocates). */
-int cp_fields_basis_cap(double x, int m, int levels);
+/* A basis capacity that usually holds the automatic basis at reduced field x for the
+ * `levels` lowest levels of a block (so that a solve seldom reallocates). */
+int cp_fields_basis_cap(double x, int levels);
 
 /* Shared argument checks; context is "fields FUNCTION". */
 cp_status cp_fields_check_rotor(const char *context, const cp_fields_rotor *rotor,

@@ -83,9 +83,8 @@ static int first_size(double x, int levels)
     return levels + 6 + (int)ceil(4.0 * pow(x, 0.25));
 }
 
-int cp_fields_basis_cap(double x, int m, int levels)
+int cp_fields_basis_cap(double x, int levels)
 {
-    (void)m;
     int n = 2 * first_size(x, levels) + 16;
     return n < CP_FIELDS_MAX_BASIS ? n : CP_FIELDS_MAX_BASIS;
 }

@@ -42,7 +42,7 @@ static double gap_reduced(double x, void *p)
 static cp_status with_work(const char *context, double xmax, gap_ctx *c, cp_error *err)
 {
     c->status = CP_OK;
-    c->w = cp_fields_work_alloc(cp_fields_basis_cap(xmax, 0, 3), 3);
+    c->w = cp_fields_work_alloc(cp_fields_basis_cap(xmax, 3), 3);
     return c->w ? CP_OK : cp_fail(err, CP_ENOMEM, "%s: out of memory", context);
 }
 

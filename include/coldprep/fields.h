@@ -15,8 +15,8 @@
  *     (levels of equal M never cross), so the label is exact at every field;
  *   - the basis J = |M| .. |M| + basis_size - 1 is chosen automatically so that the
  *     estimated truncation error of every energy asked for is below CP_FIELDS_TOLERANCE
- *     relative (or 1e-13 B absolute where the energy is near zero); the size used is
- *     reported;
+ *     relative (a hundredth of it, in fact; where an energy passes near zero, 1e-15 of
+ *     B [J(J+1) + min(x, x^2)] absolute); the size used is reported;
  *   - the induced (lab-frame) dipole is -dE/dF = d <cos theta>, evaluated from the
  *     eigenvector (Hellmann-Feynman theorem), not by differencing energies.
  * The caller owns every array passed in; the library allocates nothing that outlives a
@@ -55,8 +55,9 @@ typedef struct cp_fields_rotor {
 
 typedef struct cp_fields_stark_result {
     double energy_hz;      /* E/h of the state, Hz, from the field-free J = 0 level */
-    double induced_dipole; /* -dE/dF = d <cos theta>, C m (negative: a high-field seeker
-                              has it positive; |J,M> states with J > 0 may have either sign) */
+    double induced_dipole; /* -dE/dF = d <cos theta>, C m: positive for a high-field seeker
+                              (E falls with F, as for J = 0), negative for a low-field
+                              seeker (e.g. |1,0> in a weak field) */
     double reduced_field;  /* x = d F / B */
     double energy_reduced; /* E / B */
     double cos_theta;      /* <cos theta> = induced_dipole / d, in [-1, 1] */

@@ -143,7 +143,7 @@ stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth 
 Evaporation of ground-state molecules at truncation eta (5..30) in the fixed trap
 (cp.collisions.evaporation, the scaling model).  Elastic collisions: the dipolar cross
 section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_field
-(d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
+(-dE/dF of J = 0, exact Stark effect: cp.fields.stark), or a given cross_section, or a given ratio of elastic to loss
 collisions.  Ends at a number, a kept fraction (0 < keep < 1), a temperature, or a trap
 depth (T = depth/(eta kB)), which must lie below the sample's, or after a duration (needs
 electric_field or cross_section).  Duration from the
