@@ -125,6 +125,27 @@ local want = cp.fields.stark { molecule = "KRb", field = F7 }.induced_dipole_deb
 T.check(note:find(string.format("induced dipole %.3g D", want), 1, true) ~= nil
   and note:find("exact Stark effect", 1, true) ~= nil, "FLD-L7 evaporate uses the exact Stark dipole: " .. note)
 
+-- FLD-L9: the example scripts/examples/stark_map.lua runs, draws its figure, and shows
+-- what it is meant to: the exact dipole grows with the field towards d and stays below the
+-- weak-field formula; NaK (2.72 D) is shielded at a lower field than KRb (0.574 D).
+local png = os.tmpname() .. ".png"
+local saved_arg = arg
+arg = { png }
+local ok, ex = pcall(dofile, "../../scripts/examples/stark_map.lua")
+arg = saved_arg
+T.check(ok, "FLD-L9 stark_map example runs: " .. tostring(ok or ex))
+if ok then
+  local kd, grows = ex.KRb.dipole, true
+  for i = 2, #kd do grows = grows and kd[i] > kd[i - 1] and kd[i] < krb.dipole_debye end
+  T.check(grows, "FLD-L9 KRb induced dipole grows towards d")
+  T.check(ex.NaK.shielding_field < ex.KRb.shielding_field, "FLD-L9 NaK shields at a lower field")
+  local f = io.open(png, "rb")
+  T.check(f ~= nil and f:read(4) == "\x89PNG", "FLD-L9 the figure is a PNG")
+  if f then f:close() end
+end
+os.remove(png)
+os.remove(png:sub(1, -5))
+
 -- FLD-L8: errors name the function, the argument, its value, unit and range.
 T.raises(function() cp.fields.stark { molecule = "KRb", field = -1 } end,
   { "fields stark", "field -1 V/m", "allowed [0, 1e+08] V/m" }, "FLD-L8 negative field")
