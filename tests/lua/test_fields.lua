@@ -72,7 +72,7 @@ T.near(lv.energy_hz[4][3], cp.fields.stark { molecule = "KRb", field = 1.5e6, j 
 
 -- FLD-L5: the dc-shielding field of KRb ~ 12.5 kV/cm (Gonzalez-Martinez, Bohn & Quemener,
 -- PRA 96, 032718 (2017); Li et al., Nature Phys. 17, 1144 (2021) [M]; 1 %), x_s = 3.244
--- (the issue's figure), and its scaling as B/d.
+-- (the value quoted in the trade [M]), and its scaling as B/d.
 local sh = cp.fields.shielding_field { molecule = "KRb" }
 T.near(sh.field / u.kV_per_cm, 12.5, 0.01, "FLD-L5 KRb shielding field 12.5 kV/cm")
 T.near(sh.reduced_field, 3.244, 2e-4, "FLD-L5 x_s = 3.244")

@@ -91,8 +91,8 @@ static void reference(double x, int m, int n, int levels, double *e, double *cth
 
 /* Second-order Stark shift of a linear rotor in units of x^2 B:
  * [J(J+1) - 3M^2] / [2 J(J+1)(2J-1)(2J+3)] for J > 0 and -1/6 for J = 0 (Townes &
- * Schawlow, Microwave Spectroscopy (McGraw-Hill, 1955), Ch. 10, Eq. 10-5 [M]; it gives the
- * issue's checks E(1,0) = 2B + x^2 B/10, E(1,+-1) = 2B - x^2 B/20). */
+ * Schawlow, Microwave Spectroscopy (McGraw-Hill, 1955), Ch. 10, Eq. 10-5 [M]; it gives
+ * E(1,0) = 2B + x^2 B/10, E(1,+-1) = 2B - x^2 B/20). */
 static double second_order(int j, int m)
 {
     if (j == 0)
@@ -120,7 +120,7 @@ static void test_weak_field(void **state)
                 assert_close(c, -2.0 * second_order(j, m) * x, 0.4 * x * x * x);
             }
     }
-    /* the issue's three checks in SI units: E(0,0) = -d^2F^2/(6B), E(1,0) = 2B +
+    /* the three low-J checks in SI units: E(0,0) = -d^2F^2/(6B), E(1,0) = 2B +
      * d^2F^2/(10B), E(1,1) = 2B - d^2F^2/(20B) at 10 V/cm for KRb (x = 2.6e-3) */
     double f = 1000.0, b = KRB.rot_const_hz, x = KRB.dipole * f / (CP_H * b);
     cp_fields_stark_result r;
@@ -292,7 +292,7 @@ static void test_shielding(void **state)
     double xs;
     assert_int_equal(cp_fields_shielding_reduced(&xs, NULL), CP_OK);
     assert_close(xs, 0.5 * (lo + hi), 1e-10);
-    assert_close(xs, 3.244, 5e-4); /* the x_s ~ 3.244 */
+    assert_close(xs, 3.244, 5e-4); /* x_s ~ 3.244, the value quoted in the trade [M] */
     double f, x2;
     assert_int_equal(cp_fields_shielding_field(&KRB, &f, &x2, NULL), CP_OK);
     assert_rel(f, 12.5e5, 0.01);
