@@ -111,13 +111,14 @@ cp_status cp_fields_shielding_gap(const cp_fields_rotor *rotor, double field, do
 
 #define CP_FIELDS_MAX_ELLIPTICITY 0.7853981633974483 /* pi/4 rad: linear, excluded */
 #define CP_FIELDS_MAX_DRESSING 0.1 /* Omega and Delta at most this fraction of 2B/hbar */
+#define CP_FIELDS_MIN_RABI 6.283185307179586 /* rad/s (2 pi x 1 Hz): weaker is no dressing */
 
 /* A microwave near the J = 0 -> 1 transition (angular frequency 2B/hbar) with polarisation
  * cos(xi) sigma+ + sin(xi) sigma- (xi = 0: circular; the ellipticity angle of Deng et al.,
  * PRL 130, 183001 (2023)).  It couples |0,0> to the J = 1 state |a> = cos(xi) |1,1>
  * + sin(xi) |1,-1> with Rabi frequency Omega (coupling hbar Omega / 2); detuning
  * Delta = omega_mw - 2B/hbar, blue > 0.  Rules (anything else is CP_EINVAL):
- *   rabi         Omega in (0, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s;
+ *   rabi         Omega in [CP_FIELDS_MIN_RABI, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s;
  *   detuning     Delta in [0, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s.  Red detuning
  *                (Delta < 0) is refused: a molecule dressed from |0,0> then follows the
  *                lower dressed state, which is not shielded.  Delta = 0 (resonant) is
@@ -167,7 +168,8 @@ cp_status cp_fields_microwave(const cp_fields_rotor *rotor,
  * which for circular polarisation is C3 (3 cos^2 theta - 1) / r^3 (the sign-reversed
  * dipolar interaction) + C6 [(1 - cos^4 theta) s6 + t6 (3 cos^2 theta - 1)^2 / 4] / r^6.
  * Valid where the dipolar coupling d_eff^2 / (4 pi eps0 r^3) is small against
- * hbar Omega_e (fields_microwave.c derives it).  mw from cp_fields_microwave. */
+ * hbar Omega_e (fields_microwave.c derives it).  mw from cp_fields_microwave; CP_EINVAL
+ * for r <= 0, non-finite angles, or an r so small that V overflows. */
 cp_status cp_fields_microwave_potential(const cp_fields_microwave_result *mw, double r,
                                         double theta, double phi, double *potential,
                                         cp_error *err);

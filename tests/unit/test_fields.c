@@ -514,7 +514,7 @@ static void test_bad_input(void **state)
     cp_fields_microwave_result mw;
     const double om = 2 * CP_PI * 10e6;
     const cp_fields_microwave_params bad_mw[] = {
-        {0.0, om, 0.0},         {-om, om, 0.0},        {NAN, om, 0.0},
+        {1.0, om, 0.0},         {-om, om, 0.0},        {NAN, om, 0.0},
         {om, -1.0, 0.0},        {om, NAN, 0.0},        {om, INFINITY, 0.0},
         {om, om, CP_FIELDS_MAX_ELLIPTICITY},           {om, om, -0.1},
         {om, om, NAN},          {1e12, om, 0.0},       {om, 1e12, 0.0}};
@@ -535,6 +535,14 @@ static void test_bad_input(void **state)
     assert_non_null(strstr(err.message, "r 0 m"));
     assert_int_equal(cp_fields_microwave_potential(&mw, 1e-7, NAN, 0.0, &v, &err), CP_EINVAL);
     assert_int_equal(cp_fields_microwave_potential(NULL, 1e-7, 0, 0.0, &v, &err), CP_EINVAL);
+    assert_int_equal(cp_fields_microwave_potential(&mw, 1e-60, 0.3, 0.0, &v, &err), CP_EINVAL);
+    assert_true(isnan(v));
+    assert_non_null(strstr(err.message, "too small"));
+    /* the weakest dressing accepted still gives finite coefficients */
+    cp_fields_microwave_params weakest = {CP_FIELDS_MIN_RABI, 0.1 * 2 * 2 * CP_PI * nak.rot_const_hz,
+                                          0.0};
+    assert_int_equal(cp_fields_microwave(&nak, &weakest, &mw, NULL), CP_OK);
+    assert_true(isfinite(mw.c6) && isfinite(mw.c3) && mw.c6 > 0);
 }
 
 int main(void)
