@@ -16,5 +16,6 @@
 #include "coldprep/collisions.h"
 #include "coldprep/feshbach.h"
 #include "coldprep/raman.h"
+#include "coldprep/fields.h"
 
 #endif

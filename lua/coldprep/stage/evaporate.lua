@@ -10,13 +10,11 @@ local leftover_note = common.leftover_note
 local thermal_note = common.thermal_note
 local LONG_EVAPORATION = common.LONG_EVAPORATION
 
--- Induced lab-frame dipole of a J = 0 molecule in a weak electric field F:
--- d_ind = d^2 F / (3 B) (second-order Stark shift -d^2 F^2 / (6 B), B the rotational
--- constant in J; standard perturbation theory [M]), valid while d F << B; capped at d.
+-- Induced lab-frame dipole -dE/dF (D) of a J = 0 molecule in an electric field F (V/m),
+-- from the exact rigid-rotor Stark effect (cp.fields.stark), and the reduced field d F / B.
 local function induced_dipole_debye(mol, field)
-  local d = mol.dipole_debye * cp.consts.debye
-  local B = cp.consts.h * mol.rot_const_hz
-  return math.min(d * d * field / (3 * B), d) / cp.consts.debye, d * field / B
+  local r = cp.fields.stark { molecule = mol, field = field }
+  return r.induced_dipole_debye, r.reduced_field
 end
 
 -- The largest elastic-to-loss ratio cp.collisions.evaporation accepts.
@@ -77,9 +75,9 @@ local function evaporate(args)
         local d, x = induced_dipole_debye(mol, p.electric_field)
         sigma = cp.collisions.dipolar_cross_section { dipole_debye = d, mass = mol.mass / 2,
           statistics = s.statistics }.cross_section
-        notes[#notes + 1] = string.format("induced dipole %.3g D at %.3g kV/cm (d F / B = %.2g%s); "
-          .. "dipolar elastic cross section %.3g cm^2", d, p.electric_field / 1e5, x,
-          x > 0.3 and ", beyond the weak-field formula" or "", sigma / 1e-4)
+        notes[#notes + 1] = string.format("induced dipole %.3g D at %.3g kV/cm (d F / B = %.2g, "
+          .. "exact Stark effect); dipolar elastic cross section %.3g cm^2", d,
+          p.electric_field / 1e5, x, sigma / 1e-4)
       end
       local ratio = p.ratio
       if not ratio and beta == 0 then
@@ -145,7 +143,7 @@ stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth 
 Evaporation of ground-state molecules at truncation eta (5..30) in the fixed trap
 (cp.collisions.evaporation, the scaling model).  Elastic collisions: the dipolar cross
 section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_field
-(d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
+(-dE/dF of J = 0, exact Stark effect: cp.fields.stark), or a given cross_section, or a given ratio of elastic to loss
 collisions.  Ends at a number, a kept fraction (0 < keep < 1), a temperature, or a trap
 depth (T = depth/(eta kB)), which must lie below the sample's, or after a duration (needs
 electric_field or cross_section).  An end point the physics never reaches (losses outrun
