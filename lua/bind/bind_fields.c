@@ -1,9 +1,9 @@
 /*
  * Lua binding: coldprep.fields over core/fields*.c — the dc Stark effect of a polar
  * molecule (one field or a Stark map), the dc-shielding field, and microwave dressing.
- * A `molecule` is a built-in species name (looked up in C, core/species.c) or a table with
- * dipole_debye (D) and rot_const_hz (B/h, Hz), such as cp.species.molecule returns; a
- * molecule added with cp.species.add_molecule is passed as that table.  Arrays handed to C
+ * A `molecule` is a species name (user-added or built-in, species_lookup.h) or a table with
+ * dipole_debye (D) and rot_const_hz (B/h, Hz), such as cp.species.molecule returns.  Arrays
+ * handed to C
  * live in userdata, so a Lua error never leaks them.
  */
 #include <lauxlib.h>
