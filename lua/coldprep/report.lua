@@ -43,6 +43,7 @@ local function record(index, name, s, info, start_number, before_number)
     -- an unknown duration is NaN: "-" in the table, empty in CSV, null in JSON
     duration = info and (info.duration_unknown and 0 / 0 or info.duration) or 0, elapsed = s.elapsed,
     adiabatic = info and info.adiabatic or false,
+    lattice = info and info.lattice, -- the lattice state, from load_lattice
     notes = {},
   }
   for _, n in ipairs(info and info.notes or {}) do r.notes[#r.notes + 1] = n end

@@ -66,7 +66,13 @@ local ml = cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, stat
   depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w }
 local before = cp.thermo.fermi { number = 2e4, omega_bar = w, mass = m, t_over_tf = 0.3 }
 T.near(ml.entropy_per_particle, before.entropy_per_particle, 1e-9, "match_lattice conserves S/N")
-T.check(ml.peak_filling > 0 and ml.peak_filling <= 1, "fermion filling per site in (0, 1]")
+-- Pauli: at most one fermion per band combination, bands^3 per site (by hand)
+T.check(ml.peak_filling > 0 and ml.peak_filling <= ml.bands ^ 3, "fermion filling per site in (0, bands^3]")
+T.check(ml.band_margin >= cp.thermo.lattice_margin and ml.bands_needed <= ml.bands,
+  "the automatic band choice leaves the first omitted band 20 kB T up")
+local one = cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, statistics = "fermion",
+  temperature = ml.temperature, depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w, bands = 1 }
+T.check(one.bands == 1 and one.peak_filling > 0 and one.peak_filling <= 1, "one band: filling in (0, 1]")
 local st = cp.thermo.lattice_state { number = 2e4, mass = m, statistics = "boson", temperature = 20e-9,
   depth_er = { 5, 5, 10 }, wavelength = 1064e-9, envelope_omega_bar = w, bands = 2 }
 T.check(st.condensed_fraction >= 0 and st.condensed_fraction < 1, "lattice_state boson fraction")
