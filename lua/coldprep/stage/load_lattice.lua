@@ -97,8 +97,11 @@ local function load_lattice(args)
           .. "per particle)", 100 * f, ds)
       end
       local u = s.statistics == "boson" and p.scattering_length and onsite_u(lat, p.scattering_length) or nil
-      local fill = MODEL.lattice_filling(s, lat, m.temperature, m.bands, u)
-      if s.statistics == "boson" and not u then
+      local ok, fill = pcall(MODEL.lattice_filling, s, lat, m.temperature, m.bands, u)
+      if not ok then
+        notes[#notes + 1] = "no filling statistics: " .. tostring(fill)
+        fill = {}
+      elseif s.statistics == "boson" and not u then
         notes[#notes + 1] = "bosonic filling in the hard-core limit (no scattering_length given)"
       end
       if lat.tunnelling > ATOMIC_LIMIT * kt then
@@ -127,11 +130,11 @@ local function load_lattice(args)
           depth_no_gravity = g.depth_no_gravity } }
       out.lattice = state
       notes[#notes + 1] = string.format("adiabatic loading alone: T = %.3g nK in the lattice (kB T = "
-        .. "%.2g of the on-site gap; %d bands per axis); central site empty %.2g, single %.2g, 2+ %.2g; "
-        .. "%.3g %% of the molecules alone on their site; the degeneracy shown is that of the same "
+        .. "%.2g of the on-site gap; %d bands per axis)%s; the degeneracy shown is that of the same "
         .. "entropy in the envelope trap (the lattice ramped down adiabatically)",
-        m.temperature / nK, state.kt_over_gap, m.bands, fill.center_empty, fill.center_single,
-        fill.center_multiple, 100 * fill.single_fraction)
+        m.temperature / nK, state.kt_over_gap, m.bands, ok and string.format("; central site empty "
+        .. "%.2g, single %.2g, 2+ %.2g; %.3g %% of the molecules alone on their site", fill.center_empty,
+        fill.center_single, fill.center_multiple, 100 * fill.single_fraction) or "")
       if lat.heating_rate > 0 then
         notes[#notes + 1] = string.format("photon scattering: %.3g /s per molecule, heating %.3g nK/s "
           .. "in later holds", lat.scattering_rate, lat.heating_rate / nK)
