@@ -291,6 +291,61 @@ static void test_filling_atomic_limit(void **state)
     }
 }
 
+/* THERMO-L4b: many orbitals (4 bands per axis of a 50 E_r lattice at k_B T = hbar omega/2):
+ * the central site's P(0), P(1) and mean occupation against the product over all 64
+ * orbitals written here, each at the sum of the axes' band means: fermions
+ * P0 = prod 1/(1 + zeta_k), P1 = P0 sum zeta_k, n = sum zeta_k/(1 + zeta_k); hard-core bosons
+ * the same for the lowest orbital and 1 - zeta_k, zeta_k/(1 - zeta_k) for the ideal excited
+ * ones (single-site grand-canonical sums, by hand). */
+static void test_filling_many_orbitals(void **state)
+{
+    (void)state;
+    enum { NB = 4, NP = 16 };
+    static double tables[3 * NB * NP];
+    double depth[3] = {50.0, 50.0, 50.0};
+    cp_thermo_lattice lat;
+    assert_int_equal(cp_thermo_lattice_bands(depth, LAMBDA, MASS, NB, NP, tables, &lat, NULL),
+                     CP_OK);
+    for (int a = 0; a < 3; a++)
+        lat.omega_envelope[a] = OMEGA;
+    lat.bins = 0;
+    double mean[NB] = {0};
+    for (int n = 0; n < NB; n++) {
+        for (int j = 0; j < NP; j++)
+            mean[n] += tables[j * NB + n] / NP;
+        mean[n] *= lat.recoil_energy;
+    }
+    double kt = sqrt(50.0) * lat.recoil_energy; /* hbar omega_site / 2 */
+    for (int fermi = 0; fermi < 2; fermi++) {
+        cp_thermo_trap tr = trap_of(fermi ? 3e4 : 1e4);
+        cp_thermo_filling_result f;
+        assert_int_equal(cp_thermo_lattice_filling(&lat, &tr, fermi ? CP_FERMION : CP_BOSON,
+                                                   kt / CP_KB, INFINITY, &f, NULL),
+                         CP_OK);
+        double mu = f.chemical_potential, p0 = 1.0, r = 0.0, n = 0.0;
+        for (int i = 0; i < NB; i++)
+            for (int j = 0; j < NB; j++)
+                for (int k = 0; k < NB; k++) {
+                    double z = exp((mu - mean[i] - mean[j] - mean[k]) / kt);
+                    int lowest = i + j + k == 0;
+                    if (fermi || lowest) {
+                        p0 /= 1.0 + z;
+                        n += z / (1.0 + z);
+                    } else {
+                        p0 *= 1.0 - z;
+                        n += z / (1.0 - z);
+                    }
+                    r += z;
+                }
+        print_message("%s: centre P0 %.6g P1 %.6g n %.6g\n", fermi ? "fermions" : "bosons",
+                      f.center_empty, f.center_single, f.center_filling);
+        assert_true(f.center_multiple > 1e-4); /* excited orbitals are occupied */
+        assert_rel(f.center_empty, p0, 1e-8);
+        assert_rel(f.center_single, p0 * r, 1e-8);
+        assert_rel(f.center_filling, n, 1e-8);
+    }
+}
+
 /* THERMO-L5: bad input: bosons without an on-site repulsion, NaN temperature, a NULL
  * lattice; outputs NaN. */
 static void test_filling_bad_input(void **state)
@@ -335,6 +390,7 @@ int main(void)
         cmocka_unit_test(test_harmonic_limit),
         cmocka_unit_test(test_auto_bands),
         cmocka_unit_test(test_filling_atomic_limit),
+        cmocka_unit_test(test_filling_many_orbitals),
         cmocka_unit_test(test_filling_bad_input),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
