@@ -485,11 +485,11 @@ static const cpl_function functions[] = {
      "1064e-9, envelope_omega_bar = 2*math.pi*60}"},
     {"lattice_filling", l_lattice_filling,
      "thermo.lattice_filling{number, mass, statistics, temperature, depth_er, wavelength, "
-     "envelope_omega_bar [, onsite_u = inf, bands, points, bins]}: site occupation "
+     "envelope_omega_bar [, onsite_u, bands, points, bins]}: site occupation "
      "statistics in the atomic limit (tunnelling << k_B T; sites independent, one orbital "
      "per band combination at the band means), envelope in the local-density "
      "approximation.\n"
-     "  onsite_u    bosons: Hubbard U of the lowest orbital, J, > 0 (inf = hard-core);\n"
+     "  onsite_u    bosons: Hubbard U of the lowest orbital, J, > 0 (omitted: hard-core);\n"
      "              fermions (one component) ignore it\n"
      "  the other arguments as thermo.lattice_state (bands omitted: the count it chooses)\n"
      "Returns {chemical_potential (J), center_empty, center_single, center_multiple\n"
