@@ -346,6 +346,38 @@ static void test_filling_many_orbitals(void **state)
     }
 }
 
+/* THERMO-L4c: two routes to the central filling of fermions in a deep lattice (300 E_r,
+ * k_B T = 3 E_r, J ~ 1e-7 E_r): the band model's LDA (cp_thermo_lattice_state, mean
+ * occupation per site at the centre) and the atomic limit (cp_thermo_lattice_filling).
+ * With flat bands both are N = A sum_k F_{1/2}(beta (mu - eps_k)), so they differ only by
+ * the band widths over k_B T and the quadratures. */
+static void test_filling_two_routes(void **state)
+{
+    (void)state;
+    static double tables[3 * 3 * 32];
+    double depth[3] = {300.0, 300.0, 300.0};
+    cp_thermo_lattice lat;
+    assert_int_equal(cp_thermo_lattice_bands(depth, LAMBDA, MASS, 3, 32, tables, &lat, NULL),
+                     CP_OK);
+    for (int a = 0; a < 3; a++)
+        lat.omega_envelope[a] = OMEGA;
+    lat.bins = 0;
+    double temperature = 3.0 * lat.recoil_energy / CP_KB;
+    for (int i = 0; i < 2; i++) {
+        cp_thermo_trap tr = trap_of(i ? 2e5 : 2e3);
+        cp_thermo_lattice_result r;
+        cp_thermo_filling_result f;
+        assert_int_equal(cp_thermo_lattice_state(&lat, &tr, CP_FERMION, temperature, &r, NULL),
+                         CP_OK);
+        assert_int_equal(cp_thermo_lattice_filling(&lat, &tr, CP_FERMION, temperature, 0.0, &f,
+                                                   NULL),
+                         CP_OK);
+        print_message("N = %g: centre filling %.8g (band model %.8g)\n", tr.number,
+                      f.center_filling, r.peak_filling);
+        assert_rel(f.center_filling, r.peak_filling, 1e-6);
+    }
+}
+
 /* THERMO-L5: bad input: bosons without an on-site repulsion, NaN temperature, a NULL
  * lattice; outputs NaN. */
 static void test_filling_bad_input(void **state)
@@ -391,6 +423,7 @@ int main(void)
         cmocka_unit_test(test_auto_bands),
         cmocka_unit_test(test_filling_atomic_limit),
         cmocka_unit_test(test_filling_many_orbitals),
+        cmocka_unit_test(test_filling_two_routes),
         cmocka_unit_test(test_filling_bad_input),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
