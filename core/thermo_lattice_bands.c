@@ -17,7 +17,7 @@ cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, d
 {
     static const char *const names[3] = {"depth_er (x)", "depth_er (y)", "depth_er (z)"};
     const char *ctx = "thermo lattice_bands";
-    CP_TRY(cp_check_int_range(err, ctx, "bands", bands, 1, 8));
+    CP_TRY(cp_check_int_range(err, ctx, "bands", bands, 1, CP_THERMO_LATTICE_MAX_BANDS));
     CP_TRY(cp_check_int_range(err, ctx, "quasimomentum points", points, 4, 256));
     if (!depth_er || !tables || !lat)
         return cp_fail(err, CP_EINVAL, "%s: depth_er, tables and lattice must not be NULL",

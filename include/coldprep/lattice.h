@@ -118,6 +118,29 @@ typedef struct cp_lattice_3d_result {
 cp_status cp_lattice_depth_3d(const cp_lattice_beam beams[3], double mass, int gravity_axis,
                               cp_lattice_3d_result *result, cp_error *err);
 
+/* The envelope of a 3D lattice against gravity (along gravity_axis, pointing to -s): the
+ * potential of the well bottoms along s through the centre,
+ *   V(s) = sum_{j != g} U_j exp(-2 s^2 / w_j^2) + U_g / (1 + s^2 / z_R,g^2) + m g s,
+ * U_j = axis[j].well_bottom < 0 (beams j != g vary across their Gaussian profile, beam g
+ * along its own axis, Rayleigh), the form whose curvature at s = 0 is the envelope
+ * frequency of cp_lattice_depth_3d.  The minimum is found on a grid over
+ * [-4 w, 2 w] (w the largest waist across gravity) refined by a parabola, the barrier
+ * below it likewise.  The on-site zero-point energy and the change of the lattice depth
+ * over the sag are left out. */
+typedef struct cp_lattice_gravity_result {
+    int held;              /* 1 if V has a minimum (the beams hold against gravity) */
+    double sag;            /* m, how far below the beam centre the minimum lies */
+    double omega;          /* rad/s, envelope frequency along gravity at the minimum */
+    double depth;          /* J, barrier below the minimum minus the minimum (0 if not held) */
+    double depth_no_gravity; /* J, -sum of the well bottoms: the envelope depth at g = 0 */
+    double max_gravity;    /* m/s^2, the largest g the envelope's force holds against */
+} cp_lattice_gravity_result;
+
+/* beams[3] along x, y, z as cp_lattice_depth_3d; mass in kg; gravity_axis 0, 1 or 2.
+ * Not being held is a result (held = 0, sag, omega and depth NaN/0), not an error. */
+cp_status cp_lattice_gravity(const cp_lattice_beam beams[3], double mass, int gravity_axis,
+                             cp_lattice_gravity_result *result, cp_error *err);
+
 /* ---- band structure ------------------------------------------------------------------- */
 
 /* The plane-wave basis size the automatic choice uses for `bands` bands at depth

@@ -192,6 +192,20 @@ static int l_depth3d(lua_State *L)
     cpl_set_number(L, "omega_bar", r.omega_bar);
     cpl_set_number(L, "well_bottom", r.well_bottom);
     cpl_set_number(L, "sag", r.sag);
+    cp_lattice_gravity_result g;
+    if (cp_lattice_gravity(beams, m, gravity, &g, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 6);
+    lua_pushboolean(L, g.held);
+    lua_setfield(L, -2, "held");
+    cpl_set_number(L, "depth", g.depth);
+    cpl_set_number(L, "depth_no_gravity", g.depth_no_gravity);
+    cpl_set_number(L, "max_gravity", g.max_gravity);
+    if (g.held) {
+        cpl_set_number(L, "sag", g.sag);
+        cpl_set_number(L, "omega", g.omega);
+    }
+    lua_setfield(L, -2, "gravity");
     return 1;
 }
 
@@ -545,7 +559,10 @@ static const cpl_function functions[] = {
      "A 3D lattice from three orthogonal retro-reflected beams (each a table with the keys of\n"
      "lattice.depth except mass and angle).  Returns {axes = {x, y, z} (results of\n"
      "lattice.depth), omega = {wx, wy, wz} (envelope, rad/s), omega_bar (rad/s),\n"
-     "well_bottom (J), sag (m, along gravity_axis 'x', 'y' or 'z')}.\n"
+     "well_bottom (J), sag (m, along gravity_axis 'x', 'y' or 'z', harmonic: g/omega^2),\n"
+     "gravity = {held (boolean), sag (m, of the true minimum), omega (rad/s, envelope\n"
+     "frequency along gravity there), depth (J, barrier below the minimum minus the\n"
+     "minimum), depth_no_gravity (J), max_gravity (m/s^2, the most the envelope holds)}}.\n"
      "Example: local u = cp.units; local b = {power = 1*u.W, waist = 150*u.um,\n"
      "  wavelength = 1064*u.nm, polarizability_au = 1000}\n"
      "  cp.lattice.depth3d{beams = {b, b, b}, mass = cp.species.molecule('KRb').mass}"},

@@ -425,9 +425,10 @@ stage's outcome made `perturbation` better to find the limiting stage (limiting 
 skips that analysis, e.g. inside a sweep).
 budget.stages[i] = {name, number, temperature (K), t_over_tf | t_over_tc, peak_density (m^-3),
   phase_space_density, entropy_per_particle (kB), efficiency, cumulative_efficiency,
-  duration (s), elapsed (s), failed, failure, flags, notes}; budget.final, budget.degenerate,
-  budget.verdict, budget.limiting_stage, budget.reason, budget.ranking ({index, name, gain
-  [, failed]}), budget.failed_stage and budget.failure when a stage failed.
+  duration (s), elapsed (s), failed, failure, flags, notes [, lattice: load_lattice's lattice
+  state]}; budget.final, budget.degenerate, budget.verdict, budget.limiting_stage,
+  budget.reason, budget.ranking ({index, name, gain [, failed]}), budget.failed_stage and
+  budget.failure when a stage failed.
 Example (p from help(cp.plan)): b = p:run(); print(b.final.number, b.limiting_stage)]])
 
 return P

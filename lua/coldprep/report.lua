@@ -50,6 +50,7 @@ local function record(index, name, s, info, start_number, before_number)
     duration = info and (info.duration_unknown and 0 / 0 or info.duration) or 0, elapsed = s.elapsed,
     adiabatic = info and info.adiabatic or false,
     failed = info and info.failed ~= nil or false, failure = info and info.failed,
+    lattice = info and info.lattice, -- the lattice state, from load_lattice
     flags = {}, notes = {},
   }
   for _, n in ipairs(info and info.notes or {}) do r.notes[#r.notes + 1] = n end

@@ -17,7 +17,8 @@
 --                       cloud has name, mass, statistics, number, temperature,
 --                       trap_frequencies and the derived fields below
 --   lattice             nil, or {depth (J), depth_er, wavelength (m), spacing (m), ...}
---                       once the sample sits in an optical lattice
+--                       once the sample sits in an optical lattice (the state
+--                       load_lattice records, see its help)
 --   elapsed             s since the start of the plan
 -- Derived by `derive` from the thermo model (cp.thermo.fermi / cp.thermo.bose), never
 -- typed in:

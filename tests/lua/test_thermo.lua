@@ -66,7 +66,19 @@ local ml = cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, stat
   depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w }
 local before = cp.thermo.fermi { number = 2e4, omega_bar = w, mass = m, t_over_tf = 0.3 }
 T.near(ml.entropy_per_particle, before.entropy_per_particle, 1e-9, "match_lattice conserves S/N")
-T.check(ml.peak_filling > 0 and ml.peak_filling <= 1, "fermion filling per site in (0, 1]")
+-- Pauli: at most one fermion per band combination, bands^3 per site (by hand)
+T.check(ml.peak_filling > 0 and ml.peak_filling <= ml.bands ^ 3, "fermion filling per site in (0, bands^3]")
+T.check(ml.band_margin >= cp.thermo.lattice_margin and ml.bands_needed <= ml.bands,
+  "the automatic band choice leaves the first omitted band 20 kB T up")
+local one = cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, statistics = "fermion",
+  temperature = ml.temperature, depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w, bands = 1 }
+T.check(one.bands == 1 and one.peak_filling > 0 and one.peak_filling <= 1, "one band: filling in (0, 1]")
+-- filling through the binding: probabilities sum to 1, at most one fermion per orbital
+local fl = cp.thermo.lattice_filling { number = 2e4, mass = m, statistics = "fermion",
+  temperature = ml.temperature, depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w }
+T.near(fl.center_empty + fl.center_single + fl.center_multiple, 1, 1e-12, "filling: probabilities")
+T.check(fl.bands >= 1 and fl.center_filling <= fl.bands ^ 3 and fl.sites_single <= fl.sites_occupied,
+  "filling: counts consistent")
 local st = cp.thermo.lattice_state { number = 2e4, mass = m, statistics = "boson", temperature = 20e-9,
   depth_er = { 5, 5, 10 }, wavelength = 1064e-9, envelope_omega_bar = w, bands = 2 }
 T.check(st.condensed_fraction >= 0 and st.condensed_fraction < 1, "lattice_state boson fraction")
@@ -101,6 +113,15 @@ T.raises(function() cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass 
 T.raises(function() cp.thermo.lattice_state { number = 2e4, mass = m, statistics = "fermion",
   temperature = 1e-7, depth_er = { 1, 2 }, wavelength = 1064e-9, envelope_omega_bar = w } end,
   { "depth_er" }, "depth_er with two values")
+T.raises(function() cp.thermo.lattice_state { number = 2e4, mass = m, statistics = "fermion",
+  temperature = 1e-7, depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w, bands = 33 } end,
+  { "bands", "33", "[1, 32]" }, "more bands than the model keeps")
+T.raises(function() cp.thermo.lattice_filling { number = 2e4, mass = m, statistics = "boson",
+  temperature = 1e-7, depth_er = 40, wavelength = 1064e-9, envelope_omega_bar = w, onsite_u = 0 } end,
+  { "onsite_u", "0 J", "not positive" }, "ideal bosons have no atomic-limit filling")
+T.raises(function() cp.thermo.lattice_filling { number = 2e4, mass = m, statistics = "fermion",
+  temperature = 1e-7, depth_er = 40, wavelength = 1064e-9, envelope_omega_bar = w, onsit_u = 1 } end,
+  { "unknown argument 'onsit_u'", "onsite_u" }, "filling: unknown key")
 T.raises(function() cp.thermo.fermi(5) end, { "expects one table" }, "not a table")
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = 0, mass = m, temperature = 1e-7 } end,
   { "omega_bar", "out of range", "rad/s" }, "zero omega_bar is named as given")

@@ -119,12 +119,13 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
     MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number))
 end
 
--- The cubic lattice of three equal retro-reflected beams (cp.lattice.depth3d), its
--- loading ramp (cp.lattice.loading: the fraction left in excited bands at q = 0), the
--- energy of that excitation (band 1 to band 3 at q = 0, the first band parity couples,
--- cp.lattice.bands) and the photon-scattering heating (cp.lattice.heating) at the
--- intensity the molecules sit in: three standing waves, each (1 + sqrt(R))^2 I0 at its
--- antinodes.
+-- The cubic lattice of three equal retro-reflected beams (cp.lattice.depth3d, gravity along
+-- z), its loading ramp (cp.lattice.loading: the fraction left in excited bands at q = 0),
+-- the energy of that excitation (band 1 to band 3 at q = 0, the first band parity couples,
+-- cp.lattice.bands), the tunnelling J of the lowest band (cp.lattice.tunnelling), the
+-- photon-scattering heating (cp.lattice.heating) at the intensity the molecules sit in
+-- (three standing waves, each (1 + sqrt(R))^2 I0 at its antinodes), and the envelope
+-- against gravity: its frequency along z at the sagged minimum replaces the harmonic one.
 function MODEL.lattice(s, p)
   local beam = { power = p.power, waist = p.waist, wavelength = p.wavelength,
     polarizability_au = p.polarizability_au, reflectivity = p.reflectivity }
@@ -133,9 +134,13 @@ function MODEL.lattice(s, p)
   local load = cp.lattice.loading { shape = p.ramp_shape, start_er = 0, end_er = ax.depth_er,
     duration = p.ramp_time, mass = s.mass, wavelength = p.wavelength }
   local e = cp.lattice.bands { depth_er = ax.depth_er, bands = 3, quasimomenta = { 0 } }.energies_er[1]
-  local out = { depth_er = ax.depth_er, depth = ax.depth, omega = d3.omega, spacing = ax.spacing,
-    wavelength = p.wavelength, excited_fraction = load.excited_fraction,
-    excitation_energy = (e[3] - e[1]) * ax.recoil, heating_rate = 0, scattering_rate = 0 }
+  local g = d3.gravity
+  local omega = { d3.omega[1], d3.omega[2], g.held and g.omega or d3.omega[3] }
+  local out = { depth_er = ax.depth_er, depth = ax.depth, omega = omega, spacing = ax.spacing,
+    wavelength = p.wavelength, recoil = ax.recoil, omega_site = ax.omega_site,
+    tunnelling = cp.lattice.tunnelling { depth_er = ax.depth_er }.tunnelling_er * ax.recoil,
+    excited_fraction = load.excited_fraction, excitation_energy = (e[3] - e[1]) * ax.recoil,
+    heating_rate = 0, scattering_rate = 0, gravity = g }
   if p.imag_polarizability_au > 0 then
     local intensity = 3 * (1 + math.sqrt(p.reflectivity)) ^ 2 * ax.peak_intensity
     local h = cp.lattice.heating { polarizability_imag_au = p.imag_polarizability_au,
@@ -145,12 +150,29 @@ function MODEL.lattice(s, p)
   return out
 end
 
--- The gas after adiabatic loading into the lattice `lat` (cp.thermo.match_lattice).
-function MODEL.match_lattice(s, lat)
+-- The lattice arguments of cp.thermo for the lattice `lat` (bands chosen automatically).
+local function lattice_args(s, lat)
   local args = S.thermo_trap(s)
-  args.temperature, args.depth_er, args.wavelength = s.temperature, lat.depth_er, lat.wavelength
+  args.depth_er, args.wavelength = lat.depth_er, lat.wavelength
   args.envelope_omega_x, args.envelope_omega_y, args.envelope_omega_z = lat.omega[1], lat.omega[2], lat.omega[3]
+  return args
+end
+
+-- The gas after adiabatic loading into the lattice `lat` (cp.thermo.match_lattice, as many
+-- bands as k_B T needs).
+function MODEL.match_lattice(s, lat)
+  local args = lattice_args(s, lat)
+  args.temperature = s.temperature
   return cp.thermo.match_lattice(args)
+end
+
+-- Site occupation statistics at temperature T with `bands` bands (cp.thermo.lattice_filling;
+-- onsite_u (J) for bosons, nil = hard-core).
+function MODEL.lattice_filling(s, lat, temperature, bands, onsite_u)
+  local args = lattice_args(s, lat)
+  args.omega_x, args.omega_y, args.omega_z = nil, nil, nil
+  args.temperature, args.bands, args.onsite_u = temperature, bands, onsite_u
+  return cp.thermo.lattice_filling(args)
 end
 
 return MODEL
