@@ -50,6 +50,22 @@ T.check(L.envelope.held and L.envelope.sag > cp.consts.g / L.envelope.omega[1] ^
   and L.envelope.omega[3] < L.envelope.omega[1], "the envelope sags against gravity")
 T.check(L.envelope.depth < L.envelope.depth_no_gravity, "gravity lowers the envelope depth")
 
+-- LATT-1b validity flags reach the budget: a 50 ms ramp stays within first-order loading,
+-- a 20 us one does not (its excited fraction passes ~5 %, cp.lattice.loading's range).
+local function lattice_flags(record)
+  local names = {}
+  for _, fl in ipairs(record.flags) do names[#names + 1] = fl.model .. "." .. fl.flag end
+  return table.concat(names, ",")
+end
+T.check(not lattice_flags(rec):find("lattice.loading", 1, true), "a slow ramp raises no loading flag")
+local fast = plan("23Na40K", {
+    { atom = "23Na", number = 4e5, trap_frequencies = { Hz(90), Hz(110), Hz(220) } },
+    { atom = "40K", number = 1.5e5, trap_frequencies = { Hz(110), Hz(135), Hz(270) } } },
+  200 * u.nK, { wavelength = 1064 * u.nm, power = 0.6, waist = 180 * u.um,
+    polarizability_au = 700, ramp_time = 20 * u.us }):run { limiting = false }
+T.check(lattice_flags(fast.stages[4]):find("lattice.loading.beyond_first_order", 1, true),
+  "a fast ramp's loading flag is in the budget: " .. lattice_flags(fast.stages[4]))
+
 -- LATT-2 bosonic NaRb from 548 nK into a ~620 E_r lattice (on-site gap ~50 E_r): many bands
 -- are occupied.  One band must hold all the entropy in the envelope and comes out far
 -- hotter (cp.thermo.match_lattice with bands = 1, the model this stage used before); the

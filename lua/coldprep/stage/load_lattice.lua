@@ -177,7 +177,19 @@ local function load_lattice(args)
         add(notes, "photon scattering: %.3g /s per molecule, heating %.3g nK/s in later holds",
           lat.scattering_rate, lat.heating_rate / cp.units.nK)
       end
-      return out, { duration = p.ramp_time, notes = notes, adiabatic = true, lattice = state }
+      -- the loading and heating models' validity flags (first-order excitation beyond ~5 %,
+      -- heating estimates in lattices shallower than ~3 E_r) go into the budget
+      local flags = {}
+      for _, f in ipairs(lat.loading_flags) do
+        common.flag(flags, notes, "lattice.loading", f, string.format("%.3g %% excited: the "
+          .. "first-order loading estimate is beyond its range", 100 * lat.excited_fraction))
+      end
+      for _, f in ipairs(lat.heating_flags) do
+        common.flag(flags, notes, "lattice.heating", f, string.format("a %.3g E_r lattice: the "
+          .. "Lamb-Dicke heating estimate is beyond its range", lat.depth_er))
+      end
+      return out, { duration = p.ramp_time, notes = notes, adiabatic = true, lattice = state,
+        flags = flags }
     end,
   })
 end

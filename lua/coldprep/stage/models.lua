@@ -140,12 +140,14 @@ function MODEL.lattice(s, p)
     wavelength = p.wavelength, recoil = ax.recoil, omega_site = ax.omega_site,
     tunnelling = cp.lattice.tunnelling { depth_er = ax.depth_er }.tunnelling_er * ax.recoil,
     excited_fraction = load.excited_fraction, excitation_energy = (e[3] - e[1]) * ax.recoil,
-    heating_rate = 0, scattering_rate = 0, gravity = g }
+    heating_rate = 0, scattering_rate = 0, gravity = g, loading_flags = load.flags,
+    heating_flags = {} }
   if p.imag_polarizability_au > 0 then
     local intensity = 3 * (1 + math.sqrt(p.reflectivity)) ^ 2 * ax.peak_intensity
     local h = cp.lattice.heating { polarizability_imag_au = p.imag_polarizability_au,
       intensity = intensity, mass = s.mass, wavelength = p.wavelength, depth_er = ax.depth_er }
     out.heating_rate, out.scattering_rate = h.temperature_rate, h.scattering_rate
+    out.heating_flags = h.flags
   end
   return out
 end
