@@ -26,10 +26,11 @@ typedef struct cp_radial_grid {
 
 /* Loss probability of one channel at wave number k (1/m, > 0): u_pot[i] = 1/4 + r_i^2
  * 2 mu V_i / hbar^2 (3D, V including the centrifugal term) or m^2 + r_i^2 2 mu V_i /
- * hbar^2 (2D), so that w'' = (u_pot - k^2 r^2) w for u = r^{1/2} w in x = ln r; the wave
+ * hbar^2 (2D), so that w'' = (u_pot - k^2 r^2) w for u = r^{1/2} w in x = ln r (r2[i] =
+ * r_i^2, precomputed by the caller); the wave
  * is purely incoming at r_0 and the potential negligible near r_{n-1}.  CP_ENUMERIC when
  * the result is not a probability (grid too coarse). */
-cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, double k,
-                               double *prob, cp_error *err);
+cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, const double *r2,
+                               double k, double *prob, cp_error *err);
 
 #endif

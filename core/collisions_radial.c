@@ -36,29 +36,28 @@ static cp_status hankel_in(double nu, double z, double complex *out, cp_error *e
     return CP_OK;
 }
 
-cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, double k,
-                               double *prob, cp_error *err)
+cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, const double *r2,
+                               double k, double *prob, cp_error *err)
 {
     *prob = NAN;
     /* stop where the potential has fallen below 2 % of the collision energy (plus a few
      * steps), so fast collisions are matched before the grid gets coarse against k r */
     size_t n = g->n;
+    double k2 = k * k;
     for (size_t i = g->n; i-- > 1;) {
-        double ri = exp(g->x0 + (double)i * g->h);
-        if (fabs(u_pot[i] - g->nu * g->nu) > 0.02 * k * k * ri * ri) {
+        if (fabs(u_pot[i] - g->nu * g->nu) > 0.02 * k2 * r2[i]) {
             n = i + 8 < g->n ? i + 8 : g->n;
             break;
         }
     }
     if (n < 8)
         n = 8;
-    if (k * exp(g->x0 + (double)(n - 1) * g->h) * g->h > 0.5)
+    if (k * sqrt(r2[n - 1]) * g->h > 0.5)
         return cp_fail(err, CP_ENUMERIC, "collisions radial: step %g in ln r is too coarse "
-                       "for k r = %g at the matching radius", g->h,
-                       k * exp(g->x0 + (double)(n - 1) * g->h));
+                       "for k r = %g at the matching radius", g->h, k * sqrt(r2[n - 1]));
     double h = g->h, h12 = h * h / 12.0;
     /* F_i = u_pot_i - k^2 r_i^2: w'' = F w for u = r^{1/2} w, x = ln r */
-#define F_AT(i) (u_pot[i] - k * k * exp(2.0 * (g->x0 + (double)(i) * h)))
+#define F_AT(i) (u_pot[i] - k2 * r2[i])
     double f0 = F_AT(0), f1 = F_AT(1);
     /* incoming WKB wave at the inner edge, w ~ |F|^{-1/4} exp(-i int |F|^{1/2} dx) (in a
      * classically forbidden inner edge the same form is the matched, reflection-free
@@ -68,27 +67,32 @@ cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, dou
     double complex w1 = cexp(-I * 0.5 * h * (q0 + q1)) / sqrt(q1);
     double complex y0 = (1.0 - h12 * f0) * w0, y1 = (1.0 - h12 * f1) * w1;
     double fprev = f1;
+    /* Numerov: y_i = (12 - 10 a_{i-1}) / a_{i-1} y_{i-1} - y_{i-2}, a = 1 - h^2 F / 12,
+     * with y = a w; real and imaginary parts carried separately (the factor is real) */
+    double yr0 = creal(y0), yi0 = cimag(y0), yr1 = creal(y1), yi1 = cimag(y1);
     for (size_t i = 2; i < n; i++) {
-        double fi = F_AT(i);
-        /* Numerov: y_{i} = (12 - 10 a_{i-1}) / a_{i-1} y_{i-1} - y_{i-2}, a = 1 - h^2 F / 12,
-         * with y = a w */
         double a = 1.0 - h12 * fprev;
-        double complex y2 = (12.0 - 10.0 * a) / a * y1 - y0;
-        y0 = y1;
-        y1 = y2;
-        fprev = fi;
-        double m = cabs(y1);
+        double c = (12.0 - 10.0 * a) / a;
+        double yr2 = c * yr1 - yr0, yi2 = c * yi1 - yi0;
+        yr0 = yr1;
+        yi0 = yi1;
+        yr1 = yr2;
+        yi1 = yi2;
+        fprev = F_AT(i);
+        double m = fabs(yr1) + fabs(yi1);
         if (m > 1e150) { /* rescale: only ratios and the Wronskian ratio matter */
-            y0 /= m;
-            y1 /= m;
+            yr0 /= m;
+            yi0 /= m;
+            yr1 /= m;
+            yi1 /= m;
         }
     }
-#undef F_AT
+    y0 = yr0 + I * yi0;
+    y1 = yr1 + I * yi1;
     /* the last two points: w = y / a */
-    double fa = u_pot[n - 2] - k * k * exp(2.0 * (g->x0 + (double)(n - 2) * h));
-    double fb = u_pot[n - 1] - k * k * exp(2.0 * (g->x0 + (double)(n - 1) * h));
+    double fa = F_AT(n - 2), fb = F_AT(n - 1);
     double complex wa = y0 / (1.0 - h12 * fa), wb = y1 / (1.0 - h12 * fb);
-    double ra = exp(g->x0 + (double)(n - 2) * h), rb = exp(g->x0 + (double)(n - 1) * h);
+    double ra = sqrt(r2[n - 2]), rb = sqrt(r2[n - 1]);
     double complex ua = sqrt(ra) * wa, ub = sqrt(rb) * wb;
 
     /* u = A h_in + B conj(h_in): solve for A */
@@ -101,6 +105,7 @@ cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, dou
      * by the recursion; the flux of A h_in is -k |A|^2 */
     double flux = cimag(conj(y0) * y1) / (h * (1.0 - h12 * fa) * (1.0 - h12 * fb));
     /* a rescaling of the y's scales amp and the flux alike: the ratio is scale-free */
+#undef F_AT
     double p = -flux / (k * creal(amp * conj(amp)));
     if (!isfinite(p) || p < -1e-6 || p > 1.0 + 1e-3)
         return cp_fail(err, CP_ENUMERIC, "collisions radial: absorption probability %g is "

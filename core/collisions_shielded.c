@@ -243,7 +243,7 @@ static double inner_radius(const work *w, const channel *ch, double mat[3][NB][N
         return pow(p->c6_core / (CP_HBAR * omega_eff), 1.0 / 6.0);
     }
     double lo = r_top * 1e-4, hi = r_top;
-    for (int it = 0; it < 60; it++) { /* bisection in ln r; |u_pot| falls outward */
+    for (int it = 0; it < 40; it++) { /* bisection in ln r (to 1e-6 relative) */
         double mid = sqrt(lo * hi);
         if (fabs(u_at(w, ch, mat, mid)) > F_INNER)
             lo = mid;
@@ -339,18 +339,22 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
         if (n < 16)
             n = 16;
         free(upot);
-        upot = malloc(n * sizeof *upot);
+        upot = malloc(2 * n * sizeof *upot); /* u_pot, then r^2 */
         if (!upot) {
             st = cp_fail(err, CP_ENOMEM, "collisions shielded: cannot allocate the grid");
             goto done;
         }
         cp_radial_grid g = {n, log(rin), h,
                             two_d ? (double)chans[c].m : chans[c].lmin + 0.5};
-        for (size_t i = 0; i < n; i++)
-            upot[i] = u_at(&w, &chans[c], mat, exp(g.x0 + (double)i * h));
+        double *r2 = upot + n;
+        for (size_t i = 0; i < n; i++) {
+            double ri = exp(g.x0 + (double)i * h);
+            upot[i] = u_at(&w, &chans[c], mat, ri);
+            r2[i] = ri * ri;
+        }
         for (int e = 0; e < N_ENERGY; e++) {
             double prob;
-            if ((st = cp_radial_absorption(&g, upot, sqrt(w.k2fac * kt * nodes[e]), &prob,
+            if ((st = cp_radial_absorption(&g, upot, r2, sqrt(w.k2fac * kt * nodes[e]), &prob,
                                            err)))
                 goto done;
             loss_sum[e] += chans[c].mult * prob;
