@@ -364,22 +364,12 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     /* rate coefficients: g = 2 for identical particles;
      * 3D K(E) = g pi hbar / (mu k) sum P;  2D K(E) = g hbar / mu sum P */
     double kloss = 0.0, kel = 0.0, vmean = 0.0;
-    double sigma_born, dl;
-    {
-        double d_eff = sqrt(4.0 * CP_PI * CP_EPS0 * w.t.c3);
-        cp_error e2;
-        if (d_eff > 0.0) {
-            double dd = fmin(d_eff / CP_DEBYE, 20.0);
-            if ((st = cp_collisions_dipolar_cross_section(dd, w.mu, p->stat, &sigma_born, &dl,
-                                                          &e2))) {
-                *err = e2;
-                goto done;
-            }
-        } else {
-            sigma_born = 0.0;
-            dl = 0.0;
-        }
-    }
+    double sigma_born = 0.0, dl = 0.0;
+    double d_eff = sqrt(4.0 * CP_PI * CP_EPS0 * w.t.c3); /* <= the checked dipole, 20 D */
+    if (d_eff > 0.0 &&
+        (st = cp_collisions_dipolar_cross_section(d_eff / CP_DEBYE, w.mu, p->stat, &sigma_born,
+                                                  &dl, err)))
+        goto done;
     double s_wave = (!fermi && p->regime != CP_SHIELD_MICROWAVE) ? 16.0 * CP_PI * abar * abar
                                                                    : 0.0;
     for (int e = 0; e < N_ENERGY; e++) {
@@ -393,12 +383,12 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
                                                           gsl_integration_fixed_laguerre,
                                                           N_ENERGY, 0.0, 1.0, 0.5, 0.0)
                                                     : NULL;
-        const double *n3 = two_d ? gsl_integration_fixed_nodes(q3) : nodes;
-        const double *w3 = two_d ? gsl_integration_fixed_weights(q3) : weights;
         if (two_d && !q3) {
             st = cp_fail(err, CP_ENOMEM, "collisions shielded: cannot allocate quadratures");
             goto done;
         }
+        const double *n3 = two_d ? gsl_integration_fixed_nodes(q3) : nodes;
+        const double *w3 = two_d ? gsl_integration_fixed_weights(q3) : weights;
         for (int e = 0; e < N_ENERGY; e++) {
             double k = sqrt(w.k2fac * kt * n3[e]);
             double v = CP_HBAR * k / w.mu;
