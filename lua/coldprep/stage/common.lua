@@ -150,8 +150,8 @@ end
 local REGIME_NAMES = { dc_3d = "dc field in free space", quasi_2d = "quasi-2D pancakes",
   microwave = "microwave shielding" }
 
--- A note on predicted rates r at temperature T (K).
-function M.rates_note(r, T, notes)
+-- A note on predicted rates r at temperature T (K) for the sample s's molecules.
+function M.rates_note(s, r, T, notes)
   local pr = r.regime == "dc_3d" and r.dipole_debye == 0 and "no field (field-free)"
     or REGIME_NAMES[r.regime]
   notes[#notes + 1] = string.format("collision rates predicted for %s (%s dipole %.3g D) at "
@@ -159,6 +159,10 @@ function M.rates_note(r, T, notes)
     r.regime == "microwave" and "effective" or "induced", r.dipole_debye, T / cp.units.nK,
     r.loss_rate_coefficient / cp.units.cm3, r.elastic_rate_coefficient / cp.units.cm3,
     r.ratio, r.method)
+  if not s.molecule.reactive and r.regime ~= "microwave" then
+    notes[#notes + 1] = "non-reactive " .. s.molecule.name .. ": loss at short range (sticky "
+      .. "complexes) taken as certain, as for reactive molecules"
+  end
   if not r.valid then
     notes[#notes + 1] = "outside the collision model's validity: " .. r.note
   end

@@ -73,7 +73,7 @@ local function evaporate(args)
       local beta, sigma, ratio = nil, p.cross_section, p.ratio
       if follow then
         local r0 = rates(s.temperature).result
-        common.rates_note(r0, s.temperature, notes)
+        common.rates_note(s, r0, s.temperature, notes)
         common.unprotected_note(protection, r0.ratio, notes)
         beta, sigma, ratio = r0.loss_rate_coefficient, r0.cross_section, r0.ratio
       else
@@ -98,6 +98,7 @@ local function evaporate(args)
         ratio = ratio or cp.collisions.collision_ratio { cross_section = sigma, rate = beta,
           mass = mol.mass, temperature = s.temperature }.ratio
         notes[#notes + 1] = string.format("ratio of elastic to loss collisions %.3g at the start", ratio)
+        if not p.ratio and not p.loss_rate then common.unprotected_note(protection, ratio, notes) end
       end
       leftover_note(s, notes)
       thermal_note(s, notes, "evaporation", "starts")

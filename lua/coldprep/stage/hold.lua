@@ -31,7 +31,7 @@ local function hold(args)
       local beta
       if protection and not p.loss_rate then
         local r = common.predicted_rates(s, protection, s.temperature)
-        common.rates_note(r, s.temperature, notes)
+        common.rates_note(s, r, s.temperature, notes)
         beta = r.loss_rate_coefficient
       else
         if protection then
