@@ -9,10 +9,12 @@
 #include "coldprep/fields.h"
 #include "fields_tri_int.h"
 
-/* Scratch for one M block of up to `cap` basis states and `cap_levels` levels; owned by
+/* Scratch for one M block of `cap_levels` levels and a basis of up to `cap` states (the
+ * basis arrays grow when the solve needs more; the level arrays stay in place); owned by
  * the caller of cp_fields_work_alloc, released with cp_fields_work_free (NULL is a no-op). */
 typedef struct cp_fields_work {
     int cap, cap_levels;
+    double *basis_block;   /* owns diag .. vec */
     double *diag;          /* J(J+1), J = |M| + i, i < cap + 1 */
     double *coup;          /* <J|cos theta|J+1>, i < cap (the last one couples the basis to
                               the first omitted level: the truncation estimate) */
@@ -31,15 +33,16 @@ void cp_fields_work_free(cp_fields_work *w);
  * (cp_fields.h: tolerance).  energy[n], cos_theta[n] (may be NULL) for J = |m| + n;
  * *basis_size receives the size used.  Inputs already validated (0 <= x, |m| + levels - 1
  * <= CP_FIELDS_MAX_J).  If guess is non-NULL it holds starting values for the energies
- * (e.g. the previous point of a map); they only speed the solve up.  CP_ENOMEM when the
- * workspace is too small for the basis needed (callers size it with
- * cp_fields_basis_cap), CP_ENOCONV if the iteration fails (not expected). */
+ * (e.g. the previous point of a map, w->lambda); they only speed the solve up.  The basis
+ * arrays are reallocated if the basis outgrows w->cap (CP_ENOMEM if that fails);
+ * CP_ENOCONV if the basis would exceed CP_FIELDS_MAX_BASIS or the iteration fails (not
+ * expected). */
 cp_status cp_fields_solve(cp_fields_work *w, double x, int m, int levels, const double *guess,
                           double *energy, double *cos_theta, int *basis_size);
 
-/* A basis capacity sure to hold the automatic basis at reduced field x for levels up to
- * J = |m| + levels - 1. */
-int cp_fields_basis_cap(double x, int m, int levels);
+/* A basis capacity that usually holds the automatic basis at reduced field x for the
+ * `levels` lowest levels of a block (so that a solve seldom reallocates). */
+int cp_fields_basis_cap(double x, int levels);
 
 /* Shared argument checks; context is "fields FUNCTION". */
 cp_status cp_fields_check_rotor(const char *context, const cp_fields_rotor *rotor,

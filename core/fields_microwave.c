@@ -58,7 +58,8 @@ static cp_status check(const cp_fields_rotor *rotor, const cp_fields_microwave_p
         return cp_fail(err, CP_EINVAL, "%s: params is NULL", ctx);
     /* the two-level, rotating-wave model needs Omega, Delta << the carrier 2B/hbar */
     double wmax = CP_FIELDS_MAX_DRESSING * 2.0 * 2.0 * CP_PI * rotor->rot_const_hz;
-    CP_TRY(cp_check_range(err, ctx, "rabi", p->rabi, "rad/s", 0.0, wmax, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "rabi", p->rabi, "rad/s", CP_FIELDS_MIN_RABI, wmax,
+                          CP_CLOSED));
     if (isfinite(p->detuning) && p->detuning < 0)
         return cp_fail(err, CP_EINVAL,
                        "%s: detuning %g rad/s is red of the J = 0 -> 1 transition: a molecule "
@@ -110,7 +111,9 @@ cp_status cp_fields_microwave_potential(const cp_fields_microwave_result *mw, do
 {
     static const char ctx[] = "fields microwave_potential";
     *potential = NAN;
-    if (!mw || !(mw->c3 > 0 && mw->c6 > 0 && isfinite(mw->c3) && isfinite(mw->c6)))
+    if (!mw || !(mw->c3 > 0 && mw->c6 > 0 && isfinite(mw->c3) && isfinite(mw->c6) &&
+                 isfinite(mw->core_spectator) && isfinite(mw->core_dressed) &&
+                 mw->ellipticity >= 0 && mw->ellipticity < CP_FIELDS_MAX_ELLIPTICITY))
         return cp_fail(err, CP_EINVAL, "%s: mw is not a result of cp_fields_microwave", ctx);
     CP_TRY(cp_check_range(err, ctx, "r", r, "m", 0.0, INFINITY, CP_OPEN));
     CP_TRY(cp_check_finite(err, ctx, "theta", theta, "rad"));
@@ -119,8 +122,12 @@ cp_status cp_fields_microwave_potential(const cp_fields_microwave_result *mw, do
     double p = 0.5 * st * st * (1.0 - sin(2.0 * mw->ellipticity) * cos(2.0 * phi));
     double q = 1.0 - 3.0 * p;
     double r3 = r * r * r;
-    *potential = 2.0 * mw->c3 * q / r3 +
-                 mw->c6 * (4.0 * p * (1.0 - p) * mw->core_spectator + mw->core_dressed * q * q) /
-                     (r3 * r3);
+    double v = 2.0 * mw->c3 * q / r3 +
+               mw->c6 * (4.0 * p * (1.0 - p) * mw->core_spectator + mw->core_dressed * q * q) /
+                   (r3 * r3);
+    if (!isfinite(v))
+        return cp_fail(err, CP_EINVAL, "%s: r %g m is too small: the potential overflows; "
+                       "allowed r well above the shield radius (~1e-9 m)", ctx, r);
+    *potential = v;
     return CP_OK;
 }

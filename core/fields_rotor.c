@@ -23,39 +23,56 @@ static double coupling(int j, int m)
     return sqrt((jp * jp - (double)m * m) / ((2.0 * j + 1.0) * (2.0 * j + 3.0)));
 }
 
-cp_fields_work *cp_fields_work_alloc(int cap, int cap_levels)
+/* (Re)allocate the basis arrays for cap states (plus the first omitted one). */
+static int basis_alloc(cp_fields_work *w, int cap)
 {
-    /* one block: the struct, 7 basis arrays of cap + 1 doubles, 6 level arrays of
-     * cap_levels doubles and 5 of 2 cap_levels, 3 level arrays of ints and 1 of 2 */
-    size_t nb = (size_t)cap + 1, nl = (size_t)cap_levels;
-    size_t size = sizeof(cp_fields_work) + (7 * nb + 16 * nl) * sizeof(double) +
-                  5 * nl * sizeof(int);
-    cp_fields_work *w = malloc(size);
-    if (!w)
-        return NULL;
+    size_t nb = (size_t)cap + 1;
+    double *d = malloc(7 * nb * sizeof(double));
+    if (!d)
+        return 0;
+    free(w->basis_block);
+    w->basis_block = d;
     w->cap = cap;
-    w->cap_levels = cap_levels;
-    double *d = (double *)(w + 1);
     double **basis[] = {&w->diag, &w->coup, &w->off, &w->off2, &w->fwd, &w->bwd, &w->vec};
     for (size_t i = 0; i < sizeof basis / sizeof basis[0]; i++, d += nb)
         *basis[i] = d;
+    return 1;
+}
+
+cp_fields_work *cp_fields_work_alloc(int cap, int cap_levels)
+{
+    /* one block for the struct and the level arrays: 7 of cap_levels doubles and 5 of
+     * 2 cap_levels, cap_levels + 2 cap_levels ints; the basis arrays apart, since they
+     * grow when a basis larger than cap is needed */
+    size_t nl = (size_t)cap_levels;
+    size_t size = sizeof(cp_fields_work) + 17 * nl * sizeof(double) + 3 * nl * sizeof(int);
+    cp_fields_work *w = malloc(size);
+    if (!w)
+        return NULL;
+    w->basis_block = NULL;
+    w->cap_levels = cap_levels;
+    if (!basis_alloc(w, cap)) {
+        free(w);
+        return NULL;
+    }
+    double *d = (double *)(w + 1);
     cp_fields_tri_scratch *t = &w->tri;
-    double **level[] = {&w->lambda, &w->scale, &w->energy, &w->cos_theta, &t->lo, &t->hi};
+    double **level[] = {&w->lambda, &w->scale, &w->energy, &w->cos_theta, &t->lo, &t->hi, &t->x};
     for (size_t i = 0; i < sizeof level / sizeof level[0]; i++, d += nl)
         *level[i] = d;
     double **level2[] = {&t->s, &t->step, &t->r, &t->dp, &t->sum};
     for (size_t i = 0; i < sizeof level2 / sizeof level2[0]; i++, d += 2 * nl)
         *level2[i] = d;
-    int *c = (int *)d;
-    int **ints[] = {&t->clo, &t->chi, &t->done};
-    for (size_t i = 0; i < sizeof ints / sizeof ints[0]; i++, c += nl)
-        *ints[i] = c;
-    t->count = c;
+    t->state = (int *)d;
+    t->count = t->state + nl;
     return w;
 }
 
 void cp_fields_work_free(cp_fields_work *w)
 {
+    if (!w)
+        return;
+    free(w->basis_block);
     free(w);
 }
 
@@ -66,9 +83,8 @@ static int first_size(double x, int levels)
     return levels + 6 + (int)ceil(4.0 * pow(x, 0.25));
 }
 
-int cp_fields_basis_cap(double x, int m, int levels)
+int cp_fields_basis_cap(double x, int levels)
 {
-    (void)m;
     int n = 2 * first_size(x, levels) + 16;
     return n < CP_FIELDS_MAX_BASIS ? n : CP_FIELDS_MAX_BASIS;
 }
@@ -105,7 +121,9 @@ cp_status cp_fields_solve(cp_fields_work *w, double x, int m, int levels, const 
     }
     int n = first_size(x, levels);
     for (;;) {
-        if (n > w->cap)
+        if (n > CP_FIELDS_MAX_BASIS)
+            return CP_ENOCONV;
+        if (n > w->cap && !basis_alloc(w, n + n / 2))
             return CP_ENOMEM;
         fill(w, x, m, n);
         for (int k = 0; k < levels; k++)

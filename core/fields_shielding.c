@@ -4,8 +4,9 @@
  *   g(x) = 2 E(1,0) - E(0,0) - E(2,0)   (energies in units of B),
  * g(0) = 2 (2) - 0 - 6 = -2 < 0.  Above F_s the |1,0> + |1,0> channel lies above
  * |0,0> + |2,0> and their dipole-dipole coupling repels it at long range: the shield of
- * Avdeenkov, Kajita & Bohn, PRA 73, 022707 (2006), and Gonzalez-Martinez, Bohn & Quemener,
- * PRA 96, 032718 (2017).  The root is found with GSL's Brent solver on the exact energies.
+ * Avdeenkov, Kajita & Bohn, PRA 73, 022707 (2006) [M], and Gonzalez-Martinez, Bohn &
+ * Quemener, PRA 96, 032718 (2017) [M]; the Forster-resonance picture of Lassabliere &
+ * Quemener, arXiv:2204.02885.  The root is found with GSL's Brent solver on the exact energies.
  */
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_roots.h>
@@ -41,7 +42,7 @@ static double gap_reduced(double x, void *p)
 static cp_status with_work(const char *context, double xmax, gap_ctx *c, cp_error *err)
 {
     c->status = CP_OK;
-    c->w = cp_fields_work_alloc(cp_fields_basis_cap(xmax, 0, 3), 3);
+    c->w = cp_fields_work_alloc(cp_fields_basis_cap(xmax, 3), 3);
     return c->w ? CP_OK : cp_fail(err, CP_ENOMEM, "%s: out of memory", context);
 }
 

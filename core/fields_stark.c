@@ -50,7 +50,7 @@ static cp_status solve_state(const char *context, double x, int j, int m, double
                              double *cos_theta, int *basis_size, cp_error *err)
 {
     int levels = j - abs(m) + 1;
-    cp_fields_work *w = cp_fields_work_alloc(cp_fields_basis_cap(x, m, levels), levels);
+    cp_fields_work *w = cp_fields_work_alloc(cp_fields_basis_cap(x, levels), levels);
     if (!w)
         return cp_fail(err, CP_ENOMEM, "%s: out of memory", context);
     cp_status st = cp_fields_solve(w, x, m, levels, NULL, w->energy, w->cos_theta, basis_size);
@@ -155,7 +155,7 @@ cp_status cp_fields_stark_map(const cp_fields_rotor *rotor, int m, int levels,
     }
     cp_fields_work *w = NULL;
     if (st == CP_OK) {
-        w = cp_fields_work_alloc(cp_fields_basis_cap(xmax, m, levels), levels);
+        w = cp_fields_work_alloc(cp_fields_basis_cap(xmax, levels), levels);
         if (!w)
             st = cp_fail(err, CP_ENOMEM, "%s: out of memory", ctx);
     }

@@ -17,11 +17,10 @@ typedef struct cp_fields_tri {
     double pmin;
 } cp_fields_tri;
 
-/* Per-level scratch arrays: lo, hi, clo, chi, done of at least m elements, the others
- * (s, step, r, dp, sum, count) of at least 2 m. */
+/* Scratch: lo, hi, x and state of at least m elements, the others of at least 2 m. */
 typedef struct cp_fields_tri_scratch {
-    double *lo, *hi, *s, *step, *r, *dp, *sum;
-    int *clo, *chi, *count, *done;
+    double *lo, *hi, *x, *s, *step, *r, *dp, *sum;
+    int *state, *count;
 } cp_fields_tri_scratch;
 
 /* The m lowest eigenvalues (ascending) into lambda[0..m-1], m <= n, each to a relative

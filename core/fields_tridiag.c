@@ -71,99 +71,89 @@ static void sweep(const cp_fields_tri *t, int m, const double *s, int *count, do
 enum { BISECT = 0, NEWTON = 1, VERIFY = 2, DONE = 3 };
 
 /* Narrow every open bracket with the count c at point p. */
-static void narrow(int m, double p, int c, const int *state, double *lo, double *hi, int *clo,
-                   int *chi)
+static void narrow(int m, double p, int c, const int *state, double *lo, double *hi)
 {
     for (int q = 0; q < m; q++) {
         if (state[q] == DONE || !(p > lo[q] && p < hi[q]))
             continue;
-        if (c <= q) {
+        if (c <= q)
             lo[q] = p;
-            clo[q] = c;
-        } else {
+        else
             hi[q] = p;
-            chi[q] = c;
-        }
     }
 }
 
 cp_status cp_fields_tri_lowest(const cp_fields_tri *t, int m, const double *scale,
                                const double *guess, double *lambda, cp_fields_tri_scratch *sc)
 {
-    /* shifts: level k sweeps s[k] and, while verifying, s[m + k] (scratch arrays hold 2 m) */
-    double *lo = sc->lo, *hi = sc->hi, *s = sc->s, *step = sc->step;
-    int *clo = sc->clo, *chi = sc->chi, *count = sc->count, *state = sc->done;
+    double *lo = sc->lo, *hi = sc->hi, *x = sc->x, *s = sc->s, *step = sc->step;
+    int *count = sc->count, *state = sc->state;
+    /* Weyl: |lambda_k - a_k| <= ||off-diagonal part||, so count(lo_k) <= k < count(hi_k)
+     * holds without a sweep (a margin covers rounding) */
     double radius = t->norm_off * (1.0 + 1e-12) + DBL_MIN;
     for (int k = 0; k < m; k++) {
         double margin = 1e-12 * (fabs(t->a[k]) + radius) + 4 * DBL_MIN;
-        s[k] = t->a[k] - radius - margin;
-        s[m + k] = t->a[k] + radius + margin;
-    }
-    /* the first sweep establishes the counts at the Weyl brackets */
-    sweep(t, 2 * m, s, count, step, sc->r, sc->dp, sc->sum);
-    for (int k = 0; k < m; k++) {
-        lo[k] = s[k];
-        hi[k] = s[m + k];
-        clo[k] = count[k];
-        chi[k] = count[m + k];
-        if (clo[k] > k || chi[k] <= k)
-            return CP_ENUMERIC; /* Weyl's bound violated: rounding beyond all reason */
+        lo[k] = t->a[k] - radius - margin;
+        hi[k] = t->a[k] + radius + margin;
         state[k] = NEWTON;
-        s[k] = guess && guess[k] > lo[k] && guess[k] < hi[k] ? guess[k] : 0.5 * (lo[k] + hi[k]);
+        x[k] = guess && guess[k] > lo[k] && guess[k] < hi[k] ? guess[k] : 0.5 * (lo[k] + hi[k]);
     }
     int left = m;
     for (int round = 0; round < MAX_ROUNDS && left > 0; round++) {
-        int ns = m;
-        for (int k = 0; k < m; k++)
-            if (state[k] == VERIFY)
-                ns = 2 * m;
-        sweep(t, ns, s, count, step, sc->r, sc->dp, sc->sum);
+        /* pack the shifts of the open levels: x[k], and x[k] + delta while verifying */
+        int ns = 0;
         for (int k = 0; k < m; k++) {
             if (state[k] == DONE)
                 continue;
-            double tol = 4 * DBL_EPSILON * fmax(fabs(s[k]), scale[k]);
+            s[ns++] = x[k];
+            if (state[k] == VERIFY)
+                s[ns++] = 2.0 * lambda[k] - x[k];
+        }
+        sweep(t, ns, s, count, step, sc->r, sc->dp, sc->sum);
+        int j = 0;
+        for (int k = 0; k < m; k++) {
+            if (state[k] == DONE)
+                continue;
+            double tol = 4 * DBL_EPSILON * fmax(fabs(x[k]), scale[k]);
             if (state[k] == VERIFY) {
-                /* s[k] and s[m + k] straddle the candidate lambda[k] */
-                int ok = count[k] == k && count[m + k] == k + 1;
-                narrow(m, s[k], count[k], state, lo, hi, clo, chi);
-                narrow(m, s[m + k], count[m + k], state, lo, hi, clo, chi);
+                /* s[j] and s[j + 1] straddle the candidate lambda[k] */
+                int ok = count[j] == k && count[j + 1] == k + 1;
+                narrow(m, s[j], count[j], state, lo, hi);
+                narrow(m, s[j + 1], count[j + 1], state, lo, hi);
+                j += 2;
                 if (ok) {
                     state[k] = DONE;
                     left--;
-                    continue;
+                } else {
+                    state[k] = BISECT;
+                    x[k] = 0.5 * (lo[k] + hi[k]);
                 }
-                state[k] = BISECT;
-                s[k] = 0.5 * (lo[k] + hi[k]);
                 continue;
             }
             double before = hi[k] - lo[k];
-            narrow(m, s[k], count[k], state, lo, hi, clo, chi);
-            double next = s[k] + step[k];
+            narrow(m, s[j], count[j], state, lo, hi);
+            double next = x[k] + step[j];
             int inside = isfinite(next) && next > lo[k] && next < hi[k];
             if (hi[k] - lo[k] <= tol) {
                 lambda[k] = 0.5 * (lo[k] + hi[k]);
                 state[k] = DONE;
                 left--;
-            } else if (inside && fabs(step[k]) <= tol) {
-                /* a converged Newton iterate: prove it by the counts just either side */
-                lambda[k] = next;
-                double delta = 16 * tol;
-                s[k] = next - delta;
-                s[m + k] = next + delta;
+            } else if (isfinite(step[j]) && fabs(step[j]) <= tol) {
+                /* a converged Newton iterate (the step may round away entirely): prove it
+                 * by the counts just either side */
+                lambda[k] = fmin(fmax(next, lo[k]), hi[k]);
+                x[k] = lambda[k] - 16 * tol;
                 state[k] = VERIFY;
             } else if (inside && (hi[k] - lo[k] < 0.5 * before ||
-                                  fabs(step[k]) < 0.25 * (hi[k] - lo[k]))) {
-                s[k] = next;
+                                  fabs(step[j]) < 0.25 * (hi[k] - lo[k]))) {
+                x[k] = next;
                 state[k] = NEWTON;
             } else {
-                s[k] = 0.5 * (lo[k] + hi[k]);
+                x[k] = 0.5 * (lo[k] + hi[k]);
                 state[k] = BISECT;
             }
+            j++;
         }
-        /* a verifying level's second shift must not be swept stale by others */
-        for (int k = 0; k < m; k++)
-            if (state[k] != VERIFY)
-                s[m + k] = s[k];
     }
     return left == 0 ? CP_OK : CP_ENOCONV;
 }
@@ -172,12 +162,14 @@ void cp_fields_tri_vector(const cp_fields_tri *t, double lambda, double *v, doub
                           double *bwd)
 {
     int n = t->n;
+    /* the forward and backward pivot chains are independent: one loop runs both */
     fwd[0] = guard(t->a[0] - lambda, t->pmin);
-    for (int i = 1; i < n; i++)
-        fwd[i] = guard(t->a[i] - lambda - t->b2[i - 1] / fwd[i - 1], t->pmin);
     bwd[n - 1] = guard(t->a[n - 1] - lambda, t->pmin);
-    for (int i = n - 2; i >= 0; i--)
-        bwd[i] = guard(t->a[i] - lambda - t->b2[i] / bwd[i + 1], t->pmin);
+    for (int i = 1; i < n; i++) {
+        int k = n - 1 - i;
+        fwd[i] = guard(t->a[i] - lambda - t->b2[i - 1] / fwd[i - 1], t->pmin);
+        bwd[k] = guard(t->a[k] - lambda - t->b2[k] / bwd[k + 1], t->pmin);
+    }
     int r = 0;
     double best = INFINITY;
     for (int i = 0; i < n; i++) {

@@ -15,8 +15,8 @@
  *     (levels of equal M never cross), so the label is exact at every field;
  *   - the basis J = |M| .. |M| + basis_size - 1 is chosen automatically so that the
  *     estimated truncation error of every energy asked for is below CP_FIELDS_TOLERANCE
- *     relative (or 1e-13 B absolute where the energy is near zero); the size used is
- *     reported;
+ *     relative (a hundredth of it, in fact; where an energy passes near zero, 1e-15 of
+ *     B [J(J+1) + min(x, x^2)] absolute); the size used is reported;
  *   - the induced (lab-frame) dipole is -dE/dF = d <cos theta>, evaluated from the
  *     eigenvector (Hellmann-Feynman theorem), not by differencing energies.
  * The caller owns every array passed in; the library allocates nothing that outlives a
@@ -55,8 +55,9 @@ typedef struct cp_fields_rotor {
 
 typedef struct cp_fields_stark_result {
     double energy_hz;      /* E/h of the state, Hz, from the field-free J = 0 level */
-    double induced_dipole; /* -dE/dF = d <cos theta>, C m (negative: a high-field seeker
-                              has it positive; |J,M> states with J > 0 may have either sign) */
+    double induced_dipole; /* -dE/dF = d <cos theta>, C m: positive for a high-field seeker
+                              (E falls with F, as for J = 0), negative for a low-field
+                              seeker (e.g. |1,0> in a weak field) */
     double reduced_field;  /* x = d F / B */
     double energy_reduced; /* E / B */
     double cos_theta;      /* <cos theta> = induced_dipole / d, in [-1, 1] */
@@ -110,13 +111,14 @@ cp_status cp_fields_shielding_gap(const cp_fields_rotor *rotor, double field, do
 
 #define CP_FIELDS_MAX_ELLIPTICITY 0.7853981633974483 /* pi/4 rad: linear, excluded */
 #define CP_FIELDS_MAX_DRESSING 0.1 /* Omega and Delta at most this fraction of 2B/hbar */
+#define CP_FIELDS_MIN_RABI 6.283185307179586 /* rad/s (2 pi x 1 Hz): weaker is no dressing */
 
 /* A microwave near the J = 0 -> 1 transition (angular frequency 2B/hbar) with polarisation
  * cos(xi) sigma+ + sin(xi) sigma- (xi = 0: circular; the ellipticity angle of Deng et al.,
  * PRL 130, 183001 (2023)).  It couples |0,0> to the J = 1 state |a> = cos(xi) |1,1>
  * + sin(xi) |1,-1> with Rabi frequency Omega (coupling hbar Omega / 2); detuning
  * Delta = omega_mw - 2B/hbar, blue > 0.  Rules (anything else is CP_EINVAL):
- *   rabi         Omega in (0, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s;
+ *   rabi         Omega in [CP_FIELDS_MIN_RABI, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s;
  *   detuning     Delta in [0, CP_FIELDS_MAX_DRESSING x 2B/hbar] rad/s.  Red detuning
  *                (Delta < 0) is refused: a molecule dressed from |0,0> then follows the
  *                lower dressed state, which is not shielded.  Delta = 0 (resonant) is
@@ -166,7 +168,8 @@ cp_status cp_fields_microwave(const cp_fields_rotor *rotor,
  * which for circular polarisation is C3 (3 cos^2 theta - 1) / r^3 (the sign-reversed
  * dipolar interaction) + C6 [(1 - cos^4 theta) s6 + t6 (3 cos^2 theta - 1)^2 / 4] / r^6.
  * Valid where the dipolar coupling d_eff^2 / (4 pi eps0 r^3) is small against
- * hbar Omega_e (fields_microwave.c derives it).  mw from cp_fields_microwave. */
+ * hbar Omega_e (fields_microwave.c derives it).  mw from cp_fields_microwave; CP_EINVAL
+ * for r <= 0, non-finite angles, or an r so small that V overflows. */
 cp_status cp_fields_microwave_potential(const cp_fields_microwave_result *mw, double r,
                                         double theta, double phi, double *potential,
                                         cp_error *err);

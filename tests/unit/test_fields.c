@@ -91,8 +91,8 @@ static void reference(double x, int m, int n, int levels, double *e, double *cth
 
 /* Second-order Stark shift of a linear rotor in units of x^2 B:
  * [J(J+1) - 3M^2] / [2 J(J+1)(2J-1)(2J+3)] for J > 0 and -1/6 for J = 0 (Townes &
- * Schawlow, Microwave Spectroscopy (McGraw-Hill, 1955), Ch. 10, Eq. 10-5 [M]; it gives the
- * issue's checks E(1,0) = 2B + x^2 B/10, E(1,+-1) = 2B - x^2 B/20). */
+ * Schawlow, Microwave Spectroscopy (McGraw-Hill, 1955), Ch. 10, Eq. 10-5 [M]; it gives
+ * E(1,0) = 2B + x^2 B/10, E(1,+-1) = 2B - x^2 B/20). */
 static double second_order(int j, int m)
 {
     if (j == 0)
@@ -120,7 +120,7 @@ static void test_weak_field(void **state)
                 assert_close(c, -2.0 * second_order(j, m) * x, 0.4 * x * x * x);
             }
     }
-    /* the issue's three checks in SI units: E(0,0) = -d^2F^2/(6B), E(1,0) = 2B +
+    /* the three low-J checks in SI units: E(0,0) = -d^2F^2/(6B), E(1,0) = 2B +
      * d^2F^2/(10B), E(1,1) = 2B - d^2F^2/(20B) at 10 V/cm for KRb (x = 2.6e-3) */
     double f = 1000.0, b = KRB.rot_const_hz, x = KRB.dipole * f / (CP_H * b);
     cp_fields_stark_result r;
@@ -242,12 +242,13 @@ static void test_stark_map_vs_reference(void **state)
     assert_true(e2[NL] == 0.0 && e2[NL + 1] == 2 * KRB.rot_const_hz);
 }
 
-/* FLD-6: highly excited and strong-field states converge: J = 40 at |M| = 3, and 10 levels
- * at x = 1e5, against the reference with twice the basis. */
+/* FLD-6: highly excited and strong-field states converge: J = 40 at |M| = 3, J = 9 at
+ * x = 1e5 and J = 60 at x = 3e4 (whose basis outgrows the first workspace), against the
+ * reference with twice the basis. */
 static void test_hard_states(void **state)
 {
     (void)state;
-    double e, c, er[38], cr[38];
+    double e, c, er[61], cr[61];
     int n;
     assert_int_equal(cp_fields_stark_reduced(300.0, 40, 3, &e, &c, &n, NULL), CP_OK);
     reference(300.0, 3, 2 * n, 38, er, cr);
@@ -257,6 +258,11 @@ static void test_hard_states(void **state)
     reference(1e5, 0, 2 * n, 10, er, cr);
     assert_rel(e, er[9], 1e-10);
     assert_close(c, cr[9], 1e-8);
+    assert_int_equal(cp_fields_stark_reduced(3e4, 60, -1, &e, &c, &n, NULL), CP_OK);
+    assert_true(n > 200);
+    reference(3e4, -1, 2 * n, 60, er, cr);
+    assert_rel(e, er[59], 1e-10);
+    assert_close(c, cr[59], 1e-8);
 }
 
 /* The pair gap 2E(1,0) - E(0,0) - E(2,0) (units of B) from the reference solver. */
@@ -286,7 +292,7 @@ static void test_shielding(void **state)
     double xs;
     assert_int_equal(cp_fields_shielding_reduced(&xs, NULL), CP_OK);
     assert_close(xs, 0.5 * (lo + hi), 1e-10);
-    assert_close(xs, 3.244, 5e-4); /* the x_s ~ 3.244 */
+    assert_close(xs, 3.244, 5e-4); /* x_s ~ 3.244, the value quoted in the trade [M] */
     double f, x2;
     assert_int_equal(cp_fields_shielding_field(&KRB, &f, &x2, NULL), CP_OK);
     assert_rel(f, 12.5e5, 0.01);
@@ -508,7 +514,7 @@ static void test_bad_input(void **state)
     cp_fields_microwave_result mw;
     const double om = 2 * CP_PI * 10e6;
     const cp_fields_microwave_params bad_mw[] = {
-        {0.0, om, 0.0},         {-om, om, 0.0},        {NAN, om, 0.0},
+        {1.0, om, 0.0},         {-om, om, 0.0},        {NAN, om, 0.0},
         {om, -1.0, 0.0},        {om, NAN, 0.0},        {om, INFINITY, 0.0},
         {om, om, CP_FIELDS_MAX_ELLIPTICITY},           {om, om, -0.1},
         {om, om, NAN},          {1e12, om, 0.0},       {om, 1e12, 0.0}};
@@ -529,6 +535,14 @@ static void test_bad_input(void **state)
     assert_non_null(strstr(err.message, "r 0 m"));
     assert_int_equal(cp_fields_microwave_potential(&mw, 1e-7, NAN, 0.0, &v, &err), CP_EINVAL);
     assert_int_equal(cp_fields_microwave_potential(NULL, 1e-7, 0, 0.0, &v, &err), CP_EINVAL);
+    assert_int_equal(cp_fields_microwave_potential(&mw, 1e-60, 0.3, 0.0, &v, &err), CP_EINVAL);
+    assert_true(isnan(v));
+    assert_non_null(strstr(err.message, "too small"));
+    /* the weakest dressing accepted still gives finite coefficients */
+    cp_fields_microwave_params weakest = {CP_FIELDS_MIN_RABI, 0.1 * 2 * 2 * CP_PI * nak.rot_const_hz,
+                                          0.0};
+    assert_int_equal(cp_fields_microwave(&nak, &weakest, &mw, NULL), CP_OK);
+    assert_true(isfinite(mw.c6) && isfinite(mw.c3) && mw.c6 > 0);
 }
 
 int main(void)

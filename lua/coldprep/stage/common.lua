@@ -156,7 +156,7 @@ function M.rates_note(s, r, T, notes)
     or REGIME_NAMES[r.regime]
   notes[#notes + 1] = string.format("collision rates predicted for %s (%s dipole %.3g D) at "
     .. "%.3g nK: loss %.3g cm^3/s, elastic %.3g cm^3/s, elastic/loss %.3g; method: %s", pr,
-    r.regime == "microwave" and "effective" or "induced", r.dipole_debye, T / cp.units.nK,
+    r.regime == "microwave" and "effective" or "induced, exact Stark effect", r.dipole_debye, T / cp.units.nK,
     r.loss_rate_coefficient / cp.units.cm3, r.elastic_rate_coefficient / cp.units.cm3,
     r.ratio, r.method)
   if not s.molecule.reactive and r.regime ~= "microwave" then

@@ -84,9 +84,10 @@ local function evaporate(args)
         local r = common.predicted_rates(s, protection, s.temperature)
         sigma = r.cross_section
         notes[#notes + 1] = string.format("the given loss_rate overrides the predicted %.3g cm^3/s; "
-          .. "%s dipole %.3g D, dipolar elastic cross section %.3g cm^2 (%s)",
+          .. "%s dipole %.3g D%s, dipolar elastic cross section %.3g cm^2 (%s)",
           r.loss_rate_coefficient / cp.units.cm3, r.regime == "microwave" and "effective" or "induced",
-          r.dipole_debye, sigma / 1e-4, r.method)
+          r.dipole_debye, r.regime == "microwave" and "" or " (exact Stark effect)", sigma / 1e-4,
+          r.method)
       end
       if follow then -- noted above
       elseif not ratio and beta == 0 then
