@@ -439,8 +439,9 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     case CP_SHIELD_MICROWAVE:
         r->method = "microwave shielding: tunnelling through the dressed pair's effective "
                     "potential (Deng et al. 2023 form) to where its core reaches hbar "
-                    "Omega_eff (lost inside); dipolar elastic cross section of the effective "
-                    "dipole";
+                    "Omega_eff (lost inside; the loss depends steeply on that boundary: an "
+                    "order-of-magnitude estimate); dipolar elastic cross section of the "
+                    "effective dipole";
         if (kt > 0.05 * CP_HBAR * hypot(p->rabi, p->detuning)) {
             r->valid = 0;
             snprintf(r->note, sizeof r->note, "k_B T is not small against hbar "
