@@ -159,6 +159,11 @@ function M.rates_note(s, r, T, notes)
     r.regime == "microwave" and "effective" or "induced, exact Stark effect", r.dipole_debye, T / cp.units.nK,
     r.loss_rate_coefficient / cp.units.cm3, r.elastic_rate_coefficient / cp.units.cm3,
     r.ratio, r.method)
+  if r.regime == "quasi_2d" then
+    notes[#notes + 1] = string.format("in pancakes: the rates are 3D-equivalent (2D loss "
+      .. "%.3g cm^2/s times sqrt(2 pi) a_z); the cloud's density and the hold and evaporation "
+      .. "models are still those of the 3D trap", r.loss_rate_coefficient_2d / 1e-4)
+  end
   if not s.molecule.reactive and r.regime ~= "microwave" then
     notes[#notes + 1] = "non-reactive " .. s.molecule.name .. ": loss at short range (sticky "
       .. "complexes) taken as certain, as for reactive molecules"
