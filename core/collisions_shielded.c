@@ -13,11 +13,13 @@
  * L +- 2); in quasi-2D the potential is averaged over the ground state of the relative
  * motion along the tight axis (closed form with modified Bessel functions) and the 2D
  * radial equation is solved (Micheli et al., PRL 105, 073202 (2010) reduce the problem the
- * same way).  For microwave shielding the potential is the dressed pair's (coldprep/fields.h,
-to second order in the dipolar coupling; the form of Deng et al. 2023); the loss boundary sits where the repulsive core
- * reaches the dressed-state splitting hbar sqrt(Omega^2 + Delta^2): inside, the effective
- * potential fails and molecules are taken as lost to lower dressed states (the loss
- * mechanism of Karman & Hutson, PRL 121, 163401 (2018)).  Thermal averages use
+ * same way).  For microwave shielding the potential is the dressed pair's
+ * (coldprep/fields.h, second order in the dipolar coupling; the form of Deng et al. 2023);
+ * the loss boundary sits where its repulsive core reaches the dressed-state splitting
+ * hbar sqrt(Omega^2 + Delta^2): inside, the effective potential fails and molecules are
+ * taken as lost to lower dressed states (the loss mechanism of Karman & Hutson, PRL 121,
+ * 163401 (2018)).  The loss depends steeply on that boundary (docs/models/collisions.md):
+ * an order-of-magnitude estimate.  Thermal averages use
  * Gauss-Laguerre quadrature over the relative energy.
  *
  * Elastic: the dipolar cross section of the (effective) dipole, Born (Bohn, Cavagnero &

@@ -160,8 +160,8 @@ static void test_nak_microwave(void **state)
     assert_non_null(strstr(r.note, "ellipticity"));
 }
 
-/* SH-5: a plan that fails in practice: 40K87Rb at 12 kV/cm in free space.  The induced dipole is
- * the exact one of coldprep/fields.h (cp_fields_induced_dipole, checked there); the field
+/* SH-5: a plan that fails in practice: 40K87Rb at 12 kV/cm in free space.  The induced
+ * dipole is the exact one of coldprep/fields.h (cp_fields_induced_dipole, checked there); the field
  * is within 10 % of the dc shielding field (12.5 kV/cm, fields.h), so the result is
  * flagged, and the unshielded loss is fast: elastic/loss below 10 (Ni et al. 2010 observed
  * loss rates ~1e-10 cm^3/s at 0.2 D and above [M]). */
