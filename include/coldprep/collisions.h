@@ -152,6 +152,92 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
                                     double *phase_space_densities, double *efficiency,
                                     cp_error *err);
 
+/* ---- rates of polar molecules under protection ------------------------------------------ */
+
+/* Which long-range interaction the colliding molecules feel. */
+typedef enum cp_shield_regime {
+    CP_SHIELD_DC_3D = 0,     /* dc field below the shielding field, free space: the induced
+                                dipoles attract head to tail (loss grows with the dipole) */
+    CP_SHIELD_QUASI_2D = 1,  /* dc field along the tight axis of a pancake trap (1D lattice):
+                                side-by-side repulsion shields the molecules */
+    CP_SHIELD_MICROWAVE = 2  /* molecules in the upper dressed state of a blue-detuned,
+                                circularly polarised microwave: the sign-reversed dipolar
+                                interaction and a repulsive r^-6 core (coldprep/fields.h) */
+} cp_shield_regime;
+
+/* Collisions of identical molecules (bosons or fermions in one internal state). */
+typedef struct cp_shielded_params {
+    cp_shield_regime regime;
+    cp_pair_statistics stat; /* CP_PAIR_BOSONS or CP_PAIR_FERMIONS */
+    double mass;             /* molecule mass M, kg, (1e-28, 1e-22] */
+    double c6_au;            /* isotropic van der Waals C6 of the pair, a.u., (0, 1e9] */
+    double temperature;      /* T, K, [1e-10, 1e-4] */
+    double dipole;           /* dc regimes: induced lab-frame dipole, C m, [0, 20 D] */
+    double axial_omega;      /* quasi-2D: angular frequency of the tight axis, rad/s,
+                                [2 pi x 1 kHz, 2 pi x 1 MHz] */
+    double c3;               /* microwave: C3 = d_eff^2 / (4 pi eps0), J m^3, > 0 */
+    double c6_core;          /* microwave: scale C6 of the repulsive core, J m^6, > 0 */
+    double mw_c3[4];         /* microwave: V = sum_n (mw_c3[n] / r^3 + mw_c6[n] / r^6) c^n, */
+    double mw_c6[4];         /* c = cos^2 theta from the propagation axis (J m^3, J m^6) */
+    double rabi;             /* microwave: Omega, rad/s, > 0 */
+    double detuning;         /* microwave: Delta, rad/s (blue > 0 shields) */
+    double dipole_permanent; /* microwave: body-frame dipole d, C m, (0, 20 D] */
+} cp_shielded_params;
+
+#define CP_SHIELDED_NOTE_SIZE 200
+
+typedef struct cp_shielded_result {
+    double elastic_rate;  /* thermal <sigma v_rel>, m^3/s (quasi-2D: 3D-equivalent) */
+    double loss_rate;     /* beta with dn/dt = -beta n^2, m^3/s (quasi-2D: 3D-equivalent
+                             beta_2D sqrt(2 pi) a_z, a_z = sqrt(hbar / (M omega_z))) */
+    double loss_rate_2d;  /* quasi-2D: beta_2D, m^2/s; NaN in 3D */
+    double ratio;         /* elastic_rate / loss_rate */
+    double cross_section; /* thermal mean elastic cross section <sigma v>/<v>, m^2 */
+    double dipole_length; /* D = mu d^2 / (4 pi eps0 hbar^2) of the (effective) dipole, m */
+    double inner_radius;  /* where the loss boundary sits, m */
+    int valid;            /* 1: inside the model's stated validity range */
+    const char *method;   /* static text naming the model */
+    char note[CP_SHIELDED_NOTE_SIZE]; /* why valid = 0 (empty otherwise) */
+} cp_shielded_result;
+
+/* Elastic and loss rate coefficients of identical polar molecules at temperature T in the
+ * given regime (docs/models/collisions.md has the models, their validity and the published
+ * checks).  Loss: universal loss at short range (unit probability for what gets in), the
+ * flux that gets in computed by Numerov integration of the lowest adiabatic channel(s) of
+ * the long-range potential, thermally averaged by Gauss-Laguerre quadrature.  Elastic: the
+ * dipolar cross section of the (effective) dipole (Born at low energy, semiclassical above
+ * the dipole energy).  Results outside the validity range are returned with valid = 0 and
+ * a note; CP_EINVAL for bad input (numbers poisoned, method NULL). */
+cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result *r,
+                                 cp_error *err);
+
+/* The protection a plan gives its molecules, and the molecule itself.  The regime follows:
+ * a microwave -> microwave shielding (no dc field allowed with it); an axial confinement
+ * -> quasi-2D with the dipole the dc field induces (field along the tight axis); otherwise
+ * dc 3D (no field: the field-free universal rates).  Near or above the dc shielding field
+ * (0.9 of it and up) the 3D model is returned with valid = 0: dc-field shielding is not
+ * modelled. */
+typedef struct cp_protection_params {
+    double dipole;          /* body-frame dipole d, C m, (0, 20 D] */
+    double rot_const_hz;    /* B/h, Hz */
+    double c6_au;           /* van der Waals C6 of the pair, a.u. */
+    double mass;            /* molecule mass, kg */
+    cp_pair_statistics stat; /* identical bosons or fermions */
+    double temperature;     /* K */
+    double electric_field;  /* dc field, V/m, >= 0 (0: none) */
+    int microwave;          /* 1: microwave dressing below */
+    double rabi, detuning, ellipticity; /* rad/s, rad/s (blue > 0), rad */
+    double axial_omega;     /* tight-axis angular frequency, rad/s; 0: free space (3D) */
+} cp_protection_params;
+
+/* Rates for the protection p (cp_collisions_shielded after the field physics of
+ * coldprep/fields.h: the induced dipole, the shielding field, the dressed C3 and C6).
+ * *dipole_used receives the induced (dc) or effective (microwave) dipole, C m, and
+ * *regime the regime chosen.  Errors as cp_collisions_shielded. */
+cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_result *r,
+                                  double *dipole_used, cp_shield_regime *regime,
+                                  cp_error *err);
+
 #ifdef __cplusplus
 }
 #endif

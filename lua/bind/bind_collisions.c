@@ -4,15 +4,19 @@
  * two-body loss, one-body loss and heating, and the evaporation scaling model.  Every
  * function takes one table of named arguments (SI units, C6 in atomic units) and returns
  * a table.  `mass` is the reduced mass for the two-body quantities and the particle mass
- * for the trapped-cloud ones, as each help text says.
+ * for the trapped-cloud ones, as each help text says.  `shielded` gives the elastic and
+ * loss rates of identical polar molecules under a dc field, a microwave or a pancake trap
+ * (core/collisions_protect.c, core/collisions_shielded.c).
  */
 #include <lauxlib.h>
 #include <lua.h>
 #include <math.h>
+#include <string.h>
 
 #include "args.h"
 #include "coldprep/collisions.h"
 #include "coldprep/consts.h"
+#include "coldprep/fields.h"
 #include "help.h"
 
 int cpl_open_collisions(lua_State *L);
@@ -224,6 +228,125 @@ static int l_evaporation(lua_State *L)
     return 1;
 }
 
+
+/* A number field of the table at idx (required, finite). */
+static double table_number(lua_State *L, int idx, const char *fname, const char *tname,
+                           const char *key, const char *unit)
+{
+    int t = lua_getfield(L, idx, key);
+    if (t != LUA_TNUMBER)
+        cpl_error(L, fname, "%s field '%s' (%s) must be a number, got %s", tname, key, unit,
+                  t == LUA_TNIL ? "nothing" : luaL_typename(L, -1));
+    double v = lua_tonumber(L, -1);
+    lua_pop(L, 1);
+    if (!isfinite(v))
+        cpl_error(L, fname, "%s field '%s' (%s) must be finite, got %g", tname, key, unit, v);
+    return v;
+}
+
+/* args.molecule: a species name (looked up with cp.species.molecule) or a table with
+ * dipole_debye, rot_const_hz, c6_au, mass (kg) and statistics, as that function returns. */
+static void read_molecule(lua_State *L, const char *fname, cp_protection_params *p)
+{
+    int t = lua_getfield(L, 1, "molecule");
+    if (t == LUA_TSTRING) {
+        luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_LOADED_TABLE);
+        lua_getfield(L, -1, "coldprep");
+        lua_getfield(L, -1, "species");
+        lua_getfield(L, -1, "molecule");
+        lua_pushvalue(L, -5);
+        lua_call(L, 1, 1);
+        lua_replace(L, -5);
+        lua_pop(L, 3);
+    } else if (t != LUA_TTABLE) {
+        cpl_error(L, fname, "argument 'molecule' must be a species name or a table {dipole_debye,"
+                  " rot_const_hz, c6_au, mass, statistics}, got %s",
+                  t == LUA_TNIL ? "nothing" : luaL_typename(L, -1));
+    }
+    int m = lua_gettop(L);
+    p->dipole = table_number(L, m, fname, "molecule", "dipole_debye", "D") * CP_DEBYE;
+    p->rot_const_hz = table_number(L, m, fname, "molecule", "rot_const_hz", "Hz");
+    p->c6_au = table_number(L, m, fname, "molecule", "c6_au", "a.u.");
+    p->mass = table_number(L, m, fname, "molecule", "mass", "kg");
+    static const char *const stats[] = {"boson", "fermion", NULL};
+    lua_getfield(L, m, "statistics");
+    const char *s = lua_tostring(L, -1);
+    if (!s || (strcmp(s, stats[0]) && strcmp(s, stats[1])))
+        cpl_error(L, fname, "molecule field 'statistics' must be \"boson\" or \"fermion\"");
+    p->stat = strcmp(s, "fermion") ? CP_PAIR_BOSONS : CP_PAIR_FERMIONS;
+    lua_pop(L, 2);
+}
+
+static const char *const REGIMES[] = {"dc_3d", "quasi_2d", "microwave"};
+
+static int l_shielded(lua_State *L)
+{
+    static const char *const keys[] = {"molecule", "temperature", "electric_field",
+                                       "microwave", "confinement", NULL};
+    const char *fname = "collisions.shielded";
+    cpl_check_args(L, 1, fname, keys);
+    cp_protection_params p = {0};
+    read_molecule(L, fname, &p);
+    p.temperature = cpl_number(L, 1, fname, "temperature", "K");
+    p.electric_field = cpl_opt_number(L, 1, fname, "electric_field", "V/m", 0.0);
+    int t = lua_getfield(L, 1, "microwave");
+    if (t == LUA_TTABLE) {
+        static const char *const mk[] = {"rabi", "detuning", "ellipticity", NULL};
+        static const char *const mu[] = {"rad/s", "rad/s", "rad"};
+        double v[3];
+        cpl_read_fields(L, lua_gettop(L), fname, "microwave", mk, 3, mu, v);
+        if (isnan(v[0]) || isnan(v[1]))
+            cpl_error(L, fname, "microwave needs 'rabi' and 'detuning' (rad/s)");
+        p.microwave = 1;
+        p.rabi = v[0];
+        p.detuning = v[1];
+        p.ellipticity = isnan(v[2]) ? 0.0 : v[2];
+    } else if (t != LUA_TNIL) {
+        cpl_error(L, fname, "argument 'microwave' must be a table {rabi, detuning [, "
+                  "ellipticity]}, got %s", luaL_typename(L, -1));
+    }
+    lua_pop(L, 1);
+    t = lua_getfield(L, 1, "confinement");
+    if (t == LUA_TTABLE) {
+        static const char *const ck[] = {"axial_omega", NULL};
+        static const char *const cu[] = {"rad/s"};
+        double v[1];
+        cpl_read_fields(L, lua_gettop(L), fname, "confinement", ck, 1, cu, v);
+        if (isnan(v[0]))
+            cpl_error(L, fname, "confinement needs 'axial_omega' (rad/s, the tight axis)");
+        if (!(v[0] > 0.0))
+            cpl_error(L, fname, "confinement 'axial_omega' %g rad/s is out of range; allowed "
+                      "[2 pi x 1e3, 2 pi x 1e6] rad/s", v[0]);
+        p.axial_omega = v[0];
+    } else if (t != LUA_TNIL) {
+        cpl_error(L, fname, "argument 'confinement' must be a table {axial_omega}, got %s",
+                  luaL_typename(L, -1));
+    }
+    lua_pop(L, 1);
+    cp_shielded_result r;
+    cp_shield_regime regime;
+    double dip;
+    cp_error err;
+    if (cp_collisions_protected(&p, &r, &dip, &regime, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 14);
+    cpl_set_number(L, "elastic_rate_coefficient", r.elastic_rate);
+    cpl_set_number(L, "loss_rate_coefficient", r.loss_rate);
+    if (regime == CP_SHIELD_QUASI_2D)
+        cpl_set_number(L, "loss_rate_coefficient_2d", r.loss_rate_2d);
+    cpl_set_number(L, "ratio", r.ratio);
+    cpl_set_number(L, "cross_section", r.cross_section);
+    cpl_set_number(L, "dipole_length", r.dipole_length);
+    cpl_set_number(L, "dipole_debye", dip / CP_DEBYE);
+    cpl_set_number(L, "inner_radius", r.inner_radius);
+    cpl_set_string(L, "regime", REGIMES[regime]);
+    cpl_set_string(L, "method", r.method);
+    cpl_set_boolean(L, "valid", r.valid);
+    if (!r.valid)
+        cpl_set_string(L, "note", r.note);
+    return 1;
+}
+
 static const cpl_function functions[] = {
     {"mean_scattering_length", l_mean_scattering_length,
      "collisions.mean_scattering_length{c6_au, mass}: Gribakin-Flambaum mean scattering "
@@ -308,6 +431,26 @@ static const cpl_function functions[] = {
      "  (-dln PSD / dln N), numbers, temperatures, phase_space_densities}.\n"
      "Example: cp.collisions.evaporation{number = 2e4, temperature = 300e-9, omega_bar = 600, "
      "mass = 2.1e-25, eta = 8, ratio = 100, final_number = 5e3}"},
+    {"shielded", l_shielded,
+     "collisions.shielded{molecule, temperature [, electric_field | microwave = {rabi, "
+     "detuning [, ellipticity]}, confinement = {axial_omega}]}: elastic and loss rate "
+     "coefficients of identical polar molecules under protection, computed (not "
+     "tabulated): universal loss at short range, the flux that reaches it from a Numerov "
+     "integration of the lowest adiabatic channels; the dipolar elastic cross section.\n"
+     "  molecule        species name or table {dipole_debye, rot_const_hz, c6_au, mass (kg), "
+     "statistics}\n"
+     "  temperature     K, [1e-10, 1e-4]\n"
+     "  electric_field  dc field, V/m (induced dipole from cp.fields); with confinement it is "
+     "along the tight axis\n"
+     "  microwave       {rabi (rad/s), detuning (rad/s, blue > 0), ellipticity (rad, 0 = "
+     "circular)}: microwave shielding (Deng et al., PRL 130, 183001 (2023))\n"
+     "  confinement     {axial_omega (rad/s)}: pancakes of a 1D lattice, quasi-2D\n"
+     "Returns {elastic_rate_coefficient, loss_rate_coefficient (m^3/s; quasi-2D: "
+     "3D-equivalent, and loss_rate_coefficient_2d in m^2/s), ratio, cross_section (m^2), "
+     "dipole_debye (induced or effective), dipole_length (m), inner_radius (m), regime, "
+     "method, valid, note (when not valid)}.\n"
+     "Example: cp.collisions.shielded{molecule = \"23Na40K\", temperature = 300e-9, "
+     "microwave = {rabi = 2*math.pi*50e6, detuning = 2*math.pi*10e6}}"},
     {NULL, NULL, NULL}};
 
 int cpl_open_collisions(lua_State *L)

@@ -67,7 +67,8 @@ local CLASS3B_W = 5e-3
 
 -- Collect the equipment the plan declares: the start's trap beams and each stage's
 -- `equipment` list ({kind = "laser", what, power (W) [, wavelength]}, {kind = "coil",
--- what, field (T)}, {kind = "electric", what, field (V/m)}).
+-- what, field (T)}, {kind = "electric", what, field (V/m)}, {kind = "microwave", what,
+-- rabi (rad/s)}).
 local function equipment(plan)
   local list = {}
   for _, c in ipairs(plan.start.atoms) do
@@ -85,7 +86,7 @@ local function equipment(plan)
 end
 
 local function cautions(plan)
-  local out, class4, class3b, unknown, coils, hv = {}, {}, {}, {}, {}, {}
+  local out, class4, class3b, unknown, coils, hv, mw = {}, {}, {}, {}, {}, {}, {}
   for _, e in ipairs(equipment(plan)) do
     if e.kind == "laser" then
       if e.power == nil then
@@ -99,6 +100,9 @@ local function cautions(plan)
       coils[#coils + 1] = string.format("%s, %.4g G", e.what, e.field / cp.units.G)
     elseif e.kind == "electric" then
       hv[#hv + 1] = string.format("%s, %.3g kV/cm", e.what, e.field / 1e5)
+    elseif e.kind == "microwave" then
+      mw[#mw + 1] = string.format("%s, Rabi frequency 2 pi x %.3g MHz", e.what,
+        e.rabi / (2 * math.pi * 1e6))
     end
   end
   if #class4 > 0 then
@@ -128,9 +132,17 @@ local function cautions(plan)
       .. ". Current-limited supplies, interlocked covers, proper grounding, discharge before"
       .. " handling, feedthroughs rated for the voltage; never work alone on live high voltage."
   end
+  if #mw > 0 then
+    out[#out + 1] = "Microwave sources for shielding: " .. table.concat(mw, "; ")
+      .. ". Rabi frequencies of tens of MHz take amplifiers of watts to tens of watts into an"
+      .. " antenna or waveguide near the cell: RF exposure of people near the antenna (keep"
+      .. " to the exposure limits, e.g. ICNIRP 2020 / IEEE C95.1, and check with a field"
+      .. " meter), shielded and terminated lines, amplifier power interlocked off before"
+      .. " work near the antenna, never run an amplifier into an open or unmatched load."
+  end
   out[#out + 1] = "These numbers plan an experiment; they are not a safety clearance. Follow your"
-    .. " local codes and regulations, your laser safety officer and licensed practice"
-    .. " (ANSI Z136.1, IEC 60825-1)."
+    .. " local codes and regulations, your laser safety officer, radiation (RF) safety officer"
+    .. " and licensed practice (ANSI Z136.1, IEC 60825-1)."
   return out
 end
 

@@ -1,5 +1,7 @@
 -- coldprep.stage.common: what the stage files share: the stage metatable, the sets of
--- sample kinds, the stage constructor, and the loss and validity notes of hold and evaporate.
+-- sample kinds, the stage constructor, the loss and validity notes of hold and evaporate,
+-- and the protection of the molecules (dc field, microwave, pancake confinement) from
+-- which those two stages predict their collision rates (cp.collisions.shielded).
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
 
@@ -99,6 +101,112 @@ end
 -- Evaporation longer than this (s) gets a note that one-body loss is missing from it
 -- (common practice, no source: molecule lifetimes in optical traps are of order seconds).
 M.LONG_EVAPORATION = 1
+
+-- The protection keys hold and evaporate take: electric_field (V/m), microwave = {rabi
+-- (rad/s), detuning (rad/s, blue > 0) [, ellipticity (rad)]}, confinement = {axial_omega
+-- (rad/s)} (pancakes of a 1D lattice, the dc field along the tight axis).
+M.PROTECTION_KEYS = { "electric_field", "microwave", "confinement" }
+
+-- Reads the protection from a stage's arguments: nil when none is given.
+function M.read_protection(fname, args)
+  local pr = {
+    electric_field = A.number(fname, args, "electric_field", "V/m", { optional = true, positive = true, max = 1e8 }),
+  }
+  if args.microwave ~= nil then
+    local mw = args.microwave
+    if type(mw) ~= "table" then
+      A.fail(fname, "argument 'microwave' must be a table {rabi (rad/s), detuning (rad/s) "
+        .. "[, ellipticity (rad)]}, got %s", type(mw))
+    end
+    local f = fname .. ": microwave"
+    A.table(f, mw, { "rabi", "detuning", "ellipticity" })
+    pr.microwave = {
+      rabi = A.number(f, mw, "rabi", "rad/s", { positive = true, max = 2 * math.pi * 1e10 }),
+      detuning = A.number(f, mw, "detuning", "rad/s", { min = -2 * math.pi * 1e10, max = 2 * math.pi * 1e10 }),
+      ellipticity = A.number(f, mw, "ellipticity", "rad", { optional = true, default = 0, min = 0, max = math.pi / 4 }),
+    }
+    if pr.microwave.detuning < 0 then
+      A.fail(fname, "microwave detuning %g rad/s is red; allowed [0, 2 pi x 1e10] rad/s "
+        .. "(microwave shielding needs a blue-detuned microwave)", pr.microwave.detuning)
+    end
+  end
+  if args.confinement ~= nil then
+    local c = args.confinement
+    if type(c) ~= "table" then
+      A.fail(fname, "argument 'confinement' must be a table {axial_omega (rad/s)}, got %s", type(c))
+    end
+    local f = fname .. ": confinement"
+    A.table(f, c, { "axial_omega" })
+    pr.confinement = { axial_omega = A.number(f, c, "axial_omega", "rad/s",
+      { min = 2 * math.pi * 1e3, max = 2 * math.pi * 1e6 }) }
+  end
+  if pr.microwave and (pr.electric_field or pr.confinement) then
+    A.fail(fname, "a microwave together with 'electric_field' or 'confinement' is not "
+      .. "modelled; give the microwave alone")
+  end
+  if not (pr.electric_field or pr.microwave or pr.confinement) then return nil end
+  return pr
+end
+
+-- The equipment a protection needs (for the budget's safety cautions).
+function M.protection_equipment(pr)
+  local eq = {}
+  if pr and pr.electric_field then
+    eq[#eq + 1] = { kind = "electric", what = "electric field for the molecules' dipoles", field = pr.electric_field }
+  end
+  if pr and pr.microwave then
+    eq[#eq + 1] = { kind = "microwave", what = "microwave for shielding (near the J = 0 -> 1 "
+      .. "transition)", rabi = pr.microwave.rabi }
+  end
+  return eq
+end
+
+-- Elastic and loss rate coefficients predicted for the sample's molecules at temperature T
+-- under protection pr (cp.collisions.shielded).
+function M.predicted_rates(s, pr, T)
+  return cp.collisions.shielded { molecule = s.molecule, temperature = T,
+    electric_field = pr.electric_field, microwave = pr.microwave, confinement = pr.confinement }
+end
+
+local REGIME_NAMES = { dc_3d = "dc field in free space", quasi_2d = "quasi-2D pancakes",
+  microwave = "microwave shielding" }
+
+-- A note on predicted rates r at temperature T (K) for the sample s's molecules.
+function M.rates_note(s, r, T, notes)
+  local pr = r.regime == "dc_3d" and r.dipole_debye == 0 and "no field (field-free)"
+    or REGIME_NAMES[r.regime]
+  notes[#notes + 1] = string.format("collision rates predicted for %s (%s dipole %.3g D) at "
+    .. "%.3g nK: loss %.3g cm^3/s, elastic %.3g cm^3/s, elastic/loss %.3g; method: %s", pr,
+    r.regime == "microwave" and "effective" or "induced, exact Stark effect", r.dipole_debye, T / cp.units.nK,
+    r.loss_rate_coefficient / cp.units.cm3, r.elastic_rate_coefficient / cp.units.cm3,
+    r.ratio, r.method)
+  if r.regime == "quasi_2d" then
+    notes[#notes + 1] = string.format("in pancakes: the rates are 3D-equivalent (2D loss "
+      .. "%.3g cm^2/s times sqrt(2 pi) a_z); the cloud's density and the hold and evaporation "
+      .. "models are still those of the 3D trap", r.loss_rate_coefficient_2d / 1e-4)
+  end
+  if not s.molecule.reactive and r.regime ~= "microwave" then
+    notes[#notes + 1] = "non-reactive " .. s.molecule.name .. ": loss at short range (sticky "
+      .. "complexes) taken as certain, as for reactive molecules"
+  end
+  if not r.valid then
+    notes[#notes + 1] = "outside the collision model's validity: " .. r.note
+  end
+end
+
+-- Below this ratio of elastic to loss collisions evaporation does not gain phase-space
+-- density for long (common practice, no source: labs ask for 100 or more).
+M.GOOD_RATIO = 100
+
+-- A note when molecules evaporate without shielding and lose fast.
+function M.unprotected_note(pr, ratio, notes)
+  local shielded = pr and (pr.microwave or pr.confinement)
+  if not shielded and ratio < M.GOOD_RATIO then
+    notes[#notes + 1] = string.format("no protection from loss (no microwave shielding, "
+      .. "dc-field shielding or pancake confinement): elastic/loss is only %.3g, below the "
+      .. "~%d evaporation needs; these molecules lose faster than they thermalise", ratio, M.GOOD_RATIO)
+  end
+end
 
 
 return M

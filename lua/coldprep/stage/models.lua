@@ -119,6 +119,70 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
     MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number))
 end
 
+-- Evaporation with collision rates that follow the temperature (rates(T) -> {ratio,
+-- elastic, loss}, the elastic <sigma v> and loss beta in m^3/s): the trajectory is run in
+-- segments of 0.2 in ln N by cp.collisions.evaporation, each with the ratio predicted at
+-- its starting temperature (inside a segment the model scales it as T^(+-1/2)); time
+-- from dt = -d ln N / (<n> (f <sigma v> + beta)) as in MODEL.evaporation_times (f and <n>
+-- of the truncated gas, cp.collisions.evaporation_rate).  Ends at
+-- target.number, target.temperature or target.duration (interpolated in the last segment,
+-- then run exactly to that number): {number, temperature, efficiency, duration, start,
+-- finish (the rates at both ends)}.
+local SEGMENT = 0.2
+function MODEL.evaporate_predicted(s, eta, kappa, rates, target)
+  local w, m, kB = s.trap_frequencies, s.mass, cp.consts.kB
+  local wbar = S.omega_bar(w)
+  local ev = cp.collisions.evaporation_rate { eta = eta } -- Gamma_ev/Gamma_el, mean-density <n>
+  local wave = s.statistics == "fermion" and "p" or "s"
+  local function run(N, T, r, final)
+    return cp.collisions.evaporation { number = N, temperature = T, mass = m, omega_x = w[1],
+      omega_y = w[2], omega_z = w[3], eta = eta, kappa = kappa, ratio = math.min(r.ratio, 1e12),
+      wave = wave, final_number = final, points = 2 }
+  end
+  local function rate(N, T, r)
+    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5 / ev.truncated_fraction
+    return n * (ev.ratio * r.elastic + r.loss)
+  end
+  local N, T, t = s.number, s.temperature, 0
+  local r = rates(T)
+  local start = r
+  local nmin = math.max(1, s.number * 1e-6)
+  local function finish(Nf, Tf, tf, rf)
+    local psd0 = s.number / s.temperature ^ 3
+    return { number = Nf, temperature = Tf, duration = tf, start = start, finish = rf,
+      efficiency = -math.log((Nf / Tf ^ 3) / psd0) / math.log(Nf / s.number) }
+  end
+  while N > nmin do
+    local Nn = math.max(nmin, N * math.exp(-SEGMENT))
+    local Tn = run(N, T, r, Nn).temperature
+    local rn = rates(Tn)
+    local dt = 0.5 * (1 / rate(N, T, r) + 1 / rate(Nn, Tn, rn)) * math.log(N / Nn)
+    local frac
+    if target.number and Nn <= target.number then
+      frac = math.log(N / target.number) / math.log(N / Nn)
+    elseif target.temperature and Tn <= target.temperature then
+      frac = math.log(T / target.temperature) / math.log(T / Tn)
+    elseif target.duration and t + dt >= target.duration then
+      frac = (target.duration - t) / dt
+    end
+    if frac then
+      local Nf = target.number or N * (Nn / N) ^ frac
+      if Nf >= N then return finish(N, T, t, r) end
+      local Tf = run(N, T, r, Nf).temperature
+      return finish(Nf, Tf, t + frac * dt, rates(Tf))
+    end
+    N, T, t, r = Nn, Tn, t + dt, rn
+  end
+  -- physics, not input: the stage is marked failed and the plan still returns its budget
+  if target.temperature then
+    common.fail(string.format("the temperature never falls to %.3g nK (it ends at %.3g nK "
+      .. "with %.3g particles left); losses outrun the cooling", target.temperature / cp.units.nK,
+      T / cp.units.nK, N))
+  end
+  common.fail(string.format("the requested duration %.3g s is longer than the evaporation can "
+    .. "last: after %.3g s only %.3g of %.3g particles are left", target.duration, t, N, s.number))
+end
+
 -- The cubic lattice of three equal retro-reflected beams (cp.lattice.depth3d, gravity along
 -- z), its loading ramp (cp.lattice.loading: the fraction left in excited bands at q = 0),
 -- the energy of that excitation (band 1 to band 3 at q = 0, the first band parity couples,
