@@ -4,7 +4,7 @@
  * sag, and 3D lattices from three orthogonal 1D lattices.
  *
  * Dipole potential and polarizability conversions: Grimm, Weidemueller, Ovchinnikov,
- * Adv. At. Mol. Opt. Phys. 42, 95 (2000), Sec. 2.1 [M]; physics.md §6.1:
+ * Adv. At. Mol. Opt. Phys. 42, 95 (2000), Sec. 2.1 [M]; docs/models/lattice.md:
  *   U = -Re(alpha) I / (2 eps0 c),   alpha_SI = alpha_au 4 pi eps0 a0^3,
  *   alpha in Hz/(W/cm^2) = alpha_SI / (2 eps0 c h) * 1e4  (so U/h = -alpha_h I[W/cm^2]).
  * Two beams of intensities I1 = I0 and I2 = eta I0 (same mode, parallel polarization)

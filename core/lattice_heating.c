@@ -5,7 +5,7 @@
  * Ovchinnikov, Adv. At. Mol. Opt. Phys. 42, 95 (2000), Sec. 2.1 [M]).  Each scattering
  * deposits 2 E_rec on average (one recoil from the absorbed and one from the emitted
  * photon), so dE/dt = 2 E_rec Gamma_sc and, in a 3D harmonic trap (E = 3 kB T),
- * dT/dt = 2 E_rec Gamma_sc / (3 kB) (physics.md §6.1).  The rate of excitation out of the
+ * dT/dt = 2 E_rec Gamma_sc / (3 kB) (docs/models/lattice.md).  The rate of excitation out of the
  * lowest band is derived in lattice.h (cp_lattice_heating).
  */
 #include <math.h>

@@ -1,7 +1,7 @@
 /*
  * Ideal Fermi and Bose gases in a 3D harmonic trap (semiclassical, LDA): the state from
  * (N, T) or (N, T/T_F), (N, T/T_c), and the inverse from the entropy per particle.
- * Relations (re-derived in ../shared/reference/physics.md §7; Butts & Rokhsar, PRA 55,
+ * Relations (re-derived in docs/models/thermo.md; Butts & Rokhsar, PRA 55,
  * 4346 (1997); Dalfovo et al., RMP 71, 463 (1999)), with x = mu/k_BT, t = k_BT/(hbar w):
  *   fermions  N = t^3 F_2(x),  E = 3 k_BT t^3 F_3(x),  S/Nk_B = 4 F_3/F_2 - x,
  *             n(0) = F_{1/2}(x)/lambda^3        (F_j: GSL's normalised Fermi-Dirac integral)

@@ -208,7 +208,7 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
 
 /* ---- on-site quantities and Wannier functions ------------------------------------------ */
 
-/* Harmonic approximation of one well: hbar omega_site = 2 sqrt(V0 E_r) (physics.md §6.1),
+/* Harmonic approximation of one well: hbar omega_site = 2 sqrt(V0 E_r) (docs/models/lattice.md),
  * returned in E_r as 2 sqrt(depth_er), and the Lamb-Dicke parameter
  * eta = k_p sqrt(hbar / (2 m omega_site)) = probe_ratio / (sqrt(2) depth_er^(1/4)) for
  * light of wavenumber k_p = probe_ratio * k projected on the lattice axis.
@@ -262,7 +262,7 @@ typedef struct cp_lattice_heating_result {
  * from photon scattering at rate scattering_rate (1/s, [0, 1e9]); recoil = E_r of the
  * lattice light (J, > 0; the lattice is retro-reflected so E_rec = E_r).
  * Energy: each scattering adds 2 E_rec on average (absorption and spontaneous emission
- * recoil; Grimm et al. 2000 [M], physics.md §6.1).  Band excitation: in the Lamb-Dicke
+ * recoil; Grimm et al. 2000 [M], docs/models/lattice.md).  Band excitation: in the Lamb-Dicke
  * regime the emitted photon's kick hbar k cos(theta) along the axis excites the first
  * band with probability eta^2 <cos^2 theta> = eta^2 / 3 (isotropic emission), while
  * absorption from the standing wave at its antinode does not change the band to first

@@ -1,5 +1,5 @@
 /*
- * Benchmark of the thermo model (issue 6 targets, one core):
+ * Benchmark of the thermo model (one core):
  *   - the Fermi chemical-potential solve, per point: cp_thermo_fermi over 10^5
  *     temperatures from T/T_F = 0.01 to 10 (the full state: mu, E, S, n(0)), and the bare
  *     solve of F_2(mu/k_BT) = N (hbar w / k_B T)^3 (target <= 2 us per point);

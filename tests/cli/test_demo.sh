@@ -13,7 +13,7 @@ grep -q "Verdict with microwave shielding: degenerate; without: not degenerate."
   || fail "flipped verdict"
 grep -q "Class 4 laser" <<<"$out" || fail "laser caution"
 # the STIRAP lasers (30 and 60 mW) are between 5 mW and 0.5 W: Class 3B (IEC 60825-1,
-# physics.md section 9 [M])
+# docs/planning.md [M])
 flat=$(tr -s ' \n' '  ' <<<"$out")   # the report wraps its lines
 grep -q "Class 3B laser (beam power 5 mW to 0.5 W): stage 3 (transfer): pump laser of the two-photon transfer, 30 mW" <<<"$flat" \
   || fail "Class 3B caution for the STIRAP lasers"

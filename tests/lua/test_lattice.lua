@@ -1,4 +1,4 @@
--- Lua-level tests of cp.lattice through the real coldprep binary: the API.md names and
+-- Lua-level tests of cp.lattice through the real coldprep binary: the docs/lua-api.md names and
 -- units, values against hand calculations and published limits, and error messages.
 local T = require "testlib"
 local cp = require "coldprep"
@@ -11,7 +11,7 @@ local r = cp.lattice.recoil { mass = krb, wavelength = 1064 * u.nm }
 T.near(r.frequency_hz, 1389.0691289, 1e-9, "KRb recoil at 1064 nm")
 T.near(r.energy, 1389.0691289 * cp.consts.h, 1e-9, "recoil energy in J")
 
--- LAT-L2: depth worked example (Grimm et al. 2000 [M], physics.md §6.1): 1 W, 100 um,
+-- LAT-L2: depth worked example (Grimm et al. 2000 [M], docs/models/lattice.md): 1 W, 100 um,
 -- 1064 nm, 1000 a.u. -> V0/h = 1.19356658 MHz by hand; 1000 a.u. = 46.8712499 Hz/(W/cm^2)
 -- and 1.6487772743602864e-38 C m^2/V give the same.
 local base = { power = 1 * u.W, waist = 100 * u.um, wavelength = 1064 * u.nm }
@@ -46,8 +46,8 @@ T.near(d3.omega_bar, math.sqrt(d_au.depth * (2 / zr ^ 2 + 8 / 1e-8) / krb), 1e-9
 T.near(d3.axes[2].depth, d_au.depth, 1e-12, "3D axis depth")
 
 -- LAT-L4: bands.  Free particle (depth 0): folded parabolas (q + 2l)^2 (Ashcroft and Mermin
--- Ch. 9); at 10 E_r J = width/4 to 1e-3 (Mathieu, physics.md §6.1) and Zwerger's
--- asymptotic J is 19 % high (physics.md §6.1 [C]).
+-- Ch. 9); at 10 E_r J = width/4 to 1e-3 (Mathieu, docs/models/lattice.md) and Zwerger's
+-- asymptotic J is 19 % high (computed from the Mathieu width, docs/models/lattice.md).
 local b0 = cp.lattice.bands { depth_er = 0, bands = 3, quasimomenta = { 0.5 } }
 T.near(b0.energies_er[1][1], 0.25, 1e-12, "free band 1 at q = 0.5")
 T.near(b0.energies_er[1][2], 2.25, 1e-12, "free band 2 at q = 0.5")

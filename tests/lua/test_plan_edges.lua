@@ -141,8 +141,8 @@ if okr then
 end
 
 -- EDGE-4c the universal loss rate rests on threshold laws: a hold at a temperature near
--- the p-wave barrier says so.  NaCs (C6 ~ 6.8e6 a.u., physics.md 3) has a barrier of
--- ~0.9 uK (E_1 = [2 hbar^2]^(3/2) / (3 sqrt 6 mu^(3/2) C6^(1/2)), physics.md 8.1), KRb
+-- the p-wave barrier says so.  NaCs (C6 ~ 6.8e6 a.u., docs/data.md) has a barrier of
+-- ~0.9 uK (E_1 = [2 hbar^2]^(3/2) / (3 sqrt 6 mu^(3/2) C6^(1/2)), docs/models/collisions.md), KRb
 -- (C6 = 16130 a.u.) ~24 uK; at 300 nK NaCs is past a tenth of it, KRb is not.
 local function hold_note(molecule, a, b)
   local bud = cp.plan { start = { molecule = molecule, temperature = 300 * u.nK, atoms = {
@@ -153,7 +153,7 @@ local function hold_note(molecule, a, b)
 end
 local mol = cp.species.molecule("NaCs")
 local mu = mol.mass / 2
-local c6 = mol.c6_au * 4.3597447222071e-18 * 5.29177210903e-11 ^ 6 -- E_h a0^6 (CODATA 2018, physics.md 1)
+local c6 = mol.c6_au * 4.3597447222071e-18 * 5.29177210903e-11 ^ 6 -- E_h a0^6 (CODATA 2018)
 local e1 = (2 * cp.consts.hbar ^ 2) ^ 1.5 / (3 * math.sqrt(6) * mu ^ 1.5 * math.sqrt(c6)) / cp.consts.kB
 T.check(e1 < 3e-6 and 300 * u.nK > 0.1 * e1, "NaCs: 300 nK is past a tenth of the barrier (by hand)")
 T.check(hold_note("23Na133Cs", "23Na", "133Cs"):find("of the p-wave barrier", 1, true) ~= nil, "NaCs near its barrier: noted")
@@ -185,7 +185,7 @@ local hot = plan({}, 600 * u.nK):run { limiting = false }
 T.check(600 * u.nK > tc_na and not notes(hot.stages[1]):find("below T_c", 1, true), "thermal partner: no note")
 
 -- EDGE-6b a lattice of 1 uW per beam is far too shallow to hold molecules at ~100 nK:
--- V0 = 4 Re(alpha) P / (pi eps0 c w^2) (physics.md 6.1) with 700 a.u. = 1.154e-38 SI,
+-- V0 = 4 Re(alpha) P / (pi eps0 c w^2) (docs/models/lattice.md) with 700 a.u. = 1.154e-38 SI,
 -- 1e-6 W, 180 um gives V0/kB ~ 1e-11 K, i.e. ~1e-4 kB T (by hand).
 local alpha_si = 700 * 1.6487772743602864e-41
 local v0 = 4 * alpha_si * 1e-6 / (pi * 8.8541878128e-12 * 299792458 * (180 * u.um) ^ 2)

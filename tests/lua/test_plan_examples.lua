@@ -36,7 +36,7 @@ if rows then
   T.check(rows[1].entropy > rows[#rows].entropy + 0.1, "the fastest ramp adds visible entropy")
   local note = table.concat(rows[1].budget.stages[4].notes, " ")
   T.check(note:find("loading ramp not adiabatic", 1, true) ~= nil, "the fast ramp is flagged")
-  -- 0.6 W per lattice beam is above the 0.5 W Class 4 boundary (IEC 60825-1, physics.md 9)
+  -- 0.6 W per lattice beam is above the 0.5 W Class 4 boundary (IEC 60825-1, docs/planning.md)
   local safety = table.concat(rows[#rows].budget.safety, " ")
   T.check(safety:find("Class 4 laser", 1, true) and safety:find("lattice beams (each of three), 0.6 W", 1, true),
     "the lattice beams are flagged Class 4")

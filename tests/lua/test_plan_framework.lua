@@ -42,7 +42,7 @@ end
 local function rho(N, T, w) return N * (c.hbar * w / (c.kB * T)) ^ 3 end
 
 -- PLAN-F1: the start's degeneracy is computed from the model: T_F = hbar w (6N)^(1/3)/kB
--- (Butts & Rokhsar 1997; physics.md section 7), entropy as the classical limit above.
+-- (Butts & Rokhsar 1997; docs/models/thermo.md), entropy as the classical limit above.
 local plan = cp.plan { name = "framework", start = start(), stages = { convert(0.3), heat(2), keep(0.1) } }
 local b = plan:run()
 local TF = c.hbar * W * (6 * 1e4) ^ (1 / 3) / c.kB

@@ -1,4 +1,4 @@
--- Lua-level tests of cp.thermo through the real coldprep binary: the API.md names and
+-- Lua-level tests of cp.thermo through the real coldprep binary: the docs/lua-api.md names and
 -- units, the relations checked against outside references, and the error messages.
 local T = require "testlib"
 local cp = require "coldprep"
@@ -7,9 +7,9 @@ local m = 127 * cp.units.amu
 local w = 2 * math.pi * 100
 local hbar, kB = cp.consts.hbar, cp.consts.kB
 
--- THERMO-L1: fermi from (N, T) and from (N, T/T_F) (API.md); T_F = hbar w (6N)^(1/3)/kB
+-- THERMO-L1: fermi from (N, T) and from (N, T/T_F) (docs/lua-api.md); T_F = hbar w (6N)^(1/3)/kB
 -- (Butts & Rokhsar, PRA 55, 4346 (1997) [M]); Sommerfeld S/N = pi^2 T/T_F at 0.05
--- (physics.md §7; next term O((T/T_F)^3)).
+-- (docs/models/thermo.md; next term O((T/T_F)^3)).
 local f = cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, t_over_tf = 0.05 }
 T.near(f.fermi_temperature, hbar * w * (6e5) ^ (1 / 3) / kB, 1e-14, "T_F")
 T.near(f.entropy_per_particle, math.pi ^ 2 * 0.05, 1e-2, "Sommerfeld entropy")
@@ -41,7 +41,7 @@ for _, stat in ipairs { "fermion", "boson" } do
   T.near(r.temperature, t0, 1e-10, "temperature_from_entropy round trip, " .. stat)
 end
 
--- THERMO-L4: harmonic -> harmonic matching scales T with omega_bar (by hand, physics.md §7).
+-- THERMO-L4: harmonic -> harmonic matching scales T with omega_bar (by hand, docs/models/thermo.md).
 local mh = cp.thermo.match_harmonic { number = 1e5, omega_bar = w, mass = m, statistics = "fermion",
   temperature = f.temperature, omega_bar_to = 2 * w }
 T.near(mh.temperature, 2 * f.temperature, 1e-10, "match_harmonic doubles T with omega")

@@ -33,7 +33,7 @@ local function transfer(args)
   if args.efficiency then
     eff = A.number(fname, args, "efficiency", "fraction", { positive = true, max = 1 })
   elseif args.round_trip_efficiency then
-    -- both directions equally efficient: one way = sqrt(round trip) (physics.md 5.2)
+    -- both directions equally efficient: one way = sqrt(round trip) (docs/models/raman.md)
     eff = math.sqrt(A.number(fname, args, "round_trip_efficiency", "fraction", { positive = true, max = 1 }))
   else
     for _, k in ipairs { "rabi_pump", "rabi_stokes", "width", "delay", "gamma" } do
