@@ -136,7 +136,7 @@ static cp_status solve_sample(solver *s, double depth, sample_state *out)
     if (st != CP_OK)
         return st;
     for (int k = 0; k < NEVEN; k++) {
-        double *v = s->vec + (size_t)k * n, *p = s->prev + (size_t)k * n;
+        double *v = s->vec + (size_t)k * (size_t)n, *p = s->prev + (size_t)k * (size_t)n;
         cp_tridiag_vector(&t, x[k], v, s->work);
         if (s->have_prev) {
             double overlap = 0.0;
@@ -151,7 +151,7 @@ static cp_status solve_sample(solver *s, double depth, sample_state *out)
     /* <n| dH/dV0 |0>: diagonal 1/2, off-diagonal -sqrt(2)/4 (first) and -1/4 */
     const double *v0 = s->vec;
     for (int k = 0; k < NEVEN; k++) {
-        const double *v = s->vec + (size_t)k * n;
+        const double *v = s->vec + (size_t)k * (size_t)n;
         double m = 0.0;
         for (int i = 0; i < n; i++) {
             m += 0.5 * v[i] * v0[i];
@@ -216,7 +216,7 @@ cp_status cp_lattice_loading(const cp_lattice_ramp *ramp, cp_lattice_loading_res
         return cp_fail(err, CP_ENOMEM, "%s: out of memory", CTX);
     s.work = s.diag + size;
     s.vec = s.work + 2 * (size_t)size + 4 * (NEVEN + 1);
-    s.prev = s.vec + (size_t)NEVEN * size;
+    s.prev = s.vec + (size_t)NEVEN * (size_t)size;
 
     double hbar_over_er = CP_HBAR / ramp->recoil; /* s */
     double complex amp[NEVEN] = {0};

@@ -43,9 +43,9 @@ static void subset(const cp_thermo_lattice *full, int b, double *tables, cp_ther
     *lat = *full;
     for (int a = 0; a < 3; a++) {
         const cp_thermo_band_table *t = &full->axis[a];
-        double *dst = tables + (size_t)a * b * t->points;
+        double *dst = tables + (size_t)a * (size_t)b * (size_t)t->points;
         for (int j = 0; j < t->points; j++)
-            memcpy(dst + (size_t)j * b, t->energy_er + (size_t)j * t->bands,
+            memcpy(dst + (size_t)j * (size_t)b, t->energy_er + (size_t)j * (size_t)t->bands,
                    (size_t)b * sizeof(double));
         lat->axis[a].bands = b;
         lat->axis[a].energy_er = dst;

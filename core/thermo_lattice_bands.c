@@ -34,7 +34,7 @@ cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, d
     for (int j = 0; j < points; j++)
         q[j] = (j + 0.5) / points;
     for (int a = 0; a < 3; a++) {
-        double *t = tables + a * per_axis;
+        double *t = tables + (size_t)a * per_axis;
         /* Axes of equal depth share one solve. */
         int same = -1;
         for (int b = 0; b < a; b++)
@@ -42,7 +42,7 @@ cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, d
                 same = b;
         if (same >= 0) {
             for (size_t k = 0; k < per_axis; k++)
-                t[k] = tables[same * per_axis + k];
+                t[k] = tables[(size_t)same * per_axis + k];
         } else {
             cp_status st = cp_lattice_band_energies(depth_er[a], bands, 0, (size_t)points, q,
                                                     t, NULL, err);

@@ -74,9 +74,10 @@ static void hubbard_orbital(double a, double bu, double *log_z, double *nbar)
     double tmax = peak * a - bu * peak * (peak - 1.0) / 2.0;
     double z = 0.0, nz = 0.0;
     for (long n = 0;; n++) {
-        double t = n * a - bu * n * (n - 1.0) / 2.0 - tmax;
+        double dn = (double)n;
+        double t = dn * a - bu * dn * (dn - 1.0) / 2.0 - tmax;
         z += exp(t);
-        nz += n * exp(t);
+        nz += dn * exp(t);
         if (n > peak && t < -40.0)
             break;
         if (n > MAX_OCCUPATION) {
