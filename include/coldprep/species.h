@@ -29,6 +29,12 @@ typedef struct cp_atom {
     double mass_u;        /* atomic mass in unified atomic mass units (AME2020) */
     double nuclear_spin;  /* I */
     const char *source;
+    double a_bb;              /* intraspecies s-wave scattering length, m (sign kept: < 0 is
+                                 attractive); for the hyperfine state and field named in
+                                 a_bb_source.  Fermions: between two spin states (identical
+                                 fermions in one state have no s-wave scattering). */
+    const char *a_bb_source;  /* the state it is for, its published source ("[M]": the
+                                 number is recalled, check it) */
 } cp_atom;
 
 typedef struct cp_molecule {

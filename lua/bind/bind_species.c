@@ -20,7 +20,7 @@ static const char *statistics_name(cp_statistics s)
 
 static void push_atom(lua_State *L, const cp_atom *a)
 {
-    lua_createtable(L, 0, 9);
+    lua_createtable(L, 0, 12);
     cpl_set_string(L, "kind", "atom");
     cpl_set_string(L, "name", a->name);
     cpl_set_string(L, "symbol", a->symbol);
@@ -31,6 +31,8 @@ static void push_atom(lua_State *L, const cp_atom *a)
     cpl_set_number(L, "nuclear_spin", a->nuclear_spin);
     cpl_set_string(L, "statistics", statistics_name(cp_atom_statistics(a)));
     cpl_set_string(L, "source", a->source);
+    cpl_set_number(L, "a_bb", a->a_bb);
+    cpl_set_string(L, "a_bb_source", a->a_bb_source);
 }
 
 static void push_molecule(lua_State *L, const cp_molecule *m)

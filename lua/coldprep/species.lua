@@ -101,7 +101,8 @@ end
 
 function M.add_atom(args)
   local fname = "species.add_atom"
-  A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "source" })
+  A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "source", "a_bb",
+    "a_bb_source" })
   check_name(fname, args.name)
   local mass_u = number(fname, args, "mass_u", "u", true)
   A.option(fname, args, "statistics", { "boson", "fermion" })
@@ -109,7 +110,10 @@ function M.add_atom(args)
     kind = "atom", name = args.name, mass_u = mass_u, mass = mass_u * cp.consts.amu,
     statistics = args.statistics, nuclear_spin = args.nuclear_spin,
     source = args.source or "user-supplied",
+    a_bb = A.number(fname, args, "a_bb", "m", { optional = true, min = -1e-6, max = 1e-6 }),
+    a_bb_source = args.a_bb_source,
   }
+  if a.a_bb and not a.a_bb_source then a.a_bb_source = "user-supplied" end
   user_atoms[key(args.name)] = a
   local num, sym = args.name:match("^(%d+)(%a+)$")
   if num then user_atoms[key(sym .. num)] = a end
@@ -165,9 +169,12 @@ end
 local H = {
   atom = [[
 species.atom(name) -> {kind, name, symbol, protons, mass_number, mass (kg), mass_u (u),
-  nuclear_spin, statistics = "boson"|"fermion", source}
+  nuclear_spin, statistics = "boson"|"fermion", source, a_bb (m), a_bb_source}
 Names as "87Rb" or "Rb87" (case-insensitive).  An unknown name is an error listing the
-closest known names.  Example: cp.species.atom("40K").statistics  --> "fermion"]],
+closest known names.  a_bb: the atoms' own s-wave scattering length (sets the size of a
+condensate), for the hyperfine state named in a_bb_source with its paper.
+Example: cp.species.atom("40K").statistics  --> "fermion"
+Example: cp.species.atom("87Rb").a_bb / cp.units.a0  --> 100.4]],
   molecule = [[
 species.molecule(name) -> {kind, name, atoms = {a, b}, mass (kg), mass_u,
   reduced_mass (kg, of the two atoms), statistics,
@@ -181,8 +188,10 @@ user-added).  Built-in values are from memory (verified = false): check them.
 Example: r = cp.species.resonance("KRb"); print(r.b0 / cp.units.G)]],
   list = "species.list() -> names of every known atom and molecule (built-in and user-added).",
   add_atom = [[
-species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin, source]}
-Adds an atom to this session.  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
+species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin, source,
+  a_bb (m, |a_bb| <= 1e-6), a_bb_source]}
+Adds an atom to this session (a_bb: its own s-wave scattering length, needed for a condensed
+cloud of it in a plan).  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
 statistics = "boson"}]],
   add_molecule = [[
 species.add_molecule{name, atoms = {a, b}, dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.)
