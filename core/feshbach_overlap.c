@@ -222,20 +222,28 @@ cp_status cp_feshbach_overlap_adaptive(const cp_cloud_state *a, const cp_cloud_s
  * last is tried only with a condensed Bose cloud (below). */
 static const cp_overlap_rule RULES[] = {{12, 16, 6}, {16, 24, 8}, {24, 36, 12}, {32, 48, 16}};
 static const double RULE_TOL = 1e-8; /* relative agreement of two successive sizes */
-/* With a Bose cloud's condensate the rule converges more slowly: the thermal part has a
- * cusp at that cloud's centre (g_{3/2} ~ zeta(3/2) - 2 sqrt(pi u)), smooth along rays from
+/* With a Bose cloud's condensate (or a Bose gas near T_c) the rule converges more slowly:
+ * the thermal part has a cusp at that cloud's centre (g_{3/2} ~ zeta(3/2) - 2 sqrt(pi u)), smooth along rays from
  * it but not from the other centre, and rays grazing the other condensate's edge make the
  * integrand non-smooth in direction.  Two sizes are then asked to agree to 1e-6, with one
  * more size on the ladder (the tests hold the result against the reference to 1e-6). */
 static const double RULE_TOL_CONDENSED = 1e-6;
 
+/* Whether a profile has the Bose cusp near its centre: a condensate, or a Bose gas close to
+ * T_c (fugacity above e^-1, where g_{3/2}(z e^-u) is nearly singular at u = 0). */
+static int cusp(const cp_cloud_profile *p)
+{
+    return p->kind == CP_PROFILE_BOSE && (p->peak_tf > 0.0 || p->eta > -1.0);
+}
+
 /* Rank of a profile's sharpness: the centre of the spherical rule is the sharper cloud (a
- * condensate first, whose density along rays from its own centre is smooth). */
+ * condensate or a Bose gas near T_c first, whose density along rays from its own centre is
+ * smooth, while from elsewhere its cusp slows the rule down). */
 static double sharpness(const cp_cloud_profile *p)
 {
     switch (p->kind) {
     case CP_PROFILE_THOMAS_FERMI: return INFINITY;
-    case CP_PROFILE_BOSE: return p->peak_tf > 0.0 ? INFINITY : p->eta;
+    case CP_PROFILE_BOSE: return cusp(p) ? INFINITY : p->eta;
     case CP_PROFILE_FERMI: return p->eta;
     default: return -INFINITY;
     }
@@ -267,8 +275,7 @@ static int sees_core(const cp_cloud_profile *c, const cp_cloud_profile *o)
 /* The rule about centre c at successive sizes: CP_OK and the integral when two agree. */
 static cp_status ladder(const cp_cloud_profile *c, const cp_cloud_profile *o, double *integral)
 {
-    int condensed = (c->kind == CP_PROFILE_BOSE && c->peak_tf > 0.0) ||
-                    (o->kind == CP_PROFILE_BOSE && o->peak_tf > 0.0);
+    int condensed = cusp(c) || cusp(o);
     double tol = condensed ? RULE_TOL_CONDENSED : RULE_TOL;
     size_t sizes = sizeof RULES / sizeof RULES[0] - (condensed ? 0 : 1);
     double prev = cp_feshbach_overlap_rule(c, o, RULES[0]);

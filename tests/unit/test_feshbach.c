@@ -1022,9 +1022,9 @@ static double z_quadrature(two_tf *c, double (*f)(double, void *))
  * direct quadrature above, to 1e-6 (the public path: the fixed rule declines where the
  * surfaces cross, the adaptive reference answers).  Then condensed Bose clouds (23Na and
  * 87Rb at 100 nK, T/T_c ~ 0.4 and 0.45, condensate and thermal part; and the 87Rb
- * condensate with a degenerate 40K Fermi gas): the fast path must accept its result and meet
- * the adaptive reference (GSL QAG nested three deep, the independent Cartesian method) to
- * 1e-6. */
+ * condensate with a degenerate 40K Fermi gas, and the 87Rb Bose gas just above T_c): the
+ * fast path must accept its result and meet the adaptive reference (GSL QAG nested three
+ * deep, the independent Cartesian method) to 1e-6. */
 static void test_overlap_condensed(void **state)
 {
     (void)state;
@@ -1059,6 +1059,14 @@ static void test_overlap_condensed(void **state)
     rb.omega[0] = tp * 60, rb.omega[1] = tp * 70, rb.omega[2] = tp * 150;
     prepare_pair(&rb, &k, 80e-9, &sa, &sb);
     assert_true(sa.n_condensed > 0.5 * rb.number && sb.eta > 2.0);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+    /* just above T_c (no condensate, fugacity 0.998): the cusp without the condensate */
+    double wb = cbrt(rb.omega[0] * rb.omega[1] * rb.omega[2]);
+    double tc = CP_HBAR * wb * cbrt(rb.number / 1.2020569031595942) / CP_KB;
+    prepare_pair(&rb, &k, 1.001 * tc, &sa, &sb);
+    assert_true(sa.n_condensed == 0.0 && sa.eta > -1e-2);
     assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
     assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
     assert_rel(fast, ref, 1e-6);
