@@ -4,7 +4,8 @@
  * solvers: ideal Fermi gas through GSL's complete Fermi–Dirac integral F_2, ideal Bose gas
  * through Li_3 = g_3; Boltzmann gas in closed form), its phase-space occupation and its
  * density profile (Butts & Rokhsar, PRA 55, 4346 (1997); Dalfovo, Giorgini, Pitaevskii &
- * Stringari, RMP 71, 463 (1999), Sec. II.A and III.A).
+ * Stringari, RMP 71, 463 (1999): the ideal gas in a harmonic trap and the Thomas–Fermi
+ * limit).
  *
  * A Bose cloud below T_c is two parts (docs/models/feshbach.md, "Condensed partners"): the
  * condensate of the ideal-gas fraction N0 = N (1 - (T/T_c)^3), given the Thomas–Fermi
@@ -28,7 +29,7 @@
 #include "feshbach_int.h"
 #include "thermo_int.h"
 
-/* The Thomas–Fermi condensate of n0 atoms of cloud c (Dalfovo et al. 1999, Sec. III.A):
+/* The Thomas–Fermi condensate of n0 atoms of cloud c (Dalfovo et al. 1999):
  * chemical potential, radii and peak density into s. */
 static void thomas_fermi(const cp_feshbach_cloud *c, double n0, cp_cloud_state *s)
 {

@@ -851,13 +851,13 @@ static double number_by_quadrature(const cp_cloud_state *s, const double len[3],
 }
 
 /* FB-14: Thomas–Fermi radius and peak density against Dalfovo, Giorgini, Pitaevskii &
- * Stringari, RMP 71, 463 (1999), Sec. III.A, written here in their form: a_ho = sqrt(hbar /
+ * Stringari, RMP 71, 463 (1999) (the Thomas–Fermi limit), written here in their form: a_ho = sqrt(hbar /
  * (m omega_ho)), mu = (hbar omega_ho / 2) (15 N a / a_ho)^(2/5), R_i = a_ho (omega_ho /
  * omega_i) (15 N a / a_ho)^(1/5), n(0) = mu / g, g = 4 pi hbar^2 a / m (the code uses
  * R_i^2 = 2 mu / (m omega_i^2) and n(0) = 15 N / (8 pi Rx Ry Rz)); the density vanishes
  * at R_i on each axis, and it integrates to N (GSL quadrature).  A Bose cloud below T_c:
  * the condensate holds the ideal-gas fraction N0 = N (1 - (T/T_c)^3), k T_c = hbar
- * omega_ho (N / zeta(3))^(1/3) (Dalfovo et al. 1999, Sec. II.A), and condensate plus
+ * omega_ho (N / zeta(3))^(1/3) (Dalfovo et al. 1999, the ideal gas), and condensate plus
  * saturated thermal part integrate to N (the thermal part's own normalisation: Li_{3/2}
  * integrated over the trap gives zeta(3) (kT/hbar omega_ho)^3). */
 static void test_thomas_fermi(void **state)
