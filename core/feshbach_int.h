@@ -91,7 +91,8 @@ cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_st
                                       double *overlap, cp_error *err);
 
 /* The fast path (feshbach_overlap.c): the spherical rule below at successive sizes
- * (12, 16, 6), (16, 24, 8), (24, 36, 12), accepted when two agree to 1e-8 relative, about
+ * (12, 16, 6), (16, 24, 8), (24, 36, 12), accepted when two agree to 1e-8 relative (with a
+ * Bose cloud's cusp, condensed or near T_c: to 1e-6, with (32, 48, 16) added), about
  * one cloud's centre and then the other's; CP_OK and *overlap, else CP_ENOCONV and NaN
  * (rule sizes disagree, a Fermi cloud too degenerate for its table, or neither centre sees
  * the other cloud's core in a cone of >= 30 degrees).  No cp_error: its caller falls

@@ -135,7 +135,8 @@ typedef struct cp_feshbach_cloud {
  * scattering length is CP_EINVAL.  Two THERMAL clouds use the closed form for
  * displaced Gaussians; any other pair is integrated numerically (a fixed product rule with
  * its own error estimate, ~1 ms; GSL adaptive quadrature where that rule declines, ~0.1 s;
- * relative accuracy ~1e-7 either way; docs/models/feshbach.md).
+ * relative accuracy ~1e-7 either way, ~1e-6 with a condensed Bose cloud, whose overlaps take
+ * up to ~20 ms; docs/models/feshbach.md).
  * *sag is the differential sag (z_b - z_a), m.  Result in m^-3. */
 cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
                                       double temperature, double *overlap, double *sag,
