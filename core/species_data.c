@@ -16,30 +16,72 @@
 
 #include "coldprep/consts.h"
 
-/* Single-oscillator estimates at 1064 nm: alpha0 / (1 - (lambda_D / 1064 nm)^2), alpha0 the
- * measured static polarizability, lambda_D the D-line centroid (species_provenance.c). */
+/* The atoms' 1064 nm polarizabilities are single-oscillator estimates alpha0 / (1 -
+ * (lambda_D / 1064 nm)^2), alpha0 the measured static polarizability, lambda_D the D-line
+ * centroid (species_provenance.c).  Each atom's last two fields: a_bb, its own s-wave scattering length (m), and a_bb_source,
+ * the hyperfine state it is for, its uncertainty and the paper; "[M]" where the number is
+ * recalled rather than read from the source. */
 const cp_atom cp_atom_table[] = {
-    {"6Li", "Li", 3, 6, 6.01512288742, 1.0, NAN, NAN, "AME2020 mass; I: Stone 2005"},
-    {"7Li", "Li", 3, 7, 7.01600343426, 1.5, NAN, NAN, "AME2020 mass; I: Stone 2005"},
+    {"6Li", "Li", 3, 6, 6.01512288742, 1.0, NAN, NAN, "AME2020 mass; I: Stone 2005",
+     -2160.0 * CP_A0,
+     "triplet a_T, the high-field limit of the |1> + |2> mixture: Abraham et al., PRA 55, "
+     "R3299 (1997) [M]"},
+    {"7Li", "Li", 3, 7, 7.01600343426, 1.5, NAN, NAN, "AME2020 mass; I: Stone 2005",
+     -27.3 * CP_A0,
+     "|2,2> (pure triplet), -27.3(8) a0: Abraham et al., PRL 74, 1315 (1995), "
+     "doi:10.1103/PhysRevLett.74.1315"},
     {"23Na", "Na", 11, 23, 22.98976928195, 1.5, 234.7, NAN,
-     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010"},
+     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
+     55.4 * CP_A0,
+     "|1,-1> at B = 0 (= |1,1> at B = 0), 55.4(1.2) a0: van Abeelen & Verhaar, PRA 59, 578 "
+     "(1999), doi:10.1103/PhysRevA.59.578"},
     {"39K", "K", 19, 39, 38.96370648482, 1.5, 606.4, NAN,
-     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010"},
+     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
+     -33.48 * CP_A0,
+     "|2,2> (triplet a_T); |1,1> is near -30 a0 at low field and tuned by resonances near 33 G"
+     " and 403 G: Falke et al., PRA 78, 012503 (2008), arXiv:0804.2949 [M]"},
     {"40K", "K", 19, 40, 39.963998165, 4.0, 606.4, NAN,
-     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010"},
+     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
+     169.67 * CP_A0,
+     "triplet a_T (|9/2,-9/2> + |9/2,-7/2> background): Falke et al., PRA 78, 012503 (2008), "
+     "arXiv:0804.2949 [M]"},
     {"41K", "K", 19, 41, 40.96182525611, 1.5, 606.4, NAN,
-     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010"},
+     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
+     60.54 * CP_A0,
+     "|2,2> (triplet a_T): Falke et al., PRA 78, 012503 (2008), arXiv:0804.2949 [M]"},
     {"85Rb", "Rb", 37, 85, 84.91178973604, 2.5, 699.8, NAN,
-     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010"},
+     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
+     -443.0 * CP_A0,
+     "|2,-2>, background away from the 155 G resonance: Claussen et al., PRA 67, 060701(R) "
+     "(2003) [M]"},
     {"87Rb", "Rb", 37, 87, 86.909180529, 1.5, 699.8, NAN,
-     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010"},
+     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
+     100.40 * CP_A0,
+     "|1,-1> (= |1,1> at B = 0); the triplet |2,2> value is 98.98 a0: van Kempen et al., PRL "
+     "88, 093201 (2002) [M]"},
     {"133Cs", "Cs", 55, 133, 132.905451958, 3.5, 1187.9, NAN,
-     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Amini & Gould 2003"},
-    {"84Sr", "Sr", 38, 84, 83.913419118, 0.0, NAN, NAN, "AME2020 mass; I: Stone 2005"},
-    {"87Sr", "Sr", 38, 87, 86.90887749454, 4.5, NAN, NAN, "AME2020 mass; I: Stone 2005"},
-    {"88Sr", "Sr", 38, 88, 87.905612253, 0.0, NAN, NAN, "AME2020 mass; I: Stone 2005"},
-    {"173Yb", "Yb", 70, 173, 172.938216211, 2.5, NAN, NAN, "AME2020 mass; I: Stone 2005"},
-    {"174Yb", "Yb", 70, 174, 173.938867545, 0.0, NAN, NAN, "AME2020 mass; I: Stone 2005"},
+     "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Amini & Gould 2003",
+     2440.0 * CP_A0,
+     "|4,4> (triplet a_T); |3,3> depends strongly on B (zero near 17 G, a few hundred a0 at "
+     "20-50 G): give the value at the plan's field.  Chin et al., PRA 70, 032701 (2004) [M]"},
+    {"84Sr", "Sr", 38, 84, 83.913419118, 0.0, NAN, NAN, "AME2020 mass; I: Stone 2005",
+     122.7 * CP_A0,
+     "1S0 (no hyperfine structure): Stein, Knoeckel & Tiemann, Eur. Phys. J. D 57, 171 (2010),"
+     " arXiv:1001.2741 [M]"},
+    {"87Sr", "Sr", 38, 87, 86.90887749454, 4.5, NAN, NAN, "AME2020 mass; I: Stone 2005",
+     96.2 * CP_A0,
+     "1S0, between two nuclear-spin states: Stein, Knoeckel & Tiemann, Eur. Phys. J. D 57, 171"
+     " (2010), arXiv:1001.2741 [M]"},
+    {"88Sr", "Sr", 38, 88, 87.905612253, 0.0, NAN, NAN, "AME2020 mass; I: Stone 2005",
+     -1.4 * CP_A0,
+     "1S0, -1.4(6) a0: Martinez de Escobar et al., PRA 78, 062708 (2008), arXiv:0808.3434"},
+    {"173Yb", "Yb", 70, 173, 172.938216211, 2.5, NAN, NAN, "AME2020 mass; I: Stone 2005",
+     10.55e-9,
+     "1S0, between two nuclear-spin states, 10.55(11) nm: Kitagawa et al., PRA 77, 012719 "
+     "(2008), arXiv:0708.0752"},
+    {"174Yb", "Yb", 70, 174, 173.938867545, 0.0, NAN, NAN, "AME2020 mass; I: Stone 2005",
+     5.55e-9,
+     "1S0, 5.55(8) nm: Kitagawa et al., PRA 77, 012719 (2008), arXiv:0708.0752"},
 };
 const size_t cp_atom_table_size = sizeof cp_atom_table / sizeof cp_atom_table[0];
 

@@ -127,8 +127,10 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
 typedef enum cp_feshbach_profile {
     CP_PROFILE_THERMAL = 0,      /* Boltzmann (Gaussian) */
     CP_PROFILE_FERMI = 1,        /* ideal Fermi gas, Fermi–Dirac in the local-density approx. */
-    CP_PROFILE_BOSE = 2,         /* ideal Bose gas in LDA: thermal part + ideal condensate */
-    CP_PROFILE_THOMAS_FERMI = 3  /* interacting condensate, Thomas–Fermi (overlap only) */
+    CP_PROFILE_BOSE = 2,         /* Bose gas in LDA: ideal thermal part; below T_c the ideal-gas
+                                    fraction N0 = N (1 - (T/T_c)^3) as a Thomas–Fermi
+                                    condensate (needs scattering_length) */
+    CP_PROFILE_THOMAS_FERMI = 3  /* pure interacting condensate, Thomas–Fermi (overlap only) */
 } cp_feshbach_profile;
 
 /* One cloud in a harmonic trap (gravity along -z). */
@@ -137,15 +139,18 @@ typedef struct cp_feshbach_cloud {
     double number;        /* atom number, [1, 1e10] */
     double mass;          /* kg, [0.5, 500] u */
     double omega[3];      /* trap frequencies x, y, z, rad/s, [1e-2, 2 pi x 1 MHz] */
-    double scattering_length; /* own s-wave scattering length, m (THOMAS_FERMI only), > 0 */
+    double scattering_length; /* own s-wave scattering length, m, (0, 1e-6]: THOMAS_FERMI, and
+                                 BOSE below T_c (0 = not given, allowed above T_c) */
 } cp_feshbach_cloud;
 
 /* Overlap density <n_a>_b = (1/N_b) Int n_a n_b d^3r of cloud a (the partner) seen by
  * cloud b, both at temperature T (K, [1e-12, 1e-3]; unused for THOMAS_FERMI), each sagging by
- * g/omega_z^2 below the common trap centre.  Two THERMAL clouds use the closed form for
+ * g/omega_z^2 below the common trap centre.  Any profile; a BOSE cloud below T_c without a
+ * scattering length is CP_EINVAL.  Two THERMAL clouds use the closed form for
  * displaced Gaussians; any other pair is integrated numerically (a fixed product rule with
  * its own error estimate, ~1 ms; GSL adaptive quadrature where that rule declines, ~0.1 s;
- * relative accuracy ~1e-7 either way; docs/models/feshbach.md).
+ * relative accuracy ~1e-7 either way, ~1e-6 with a condensed Bose cloud, whose overlaps take
+ * up to ~20 ms; docs/models/feshbach.md).
  * *sag is the differential sag (z_b - z_a), m.  Result in m^-3. */
 cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
                                       double temperature, double *overlap, double *sag,
@@ -155,7 +160,10 @@ cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshb
  * that can pair with partners from cloud a.  Profiles THERMAL, FERMI or BOSE (as the cloud's
  * statistics); temperature T in [1e-12, 1e-3] K; gamma: phase-space cell in units of h^3
  * (0, 100]; samples in [100, 1e7]; seed any value.  Deterministic for a given seed.
- * *std_error is the Monte Carlo standard error of *p_max. */
+ * The cell counting covers the thermal parts only; a condensed minority atom pairs with
+ * probability min(1, n_a,c(r) / n_b,c(r)) with the partner's condensate instead
+ * (feshbach_spss.c, docs/models/feshbach.md).  *std_error is the Monte Carlo standard error
+ * of *p_max. */
 typedef struct cp_feshbach_spss {
     double gamma;            /* cell volume / h^3 in relative phase space; default 0.38, the
                                 value fitted by Hodby et al. (recalled [M]), a fit

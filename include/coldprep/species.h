@@ -32,6 +32,12 @@ typedef struct cp_atom {
     double pol_1064_au;   /* ground-state dynamic polarizability at 1064 nm, a.u.; NaN: none */
     double pol_1550_au;   /* the same at 1550 nm, a.u.; NaN when none is built in */
     const char *source;
+    double a_bb;              /* intraspecies s-wave scattering length, m (sign kept: < 0 is
+                                 attractive); for the hyperfine state and field named in
+                                 a_bb_source.  Fermions: between two spin states (identical
+                                 fermions in one state have no s-wave scattering). */
+    const char *a_bb_source;  /* the state it is for, its published source ("[M]": the
+                                 number is recalled, check it) */
 } cp_atom;
 
 typedef struct cp_molecule {

@@ -291,11 +291,12 @@ static int l_dissociation_energy(lua_State *L)
     return 1;
 }
 
-/* args[key] is a cloud table -> c.  Without a 'profile' the atom's statistics choose it:
- * a fermion is 'fermi'; a boson is 'bose' when quantum_default is set, else 'thermal'; a
- * cloud given by mass alone is 'thermal'.  t_over_tf / t_over_tc set the atom number. */
+/* args[key] is a cloud table -> c.  Without a 'profile' the atom's statistics choose it: a
+ * fermion is 'fermi', a boson 'bose'; a cloud given by mass alone is 'thermal'.  Without a
+ * 'scattering_length' an atom's own a_bb is used where it is positive (a condensate needs
+ * one).  t_over_tf / t_over_tc set the atom number. */
 static void read_cloud(lua_State *L, const char *fname, const char *key, double temperature,
-                       int quantum_default, cp_feshbach_cloud *c)
+                       cp_feshbach_cloud *c)
 {
     static const char *const known[] = {"atom", "mass", "number", "t_over_tf", "t_over_tc",
                                         "omega_x", "omega_y", "omega_z", "profile",
@@ -310,6 +311,7 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
     int t = lua_gettop(L);
     cpl_check_args(L, t, cname, known);
     const char *stats = NULL;
+    double a_bb = 0.0;
     if (cpl_has(L, t, "atom")) {
         lua_getfield(L, t, "atom");
         if (lua_type(L, -1) == LUA_TSTRING) {
@@ -319,6 +321,7 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
         if (!lua_istable(L, -1))
             cpl_error(L, cname, "field 'atom' must be an atom name or table");
         c->mass = field_number(L, -1, cname, "atom", "mass", "kg", 1, 0.0);
+        a_bb = field_number(L, -1, cname, "atom", "a_bb", "m", 0, 0.0);
         lua_getfield(L, -1, "statistics");
         stats = lua_tostring(L, -1);
         lua_pop(L, 1); /* the atom table keeps the string alive */
@@ -326,16 +329,15 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
         c->mass = cpl_number(L, t, cname, "mass", "kg");
     }
     int dflt = 0;
-    if (quantum_default && stats)
+    if (stats)
         dflt = strcmp(stats, "fermion") == 0 ? 1 : 2;
-    else if (stats && strcmp(stats, "fermion") == 0)
-        dflt = 1;
     c->profile = (cp_feshbach_profile)cpl_option(L, t, cname, "profile", profiles,
                                                  profiles[dflt]);
     c->omega[0] = cpl_number(L, t, cname, "omega_x", "rad/s");
     c->omega[1] = cpl_number(L, t, cname, "omega_y", "rad/s");
     c->omega[2] = cpl_number(L, t, cname, "omega_z", "rad/s");
-    c->scattering_length = cpl_opt_number(L, t, cname, "scattering_length", "m", 0.0);
+    c->scattering_length = cpl_opt_number(L, t, cname, "scattering_length", "m",
+                                          a_bb > 0.0 ? a_bb : 0.0);
     int has_n = cpl_has(L, t, "number"), has_f = cpl_has(L, t, "t_over_tf"),
         has_c = cpl_has(L, t, "t_over_tc");
     if (has_n + has_f + has_c != 1)
@@ -373,8 +375,8 @@ static int l_overlap_density(lua_State *L)
     double n, sag;
     cpl_check_args(L, 1, fname, known);
     double temp = cpl_opt_number(L, 1, fname, "temperature", "K", 0.0);
-    read_cloud(L, fname, "a", temp, 0, &a);
-    read_cloud(L, fname, "b", temp, 0, &b);
+    read_cloud(L, fname, "a", temp, &a);
+    read_cloud(L, fname, "b", temp, &b);
     if (cp_feshbach_overlap_density(&a, &b, temp, &n, &sag, &err))
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 2);
@@ -394,8 +396,8 @@ static int l_max_efficiency(lua_State *L)
     double p, se;
     cpl_check_args(L, 1, fname, known);
     double temp = cpl_number(L, 1, fname, "temperature", "K");
-    read_cloud(L, fname, "a", temp, 1, &a);
-    read_cloud(L, fname, "b", temp, 1, &b);
+    read_cloud(L, fname, "a", temp, &a);
+    read_cloud(L, fname, "b", temp, &b);
     opts.gamma = cpl_opt_number(L, 1, fname, "gamma", "", 0.38);
     opts.samples = cpl_opt_integer(L, 1, fname, "samples", 20000, 100, 10000000);
     opts.seed = (unsigned long)cpl_opt_integer(L, 1, fname, "seed", 1, 0, 4294967295L);
@@ -471,9 +473,11 @@ static const cpl_function functions[] = {
      "(1/N_b) Int n_a n_b d^3r: the density of partner cloud a averaged over cloud b, with\n"
      "each cloud sagging by g/omega_z^2.  cloud = {atom = name or mass = kg, number or\n"
      "t_over_tf / t_over_tc, omega_x, omega_y, omega_z (rad/s) [, profile = 'thermal' |\n"
-     "'fermi' | 'thomas_fermi' (default: 'fermi' for a fermionic atom, else 'thermal'),\n"
-     "scattering_length (m, thomas_fermi)]}.  temperature is needed except for two\n"
-     "Thomas–Fermi clouds.  Example:\n"
+     "'fermi' | 'bose' | 'thomas_fermi' (default by the atom's statistics: 'fermi' or 'bose';\n"
+     "'thermal' for a cloud given by mass), scattering_length (m; default the atom's a_bb)]}.\n"
+     "'bose' below T_c: the ideal-gas condensed fraction as a Thomas–Fermi condensate set by\n"
+     "scattering_length (needed, > 0), the saturated thermal part around it.  temperature\n"
+     "is needed except for two Thomas–Fermi clouds.  Example:\n"
      "  w = 2*math.pi*100; c = {atom = '87Rb', number = 1e5, omega_x = w, omega_y = w,\n"
      "  omega_z = w, profile = 'thermal'}\n"
      "  cp.feshbach.overlap_density{a = c, b = c, temperature = 300e-9}.density"},
@@ -482,9 +486,10 @@ static const cpl_function functions[] = {
      "  samples = 20000, seed = 1, sag = true]} -> {max_efficiency, std_error}\n"
      "Phase-space ceiling P_max of association (stochastic phase-space sampling, Hodby et\n"
      "al. 2005): fraction of the minority cloud b that finds a partner of cloud a within a\n"
-     "relative phase-space cell gamma h^3.  Clouds as in overlap_density; profile defaults to\n"
-     "'fermi' / 'bose' by the atom's statistics ('thermal' = Boltzmann).  Deterministic for a\n"
-     "given seed.  Example: w = 2*math.pi*100\n"
+     "relative phase-space cell gamma h^3.  Clouds as in overlap_density ('thermal', 'fermi'\n"
+     "or 'bose').  A condensate is not counted in cells: a condensed minority atom pairs with\n"
+     "probability min(1, n_a,c/n_b,c), the local ratio of the condensate densities\n"
+     "(docs/models/feshbach.md).  Deterministic for a given seed.  Example: w = 2*math.pi*100\n"
      "  cp.feshbach.max_efficiency{temperature = 200e-9,\n"
      "  a = {atom = '87Rb', t_over_tc = 1.2, omega_x = w, omega_y = w, omega_z = w},\n"
      "  b = {atom = '40K', t_over_tf = 0.3, omega_x = w, omega_y = w, omega_z = w}}"},

@@ -49,6 +49,8 @@ static void push_atom(lua_State *L, const cp_atom *a)
     set_known(L, "pol_1064_au", a->pol_1064_au);
     set_known(L, "pol_1550_au", a->pol_1550_au);
     cpl_set_string(L, "source", a->source);
+    cpl_set_number(L, "a_bb", a->a_bb);
+    cpl_set_string(L, "a_bb_source", a->a_bb_source);
 }
 
 static void push_molecule(lua_State *L, const cp_molecule *m)

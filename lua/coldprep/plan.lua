@@ -33,7 +33,7 @@ end
 
 -- ---- the start ------------------------------------------------------------------------
 
-local CLOUD_KEYS = { "atom", "number", "trap_frequencies", "beam_power" }
+local CLOUD_KEYS = { "atom", "number", "trap_frequencies", "beam_power", "scattering_length" }
 
 -- One atom cloud of the start at temperature T, checked; `where` is e.g.
 -- "plan: start.atoms[2]".
@@ -54,6 +54,10 @@ local function start_cloud(where, c, molecule, temperature)
     temperature = temperature,
     trap_frequencies = A.frequencies(where, c, "trap_frequencies"),
     beam_power = A.number(where, c, "beam_power", "W", { optional = true, positive = true }),
+    -- the atoms' own s-wave scattering length in the state and field of the plan; it sets
+    -- the size of a condensate (default: the atom's a_bb)
+    scattering_length = A.number(where, c, "scattering_length", "m",
+      { optional = true, default = atom.a_bb, min = -1e-6, max = 1e-6 }),
   }
   local ok, err = pcall(S.derive, cloud)
   if not ok then A.fail(where, "%s", plain(err)) end
@@ -401,7 +405,10 @@ start = {molecule = "23Na40K", temperature = 250*nK (K, both clouds in equilibri
            {atom = "23Na", number = 3e5, trap_frequencies = {wx, wy, wz}},
            {atom = "40K",  number = 1.5e5, trap_frequencies = {...}}}}
   trap_frequencies: angular, rad/s (one number = isotropic); optional beam_power (W) of
-  the trap beams, used only for the safety cautions.  Degeneracy of each cloud is computed.
+  the trap beams, used only for the safety cautions; optional scattering_length (m), the
+  atoms' own s-wave scattering length in the plan's state and field (default the atom's
+  a_bb, cp.species.atom): it sets the size of a condensate.  Degeneracy of each cloud is
+  computed.
 stages: a list built with cp.stages.* (help(cp.stages) lists them); the order is checked.
 threshold: the degeneracy threshold (default T/T_F <= 0.5 for fermionic molecules,
   T/T_c <= 1 for bosonic ones); perturbation: how much better a stage is made when

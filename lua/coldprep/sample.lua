@@ -15,7 +15,8 @@
 --   atoms               {cloud_a, cloud_b}: for a mixture the two atom clouds, for molecules
 --                       the atoms left over from association (number 0 once removed); each
 --                       cloud has name, mass, statistics, number, temperature,
---                       trap_frequencies and the derived fields below
+--                       trap_frequencies, scattering_length (m, the atoms' own; may be
+--                       nil) and the derived fields below
 --   lattice             nil, or {depth (J), depth_er, wavelength (m), spacing (m), ...}
 --                       once the sample sits in an optical lattice (the state
 --                       load_lattice records, see its help)

@@ -174,7 +174,7 @@ end
 function M.add_atom(args)
   local fname = "species.add_atom"
   A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "pol_1064_au",
-    "pol_1550_au", "source" })
+    "pol_1550_au", "source", "a_bb", "a_bb_source" })
   check_name(fname, args.name)
   local mass_u = number(fname, args, "mass_u", "u", true)
   A.option(fname, args, "statistics", { "boson", "fermion" })
@@ -184,7 +184,10 @@ function M.add_atom(args)
     pol_1064_au = number(fname, args, "pol_1064_au", "a.u.", true, true),
     pol_1550_au = number(fname, args, "pol_1550_au", "a.u.", true, true),
     source = args.source or "user-supplied",
+    a_bb = A.number(fname, args, "a_bb", "m", { optional = true, min = -1e-6, max = 1e-6 }),
+    a_bb_source = args.a_bb_source,
   }
+  if a.a_bb and not a.a_bb_source then a.a_bb_source = "user-supplied" end
   user_atoms[key(args.name)] = a
   local num, sym = args.name:match("^(%d+)(%a+)$")
   if num then user_atoms[key(sym .. num)] = a end
@@ -257,10 +260,14 @@ end
 local H = {
   atom = [[
 species.atom(name) -> {kind, name, symbol, protons, mass_number, mass (kg), mass_u (u),
-  nuclear_spin, statistics = "boson"|"fermion", pol_1064_au, pol_1550_au, source}
+  nuclear_spin, statistics = "boson"|"fermion", pol_1064_au, pol_1550_au, source, a_bb (m),
+  a_bb_source}
 (a polarizability is nil where none is built in)
 Names as "87Rb" or "Rb87" (case-insensitive).  An unknown name is an error listing the
-closest known names.  Example: cp.species.atom("40K").statistics  --> "fermion"]],
+closest known names.  a_bb: the atoms' own s-wave scattering length (sets the size of a
+condensate), for the hyperfine state named in a_bb_source with its paper.
+Example: cp.species.atom("40K").statistics  --> "fermion"
+Example: cp.species.atom("87Rb").a_bb / cp.units.a0  --> 100.4]],
   molecule = [[
 species.molecule(name) -> {kind, name, atoms = {a, b}, mass (kg), mass_u,
   reduced_mass (kg, of the two atoms), statistics,
@@ -289,8 +296,9 @@ Every built-in number with its publication; prints them unless quiet.  "NOT chec
 marks values to calibrate.  Example: cp.species.sources("KRb")]],
   add_atom = [[
 species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin,
-  pol_1064_au, pol_1550_au (a.u.), source]}
-Adds an atom to this session.  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
+  pol_1064_au, pol_1550_au (a.u.), source, a_bb (m, |a_bb| <= 1e-6), a_bb_source]}
+Adds an atom to this session (a_bb: its own s-wave scattering length, needed for a condensed
+cloud of it in a plan).  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
 statistics = "boson"}]],
   add_molecule = [[
 species.add_molecule{name, atoms = {a, b}, dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.)

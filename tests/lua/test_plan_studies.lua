@@ -41,7 +41,7 @@ T.check(best_t ~= nil and best_t < 97.5 * u.nK, "STUDY-1 the scan brackets the T
 local o = cp.optimize {
   parameters = { { name = "final_temperature", min = 40 * u.nK, max = 140 * u.nK, start = 80 * u.nK } },
   evaluate = run, merit = "final.number", constraints = { { output = "final.t_over_tf", max = 0.5 } },
-  tolerance = 1e-2, max_evaluations = 18 }
+  tolerance = 1e-3, max_evaluations = 30 }
 local topt = o.parameters.final_temperature
 T.check(o.feasible, "STUDY-1 the optimum satisfies T/T_F <= 0.5")
 T.check(topt >= best_t - 1e-3 * u.nK and topt < best_t + step,

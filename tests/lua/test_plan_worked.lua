@@ -41,20 +41,42 @@ local plan = cp.plan { name = "worked RbCs", start = {
 local b = plan:run()
 local st = b.stages
 
--- WORKED-1 association.  Overlap of two thermal clouds displaced by the differential sag
--- (closed form for displaced Gaussians): <n_Rb>_Cs = N_Rb / ((2 pi)^(3/2) prod_i
--- sqrt(s_Rb,i^2 + s_Cs,i^2)) exp(-dz^2 / (2 (s_Rb,z^2 + s_Cs,z^2))), s_i^2 = kB T/(m w_i^2),
--- dz = g/w_Cs,z^2 - g/w_Rb,z^2 (physics.md 8.1, 4.1.6).  Ramp-rate law (Hodby et al. 2005):
+-- WORKED-1 association.  Overlap of two ideal Bose gases (the stage's profile for bosons)
+-- displaced by the differential sag, summed by hand as the series of displaced Gaussians:
+-- n(r) = lambda^-3 sum_k z^k k^(-3/2) exp(-k V(r)/kB T), so <n_Rb>_Cs = (1/N_Cs) sum_j sum_k
+-- z_Rb^j z_Cs^k (j k)^(-3/2) lambda_Rb^-3 lambda_Cs^-3 prod_i sqrt(pi/(al+be))
+-- exp(-al be d_i^2/(al+be)), al = j/(2 s_Rb,i^2), be = k/(2 s_Cs,i^2), s_i^2 = kB T/(m w_i^2),
+-- d = (0, 0, g/w_Cs,z^2 - g/w_Rb,z^2) (physics.md 8.1, 4.1.6; the Bose functions:
+-- Dalfovo et al., RMP 71, 463 (1999)), with the fugacity from N = (kB T/hbar wbar)^3 g_3(z)
+-- solved here by Newton's method on the series.  Ramp-rate law (Hodby et al. 2005):
 -- P = Pmax (1 - exp(-alpha n |abg width / Bdot|)), alpha = 4 pi^2 hbar / mu.
 local function s2(m, w) return c.kB * T0 / (m * w * w) end
-local prod, zz = 1, 0
-for i = 1, 3 do
-  local v = s2(rb.mass, w_rb[i]) + s2(cs.mass, w_cs[i])
-  prod = prod * math.sqrt(v)
-  if i == 3 then zz = v end
+local function fugacity(N, w)
+  local target = N * (c.hbar * (w[1] * w[2] * w[3]) ^ (1 / 3) / (c.kB * T0)) ^ 3
+  local z = target
+  for _ = 1, 50 do
+    local g3, g2 = 0, 0
+    for k = 1, 200 do g3, g2 = g3 + z ^ k / k ^ 3, g2 + z ^ k / k ^ 2 end
+    z = z - (g3 - target) / (g2 / z)
+  end
+  return z
 end
+local function lambda3(m) return (2 * pi * c.hbar / math.sqrt(2 * pi * m * c.kB * T0)) ^ 3 end
+local z_rb, z_cs = fugacity(N_rb, w_rb), fugacity(N_cs, w_cs)
 local dz = c.g / w_cs[3] ^ 2 - c.g / w_rb[3] ^ 2
-local n_ov = N_rb / ((2 * pi) ^ 1.5 * prod) * math.exp(-dz * dz / (2 * zz))
+local sum = 0
+for j = 1, 12 do
+  for k = 1, 12 do
+    local term = z_rb ^ j * z_cs ^ k / (j * k) ^ 1.5
+    for i = 1, 3 do
+      local al, be = j / (2 * s2(rb.mass, w_rb[i])), k / (2 * s2(cs.mass, w_cs[i]))
+      local d = i == 3 and dz or 0
+      term = term * math.sqrt(pi / (al + be)) * math.exp(-al * be * d * d / (al + be))
+    end
+    sum = sum + term
+  end
+end
+local n_ov = sum / (lambda3(rb.mass) * lambda3(cs.mass) * N_cs)
 local mu = rb.mass * cs.mass / (rb.mass + cs.mass)
 local P = pmax * (1 - math.exp(-4 * pi * pi * c.hbar / mu * n_ov * math.abs(res.abg * res.width) / ramp))
 T.check(P > 0.1 and P < 0.29, "the worked ramp sits between the fast and slow limits")

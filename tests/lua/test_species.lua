@@ -114,4 +114,21 @@ for _, f in ipairs { "polarizability", "sources" } do
   T.check(type(cp.get_help(cp.species[f])) == "string", "help text for species." .. f)
 end
 
+-- SPECIES-L7: the atoms' own scattering length, with its state and paper (Kitagawa et al.,
+-- PRA 77, 012719 (2008): 174Yb 5.55(8) nm); a user atom may carry one.
+local yb = cp.species.atom("174Yb")
+T.near(yb.a_bb, 5.55e-9, 1e-12, "174Yb a_bb (Kitagawa et al. 2008)")
+T.check(yb.a_bb_source:find("Kitagawa", 1, true) ~= nil, "a_bb_source names the paper")
+for _, name in ipairs { "6Li", "7Li", "23Na", "39K", "40K", "41K", "85Rb", "87Rb", "133Cs", "84Sr",
+  "87Sr", "88Sr", "173Yb", "174Yb" } do
+  local a = cp.species.atom(name)
+  T.check(type(a.a_bb) == "number" and a.a_bb ~= 0 and type(a.a_bb_source) == "string",
+    name .. " has a_bb and its source")
+end
+local dy = cp.species.add_atom { name = "164Dy", mass_u = 163.929, statistics = "boson",
+  a_bb = 92 * cp.units.a0, a_bb_source = "test" }
+T.near(cp.species.atom("164Dy").a_bb, 92 * cp.units.a0, 1e-15, "user atom keeps a_bb")
+T.check(dy.a_bb_source == "test", "user atom keeps a_bb_source")
+T.raises(function() cp.species.add_atom { name = "X", mass_u = 1, statistics = "boson", a_bb = 1 } end,
+  { "species.add_atom", "a_bb", "out of range" }, "an absurd a_bb")
 T.done()

@@ -154,6 +154,42 @@ static void test_resonances(void **state)
     assert_non_null(strstr(err.message, "out of range"));
 }
 
+/* SPECIES-7: the atoms' own scattering lengths.  Every atom has one, |a_bb| <= 1e-6 m, with
+ * a source naming the hyperfine (or 1S0) state and a year; spot values against the papers:
+ * 174Yb 5.55(8) nm and 173Yb 10.55(11) nm (Kitagawa et al., PRA 77, 012719 (2008),
+ * arXiv:0708.0752), 88Sr -1.4(6) a0 (Martinez de Escobar et al., PRA 78, 062708 (2008),
+ * arXiv:0808.3434), 7Li |2,2> -27.3(8) a0 (Abraham et al., PRL 74, 1315 (1995)), 23Na
+ * |1,-1> 55.4(1.2) a0 (van Abeelen & Verhaar, PRA 59, 578 (1999)); and the sign that
+ * matters for a condensate: 87Rb repulsive, 85Rb |2,-2> attractive (Claussen et al., PRA
+ * 67, 060701(R) (2003) [M]). */
+static void test_scattering_lengths(void **state)
+{
+    (void)state;
+    for (size_t i = 0; i < cp_species_atom_count(); i++) {
+        const cp_atom *a = cp_species_atom_at(i);
+        assert_true(isfinite(a->a_bb) && a->a_bb != 0.0 && fabs(a->a_bb) <= 1e-6);
+        assert_non_null(a->a_bb_source);
+        assert_true(strstr(a->a_bb_source, "(19") || strstr(a->a_bb_source, "(20"));
+        assert_true(strchr(a->a_bb_source, '|') || strstr(a->a_bb_source, "1S0") ||
+                    strstr(a->a_bb_source, "triplet"));
+    }
+    static const struct {
+        const char *name;
+        double a_bb, tol;
+    } published[] = {{"174Yb", 5.55e-9, 1e-12},        {"173Yb", 10.55e-9, 1e-12},
+                     {"88Sr", -1.4 * CP_A0, 1e-12},   {"7Li", -27.3 * CP_A0, 1e-12},
+                     {"23Na", 55.4 * CP_A0, 1e-12}};
+    for (size_t i = 0; i < sizeof published / sizeof published[0]; i++) {
+        const cp_atom *a;
+        assert_int_equal(cp_species_atom(published[i].name, &a, NULL), CP_OK);
+        assert_rel(a->a_bb, published[i].a_bb, published[i].tol);
+    }
+    const cp_atom *rb87, *rb85;
+    assert_int_equal(cp_species_atom("87Rb", &rb87, NULL), CP_OK);
+    assert_int_equal(cp_species_atom("85Rb", &rb85, NULL), CP_OK);
+    assert_true(rb87->a_bb > 0.0 && rb85->a_bb < 0.0);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -163,6 +199,7 @@ int main(void)
         cmocka_unit_test(test_molecular_constants),
         cmocka_unit_test(test_lookup_forms_and_errors),
         cmocka_unit_test(test_resonances),
+        cmocka_unit_test(test_scattering_lengths),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -7,10 +7,14 @@ local common = require "coldprep.stage.common"
 
 local MODEL = {}
 
--- A cloud of the sample in the form cp.feshbach takes.
+-- A cloud of the sample in the form cp.feshbach takes: a boson as a Bose gas (its condensate
+-- below T_c a Thomas-Fermi cloud of the cloud's scattering length), a fermion as a Fermi gas.
 local function fb_cloud(c)
+  local a = c.scattering_length
   return { atom = c.name, number = c.number, omega_x = c.trap_frequencies[1],
-    omega_y = c.trap_frequencies[2], omega_z = c.trap_frequencies[3] }
+    omega_y = c.trap_frequencies[2], omega_z = c.trap_frequencies[3],
+    profile = c.statistics == "boson" and "bose" or "fermi",
+    scattering_length = (a and a > 0) and a or nil }
 end
 
 -- Overlap density of partner cloud a seen by minority cloud b (cp.feshbach.overlap_density):
