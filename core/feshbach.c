@@ -3,7 +3,7 @@
  * energy of the Feshbach molecule, the Landau–Zener probability, the bulk ramp-rate law
  * (single call and the batch loop used by sweeps), association of two atoms in one harmonic
  * site, and the energy released by a dissociation ramp.  Formulas and sources:
- * ../shared/reference/physics.md §4.1 and docs/models/feshbach.md.  The overlap density
+ * docs/models/feshbach.md.  The overlap density
  * lives in feshbach_overlap.c, the phase-space ceiling in feshbach_spss.c.
  */
 #include "coldprep/feshbach.h"
@@ -117,7 +117,8 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
     if (model < CP_FESHBACH_AUTO || model > CP_FESHBACH_LINEAR)
         return cp_fail(err, CP_EINVAL, "%s: model %d is unknown; allowed auto, universal, "
                        "corrected, linear", ctx, (int)model);
-    /* With abg * width > 0 and dmu > 0 the bound state exists below b0 (physics.md §4.1). */
+    /* With abg * width > 0 and dmu > 0 the bound state exists below b0 (docs/models/feshbach.md,
+     * Conventions). */
     if (field > res->b0)
         return cp_fail(err, CP_EINVAL,
                        "%s: field %.8g T is above b0 = %.8g T, on the atomic side where no "
@@ -197,7 +198,7 @@ cp_status cp_feshbach_alpha(double mu, double *alpha, cp_error *err)
 {
     *alpha = NAN;
     CP_TRY(cp_feshbach_check_mass(mu, "feshbach alpha", "reduced mass", err));
-    *alpha = 4.0 * CP_PI * CP_PI * CP_HBAR / mu; /* physics.md §4.1.6 */
+    *alpha = 4.0 * CP_PI * CP_PI * CP_HBAR / mu; /* docs/models/feshbach.md, the Landau-Zener law */
     return CP_OK;
 }
 
@@ -286,7 +287,7 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
                               CP_MAX_TRAP_OMEGA, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "max_efficiency", max_efficiency, "", 0.0, 1.0,
                           CP_LO_OPEN));
-    /* |psi_rel(0)|^2 of the harmonic ground state of relative motion (physics.md §4.1.5) */
+    /* |psi_rel(0)|^2 of the harmonic ground state of relative motion (docs/models/feshbach.md) */
     double psi0 = pow(mu / (CP_PI * CP_HBAR), 1.5) *
                   sqrt(omega_rel[0] * omega_rel[1] * omega_rel[2]);
     double x = 4.0 * CP_PI * CP_PI * CP_HBAR * fabs(res->abg * res->width) /

@@ -84,7 +84,7 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
     double kt = CP_KB * temperature;
     for (int i = 0; i < 3; i++)
         s->ell[i] = sqrt(kt / (c->mass * c->omega[i] * c->omega[i]));
-    /* N = (kT/hbar omega_bar)^3 * {exp(eta), F_2(eta), g_3(e^eta)} (physics.md §7) */
+    /* N = (kT/hbar omega_bar)^3 * {exp(eta), F_2(eta), g_3(e^eta)} (Butts & Rokhsar 1997; docs/models/thermo.md) */
     double target = c->number * pow(CP_HBAR * s->omega_bar / kt, 3.0);
     /* the fugacity solvers of the thermo model (thermo_int.h) */
     switch (c->profile) {

@@ -1,6 +1,6 @@
 /*
  * The overlap density <n_a>_b = (1/N_b) Int n_a n_b d^3r of two clouds in one harmonic
- * trap, each displaced along z by its own gravitational sag -g/omega_z^2 (physics.md §4.1.6
+ * trap, each displaced along z by its own gravitational sag -g/omega_z^2 (docs/models/feshbach.md
  * uses it as the density of the ramp-rate law).  Two Boltzmann clouds: closed form for
  * displaced Gaussians, <n_a>_b = N_a prod_i [2 pi (s_ai^2 + s_bi^2)]^(-1/2)
  * exp(-d^2 / (2 (s_az^2 + s_bz^2))).  Any other pair (ideal Fermi gas in LDA, Bose gas with

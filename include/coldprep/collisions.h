@@ -96,7 +96,7 @@ typedef struct cp_hold_params {
 /* N(t), T(t) at `points` times evenly spaced over [0, duration] (points in [2, 1e6]):
  *   dN/dt = -beta(T) <n> N - N/tau,   <n> = N (m omega_bar^2 / (4 pi k_B T))^{3/2}
  *   dT/dt = h beta(T) <n> T + heating_rate,   h = 1/4 (s-wave), 1/12 (p-wave)
- * (thermal cloud; dT/dt = beta <n> T/4: ../shared/reference/physics.md §8; the p-wave
+ * (thermal cloud; dT/dt = beta <n> T/4: docs/models/collisions.md; the p-wave
  * value weights the lost pairs with their relative energy, derivation in
  * docs/models/collisions.md).  Integrated with GSL's rk8pd, relative tolerance 1e-10.
  * times, numbers, temperatures: caller-owned arrays of `points` values. */

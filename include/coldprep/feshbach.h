@@ -8,7 +8,7 @@
  * and the energy released by a dissociation ramp.
  *
  * Units are SI: fields in T, ramp rates in T/s, lengths in m, masses in kg, energies in J,
- * densities in m^-3, trap frequencies in rad/s.  Sign convention (physics.md §4.1): the
+ * densities in m^-3, trap frequencies in rad/s.  Sign convention (docs/models/feshbach.md): the
  * resonance is described by a(B) = abg (1 - width/(B - b0)) with dmu > 0 and
  * abg * width > 0, so the molecular (bound-state) side is B < b0.  Every function returns
  * a cp_status, writes its results through out-parameters (poisoned with NaN on error) and
@@ -90,7 +90,7 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
 cp_status cp_feshbach_lz_probability(double delta, double *probability, cp_error *err);
 
 /* Theoretical ramp-rate-law coefficient alpha = 4 pi^2 hbar / mu (m^2/s) for the density
- * convention n = partner density averaged over the minority cloud (physics.md §4.1.6). */
+ * convention n = partner density averaged over the minority cloud (docs/models/feshbach.md). */
 cp_status cp_feshbach_alpha(double mu, double *alpha, cp_error *err);
 
 /* A bulk field ramp across the resonance. */
@@ -116,7 +116,7 @@ cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const 
 
 /* Two atoms in the ground state of one harmonic site swept at ramp_rate (T/s):
  * 2 pi delta = (4 pi^2 hbar |abg width| / (mu |Bdot|)) |psi_rel(0)|^2,
- * |psi_rel(0)|^2 = (mu/(pi hbar))^(3/2) sqrt(wx wy wz) (physics.md §4.1.5); omega_rel are
+ * |psi_rel(0)|^2 = (mu/(pi hbar))^(3/2) sqrt(wx wy wz) (docs/models/feshbach.md); omega_rel are
  * the relative-motion frequencies, rad/s, each in [1e-2, 2 pi x 10 MHz]. */
 cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu,
                                      double ramp_rate, const double omega_rel[3],

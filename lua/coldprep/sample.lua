@@ -97,7 +97,7 @@ function S.derive(c)
 end
 
 -- The thermo model is semiclassical: it needs many trap levels thermally occupied,
--- kB T >> hbar omega_bar (physics.md 7).  Below SEMICLASSICAL times hbar omega_bar (common
+-- kB T >> hbar omega_bar (docs/models/thermo.md).  Below SEMICLASSICAL times hbar omega_bar (common
 -- practice, no source: the corrections grow as (hbar omega_bar / kB T)^2) this returns a
 -- note for the budget, else nil.
 local SEMICLASSICAL = 3

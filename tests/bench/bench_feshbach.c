@@ -1,9 +1,9 @@
 /*
  * Benchmark of the Feshbach model: the batch ramp-rate law cp_feshbach_ramp_law over an
- * array of ramp rates (target >= 1e8 evaluations/s on one core, issue 3), the single call
+ * array of ramp rates (target >= 1e8 evaluations/s on one core), the single call
  * cp_feshbach_associate, the SPSS ceiling cp_feshbach_max_efficiency (it must be cheap
  * enough to sit inside a sweep), and the overlap density of the demo plan's degenerate
- * clouds (target <= 2 ms per call, so that sweeps of plans cost a few ms per plan, issue 8),
+ * clouds (target <= 2 ms per call, so that sweeps of plans cost a few ms per plan),
  * next to the adaptive reference quadrature it replaced.  Prints the best of several
  * repeats: the machine is shared, so the best run is the closest to the unloaded speed.
  */

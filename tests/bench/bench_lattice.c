@@ -1,5 +1,5 @@
 /*
- * Benchmark of the lattice model (issue 5 targets, one core):
+ * Benchmark of the lattice model (one core):
  *   - band energies of 5 bands at 1000 quasimomenta across the zone at V0 = 10 E_r
  *     (target <= 2 ms);
  *   - loading adiabaticity of a 1000-sample s-shaped ramp 0 -> 30 E_r (target <= 20 ms);

@@ -1,9 +1,9 @@
--- Lua-level tests of cp.collisions through the real coldprep binary: API.md names and
+-- Lua-level tests of cp.collisions through the real coldprep binary: docs/api names and
 -- units, checks against outside references, and error messages.
 local T = require "testlib"
 local cp = require "coldprep"
 
-local M = 126.873178694 * cp.units.amu -- 40K87Rb (physics.md §2)
+local M = 126.873178694 * cp.units.amu -- 40K87Rb (AME2020 masses, docs/data.md)
 local mu = M / 2
 
 -- COLL-L1: the l = 1 barrier of a molecule with C6 ~ 16000 a.u. and mass 127 u is near
@@ -12,7 +12,7 @@ local b = cp.collisions.pwave_barrier { c6_au = 16000, mass = 127 * cp.units.amu
 T.near(b.temperature, 24e-6, 0.03, "p-wave barrier near 24 uK")
 T.near(b.energy / cp.consts.kB, b.temperature, 1e-14, "energy and temperature agree")
 local b2 = cp.collisions.pwave_barrier { c6_au = 16000, mass = 127 * cp.units.amu / 2, l = 2 }
-T.near(b2.energy / b.energy, 3 ^ 1.5, 1e-12, "E_l ~ [l(l+1)]^(3/2) (closed form, physics.md §8)")
+T.near(b2.energy / b.energy, 3 ^ 1.5, 1e-12, "E_l ~ [l(l+1)]^(3/2) (closed form, docs/models/collisions.md)")
 
 -- COLL-L2: abar of KRb ~ 118 a0 (Idziaszek & Julienne, PRL 104, 113202 (2010) [M]).
 local a = cp.collisions.mean_scattering_length { c6_au = 16130, mass = mu }
@@ -28,7 +28,7 @@ local kd = cp.collisions.universal_rate { c6_au = 16130, mass = mu, temperature 
 T.near(kb.rate, 2 * kd.rate, 1e-14, "g = 2 for identical bosons")
 T.near(kd.rate, 4 * math.pi * cp.consts.hbar * a.abar / mu, 1e-14, "K_s = 4 pi hbar abar / mu")
 
--- COLL-L4: hold at fixed T: N(t) = N0 / (1 + N0 K' t) (physics.md §8).
+-- COLL-L4: hold at fixed T: N(t) = N0 / (1 + N0 K' t) (docs/models/collisions.md).
 local w = 2 * math.pi * 100
 local h = cp.collisions.hold { number = 2e4, temperature = 300e-9, omega_bar = w, mass = M,
   rate = 1e-17, duration = 0.2, anti_evaporation = false, points = 5 }

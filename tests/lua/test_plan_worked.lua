@@ -1,5 +1,5 @@
 -- A worked plan for bosonic 87Rb133Cs, checked stage by stage against values worked out
--- here by hand from the model formulas (docs/models/*.md and physics.md), not by calling
+-- here by hand from the model formulas (docs/models/*.md and the papers they cite), not by calling
 -- the code under test again.  The clouds are hot (T/T_c ~ 10) so the classical limits of
 -- the ideal gas hold to ~1e-4 where the check needs them.
 local T = require "testlib"
@@ -46,7 +46,7 @@ local st = b.stages
 -- n(r) = lambda^-3 sum_k z^k k^(-3/2) exp(-k V(r)/kB T), so <n_Rb>_Cs = (1/N_Cs) sum_j sum_k
 -- z_Rb^j z_Cs^k (j k)^(-3/2) lambda_Rb^-3 lambda_Cs^-3 prod_i sqrt(pi/(al+be))
 -- exp(-al be d_i^2/(al+be)), al = j/(2 s_Rb,i^2), be = k/(2 s_Cs,i^2), s_i^2 = kB T/(m w_i^2),
--- d = (0, 0, g/w_Cs,z^2 - g/w_Rb,z^2) (physics.md 8.1, 4.1.6; the Bose functions:
+-- d = (0, 0, g/w_Cs,z^2 - g/w_Rb,z^2) (docs/models/collisions.md and feshbach.md; the Bose functions:
 -- Dalfovo et al., RMP 71, 463 (1999)), with the fugacity from N = (kB T/hbar wbar)^3 g_3(z)
 -- solved here by Newton's method on the series.  Ramp-rate law (Hodby et al. 2005):
 -- P = Pmax (1 - exp(-alpha n |abg width / Bdot|)), alpha = 4 pi^2 hbar / mu.
@@ -96,10 +96,10 @@ local T2 = T0 + heat * removed / (3 * c.kB * N1)
 T.near(st[2].temperature, T2, 2e-4, "temperature after removal (classical limit)")
 T.near(st[2].number, N1, 1e-12, "removal keeps the molecules")
 
--- WORKED-3 transfer: one way = sqrt(round trip) (physics.md 5.2).  The molecules that
+-- WORKED-3 transfer: one way = sqrt(round trip) (docs/planning.md, transfer).  The molecules that
 -- fail are lost at random, so the energy per particle is kept.  For the ideal Bose gas
 -- E/N = 3 kB T Li4(z)/Li3(z) = 3 kB T (1 - z/16 + O(z^2)) with z = rho = N (hbar wbar /
--- kB T)^3 to first order (physics.md 7, series of Li_n(z) = z + z^2/2^n + ...), so keeping
+-- kB T)^3 to first order (docs/models/thermo.md, series of Li_n(z) = z + z^2/2^n + ...), so keeping
 -- E/N while N drops from N1 to N3 gives T3 = T2 (1 - (rho1 - rho3)/16) (worked here by
 -- hand; rho ~ 1e-4, the O(z^2) remainder ~1e-9).
 local N3 = N1 * 0.9
@@ -119,7 +119,7 @@ local T4 = 2 * T3
 T.near(st[4].temperature, T4, 2e-4, "temperature after the trap change (classical)")
 T.near(st[4].entropy_per_particle, st[3].entropy_per_particle, 1e-9, "entropy kept by the trap change")
 
--- WORKED-5 hold with s-wave loss and its anti-evaporation heating (physics.md 8.1):
+-- WORKED-5 hold with s-wave loss and its anti-evaporation heating (docs/models/collisions.md):
 -- dN/dt = -beta <n> N, dT/dt = beta <n> T / 4, <n> = N (m wbar^2 / (4 pi kB T))^(3/2)
 -- => T = T4 (N4/N)^(1/4) and N^(-11/8) = N4^(-11/8) + (11/8) k t with
 -- k = beta (m wbar^2 / (4 pi kB))^(3/2) T4^(-3/2) N4^(-3/8)   (integrated here by hand).

@@ -30,13 +30,13 @@ static void assert_rel(double got, double want, double tol)
         fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
 }
 
-#define M_KRB (126.873178694 * CP_AMU) /* 40K87Rb, physics.md §2 [C] */
+#define M_KRB (126.873178694 * CP_AMU) /* 40K87Rb, AME2020 atomic masses */
 #define MU_KRB (M_KRB / 2.0)
 
 /* COLL-1: abar = [2 pi / Gamma(1/4)^2] (2 mu C6 / hbar^2)^{1/4} with Gamma(1/4) from GSL's
  * gsl_sf_gamma, = 0.955978 R_vdW (Gribakin & Flambaum, PRA 48, 546 (1993); constant [C] in
- * physics.md §4.1); for KRb
- * (C6 = 16130 a.u. [M], physics.md §3) abar is about 118 a0 [M, Idziaszek & Julienne
+ * docs/models/feshbach.md); for KRb
+ * (C6 = 16130 a.u. [M], docs/data.md) abar is about 118 a0 [M, Idziaszek & Julienne
  * 2010]. */
 static void test_abar(void **state)
 {
@@ -100,8 +100,8 @@ static void test_barrier(void **state)
 
 /* COLL-3: universal rates (Z. Idziaszek & P. S. Julienne, PRL 104, 113202 (2010)):
  * K_p = 1513 abar^3 k_B T / h, checked against the independent prefactor
- * g 18 pi^2 0.4649114 / 0.477989^3 = 1512.58 from the numerical threshold solution in
- * physics.md §8 [C]; the p-wave rate is linear in T (Wigner threshold law); KRb's
+ * g 18 pi^2 0.4649114 / 0.477989^3 = 1512.58 from the numerical threshold solution of the
+ * same paper's quantum-defect model (computed, not a published table); the p-wave rate is linear in T (Wigner threshold law); KRb's
  * universal beta/T is about 0.8e-5 cm^3 s^-1 K^-1 (Idziaszek & Julienne 2010 [M]);
  * the s-wave rates 4 pi hbar abar g / mu with g = 2 (identical bosons), 1 (distinguishable). */
 static void test_universal(void **state)
@@ -160,7 +160,7 @@ static cp_hold_params hold_base(void)
     return p;
 }
 
-/* beta <n> at the start: <n> = N (m omega_bar^2 / (4 pi k_B T))^{3/2} (physics.md §8). */
+/* beta <n> at the start: <n> = N (m omega_bar^2 / (4 pi k_B T))^{3/2} (docs/models/collisions.md). */
 static double gamma0(const cp_hold_params *p)
 {
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
@@ -169,7 +169,7 @@ static double gamma0(const cp_hold_params *p)
 }
 
 /* COLL-5: the hold against analytic solutions.
- * Fixed T: N(t) = N0 / (1 + N0 K' t), K' = beta / (8 pi^{3/2} sx sy sz) (physics.md §8,
+ * Fixed T: N(t) = N0 / (1 + N0 K' t), K' = beta / (8 pi^{3/2} sx sy sz) (docs/models/collisions.md,
  * the issue).  With anti-evaporation, solved by hand: dT/dN = -h T/N gives
  * T = T0 (N0/N)^h, and dN/dt = -G0 N0 (N/N0)^2 (T0/T)^{3/2} (T/T0)^p then integrates to
  * N = N0 (1 + c G0 t)^{-1/c} with c = 1 + (3/2 - p) h, G0 = beta <n> at t = 0:

@@ -82,7 +82,7 @@ static void test_scattering_length(void **state)
 
 /* FB-2: mean scattering length.  The prefactor 2 pi / Gamma(1/4)^2 from GSL's gamma
  * function; published values (Chin et al. RMP 2010 Table I [M]): R_vdW(87Rb) = 82.6 a0 with
- * C6 = 4698 a.u. (Derevianko et al. [M]), abar = 0.955978 R_vdW (physics.md §4.1.2). */
+ * C6 = 4698 a.u. (Derevianko et al. [M]), abar = 0.955978 R_vdW (Gribakin & Flambaum, PRA 48, 546 (1993)). */
 static void test_mean_scattering_length(void **state)
 {
     (void)state;
@@ -361,7 +361,7 @@ static cp_feshbach_cloud cloud(cp_feshbach_profile p, double n, double mass_u, d
 }
 
 /* FB-8: overlap density of thermal clouds.  Identical clouds: <n> = n0 / 2^(3/2) with
- * n0 = N / ((2 pi)^(3/2) sigma^3) (physics.md §8.1).  Different species in one trap: the
+ * n0 = N / ((2 pi)^(3/2) sigma^3) (a Gaussian cloud, by hand).  Different species in one trap: the
  * sag difference g (1/w_b^2 - 1/w_a^2) and the closed form for displaced Gaussians; the
  * numerical quadrature (used for degenerate profiles) reproduces the closed form. */
 static void test_overlap_thermal(void **state)
