@@ -162,7 +162,10 @@ local function waterfall(args)
   local names, numbers, notes, ratio_x, ratio_y, ratio_label = {}, {}, {}, {}, {}, "T/T#dF#u"
   for i, s in ipairs(stages) do
     if type(s) ~= "table" then named.fail(fname, "budget.stages[%d] must be a table", i) end
-    names[i] = tostring(s.name or ("stage " .. i))
+    if s.name ~= nil and type(s.name) ~= "string" then
+      named.fail(fname, "budget.stages[%d].name must be a string, got %s", i, type(s.name))
+    end
+    names[i] = s.name or ("stage " .. i)
     local n = s.number
     if not (named.is_finite(n) and n > 0) then
       named.fail(fname, "stage %d (%s): number must be a positive finite number, got %s", i, names[i], tostring(n))
@@ -172,7 +175,11 @@ local function waterfall(args)
     notes[i] = format_count(n) .. (prev and string.format(" (%.0f %%)", 100 * n / prev) or "")
     local r = s.t_over_tf or s.t_over_tc
     if s.t_over_tf == nil and s.t_over_tc ~= nil then ratio_label = "T/T#dc#u" end
-    if usable(r, true) then
+    if r ~= nil and not usable(r, true) then
+      named.fail(fname, "stage %d (%s): %s must be a positive finite number, got %s", i, names[i],
+        s.t_over_tf ~= nil and "t_over_tf" or "t_over_tc", tostring(r))
+    end
+    if r ~= nil then
       ratio_x[#ratio_x + 1], ratio_y[#ratio_y + 1] = i, r
     end
   end
