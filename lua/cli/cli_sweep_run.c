@@ -24,6 +24,7 @@
 
 #include "cli.h"
 #include "cli_sweep.h"
+#include "fileio.h"
 
 enum { JOURNAL_COMPACT_FACTOR = 8 };
 
@@ -143,7 +144,7 @@ static int journal_rewrite(cpl_sweep_run *r)
 {
     char tmp[4200];
     snprintf(tmp, sizeof tmp, "%s.tmp", r->journal);
-    int fd = open(tmp, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
+    int fd = cpl_create_temp(tmp);
     if (fd < 0)
         return -1;
     int bad = 0;

@@ -220,6 +220,11 @@ local function compile(fname, desc, format)
   end
 
   s.header = format == "csv" and encode.csv_record(columns) or ""
+  -- what `coldprep sweep --resume` checks every row against: the header (CSV: as many
+  -- fields) or the keys as written (JSON Lines)
+  local keys = {}
+  for c = 1, #columns do keys[c] = encode.json_string(columns[c]) end
+  s.shape = format == "csv" and s.header or table.concat(keys, ",")
   return s
 end
 
