@@ -205,18 +205,24 @@ static int open_everything(lua_State *L)
     return 0;
 }
 
-lua_State *cpl_new_state(void)
+lua_State *cpl_new_state_for(cpl_sandbox *sb)
 {
-    lua_State *L = luaL_newstate();
+    int sandboxed = sb != NULL && sb->on;
+    lua_State *L = sandboxed ? cpl_sandbox_newstate(sb) : luaL_newstate();
     if (L == NULL) {
         fprintf(stderr, "coldprep: cannot create a Lua state (out of memory)\n");
         return NULL;
     }
     lua_pushcfunction(L, open_everything);
-    if (lua_pcall(L, 0, 0, 0) != LUA_OK) {
+    if (lua_pcall(L, 0, 0, 0) != LUA_OK || (sandboxed && cpl_sandbox_enter(L, sb) != 0)) {
         cpl_report(L, "coldprep");
         lua_close(L);
         return NULL;
     }
     return L;
+}
+
+lua_State *cpl_new_state(void)
+{
+    return cpl_new_state_for(NULL);
 }

@@ -34,7 +34,13 @@ static const char SWEEP_USAGE[] =
     "  --force      overwrite an existing output file\n"
     "  --shard K/N  compute only slice K of N (output PATH gets .K-of-N before its\n"
     "               extension); without it, SLURM_ARRAY_TASK_ID/_COUNT or SGE_TASK_ID/\n"
-    "               _FIRST/_LAST/_STEPSIZE give the slice when set\n"
+    "               _FIRST/_LAST/_STEPSIZE give the slice when set (SGE_TASK_ID=undefined:\n"
+    "               none)\n"
+    "  --sandbox    run FILE as a file you do not trust (also when COLDPREP_SANDBOX=1):\n"
+    "               no os or io beyond reading its own directory, no native code, debug\n"
+    "               library or bytecode; each point capped in memory and time\n"
+    "  --max-memory MIB  memory cap of each worker's Lua state (default 1024)\n"
+    "  --max-time S      time cap of each point (default 600)\n"
     "Join slices with `coldprep merge OUT SLICES...`.  See docs/cli.md (Sweeps).\n";
 
 enum { MAX_JOBS = 1024 };
@@ -161,12 +167,19 @@ typedef struct sweep_options {
     long jobs;
     int resume, force;
     int64_t shard, shards;
+    cpl_sandbox sandbox;
 } sweep_options;
 
 static int parse_options(int argc, char **argv, sweep_options *o)
 {
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
+        char err[256];
+        int sbo = cpl_sandbox_option(argc, argv, &i, &o->sandbox, err, sizeof err);
+        if (sbo < 0)
+            return usage(err, NULL);
+        if (sbo > 0)
+            continue;
         if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
             fputs(SWEEP_USAGE, stdout);
             return -1;
@@ -379,6 +392,7 @@ static int run_sweep(cpl_sweep_run *r, const sweep_options *o, int64_t shard, in
 int cpl_sweep_main(int argc, char **argv)
 {
     sweep_options o = {.jobs = sysconf(_SC_NPROCESSORS_ONLN), .shard = 1, .shards = 1};
+    cpl_sandbox_defaults(&o.sandbox);
     if (o.jobs < 1)
         o.jobs = 1;
     if (o.jobs > MAX_JOBS)
@@ -395,10 +409,20 @@ int cpl_sweep_main(int argc, char **argv)
             return usage(err, NULL);
     }
 
-    lua_State *L = cpl_new_state();
+    /* in the sandbox the file may read its own directory only, and write nothing: the
+     * runner writes the output */
+    char dir[4096];
+    cpl_sandbox_dir(o.file, dir, sizeof dir);
+    o.sandbox.dir = dir;
+    lua_State *L = cpl_new_state_for(&o.sandbox);
     if (L == NULL)
         return CPL_EXIT_ERROR;
-    if (cpl_sweep_load(L, o.file, o.out, NULL) != 0) {
+    if (o.sandbox.on)
+        cpl_sandbox_arm(L);
+    int loaded = cpl_sweep_load(L, o.file, o.out, NULL);
+    if (o.sandbox.on)
+        cpl_sandbox_disarm(L);
+    if (loaded != 0) {
         cpl_report(L, "coldprep sweep");
         lua_close(L);
         return CPL_EXIT_ERROR;
@@ -423,7 +447,7 @@ int cpl_sweep_main(int argc, char **argv)
     cpl_sweep_run r = {.file = o.file, .out = out, .journal = journal,
                        .count = lua_tointeger(L, -4), .header = lua_tostring(L, -3),
                        .format = lua_tostring(L, -2), .shape = lua_tostring(L, -5),
-                       .fd = -1, .jfd = -1};
+                       .sandbox = &o.sandbox, .fd = -1, .jfd = -1};
     int rc = run_sweep(&r, &o, o.shard, o.shards);
     lua_close(L);
     return rc;

@@ -76,6 +76,7 @@ enum { CPL_SWEEP_WINDOW_PER_JOB = 64 };
  * recovered rows' texts. */
 typedef struct cpl_sweep_run {
     const char *file, *out, *journal, *format, *header, *shape;
+    const struct cpl_sandbox *sandbox; /* the workers' caps and rules when sandbox->on */
     int64_t count, last, next_write; /* next_write: the first point not yet in the file */
     int fd, jfd;
     cpl_row *recovered;

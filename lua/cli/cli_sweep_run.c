@@ -268,14 +268,15 @@ static int open_worker_libraries(lua_State *L)
 
 /* A worker's Lua state: the standard libraries and `cp`, as in scripts, but not built by
  * cpl_new_state, whose Ctrl-C machinery keeps process-wide records meant for the one
- * interactive thread (workers never see signals: the main thread takes them). */
-static lua_State *worker_state(void)
+ * interactive thread (workers never see signals: the main thread takes them).  In the
+ * sandbox (sb->on) the state has the caps of sb, which must outlive it. */
+static lua_State *worker_state(cpl_sandbox *sb)
 {
-    lua_State *L = luaL_newstate();
+    lua_State *L = sb->on ? cpl_sandbox_newstate(sb) : luaL_newstate();
     if (L == NULL)
         return NULL;
     lua_pushcfunction(L, open_worker_libraries);
-    if (lua_pcall(L, 0, 0, 0) != LUA_OK) {
+    if (lua_pcall(L, 0, 0, 0) != LUA_OK || (sb->on && cpl_sandbox_enter(L, sb) != 0)) {
         lua_close(L);
         return NULL;
     }
@@ -287,12 +288,20 @@ static void *worker(void *arg)
 {
     cpl_sweep_run *r = arg;
     char msg[1024];
-    lua_State *L = worker_state();
+    cpl_sandbox sb = {0};
+    if (r->sandbox != NULL)
+        sb = *r->sandbox;
+    lua_State *L = worker_state(&sb);
     if (L == NULL) {
         fail(r, "a worker could not create its Lua state (out of memory?)");
         goto out;
     }
-    if (cpl_sweep_load(L, r->file, r->out, r->format) != 0) {
+    if (sb.on)
+        cpl_sandbox_arm(L);
+    int loaded = cpl_sweep_load(L, r->file, r->out, r->format);
+    if (sb.on)
+        cpl_sandbox_disarm(L);
+    if (loaded != 0) {
         const char *why = lua_tostring(L, -1);
         snprintf(msg, sizeof msg, "%s", why ? why : "the sweep file raised a non-string error");
         fail(r, msg);
@@ -314,7 +323,12 @@ static void *worker(void *arg)
     while ((i = claim(r)) >= 0) {
         lua_pushvalue(L, row_fn);
         lua_pushinteger(L, i);
-        if (lua_pcall(L, 1, 1, 0) != LUA_OK) {
+        if (sb.on)
+            cpl_sandbox_arm(L); /* the time cap is per point */
+        int status = lua_pcall(L, 1, 1, 0);
+        if (sb.on)
+            cpl_sandbox_disarm(L);
+        if (status != LUA_OK) {
             snprintf(msg, sizeof msg, "point %" PRId64 ": %s", i,
                      lua_tostring(L, -1) ? lua_tostring(L, -1) : "(error object)");
             fail(r, msg);

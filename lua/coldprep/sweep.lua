@@ -367,8 +367,10 @@ end
 
 cp.set_help(M.read, [[
 sweep.read{path = FILE [, format = "csv" | "jsonl"]}: read a sweep's output back.
-Returns {rows = {{point = 1, x = ..., y = ..., error = nil}, ...}, columns = {...} (CSV)}.
-Empty fields are nil; numbers are converted.  Example: cp.sweep.read{path = "scan.csv"}]])
+Returns {rows = {{point = 1, x = ..., y = ..., error = nil}, ...}, columns = {...}}.
+Empty fields are nil; decimal numbers are converted.  A row cut off (no line end), of the
+wrong width or breaking CSV (RFC 4180) or JSON (RFC 8259) grammar is an error naming the
+byte.  Example: cp.sweep.read{path = "scan.csv"}]])
 
 setmetatable(M, { __call = function(_, args) return run(args) end })
 M.run = run
