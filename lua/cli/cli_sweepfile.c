@@ -10,6 +10,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <inttypes.h>
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
@@ -87,18 +88,121 @@ static long csv_fields(const char *row, size_t len)
     }
 }
 
-/* The end of the JSON string literal starting at row[i] (a quote), or 0. */
+/* The length of the valid UTF-8 sequence at s[0..n) (strict: no overlong forms, no
+ * surrogates, nothing beyond U+10FFFF, as Lua's utf8.len checks), or 0. */
+static size_t utf8_sequence(const unsigned char *s, size_t n)
+{
+    size_t len = s[0] < 0x80 ? 1 : s[0] >= 0xC2 && s[0] <= 0xDF ? 2 : s[0] >= 0xE0 && s[0] <= 0xEF ? 3
+                 : s[0] >= 0xF0 && s[0] <= 0xF4 ? 4 : 0;
+    if (len == 0 || len > n)
+        return 0;
+    for (size_t k = 1; k < len; k++)
+        if ((s[k] & 0xC0) != 0x80)
+            return 0;
+    if ((s[0] == 0xE0 && s[1] < 0xA0) || (s[0] == 0xED && s[1] > 0x9F)
+        || (s[0] == 0xF0 && s[1] < 0x90) || (s[0] == 0xF4 && s[1] > 0x8F))
+        return 0;
+    return len;
+}
+
+/* The value of the four hexadecimal digits at s, or -1. */
+static long hex4(const char *s, size_t n)
+{
+    long v = 0;
+    if (n < 4)
+        return -1;
+    for (int k = 0; k < 4; k++) {
+        int c = (unsigned char)s[k];
+        int d = c >= '0' && c <= '9' ? c - '0' : c >= 'a' && c <= 'f' ? c - 'a' + 10
+                : c >= 'A' && c <= 'F' ? c - 'A' + 10 : -1;
+        if (d < 0)
+            return -1;
+        v = 16 * v + d;
+    }
+    return v;
+}
+
+/* The end of the JSON string literal starting at row[i] (a quote), or 0 when it is not a
+ * valid one (RFC 8259 section 7: escapes, no raw control characters, valid UTF-8, UTF-16
+ * surrogates only in pairs) -- what coldprep.decode accepts. */
 static size_t json_string_end(const char *row, size_t len, size_t i)
 {
-    for (i++; i < len; i++) {
-        if (row[i] == '\\')
-            i++;
-        else if (row[i] == '"')
+    for (i++; i < len;) {
+        unsigned char c = (unsigned char)row[i];
+        if (c == '"')
             return i + 1;
-        else if ((unsigned char)row[i] < 0x20)
+        if (c < 0x20)
             return 0;
+        if (c != '\\') {
+            size_t n = utf8_sequence((const unsigned char *)row + i, len - i);
+            if (n == 0)
+                return 0;
+            i += n;
+            continue;
+        }
+        if (i + 1 >= len)
+            return 0;
+        char e = row[i + 1];
+        if (e != 'u') {
+            if (strchr("\"\\/bfnrt", e) == NULL || e == '\0')
+                return 0;
+            i += 2;
+            continue;
+        }
+        long u = hex4(row + i + 2, len - i - 2);
+        if (u < 0 || (u >= 0xDC00 && u <= 0xDFFF))
+            return 0;
+        i += 6;
+        if (u >= 0xD800 && u <= 0xDBFF) { /* must be followed by a low surrogate */
+            long lo = i + 1 < len && row[i] == '\\' && row[i + 1] == 'u'
+                          ? hex4(row + i + 2, len - i - 2) : -1;
+            if (lo < 0xDC00 || lo > 0xDFFF)
+                return 0;
+            i += 6;
+        }
     }
     return 0;
+}
+
+/* The end of a JSON number, true, false or null at row[i], or 0: numbers per RFC 8259
+ * section 6, and finite as doubles. */
+static size_t json_scalar_end(const char *row, size_t len, size_t i) /* row[len] is LF */
+{
+    static const char *const words[] = {"true", "false", "null"};
+    for (int w = 0; w < 3; w++) {
+        size_t n = strlen(words[w]);
+        if (len - i >= n && memcmp(row + i, words[w], n) == 0)
+            return i + n;
+    }
+    size_t start = i;
+    if (i < len && row[i] == '-')
+        i++;
+    if (i < len && row[i] == '0')
+        i++;
+    else if (i < len && row[i] >= '1' && row[i] <= '9')
+        while (i < len && isdigit((unsigned char)row[i]))
+            i++;
+    else
+        return 0;
+    if (i < len && row[i] == '.') {
+        size_t d = ++i;
+        while (i < len && isdigit((unsigned char)row[i]))
+            i++;
+        if (i == d)
+            return 0;
+    }
+    if (i < len && (row[i] == 'e' || row[i] == 'E')) {
+        i++;
+        if (i < len && (row[i] == '+' || row[i] == '-'))
+            i++;
+        size_t d = i;
+        while (i < len && isdigit((unsigned char)row[i]))
+            i++;
+        if (i == d)
+            return 0;
+    }
+    /* strtod reads the same digits (the row ends with its LF, so it stops in the row) */
+    return isfinite(strtod(row + start, NULL)) ? i : 0;
 }
 
 int cpl_row_keys(const char *row, size_t len, char *keys, size_t size)
@@ -116,18 +220,10 @@ int cpl_row_keys(const char *row, size_t len, char *keys, size_t size)
         memcpy(keys + k, row + i, e - i);
         k += e - i;
         i = e + 1;
-        if (i < len && row[i] == '"') {
-            i = json_string_end(row, len, i);
-            if (i == 0)
-                return -1;
-        } else {
-            size_t start = i;
-            while (i < len && (isalnum((unsigned char)row[i]) || row[i] == '.' || row[i] == '-'
-                               || row[i] == '+'))
-                i++;
-            if (i == start)
-                return -1;
-        }
+        i = i < len && row[i] == '"' ? json_string_end(row, len, i)
+                                     : json_scalar_end(row, len, i);
+        if (i == 0)
+            return -1;
         if (i + 1 == len && row[i] == '}')
             break;
         if (i >= len || row[i] != ',')

@@ -18,7 +18,7 @@ local function render(fname, figure)
 end
 
 -- Rows from `data`: a list of row tables, a cp.sweep result (its rows), or a file name.
-local function rows_of(fname, data)
+local function find_rows(fname, data)
   if type(data) == "string" then return cp.sweep.read { path = data }.rows end
   if type(data) == "table" and type(data.rows) == "table" then return data.rows end
   -- a cp.sweep result streamed to a file keeps no rows: read them back
@@ -27,6 +27,14 @@ local function rows_of(fname, data)
   end
   if type(data) == "table" then return data end
   named.fail(fname, "data must be rows, a cp.sweep result or a file name, got %s", type(data))
+end
+
+local function rows_of(fname, data)
+  local rows = find_rows(fname, data)
+  for i, r in ipairs(rows) do
+    if type(r) ~= "table" then named.fail(fname, "row %d of data must be a table of columns, got %s", i, type(r)) end
+  end
+  return rows
 end
 
 local function column(fname, rows, name)

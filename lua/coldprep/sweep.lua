@@ -329,11 +329,11 @@ function M.load(args)
   named.check(fname, args, { "file", "out", "format" })
   local file = named.typed(fname, args, "file", "string")
   local chunk, err = loadfile(file, "t")
-  if not chunk then error(err, 0) end
+  if not chunk then named.fail(fname, "%s", err) end
   local desc = chunk()
   if type(desc) ~= "table" then
-    error(string.format("%s: a sweep file must return a sweep description table " ..
-      "(return {parameters = ..., evaluate = ...}), got %s", file, type(desc)), 0)
+    named.fail(fname, "%s: a sweep file must return a sweep description table " ..
+      "(return {parameters = ..., evaluate = ...}), got %s", file, type(desc))
   end
   local out = args.out or desc.out or (file:gsub("%.lua$", "") .. ".csv")
   if type(out) ~= "string" then named.fail("sweep", "out must be a path (string), got %s", type(out)) end
