@@ -21,7 +21,9 @@ lua_State *cpl_new_state(void);
  * While it runs, SIGINT (Ctrl-C) makes the running Lua code raise "interrupted", also in
  * coroutines run by coroutine.resume or coroutine.wrap; the interruption is re-raised at
  * every following line and instruction until it reaches this call, so a pcall inside the
- * script cannot swallow it.  A second Ctrl-C before the first
+ * script cannot swallow it.  The flag the handler sets is registered for the bindings
+ * (CPL_CANCEL_KEY), so long C computations that poll it stop too.  A second Ctrl-C before
+ * the first
  * takes effect (e.g. inside a long C computation) ends the process.  On error the message
  * (with a traceback if the environment variable COLDPREP_TRACEBACK is set) is left on the
  * stack.  May be nested. */

@@ -12,8 +12,10 @@
 #include <lualib.h>
 #include <signal.h>
 #include <stdio.h>
+#include <stdint.h>
 #include <stdlib.h>
 
+#include "args.h"
 #include "cli.h"
 
 int luaopen_coldprep(lua_State *L);
@@ -193,6 +195,9 @@ void cpl_report(lua_State *L, const char *progname)
 
 static int open_everything(lua_State *L)
 {
+    /* long C computations poll this flag (lua/bind/args.h): the first Ctrl-C stops them */
+    lua_pushlightuserdata(L, (void *)(uintptr_t)&interrupt_pending);
+    lua_setfield(L, LUA_REGISTRYINDEX, CPL_CANCEL_KEY);
     luaL_openlibs(L);
     track_coroutines(L);
     luaL_requiref(L, "coldprep", luaopen_coldprep, 0);
