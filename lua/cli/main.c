@@ -17,7 +17,8 @@
 static const cpl_command COMMANDS[] = {
     {"help", cpl_cmd_help, "help [NAME]", "print the help of NAME (e.g. cp.species.atom)"},
     {"sweep", cpl_sweep_main, "sweep FILE.lua",
-     "run the sweep FILE.lua returns [--jobs N] [--out PATH] [--resume] [--shard K/N]"},
+     "run the sweep FILE.lua returns [--jobs N] [--out PATH] [--resume] [--shard K/N]\n"
+     "                 [--sandbox]"},
     {"merge", cpl_merge_main, "merge OUT SLICE...", "join the slices of a sharded sweep"},
     {NULL, NULL, NULL, NULL},
 };

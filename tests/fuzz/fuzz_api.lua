@@ -6,7 +6,8 @@
 -- call crashes (the driver sees the process die), that every failure is a Lua error in the
 -- house form "<context>: <message>" (not a Lua runtime error such as "attempt to index",
 -- not a raw "bad argument #1", not an error positioned inside the library's own files) and
--- that every success returns only finite numbers.  Call i's arguments depend only on the
+-- that every success returns only finite numbers, those named as probabilities, fractions
+-- or populations inside [0, 1].  Call i's arguments depend only on the
 -- seed and i, so a finding is reproduced by its seed and index.
 --
 -- coldprep fuzz_api.lua SEED FIRST COUNT PROGRESS_FILE [SECONDS]
@@ -228,10 +229,29 @@ local function error_problem(msg, args)
   if not word or #rest > 60 or not CONTEXTS[word] then return "no \"<context>: \" prefix" end
 end
 
-local function nonfinite(v, path, seen, budget)
+-- Results that are probabilities or fractions by their documented meaning (efficiency,
+-- survival, populations, ...): their names, and the range [0, 1] they must lie in.
+local UNIT_INTERVAL = { "efficiency", "fraction", "probability", "survival", "initial",
+  "excited", "target", "lost", "transferred" }
+-- (cp.collisions.evaporation's efficiency is the log-derivative -d ln(PSD) / d ln N, not
+-- a probability)
+local NOT_FRACTIONS = { ["cp.collisions.evaporation"] = true }
+
+local function unit_interval(key)
+  if type(key) ~= "string" then return false end
+  for _, w in ipairs(UNIT_INTERVAL) do
+    if key:find(w, 1, true) then return true end
+  end
+  return false
+end
+
+local function nonfinite(v, path, seen, budget, key, list_key)
   local t = type(v)
   if t == "number" then
     if v ~= v or v == math.huge or v == -math.huge then return path .. " = " .. tostring(v) end
+    if (unit_interval(key) or unit_interval(list_key)) and (v < 0 or v > 1) then
+      return path .. " = " .. string.format("%.17g", v) .. ", outside [0, 1]"
+    end
     return nil
   end
   if t ~= "table" or seen[v] or budget[1] <= 0 then return nil end
@@ -239,7 +259,8 @@ local function nonfinite(v, path, seen, budget)
   for k, x in pairs(v) do
     budget[1] = budget[1] - 1
     if budget[1] <= 0 then return nil end
-    local p = nonfinite(x, path .. "." .. tostring(k), seen, budget)
+    local p = nonfinite(x, path .. "." .. tostring(k), seen, budget,
+      key == "" and "" or k, key == "" and "" or (math.type(k) == "integer" and key or nil))
     if p then return p end
   end
 end
@@ -268,8 +289,11 @@ while i < first + count and os.time() - start < seconds do
     problem = error_problem(res, args)
     if problem then problem = problem .. ": " .. tostring(res):sub(1, 300) end
   else
-    local where = nonfinite(res, "result", {}, { 20000 })
-    if where then problem = "a non-finite number without an error: " .. where end
+    local where = nonfinite(res, "result", {}, { 20000 }, NOT_FRACTIONS[f.name] and "" or nil)
+    if where then
+      problem = where:find("outside %[0, 1%]") and ("a value outside its range: " .. where)
+        or ("a non-finite number without an error: " .. where)
+    end
   end
   if not problem and dt > 2 then problem = string.format("slow: %.1f s of CPU", dt) end
   if problem then
