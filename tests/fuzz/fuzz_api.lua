@@ -127,12 +127,26 @@ local function scaled(v)
   return v * 1e-300
 end
 
+-- the keys of t in a fixed order (pairs' order changes from run to run with Lua's hash seed)
+local function sorted_keys(t)
+  local keys = {}
+  for k in pairs(t) do keys[#keys + 1] = k end
+  table.sort(keys, function(a, b)
+    local ta, tb = type(a), type(b)
+    if ta ~= tb then return ta < tb end
+    if ta == "number" or ta == "string" then return a < b end
+    return false
+  end)
+  return keys
+end
+
 -- every (table, key) slot of an argument tree, not entering objects (tables with metatables)
 local function slots(t, out, depth)
   out = out or {}
   depth = depth or 0
   if depth > 4 then return out end
-  for k, v in pairs(t) do
+  for _, k in ipairs(sorted_keys(t)) do
+    local v = t[k]
     out[#out + 1] = { t, k }
     if type(v) == "table" and getmetatable(v) == nil and v ~= huge_array then
       slots(v, out, depth + 1)
