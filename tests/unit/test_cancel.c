@@ -1,6 +1,6 @@
 /*
  * Cancellation of long core computations (cp_collisions_hold_cancellable,
- * cp_raman_scan_cancellable): with a NULL or clear flag the result is the plain function's,
+ * cp_raman_scan_cancellable, cp_feshbach_max_efficiency_cancellable): with a NULL or clear flag the result is the plain function's,
  * bit for bit (the second method here is the plain function itself); with the flag set
  * before the call the status is CP_ECANCELED, the outputs are NaN and the message says
  * "interrupted"; a flag raised by another thread 100 ms into a computation that would run
@@ -18,6 +18,8 @@
 #include <cmocka.h>
 
 #include "coldprep/collisions.h"
+#include "coldprep/consts.h"
+#include "coldprep/feshbach.h"
 #include "coldprep/raman.h"
 
 #define TWO_PI 6.283185307179586
@@ -47,6 +49,14 @@ static cp_raman_params raman_case(void)
     return p;
 }
 
+/* Two thermal clouds (87Rb and 40K masses, 2 pi x 100 Hz) for the phase-space sampling. */
+static void spss_clouds(cp_feshbach_cloud *a, cp_feshbach_cloud *b)
+{
+    double w = TWO_PI * 100.0;
+    *a = (cp_feshbach_cloud){CP_PROFILE_THERMAL, 1e4, 86.909180529 * CP_AMU, {w, w, w}, 0.0};
+    *b = (cp_feshbach_cloud){CP_PROFILE_THERMAL, 1e4, 39.963998165 * CP_AMU, {w, w, w}, 0.0};
+}
+
 static void test_clear_flag_changes_nothing(void **state)
 {
     (void)state;
@@ -70,6 +80,16 @@ static void test_clear_flag_changes_nothing(void **state)
     assert_int_equal(cp_raman_scan_cancellable(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, P, 2, eb, NULL,
                                                &clear, NULL), CP_OK);
     assert_memory_equal(ea, eb, sizeof ea);
+
+    cp_feshbach_cloud fa, fb;
+    spss_clouds(&fa, &fb);
+    cp_feshbach_spss o = {0.38, 7, 200000, 0};
+    double pa, sa, pb, sb;
+    assert_int_equal(cp_feshbach_max_efficiency(&fa, &fb, 1e-6, &o, &pa, &sa, NULL), CP_OK);
+    assert_int_equal(cp_feshbach_max_efficiency_cancellable(&fa, &fb, 1e-6, &o, &pb, &sb, &clear,
+                                                            NULL), CP_OK);
+    assert_memory_equal(&pa, &pb, sizeof pa);
+    assert_memory_equal(&sa, &sb, sizeof sa);
 }
 
 static void test_set_flag_cancels(void **state)
@@ -92,6 +112,14 @@ static void test_set_flag_cancels(void **state)
     assert_non_null(strstr(err.message, "raman scan: interrupted"));
     for (int i = 0; i < P; i++)
         assert_true(isnan(eff[i]) && isnan(lost[i]));
+    cp_feshbach_cloud fa, fb;
+    spss_clouds(&fa, &fb);
+    cp_feshbach_spss o = {0.38, 7, 200000, 0};
+    double pm, se;
+    assert_int_equal(cp_feshbach_max_efficiency_cancellable(&fa, &fb, 1e-6, &o, &pm, &se, &set,
+                                                            &err), CP_ECANCELED);
+    assert_non_null(strstr(err.message, "feshbach max_efficiency: interrupted"));
+    assert_true(isnan(pm) && isnan(se));
     assert_string_equal(cp_strerror(CP_ECANCELED), "cancelled");
 }
 
@@ -145,13 +173,25 @@ static cp_status long_scan(cp_cancel_flag *flag)
                                      NULL);
 }
 
+/* Ten million phase-space samples: seconds. */
+static cp_status long_sampling(cp_cancel_flag *flag)
+{
+    cp_feshbach_cloud a, b;
+    spss_clouds(&a, &b);
+    cp_feshbach_spss o = {0.38, 7, 10000000, 0};
+    double p, se;
+    return cp_feshbach_max_efficiency_cancellable(&a, &b, 1e-6, &o, &p, &se, flag, NULL);
+}
+
 static void test_flag_stops_running_computations(void **state)
 {
     (void)state;
-    double dh = stop_delay(long_hold), ds = stop_delay(long_scan);
-    print_message("hold stopped %.1f ms after the flag, line shape %.1f ms\n", 1e3 * dh, 1e3 * ds);
+    double dh = stop_delay(long_hold), ds = stop_delay(long_scan), dm = stop_delay(long_sampling);
+    print_message("stopped after the flag: hold %.1f ms, line shape %.1f ms, sampling %.1f ms\n",
+                  1e3 * dh, 1e3 * ds, 1e3 * dm);
     assert_true(dh < 0.1);
     assert_true(ds < 0.1);
+    assert_true(dm < 0.1);
 }
 
 int main(void)
