@@ -152,8 +152,10 @@ function M.lock_down(opts)
     if not f then error(err, 2) end
     return f()
   end
+  local private = { ["coldprep.files"] = true, ["coldprep.sandbox"] = true }
   env.require = function(name)
-    if type(name) ~= "string" or not (name == "coldprep" or name:match("^coldprep%.")) then
+    if type(name) ~= "string" or private[name]
+      or not (name == "coldprep" or name:match("^coldprep%.")) then
       error("sandbox: require(" .. tostring(name) .. ") is not allowed; only coldprep modules", 2)
     end
     return require(name)

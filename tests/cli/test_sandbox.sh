@@ -36,6 +36,8 @@ refused "writing an undeclared file" 'assert(io.open("new.txt", "w"))' "writing 
 refused "package.loadlib" 'package.loadlib("libc.so.6", "system")' "attempt to index a nil value (global 'package')"
 refused "require of a C module" 'require("socket")' "only coldprep modules"
 refused "the debug library" 'require("debug")' "only coldprep modules"
+refused "the unchecked file functions" 'require("coldprep.files")' "is not allowed"
+refused "a second sandbox of its own" 'require("coldprep.sandbox")' "is not allowed"
 refused "bytecode" 'assert(load(string.char(27) .. "LuaT\0"))' "attempt to load a binary chunk"
 refused "bytecode mode" 'assert(load("return 1", "x", "b"))' "only text chunks"
 refused "string.dump" 'string.dump(print)' "attempt to call a nil value (field 'dump')"
