@@ -23,6 +23,7 @@
 typedef struct hold_ctx {
     const cp_hold_params *p;
     double density_coef; /* <n> = density_coef N T^{-3/2} */
+    const cp_cancel_flag *cancel;
 } hold_ctx;
 
 static int hold_rhs(double t, const double y[], double dydt[], void *params)
@@ -30,6 +31,8 @@ static int hold_rhs(double t, const double y[], double dydt[], void *params)
     (void)t;
     const hold_ctx *c = params;
     const cp_hold_params *p = c->p;
+    if (c->cancel && *c->cancel)
+        return GSL_EBADFUNC; /* stops the driver; the caller reports the cancellation */
     double n = y[0], temp = y[1];
     if (!(n > 0.0 && temp > 0.0))
         return GSL_EDOM;
@@ -62,6 +65,13 @@ static cp_status check_hold(const cp_hold_params *p, size_t points, cp_error *er
 cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *times,
                              double *numbers, double *temperatures, cp_error *err)
 {
+    return cp_collisions_hold_cancellable(p, points, times, numbers, temperatures, NULL, err);
+}
+
+cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points, double *times,
+                                         double *numbers, double *temperatures,
+                                         const cp_cancel_flag *cancel, cp_error *err)
+{
     if (!times || !numbers || !temperatures)
         return cp_fail(err, CP_EINVAL, "collisions hold: times, numbers and temperatures must "
                        "not be NULL");
@@ -72,7 +82,7 @@ cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *tim
     CP_TRY(check_hold(p, points, err));
     cp_init();
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
-    hold_ctx c = {p, pow(p->mass * wbar * wbar / (4.0 * CP_PI * CP_KB), 1.5)};
+    hold_ctx c = {p, pow(p->mass * wbar * wbar / (4.0 * CP_PI * CP_KB), 1.5), cancel};
     gsl_odeiv2_system sys = {hold_rhs, NULL, 2, &c};
     gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd,
                                                          p->duration * 1e-6, 0.0, 1e-10);
@@ -86,6 +96,11 @@ cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *tim
     for (size_t i = 1; i < points; i++) {
         double ti = p->duration * (double)i / (double)(points - 1);
         int status = gsl_odeiv2_driver_apply(d, &t, ti, y);
+        if (status != GSL_SUCCESS && cancel && *cancel) {
+            result = cp_fail(err, CP_ECANCELED, "collisions hold: interrupted at t = %g s of "
+                             "%g s", t, p->duration);
+            break;
+        }
         if (status != GSL_SUCCESS) {
             result = cp_fail(err, CP_ENUMERIC, "collisions hold: the ODE solver failed at "
                              "t = %g s: %s", t, gsl_strerror(status));

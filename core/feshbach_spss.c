@@ -143,6 +143,16 @@ cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshba
                                      double temperature, const cp_feshbach_spss *opts,
                                      double *p_max, double *std_error, cp_error *err)
 {
+    return cp_feshbach_max_efficiency_cancellable(a, b, temperature, opts, p_max, std_error,
+                                                  NULL, err);
+}
+
+cp_status cp_feshbach_max_efficiency_cancellable(const cp_feshbach_cloud *a,
+                                                 const cp_feshbach_cloud *b, double temperature,
+                                                 const cp_feshbach_spss *opts, double *p_max,
+                                                 double *std_error, const cp_cancel_flag *cancel,
+                                                 cp_error *err)
+{
     static const char ctx[] = "feshbach max_efficiency";
     const unsigned allowed = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
                              (1u << CP_PROFILE_BOSE);
@@ -173,6 +183,12 @@ cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshba
     double frac_condensed = sb.n_condensed / sb.number;
     double sum = 0.0, sum2 = 0.0;
     for (long k = 0; k < opts->samples; k++) {
+        if ((k & 0xFFFF) == 0 && cancel && *cancel) {
+            free(cdf);
+            gsl_rng_free(rng);
+            return cp_fail(err, CP_ECANCELED, "%s: interrupted after %ld of %ld samples", ctx, k,
+                           opts->samples);
+        }
         double g;
         if (frac_condensed > 0.0 && gsl_rng_uniform(rng) < frac_condensed) {
             g = condensed_pairing(&sa, &sb, shift, rng);

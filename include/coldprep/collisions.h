@@ -103,6 +103,12 @@ typedef struct cp_hold_params {
 cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *times,
                              double *numbers, double *temperatures, cp_error *err);
 
+/* cp_collisions_hold, polling *cancel (may be NULL) at every step of the integration:
+ * once it is non-zero the outputs are poisoned and CP_ECANCELED is returned. */
+cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points, double *times,
+                                         double *numbers, double *temperatures,
+                                         const cp_cancel_flag *cancel, cp_error *err);
+
 /* Ratio of elastic to loss collisions, sigma v_rel / beta, with the mean relative speed
  * v_rel = sqrt(16 k_B T / (pi m)) of identical particles of mass m (the per-particle
  * elastic rate <n> sigma v_rel over the loss rate beta <n>). */

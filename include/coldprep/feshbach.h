@@ -177,6 +177,14 @@ cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshba
                                      double temperature, const cp_feshbach_spss *opts,
                                      double *p_max, double *std_error, cp_error *err);
 
+/* cp_feshbach_max_efficiency, polling *cancel (may be NULL) every 65536 samples: once it
+ * is non-zero the outputs are NaN and CP_ECANCELED is returned. */
+cp_status cp_feshbach_max_efficiency_cancellable(const cp_feshbach_cloud *a,
+                                                 const cp_feshbach_cloud *b, double temperature,
+                                                 const cp_feshbach_spss *opts, double *p_max,
+                                                 double *std_error, const cp_cancel_flag *cancel,
+                                                 cp_error *err);
+
 /* Dissociation by a ramp at rate ramp_rate (T/s) up across the resonance: the quasi-bound
  * molecule decays at Gamma(E)/hbar with Gamma(E) = 2 k abg dmu width; survival
  * exp(-(E/eps)^(3/2)) with eps = [3 hbar^2 |Bdot| / (4 |abg width| sqrt(2 mu))]^(2/3); mean

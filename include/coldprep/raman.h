@@ -130,6 +130,13 @@ cp_status cp_raman_scan(const cp_raman_params *p, cp_raman_scan_variable variabl
                         const double *values, size_t n, int nthreads, double *efficiency,
                         double *lost, cp_error *err);
 
+/* cp_raman_scan, polling *cancel (may be NULL) before every point: once it is non-zero the
+ * outputs are poisoned and CP_ECANCELED is returned. */
+cp_status cp_raman_scan_cancellable(const cp_raman_params *p, cp_raman_scan_variable variable,
+                                    const double *values, size_t n, int nthreads,
+                                    double *efficiency, double *lost,
+                                    const cp_cancel_flag *cancel, cp_error *err);
+
 #ifdef __cplusplus
 }
 #endif

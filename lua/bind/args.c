@@ -352,3 +352,11 @@ void cpl_push_array(lua_State *L, const double *values, size_t n)
         lua_rawseti(L, -2, (lua_Integer)i + 1);
     }
 }
+
+const cp_cancel_flag *cpl_cancel_flag(lua_State *L)
+{
+    lua_getfield(L, LUA_REGISTRYINDEX, CPL_CANCEL_KEY);
+    const cp_cancel_flag *flag = lua_touserdata(L, -1);
+    lua_pop(L, 1);
+    return flag;
+}

@@ -67,6 +67,13 @@ void cpl_trap_frequencies(lua_State *L, int arg, const char *fname, const char *
 /* Raise err->message as a Lua error (never returns). */
 int cpl_raise(lua_State *L, const cp_error *err);
 
+/* The cancel flag the host program registered for this state (the coldprep executable
+ * registers the one its Ctrl-C handler sets), or NULL: long computations pass it to the
+ * core's _cancellable functions.  The host stores a light userdata under the registry
+ * key CPL_CANCEL_KEY. */
+#define CPL_CANCEL_KEY "coldprep.cancel"
+const cp_cancel_flag *cpl_cancel_flag(lua_State *L);
+
 /* Raise a formatted error prefixed with "fname: " (never returns). */
 int cpl_error(lua_State *L, const char *fname, const char *fmt, ...);
 

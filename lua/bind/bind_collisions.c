@@ -161,7 +161,8 @@ static int l_hold(lua_State *L)
     size_t n = (size_t)cpl_opt_integer(L, 1, fname, "points", 101, 2, 100000);
     double *buf = lua_newuserdatauv(L, 3 * n * sizeof(double), 0);
     cp_error err;
-    if (cp_collisions_hold(&p, n, buf, buf + n, buf + 2 * n, &err) != CP_OK)
+    if (cp_collisions_hold_cancellable(&p, n, buf, buf + n, buf + 2 * n, cpl_cancel_flag(L),
+                                       &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 6);
     cpl_set_number(L, "number", buf[2 * n - 1]);

@@ -402,7 +402,8 @@ static int l_max_efficiency(lua_State *L)
     opts.samples = cpl_opt_integer(L, 1, fname, "samples", 20000, 100, 10000000);
     opts.seed = (unsigned long)cpl_opt_integer(L, 1, fname, "seed", 1, 0, 4294967295L);
     opts.include_sag = cpl_opt_boolean(L, 1, fname, "sag", 1);
-    if (cp_feshbach_max_efficiency(&a, &b, temp, &opts, &p, &se, &err))
+    if (cp_feshbach_max_efficiency_cancellable(&a, &b, temp, &opts, &p, &se, cpl_cancel_flag(L),
+                                               &err))
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 2);
     cpl_set_number(L, "max_efficiency", p);

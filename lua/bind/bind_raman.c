@@ -171,7 +171,8 @@ static int l_lineshape(lua_State *L)
     }
     double *eff = new_array(L, n), *lost = new_array(L, n);
     cp_error err;
-    if (cp_raman_scan(&p, (cp_raman_scan_variable)var, values, n, threads, eff, lost, &err) !=
+    if (cp_raman_scan_cancellable(&p, (cp_raman_scan_variable)var, values, n, threads, eff,
+                                  lost, cpl_cancel_flag(L), &err) !=
         CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 4);

@@ -10,6 +10,7 @@
 
 #include "coldprep/status.h"
 #include "embedded_lua.h"
+#include "fileio.h"
 #include "help.h"
 
 #define CPL_BINDING(name) int cpl_open_##name(lua_State *L);
@@ -67,6 +68,8 @@ int luaopen_coldprep(lua_State *L)
         lua_pushcclosure(L, load_embedded, 1);
         lua_setfield(L, -2, cpl_embedded_chunks[i].module);
     }
+    lua_pushcfunction(L, cpl_open_files);
+    lua_setfield(L, -2, "coldprep.files");
     lua_pop(L, 1);
 
     luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_LOADED_TABLE);

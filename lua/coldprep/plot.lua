@@ -18,7 +18,7 @@ local function render(fname, figure)
 end
 
 -- Rows from `data`: a list of row tables, a cp.sweep result (its rows), or a file name.
-local function rows_of(fname, data)
+local function find_rows(fname, data)
   if type(data) == "string" then return cp.sweep.read { path = data }.rows end
   if type(data) == "table" and type(data.rows) == "table" then return data.rows end
   -- a cp.sweep result streamed to a file keeps no rows: read them back
@@ -27,6 +27,14 @@ local function rows_of(fname, data)
   end
   if type(data) == "table" then return data end
   named.fail(fname, "data must be rows, a cp.sweep result or a file name, got %s", type(data))
+end
+
+local function rows_of(fname, data)
+  local rows = find_rows(fname, data)
+  for i, r in ipairs(rows) do
+    if type(r) ~= "table" then named.fail(fname, "row %d of data must be a table of columns, got %s", i, type(r)) end
+  end
+  return rows
 end
 
 local function column(fname, rows, name)
@@ -162,7 +170,10 @@ local function waterfall(args)
   local names, numbers, notes, ratio_x, ratio_y, ratio_label = {}, {}, {}, {}, {}, "T/T#dF#u"
   for i, s in ipairs(stages) do
     if type(s) ~= "table" then named.fail(fname, "budget.stages[%d] must be a table", i) end
-    names[i] = tostring(s.name or ("stage " .. i))
+    if s.name ~= nil and type(s.name) ~= "string" then
+      named.fail(fname, "budget.stages[%d].name must be a string, got %s", i, type(s.name))
+    end
+    names[i] = s.name or ("stage " .. i)
     local n = s.number
     if not (named.is_finite(n) and n > 0) then
       named.fail(fname, "stage %d (%s): number must be a positive finite number, got %s", i, names[i], tostring(n))
@@ -172,7 +183,11 @@ local function waterfall(args)
     notes[i] = format_count(n) .. (prev and string.format(" (%.0f %%)", 100 * n / prev) or "")
     local r = s.t_over_tf or s.t_over_tc
     if s.t_over_tf == nil and s.t_over_tc ~= nil then ratio_label = "T/T#dc#u" end
-    if usable(r, true) then
+    if r ~= nil and not usable(r, true) then
+      named.fail(fname, "stage %d (%s): %s must be a positive finite number, got %s", i, names[i],
+        s.t_over_tf ~= nil and "t_over_tf" or "t_over_tc", tostring(r))
+    end
+    if r ~= nil then
       ratio_x[#ratio_x + 1], ratio_y[#ratio_y + 1] = i, r
     end
   end

@@ -21,6 +21,7 @@
 --   when the plan fails with that stage improved), safety (list of caution texts)
 local cp = require "coldprep"
 local S = require "coldprep.sample"
+local encode = require "coldprep.encode"
 
 local R = {}
 local Budget = {}
@@ -329,11 +330,7 @@ local function csv_value(r, f)
   return tostring(v == nil and "" or v)
 end
 
--- A field quoted when it holds a comma, a double quote, CR or LF (RFC 4180 section 2, rules 6-7).
-local function csv_field(s)
-  if s:find('[,"\r\n]') then return '"' .. s:gsub('"', '""') .. '"' end
-  return s
-end
+local csv_field = encode.csv_field -- RFC 4180 quoting, valid UTF-8
 
 local function open_for_writing(fname, path)
   if type(path) ~= "string" or path == "" then
@@ -363,62 +360,6 @@ end
 
 -- ---- JSON -----------------------------------------------------------------------------
 
--- s as valid UTF-8: a byte that does not belong to a valid sequence becomes U+FFFD, so
--- a label or note typed in another encoding cannot make the JSON invalid.
-local function valid_utf8(s)
-  if utf8.len(s) then return s end
-  local out, i = {}, 1
-  while i <= #s do
-    local lead = s:byte(i)
-    local n = (lead >= 0xF0 and 4) or (lead >= 0xE0 and 3) or (lead >= 0xC0 and 2) or 1
-    local seq = s:sub(i, i + n - 1)
-    if #seq == n and utf8.len(seq) == 1 then
-      out[#out + 1], i = seq, i + n
-    else
-      out[#out + 1], i = "\u{FFFD}", i + 1
-    end
-  end
-  return table.concat(out)
-end
-
-local function json_string(s)
-  return '"' .. valid_utf8(s):gsub('[%c"\\]', function(ch)
-    local esc = { ['"'] = '\\"', ["\\"] = "\\\\", ["\n"] = "\\n", ["\r"] = "\\r", ["\t"] = "\\t" }
-    return esc[ch] or string.format("\\u%04x", ch:byte())
-  end) .. '"'
-end
-
-local function json(v, indent)
-  local t = type(v)
-  if t == "number" then
-    if v ~= v or v == math.huge or v == -math.huge then return "null" end
-    if math.type(v) == "integer" then return tostring(v) end
-    return string.format("%.17g", v)
-  elseif t == "string" then
-    return json_string(v)
-  elseif t == "boolean" then
-    return tostring(v)
-  elseif t == "nil" then
-    return "null"
-  elseif t == "table" then
-    local pad, inner = string.rep("  ", indent), string.rep("  ", indent + 1)
-    local parts = {}
-    if #v > 0 or next(v) == nil then
-      for _, x in ipairs(v) do parts[#parts + 1] = inner .. json(x, indent + 1) end
-      if #parts == 0 then return "[]" end
-      return "[\n" .. table.concat(parts, ",\n") .. "\n" .. pad .. "]"
-    end
-    local keys = {}
-    for k in pairs(v) do keys[#keys + 1] = tostring(k) end
-    table.sort(keys)
-    for _, k in ipairs(keys) do
-      parts[#parts + 1] = inner .. json_string(k) .. ": " .. json(v[k], indent + 1)
-    end
-    return "{\n" .. table.concat(parts, ",\n") .. "\n" .. pad .. "}"
-  end
-  error("budget:write_json: cannot encode a " .. t, 0)
-end
-
 -- budget:write_json(path): the whole budget as one JSON object (NaN written as null).
 function Budget:write_json(path)
   local f = open_for_writing("budget:write_json", path)
@@ -429,7 +370,7 @@ function Budget:write_json(path)
     limiting_index = self.limiting_index, reason = self.reason, ranking = self.ranking,
     failed_stage = self.failed_stage, failure = self.failure, safety = self.safety,
   }
-  local ok, err = f:write(json(doc, 0), "\n")
+  local ok, err = f:write(encode.json(doc, 0, "budget:write_json"), "\n")
   local closed, cerr = f:close()
   if not ok or not closed then
     error("budget:write_json: cannot write " .. path .. ": " .. tostring(err or cerr), 2)
