@@ -206,7 +206,7 @@ static double krb_unshielded(double dip, double t)
  * the reactive loss by a factor of thirty"; operated at 12.72 kV/cm and a few hundred nK
  * [M for the field and temperature]).  We read the factor as against the unshielded loss of
  * the same molecules, i.e. the dc 3D rate at the |1,0> induced dipole.  The model's
- * suppression at 12.72 kV/cm, 300 nK must be within a factor 2 of 30 (the issue's target);
+ * suppression at 12.72 kV/cm, 300 nK must be within a factor 2 of 30 (the project target);
  * the regime, validity (d F / B = 3.254, inside [3.25, 3.8]) and the |1,0> dipole (from
  * cp_fields_dipole_matrix, checked in test_fields.c) are checked too.  Far above the
  * crossing (d F / B = 3.78) the shield has faded: suppression below 1.5 (the model's own
