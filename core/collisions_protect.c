@@ -14,11 +14,56 @@
 #include "coldprep/consts.h"
 #include "coldprep/fields.h"
 
-/* Above this fraction of the dc shielding field the pair |1,0> + |1,0> nears |0,0> +
- * |2,0> and the free-space model of induced dipoles no longer describes the collisions
- * (common practice, no source: the resonant coupling grows over a few per cent of the
- * field; González-Martínez, Bohn & Quéméner, PRA 96, 032718 (2017) show its reach). */
+/* Ground-state molecules at this fraction of the dc shielding field and above are flagged:
+ * a plan with such a field means dc shielding, which works for molecules in |1,0> only
+ * (common practice, no source, for "near": the resonant coupling changes the |1,0> rates
+ * over a few per cent of the field, González-Martínez, Bohn & Quéméner, PRA 96, 032718
+ * (2017), arXiv:1707.03239). */
 #define SHIELDING_FRACTION 0.9
+
+/* dc-field shielding of molecules in |1,0>: the Stark dipole matrix of |0,0>, |1,0>,
+ * |2,0> and the pair gap at the field (coldprep/fields.h), then the pair regime of
+ * cp_collisions_shielded; flagged outside [F_s, CP_DC_SHIELD_MAX_REDUCED B / d]. */
+static cp_status dc_pair(const cp_protection_params *p, cp_shielded_params *q,
+                         cp_shielded_result *r, double *dipole_used, cp_error *err)
+{
+    const char *ctx = "collisions protected";
+    cp_fields_rotor rotor = {p->dipole, p->rot_const_hz};
+    if (!(p->electric_field > 0.0))
+        return cp_fail(err, CP_EINVAL, "%s: electric_field %g V/m with molecules in |1,0>: "
+                       "dc-field shielding needs a field; allowed > 0 V/m", ctx,
+                       p->electric_field);
+    if (p->axial_omega > 0.0)
+        return cp_fail(err, CP_EINVAL, "%s: axial_omega %g rad/s with molecules in |1,0>: "
+                       "dc-field shielding in a pancake trap is not modelled; allowed 0 rad/s "
+                       "with rotational_j 1", ctx, p->axial_omega);
+    double e[3], dm[9];
+    CP_TRY(cp_fields_dipole_matrix(&rotor, p->electric_field, 0, 3, e, dm, NULL, err));
+    q->regime = CP_SHIELD_DC_PAIR;
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            q->stark_dipole[i][j] = dm[3 * i + j];
+    q->pair_gap = CP_H * (2.0 * e[1] - e[0] - e[2]);
+    CP_TRY(cp_collisions_shielded(q, r, err));
+    *dipole_used = fabs(dm[4]);
+    double x = p->dipole * p->electric_field / (CP_H * p->rot_const_hz);
+    if (r->valid && x < CP_DC_SHIELD_MIN_REDUCED) {
+        /* just above the crossing the adiabatic shield reaches far and the model's loss
+         * falls without bound, while quenching to |0,0>|2,0> (not counted) takes over */
+        r->valid = 0;
+        snprintf(r->note, sizeof r->note, "field %.5g kV/cm (d F / B = %.4g) is too close "
+                 "above the crossing (window from %.3g): quenching to |0,0>|2,0>, not in the "
+                 "model, dominates; the loss is understated", p->electric_field / 1e5, x,
+                 CP_DC_SHIELD_MIN_REDUCED);
+    } else if (r->valid && x > CP_DC_SHIELD_MAX_REDUCED) {
+        r->valid = 0;
+        snprintf(r->note, sizeof r->note, "field %.4g kV/cm (d F / B = %.3g) is above the "
+                 "shielding window (d F / B up to %.2g): other pair crossings and quenching "
+                 "are not in the two-channel model", p->electric_field / 1e5, x,
+                 CP_DC_SHIELD_MAX_REDUCED);
+    }
+    return CP_OK;
+}
 
 /* The dressed pair potential of coldprep/fields.h (circular part: azimuth pi/4, where the
  * ellipse's term vanishes) as V = sum_n (a3[n] / r^3 + a6[n] / r^6) c^n, c = cos^2 theta,
@@ -68,7 +113,7 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
     if (!r || !dipole_used || !regime || !p)
         return cp_fail(err, CP_EINVAL, "%s: arguments must not be NULL", ctx);
     *dipole_used = NAN;
-    cp_poison(&r->elastic_rate, 7);
+    cp_poison(&r->elastic_rate, 8);
     r->valid = 0;
     r->method = NULL;
     r->note[0] = '\0';
@@ -76,9 +121,18 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
                           CP_FIELDS_MAX_FIELD, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "axial_omega", p->axial_omega, "rad/s", 0.0,
                           2.0 * CP_PI * 1e6, CP_CLOSED));
+    CP_TRY(cp_check_int_range(err, ctx, "rotational_j", p->rotational_j, 0, 1));
     cp_fields_rotor rotor = {p->dipole, p->rot_const_hz};
     cp_shielded_params q = {.stat = p->stat, .mass = p->mass, .c6_au = p->c6_au,
                             .temperature = p->temperature, .axial_omega = p->axial_omega};
+    if (p->microwave && p->rotational_j != 0)
+        return cp_fail(err, CP_EINVAL, "%s: rotational_j %d with a microwave: microwave "
+                       "shielding dresses molecules in |0,0>; allowed 0 with a microwave", ctx,
+                       p->rotational_j);
+    if (p->rotational_j == 1) {
+        *regime = CP_SHIELD_DC_PAIR;
+        return dc_pair(p, &q, r, dipole_used, err);
+    }
     if (p->microwave) {
         if (p->electric_field > 0.0)
             return cp_fail(err, CP_EINVAL, "%s: electric_field %g V/m with a microwave: "
@@ -124,8 +178,9 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
         if (p->electric_field >= SHIELDING_FRACTION * fs) {
             r->valid = 0;
             snprintf(r->note, sizeof r->note, "field %.4g kV/cm is near or above the dc "
-                     "shielding field %.4g kV/cm: dc-field shielding is not modelled; these "
-                     "are the unshielded 3D rates", p->electric_field / 1e5, fs / 1e5);
+                     "shielding field %.4g kV/cm, but these are molecules in |0,0>, which it "
+                     "does not shield (dc shielding needs |1,0>): the unshielded 3D rates",
+                     p->electric_field / 1e5, fs / 1e5);
         }
     }
     return CP_OK;

@@ -1,8 +1,12 @@
 /*
  * Elastic and loss rate coefficients of identical polar molecules under protection: a dc
  * field in free space (induced dipoles, loss enhanced), a dc field across the planes of a
- * pancake trap (side-by-side repulsion, quasi-2D) and microwave shielding (effective
- * potential as in Deng et al., PRL 130, 183001 (2023), arXiv:2210.13253).
+ * pancake trap (side-by-side repulsion, quasi-2D), microwave shielding (effective
+ * potential as in Deng et al., PRL 130, 183001 (2023), arXiv:2210.13253) and dc-field
+ * shielding of molecules in |1,0> near the crossing of |1,0>|1,0> with |0,0>|2,0>
+ * (González-Martínez, Bohn & Quéméner, PRA 96, 032718 (2017), arXiv:1707.03239): there the
+ * incoming channel is the adiabat of the two dipole-coupled pair states (pair_adiabat),
+ * evaluated at each angle and projected onto the partial waves by quadrature.
  *
  * Loss: the universal model (Idziaszek & Julienne, PRL 104, 113202 (2010)) generalised as
  * in Quéméner & Bohn, PRA 81, 022702 (2010): whatever reaches short range is lost; how much
@@ -55,7 +59,30 @@ typedef struct terms {
     double c3, c6;
     const double *mw_c3, *mw_c6;
     cp_shield_regime regime;
+    /* dc pair: V_aa, V_bb, V_ab = (caa, cbb, cab) (1 - 3 cos^2 theta) / r^3 and the gap */
+    double caa, cbb, cab, gap;
 } terms;
+
+/* dc-field shielding: the energy (J, from two molecules in |1,0> at rest) of the incoming
+ * pair a = |1,0>|1,0> at separation r and 1 - 3 cos^2 theta = s, from the 2 x 2 pair
+ * Hamiltonian [[V_aa, V_ab], [V_ab, -g + V_bb]] with b = (|0,0>|2,0> + |2,0>|0,0>) / sqrt 2
+ * (docs/models/collisions.md): the upper eigenvalue above the crossing (g > 0), the lower
+ * one below it, i.e. the adiabat that is a at large r.  Written as V_aa plus a shift that
+ * keeps its accuracy where V_ab^2 / g is tiny:
+ *   E_a = V_aa - h + sgn(g) R,  h = (V_aa - V_bb + g) / 2,  R = sqrt(h^2 + V_ab^2). */
+static double pair_adiabat(const terms *t, double r, double s)
+{
+    double r3 = r * r * r;
+    double vaa = t->caa * s / r3, vbb = t->cbb * s / r3, vab = t->cab * s / r3;
+    double h = 0.5 * (vaa - vbb + t->gap);
+    double big = sqrt(h * h + vab * vab);
+    double shift;
+    if (t->gap >= 0.0)
+        shift = h >= 0.0 ? vab * vab / (big + h) : big - h;
+    else
+        shift = h <= 0.0 ? -vab * vab / (big - h) : -h - big;
+    return vaa + shift;
+}
 
 static void potential_terms(const terms *t, double r, double f[4])
 {
@@ -75,8 +102,9 @@ static void potential_terms(const terms *t, double r, double f[4])
 }
 
 /* Lowest eigenvalue of a symmetric n x n matrix (n <= NB) by cyclic Jacobi rotations
- * (the classical method: Golub & Van Loan, Matrix Computations, sec. 8.5). */
-static double lowest_eigenvalue(double a[NB][NB], int n)
+ * (the classical method: Golub & Van Loan, Matrix Computations, sec. 8.5), stopped when
+ * the off-diagonal part's square is below tol of the diagonal's. */
+static double lowest_eigenvalue_tol(double a[NB][NB], int n, double tol)
 {
     for (int sweep = 0; sweep < 30; sweep++) {
         double off = 0.0, diag = 0.0;
@@ -85,7 +113,7 @@ static double lowest_eigenvalue(double a[NB][NB], int n)
             for (int j = i + 1; j < n; j++)
                 off += a[i][j] * a[i][j];
         }
-        if (off <= 1e-30 * diag)
+        if (off <= tol * diag)
             break;
         for (int p = 0; p < n; p++)
             for (int q = p + 1; q < n; q++) {
@@ -110,6 +138,11 @@ static double lowest_eigenvalue(double a[NB][NB], int n)
     for (int i = 1; i < n; i++)
         m = fmin(m, a[i][i]);
     return m;
+}
+
+static double lowest_eigenvalue(double a[NB][NB], int n)
+{
+    return lowest_eigenvalue_tol(a, n, 1e-30);
 }
 
 /* One adiabatic channel class: projection M, lowest partial wave L_min, multiplicity. */
@@ -146,6 +179,47 @@ static cp_status angular_matrices(const gsl_integration_glfixed_table *gl, int m
     return CP_OK;
 }
 
+/* dc pair: the surface E_a(r, theta) is not a polynomial in cos^2 theta, so its partial-
+ * wave matrix is a quadrature over the nodes of a Gauss-Legendre rule on cos theta in
+ * [0, 1] (the surface and the products Y_L Y_L' of one parity are even in cos theta):
+ * node k has s_k = 1 - 3 c_k^2 and weights yy[k][i][j] = 2 pi w_k Y_i Y_j (doubled for
+ * the mirror node).  The |1 - 3c^2| kink of the resonant coupling limits the rule's
+ * accuracy: 12 nodes change the loss by at most 1e-3 against 48 (KRb, NaK), far below
+ * the model's own uncertainty. */
+#define N_PAIR_NODES 12
+typedef struct pair_nodes {
+    double s[N_PAIR_NODES];
+    double yy[N_PAIR_NODES][NB][NB];
+} pair_nodes;
+
+static cp_status pair_node_table(int m, int lmin, pair_nodes *pn, cp_error *err)
+{
+    gsl_integration_glfixed_table *gl = gsl_integration_glfixed_table_alloc(N_PAIR_NODES);
+    if (!gl)
+        return cp_fail(err, CP_ENOMEM, "collisions shielded: cannot allocate quadratures");
+    cp_status st = CP_OK;
+    for (size_t k = 0; k < N_PAIR_NODES && st == CP_OK; k++) {
+        double x, w;
+        gsl_integration_glfixed_point(0.0, 1.0, k, &x, &w, gl);
+        pn->s[k] = 1.0 - 3.0 * x * x;
+        double y[NB];
+        for (int i = 0; i < NB; i++) {
+            gsl_sf_result res;
+            if (gsl_sf_legendre_sphPlm_e(lmin + 2 * i, m, x, &res) != 0) {
+                st = cp_fail(err, CP_ENUMERIC, "collisions shielded: spherical harmonic "
+                             "L = %d, M = %d failed", lmin + 2 * i, m);
+                break;
+            }
+            y[i] = res.val;
+        }
+        for (int i = 0; i < NB; i++)
+            for (int j = 0; j < NB; j++)
+                pn->yy[k][i][j] = 2.0 * 2.0 * CP_PI * w * y[i] * y[j];
+    }
+    gsl_integration_glfixed_table_free(gl);
+    return st;
+}
+
 /* Quasi-2D: the potential averaged over the relative ground state of the tight axis,
  * |phi(z)|^2 = exp(-z^2 / 2 s^2) / (sqrt(2 pi) s).  Dipolar part in closed form: with
  * (rho^2 - 2 z^2)/r^5 = -d^2/dz^2 (1/r) and two integrations by parts,
@@ -170,9 +244,9 @@ static cp_status check_params(const cp_shielded_params *p, cp_error *err)
 {
     const char *ctx = "collisions shielded";
     if (p->regime != CP_SHIELD_DC_3D && p->regime != CP_SHIELD_QUASI_2D &&
-        p->regime != CP_SHIELD_MICROWAVE)
-        return cp_fail(err, CP_EINVAL, "%s: regime %d is not dc_3d (0), quasi_2d (1) or "
-                       "microwave (2)", ctx, (int)p->regime);
+        p->regime != CP_SHIELD_MICROWAVE && p->regime != CP_SHIELD_DC_PAIR)
+        return cp_fail(err, CP_EINVAL, "%s: regime %d is not dc_3d (0), quasi_2d (1), "
+                       "microwave (2) or dc_shield (3)", ctx, (int)p->regime);
     if (p->stat != CP_PAIR_BOSONS && p->stat != CP_PAIR_FERMIONS)
         return cp_fail(err, CP_EINVAL, "%s: statistics %d is not identical bosons (0) or "
                        "fermions (1)", ctx, (int)p->stat);
@@ -180,9 +254,17 @@ static cp_status check_params(const cp_shielded_params *p, cp_error *err)
     CP_TRY(cp_check_range(err, ctx, "c6_au", p->c6_au, "a.u.", 0.0, 1e9, CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "temperature", p->temperature, "K", 1e-10, 1e-4,
                           CP_CLOSED));
-    if (p->regime != CP_SHIELD_MICROWAVE)
+    if (p->regime == CP_SHIELD_DC_3D || p->regime == CP_SHIELD_QUASI_2D)
         CP_TRY(cp_check_range(err, ctx, "dipole", p->dipole, "C m", 0.0, 20.0 * CP_DEBYE,
                               CP_CLOSED));
+    if (p->regime == CP_SHIELD_DC_PAIR) {
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++)
+                CP_TRY(cp_check_range(err, ctx, "stark_dipole", p->stark_dipole[i][j], "C m",
+                                      -20.0 * CP_DEBYE, 20.0 * CP_DEBYE, CP_CLOSED));
+        CP_TRY(cp_check_range(err, ctx, "pair_gap", p->pair_gap, "J", -1e-19, 1e-19,
+                              CP_CLOSED));
+    }
     if (p->regime == CP_SHIELD_QUASI_2D)
         CP_TRY(cp_check_range(err, ctx, "axial_omega", p->axial_omega, "rad/s",
                               2.0 * CP_PI * 1e3, 2.0 * CP_PI * 1e6, CP_CLOSED));
@@ -213,6 +295,7 @@ typedef struct work {
     double r_in, r_max;
     terms t;
     double s;         /* quasi-2D: width of the relative axial ground state, m */
+    const pair_nodes *pn;        /* dc pair: the angular nodes of the current channel */
 } work;
 
 /* u_pot at radius r for channel class ch (3D: lowest adiabat + 1/4; 2D: m^2 + ...). */
@@ -222,6 +305,39 @@ static double u_at(const work *w, const channel *ch, double mat[3][NB][NB], doub
         return (double)(ch->m * ch->m) +
                r * r * w->k2fac * averaged_2d(w->t.c3, w->t.c6, w->s, r);
     double f[4], a[NB][NB];
+    if (w->p->regime == CP_SHIELD_DC_PAIR) {
+        /* <L|E_a|L'> by quadrature, plus centrifugal and van der Waals terms */
+        const pair_nodes *pn = w->pn;
+        double r3 = r * r * r;
+        memset(a, 0, sizeof a);
+        for (int k = 0; k < N_PAIR_NODES; k++) {
+            double e = pair_adiabat(&w->t, r, pn->s[k]);
+            for (int i = 0; i < NB; i++)
+                for (int j = i; j < NB; j++)
+                    a[i][j] += e * pn->yy[k][i][j];
+        }
+        double cent = 1.0 / (w->k2fac * r * r), vdw = w->t.c6 / (r3 * r3);
+        for (int i = 0; i < NB; i++) {
+            double l = ch->lmin + 2 * i;
+            a[i][i] += l * (l + 1.0) * cent - vdw;
+            for (int j = 0; j < i; j++)
+                a[i][j] = a[j][i];
+        }
+        /* at long range the partial waves barely mix: second-order perturbation theory
+         * (the next orders are below 1e-4 of the coupling when every coupling is below
+         * 1e-2 of its gap) saves the rotations on most of the grid */
+        int weak = 1;
+        double second = 0.0;
+        for (int j = 1; j < NB && weak; j++) {
+            double gap = a[j][j] - a[0][0];
+            weak = gap > 0.0 && fabs(a[0][j]) < 1e-2 * gap;
+            second -= a[0][j] * a[0][j] / gap;
+        }
+        /* the eigenvalue's error is of the order of the off-diagonal part squared over the
+         * gaps: 1e-20 of the diagonal's square is far below the accuracy needed */
+        double lowest = weak ? a[0][0] + second : lowest_eigenvalue_tol(a, NB, 1e-20);
+        return 0.25 + r * r * w->k2fac * lowest;
+    }
     potential_terms(&w->t, r, f);
     double cent = 1.0 / (w->k2fac * r * r);
     for (int i = 0; i < NB; i++)
@@ -245,6 +361,24 @@ static double inner_radius(const work *w, const channel *ch, double mat[3][NB][N
         return pow(p->c6_core / (CP_HBAR * omega_eff), 1.0 / 6.0);
     }
     double lo = r_top * 1e-4, hi = r_top;
+    if (p->regime == CP_SHIELD_DC_PAIR) {
+        /* the shield may be repulsive where |u| is large: start from outside and take the
+         * outermost radius inside which the well is deep (u < -F_INNER) */
+        hi = w->r_max;
+        lo = hi;
+        while (lo > r_top * 1e-4 && !(u_at(w, ch, mat, lo) < -F_INNER)) {
+            hi = lo;
+            lo *= 0.8;
+        }
+        for (int it = 0; it < 40; it++) {
+            double mid = sqrt(lo * hi);
+            if (u_at(w, ch, mat, mid) < -F_INNER)
+                lo = mid;
+            else
+                hi = mid;
+        }
+        return lo;
+    }
     for (int it = 0; it < 40; it++) { /* bisection in ln r (to 1e-6 relative) */
         double mid = sqrt(lo * hi);
         if (fabs(u_at(w, ch, mat, mid)) > F_INNER)
@@ -260,7 +394,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
 {
     if (!r)
         return cp_fail(err, CP_EINVAL, "collisions shielded: result is NULL");
-    cp_poison(&r->elastic_rate, 7);
+    cp_poison(&r->elastic_rate, 8);
     r->valid = 0;
     r->method = NULL;
     r->note[0] = '\0';
@@ -276,12 +410,26 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     double abar = cp_vdw_mean_scattering_length(p->c6_au, w.mu);
     w.t.regime = p->regime == CP_SHIELD_MICROWAVE ? CP_SHIELD_MICROWAVE : CP_SHIELD_DC_3D;
     w.t.c6 = c6;
+    double coulomb = 1.0 / (4.0 * CP_PI * CP_EPS0);
+    double reach = 0.0; /* dc pair: the dipole length of the strongest pair coupling, m */
     if (p->regime == CP_SHIELD_MICROWAVE) {
         w.t.c3 = p->c3;
         w.t.mw_c3 = p->mw_c3;
         w.t.mw_c6 = p->mw_c6;
+    } else if (p->regime == CP_SHIELD_DC_PAIR) {
+        /* pair states a = |1,0>|1,0>, b = (|0,0>|2,0> + |2,0>|0,0>) / sqrt 2 coupled by
+         * d1z d2z (1 - 3 cos^2 theta) / (4 pi eps0 r^3) (all states have M = 0, so the
+         * transverse dipole components do not contribute) */
+        const double(*dm)[3] = p->stark_dipole;
+        w.t.caa = coulomb * dm[1][1] * dm[1][1];
+        w.t.cbb = coulomb * (dm[0][0] * dm[2][2] + dm[0][2] * dm[0][2]);
+        w.t.cab = coulomb * sqrt(2.0) * dm[0][1] * dm[1][2];
+        w.t.gap = p->pair_gap;
+        w.t.c3 = w.t.caa; /* the induced dipole of |1,0>: the elastic cross section */
+        w.t.regime = CP_SHIELD_DC_PAIR;
+        reach = w.mu * fmax(fabs(w.t.cab), fabs(w.t.cbb)) / (CP_HBAR * CP_HBAR);
     } else {
-        w.t.c3 = p->dipole * p->dipole / (4.0 * CP_PI * CP_EPS0);
+        w.t.c3 = p->dipole * p->dipole * coulomb;
     }
     double dlen = w.mu * w.t.c3 / (CP_HBAR * CP_HBAR); /* dipole length D */
     w.s = sqrt(CP_HBAR / (p->mass * (p->regime == CP_SHIELD_QUASI_2D ? p->axial_omega : 1)));
@@ -319,14 +467,21 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     double kmin = sqrt(w.k2fac * kt * nodes[0]);
     double kmax = sqrt(w.k2fac * kt * nodes[N_ENERGY - 1]);
     double scale = fmax(fmax(r6, dlen), two_d ? w.s : 0.0);
-    w.r_max = fmax(fmax(30.0 * r6, 20.0 * dlen), fmax(two_d ? 30.0 * w.s : 0.0, 4.0 / kmin));
+    w.r_max = fmax(fmax(30.0 * r6, 20.0 * fmax(dlen, reach)),
+                   fmax(two_d ? 30.0 * w.s : 0.0, 4.0 / kmin));
 
     double loss_sum[N_ENERGY] = {0};
     double r_inner = INFINITY;
     for (int c = 0; c < nch; c++) {
         double mat[3][NB][NB] = {{{0}}};
-        if (!two_d && (st = angular_matrices(gl, chans[c].m, chans[c].lmin, mat, err)))
+        pair_nodes pn;
+        if (p->regime == CP_SHIELD_DC_PAIR) {
+            if ((st = pair_node_table(chans[c].m, chans[c].lmin, &pn, err)))
+                goto done;
+            w.pn = &pn;
+        } else if (!two_d && (st = angular_matrices(gl, chans[c].m, chans[c].lmin, mat, err))) {
             goto done;
+        }
         double rin = inner_radius(&w, &chans[c], mat, scale);
         r_inner = fmin(r_inner, rin);
         double f_in = fabs(u_at(&w, &chans[c], mat, rin)) + kmax * kmax * rin * rin;
@@ -414,6 +569,8 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     r->ratio = r->loss_rate > 0.0 ? r->elastic_rate / r->loss_rate : INFINITY;
     r->dipole_length = dlen;
     r->inner_radius = r_inner;
+    if (p->regime == CP_SHIELD_DC_PAIR)
+        r->pair_gap = p->pair_gap;
 
     /* validity */
     r->valid = 1;
@@ -438,6 +595,23 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
                      "van der Waals length %.3g m", w.s, r6);
         }
         break;
+    case CP_SHIELD_DC_PAIR:
+        r->method = "dc-field shielding: molecules in |1,0>, universal short-range loss "
+                    "through the incoming pair's adiabat of |1,0>|1,0> coupled to "
+                    "|0,0>|2,0> (two-channel model, partial waves by quadrature; Numerov, "
+                    "unit absorption; transitions to |0,0>|2,0> not counted); dipolar elastic "
+                    "cross section of the |1,0> induced dipole";
+        if (p->pair_gap <= 0.0) {
+            r->valid = 0;
+            snprintf(r->note, sizeof r->note, "below the crossing (pair gap %.3g MHz): the "
+                     "incoming pair is pulled down, loss enhanced; the two-channel model is "
+                     "qualitative there", p->pair_gap / CP_H / 1e6);
+        } else if (kt > 0.1 * p->pair_gap) {
+            r->valid = 0;
+            snprintf(r->note, sizeof r->note, "k_B T = %.2g of the pair gap: too close to the "
+                     "crossing for the pair to follow its adiabat", kt / p->pair_gap);
+        }
+        break;
     case CP_SHIELD_MICROWAVE:
         r->method = "microwave shielding: tunnelling through the dressed pair's effective "
                     "potential (Deng et al. 2023 form) to where its core reaches hbar "
@@ -458,7 +632,7 @@ done:
     if (gl)
         gsl_integration_glfixed_table_free(gl);
     if (st != CP_OK) {
-        cp_poison(&r->elastic_rate, 7);
+        cp_poison(&r->elastic_rate, 8);
         r->valid = 0;
         r->method = NULL;
     }

@@ -166,9 +166,13 @@ typedef enum cp_shield_regime {
                                 dipoles attract head to tail (loss grows with the dipole) */
     CP_SHIELD_QUASI_2D = 1,  /* dc field along the tight axis of a pancake trap (1D lattice):
                                 side-by-side repulsion shields the molecules */
-    CP_SHIELD_MICROWAVE = 2  /* molecules in the upper dressed state of a blue-detuned,
+    CP_SHIELD_MICROWAVE = 2, /* molecules in the upper dressed state of a blue-detuned,
                                 circularly polarised microwave: the sign-reversed dipolar
                                 interaction and a repulsive r^-6 core (coldprep/fields.h) */
+    CP_SHIELD_DC_PAIR = 3    /* dc-field shielding: molecules in |1,0> near the field where
+                                |1,0>|1,0> meets |0,0>|2,0>; the incoming pair's adiabat of
+                                the two dipole-coupled pair states (repulsive above the
+                                crossing) */
 } cp_shield_regime;
 
 /* Collisions of identical molecules (bosons or fermions in one internal state). */
@@ -188,6 +192,10 @@ typedef struct cp_shielded_params {
     double rabi;             /* microwave: Omega, rad/s, > 0 */
     double detuning;         /* microwave: Delta, rad/s (blue > 0 shields) */
     double dipole_permanent; /* microwave: body-frame dipole d, C m, (0, 20 D] */
+    double stark_dipole[3][3]; /* dc pair: <J| d_z |J'> of the Stark states |J, 0>, J, J' =
+                                  0, 1, 2 (cp_fields_dipole_matrix), C m, each in [-20, 20] D */
+    double pair_gap;         /* dc pair: 2 E(1,0) - E(0,0) - E(2,0), J, |gap| <= 1e-19 J:
+                                > 0 above the crossing (shielding), < 0 below it */
 } cp_shielded_params;
 
 #define CP_SHIELDED_NOTE_SIZE 200
@@ -201,6 +209,8 @@ typedef struct cp_shielded_result {
     double cross_section; /* thermal mean elastic cross section <sigma v>/<v>, m^2 */
     double dipole_length; /* D = mu d^2 / (4 pi eps0 hbar^2) of the (effective) dipole, m */
     double inner_radius;  /* where the loss boundary sits, m */
+    double pair_gap;      /* dc pair: the pair gap 2 E(1,0) - E(0,0) - E(2,0), J; NaN in the
+                             other regimes */
     int valid;            /* 1: inside the model's stated validity range */
     const char *method;   /* static text naming the model */
     char note[CP_SHIELDED_NOTE_SIZE]; /* why valid = 0 (empty otherwise) */
@@ -219,10 +229,14 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
 
 /* The protection a plan gives its molecules, and the molecule itself.  The regime follows:
  * a microwave -> microwave shielding (no dc field allowed with it); an axial confinement
- * -> quasi-2D with the dipole the dc field induces (field along the tight axis); otherwise
- * dc 3D (no field: the field-free universal rates).  Near or above the dc shielding field
- * (0.9 of it and up) the 3D model is returned with valid = 0: dc-field shielding is not
- * modelled. */
+ * -> quasi-2D with the dipole the dc field induces (field along the tight axis); molecules
+ * in |1,0> (rotational_j = 1; a dc field, free space) -> dc-field shielding
+ * (CP_SHIELD_DC_PAIR), valid for d F / B in [CP_DC_SHIELD_MIN_REDUCED,
+ * CP_DC_SHIELD_MAX_REDUCED] and flagged elsewhere; otherwise dc 3D with molecules in |0,0> (no field: the field-free
+ * universal rates).  Ground-state molecules at 0.9 F_s and above are flagged (valid = 0):
+ * such a field is meant for dc shielding, which needs molecules in |1,0>. */
+#define CP_DC_SHIELD_MIN_REDUCED 3.25 /* d F / B: the shielding window of Gonzalez-Martinez, */
+#define CP_DC_SHIELD_MAX_REDUCED 3.8  /* Bohn & Quemener, PRA 96, 032718 (2017) */
 typedef struct cp_protection_params {
     double dipole;          /* body-frame dipole d, C m, (0, 20 D] */
     double rot_const_hz;    /* B/h, Hz */
@@ -234,6 +248,8 @@ typedef struct cp_protection_params {
     int microwave;          /* 1: microwave dressing below */
     double rabi, detuning, ellipticity; /* rad/s, rad/s (blue > 0), rad */
     double axial_omega;     /* tight-axis angular frequency, rad/s; 0: free space (3D) */
+    int rotational_j;       /* rotational state of the molecules: 0 for |0,0> (default), 1
+                               for |1,0> (dc-field shielding; needs a field and free space) */
 } cp_protection_params;
 
 /* Rates for the protection p (cp_collisions_shielded after the field physics of

@@ -90,6 +90,19 @@ cp_status cp_fields_stark_map(const cp_fields_rotor *rotor, int m, int levels,
                               const double *fields, size_t count, double *energy_hz,
                               double *induced_dipole, int *basis_size, cp_error *err);
 
+/* The dipole matrix <k| d_z |l> (C m) of the `levels` lowest Stark states of projection m
+ * (k, l = 0 .. levels - 1 for J = |m| + k; 1 <= levels <= CP_FIELDS_MAX_DIPOLE_LEVELS,
+ * |m| + levels - 1 <= CP_FIELDS_MAX_J) at field `field` (V/m, as cp_fields_stark):
+ * dipole[k * levels + l], symmetric; the diagonal is the induced dipole -dE/dF of each
+ * state, the rest the transition dipoles between them.  Each state's sign is chosen so
+ * that its component on the field-free |J = |m| + k, m> is positive.  energy_hz (may be
+ * NULL) receives the `levels` energies E/h (Hz), *basis_size (may be NULL) the basis used.
+ * On error the outputs are poisoned (when levels is in range). */
+#define CP_FIELDS_MAX_DIPOLE_LEVELS 20
+cp_status cp_fields_dipole_matrix(const cp_fields_rotor *rotor, double field, int m, int levels,
+                                  double *energy_hz, double *dipole, int *basis_size,
+                                  cp_error *err);
+
 /* ---- dc-field shielding ----------------------------------------------------------------- */
 
 /* The reduced field x_s at which the pair |1,0> + |1,0> is degenerate with |0,0> + |2,0>,

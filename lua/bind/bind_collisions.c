@@ -5,8 +5,9 @@
  * function takes one table of named arguments (SI units, C6 in atomic units) and returns
  * a table.  `mass` is the reduced mass for the two-body quantities and the particle mass
  * for the trapped-cloud ones, as each help text says.  `shielded` gives the elastic and
- * loss rates of identical polar molecules under a dc field, a microwave or a pancake trap
- * (core/collisions_protect.c, core/collisions_shielded.c).
+ * loss rates of identical polar molecules under a dc field, a microwave or a pancake trap,
+ * or of molecules in |1,0> under dc-field shielding (core/collisions_protect.c,
+ * core/collisions_shielded.c).
  */
 #include <lauxlib.h>
 #include <lua.h>
@@ -278,18 +279,19 @@ static void read_molecule(lua_State *L, const char *fname, cp_protection_params 
     lua_pop(L, 2);
 }
 
-static const char *const REGIMES[] = {"dc_3d", "quasi_2d", "microwave"};
+static const char *const REGIMES[] = {"dc_3d", "quasi_2d", "microwave", "dc_shield"};
 
 static int l_shielded(lua_State *L)
 {
     static const char *const keys[] = {"molecule", "temperature", "electric_field",
-                                       "microwave", "confinement", NULL};
+                                       "microwave", "confinement", "rotational_j", NULL};
     const char *fname = "collisions.shielded";
     cpl_check_args(L, 1, fname, keys);
     cp_protection_params p = {0};
     read_molecule(L, fname, &p);
     p.temperature = cpl_number(L, 1, fname, "temperature", "K");
     p.electric_field = cpl_opt_number(L, 1, fname, "electric_field", "V/m", 0.0);
+    p.rotational_j = (int)cpl_opt_integer(L, 1, fname, "rotational_j", 0, 0, 1);
     int t = lua_getfield(L, 1, "microwave");
     if (t == LUA_TTABLE) {
         static const char *const mk[] = {"rabi", "detuning", "ellipticity", NULL};
@@ -345,6 +347,8 @@ static int l_shielded(lua_State *L)
     cpl_set_boolean(L, "valid", r.valid);
     if (!r.valid)
         cpl_set_string(L, "note", r.note);
+    if (regime == CP_SHIELD_DC_PAIR)
+        cpl_set_number(L, "pair_gap_hz", r.pair_gap / CP_H);
     return 1;
 }
 
@@ -446,10 +450,14 @@ static const cpl_function functions[] = {
      "  microwave       {rabi (rad/s), detuning (rad/s, blue > 0), ellipticity (rad, 0 = "
      "circular)}: microwave shielding (Deng et al., PRL 130, 183001 (2023))\n"
      "  confinement     {axial_omega (rad/s)}: pancakes of a 1D lattice, quasi-2D\n"
+     "  rotational_j    0 (molecules in |0,0>, default) or 1 (in |1,0>: dc-field shielding\n"
+     "                  near and above the field where |1,0>|1,0> meets |0,0>|2,0>, regime\n"
+     "                  \"dc_shield\", valid for d F / B in [3.25, 3.8]; needs electric_field)\n"
      "Returns {elastic_rate_coefficient, loss_rate_coefficient (m^3/s; quasi-2D: "
      "3D-equivalent, and loss_rate_coefficient_2d in m^2/s), ratio, cross_section (m^2), "
      "dipole_debye (induced or effective), dipole_length (m), inner_radius (m), regime, "
-     "method, valid, note (when not valid)}.\n"
+     "method, valid, note (when not valid), pair_gap_hz (dc_shield: [2E(1,0) - E(0,0) - "
+     "E(2,0)]/h)}.\n"
      "Example: cp.collisions.shielded{molecule = \"23Na40K\", temperature = 300e-9, "
      "microwave = {rabi = 2*math.pi*50e6, detuning = 2*math.pi*10e6}}"},
     {NULL, NULL, NULL}};

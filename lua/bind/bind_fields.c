@@ -1,6 +1,7 @@
 /*
  * Lua binding: coldprep.fields over core/fields*.c — the dc Stark effect of a polar
- * molecule (one field or a Stark map), the dc-shielding field, and microwave dressing.
+ * molecule (one field or a Stark map), the dipole matrix between Stark states, the
+ * dc-shielding field, and microwave dressing.
  * A `molecule` is a species name (user-added or built-in, species_lookup.h) or a table with
  * dipole_debye (D) and rot_const_hz (B/h, Hz), such as cp.species.molecule returns.  Arrays
  * handed to C
@@ -177,6 +178,39 @@ static int l_shielding_field(lua_State *L)
     return 1;
 }
 
+/* dipole_matrix{molecule, field [, m = 0, levels = 3]} */
+static int l_dipole_matrix(lua_State *L)
+{
+    static const char fname[] = "fields.dipole_matrix";
+    static const char *const known[] = {"molecule", "field", "m", "levels", NULL};
+    cpl_check_args(L, 1, fname, known);
+    cp_fields_rotor rot = read_molecule(L, fname);
+    double field = cpl_number(L, 1, fname, "field", "V/m");
+    int m = (int)cpl_opt_integer(L, 1, fname, "m", 0, -CP_FIELDS_MAX_J, CP_FIELDS_MAX_J);
+    int levels = (int)cpl_opt_integer(L, 1, fname, "levels", 3, 1, CP_FIELDS_MAX_DIPOLE_LEVELS);
+    double e[CP_FIELDS_MAX_DIPOLE_LEVELS];
+    double d[CP_FIELDS_MAX_DIPOLE_LEVELS * CP_FIELDS_MAX_DIPOLE_LEVELS];
+    int basis;
+    cp_error err;
+    if (cp_fields_dipole_matrix(&rot, field, m, levels, e, d, &basis, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 5);
+    cpl_push_array(L, e, (size_t)levels);
+    lua_setfield(L, -2, "energy_hz");
+    lua_createtable(L, levels, 0);
+    for (int k = 0; k < levels; k++) {
+        for (int l = 0; l < levels; l++)
+            d[k * levels + l] /= CP_DEBYE;
+        cpl_push_array(L, d + k * levels, (size_t)levels);
+        lua_rawseti(L, -2, k + 1);
+    }
+    lua_setfield(L, -2, "dipole_debye");
+    cpl_set_integer(L, "m", m);
+    cpl_set_number(L, "reduced_field", rot.dipole * field / (CP_H * rot.rot_const_hz));
+    cpl_set_integer(L, "basis_size", basis);
+    return 1;
+}
+
 static int l_microwave(lua_State *L)
 {
     static const char fname[] = "fields.microwave";
@@ -228,6 +262,18 @@ static const cpl_function functions[] = {
      "shielding).  Found by root finding on the exact Stark energies: d F / B = 3.2440.\n"
      "Returns {field (V/m), reduced_field (d F / B)}.\n"
      "Example: cp.fields.shielding_field{molecule = 'KRb'}.field / cp.units.kV_per_cm"},
+    {"dipole_matrix", l_dipole_matrix,
+     "fields.dipole_matrix{molecule, field [, m = 0, levels = 3]}\n"
+     "Dipole matrix <k| d_z |l> of the `levels` lowest Stark states of projection m (k = 1\n"
+     "is J = |m|, k = 2 is J = |m| + 1, ...; levels in [1, 20]) at the dc field (V/m), from\n"
+     "the eigenvectors of the exact rotor Hamiltonian: the diagonal is each state's induced\n"
+     "dipole -dE/dF, the rest the transition dipoles (e.g. <0,0|d_z|1,0> and <1,0|d_z|2,0>,\n"
+     "which couple |1,0>|1,0> to |0,0>|2,0> in dc-field shielding).  Each state's sign is\n"
+     "chosen so that its component on the field-free |J, m> it is named after is positive.\n"
+     "Returns {energy_hz (array, E/h in Hz), dipole_debye (levels x levels table of arrays,\n"
+     "D), m, reduced_field, basis_size}.\n"
+     "Example: cp.fields.dipole_matrix{molecule = 'KRb', field = 12.7*cp.units.kV_per_cm}\n"
+     "  .dipole_debye[1][2]   --> <0,0|d_z|1,0> in debye"},
     {"microwave", l_microwave,
      "fields.microwave{molecule, rabi (rad/s), detuning (rad/s) [, ellipticity = 0 (rad)]}\n"
      "Microwave dressing near J = 0 -> 1: Rabi frequency Omega (coupling hbar Omega/2),\n"

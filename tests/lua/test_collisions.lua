@@ -134,6 +134,26 @@ local tbl = cp.collisions.shielded { molecule = cp.species.molecule("KRb"), temp
 T.near(tbl.loss_rate_coefficient, dc.loss_rate_coefficient, 1e-12, "molecule as a table")
 local near = cp.collisions.shielded { molecule = "KRb", temperature = 300e-9, electric_field = 12e5 }
 T.check(not near.valid and near.note:find("shielding field", 1, true), "near the shielding field: flagged")
+T.check(near.note:find("|1,0>", 1, true) ~= nil, "the note says dc shielding needs |1,0>")
+-- dc-field shielding of KRb in |1,0> at 12.72 kV/cm (Li et al., Nature Phys. 17, 1144
+-- (2021), arXiv:2103.06246; field and temperature [M]; the factor-30 suppression itself is
+-- checked in the C test SH-6): regime, method, the |1,0> dipole and pair gap from
+-- cp.fields.dipole_matrix, the enhancement just below the crossing
+local sh = cp.collisions.shielded { molecule = "KRb", temperature = 300e-9, electric_field = 12.72e5,
+  rotational_j = 1 }
+T.check(sh.regime == "dc_shield" and sh.valid and sh.pair_gap_hz > 0, "dc-shielding regime, above the crossing")
+T.check(sh.method:find("|1,0>|1,0>", 1, true) ~= nil, "method named")
+local dm = cp.fields.dipole_matrix { molecule = "KRb", field = 12.72e5 }
+T.near(sh.dipole_debye, math.abs(dm.dipole_debye[2][2]), 1e-12, "the |1,0> induced dipole")
+T.near(sh.pair_gap_hz, 2 * dm.energy_hz[2] - dm.energy_hz[1] - dm.energy_hz[3], 1e-9, "the pair gap")
+local dc3 = cp.collisions.shielded { molecule = { dipole_debye = 0.566, rot_const_hz = 1.1139e9,
+  c6_au = 16130, mass = cp.species.molecule("KRb").mass, statistics = "fermion" }, temperature = 300e-9,
+  electric_field = 12.72e5, rotational_j = 1 }
+T.near(dc3.loss_rate_coefficient, sh.loss_rate_coefficient, 1e-12, "molecule table in the dc-shield regime")
+local below = cp.collisions.shielded { molecule = "KRb", temperature = 300e-9, electric_field = 12.6e5,
+  rotational_j = 1 }
+T.check(not below.valid and below.note:find("below the crossing", 1, true), "below the crossing: flagged")
+T.check(below.loss_rate_coefficient > 10 * sh.loss_rate_coefficient, "loss enhanced below, suppressed above")
 
 -- COLL-L10: bad input to cp.collisions.shielded names the function, key, value and unit.
 T.raises(function() cp.collisions.shielded { molecule = "KRb" } end,
@@ -162,5 +182,12 @@ T.raises(function() cp.collisions.shielded { molecule = "KRb", temperature = 1e-
   confinement = { axial_omega = 0 } } end, { "axial_omega" }, "zero axial frequency")
 T.raises(function() cp.collisions.shielded { molecule = "KRb", temperature = 1e-7, feild = 1 } end,
   { "feild" }, "misspelt key")
+T.raises(function() cp.collisions.shielded { molecule = "KRb", temperature = 1e-7, rotational_j = 1 } end,
+  { "electric_field", "|1,0>", "allowed" }, "|1,0> without a field")
+T.raises(function() cp.collisions.shielded { molecule = "KRb", temperature = 1e-7, rotational_j = 2,
+  electric_field = 12.8e5 } end, { "rotational_j", "2", "allowed [0, 1]" }, "no such rotational state")
+T.raises(function() cp.collisions.shielded { molecule = "KRb", temperature = 1e-7, rotational_j = 1,
+  electric_field = 12.8e5, confinement = { axial_omega = 2 * math.pi * 20e3 } } end,
+  { "axial_omega", "pancake" }, "|1,0> in pancakes")
 
 T.done()

@@ -183,4 +183,24 @@ T.raises(function() cp.fields.microwave { molecule = "NaK", rabi = 2 * math.pi *
 T.raises(function() cp.fields.shielding_field { molecule = { dipole_debye = 1e-4, rot_const_hz = 1e13 } } end,
   { "shielding field", "allowed" }, "FLD-L8 shielding field beyond the accepted fields")
 
+-- FLD-L9: the dipole matrix between Stark states.  Zero field: <0,0|d_z|1,0> = d/sqrt 3 and
+-- <1,0|d_z|2,0> = 2 d/sqrt 15 (Zare, Angular Momentum (1988), C^1_0 elements); in a field the
+-- diagonal is the induced dipole of cp.fields.stark (same eigenvectors; the C test checks it
+-- against differenced energies) and the matrix is symmetric; bad input is refused.
+local d0 = cp.fields.dipole_matrix { molecule = "KRb", field = 0 }
+local dk = cp.species.molecule("KRb").dipole_debye
+T.near(d0.dipole_debye[1][2], dk / math.sqrt(3), 1e-14, "FLD-L9 <0,0|d|1,0> at zero field")
+T.near(d0.dipole_debye[2][3], 2 * dk / math.sqrt(15), 1e-14, "FLD-L9 <1,0|d|2,0> at zero field")
+local d5 = cp.fields.dipole_matrix { molecule = "KRb", field = 12.7e5, levels = 5, m = 1 }
+T.check(#d5.dipole_debye == 5 and #d5.energy_hz == 5 and d5.m == 1, "FLD-L9 five levels of M = 1")
+local st = cp.fields.stark { molecule = "KRb", field = 12.7e5, j = 2, m = 1 }
+T.near(d5.dipole_debye[2][2], st.induced_dipole_debye, 1e-9, "FLD-L9 diagonal = induced dipole")
+T.near(d5.dipole_debye[2][3], d5.dipole_debye[3][2], 1e-15, "FLD-L9 symmetric")
+T.raises(function() cp.fields.dipole_matrix { molecule = "KRb", field = -1 } end,
+  { "fields dipole_matrix", "field", "V/m" }, "FLD-L9 negative field")
+T.raises(function() cp.fields.dipole_matrix { molecule = "KRb", field = 1e5, levels = 21 } end,
+  { "levels", "21" }, "FLD-L9 too many levels")
+T.raises(function() cp.fields.dipole_matrix { molecule = "KRb" } end,
+  { "field" }, "FLD-L9 missing field")
+
 T.done()

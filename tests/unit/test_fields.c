@@ -4,7 +4,8 @@
  * against a dense GSL diagonalisation in a basis twice as large, the dc-shielding crossing
  * against a bisection written here, the microwave-dressed single molecule against a 2 x 2
  * diagonalisation and the pair potential against a numerical diagonalisation of the
- * two-molecule Hamiltonian, and bad input.
+ * two-molecule Hamiltonian, the dipole matrix between Stark states against the dense
+ * diagonalisation, the zero-field values and differenced energies, and bad input.
  */
 #include <complex.h>
 #include <float.h>
@@ -457,6 +458,107 @@ static void test_microwave_pair(void **state)
         }
 }
 
+/* FLD-11: the dipole matrix between Stark states.  (a) Against GSL's dense eigensolver in
+ * a basis of 60 states (an independent diagonalisation, the eigenvectors signed by the
+ * same rule), <k|cos theta|l> = v_k^T C v_l with the Zare matrix elements written here:
+ * within 1e-9 for M = 0 and 1, three and five levels, x = 0.3, 3.3 (near the shielding
+ * crossing) and 40.  (b) Zero field: <0,0|cos theta|1,0> = 1/sqrt 3, <1,0|cos theta|2,0>
+ * = 2/sqrt 15, diagonal zero (Zare, Angular Momentum (1988), C^1_0 matrix elements).
+ * (c) The diagonal is -dE/dF: a central difference of cp_fields_stark energies (step
+ * 1e-4 of the field), within 1e-7 d.  (d) Bad input: a negative field, 0 or 21 levels,
+ * and |m| + levels - 1 beyond CP_FIELDS_MAX_J, with NaN outputs. */
+static void reference_matrix(double x, int m, int n, int levels, double *mat)
+{
+    gsl_matrix *h = gsl_matrix_calloc((size_t)n, (size_t)n);
+    gsl_matrix *v = gsl_matrix_alloc((size_t)n, (size_t)n);
+    gsl_vector *ev = gsl_vector_alloc((size_t)n);
+    gsl_eigen_symmv_workspace *w = gsl_eigen_symmv_alloc((size_t)n);
+    double *c = malloc((size_t)n * sizeof *c);
+    assert_true(h && v && ev && w && c);
+    for (int i = 0; i < n; i++) {
+        double j = abs(m) + i;
+        gsl_matrix_set(h, (size_t)i, (size_t)i, j * (j + 1));
+        c[i] = sqrt(((j + 1) * (j + 1) - (double)m * m) / ((2 * j + 1) * (2 * j + 3)));
+        if (i + 1 < n) {
+            gsl_matrix_set(h, (size_t)i, (size_t)i + 1, -x * c[i]);
+            gsl_matrix_set(h, (size_t)i + 1, (size_t)i, -x * c[i]);
+        }
+    }
+    assert_int_equal(gsl_eigen_symmv(h, ev, v, w), GSL_SUCCESS);
+    assert_int_equal(gsl_eigen_symmv_sort(ev, v, GSL_EIGEN_SORT_VAL_ASC), GSL_SUCCESS);
+    for (int k = 0; k < levels; k++)
+        if (gsl_matrix_get(v, (size_t)k, (size_t)k) < 0) /* the sign rule of fields.h */
+            for (int i = 0; i < n; i++)
+                gsl_matrix_set(v, (size_t)i, (size_t)k, -gsl_matrix_get(v, (size_t)i, (size_t)k));
+    for (int k = 0; k < levels; k++)
+        for (int l = 0; l < levels; l++) {
+            double sum = 0;
+            for (int i = 0; i + 1 < n; i++)
+                sum += c[i] * (gsl_matrix_get(v, (size_t)i, (size_t)k) *
+                                   gsl_matrix_get(v, (size_t)i + 1, (size_t)l) +
+                               gsl_matrix_get(v, (size_t)i + 1, (size_t)k) *
+                                   gsl_matrix_get(v, (size_t)i, (size_t)l));
+            mat[k * levels + l] = sum;
+        }
+    free(c);
+    gsl_eigen_symmv_free(w);
+    gsl_vector_free(ev);
+    gsl_matrix_free(v);
+    gsl_matrix_free(h);
+}
+
+static void test_dipole_matrix(void **state)
+{
+    (void)state;
+    cp_error err;
+    const double xs[] = {0.3, 3.3, 40.0};
+    const int ms[] = {0, 1}, nl[] = {3, 5};
+    double b_joule = CP_H * KRB.rot_const_hz;
+    for (int a = 0; a < 3; a++)
+        for (int b = 0; b < 2; b++)
+            for (int q = 0; q < 2; q++) {
+                int levels = nl[q];
+                double got[25], want[25], e[5];
+                double field = xs[a] * b_joule / KRB.dipole;
+                int basis;
+                assert_int_equal(cp_fields_dipole_matrix(&KRB, field, ms[b], levels, e, got,
+                                                         &basis, &err), CP_OK);
+                assert_true(basis > levels);
+                reference_matrix(xs[a], ms[b], 60, levels, want);
+                for (int k = 0; k < levels * levels; k++)
+                    assert_close(got[k] / KRB.dipole, want[k], 1e-9);
+            }
+    double d0[9];
+    assert_int_equal(cp_fields_dipole_matrix(&KRB, 0.0, 0, 3, NULL, d0, NULL, &err), CP_OK);
+    assert_close(d0[1] / KRB.dipole, 1 / sqrt(3.0), 1e-15);
+    assert_close(d0[5] / KRB.dipole, 2 / sqrt(15.0), 1e-15);
+    assert_close(d0[2], 0.0, 0.0);
+    for (int k = 0; k < 3; k++)
+        assert_close(d0[4 * k], 0.0, 0.0);
+    /* (c) the diagonal against differenced energies near the shielding field */
+    double f = 12.7e5, df = 1e-4 * f, dm[9];
+    assert_int_equal(cp_fields_dipole_matrix(&KRB, f, 0, 3, NULL, dm, NULL, &err), CP_OK);
+    for (int j = 0; j < 3; j++) {
+        cp_fields_stark_result up, down;
+        assert_int_equal(cp_fields_stark(&KRB, f + df, j, 0, &up, &err), CP_OK);
+        assert_int_equal(cp_fields_stark(&KRB, f - df, j, 0, &down, &err), CP_OK);
+        double diff = -CP_H * (up.energy_hz - down.energy_hz) / (2 * df);
+        assert_close(dm[4 * j] / KRB.dipole, diff / KRB.dipole, 1e-7);
+    }
+    /* (d) bad input */
+    double out[9];
+    assert_int_equal(cp_fields_dipole_matrix(&KRB, -1.0, 0, 3, NULL, out, NULL, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "field"));
+    assert_true(isnan(out[0]) && isnan(out[8]));
+    assert_int_equal(cp_fields_dipole_matrix(&KRB, 1e5, 0, 0, NULL, out, NULL, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "levels"));
+    assert_int_equal(cp_fields_dipole_matrix(&KRB, 1e5, 0, CP_FIELDS_MAX_DIPOLE_LEVELS + 1, NULL,
+                                             out, NULL, &err), CP_EINVAL);
+    assert_int_equal(cp_fields_dipole_matrix(&KRB, 1e5, CP_FIELDS_MAX_J - 1, 3, NULL, out, NULL,
+                                             &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "m"));
+}
+
 /* FLD-10: bad input gets CP_EINVAL, a message naming the parameter and its unit, and NaN
  * outputs. */
 static void test_bad_input(void **state)
@@ -557,6 +659,7 @@ int main(void)
         cmocka_unit_test(test_shielding),
         cmocka_unit_test(test_microwave_single),
         cmocka_unit_test(test_microwave_pair),
+        cmocka_unit_test(test_dipole_matrix),
         cmocka_unit_test(test_bad_input),
     };
     gsl_set_error_handler_off();
