@@ -8,7 +8,10 @@
 --  PROT-3 a hold under microwave shielding loses what cp.collisions.hold gives for the
 --         predicted rate (a worked check computed here, not by calling the stage again);
 --  PROT-4 a given loss_rate overrides the prediction, with a note;
---  PROT-5 bad protections fail when the plan is written.
+--  PROT-5 bad protections fail when the plan is written;
+--  PROT-6 molecules prepared in |1,0> just above the dc-shielding field (rotational_j = 1)
+--         keep far more in a hold than |0,0> molecules in the same field (Li et al.,
+--         Nature Phys. 17, 1144 (2021): dc-field shielding suppresses the loss of KRb).
 local T = require "testlib"
 local u = cp.units
 local function Hz(f) return 2 * math.pi * f end
@@ -86,4 +89,16 @@ T.raises(function() cp.stages.hold { duration = 1, confinement = { axial_omega =
 T.raises(function() cp.stages.evaporate { eta = 8, keep = 0.5, microwave = { rabi = Hz(40e6) } } end,
   { "microwave", "detuning" }, "microwave without detuning")
 
+-- PROT-6
+local ground = krb { cp.stages.hold { duration = 50 * u.ms, electric_field = 12.72e5 } }
+local shielded = krb { cp.stages.hold { duration = 50 * u.ms, electric_field = 12.72e5,
+  rotational_j = 1 } }
+T.check(shielded.stages[4].efficiency > 0.9 and ground.stages[4].efficiency < 0.5,
+  string.format("|1,0> shielded keeps %.3g, |0,0> keeps %.3g", shielded.stages[4].efficiency,
+    ground.stages[4].efficiency))
+T.check(notes(shielded, 4):find("dc-field shielding of |1,0>", 1, true) ~= nil, "dc-shield regime named")
+T.raises(function() cp.stages.hold { duration = 0.1, rotational_j = 1 } end,
+  { "stages.hold", "rotational_j", "electric_field" }, "|1,0> without a field")
+T.raises(function() cp.stages.hold { duration = 0.1, electric_field = 1e5, rotational_j = 2 } end,
+  { "stages.hold", "rotational_j 2" }, "only J = 0 or 1")
 T.done()

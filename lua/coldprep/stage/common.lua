@@ -105,13 +105,25 @@ M.LONG_EVAPORATION = 1
 -- The protection keys hold and evaporate take: electric_field (V/m), microwave = {rabi
 -- (rad/s), detuning (rad/s, blue > 0) [, ellipticity (rad)]}, confinement = {axial_omega
 -- (rad/s)} (pancakes of a 1D lattice, the dc field along the tight axis).
-M.PROTECTION_KEYS = { "electric_field", "microwave", "confinement" }
+M.PROTECTION_KEYS = { "electric_field", "rotational_j", "microwave", "confinement" }
 
 -- Reads the protection from a stage's arguments: nil when none is given.
 function M.read_protection(fname, args)
   local pr = {
     electric_field = A.number(fname, args, "electric_field", "V/m", { optional = true, positive = true, max = 1e8 }),
   }
+  -- the rotational state the molecules are held in: 0 (|0,0>, the ground state) or 1 (|1,0>,
+  -- prepared by a microwave pulse: dc-field shielding above the |1,0>|1,0> crossing)
+  if args.rotational_j ~= nil then
+    if args.rotational_j ~= 0 and args.rotational_j ~= 1 then
+      A.fail(fname, "rotational_j %s is not allowed; allowed 0 (|0,0>) or 1 (|1,0>)",
+        tostring(args.rotational_j))
+    end
+    if args.rotational_j == 1 and not pr.electric_field then
+      A.fail(fname, "rotational_j = 1 (dc-field shielding of |1,0>) needs 'electric_field'")
+    end
+    pr.rotational_j = math.tointeger(args.rotational_j)
+  end
   if args.microwave ~= nil then
     local mw = args.microwave
     if type(mw) ~= "table" then
@@ -165,11 +177,12 @@ end
 -- under protection pr (cp.collisions.shielded).
 function M.predicted_rates(s, pr, T)
   return cp.collisions.shielded { molecule = s.molecule, temperature = T,
-    electric_field = pr.electric_field, microwave = pr.microwave, confinement = pr.confinement }
+    electric_field = pr.electric_field, microwave = pr.microwave, confinement = pr.confinement,
+    rotational_j = pr.rotational_j }
 end
 
 local REGIME_NAMES = { dc_3d = "dc field in free space", quasi_2d = "quasi-2D pancakes",
-  microwave = "microwave shielding" }
+  microwave = "microwave shielding", dc_shield = "dc-field shielding of |1,0>" }
 
 -- A note on predicted rates r at temperature T (K) for the sample s's molecules.
 function M.rates_note(s, r, T, notes)

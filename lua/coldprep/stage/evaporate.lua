@@ -19,7 +19,7 @@ local NO_LOSS_RATIO = 1e12
 local function evaporate(args)
   local fname = "stages.evaporate"
   A.table(fname, args, { "eta", "final_number", "keep", "final_temperature", "final_depth",
-    "duration", "electric_field", "microwave", "confinement", "cross_section", "ratio", "kappa",
+    "duration", "electric_field", "rotational_j", "microwave", "confinement", "cross_section", "ratio", "kappa",
     "loss_rate", "label" })
   local p = {
     eta = A.number(fname, args, "eta", "U/kB T", { min = 5, max = 30 }),
@@ -156,7 +156,8 @@ end
 
 return { constructor = evaporate, help = [[
 stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J) |
-  duration (s), electric_field (V/m) | microwave = {rabi, detuning [, ellipticity]} |
+  duration (s), electric_field (V/m) [, rotational_j = 0 | 1] | microwave = {rabi, detuning [,
+  ellipticity]} |
   confinement = {axial_omega} | cross_section (m^2) | ratio [, kappa, loss_rate (m^3/s),
   label]}
   -> stage
@@ -172,5 +173,6 @@ which must lie below the sample's, or after a duration (needs a protection or
 cross_section).  An end point the physics never reaches (losses outrun the cooling, the
 cloud empties first) marks the stage failed in the budget.  Duration from the trajectory
 (unknown, NaN, with only a ratio); one-body loss is not modelled (a note flags
-evaporations longer than 1 s).  Example: cp.stages.evaporate{eta = 8, final_temperature =
-60e-9, microwave = {rabi = 2*math.pi*40e6, detuning = 2*math.pi*8e6}}]] }
+evaporations longer than 1 s).  rotational_j = 1: the molecules are in |1,0>, dc-field
+shielded above the |1,0>|1,0> crossing.  Example: cp.stages.evaporate{eta = 8,
+final_temperature = 60e-9, microwave = {rabi = 2*math.pi*40e6, detuning = 2*math.pi*8e6}}]] }

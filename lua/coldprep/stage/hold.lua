@@ -15,7 +15,7 @@ local thermal_note = common.thermal_note
 local function hold(args)
   local fname = "stages.hold"
   A.table(fname, args, { "duration", "lifetime", "heating_rate", "loss_rate", "label",
-    "electric_field", "microwave", "confinement" })
+    "electric_field", "rotational_j", "microwave", "confinement" })
   local p = {
     duration = A.number(fname, args, "duration", "s", { positive = true, max = 1e5 }),
     lifetime = A.number(fname, args, "lifetime", "s", { optional = true, positive = true, max = 1e9 }),
@@ -59,12 +59,13 @@ end
 
 return { constructor = hold, help = [[
 stages.hold{duration (s) [, lifetime (s), heating_rate (K/s), loss_rate (m^3/s),
-  electric_field (V/m), microwave = {rabi, detuning [, ellipticity]} (rad/s, rad/s, rad),
-  confinement = {axial_omega} (rad/s), label]}
+  electric_field (V/m) [, rotational_j = 0 | 1], microwave = {rabi, detuning
+  [, ellipticity]} (rad/s, rad/s, rad), confinement = {axial_omega} (rad/s), label]}
   -> stage
 Molecules held in their trap: two-body loss (loss_rate; else, with a protection given, the
 rate predicted by cp.collisions.shielded for it; else the universal rate from the
 molecule's C6 and statistics, cp.collisions.universal_rate) with its anti-evaporation
 heating, one-body loss, technical heating, and the lattice's photon-scattering heating
-(cp.collisions.hold, a thermal-cloud model).  Example: cp.stages.hold{duration = 0.1,
+(cp.collisions.hold, a thermal-cloud model).  rotational_j = 1: the molecules are in |1,0>,
+dc-field shielded above the |1,0>|1,0> crossing.  Example: cp.stages.hold{duration = 0.1,
 lifetime = 5}]] }
