@@ -61,7 +61,7 @@ end
 
 -- ---- safety ---------------------------------------------------------------------------
 
--- W; IEC 60825-1 / ANSI Z136.1 boundaries for CW sources (physics.md section 9 [M]):
+-- W; IEC 60825-1 / ANSI Z136.1 boundaries for CW sources (IEC 60825-1:2014, Class 3B/4 limits [M]):
 -- Class 4 above 0.5 W, Class 3B above 5 mW (Class 3R up to 5x the Class 1/2 limit)
 local CLASS4_W = 0.5
 local CLASS3B_W = 5e-3
