@@ -8,7 +8,7 @@
 -- so the file holds only finished rows at every moment.  `coldprep sweep` (lua/cli/cli_sweep.c)
 -- runs the same description on several Lua states in parallel through M.prepare.
 local cp = require "coldprep"
-local named = require "coldprep.named"
+local A = require "coldprep.argcheck"
 
 local M = {}
 
@@ -20,39 +20,40 @@ local format_number = encode.number
 -- One axis of the grid: a list of names and, for index j (1-based), their values.
 local function parse_parameter(fname, spec, where)
   if type(spec) ~= "table" then
-    named.fail(fname, "%s must be a table such as {name = \"x\", from = 0, to = 1, points = 11}, got %s",
+    A.fail(fname, "%s must be a table such as {name = \"x\", from = 0, to = 1, points = 11}, got %s",
       where, type(spec))
   end
-  named.check(fname, spec, { "name", "from", "to", "points", "scale", "values" })
+  A.table(fname, spec, { "name", "from", "to", "points", "scale", "values" })
   local name = spec.name
   if type(name) ~= "string" or not name:match("^[%a_][%w_]*$") then
-    named.fail(fname, "%s needs a name (letters, digits, _), got %s", where, tostring(name))
+    A.fail(fname, "%s needs a name (letters, digits, _), got %s", where, tostring(name))
   end
   local label = string.format("parameter '%s'", name)
   if spec.values ~= nil then
     if spec.from ~= nil or spec.to ~= nil or spec.points ~= nil or spec.scale ~= nil then
-      named.fail(fname, "%s: give either values = {...} or from/to/points, not both", label)
+      A.fail(fname, "%s: give either values = {...} or from/to/points, not both", label)
     end
     local vals = spec.values
     if type(vals) ~= "table" or #vals == 0 then
-      named.fail(fname, "%s: values must be a non-empty list", label)
+      A.fail(fname, "%s: values must be a non-empty list", label)
     end
     for i, v in ipairs(vals) do
       local t = type(v)
-      if not (t == "string" or t == "boolean" or named.is_finite(v)) then
-        named.fail(fname, "%s: values[%d] must be a finite number, a string or a boolean, got %s",
+      if not (t == "string" or t == "boolean" or A.is_finite(v)) then
+        A.fail(fname, "%s: values[%d] must be a finite number, a string or a boolean, got %s",
           label, i, tostring(v))
       end
     end
     local copy = table.move(vals, 1, #vals, 1, {})
     return { name = name, len = #copy, value = function(j) return copy[j] end }
   end
-  local scale = named.option(fname, spec, "scale", { "linear", "log" }, "linear")
-  local from = named.number(fname, spec, "from")
-  local points = named.integer(fname, spec, "points", nil, 1, 1 << 40)
-  local to = points == 1 and named.number(fname, spec, "to", from) or named.number(fname, spec, "to")
+  local scale = A.option(fname, spec, "scale", { "linear", "log" }, "linear")
+  local from = A.number(fname, spec, "from", "SI units")
+  local points = A.integer(fname, spec, "points", nil, 1, 1 << 40)
+  local to = points == 1 and A.number(fname, spec, "to", "SI units",
+    { optional = true, default = from }) or A.number(fname, spec, "to", "SI units")
   if scale == "log" and (from <= 0 or to <= 0) then
-    named.fail(fname, "%s: a logarithmic range needs from > 0 and to > 0, got from = %s, to = %s",
+    A.fail(fname, "%s: a logarithmic range needs from > 0 and to > 0, got from = %s, to = %s",
       label, format_number(from), format_number(to))
   end
   local value
@@ -77,15 +78,15 @@ end
 -- An axis: one parameter, or {zip = {p1, p2, ...}} whose lists advance together.
 local function parse_axis(fname, spec, where)
   if type(spec) == "table" and spec.zip ~= nil then
-    named.check(fname, spec, { "zip" })
+    A.table(fname, spec, { "zip" })
     if type(spec.zip) ~= "table" or #spec.zip == 0 then
-      named.fail(fname, "%s: zip must be a non-empty list of parameters", where)
+      A.fail(fname, "%s: zip must be a non-empty list of parameters", where)
     end
     local members = {}
     for i, p in ipairs(spec.zip) do
       members[i] = parse_parameter(fname, p, string.format("%s.zip[%d]", where, i))
       if members[i].len ~= members[1].len then
-        named.fail(fname, "%s: zipped parameters need equal lengths; '%s' has %d, '%s' has %d",
+        A.fail(fname, "%s: zipped parameters need equal lengths; '%s' has %d, '%s' has %d",
           where, members[1].name, members[1].len, members[i].name, members[i].len)
       end
     end
@@ -100,10 +101,10 @@ local DESCRIPTION_KEYS = { "parameters", "combine", "evaluate", "outputs", "out"
 
 -- Validate a sweep description; returns the compiled sweep (see M.prepare).
 local function compile(fname, desc, format)
-  named.check(fname, desc, DESCRIPTION_KEYS)
-  local params = named.typed(fname, desc, "parameters", "table")
-  if #params == 0 then named.fail(fname, "parameters must be a non-empty list") end
-  local combine = named.option(fname, desc, "combine", { "grid", "zip" }, "grid")
+  A.table(fname, desc, DESCRIPTION_KEYS)
+  local params = A.typed(fname, desc, "parameters", "table")
+  if #params == 0 then A.fail(fname, "parameters must be a non-empty list") end
+  local combine = A.option(fname, desc, "combine", { "grid", "zip" }, "grid")
   local axes = {}
   if combine == "zip" then
     axes[1] = parse_axis(fname, { zip = params }, "parameters")
@@ -112,15 +113,15 @@ local function compile(fname, desc, format)
       axes[i] = parse_axis(fname, spec, string.format("parameters[%d]", i))
     end
   end
-  local evaluate = named.typed(fname, desc, "evaluate", "function")
+  local evaluate = A.typed(fname, desc, "evaluate", "function")
   local outputs = desc.outputs
   if outputs ~= nil then
     if type(outputs) ~= "table" or #outputs == 0 then
-      named.fail(fname, "outputs must be a non-empty list of result names, e.g. {\"final.number\"}")
+      A.fail(fname, "outputs must be a non-empty list of result names, e.g. {\"final.number\"}")
     end
     for i, o in ipairs(outputs) do
       if type(o) ~= "string" or o == "" then
-        named.fail(fname, "outputs[%d] must be a result name (string), got %s", i, tostring(o))
+        A.fail(fname, "outputs[%d] must be a result name (string), got %s", i, tostring(o))
       end
     end
   end
@@ -128,17 +129,17 @@ local function compile(fname, desc, format)
   local columns, seen, count = { "point" }, { point = true, error = true }, 1
   for _, axis in ipairs(axes) do
     for _, p in ipairs(axis.members) do
-      if seen[p.name] then named.fail(fname, "parameter name '%s' is used twice (or reserved)", p.name) end
+      if seen[p.name] then A.fail(fname, "parameter name '%s' is used twice (or reserved)", p.name) end
       seen[p.name] = true
       columns[#columns + 1] = p.name
     end
     count = count * axis.len
   end
-  if count > (1 << 53) then named.fail(fname, "the grid has more than 2^53 points") end
+  if count > (1 << 53) then A.fail(fname, "the grid has more than 2^53 points") end
   local nparams = #columns - 1
   local outnames = outputs or { "value" }
   for _, o in ipairs(outnames) do
-    if seen[o] then named.fail(fname, "output '%s' has the name of a parameter or column", o) end
+    if seen[o] then A.fail(fname, "output '%s' has the name of a parameter or column", o) end
     seen[o] = true
     columns[#columns + 1] = o
   end
@@ -149,7 +150,7 @@ local function compile(fname, desc, format)
   -- The parameters of point i (1-based): decode i - 1 in mixed radix, last axis fastest.
   function s.point(i)
     if math.type(i) ~= "integer" or i < 1 or i > count then
-      named.fail(fname, "point %s is out of range; allowed 1 to %d", tostring(i), count)
+      A.fail(fname, "point %s is out of range; allowed 1 to %d", tostring(i), count)
     end
     local p, k = {}, i - 1
     for a = #axes, 1, -1 do
@@ -163,7 +164,7 @@ local function compile(fname, desc, format)
 
   local getters = {}
   for i, o in ipairs(outnames) do
-    getters[i] = named.result_getter(fname, string.format("outputs[%d]", i), o)
+    getters[i] = A.result_getter(fname, string.format("outputs[%d]", i), o)
   end
 
   local function pick(result, o)
@@ -238,9 +239,9 @@ end
 
 function M.prepare(args)
   local fname = "sweep.prepare"
-  named.check(fname, args, { "sweep", "format" })
-  local desc = named.typed(fname, args, "sweep", "table")
-  local format = named.option(fname, args, "format", { "csv", "jsonl" }, "csv")
+  A.table(fname, args, { "sweep", "format" })
+  local desc = A.typed(fname, args, "sweep", "table")
+  local format = A.option(fname, args, "format", { "csv", "jsonl" }, "csv")
   return compile("sweep", desc, format)
 end
 
@@ -262,16 +263,16 @@ Example: local s = cp.sweep.prepare{sweep = {parameters = {{name = "x", values =
 local function open_output(fname, out)
   local lock, lerr
   local kind = files.kind(out)
-  if kind == "link" then named.fail(fname, "the output %s is a symbolic link; give the file's own path", out) end
+  if kind == "link" then A.fail(fname, "the output %s is a symbolic link; give the file's own path", out) end
   if kind == nil or kind == "file" then
     lock, lerr = files.lock(out)
-    if not lock then named.fail(fname, "%s", lerr) end
+    if not lock then A.fail(fname, "%s", lerr) end
     os.remove(out .. ".done")
   end
   local f, err = files.open(out, "w")
   if not f then
     if lock then lock:release() end
-    named.fail(fname, "cannot open the output file %s", err)
+    A.fail(fname, "cannot open the output file %s", err)
   end
   f:setvbuf("full")
   return f, lock
@@ -279,18 +280,18 @@ end
 
 local function run(args)
   local fname = "sweep"
-  named.check(fname, args, DESCRIPTION_KEYS)
-  local out = named.typed(fname, args, "out", "string", false) or nil
+  A.table(fname, args, DESCRIPTION_KEYS)
+  local out = A.typed(fname, args, "out", "string", false) or nil
   local format = args.format or (out and format_of(out)) or "csv"
-  format = named.option(fname, { format = format }, "format", { "csv", "jsonl" })
-  local on_row = named.typed(fname, args, "on_row", "function", false) or nil
+  format = A.option(fname, { format = format }, "format", { "csv", "jsonl" })
+  local on_row = A.typed(fname, args, "on_row", "function", false) or nil
   local s = compile(fname, args, format)
   local f
   -- Write and flush text, failing the sweep when the disk refuses (full, quota, I/O error).
   local function put(text)
     local ok, err = f:write(text)
     if ok then ok, err = f:flush() end
-    if not ok then named.fail(fname, "cannot write %s: %s", out, tostring(err)) end
+    if not ok then A.fail(fname, "cannot write %s: %s", out, tostring(err)) end
   end
   local lock
   if out then
@@ -326,19 +327,19 @@ end
 -- the output path `out` (default: desc.out, else FILE with .lua replaced by .csv).
 function M.load(args)
   local fname = "sweep.load"
-  named.check(fname, args, { "file", "out", "format" })
-  local file = named.typed(fname, args, "file", "string")
+  A.table(fname, args, { "file", "out", "format" })
+  local file = A.typed(fname, args, "file", "string")
   local chunk, err = loadfile(file, "t")
-  if not chunk then named.fail(fname, "%s", err) end
+  if not chunk then A.fail(fname, "%s", err) end
   local desc = chunk()
   if type(desc) ~= "table" then
-    named.fail(fname, "%s: a sweep file must return a sweep description table " ..
+    A.fail(fname, "%s: a sweep file must return a sweep description table " ..
       "(return {parameters = ..., evaluate = ...}), got %s", file, type(desc))
   end
   local out = args.out or desc.out or (file:gsub("%.lua$", "") .. ".csv")
-  if type(out) ~= "string" then named.fail("sweep", "out must be a path (string), got %s", type(out)) end
+  if type(out) ~= "string" then A.fail("sweep", "out must be a path (string), got %s", type(out)) end
   local format = args.format or desc.format or format_of(out)
-  format = named.option("sweep", { format = format }, "format", { "csv", "jsonl" })
+  format = A.option("sweep", { format = format }, "format", { "csv", "jsonl" })
   local s = compile("sweep", desc, format)
   s.out = out
   return s
@@ -353,11 +354,11 @@ Example: local s = cp.sweep.load{file = "scan.lua"}; print(s.count, s.out)]])
 -- Read a sweep file (CSV as written here, or JSON Lines) back into a list of rows.
 function M.read(args)
   local fname = "sweep.read"
-  named.check(fname, args, { "path", "format" })
-  local path = named.typed(fname, args, "path", "string")
-  local format = named.option(fname, args, "format", { "csv", "jsonl" }, format_of(path))
+  A.table(fname, args, { "path", "format" })
+  local path = A.typed(fname, args, "path", "string")
+  local format = A.option(fname, args, "format", { "csv", "jsonl" }, format_of(path))
   local f, err = io.open(path, "rb")
-  if not f then named.fail(fname, "cannot open %s", err) end
+  if not f then A.fail(fname, "cannot open %s", err) end
   local text = f:read("a")
   f:close()
   local decoder = format == "csv" and decode.csv or decode.jsonl
