@@ -23,7 +23,7 @@
 static cp_status check_c6_mu(const char *ctx, double c6_au, double reduced_mass,
                              cp_error *err)
 {
-    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", 0.0, 1e9, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", CP_MIN_C6_AU, 1e9, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "mass (reduced)", reduced_mass, "kg", 1e-28, 1e-22,
                           CP_LO_OPEN));
     return CP_OK;

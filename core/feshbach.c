@@ -81,7 +81,7 @@ cp_status cp_feshbach_mean_scattering_length(double c6_au, double mu, double *ab
 {
     static const char ctx[] = "feshbach mean_scattering_length";
     *abar = NAN;
-    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", 0.0, 1e6, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", CP_MIN_C6_AU, 1e6, CP_CLOSED));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
     *abar = cp_vdw_mean_scattering_length(c6_au, mu);
     return CP_OK;

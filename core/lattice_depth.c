@@ -68,7 +68,8 @@ static cp_status check_beam(const char *ctx, const cp_lattice_beam *b, double *a
 {
     if (!b)
         return cp_fail(err, CP_EINVAL, "%s: beam is NULL", ctx);
-    CP_TRY(cp_check_range(err, ctx, "power", b->power, "W", 0.0, 1e4, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "power", b->power, "W", CP_MIN_BEAM_POWER, CP_MAX_BEAM_POWER,
+                          CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "waist", b->waist, "m", 1e-7, 1.0, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "wavelength", b->wavelength, "m", 1e-8, 1e-3, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "reflectivity", b->reflectivity, "", 0.0, 1.0,

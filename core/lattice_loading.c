@@ -99,7 +99,8 @@ static cp_status check_ramp(const cp_lattice_ramp *r, cp_error *err)
                           CP_LATTICE_MAX_DEPTH_ER, CP_CLOSED));
     CP_TRY(cp_check_range(err, CTX, "end depth", r->end_er, "E_r", 0.0,
                           CP_LATTICE_MAX_DEPTH_ER, CP_CLOSED));
-    CP_TRY(cp_check_range(err, CTX, "duration", r->duration, "s", 0.0, 1e4, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, CTX, "duration", r->duration, "s", CP_MIN_DURATION, 1e4,
+                          CP_CLOSED));
     if (r->shape == CP_RAMP_EXPONENTIAL)
         CP_TRY(cp_check_range(err, CTX, "time constant", r->time_constant, "s", 0.0, 1e6,
                               CP_LO_OPEN));
