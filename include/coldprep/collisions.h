@@ -158,6 +158,17 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
                                     double *phase_space_densities, double *efficiency,
                                     cp_error *err);
 
+/* The elapsed time (s) at each point of a trajectory (numbers, temperatures: `points`
+ * values from cp_collisions_evaporation with the same p): dt = -d ln N / (<n> (f sigma v_rel
+ * + beta(T))) with f and <n> of cp_collisions_evaporation_rate, v_rel = sqrt(16 k_B T /
+ * (pi m)), beta(T) = loss_rate (s-wave) or loss_rate T / T0 (p-wave), by the trapezoid rule
+ * in ln N; times[0] = 0.  cross_section in [0, 1e-8] m^2 and loss_rate in [0, 1e-8] m^3/s
+ * (not both 0).  times are NaN on error. */
+cp_status cp_collisions_evaporation_times(const cp_evaporation_params *p, double cross_section,
+                                          double loss_rate, size_t points,
+                                          const double *numbers, const double *temperatures,
+                                          double *times, cp_error *err);
+
 /* ---- rates of polar molecules under protection ------------------------------------------ */
 
 /* Which long-range interaction the colliding molecules feel. */

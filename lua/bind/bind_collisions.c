@@ -197,7 +197,8 @@ static int l_evaporation(lua_State *L)
 {
     static const char *const keys[] = {"number", "temperature", "omega_bar", "omega_x",
                                        "omega_y", "omega_z", "mass", "eta", "kappa", "ratio",
-                                       "wave", "final_number", "points", NULL};
+                                       "wave", "final_number", "points", "cross_section",
+                                       "loss_rate", NULL};
     const char *fname = "collisions.evaporation";
     cpl_check_args(L, 1, fname, keys);
     cp_evaporation_params p;
@@ -211,12 +212,19 @@ static int l_evaporation(lua_State *L)
     p.wave = cpl_option(L, 1, fname, "wave", WAVES, "s") ? CP_LOSS_P_WAVE : CP_LOSS_S_WAVE;
     p.final_number = cpl_number(L, 1, fname, "final_number", "");
     size_t n = (size_t)cpl_opt_integer(L, 1, fname, "points", 51, 2, 100000);
-    double *buf = lua_newuserdatauv(L, 3 * n * sizeof(double), 0);
+    /* with the collision rates, the trajectory's clock (cp_collisions_evaporation_times) */
+    int clocked = cpl_has(L, 1, "cross_section") || cpl_has(L, 1, "loss_rate");
+    double sigma = cpl_opt_number(L, 1, fname, "cross_section", "m^2", 0.0);
+    double beta = cpl_opt_number(L, 1, fname, "loss_rate", "m^3/s", 0.0);
+    double *buf = lua_newuserdatauv(L, 4 * n * sizeof(double), 0);
     double efficiency;
     cp_error err;
     if (cp_collisions_evaporation(&p, n, buf, buf + n, buf + 2 * n, &efficiency, &err) != CP_OK)
         return cpl_raise(L, &err);
-    lua_createtable(L, 0, 7);
+    if (clocked && cp_collisions_evaporation_times(&p, sigma, beta, n, buf, buf + n, buf + 3 * n,
+                                                   &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 9);
     cpl_set_number(L, "number", buf[n - 1]);
     cpl_set_number(L, "temperature", buf[2 * n - 1]);
     cpl_set_number(L, "phase_space_density", buf[3 * n - 1]);
@@ -227,6 +235,11 @@ static int l_evaporation(lua_State *L)
     lua_setfield(L, -2, "temperatures");
     cpl_push_array(L, buf + 2 * n, n);
     lua_setfield(L, -2, "phase_space_densities");
+    if (clocked) {
+        cpl_set_number(L, "duration", buf[4 * n - 1]);
+        cpl_push_array(L, buf + 3 * n, n);
+        lua_setfield(L, -2, "times");
+    }
     return 1;
 }
 
@@ -432,8 +445,11 @@ static const cpl_function functions[] = {
      "  ratio  elastic / loss collisions at T0 (see collision_ratio)\n"
      "  wave   loss law: \"s\" (beta const) or \"p\" (beta ~ T)\n"
      "  final_number  N at the end, [1, N0)\n"
+     "  cross_section (m^2), loss_rate (m^3/s, beta at T0)  optional: with them the clock\n"
+     "    dt = -d ln N / (<n> (f sigma v_rel + beta)) gives times and duration\n"
      "Returns {number, temperature, phase_space_density (classical peak), efficiency\n"
-     "  (-dln PSD / dln N), numbers, temperatures, phase_space_densities}.\n"
+     "  (-dln PSD / dln N), numbers, temperatures, phase_space_densities [, times (s),\n"
+     "  duration (s)]}.\n"
      "Example: cp.collisions.evaporation{number = 2e4, temperature = 300e-9, omega_bar = 600, "
      "mass = 2.1e-25, eta = 8, ratio = 100, final_number = 5e3}"},
     {"shielded", l_shielded,

@@ -138,7 +138,7 @@ local function evaporate(args)
       if s.degeneracy >= 1 then thermal_note(out, notes, "evaporation", "ends") end
       local duration, unknown = 0, false
       if sigma then
-        duration = r.duration or MODEL.evaporation_times(s, r, p.eta, sigma, beta)[#r.numbers]
+        duration = r.duration
         if duration > LONG_EVAPORATION then
           notes[#notes + 1] = string.format("the evaporation takes %.3g s%s: one-body loss "
             .. "(background gas, light scattering) during it is not modelled, and molecule "

@@ -54,41 +54,17 @@ function MODEL.hold(s, beta, lifetime, heating, duration)
     heating_rate = heating, duration = duration, points = 2 }
 end
 
--- The time the evaporation takes along its trajectory (N_k, T_k): particles leave at the
--- evaporation rate f Gamma_el (f and the truncated fraction P from
--- cp.collisions.evaporation_rate, as in cp.collisions.evaporation) plus the two-body loss
--- rate, so dt = -d ln N / (<n> (f sigma v_rel + beta(T))), <n> = N (m w^2 / (4 pi kB T))^(3/2)
--- / P, v_rel = sqrt(16 kB T / (pi m)); beta scales as T for identical fermions (p-wave).
--- Returns the time (s) at each point of the trajectory, 0 at the first.
-function MODEL.evaporation_times(s, r, eta, sigma, beta0)
-  local m, kB = s.mass, cp.consts.kB
-  local wbar = S.omega_bar(s.trap_frequencies)
-  local ev = cp.collisions.evaporation_rate { eta = eta }
-  local f = ev.ratio
-  local function rate(N, T)
-    local n = N * (m * wbar * wbar / (4 * math.pi * kB * T)) ^ 1.5 / ev.truncated_fraction
-    local beta = s.statistics == "fermion" and beta0 * T / s.temperature or beta0
-    return n * (f * sigma * math.sqrt(16 * kB * T / (math.pi * m)) + beta)
-  end
-  local times = { 0 }
-  for i = 2, #r.numbers do
-    local n0, n1, t0, t1 = r.numbers[i - 1], r.numbers[i], r.temperatures[i - 1], r.temperatures[i]
-    -- trapezoid in ln N of 1/rate
-    times[i] = times[i - 1] + 0.5 * (1 / rate(n0, t0) + 1 / rate(n1, t1)) * math.log(n0 / n1)
-  end
-  return times
-end
-
 -- Evaporation at truncation eta in the fixed trap (cp.collisions.evaporation) down to
 -- target.number, or to the number at which the trajectory reaches target.temperature or
 -- lasts target.duration (interpolated in ln N over a fine trajectory; a duration needs
 -- target.sigma and target.beta for the rates): {number, temperature, efficiency, numbers,
--- temperatures}.
+-- temperatures [, duration (s), times: the trajectory's clock when target.sigma is known]}.
 function MODEL.evaporate(s, eta, kappa, ratio, target)
   local w = s.trap_frequencies
   local args = { number = s.number, temperature = s.temperature, mass = s.mass,
     omega_x = w[1], omega_y = w[2], omega_z = w[3], eta = eta, kappa = kappa, ratio = ratio,
-    wave = s.statistics == "fermion" and "p" or "s" }
+    wave = s.statistics == "fermion" and "p" or "s",
+    cross_section = target.sigma, loss_rate = target.sigma and target.beta or nil }
   if target.number then
     args.final_number, args.points = target.number, 64
     return cp.collisions.evaporation(args)
@@ -101,8 +77,7 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
   if target.temperature then
     along, goal = function(i) return math.log(t[i]) end, math.log(target.temperature)
   else
-    local times = MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)
-    along, goal = function(i) return -times[i] end, -target.duration
+    along, goal = function(i) return -tr.times[i] end, -target.duration
   end
   for i = 2, #n do
     if along(i) <= goal then
@@ -120,15 +95,15 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
   end
   common.fail(string.format("the requested duration %.3g s is longer than the evaporation can "
     .. "last: after %.3g s only %.3g of %.3g particles are left", target.duration,
-    MODEL.evaporation_times(s, tr, eta, target.sigma, target.beta)[#n], n[#n], s.number))
+    tr.times[#n], n[#n], s.number))
 end
 
 -- Evaporation with collision rates that follow the temperature (rates(T) -> {ratio,
 -- elastic, loss}, the elastic <sigma v> and loss beta in m^3/s): the trajectory is run in
 -- segments of 0.2 in ln N by cp.collisions.evaporation, each with the ratio predicted at
 -- its starting temperature (inside a segment the model scales it as T^(+-1/2)); time
--- from dt = -d ln N / (<n> (f <sigma v> + beta)) as in MODEL.evaporation_times (f and <n>
--- of the truncated gas, cp.collisions.evaporation_rate).  Ends at
+-- from dt = -d ln N / (<n> (f <sigma v> + beta)) as in cp.collisions.evaporation's clock (f
+-- and <n> of the truncated gas, cp.collisions.evaporation_rate).  Ends at
 -- target.number, target.temperature or target.duration (interpolated in the last segment,
 -- then run exactly to that number): {number, temperature, efficiency, duration, start,
 -- finish (the rates at both ends)}.
