@@ -42,7 +42,7 @@ cp_status cp_collisions_mean_scattering_length(double c6_au, double reduced_mass
                                                double *abar, cp_error *err)
 {
     *abar = NAN;
-    CP_TRY(check_c6_mu("collisions mean_scattering_length", c6_au, reduced_mass, err));
+    CP_TRY(check_c6_mu("collisions.mean_scattering_length", c6_au, reduced_mass, err));
     *abar = cp_vdw_mean_scattering_length(c6_au, reduced_mass);
     return CP_OK;
 }
@@ -51,8 +51,8 @@ cp_status cp_collisions_barrier(double c6_au, double reduced_mass, int l, double
                                 cp_error *err)
 {
     *energy = NAN;
-    CP_TRY(check_c6_mu("collisions barrier", c6_au, reduced_mass, err));
-    CP_TRY(cp_check_int_range(err, "collisions barrier", "partial wave l", l, 1, 20));
+    CP_TRY(check_c6_mu("collisions.barrier", c6_au, reduced_mass, err));
+    CP_TRY(cp_check_int_range(err, "collisions.barrier", "partial wave l", l, 1, 20));
     double c6 = c6_au * CP_AU_C6;
     double a = CP_HBAR * CP_HBAR * l * (l + 1.0);
     *energy = pow(a, 1.5) / (3.0 * sqrt(6.0) * pow(reduced_mass, 1.5) * sqrt(c6));
@@ -62,7 +62,7 @@ cp_status cp_collisions_barrier(double c6_au, double reduced_mass, int l, double
 cp_status cp_collisions_universal_rate(double c6_au, double reduced_mass, double temperature,
                                        cp_pair_statistics stat, double *rate, cp_error *err)
 {
-    const char *ctx = "collisions universal_rate";
+    const char *ctx = "collisions.universal_rate";
     *rate = NAN;
     CP_TRY(check_pair(ctx, stat, err));
     CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, CP_MAX_TEMPERATURE,
@@ -84,7 +84,7 @@ cp_status cp_collisions_universal_validity(double c6_au, double reduced_mass, do
                                            unsigned *flags, double *barrier_fraction,
                                            cp_error *err)
 {
-    const char *ctx = "collisions universal_rate";
+    const char *ctx = "collisions.universal_rate";
     if (!flags || !barrier_fraction)
         return cp_fail(err, CP_EINVAL, "%s: flags and barrier_fraction must not be NULL", ctx);
     *flags = 0;
@@ -103,7 +103,7 @@ cp_status cp_collisions_dipolar_cross_section(double dipole_debye, double reduce
                                               cp_pair_statistics stat, double *cross_section,
                                               double *dipole_length, cp_error *err)
 {
-    const char *ctx = "collisions dipolar_cross_section";
+    const char *ctx = "collisions.dipolar_cross_section";
     *cross_section = NAN;
     *dipole_length = NAN;
     CP_TRY(check_pair(ctx, stat, err));
@@ -123,7 +123,7 @@ cp_status cp_collisions_dipolar_cross_section(double dipole_debye, double reduce
 cp_status cp_collisions_collision_ratio(double cross_section, double rate, double mass,
                                         double temperature, double *ratio, cp_error *err)
 {
-    const char *ctx = "collisions collision_ratio";
+    const char *ctx = "collisions.collision_ratio";
     *ratio = NAN;
     CP_TRY(cp_check_range(err, ctx, "cross_section", cross_section, "m^2", 0.0, 1e-6,
                           CP_LO_OPEN));

@@ -34,16 +34,16 @@ cp_status cp_collisions_evaporation_rate(double eta, double *ratio, double *trun
                                          cp_error *err)
 {
     if (!ratio || !truncated_fraction)
-        return cp_fail(err, CP_EINVAL, "collisions evaporation_rate: ratio and "
+        return cp_fail(err, CP_EINVAL, "collisions.evaporation_rate: ratio and "
                        "truncated_fraction must not be NULL");
     *ratio = *truncated_fraction = NAN;
-    CP_TRY(cp_check_range(err, "collisions evaporation_rate", "eta", eta, "", 5.0, 30.0,
+    CP_TRY(cp_check_range(err, "collisions.evaporation_rate", "eta", eta, "", 5.0, 30.0,
                           CP_CLOSED));
     cp_init();
     gsl_sf_result p3, p4;
     int s3 = gsl_sf_gamma_inc_P_e(3.0, eta, &p3), s4 = gsl_sf_gamma_inc_P_e(4.0, eta, &p4);
     if (s3 != GSL_SUCCESS || s4 != GSL_SUCCESS)
-        return cp_fail(err, CP_ENUMERIC, "collisions evaporation_rate: the incomplete gamma "
+        return cp_fail(err, CP_ENUMERIC, "collisions.evaporation_rate: the incomplete gamma "
                        "function failed at eta = %g", eta);
     /* Luiten et al. 1996: Gamma_ev = n0 sigma vbar e^{-eta} V_ev/V_e, V_ev/V_e = eta -
      * 4 P(4,eta)/P(3,eta) for a 3D harmonic trap; Gamma_el = n0 sigma vbar / 2. */
@@ -64,7 +64,7 @@ static int evap_rhs(double u, const double y[], double dydt[], void *params)
 
 static cp_status check_evap(const cp_evaporation_params *p, size_t points, cp_error *err)
 {
-    const char *ctx = "collisions evaporation";
+    const char *ctx = "collisions.evaporation";
     CP_TRY(cp_collisions_check_cloud(ctx, p->number, p->temperature, p->omega, p->mass, err));
     CP_TRY(cp_check_range(err, ctx, "eta", p->eta, "", 5.0, 30.0, CP_CLOSED));
     if (!isnan(p->kappa))
@@ -85,13 +85,13 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
                                     cp_error *err)
 {
     if (!efficiency || !numbers || !temperatures || !phase_space_densities)
-        return cp_fail(err, CP_EINVAL, "collisions evaporation: numbers, temperatures, "
+        return cp_fail(err, CP_EINVAL, "collisions.evaporation: numbers, temperatures, "
                        "phase_space_densities and efficiency must not be NULL");
     *efficiency = NAN;
     for (size_t i = 0; i < points; i++)
         numbers[i] = temperatures[i] = phase_space_densities[i] = NAN;
     if (!p)
-        return cp_fail(err, CP_EINVAL, "collisions evaporation: parameters are NULL");
+        return cp_fail(err, CP_EINVAL, "collisions.evaporation: parameters are NULL");
     CP_TRY(check_evap(p, points, err));
     double fraction, truncated;
     CP_TRY(cp_collisions_evaporation_rate(p->eta, &fraction, &truncated, err));
@@ -103,7 +103,7 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
     gsl_odeiv2_driver *d =
         gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd, u_end * 1e-3, 1e-12, 1e-10);
     if (!d)
-        return cp_fail(err, CP_ENOMEM, "collisions evaporation: cannot allocate the ODE "
+        return cp_fail(err, CP_ENOMEM, "collisions.evaporation: cannot allocate the ODE "
                        "driver");
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
     double y[1] = {0.0}, u = 0.0;
@@ -113,7 +113,7 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
         if (i > 0) {
             int status = gsl_odeiv2_driver_apply(d, &u, ui, y);
             if (status != GSL_SUCCESS) {
-                result = cp_fail(err, CP_ENUMERIC, "collisions evaporation: the ODE solver "
+                result = cp_fail(err, CP_ENUMERIC, "collisions.evaporation: the ODE solver "
                                  "failed at ln(N/N0) = %g: %s", u, gsl_strerror(status));
                 break;
             }
@@ -122,7 +122,7 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
         double q = CP_HBAR * wbar / (CP_KB * temp);
         if (!(temp > 0.0 && isfinite(n * q * q * q))) {
             /* runaway cooling (p-wave loss, large ratio): far outside the classical model */
-            result = cp_fail(err, CP_ENUMERIC, "collisions evaporation: the phase-space "
+            result = cp_fail(err, CP_ENUMERIC, "collisions.evaporation: the phase-space "
                              "density overflows (T = %g K at N = %g); the classical scaling "
                              "model holds only for phase-space densities below ~1", temp, n);
             break;

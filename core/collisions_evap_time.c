@@ -20,7 +20,7 @@ cp_status cp_collisions_evaporation_times(const cp_evaporation_params *p, double
                                           const double *numbers, const double *temperatures,
                                           double *times, cp_error *err)
 {
-    static const char ctx[] = "collisions evaporation_times";
+    static const char ctx[] = "collisions.evaporation_times";
     if (!p || !numbers || !temperatures || !times)
         return cp_fail(err, CP_EINVAL, "%s: a pointer argument is NULL", ctx);
     if (points < 2 || points > 100000)

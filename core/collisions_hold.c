@@ -47,7 +47,7 @@ static int hold_rhs(double t, const double y[], double dydt[], void *params)
 
 static cp_status check_hold(const cp_hold_params *p, size_t points, cp_error *err)
 {
-    const char *ctx = "collisions hold";
+    const char *ctx = "collisions.hold";
     CP_TRY(cp_collisions_check_cloud(ctx, p->number, p->temperature, p->omega, p->mass, err));
     CP_TRY(cp_check_range(err, ctx, "rate", p->rate, "m^3/s", 0.0, 1e-8, CP_CLOSED));
     CP_TRY(cp_collisions_check_wave(ctx, p->wave, err));
@@ -73,12 +73,12 @@ cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points,
                                          const cp_cancel_flag *cancel, cp_error *err)
 {
     if (!times || !numbers || !temperatures)
-        return cp_fail(err, CP_EINVAL, "collisions hold: times, numbers and temperatures must "
+        return cp_fail(err, CP_EINVAL, "collisions.hold: times, numbers and temperatures must "
                        "not be NULL");
     for (size_t i = 0; i < points; i++)
         times[i] = numbers[i] = temperatures[i] = NAN;
     if (!p)
-        return cp_fail(err, CP_EINVAL, "collisions hold: parameters are NULL");
+        return cp_fail(err, CP_EINVAL, "collisions.hold: parameters are NULL");
     CP_TRY(check_hold(p, points, err));
     cp_init();
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
@@ -87,7 +87,7 @@ cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points,
     gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd,
                                                          p->duration * 1e-6, 0.0, 1e-10);
     if (!d)
-        return cp_fail(err, CP_ENOMEM, "collisions hold: cannot allocate the ODE driver");
+        return cp_fail(err, CP_ENOMEM, "collisions.hold: cannot allocate the ODE driver");
     double y[2] = {p->number, p->temperature}, t = 0.0;
     cp_status result = CP_OK;
     times[0] = 0.0;
@@ -97,12 +97,12 @@ cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points,
         double ti = p->duration * (double)i / (double)(points - 1);
         int status = gsl_odeiv2_driver_apply(d, &t, ti, y);
         if (status != GSL_SUCCESS && cancel && *cancel) {
-            result = cp_fail(err, CP_ECANCELED, "collisions hold: interrupted at t = %g s of "
+            result = cp_fail(err, CP_ECANCELED, "collisions.hold: interrupted at t = %g s of "
                              "%g s", t, p->duration);
             break;
         }
         if (status != GSL_SUCCESS) {
-            result = cp_fail(err, CP_ENUMERIC, "collisions hold: the ODE solver failed at "
+            result = cp_fail(err, CP_ENUMERIC, "collisions.hold: the ODE solver failed at "
                              "t = %g s: %s", t, gsl_strerror(status));
             break;
         }

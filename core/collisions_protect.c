@@ -27,7 +27,7 @@
 static cp_status dc_pair(const cp_protection_params *p, cp_shielded_params *q,
                          cp_shielded_result *r, double *dipole_used, cp_error *err)
 {
-    const char *ctx = "collisions protected";
+    const char *ctx = "collisions.protected";
     cp_fields_rotor rotor = {p->dipole, p->rot_const_hz};
     if (!(p->electric_field > 0.0))
         return cp_fail(err, CP_EINVAL, "%s: electric_field %g V/m with molecules in |1,0>: "
@@ -109,7 +109,7 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
                                   double *dipole_used, cp_shield_regime *regime,
                                   cp_error *err)
 {
-    const char *ctx = "collisions protected";
+    const char *ctx = "collisions.protected";
     if (!r || !dipole_used || !regime || !p)
         return cp_fail(err, CP_EINVAL, "%s: arguments must not be NULL", ctx);
     *dipole_used = NAN;

@@ -29,7 +29,7 @@ static cp_status hankel_in(double nu, double z, double complex *out, cp_error *e
     int sj = gsl_sf_bessel_Jnu_e(nu, z, &j);
     int sy = gsl_sf_bessel_Ynu_e(nu, z, &y);
     if (sj != GSL_SUCCESS || sy != GSL_SUCCESS)
-        return cp_fail(err, CP_ENUMERIC, "collisions radial: Bessel functions of order %g "
+        return cp_fail(err, CP_ENUMERIC, "collisions.radial: Bessel functions of order %g "
                        "at %g failed (%s)", nu, z, gsl_strerror(sj ? sj : sy));
     double s = sqrt(CP_PI * z / 2.0);
     *out = s * (j.val - I * y.val);
@@ -53,7 +53,7 @@ cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, con
     if (n < 8)
         n = 8;
     if (k * sqrt(r2[n - 1]) * g->h > 0.5)
-        return cp_fail(err, CP_ENUMERIC, "collisions radial: step %g in ln r is too coarse "
+        return cp_fail(err, CP_ENUMERIC, "collisions.radial: step %g in ln r is too coarse "
                        "for k r = %g at the matching radius", g->h, k * sqrt(r2[n - 1]));
     double h = g->h, h12 = h * h / 12.0;
     /* F_i = u_pot_i - k^2 r_i^2: w'' = F w for u = r^{1/2} w, x = ln r */
@@ -108,7 +108,7 @@ cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, con
 #undef F_AT
     double p = -flux / (k * creal(amp * conj(amp)));
     if (!isfinite(p) || p < -1e-6 || p > 1.0 + 1e-3)
-        return cp_fail(err, CP_ENUMERIC, "collisions radial: absorption probability %g is "
+        return cp_fail(err, CP_ENUMERIC, "collisions.radial: absorption probability %g is "
                        "not in [0, 1] (grid of %zu points, step %g in ln r)", p, n, h);
     *prob = fmin(fmax(p, 0.0), 1.0);
     return CP_OK;

@@ -163,7 +163,7 @@ static cp_status angular_matrices(const gsl_integration_glfixed_table *gl, int m
         for (int i = 0; i < NB; i++) {
             gsl_sf_result res;
             if (gsl_sf_legendre_sphPlm_e(lmin + 2 * i, m, x, &res) != 0)
-                return cp_fail(err, CP_ENUMERIC, "collisions shielded: spherical harmonic "
+                return cp_fail(err, CP_ENUMERIC, "collisions.shielded: spherical harmonic "
                                "L = %d, M = %d failed", lmin + 2 * i, m);
             y[i] = res.val;
         }
@@ -196,7 +196,7 @@ static cp_status pair_node_table(int m, int lmin, pair_nodes *pn, cp_error *err)
 {
     gsl_integration_glfixed_table *gl = gsl_integration_glfixed_table_alloc(N_PAIR_NODES);
     if (!gl)
-        return cp_fail(err, CP_ENOMEM, "collisions shielded: cannot allocate quadratures");
+        return cp_fail(err, CP_ENOMEM, "collisions.shielded: cannot allocate quadratures");
     cp_status st = CP_OK;
     for (size_t k = 0; k < N_PAIR_NODES && st == CP_OK; k++) {
         double x, w;
@@ -206,7 +206,7 @@ static cp_status pair_node_table(int m, int lmin, pair_nodes *pn, cp_error *err)
         for (int i = 0; i < NB; i++) {
             gsl_sf_result res;
             if (gsl_sf_legendre_sphPlm_e(lmin + 2 * i, m, x, &res) != 0) {
-                st = cp_fail(err, CP_ENUMERIC, "collisions shielded: spherical harmonic "
+                st = cp_fail(err, CP_ENUMERIC, "collisions.shielded: spherical harmonic "
                              "L = %d, M = %d failed", lmin + 2 * i, m);
                 break;
             }
@@ -242,7 +242,7 @@ static double averaged_2d(double c3, double c6, double s, double rho)
 
 static cp_status check_params(const cp_shielded_params *p, cp_error *err)
 {
-    const char *ctx = "collisions shielded";
+    const char *ctx = "collisions.shielded";
     if (p->regime != CP_SHIELD_DC_3D && p->regime != CP_SHIELD_QUASI_2D &&
         p->regime != CP_SHIELD_MICROWAVE && p->regime != CP_SHIELD_DC_PAIR)
         return cp_fail(err, CP_EINVAL, "%s: regime %d is not dc_3d (0), quasi_2d (1), "
@@ -393,13 +393,13 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
                                  cp_error *err)
 {
     if (!r)
-        return cp_fail(err, CP_EINVAL, "collisions shielded: result is NULL");
+        return cp_fail(err, CP_EINVAL, "collisions.shielded: result is NULL");
     cp_poison(&r->elastic_rate, 8);
     r->valid = 0;
     r->method = NULL;
     r->note[0] = '\0';
     if (!p)
-        return cp_fail(err, CP_EINVAL, "collisions shielded: parameters are NULL");
+        return cp_fail(err, CP_EINVAL, "collisions.shielded: parameters are NULL");
     CP_TRY(check_params(p, err));
     cp_init();
 
@@ -459,7 +459,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     double *upot = NULL;
     cp_status st = CP_OK;
     if (!quad || !gl) {
-        st = cp_fail(err, CP_ENOMEM, "collisions shielded: cannot allocate quadratures");
+        st = cp_fail(err, CP_ENOMEM, "collisions.shielded: cannot allocate quadratures");
         goto done;
     }
     const double *nodes = gsl_integration_fixed_nodes(quad);
@@ -488,7 +488,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
         double h = fmin(0.02, PHASE_STEP / sqrt(f_in));
         size_t n = (size_t)ceil(log(w.r_max / rin) / h) + 1;
         if (n > MAX_POINTS) {
-            st = cp_fail(err, CP_ENUMERIC, "collisions shielded: radial grid of %zu points "
+            st = cp_fail(err, CP_ENUMERIC, "collisions.shielded: radial grid of %zu points "
                          "exceeds %d (from %g m to %g m, step %g)", n, MAX_POINTS, rin,
                          w.r_max, h);
             goto done;
@@ -498,7 +498,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
         free(upot);
         upot = malloc(2 * n * sizeof *upot); /* u_pot, then r^2 */
         if (!upot) {
-            st = cp_fail(err, CP_ENOMEM, "collisions shielded: cannot allocate the grid");
+            st = cp_fail(err, CP_ENOMEM, "collisions.shielded: cannot allocate the grid");
             goto done;
         }
         cp_radial_grid g = {n, log(rin), h,
@@ -541,7 +541,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
                                                           N_ENERGY, 0.0, 1.0, 0.5, 0.0)
                                                     : NULL;
         if (two_d && !q3) {
-            st = cp_fail(err, CP_ENOMEM, "collisions shielded: cannot allocate quadratures");
+            st = cp_fail(err, CP_ENOMEM, "collisions.shielded: cannot allocate quadratures");
             goto done;
         }
         const double *n3 = two_d ? gsl_integration_fixed_nodes(q3) : nodes;

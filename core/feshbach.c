@@ -67,7 +67,7 @@ static cp_status check_field(const cp_feshbach_resonance *res, double field, con
 cp_status cp_feshbach_scattering_length(const cp_feshbach_resonance *res, double field,
                                         double *a, cp_error *err)
 {
-    static const char ctx[] = "feshbach scattering_length";
+    static const char ctx[] = "feshbach.scattering_length";
     *a = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(check_field(res, field, ctx, err));
@@ -79,7 +79,7 @@ cp_status cp_feshbach_scattering_length(const cp_feshbach_resonance *res, double
 cp_status cp_feshbach_mean_scattering_length(double c6_au, double mu, double *abar,
                                              cp_error *err)
 {
-    static const char ctx[] = "feshbach mean_scattering_length";
+    static const char ctx[] = "feshbach.mean_scattering_length";
     *abar = NAN;
     CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", CP_MIN_C6_AU, 1e6, CP_CLOSED));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
@@ -109,7 +109,7 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
                                      cp_feshbach_model model, cp_feshbach_binding *out,
                                      cp_error *err)
 {
-    static const char ctx[] = "feshbach binding_energy";
+    static const char ctx[] = "feshbach.binding_energy";
     poison_binding(out);
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
@@ -188,7 +188,7 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
 cp_status cp_feshbach_lz_probability(double delta, double *probability, cp_error *err)
 {
     *probability = NAN;
-    CP_TRY(cp_check_range(err, "feshbach lz_probability", "lz_parameter", delta, "", 0.0, 1e12,
+    CP_TRY(cp_check_range(err, "feshbach.lz_probability", "lz_parameter", delta, "", 0.0, 1e12,
                           CP_CLOSED));
     *probability = -expm1(-2.0 * CP_PI * delta);
     return CP_OK;
@@ -197,7 +197,7 @@ cp_status cp_feshbach_lz_probability(double delta, double *probability, cp_error
 cp_status cp_feshbach_alpha(double mu, double *alpha, cp_error *err)
 {
     *alpha = NAN;
-    CP_TRY(cp_feshbach_check_mass(mu, "feshbach alpha", "reduced mass", err));
+    CP_TRY(cp_feshbach_check_mass(mu, "feshbach.alpha", "reduced mass", err));
     *alpha = 4.0 * CP_PI * CP_PI * CP_HBAR / mu; /* docs/models/feshbach.md, the Landau-Zener law */
     return CP_OK;
 }
@@ -215,7 +215,7 @@ cp_status cp_feshbach_associate(const cp_feshbach_resonance *res, double mu,
                                 const cp_feshbach_ramp *ramp, double *efficiency,
                                 double *delta, cp_error *err)
 {
-    static const char ctx[] = "feshbach associate";
+    static const char ctx[] = "feshbach.associate";
     *efficiency = *delta = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
@@ -237,7 +237,7 @@ cp_status cp_feshbach_associate(const cp_feshbach_resonance *res, double mu,
 cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const double *rates,
                                double *efficiency, size_t n, cp_error *err)
 {
-    static const char ctx[] = "feshbach ramp_law";
+    static const char ctx[] = "feshbach.ramp_law";
     cp_status st = cp_check_range(err, ctx, "coefficient", coefficient, "T/s", 0.0, 1e30,
                                   CP_LO_OPEN);
     if (st == CP_OK)
@@ -274,7 +274,7 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
                                      double max_efficiency, double *efficiency, double *delta,
                                      cp_error *err)
 {
-    static const char ctx[] = "feshbach associate_site";
+    static const char ctx[] = "feshbach.associate_site";
     static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
     *efficiency = *delta = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
@@ -301,7 +301,7 @@ cp_status cp_feshbach_dissociation_energy(const cp_feshbach_resonance *res, doub
                                           double ramp_rate, double *energy, double *scale,
                                           cp_error *err)
 {
-    static const char ctx[] = "feshbach dissociation_energy";
+    static const char ctx[] = "feshbach.dissociation_energy";
     *energy = *scale = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));

@@ -180,7 +180,7 @@ static double integrand_x(double x, void *p)
 cp_status cp_feshbach_overlap_adaptive(const cp_cloud_state *a, const cp_cloud_state *b,
                                        double *overlap, cp_error *err)
 {
-    static const char ctx[] = "feshbach overlap_density";
+    static const char ctx[] = "feshbach.overlap_density";
     *overlap = NAN;
     cp_init();
     double xmax = fmin(extent(a, 0), extent(b, 0));
@@ -331,7 +331,7 @@ cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshb
                                       double temperature, double *overlap, double *sag,
                                       cp_error *err)
 {
-    static const char ctx[] = "feshbach overlap_density";
+    static const char ctx[] = "feshbach.overlap_density";
     const unsigned allowed = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
                              (1u << CP_PROFILE_BOSE) | (1u << CP_PROFILE_THOMAS_FERMI);
     cp_cloud_state sa, sb;

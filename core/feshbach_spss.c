@@ -153,7 +153,7 @@ cp_status cp_feshbach_max_efficiency_cancellable(const cp_feshbach_cloud *a,
                                                  double *std_error, const cp_cancel_flag *cancel,
                                                  cp_error *err)
 {
-    static const char ctx[] = "feshbach max_efficiency";
+    static const char ctx[] = "feshbach.max_efficiency";
     const unsigned allowed = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
                              (1u << CP_PROFILE_BOSE);
     cp_cloud_state sa, sb;

@@ -65,7 +65,7 @@ cp_status cp_fields_dipole_matrix(const cp_fields_rotor *rotor, double field, in
                                   double *energy_hz, double *dipole, int *basis_size,
                                   cp_error *err)
 {
-    static const char ctx[] = "fields dipole_matrix";
+    static const char ctx[] = "fields.dipole_matrix";
     double x = NAN;
     int n = 0;
     cp_fields_work *w = NULL;

@@ -52,7 +52,7 @@ static void poison(cp_fields_microwave_result *out)
 static cp_status check(const cp_fields_rotor *rotor, const cp_fields_microwave_params *p,
                        cp_error *err)
 {
-    static const char ctx[] = "fields microwave";
+    static const char ctx[] = "fields.microwave";
     CP_TRY(cp_fields_check_rotor(ctx, rotor, err));
     if (!p)
         return cp_fail(err, CP_EINVAL, "%s: params is NULL", ctx);
@@ -109,7 +109,7 @@ cp_status cp_fields_microwave_potential(const cp_fields_microwave_result *mw, do
                                         double theta, double phi, double *potential,
                                         cp_error *err)
 {
-    static const char ctx[] = "fields microwave_potential";
+    static const char ctx[] = "fields.microwave_potential";
     *potential = NAN;
     if (!mw || !(mw->c3 > 0 && mw->c6 > 0 && isfinite(mw->c3) && isfinite(mw->c6) &&
                  isfinite(mw->core_spectator) && isfinite(mw->core_dressed) &&

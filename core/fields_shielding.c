@@ -48,7 +48,7 @@ static cp_status with_work(const char *context, double xmax, gap_ctx *c, cp_erro
 
 cp_status cp_fields_shielding_reduced(double *reduced_field, cp_error *err)
 {
-    static const char ctx[] = "fields shielding_reduced";
+    static const char ctx[] = "fields.shielding_reduced";
     *reduced_field = NAN;
     gap_ctx c;
     CP_TRY(with_work(ctx, X_HI, &c, err));
@@ -84,7 +84,7 @@ cp_status cp_fields_shielding_reduced(double *reduced_field, cp_error *err)
 cp_status cp_fields_shielding_field(const cp_fields_rotor *rotor, double *field,
                                     double *reduced_field, cp_error *err)
 {
-    static const char ctx[] = "fields shielding_field";
+    static const char ctx[] = "fields.shielding_field";
     double xs = NAN;
     *field = NAN;
     if (reduced_field)
@@ -106,7 +106,7 @@ cp_status cp_fields_shielding_field(const cp_fields_rotor *rotor, double *field,
 cp_status cp_fields_shielding_gap(const cp_fields_rotor *rotor, double field, double *gap_hz,
                                   cp_error *err)
 {
-    static const char ctx[] = "fields shielding_gap";
+    static const char ctx[] = "fields.shielding_gap";
     double x;
     *gap_hz = NAN;
     CP_TRY(cp_fields_check_rotor(ctx, rotor, err));

@@ -68,7 +68,7 @@ static cp_status solve_state(const char *context, double x, int j, int m, double
 cp_status cp_fields_stark_reduced(double x, int j, int m, double *energy_reduced,
                                   double *cos_theta, int *basis_size, cp_error *err)
 {
-    static const char ctx[] = "fields stark_reduced";
+    static const char ctx[] = "fields.stark_reduced";
     double e = NAN, c = NAN;
     int n = 0;
     cp_status st = cp_check_range(err, ctx, "reduced_field", x, "(d F / B)", 0.0,
@@ -89,7 +89,7 @@ cp_status cp_fields_stark_reduced(double x, int j, int m, double *energy_reduced
 cp_status cp_fields_stark(const cp_fields_rotor *rotor, double field, int j, int m,
                           cp_fields_stark_result *out, cp_error *err)
 {
-    static const char ctx[] = "fields stark";
+    static const char ctx[] = "fields.stark";
     double x = NAN, e = NAN, c = NAN;
     int n = 0;
     cp_status st = cp_fields_check_rotor(ctx, rotor, err);
@@ -120,7 +120,7 @@ cp_status cp_fields_stark(const cp_fields_rotor *rotor, double field, int j, int
 cp_status cp_fields_induced_dipole(double dipole, double rot_const_hz, double field,
                                    double *induced_dipole, cp_error *err)
 {
-    static const char ctx[] = "fields induced_dipole";
+    static const char ctx[] = "fields.induced_dipole";
     cp_fields_rotor rotor = {dipole, rot_const_hz};
     double x = NAN, e, c = NAN;
     int n;
@@ -137,7 +137,7 @@ cp_status cp_fields_stark_map(const cp_fields_rotor *rotor, int m, int levels,
                               const double *fields, size_t count, double *energy_hz,
                               double *induced_dipole, int *basis_size, cp_error *err)
 {
-    static const char ctx[] = "fields stark_map";
+    static const char ctx[] = "fields.stark_map";
     int largest = 0;
     double xmax = 0.0;
     cp_status st = cp_fields_check_rotor(ctx, rotor, err);

@@ -19,10 +19,10 @@
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
 
-static const char *const CTX_RECOIL = "lattice recoil";
-static const char *const CTX_DEPTH = "lattice depth";
-static const char *const CTX_DEPTH3 = "lattice depth 3d";
-static const char *const CTX_POL = "lattice polarizability";
+static const char *const CTX_RECOIL = "lattice.recoil";
+static const char *const CTX_DEPTH = "lattice.depth";
+static const char *const CTX_DEPTH3 = "lattice.depth 3d";
+static const char *const CTX_POL = "lattice.polarizability";
 
 #define MASS_MIN 1e-30
 #define MASS_MAX 1e-20

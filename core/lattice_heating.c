@@ -14,8 +14,8 @@
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
 
-static const char *const CTX_SCATTER = "lattice scattering rate";
-static const char *const CTX_HEATING = "lattice heating";
+static const char *const CTX_SCATTER = "lattice.scattering rate";
+static const char *const CTX_HEATING = "lattice.heating";
 
 cp_status cp_lattice_scattering_rate(double alpha_imag, cp_polarizability_unit unit,
                                      double intensity, double *rate, cp_error *err)

@@ -22,7 +22,7 @@
 #include "coldprep/lattice.h"
 #include "lattice_int.h"
 
-static const char *const CTX = "lattice loading";
+static const char *const CTX = "lattice.loading";
 
 enum { NEVEN = 3 }; /* bands 0, 2, 4 */
 #define SQRT2 1.41421356237309504880

@@ -20,8 +20,8 @@
 #include "coldprep/lattice.h"
 #include "lattice_int.h"
 
-static const char *const CTX_SITE = "lattice site";
-static const char *const CTX_WANNIER = "lattice wannier";
+static const char *const CTX_SITE = "lattice.site";
+static const char *const CTX_WANNIER = "lattice.wannier";
 
 enum { WANNIER_Q = 128, WANNIER_MAX_BAND = 9 };
 

@@ -157,18 +157,18 @@ cp_status cp_species_value(const char *record, const char *field, double *value,
     *value = NAN;
     *unit = NULL;
     if (!record || !field)
-        return cp_fail(err, CP_EINVAL, "species value: record or field name is NULL");
+        return cp_fail(err, CP_EINVAL, "species.value: record or field name is NULL");
     if (atom_value(record, field, value, unit) || molecule_value(record, field, value, unit) ||
         resonance_value(record, field, value, unit))
         return CP_OK;
-    return cp_fail(err, CP_ENOTFOUND, "species value: no built-in field \"%s\" of \"%s\"", field,
+    return cp_fail(err, CP_ENOTFOUND, "species.value: no built-in field \"%s\" of \"%s\"", field,
                    record);
 }
 
 cp_status cp_species_polarizability(const char *name, double wavelength, double *alpha_au,
                                     cp_error *err)
 {
-    static const char ctx[] = "species polarizability";
+    static const char ctx[] = "species.polarizability";
     *alpha_au = NAN;
     CP_TRY(cp_check_range(err, ctx, "wavelength", wavelength, "m", 1e-7, 1e-4, CP_CLOSED));
     int at_1064 = fabs(wavelength - LAMBDA_1064) <= LAMBDA_TOL;

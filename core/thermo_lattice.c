@@ -105,7 +105,7 @@ static cp_status axis_build(const cp_thermo_band_table *t, int k, axis_entries *
 {
     ax->entry = malloc((size_t)(t->points + (t->bands - 1) * k) * sizeof *ax->entry);
     if (!ax->entry)
-        return cp_fail(err, CP_ENOMEM, "thermo lattice: cannot allocate the band entries");
+        return cp_fail(err, CP_ENOMEM, "thermo.lattice: cannot allocate the band entries");
     int m = 0;
     for (int n = 0; n < t->bands; n++) {
         band_range(t, n, &ax->lo[n], &ax->hi[n]);
@@ -159,12 +159,12 @@ static cp_status build_dos(const cp_thermo_lattice *lat, lattice_dos *dos, cp_er
         dos->bin = malloc(total * sizeof *dos->bin);
         dos->merge = malloc(total * sizeof *dos->merge);
         if (!dos->bin || !dos->merge)
-            st = cp_fail(err, CP_ENOMEM, "thermo lattice: cannot allocate %zu energy bins",
+            st = cp_fail(err, CP_ENOMEM, "thermo.lattice: cannot allocate %zu energy bins",
                          total);
     }
     dos_bin *h = st == CP_OK ? malloc((size_t)bins * sizeof *h) : NULL;
     if (st == CP_OK && !h)
-        st = cp_fail(err, CP_ENOMEM, "thermo lattice: cannot allocate the bins");
+        st = cp_fail(err, CP_ENOMEM, "thermo.lattice: cannot allocate the bins");
     if (st != CP_OK) {
         for (int a = 0; a < 3; a++)
             free(ax[a].entry);
@@ -282,7 +282,7 @@ static double lattice_number(double x, void *p)
 static cp_status lattice_solve(const lattice_eval *ev, double number, double *x, double *n0,
                                cp_error *err)
 {
-    const char *ctx = "thermo lattice";
+    const char *ctx = "thermo.lattice";
     *n0 = 0.0;
     /* F_{1/2}(eta) <= e^eta and Li_{3/2}(e^eta) <= zeta(3/2) e^eta bound N from above, so
      * N(lo) < N at lo = ln(N / (A sum w c)) - 1 with c = 1 or zeta(3/2) < 2.62. */
@@ -350,7 +350,7 @@ static cp_status lattice_at(lattice_dos *dos, const cp_thermo_lattice *lat,
     double mu = x * kt; /* from e_min */
     double s = (e - omega - mu * n) / (kt * trap->number);
     if (!(isfinite(s) && isfinite(e)))
-        return cp_fail(err, CP_ENUMERIC, "thermo lattice: entropy not finite at T = %g K",
+        return cp_fail(err, CP_ENUMERIC, "thermo.lattice: entropy not finite at T = %g K",
                        temperature);
     double top = fmax(mu, 0.0);
     int needed = 0;
@@ -403,7 +403,7 @@ cp_status cp_thermo_lattice_state(const cp_thermo_lattice *lat, const cp_thermo_
                                   cp_statistics stat, double temperature,
                                   cp_thermo_lattice_result *out, cp_error *err)
 {
-    const char *ctx = "thermo lattice_state";
+    const char *ctx = "thermo.lattice_state";
     lattice_poison(out);
     CP_TRY(check_common(lat, trap, stat, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
@@ -440,7 +440,7 @@ cp_status cp_thermo_match_lattice(const cp_thermo_trap *trap, cp_statistics stat
                                   double temperature, const cp_thermo_lattice *lat,
                                   cp_thermo_lattice_result *out, cp_error *err)
 {
-    const char *ctx = "thermo match_lattice";
+    const char *ctx = "thermo.match_lattice";
     lattice_poison(out);
     CP_TRY(check_common(lat, trap, stat, ctx, err));
     double s;

@@ -111,12 +111,12 @@ cp_status cp_thermo_lattice_state_auto(const cp_thermo_lattice_spec *spec,
                                        double temperature, cp_thermo_lattice_result *out,
                                        cp_error *err)
 {
-    return run_auto(spec, trap, stat, temperature, 0, out, "thermo lattice_state", err);
+    return run_auto(spec, trap, stat, temperature, 0, out, "thermo.lattice_state", err);
 }
 
 cp_status cp_thermo_match_lattice_auto(const cp_thermo_trap *trap, cp_statistics stat,
                                        double temperature, const cp_thermo_lattice_spec *spec,
                                        cp_thermo_lattice_result *out, cp_error *err)
 {
-    return run_auto(spec, trap, stat, temperature, 1, out, "thermo match_lattice", err);
+    return run_auto(spec, trap, stat, temperature, 1, out, "thermo.match_lattice", err);
 }

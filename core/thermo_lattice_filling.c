@@ -193,7 +193,7 @@ static cp_status make_orbitals(const cp_thermo_lattice *lat, filling_ctx *c, cp_
     }
     c->orb = malloc(combos * sizeof *c->orb);
     if (!c->orb)
-        return cp_fail(err, CP_ENOMEM, "thermo lattice_filling: cannot allocate %zu orbitals",
+        return cp_fail(err, CP_ENOMEM, "thermo.lattice_filling: cannot allocate %zu orbitals",
                        combos);
     size_t k = 0;
     for (int nx = 0; nx < lat->axis[0].bands; nx++)
@@ -214,7 +214,7 @@ static cp_status make_orbitals(const cp_thermo_lattice *lat, filling_ctx *c, cp_
     c->count = m;
     c->s1 = malloc(2 * (m + 1) * sizeof *c->s1);
     if (!c->s1)
-        return cp_fail(err, CP_ENOMEM, "thermo lattice_filling: cannot allocate %zu sums", m);
+        return cp_fail(err, CP_ENOMEM, "thermo.lattice_filling: cannot allocate %zu sums", m);
     c->s2 = c->s1 + m + 1;
     c->s1[m] = c->s2[m] = 0.0;
     for (size_t i = m; i-- > 0;) {
@@ -232,7 +232,7 @@ static void filling_poison(cp_thermo_filling_result *out)
 
 static cp_status solve_mu(filling_ctx *c, double number, double *x, cp_error *err)
 {
-    const char *ctx = "thermo lattice_filling";
+    const char *ctx = "thermo.lattice_filling";
     /* n <= sum_k m_k zeta_k / (1 - zeta_k) ~ sum m_k zeta_k in the dilute limit: start where
      * the classical number is below N and step down until the number is. */
     double z1 = 0.0;
@@ -267,7 +267,7 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
                                     cp_statistics stat, double temperature, double onsite_u,
                                     cp_thermo_filling_result *out, cp_error *err)
 {
-    const char *ctx = "thermo lattice_filling";
+    const char *ctx = "thermo.lattice_filling";
     if (!out)
         return cp_fail(err, CP_EINVAL, "%s: result is NULL", ctx);
     filling_poison(out);

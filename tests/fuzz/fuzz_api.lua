@@ -239,7 +239,7 @@ local function error_problem(msg, args)
   if msg:find("bad argument #", 1, true) then return "a raw argument error" end
   if msg:find("stack overflow", 1, true) then return "a stack overflow" end
   if msg:find("lua/coldprep/[%w_/]+%.lua:%d+:") then return "an error positioned inside the library" end
-  -- the context names the function: "thermo fermi: ...", "species.molecule: ...",
+  -- the context names the function: "thermo.fermi: ...", "species.molecule: ...",
   -- "stage 2 (evaporate): ...", "budget:write_csv: ..." (after "FILE:LINE: " when raised
   -- by an example's own code)
   local body = msg:gsub("^[%w_]+:%d+: ", "", 1)

@@ -152,7 +152,7 @@ os.remove(png:sub(1, -5))
 
 -- FLD-L8: errors name the function, the argument, its value, unit and range.
 T.raises(function() cp.fields.stark { molecule = "KRb", field = -1 } end,
-  { "fields stark", "field -1 V/m", "allowed [0, 1e+08] V/m" }, "FLD-L8 negative field")
+  { "fields.stark", "field -1 V/m", "allowed [0, 1e+08] V/m" }, "FLD-L8 negative field")
 T.raises(function() cp.fields.stark { molecule = "KRb", field = 0 / 0 } end,
   { "fields.stark", "field", "finite" }, "FLD-L8 NaN field")
 T.raises(function() cp.fields.stark { molecule = "KRb", field = 1e9 } end,
@@ -197,7 +197,7 @@ local st = cp.fields.stark { molecule = "KRb", field = 12.7e5, j = 2, m = 1 }
 T.near(d5.dipole_debye[2][2], st.induced_dipole_debye, 1e-9, "FLD-L9 diagonal = induced dipole")
 T.near(d5.dipole_debye[2][3], d5.dipole_debye[3][2], 1e-15, "FLD-L9 symmetric")
 T.raises(function() cp.fields.dipole_matrix { molecule = "KRb", field = -1 } end,
-  { "fields dipole_matrix", "field", "V/m" }, "FLD-L9 negative field")
+  { "fields.dipole_matrix", "field", "V/m" }, "FLD-L9 negative field")
 T.raises(function() cp.fields.dipole_matrix { molecule = "KRb", field = 1e5, levels = 21 } end,
   { "levels", "21" }, "FLD-L9 too many levels")
 T.raises(function() cp.fields.dipole_matrix { molecule = "KRb" } end,

@@ -86,7 +86,7 @@ local w = Hz(100)
 T.raises(function() cp.feshbach.overlap_density { temperature = 50 * u.nK,
   a = { mass = rb.mass, number = 1e5, omega_x = w, omega_y = w, omega_z = w, profile = "bose" },
   b = { atom = "87Rb", number = 1e5, omega_x = w, omega_y = w, omega_z = w } } end,
-  { "feshbach overlap_density", "a scattering_length 0 m", "below T_c" },
+  { "feshbach.overlap_density", "a scattering_length 0 m", "below T_c" },
   "COND-3 a condensed cloud given by mass needs its scattering length")
 local by_atom = cp.feshbach.overlap_density { temperature = 50 * u.nK,
   a = { atom = "87Rb", number = 1e5, omega_x = w, omega_y = w, omega_z = w },

@@ -585,12 +585,12 @@ static void test_bad_input(void **state)
     flat.omega[2] = 0.0;
     cp_thermo_tof_result tof;
     assert_int_equal(cp_thermo_tof(&flat, CP_FERMION, 1e-7, 1e-3, &tof, &err), CP_EINVAL);
-    assert_non_null(strstr(err.message, "thermo tof: omega_z"));
+    assert_non_null(strstr(err.message, "thermo.tof: omega_z"));
     assert_int_equal(cp_thermo_density(&flat, CP_BOSON, 1e-7, origin, &d, &err), CP_EINVAL);
-    assert_non_null(strstr(err.message, "thermo density: omega_z"));
+    assert_non_null(strstr(err.message, "thermo.density: omega_z"));
     assert_int_equal(cp_thermo_match_harmonic(&flat, CP_BOSON, 1e-7, t.omega, &out, &err),
                      CP_EINVAL);
-    assert_non_null(strstr(err.message, "thermo match_harmonic: omega_z"));
+    assert_non_null(strstr(err.message, "thermo.match_harmonic: omega_z"));
     /* absurd magnitudes: below 1 pK, a trap weaker than 1e-2 rad/s (check_int.h floors) */
     assert_int_equal(cp_thermo_bose(&t, 1e-13, &b, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "temperature"));
