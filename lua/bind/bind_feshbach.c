@@ -37,8 +37,9 @@ static double field_number(lua_State *L, int idx, const char *fname, const char 
     double v = lua_tonumber(L, -1);
     lua_pop(L, 1);
     if (!isfinite(v))
-        cpl_error(L, fname, "%s field '%s' must be a finite number (%s), got %g", tname, key,
-                  unit, v);
+        cpl_error(L, fname, "%s %s %s %s is %s; allowed finite values (%s)", tname, key,
+                  isnan(v) ? "NaN" : v > 0 ? "inf" : "-inf", unit,
+                  isnan(v) ? "not a number" : "infinite", unit);
     return v;
 }
 
@@ -188,7 +189,7 @@ static int l_associate(lua_State *L)
     if (isnan(ramp.alpha))
         ramp.alpha = 0.0; /* theory */
     else if (!(ramp.alpha > 0.0))
-        return cpl_error(L, fname, "argument 'alpha' = %g m^2/s is out of range; allowed "
+        return cpl_error(L, fname, "alpha %g m^2/s is out of range; allowed "
                          "(0, 1000] m^2/s", ramp.alpha);
     if (cp_feshbach_associate(&r, mu, &ramp, &eff, &delta, &err))
         return cpl_raise(L, &err);
@@ -213,7 +214,7 @@ static int l_ramp_law(lua_State *L)
     double pmax = cpl_opt_number(L, 1, fname, "max_efficiency", "", 1.0);
     double alpha = cpl_opt_number(L, 1, fname, "alpha", "m^2/s", 0.0);
     if (cpl_has(L, 1, "alpha") && !(alpha > 0.0 && alpha <= 1e3))
-        return cpl_error(L, fname, "argument 'alpha' = %g m^2/s is out of range; allowed "
+        return cpl_error(L, fname, "alpha %g m^2/s is out of range; allowed "
                          "(0, 1000] m^2/s", alpha);
     /* validate everything else through the single-rate call */
     cp_feshbach_ramp ramp = {1.0, density, alpha, pmax};
@@ -355,7 +356,7 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
                                                   : "'t_over_tf' for a Fermi gas");
         double x = cpl_number(L, t, cname, k, "");
         if (!(x > 0.0 && x <= 1e3))
-            cpl_error(L, cname, "argument '%s' = %g is out of range; allowed (0, 1000]", k, x);
+            cpl_error(L, cname, "%s %g is out of range; allowed (0, 1000]", k, x);
         if (!(temperature > 0.0))
             cpl_error(L, cname, "'%s' needs a positive 'temperature'", k);
         cp_error err;

@@ -86,11 +86,11 @@ static int l_stark(lua_State *L)
     int am = m < 0 ? -m : m;
     int j = (int)cpl_opt_integer(L, 1, fname, "j", am, 0, CP_FIELDS_MAX_J);
     if (am > j)
-        cpl_error(L, fname, "argument 'm' = %d is out of range for j = %d; allowed [%d, %d]", m,
+        cpl_error(L, fname, "m %d is out of range for j = %d; allowed [%d, %d]", m,
                   j, -j, j);
     int levels = (int)cpl_opt_integer(L, 1, fname, "levels", 1, 1, CP_FIELDS_MAX_LEVELS);
     if (has_levels && am + levels - 1 > CP_FIELDS_MAX_J)
-        cpl_error(L, fname, "argument 'levels' = %d with m = %d reaches J = %d; allowed J <= %d",
+        cpl_error(L, fname, "levels %d with m = %d reaches J = %d; allowed J <= %d",
                   levels, m, am + levels - 1, CP_FIELDS_MAX_J);
     /* one state j is the top of the block of j - |m| + 1 levels */
     int block = has_levels ? levels : j - am + 1;

@@ -91,7 +91,7 @@ static int l_transfer(lua_State *L)
     int round_trip = cpl_opt_boolean(L, 1, fname, "round_trip", 0);
     long ntrace = cpl_opt_integer(L, 1, fname, "trace", 0, 0, 100000);
     if (ntrace == 1)
-        cpl_error(L, fname, "argument 'trace' = 1 is out of range; allowed 0 (none) or 2 to "
+        cpl_error(L, fname, "trace 1 is out of range; allowed 0 (none) or 2 to "
                   "100000 samples");
     cp_raman_trace tr = {.n = (size_t)ntrace};
     if (ntrace) {

@@ -55,10 +55,11 @@ function M.number(fname, args, key, unit, opt)
     fail(fname, "argument '%s' must be a number (%s), got %s", key, u, type(v))
   end
   if not finite(v) then
-    fail(fname, "argument '%s' must be a finite number (%s), got %s", key, u, tostring(v))
+    fail(fname, "%s %s %s is %s; allowed finite values (%s)", key, v ~= v and "NaN" or tostring(v),
+      u, v ~= v and "not a number" or "infinite", u)
   end
   local function range(allowed)
-    fail(fname, "argument '%s' = %g %s is out of range; allowed %s", key, v, u, allowed)
+    fail(fname, "%s %g %s is out of range; allowed %s", key, v, u, allowed)
   end
   if opt.positive and v <= 0 then range("(0, inf) " .. u) end
   if opt.nonnegative and v < 0 then range("[0, inf) " .. u) end
@@ -81,8 +82,7 @@ function M.option(fname, args, key, options, default)
   for _, o in ipairs(options) do
     if v == o then return v end
   end
-  fail(fname, "argument '%s' = %s is not allowed; use one of %s", key, tostring(v),
-    table.concat(options, ", "))
+  fail(fname, "%s %s is not allowed; allowed %s", key, tostring(v), table.concat(options, ", "))
 end
 
 -- The trap frequencies every model accepts (rad/s; the shared limits of coldprep/limits.h).
@@ -134,7 +134,7 @@ function M.integer(fname, t, key, dflt, lo, hi)
   end
   local iv = math.tointeger(v) -- nil for a whole float beyond the integers (1e300)
   if iv == nil or iv < lo or iv > hi then
-    fail(fname, "argument '%s' is %s; allowed %d to %d", key, tostring(v), lo, hi)
+    fail(fname, "%s %s is out of range; allowed [%d, %d]", key, tostring(v), lo, hi)
   end
   return iv
 end

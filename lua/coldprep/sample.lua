@@ -177,14 +177,19 @@ function S.check(s, who)
   local ok_kind = false
   for _, k in ipairs(S.KINDS) do if s.kind == k then ok_kind = true end end
   if not ok_kind then
-    error(string.format("%s: sample field 'kind' = %s; allowed %s", who, tostring(s.kind),
+    error(string.format("%s: sample field kind %s is not allowed; allowed %s", who, tostring(s.kind),
       table.concat(S.KINDS, ", ")), 0)
   end
   local function num(k, unit, lo)
     local v = s[k]
-    if type(v) ~= "number" or v ~= v or v == math.huge or v < lo then
-      error(string.format("%s: sample field '%s' = %s must be a finite number >= %g (%s)", who, k,
-        tostring(v), lo, unit), 0)
+    if type(v) ~= "number" then
+      error(string.format("%s: sample field '%s' must be a number (%s), got %s", who, k, unit,
+        type(v)), 0)
+    end
+    if v ~= v or v == math.huge or v < lo then
+      error(string.format("%s: sample field %s %s %s is %s; allowed [%g, inf) %s", who, k,
+        v ~= v and "NaN" or tostring(v), unit, v ~= v and "not a number"
+        or v == math.huge and "infinite" or "out of range", lo, unit), 0)
     end
   end
   num("number", "particles", 0)

@@ -86,7 +86,7 @@ T.raises(function() cp.collisions.pwave_barrier { c6_au = -1, mass = mu } end,
 T.raises(function() cp.collisions.universal_rate { c6_au = 16130, mass = mu, statistics = "fermion" } end,
   { "missing argument 'temperature'" }, "p-wave needs T")
 T.raises(function() cp.collisions.universal_rate { c6_au = 16130, mass = mu, statistics = "photon" } end,
-  { "statistics", "not one of" }, "bad statistics")
+  { "statistics \"photon\" is not allowed", "allowed" }, "bad statistics")
 T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1 / 0, omega_bar = w, mass = M, duration = 1 } end,
   { "temperature", "finite" }, "infinite temperature")
 T.raises(function() cp.collisions.hold { number = 2e4, temperature = 1e-7, omega_bar = w, mass = M, duration = 1, wave = "d" } end,

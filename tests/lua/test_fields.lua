@@ -169,7 +169,7 @@ T.raises(function() cp.fields.stark { field = 1e5 } end, { "molecule" }, "FLD-L8
 T.raises(function() cp.fields.stark { molecule = "KRb", feild = 1e5 } end,
   { "unknown argument 'feild'", "field" }, "FLD-L8 typo suggests field")
 T.raises(function() cp.fields.stark { molecule = "KRb", field = 1e5, j = 1, m = 2 } end,
-  { "'m' = 2", "j = 1" }, "FLD-L8 |m| > j")
+  { "m 2 is out of range", "j = 1" }, "FLD-L8 |m| > j")
 T.raises(function() cp.fields.stark { molecule = "KRb", field = 1e5, j = 1, levels = 2 } end,
   { "'j'", "'levels'" }, "FLD-L8 j and levels together")
 T.raises(function() cp.fields.microwave { molecule = "NaK", rabi = om, detuning = -om } end,

@@ -104,7 +104,7 @@ T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = -w, mass = m, te
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, t_over_tf = 1e-4 } end,
   { "T/T_F", "out of range" }, "T/T_F too small")
 T.raises(function() cp.thermo.temperature_from_entropy { number = 1e5, omega_bar = w, mass = m, statistics = "anyon", entropy_per_particle = 1 } end,
-  { "statistics", "not one of" }, "bad statistics")
+  { "statistics \"anyon\" is not allowed", "allowed" }, "bad statistics")
 T.raises(function() cp.thermo.tof { number = 1e5, omega_bar = w, mass = m, statistics = "boson", temperature = 1e-7, time = -1 } end,
   { "time", "out of range" }, "negative time of flight")
 T.raises(function() cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, statistics = "fermion",

@@ -34,7 +34,7 @@ local function evaporate(args)
     loss_rate = A.number(fname, args, "loss_rate", "m^3/s", { optional = true, nonnegative = true, max = 1e-8 }),
   }
   if p.keep == 1 then
-    A.fail(fname, "argument 'keep' = 1 fraction is out of range; allowed (0, 1) fraction "
+    A.fail(fname, "keep 1 fraction is out of range; allowed (0, 1) fraction "
       .. "(an evaporation must lose particles)")
   end
   local ends = 0
@@ -107,7 +107,7 @@ local function evaporate(args)
         temperature = p.final_temperature or (p.final_depth and p.final_depth / (p.eta * cp.consts.kB)),
         duration = p.duration, sigma = sigma, beta = beta }
       if target.number and target.number >= s.number then
-        error(string.format("argument 'final_number' = %.4g is not below the %.4g molecules the "
+        error(string.format("final_number %.4g is not below the %.4g molecules the "
           .. "evaporation starts with", target.number, s.number), 0)
       end
       if target.temperature and target.temperature >= s.temperature then
