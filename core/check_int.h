@@ -2,7 +2,7 @@
  * Private helpers for validating arguments and filling the error record.  Every check
  * names the context (the calling model and function), the parameter, its value, its unit
  * and the allowed range, e.g.
- *   "lattice depth: wavelength 0 m is out of range; allowed (0, inf) m".
+ *   "lattice.depth: wavelength 0 m is out of range; allowed (0, inf) m".
  * Not installed.
  */
 #ifndef COLDPREP_CHECK_INT_H

@@ -3,8 +3,9 @@
  * dipole moment: the Gribakin-Flambaum mean scattering length, the centrifugal barrier,
  * the universal loss rate coefficients and the threshold dipolar elastic cross section;
  * also the argument checks shared with collisions_hold.c and collisions_evap.c.  Formulas
- * and sources: ../shared/reference/physics.md §4.1 and §8, docs/models/
- * collisions.md.
+ * and sources: docs/models/collisions.md; the dipolar cross-section factors are the Born
+ * threshold values (Bohn, Cavagnero & Ticknor, NJP 11, 055039 (2009), arXiv:0901.1281;
+ * the factors themselves not read there, docs/data.md "Model constants").
  */
 #include "coldprep/collisions.h"
 
@@ -22,7 +23,7 @@
 static cp_status check_c6_mu(const char *ctx, double c6_au, double reduced_mass,
                              cp_error *err)
 {
-    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", 0.0, 1e9, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", CP_MIN_C6_AU, 1e9, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "mass (reduced)", reduced_mass, "kg", 1e-28, 1e-22,
                           CP_LO_OPEN));
     return CP_OK;
@@ -41,7 +42,7 @@ cp_status cp_collisions_mean_scattering_length(double c6_au, double reduced_mass
                                                double *abar, cp_error *err)
 {
     *abar = NAN;
-    CP_TRY(check_c6_mu("collisions mean_scattering_length", c6_au, reduced_mass, err));
+    CP_TRY(check_c6_mu("collisions.mean_scattering_length", c6_au, reduced_mass, err));
     *abar = cp_vdw_mean_scattering_length(c6_au, reduced_mass);
     return CP_OK;
 }
@@ -50,8 +51,8 @@ cp_status cp_collisions_barrier(double c6_au, double reduced_mass, int l, double
                                 cp_error *err)
 {
     *energy = NAN;
-    CP_TRY(check_c6_mu("collisions barrier", c6_au, reduced_mass, err));
-    CP_TRY(cp_check_int_range(err, "collisions barrier", "partial wave l", l, 1, 20));
+    CP_TRY(check_c6_mu("collisions.barrier", c6_au, reduced_mass, err));
+    CP_TRY(cp_check_int_range(err, "collisions.barrier", "partial wave l", l, 1, 20));
     double c6 = c6_au * CP_AU_C6;
     double a = CP_HBAR * CP_HBAR * l * (l + 1.0);
     *energy = pow(a, 1.5) / (3.0 * sqrt(6.0) * pow(reduced_mass, 1.5) * sqrt(c6));
@@ -61,7 +62,7 @@ cp_status cp_collisions_barrier(double c6_au, double reduced_mass, int l, double
 cp_status cp_collisions_universal_rate(double c6_au, double reduced_mass, double temperature,
                                        cp_pair_statistics stat, double *rate, cp_error *err)
 {
-    const char *ctx = "collisions universal_rate";
+    const char *ctx = "collisions.universal_rate";
     *rate = NAN;
     CP_TRY(check_pair(ctx, stat, err));
     CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, CP_MAX_TEMPERATURE,
@@ -79,11 +80,30 @@ cp_status cp_collisions_universal_rate(double c6_au, double reduced_mass, double
     return CP_OK;
 }
 
+cp_status cp_collisions_universal_validity(double c6_au, double reduced_mass, double temperature,
+                                           unsigned *flags, double *barrier_fraction,
+                                           cp_error *err)
+{
+    const char *ctx = "collisions.universal_rate";
+    if (!flags || !barrier_fraction)
+        return cp_fail(err, CP_EINVAL, "%s: flags and barrier_fraction must not be NULL", ctx);
+    *flags = 0;
+    *barrier_fraction = NAN;
+    CP_TRY(cp_check_range(err, ctx, "temperature", temperature, "K", CP_MIN_TEMPERATURE, 1e-2,
+                          CP_CLOSED));
+    double e1;
+    CP_TRY(cp_collisions_barrier(c6_au, reduced_mass, 1, &e1, err));
+    *barrier_fraction = CP_KB * temperature / e1;
+    if (*barrier_fraction > 0.1)
+        *flags = CP_COLLISIONS_FLAG_ABOVE_BARRIER;
+    return CP_OK;
+}
+
 cp_status cp_collisions_dipolar_cross_section(double dipole_debye, double reduced_mass,
                                               cp_pair_statistics stat, double *cross_section,
                                               double *dipole_length, cp_error *err)
 {
-    const char *ctx = "collisions dipolar_cross_section";
+    const char *ctx = "collisions.dipolar_cross_section";
     *cross_section = NAN;
     *dipole_length = NAN;
     CP_TRY(check_pair(ctx, stat, err));
@@ -103,7 +123,7 @@ cp_status cp_collisions_dipolar_cross_section(double dipole_debye, double reduce
 cp_status cp_collisions_collision_ratio(double cross_section, double rate, double mass,
                                         double temperature, double *ratio, cp_error *err)
 {
-    const char *ctx = "collisions collision_ratio";
+    const char *ctx = "collisions.collision_ratio";
     *ratio = NAN;
     CP_TRY(cp_check_range(err, ctx, "cross_section", cross_section, "m^2", 0.0, 1e-6,
                           CP_LO_OPEN));

@@ -4,8 +4,9 @@
  * <n> = (1/N) int n^2 d^3r = N (m omega_bar^2 / (4 pi k_B T))^{3/2}; the loss removes
  * particles where the density is highest, i.e. with less than the mean energy, and so
  * heats the remainder (anti-evaporation): dT/dt = h beta <n> T with h = 1/4 for a
- * T-independent beta (../shared/reference/physics.md §8) and h = 1/12 for the p-wave
- * beta proportional to the pair's relative energy (docs/models/collisions.md).  The two
+ * T-independent beta and h = 1/12 for the p-wave beta proportional to the pair's relative
+ * energy; both are the project's own derivation (docs/models/collisions.md: the energy a
+ * particle lost at a rate proportional to n^2 carries out of a thermal harmonic cloud).  The two
  * coupled equations are integrated with GSL's Runge-Kutta-Prince-Dormand (8,9) stepper.
  */
 #include "coldprep/collisions.h"
@@ -22,6 +23,7 @@
 typedef struct hold_ctx {
     const cp_hold_params *p;
     double density_coef; /* <n> = density_coef N T^{-3/2} */
+    const cp_cancel_flag *cancel;
 } hold_ctx;
 
 static int hold_rhs(double t, const double y[], double dydt[], void *params)
@@ -29,6 +31,8 @@ static int hold_rhs(double t, const double y[], double dydt[], void *params)
     (void)t;
     const hold_ctx *c = params;
     const cp_hold_params *p = c->p;
+    if (c->cancel && *c->cancel)
+        return GSL_EBADFUNC; /* stops the driver; the caller reports the cancellation */
     double n = y[0], temp = y[1];
     if (!(n > 0.0 && temp > 0.0))
         return GSL_EDOM;
@@ -43,7 +47,7 @@ static int hold_rhs(double t, const double y[], double dydt[], void *params)
 
 static cp_status check_hold(const cp_hold_params *p, size_t points, cp_error *err)
 {
-    const char *ctx = "collisions hold";
+    const char *ctx = "collisions.hold";
     CP_TRY(cp_collisions_check_cloud(ctx, p->number, p->temperature, p->omega, p->mass, err));
     CP_TRY(cp_check_range(err, ctx, "rate", p->rate, "m^3/s", 0.0, 1e-8, CP_CLOSED));
     CP_TRY(cp_collisions_check_wave(ctx, p->wave, err));
@@ -61,22 +65,29 @@ static cp_status check_hold(const cp_hold_params *p, size_t points, cp_error *er
 cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *times,
                              double *numbers, double *temperatures, cp_error *err)
 {
+    return cp_collisions_hold_cancellable(p, points, times, numbers, temperatures, NULL, err);
+}
+
+cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points, double *times,
+                                         double *numbers, double *temperatures,
+                                         const cp_cancel_flag *cancel, cp_error *err)
+{
     if (!times || !numbers || !temperatures)
-        return cp_fail(err, CP_EINVAL, "collisions hold: times, numbers and temperatures must "
+        return cp_fail(err, CP_EINVAL, "collisions.hold: times, numbers and temperatures must "
                        "not be NULL");
     for (size_t i = 0; i < points; i++)
         times[i] = numbers[i] = temperatures[i] = NAN;
     if (!p)
-        return cp_fail(err, CP_EINVAL, "collisions hold: parameters are NULL");
+        return cp_fail(err, CP_EINVAL, "collisions.hold: parameters are NULL");
     CP_TRY(check_hold(p, points, err));
     cp_init();
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
-    hold_ctx c = {p, pow(p->mass * wbar * wbar / (4.0 * CP_PI * CP_KB), 1.5)};
+    hold_ctx c = {p, pow(p->mass * wbar * wbar / (4.0 * CP_PI * CP_KB), 1.5), cancel};
     gsl_odeiv2_system sys = {hold_rhs, NULL, 2, &c};
     gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd,
                                                          p->duration * 1e-6, 0.0, 1e-10);
     if (!d)
-        return cp_fail(err, CP_ENOMEM, "collisions hold: cannot allocate the ODE driver");
+        return cp_fail(err, CP_ENOMEM, "collisions.hold: cannot allocate the ODE driver");
     double y[2] = {p->number, p->temperature}, t = 0.0;
     cp_status result = CP_OK;
     times[0] = 0.0;
@@ -85,8 +96,13 @@ cp_status cp_collisions_hold(const cp_hold_params *p, size_t points, double *tim
     for (size_t i = 1; i < points; i++) {
         double ti = p->duration * (double)i / (double)(points - 1);
         int status = gsl_odeiv2_driver_apply(d, &t, ti, y);
+        if (status != GSL_SUCCESS && cancel && *cancel) {
+            result = cp_fail(err, CP_ECANCELED, "collisions.hold: interrupted at t = %g s of "
+                             "%g s", t, p->duration);
+            break;
+        }
         if (status != GSL_SUCCESS) {
-            result = cp_fail(err, CP_ENUMERIC, "collisions hold: the ODE solver failed at "
+            result = cp_fail(err, CP_ENUMERIC, "collisions.hold: the ODE solver failed at "
                              "t = %g s: %s", t, gsl_strerror(status));
             break;
         }

@@ -1,6 +1,8 @@
 /*
  * Private to the collision model: the argument checks shared by the hold (collisions_hold.c)
- * and the evaporation trajectory (collisions_evap.c).  Not installed.
+ * and the evaporation trajectory (collisions_evap.c), and the radial solver
+ * (collisions_radial.c) behind the rates of protected molecules (collisions_shielded.c).
+ * Not installed.
  */
 #ifndef COLDPREP_COLLISIONS_INT_H
 #define COLDPREP_COLLISIONS_INT_H
@@ -14,5 +16,21 @@ cp_status cp_collisions_check_cloud(const char *ctx, double number, double tempe
 
 /* wave is CP_LOSS_S_WAVE or CP_LOSS_P_WAVE. */
 cp_status cp_collisions_check_wave(const char *ctx, cp_loss_wave wave, cp_error *err);
+
+/* A logarithmic radial grid r_i = exp(x0 + i h), i = 0 .. n - 1 (n >= 16), and the order
+ * nu of the outer Riccati-Hankel functions (L + 1/2 in 3D, |m| in 2D). */
+typedef struct cp_radial_grid {
+    size_t n;
+    double x0, h, nu;
+} cp_radial_grid;
+
+/* Loss probability of one channel at wave number k (1/m, > 0): u_pot[i] = 1/4 + r_i^2
+ * 2 mu V_i / hbar^2 (3D, V including the centrifugal term) or m^2 + r_i^2 2 mu V_i /
+ * hbar^2 (2D), so that w'' = (u_pot - k^2 r^2) w for u = r^{1/2} w in x = ln r (r2[i] =
+ * r_i^2, precomputed by the caller); the wave
+ * is purely incoming at r_0 and the potential negligible near r_{n-1}.  CP_ENUMERIC when
+ * the result is not a probability (grid too coarse). */
+cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, const double *r2,
+                               double k, double *prob, cp_error *err);
 
 #endif

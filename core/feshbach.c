@@ -3,7 +3,7 @@
  * energy of the Feshbach molecule, the Landau–Zener probability, the bulk ramp-rate law
  * (single call and the batch loop used by sweeps), association of two atoms in one harmonic
  * site, and the energy released by a dissociation ramp.  Formulas and sources:
- * ../shared/reference/physics.md §4.1 and docs/models/feshbach.md.  The overlap density
+ * docs/models/feshbach.md.  The overlap density
  * lives in feshbach_overlap.c, the phase-space ceiling in feshbach_spss.c.
  */
 #include "coldprep/feshbach.h"
@@ -67,7 +67,7 @@ static cp_status check_field(const cp_feshbach_resonance *res, double field, con
 cp_status cp_feshbach_scattering_length(const cp_feshbach_resonance *res, double field,
                                         double *a, cp_error *err)
 {
-    static const char ctx[] = "feshbach scattering_length";
+    static const char ctx[] = "feshbach.scattering_length";
     *a = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(check_field(res, field, ctx, err));
@@ -79,9 +79,9 @@ cp_status cp_feshbach_scattering_length(const cp_feshbach_resonance *res, double
 cp_status cp_feshbach_mean_scattering_length(double c6_au, double mu, double *abar,
                                              cp_error *err)
 {
-    static const char ctx[] = "feshbach mean_scattering_length";
+    static const char ctx[] = "feshbach.mean_scattering_length";
     *abar = NAN;
-    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", 0.0, 1e6, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "c6_au", c6_au, "a.u.", CP_MIN_C6_AU, 1e6, CP_CLOSED));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
     *abar = cp_vdw_mean_scattering_length(c6_au, mu);
     return CP_OK;
@@ -102,13 +102,14 @@ static void poison_binding(cp_feshbach_binding *out)
 {
     out->energy = out->a = out->abar = out->rstar = out->s_res = NAN;
     out->model = CP_FESHBACH_AUTO;
+    out->flags = 0;
 }
 
 cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu, double field,
                                      cp_feshbach_model model, cp_feshbach_binding *out,
                                      cp_error *err)
 {
-    static const char ctx[] = "feshbach binding_energy";
+    static const char ctx[] = "feshbach.binding_energy";
     poison_binding(out);
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
@@ -116,7 +117,8 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
     if (model < CP_FESHBACH_AUTO || model > CP_FESHBACH_LINEAR)
         return cp_fail(err, CP_EINVAL, "%s: model %d is unknown; allowed auto, universal, "
                        "corrected, linear", ctx, (int)model);
-    /* With abg * width > 0 and dmu > 0 the bound state exists below b0 (physics.md §4.1). */
+    /* With abg * width > 0 and dmu > 0 the bound state exists below b0 (docs/models/feshbach.md,
+     * Conventions). */
     if (field > res->b0)
         return cp_fail(err, CP_EINVAL,
                        "%s: field %.8g T is above b0 = %.8g T, on the atomic side where no "
@@ -171,13 +173,22 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
     out->rstar = rstar;
     out->s_res = s_res;
     out->model = model;
+    /* validity (docs/models/feshbach.md): NaN comparisons are false, so an unknown C6
+     * raises neither abar nor s_res flags */
+    int broad = s_res >= 1.0;
+    if (a > 0.0 && a < abar && (model != CP_FESHBACH_LINEAR || broad))
+        out->flags |= CP_FESHBACH_FLAG_BELOW_ABAR;
+    if (!(a > 0.0))
+        out->flags |= CP_FESHBACH_FLAG_PAST_ZERO;
+    if (model == CP_FESHBACH_LINEAR && broad)
+        out->flags |= CP_FESHBACH_FLAG_LINEAR_BROAD;
     return CP_OK;
 }
 
 cp_status cp_feshbach_lz_probability(double delta, double *probability, cp_error *err)
 {
     *probability = NAN;
-    CP_TRY(cp_check_range(err, "feshbach lz_probability", "lz_parameter", delta, "", 0.0, 1e12,
+    CP_TRY(cp_check_range(err, "feshbach.lz_probability", "lz_parameter", delta, "", 0.0, 1e12,
                           CP_CLOSED));
     *probability = -expm1(-2.0 * CP_PI * delta);
     return CP_OK;
@@ -186,8 +197,8 @@ cp_status cp_feshbach_lz_probability(double delta, double *probability, cp_error
 cp_status cp_feshbach_alpha(double mu, double *alpha, cp_error *err)
 {
     *alpha = NAN;
-    CP_TRY(cp_feshbach_check_mass(mu, "feshbach alpha", "reduced mass", err));
-    *alpha = 4.0 * CP_PI * CP_PI * CP_HBAR / mu; /* physics.md §4.1.6 */
+    CP_TRY(cp_feshbach_check_mass(mu, "feshbach.alpha", "reduced mass", err));
+    *alpha = 4.0 * CP_PI * CP_PI * CP_HBAR / mu; /* docs/models/feshbach.md, the Landau-Zener law */
     return CP_OK;
 }
 
@@ -204,7 +215,7 @@ cp_status cp_feshbach_associate(const cp_feshbach_resonance *res, double mu,
                                 const cp_feshbach_ramp *ramp, double *efficiency,
                                 double *delta, cp_error *err)
 {
-    static const char ctx[] = "feshbach associate";
+    static const char ctx[] = "feshbach.associate";
     *efficiency = *delta = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));
@@ -226,7 +237,7 @@ cp_status cp_feshbach_associate(const cp_feshbach_resonance *res, double mu,
 cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const double *rates,
                                double *efficiency, size_t n, cp_error *err)
 {
-    static const char ctx[] = "feshbach ramp_law";
+    static const char ctx[] = "feshbach.ramp_law";
     cp_status st = cp_check_range(err, ctx, "coefficient", coefficient, "T/s", 0.0, 1e30,
                                   CP_LO_OPEN);
     if (st == CP_OK)
@@ -263,7 +274,7 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
                                      double max_efficiency, double *efficiency, double *delta,
                                      cp_error *err)
 {
-    static const char ctx[] = "feshbach associate_site";
+    static const char ctx[] = "feshbach.associate_site";
     static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
     *efficiency = *delta = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
@@ -276,7 +287,7 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
                               CP_MAX_TRAP_OMEGA, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "max_efficiency", max_efficiency, "", 0.0, 1.0,
                           CP_LO_OPEN));
-    /* |psi_rel(0)|^2 of the harmonic ground state of relative motion (physics.md §4.1.5) */
+    /* |psi_rel(0)|^2 of the harmonic ground state of relative motion (docs/models/feshbach.md) */
     double psi0 = pow(mu / (CP_PI * CP_HBAR), 1.5) *
                   sqrt(omega_rel[0] * omega_rel[1] * omega_rel[2]);
     double x = 4.0 * CP_PI * CP_PI * CP_HBAR * fabs(res->abg * res->width) /
@@ -290,7 +301,7 @@ cp_status cp_feshbach_dissociation_energy(const cp_feshbach_resonance *res, doub
                                           double ramp_rate, double *energy, double *scale,
                                           cp_error *err)
 {
-    static const char ctx[] = "feshbach dissociation_energy";
+    static const char ctx[] = "feshbach.dissociation_energy";
     *energy = *scale = NAN;
     CP_TRY(cp_feshbach_check_resonance(res, ctx, err));
     CP_TRY(cp_feshbach_check_mass(mu, ctx, "reduced mass", err));

@@ -7,6 +7,7 @@
 #define COLDPREP_FESHBACH_INT_H
 
 #include "coldprep/feshbach.h"
+#include "thermo_int.h"
 
 cp_status cp_feshbach_check_resonance(const cp_feshbach_resonance *res, const char *ctx,
                                       cp_error *err);
@@ -16,7 +17,8 @@ cp_status cp_feshbach_check_mass(double mass, const char *ctx, const char *name,
 /* A validated cloud at temperature T, in scaled phase-space coordinates
  * rt_i = r_i / ell_i, pt_i = p_i / sqrt(m kB T), where the LDA occupation of the thermal
  * part is 1 / (exp(E - eta) + s), E = (|rt|^2 + |pt|^2)/2 (s = +1 Fermi, -1 Bose, 0 Boltzmann
- * with occupation exp(eta - E)). */
+ * with occupation exp(eta - E)).  A BOSE cloud below T_c is the saturated ideal thermal
+ * part (eta = 0) plus a Thomas–Fermi condensate of n_condensed atoms (feshbach_cloud.c). */
 typedef struct cp_cloud_state {
     cp_feshbach_profile profile;
     double mass, number, temperature;
@@ -24,10 +26,12 @@ typedef struct cp_cloud_state {
     double ell[3];         /* thermal lengths sqrt(kB T / (m omega_i^2)), m */
     double sag;            /* centre position along z, -g / omega_z^2, m */
     double eta;            /* ln fugacity of the thermal part */
-    double n_condensed;    /* ideal-gas condensate number (BOSE), else 0 */
-    double theta[3];       /* kB T / (hbar omega_i): condensate Wigner width parameter */
-    double mu_tf;          /* Thomas–Fermi chemical potential, J (THOMAS_FERMI) */
-    double radius[3];      /* Thomas–Fermi radii, m (THOMAS_FERMI) */
+    double n_condensed;    /* condensate number N0 (BOSE below T_c), else 0 */
+    double mu_tf;          /* Thomas–Fermi chemical potential, J (THOMAS_FERMI; BOSE, N0 > 0) */
+    double radius[3];      /* Thomas–Fermi radii, m (idem) */
+    double peak_tf;        /* condensate peak density 15 N0 / (8 pi Rx Ry Rz), m^-3 (idem) */
+    double u_tf;           /* BOSE: mu_tf / kB T, where the condensate ends in u = V / kB T */
+    cp_polylog_plan li32;  /* BOSE: g_{3/2} = Li_{3/2} for the thermal density */
 } cp_cloud_state;
 
 /* Validate `c` (named `name` in messages) and fill *s.  allow_mask: bit (1 << profile) set
@@ -36,20 +40,21 @@ cp_status cp_cloud_prepare(const cp_feshbach_cloud *c, double temperature, const
                            const char *name, unsigned allow_mask, cp_cloud_state *s,
                            cp_error *err);
 
-/* Phase-space occupation of the cloud at scaled squared radii r2 = |rt|^2 (per axis given
- * as rt[3]) and pt[3]; includes the ideal condensate of a BOSE cloud. */
+/* Phase-space occupation of the thermal part of the cloud at scaled position rt[3] and
+ * momentum pt[3] (a BOSE cloud's condensate is not included: feshbach_spss.c treats it). */
 double cp_cloud_occupation(const cp_cloud_state *s, const double rt[3], const double pt[3]);
 
-/* Number density of the cloud at position r (m, relative to its own centre), m^-3, for the
- * THERMAL, FERMI and THOMAS_FERMI profiles (a BOSE profile is not implemented: NaN and
- * *status = CP_EINVAL).  Sets *status to CP_ENUMERIC if a GSL special function fails. */
+/* Number density of the cloud at position r (m, relative to its own centre), m^-3, for
+ * every profile (BOSE: thermal part plus condensate).  Sets *status to CP_ENUMERIC if a GSL
+ * special function fails. */
 double cp_cloud_density(const cp_cloud_state *s, const double r[3], cp_status *status);
 
-/* The density of a THERMAL, FERMI or THOMAS_FERMI cloud as a function of its scaled
- * potential u = sum_i ((r_i - c_i) / L_i)^2, c = (0, 0, sag) (feshbach_profile.c): a
- * closed form, or for FERMI a Chebyshev table of F_{1/2}(eta - u) built once.  Plain data,
- * no pointers: lives on the caller's stack (about 17 kB). */
-enum { CP_PROFILE_PANELS = 128, CP_PROFILE_ORDER = 16, CP_PROFILE_BREAKS = 12 };
+/* The density of a cloud as a function of its scaled potential u = sum_i ((r_i - c_i) /
+ * L_i)^2, c = (0, 0, sag) (feshbach_profile.c): a closed form, for FERMI a Chebyshev table
+ * of F_{1/2}(eta - u) built once, for BOSE g_{3/2}(e^(eta - u)) plus the condensate.  Plain
+ * data, no pointers: lives on the caller's stack (about 18 kB). */
+enum { CP_PROFILE_PANELS = 128, CP_PROFILE_ORDER = 16, CP_PROFILE_BREAKS = 12,
+       CP_PROFILE_SERIES = 56 };
 typedef struct cp_cloud_profile {
     cp_feshbach_profile kind;
     double length[3];  /* L_i, m */
@@ -64,9 +69,13 @@ typedef struct cp_cloud_profile {
     int npanel;        /* FERMI: Chebyshev panels of width 2 in x = eta - u over [x_lo, eta] */
     double x_lo;
     double coef[CP_PROFILE_PANELS][CP_PROFILE_ORDER];
+    double peak_tf;    /* BOSE: condensate peak density, m^-3 (0 above T_c) */
+    double u_tf;       /* BOSE: the condensate's edge in u */
+    cp_polylog_plan li32;                /* BOSE: Li_{3/2} for z > 1/2 */
+    double inv_k32[CP_PROFILE_SERIES];   /* BOSE: k^(-3/2), the series for z <= 1/2 */
 } cp_cloud_profile;
 
-/* Fill *p from a prepared cloud.  CP_EINVAL for a BOSE cloud, CP_ENUMERIC if GSL fails,
+/* Fill *p from a prepared cloud.  CP_ENUMERIC if GSL fails,
  * CP_ENOCONV if a FERMI cloud is too degenerate for the table (eta > 2 CP_PROFILE_PANELS
  * - 8, T/T_F below ~0.004): the caller then uses the adaptive quadrature.  No cp_error:
  * every failure is handled by the caller's fallback. */
@@ -82,7 +91,8 @@ cp_status cp_feshbach_overlap_numeric(const cp_cloud_state *a, const cp_cloud_st
                                       double *overlap, cp_error *err);
 
 /* The fast path (feshbach_overlap.c): the spherical rule below at successive sizes
- * (12, 16, 6), (16, 24, 8), (24, 36, 12), accepted when two agree to 1e-8 relative, about
+ * (12, 16, 6), (16, 24, 8), (24, 36, 12), accepted when two agree to 1e-8 relative (with a
+ * Bose cloud's cusp, condensed or near T_c: to 1e-6, with (32, 48, 16) added), about
  * one cloud's centre and then the other's; CP_OK and *overlap, else CP_ENOCONV and NaN
  * (rule sizes disagree, a Fermi cloud too degenerate for its table, or neither centre sees
  * the other cloud's core in a cone of >= 30 degrees).  No cp_error: its caller falls

@@ -5,7 +5,13 @@
  *   THERMAL       n = N / ((2 pi)^(3/2) ell^3) exp(-u),       L_i = sqrt(2) ell_i;
  *   FERMI         n = F_{1/2}(eta - u) / lambda^3,            L_i = sqrt(2) ell_i
  *                 (GSL's normalised complete Fermi–Dirac integral, as in feshbach_cloud.c);
- *   THOMAS_FERMI  n = n0 max(0, 1 - u),                        L_i = R_i.
+ *   THOMAS_FERMI  n = n0 max(0, 1 - u),                        L_i = R_i;
+ *   BOSE          n = g_{3/2}(e^(eta - u)) / lambda^3 + n0 max(0, 1 - u / u_tf),
+ *                                                              L_i = sqrt(2) ell_i
+ *                 (the saturated thermal part, eta = 0, and the Thomas–Fermi condensate
+ *                 ending at u_tf = mu / kB T below T_c: feshbach_cloud.c).  g_{3/2} is
+ *                 the defining series for z <= 1/2 with k^(-3/2) tabulated, above it the
+ *                 thermo model's expansion in ln z (thermo_polylog.c).
  * F_{1/2} is tabulated once per call as piecewise Chebyshev series on panels of width 2 in
  * x = eta - u (values from gsl_sf_fermi_dirac_half at the Chebyshev nodes): F_{1/2}(x) =
  * -Li_{3/2}(-e^x) is analytic except on the cuts Im x = +-pi, Re x >= 0, so on a panel of
@@ -31,6 +37,7 @@ static double support(const cp_cloud_state *s)
     switch (s->profile) {
     case CP_PROFILE_THOMAS_FERMI: return 1.0;
     case CP_PROFILE_FERMI: return fmax(s->eta, 0.0) + 45.0;
+    case CP_PROFILE_BOSE: return fmax(s->u_tf, 45.0);
     default: return 45.0;
     }
 }
@@ -44,7 +51,9 @@ static double support(const cp_cloud_state *s)
  * surface than to the centre, and the tail cut as a Gaussian's.  A classical Fermi cloud
  * (eta < -3: singularities at distance >= |eta + i pi| from u >= 0) is cut as a Gaussian.
  * The core, where the density is above ~2 % of its value at the Fermi surface (e^-4), ends
- * at the first tail break. */
+ * at the first tail break.  A condensed Bose cloud has a further break at the condensate's
+ * edge u_tf (where its density has a kink), and its core is the larger of the condensate
+ * and the thermal core. */
 static void add_break(cp_cloud_profile *p, double u)
 {
     if (u > 0.0 && u < p->u_max && p->nbreak < CP_PROFILE_BREAKS)
@@ -69,6 +78,10 @@ static void set_breaks(cp_cloud_profile *p)
     add_break(p, u0 + 4.0);
     add_break(p, u0 + 16.0);
     p->u_core = u0 + 4.0;
+    if (p->kind == CP_PROFILE_BOSE && p->peak_tf > 0.0) {
+        add_break(p, p->u_tf);
+        p->u_core = fmax(p->u_core, p->u_tf);
+    }
 }
 
 static cp_status fermi_table(cp_cloud_profile *p)
@@ -112,6 +125,8 @@ cp_status cp_cloud_profile_init(const cp_cloud_state *s, cp_cloud_profile *p)
     p->u_max = support(s);
     p->npanel = 0;
     p->x_lo = INFINITY;
+    p->peak_tf = s->profile == CP_PROFILE_BOSE ? s->peak_tf : 0.0;
+    p->u_tf = s->u_tf;
     set_breaks(p);
     switch (s->profile) {
     case CP_PROFILE_THOMAS_FERMI:
@@ -120,13 +135,10 @@ cp_status cp_cloud_profile_init(const cp_cloud_state *s, cp_cloud_profile *p)
         p->amplitude =
             15.0 * s->number / (8.0 * CP_PI * s->radius[0] * s->radius[1] * s->radius[2]);
         return CP_OK;
-    case CP_PROFILE_THERMAL:
-    case CP_PROFILE_FERMI:
+    default:
         for (int i = 0; i < 3; i++)
             p->length[i] = sqrt(2.0) * s->ell[i];
         break;
-    default:
-        return CP_EINVAL; /* BOSE has no density profile here */
     }
     if (s->profile == CP_PROFILE_THERMAL) {
         p->amplitude = s->number / (pow(2.0 * CP_PI, 1.5) * s->ell[0] * s->ell[1] * s->ell[2]);
@@ -134,7 +146,27 @@ cp_status cp_cloud_profile_init(const cp_cloud_state *s, cp_cloud_profile *p)
     }
     double lambda = CP_H / sqrt(2.0 * CP_PI * s->mass * CP_KB * s->temperature);
     p->amplitude = 1.0 / (lambda * lambda * lambda);
+    if (s->profile == CP_PROFILE_BOSE) {
+        p->li32 = s->li32;
+        for (int k = 1; k <= CP_PROFILE_SERIES; k++)
+            p->inv_k32[k - 1] = 1.0 / (k * sqrt((double)k));
+        return CP_OK;
+    }
     return fermi_table(p);
+}
+
+/* g_{3/2}(z) = sum_k z^k / k^(3/2) for 0 <= z <= 1: the series up to z = 1/2 (56 terms
+ * reach 2^-56 ~ 1e-17), the plan's expansion in ln z above. */
+static double bose_g32(const cp_cloud_profile *p, double z)
+{
+    if (z > 0.5)
+        return cp_polylog_bose(&p->li32, z);
+    double sum = 0.0, zk = z;
+    for (int k = 0; k < CP_PROFILE_SERIES && zk > 1e-17 * sum; k++) {
+        sum += zk * p->inv_k32[k];
+        zk *= z;
+    }
+    return sum;
 }
 
 double cp_cloud_profile_density(const cp_cloud_profile *p, double u)
@@ -144,6 +176,10 @@ double cp_cloud_profile_density(const cp_cloud_profile *p, double u)
         return p->amplitude * exp(-u);
     case CP_PROFILE_THOMAS_FERMI:
         return u < 1.0 ? p->amplitude * (1.0 - u) : 0.0;
+    case CP_PROFILE_BOSE: {
+        double n = p->amplitude * bose_g32(p, exp(p->eta - u));
+        return u < p->u_tf ? n + p->peak_tf * (1.0 - u / p->u_tf) : n;
+    }
     default: break;
     }
     double x = p->eta - u;

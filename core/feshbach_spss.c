@@ -10,7 +10,7 @@
  * (one quantum state) is tiny against the cloud, the pairing is local: a b atom at
  * (r, p_b) sees on average x = gamma (M/m_b)^3 f_a(r, m_a p_b/m_b) partners and
  * y = gamma (M/m_a)^3 f_b(r, p_b) competing b atoms in its cell, f being the LDA phase-space
- * occupations (Boltzmann, Fermi–Dirac, Bose–Einstein plus ideal condensate).  Here the
+ * occupations of the thermal parts (Boltzmann, Fermi–Dirac, Bose–Einstein).  Here the
  * b atoms are drawn by Monte Carlo from their own distribution (GSL Mersenne twister,
  * deterministic for a given seed) and each contributes the local pairing fraction g(x, y) of
  * random-order greedy pairing in a homogeneous gas, in the mean-field kinetic closure
@@ -19,6 +19,22 @@
  * g = (x - a(1)) / y.  Limits: 1 - e^-x without competition, x/y when partners are scarce.
  * A direct simulation of the pairing rule in a six-dimensional box agrees within ~0.01
  * (tests/unit/test_feshbach.c, FB-11).
+ *
+ * The model is not meant for condensed partners: a condensate is one macroscopically occupied
+ * quantum state, not a gas filling phase-space cells, so counting its atoms per cell of size
+ * gamma h^3 has no meaning (every condensed atom would sit in the same few cells whatever the
+ * clouds' positions, and two condensates sagged apart would still "pair").  Below T_c each
+ * Bose cloud is therefore split (feshbach_cloud.c): its thermal part enters the cell counts
+ * above, and its Thomas–Fermi condensate is treated instead by the stoichiometric bound of
+ * adiabatic conversion (ours, no source): a condensed minority atom at r, whose momentum
+ * spread hbar/R is far below the thermal one, pairs with the partner's condensate with
+ * probability min(1, n_a,c(r) / n_b,c(r)), the local ratio of the two condensate densities
+ * (every minority atom pairs where partners are in excess, the partners run out where they
+ * are not, and nothing pairs where the condensates do not overlap).  Left out: condensed
+ * minority atoms pairing with the partner's thermal atoms (their few low-momentum partners
+ * are shared among the whole condensate) and thermal minority atoms pairing with the
+ * partner's condensate (it matches only the minority atoms of momentum below ~hbar/R); both
+ * make the ceiling a lower estimate.
  */
 #include <gsl/gsl_randist.h>
 #include <gsl/gsl_rng.h>
@@ -84,11 +100,60 @@ static double sample_energy(const double *cdf, double emax, double u)
     return (lo + t) * emax / (GRID - 1);
 }
 
+/* Condensate density of a prepared cloud at r (m, from its centre), m^-3; 0 outside it. */
+static double condensate_density(const cp_cloud_state *s, const double r[3])
+{
+    if (!(s->n_condensed > 0.0))
+        return 0.0;
+    double u = 0.0;
+    for (int i = 0; i < 3; i++)
+        u += r[i] * r[i] / (s->radius[i] * s->radius[i]);
+    return u < 1.0 ? s->peak_tf * (1.0 - u) : 0.0;
+}
+
+/* One condensed minority atom drawn from b's Thomas–Fermi profile n_c(0) (1 - rho^2) in the
+ * unit ball scaled by the radii (uniform in the ball, accepted with probability 1 - rho^2):
+ * its pairing fraction min(1, n_a,c / n_b,c) with a's condensate, a's centre being `shift`
+ * below b's along z. */
+static double condensed_pairing(const cp_cloud_state *sa, const cp_cloud_state *sb,
+                                double shift, gsl_rng *rng)
+{
+    double v[3], rho2;
+    do {
+        double norm = 0.0;
+        for (int i = 0; i < 3; i++) {
+            v[i] = gsl_ran_gaussian_ziggurat(rng, 1.0);
+            norm += v[i] * v[i];
+        }
+        double rho = cbrt(gsl_rng_uniform(rng)), scale = rho / sqrt(norm);
+        for (int i = 0; i < 3; i++)
+            v[i] *= scale;
+        rho2 = rho * rho;
+    } while (gsl_rng_uniform(rng) >= 1.0 - rho2);
+    double rb[3], ra[3];
+    for (int i = 0; i < 3; i++) {
+        rb[i] = v[i] * sb->radius[i];
+        ra[i] = rb[i] + (i == 2 ? shift : 0.0);
+    }
+    double nb = condensate_density(sb, rb), na = condensate_density(sa, ra);
+    return nb > 0.0 ? fmin(1.0, na / nb) : 0.0;
+}
+
 cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
                                      double temperature, const cp_feshbach_spss *opts,
                                      double *p_max, double *std_error, cp_error *err)
 {
-    static const char ctx[] = "feshbach max_efficiency";
+    return cp_feshbach_max_efficiency_cancellable(a, b, temperature, opts, p_max, std_error,
+                                                  NULL, err);
+}
+
+cp_status cp_feshbach_max_efficiency_cancellable(const cp_feshbach_cloud *a,
+                                                 const cp_feshbach_cloud *b, double temperature,
+                                                 const cp_feshbach_spss *opts, double *p_max,
+                                                 double *std_error, const cp_cancel_flag *cancel,
+                                                 cp_error *err)
+{
+    static const char ctx[] = "feshbach.max_efficiency";
     const unsigned allowed = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
                              (1u << CP_PROFILE_BOSE);
     cp_cloud_state sa, sb;
@@ -118,15 +183,18 @@ cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshba
     double frac_condensed = sb.n_condensed / sb.number;
     double sum = 0.0, sum2 = 0.0;
     for (long k = 0; k < opts->samples; k++) {
-        double rt[3], pt[3];
+        if ((k & 0xFFFF) == 0 && cancel && *cancel) {
+            free(cdf);
+            gsl_rng_free(rng);
+            return cp_fail(err, CP_ECANCELED, "%s: interrupted after %ld of %ld samples", ctx, k,
+                           opts->samples);
+        }
+        double g;
         if (frac_condensed > 0.0 && gsl_rng_uniform(rng) < frac_condensed) {
-            for (int i = 0; i < 3; i++) {
-                double sd = sqrt(0.5 / sb.theta[i]);
-                rt[i] = gsl_ran_gaussian_ziggurat(rng, sd);
-                pt[i] = gsl_ran_gaussian_ziggurat(rng, sd);
-            }
+            g = condensed_pairing(&sa, &sb, shift, rng);
         } else {
-            double u[6], norm = 0.0;
+            /* a thermal minority atom: E from its distribution, direction uniform in 6D */
+            double u[6], norm = 0.0, rt[3], pt[3], rta[3], pta[3];
             for (int i = 0; i < 6; i++) {
                 u[i] = gsl_ran_gaussian_ziggurat(rng, 1.0);
                 norm += u[i] * u[i];
@@ -135,15 +203,12 @@ cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshba
             for (int i = 0; i < 3; i++) {
                 rt[i] = u[i] * radius;
                 pt[i] = u[i + 3] * radius;
+                rta[i] = (rt[i] * sb.ell[i] + (i == 2 ? shift : 0.0)) / sa.ell[i];
+                pta[i] = pt[i] * pscale;
             }
+            g = cp_spss_local_pairing(cx * cp_cloud_occupation(&sa, rta, pta),
+                                      cy * cp_cloud_occupation(&sb, rt, pt));
         }
-        double rta[3], pta[3];
-        for (int i = 0; i < 3; i++) {
-            rta[i] = (rt[i] * sb.ell[i] + (i == 2 ? shift : 0.0)) / sa.ell[i];
-            pta[i] = pt[i] * pscale;
-        }
-        double g = cp_spss_local_pairing(cx * cp_cloud_occupation(&sa, rta, pta),
-                                         cy * cp_cloud_occupation(&sb, rt, pt));
         sum += g;
         sum2 += g * g;
     }

@@ -4,7 +4,7 @@
  * sag, and 3D lattices from three orthogonal 1D lattices.
  *
  * Dipole potential and polarizability conversions: Grimm, Weidemueller, Ovchinnikov,
- * Adv. At. Mol. Opt. Phys. 42, 95 (2000), Sec. 2.1 [M]; physics.md §6.1:
+ * Adv. At. Mol. Opt. Phys. 42, 95 (2000), Sec. 2.1 [M]; docs/models/lattice.md:
  *   U = -Re(alpha) I / (2 eps0 c),   alpha_SI = alpha_au 4 pi eps0 a0^3,
  *   alpha in Hz/(W/cm^2) = alpha_SI / (2 eps0 c h) * 1e4  (so U/h = -alpha_h I[W/cm^2]).
  * Two beams of intensities I1 = I0 and I2 = eta I0 (same mode, parallel polarization)
@@ -19,10 +19,10 @@
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
 
-static const char *const CTX_RECOIL = "lattice recoil";
-static const char *const CTX_DEPTH = "lattice depth";
-static const char *const CTX_DEPTH3 = "lattice depth 3d";
-static const char *const CTX_POL = "lattice polarizability";
+static const char *const CTX_RECOIL = "lattice.recoil";
+static const char *const CTX_DEPTH = "lattice.depth";
+static const char *const CTX_DEPTH3 = "lattice.depth 3d";
+static const char *const CTX_POL = "lattice.polarizability";
 
 #define MASS_MIN 1e-30
 #define MASS_MAX 1e-20
@@ -68,7 +68,8 @@ static cp_status check_beam(const char *ctx, const cp_lattice_beam *b, double *a
 {
     if (!b)
         return cp_fail(err, CP_EINVAL, "%s: beam is NULL", ctx);
-    CP_TRY(cp_check_range(err, ctx, "power", b->power, "W", 0.0, 1e4, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, ctx, "power", b->power, "W", CP_MIN_BEAM_POWER, CP_MAX_BEAM_POWER,
+                          CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "waist", b->waist, "m", 1e-7, 1.0, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "wavelength", b->wavelength, "m", 1e-8, 1e-3, CP_CLOSED));
     CP_TRY(cp_check_range(err, ctx, "reflectivity", b->reflectivity, "", 0.0, 1.0,

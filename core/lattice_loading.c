@@ -22,7 +22,7 @@
 #include "coldprep/lattice.h"
 #include "lattice_int.h"
 
-static const char *const CTX = "lattice loading";
+static const char *const CTX = "lattice.loading";
 
 enum { NEVEN = 3 }; /* bands 0, 2, 4 */
 #define SQRT2 1.41421356237309504880
@@ -99,7 +99,8 @@ static cp_status check_ramp(const cp_lattice_ramp *r, cp_error *err)
                           CP_LATTICE_MAX_DEPTH_ER, CP_CLOSED));
     CP_TRY(cp_check_range(err, CTX, "end depth", r->end_er, "E_r", 0.0,
                           CP_LATTICE_MAX_DEPTH_ER, CP_CLOSED));
-    CP_TRY(cp_check_range(err, CTX, "duration", r->duration, "s", 0.0, 1e4, CP_LO_OPEN));
+    CP_TRY(cp_check_range(err, CTX, "duration", r->duration, "s", CP_MIN_DURATION, 1e4,
+                          CP_CLOSED));
     if (r->shape == CP_RAMP_EXPONENTIAL)
         CP_TRY(cp_check_range(err, CTX, "time constant", r->time_constant, "s", 0.0, 1e6,
                               CP_LO_OPEN));
@@ -136,7 +137,7 @@ static cp_status solve_sample(solver *s, double depth, sample_state *out)
     if (st != CP_OK)
         return st;
     for (int k = 0; k < NEVEN; k++) {
-        double *v = s->vec + (size_t)k * n, *p = s->prev + (size_t)k * n;
+        double *v = s->vec + (size_t)k * (size_t)n, *p = s->prev + (size_t)k * (size_t)n;
         cp_tridiag_vector(&t, x[k], v, s->work);
         if (s->have_prev) {
             double overlap = 0.0;
@@ -151,7 +152,7 @@ static cp_status solve_sample(solver *s, double depth, sample_state *out)
     /* <n| dH/dV0 |0>: diagonal 1/2, off-diagonal -sqrt(2)/4 (first) and -1/4 */
     const double *v0 = s->vec;
     for (int k = 0; k < NEVEN; k++) {
-        const double *v = s->vec + (size_t)k * n;
+        const double *v = s->vec + (size_t)k * (size_t)n;
         double m = 0.0;
         for (int i = 0; i < n; i++) {
             m += 0.5 * v[i] * v0[i];
@@ -173,6 +174,7 @@ static void poison(cp_lattice_loading_result *r)
     r->max_adiabaticity = r->max_time = r->max_depth_er = NAN;
     r->simple_criterion = r->excited_fraction = NAN;
     r->basis_size = 0;
+    r->flags = 0;
 }
 
 /* Time, depth and the depth rates just after (rate_right) and before (rate_left) sample i. */
@@ -215,7 +217,7 @@ cp_status cp_lattice_loading(const cp_lattice_ramp *ramp, cp_lattice_loading_res
         return cp_fail(err, CP_ENOMEM, "%s: out of memory", CTX);
     s.work = s.diag + size;
     s.vec = s.work + 2 * (size_t)size + 4 * (NEVEN + 1);
-    s.prev = s.vec + (size_t)NEVEN * size;
+    s.prev = s.vec + (size_t)NEVEN * (size_t)size;
 
     double hbar_over_er = CP_HBAR / ramp->recoil; /* s */
     double complex amp[NEVEN] = {0};
@@ -267,5 +269,9 @@ cp_status cp_lattice_loading(const cp_lattice_ramp *ramp, cp_lattice_loading_res
     res->simple_criterion = simple;
     res->excited_fraction = fraction;
     res->basis_size = size;
+    /* first order holds while the excitation is small: above 5 % (common practice, no
+     * source) the depletion of band 0 and higher-order paths matter */
+    if (fraction > 0.05)
+        res->flags = CP_LATTICE_FLAG_BEYOND_FIRST_ORDER;
     return CP_OK;
 }

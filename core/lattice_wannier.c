@@ -20,8 +20,8 @@
 #include "coldprep/lattice.h"
 #include "lattice_int.h"
 
-static const char *const CTX_SITE = "lattice site";
-static const char *const CTX_WANNIER = "lattice wannier";
+static const char *const CTX_SITE = "lattice.site";
+static const char *const CTX_WANNIER = "lattice.wannier";
 
 enum { WANNIER_Q = 128, WANNIER_MAX_BAND = 9 };
 
@@ -55,7 +55,7 @@ static int kohn_coefficients(double depth_er, int band, int size, double *coef, 
     int half = size / 2;
     for (int j = 0; j < WANNIER_Q; j++) {
         double q = -1.0 + (2.0 * j + 1.0) / WANNIER_Q;
-        double *c = coef + (size_t)j * size;
+        double *c = coef + (size_t)j * (size_t)size;
         cp_lattice_fill_diagonal(depth_er, q, size, diag);
         if (cp_tridiag_lowest(&t, band + 1, j > 0, x, work) != CP_OK)
             return 0;
@@ -93,10 +93,10 @@ cp_status cp_lattice_wannier(double depth_er, int band, double half_range, size_
     int size;
     CP_TRY(cp_lattice_basis_size(depth_er, band + 1, &size, err));
 
-    double *coef = malloc(((size_t)WANNIER_Q * size + 3 * (size_t)size + 64) * sizeof *coef);
+    double *coef = malloc(((size_t)WANNIER_Q * (size_t)size + 3 * (size_t)size + 64) * sizeof *coef);
     if (!coef)
         return cp_fail(err, CP_ENOMEM, "%s: out of memory", CTX_WANNIER);
-    double *diag = coef + (size_t)WANNIER_Q * size, *work = diag + size;
+    double *diag = coef + (size_t)WANNIER_Q * (size_t)size, *work = diag + size;
     if (!kohn_coefficients(depth_er, band, size, coef, diag, work)) {
         free(coef);
         for (size_t i = 0; i < npoints; i++)
@@ -117,7 +117,7 @@ cp_status cp_lattice_wannier(double depth_er, int band, double half_range, size_
         }
         for (int j = 0; j < WANNIER_Q; j++) {
             double q = -1.0 + (2.0 * j + 1.0) / WANNIER_Q;
-            const double *c = coef + (size_t)j * size;
+            const double *c = coef + (size_t)j * (size_t)size;
             double cc = 0.0, cs = 0.0;
             for (int l = 0; l < size; l++) {
                 cc += c[l] * cb[l];

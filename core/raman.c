@@ -92,12 +92,14 @@ static void model_init(model *m, const cp_raman_params *p)
 /* d rho/dt = -i [H, rho] - {K, rho} + feeding from rho_22 - kappa o rho (off-diagonal),
  * written out for rho = R + iJ (R symmetric, J antisymmetric) and H real symmetric:
  * dR/dt = [H, J] and dJ/dt = -[H, R] for the coherent part. */
-static void generator(const model *m, double a, double b, const double y[], double dy[])
+static void generator(const model *m, double a, double b, int slow, const double y[],
+                      double dy[])
 {
     const double e2 = -m->delta_1, e3 = -m->delta_2;
     const double r11 = y[0], r22 = y[1], r33 = y[2];
     const double x12 = y[3], j12 = y[4], x13 = y[5], j13 = y[6], x23 = y[7], j23 = y[8];
-    const double k1 = m->k[0], k2 = m->k[1], k3 = m->k[2];
+    /* the slow losses act only over the transfer duration (slow = 1) */
+    const double k1 = slow ? m->k[0] : 0.0, k2 = m->k[1], k3 = slow ? m->k[2] : 0.0;
     dy[0] = -2 * a * j12 - 2 * k1 * r11 + m->feed1 * r22;
     dy[1] = 2 * (a * j12 - b * j23) - 2 * k2 * r22;
     dy[2] = 2 * b * j23 - 2 * k3 * r33 + m->feed3 * r22;
@@ -118,15 +120,15 @@ static int rhs(double t, const double y[], double dy[], void *params)
     const model *m = params;
     double op, os;
     cp_raman_pulses_eval(&m->pulses, t, &op, &os, NULL, NULL);
-    generator(m, op / 2, os / 2, y, dy);
+    generator(m, op / 2, os / 2, cp_raman_pulses_slow_on(&m->pulses, t), y, dy);
     return GSL_SUCCESS;
 }
 
 /* The generator as the explicit pair calls it, with the envelopes it computed. */
 static void dp_gen(const void *ctx, double t, double op, double os, const double y[], double dy[])
 {
-    (void)t;
-    generator(ctx, op / 2, os / 2, y, dy);
+    const model *m = ctx;
+    generator(m, op / 2, os / 2, cp_raman_pulses_slow_on(&m->pulses, t), y, dy);
 }
 
 /* The Jacobian for the stiff integrator.  The system is linear, so d f/d y is the generator
@@ -136,16 +138,17 @@ static int jacobian(double t, const double y[], double *dfdy, double dfdt[], voi
 {
     const model *m = params;
     double op, os, dop, dos, e[DIM] = {0}, col[DIM], g0[DIM];
+    int slow = cp_raman_pulses_slow_on(&m->pulses, t);
     cp_raman_pulses_eval(&m->pulses, t, &op, &os, &dop, &dos);
     for (int j = 0; j < DIM; j++) {
         e[j] = 1.0;
-        generator(m, op / 2, os / 2, e, col);
+        generator(m, op / 2, os / 2, slow, e, col);
         e[j] = 0.0;
         for (int i = 0; i < DIM; i++)
             dfdy[i * DIM + j] = col[i];
     }
-    generator(m, dop / 2, dos / 2, y, dfdt);
-    generator(m, 0.0, 0.0, y, g0);
+    generator(m, dop / 2, dos / 2, slow, y, dfdt);
+    generator(m, 0.0, 0.0, slow, y, g0);
     for (int i = 0; i < DIM; i++)
         dfdt[i] -= g0[i];
     return GSL_SUCCESS;
@@ -238,6 +241,8 @@ static void poison(cp_raman_result *res, cp_raman_trace *tr)
     cp_poison(&res->dephasing_loss_estimate, 1);
     cp_poison(&res->nonadiabatic_loss_estimate, 1);
     cp_poison(&res->nonadiabatic_exponent, 1);
+    cp_poison(&res->transfer_duration, 1);
+    res->flags = 0;
     res->steps = 0;
     res->integrator = NULL;
     if (tr && tr->n >= 2 && tr->n <= max_trace)
@@ -345,6 +350,7 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     if (st == CP_OK) {
         res->t_start = m.pulses.t_start;
         res->t_end = m.pulses.t_end;
+        res->transfer_duration = m.pulses.loss_to - m.pulses.loss_from;
         if (p->estimates)
             cp_raman_estimates(&m.pulses, res);
     }

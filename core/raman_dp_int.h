@@ -13,7 +13,9 @@
 
 enum { CP_RAMAN_DIM = 10 };
 
-/* The generator: dy = G(t; Op, Os) y for the Rabi frequencies op, os (rad/s) at time t. */
+/* The generator: dy = G(t; Op, Os) y for the Rabi frequencies op, os (rad/s) at time t; t
+ * only selects the side of a jump of G at a break point (the propagator passes a time just
+ * inside the step). */
 typedef void (*cp_raman_gen)(const void *ctx, double t, double op, double os, const double y[],
                              double dy[]);
 
@@ -39,9 +41,8 @@ typedef struct cp_raman_dp {
     double hrec, trec;
     double k[5], q[5]; /* exp(-c^2 d^2), exp(-2 c d^2), d = step / width */
     cp_raman_gauss_rec pump, stokes;
-    double dy0[CP_RAMAN_DIM]; /* derivative at time tdy0 (the first stage, same as last) */
-    double tdy0;
-    int dy0_ok;
+    double dy0[CP_RAMAN_DIM]; /* derivative at the current time (the first stage, the last
+                                 of the step before) */
 } cp_raman_dp;
 
 /* Set up s for the pulses pl and generator gen(ctx, ...); tol as above, hstart the first

@@ -20,7 +20,10 @@ typedef struct cp_raman_pulses {
     double phase;              /* sum of the rates x (t_end - t_start), rad */
     double other_rate;         /* sum of all rates except |Delta|, 1/s */
     double half;               /* half-length of an analytic pulse's support, s */
-    double edges[4];           /* sorted support edges of the two analytic pulses, s */
+    double edges[6];           /* sorted support edges of the two analytic pulses and, with
+                                  slow losses, the ends of the transfer duration, s */
+    size_t n_edges;            /* 4, or 6 with slow losses */
+    double loss_from, loss_to; /* the transfer duration, in which the slow losses act, s */
 } cp_raman_pulses;
 
 /* Validate p (context "raman transfer") and set up the pulses; on success the caller must
@@ -31,6 +34,10 @@ void cp_raman_pulses_free(cp_raman_pulses *pl);
 /* Rabi frequencies (rad/s) at time t and, if dop/dos are non-NULL, their time derivatives. */
 void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, double *os,
                           double *dop, double *dos);
+
+/* 1 while the slow losses of |1> and |3> act at time t (inside [loss_from, loss_to], mirrored
+ * for the reversed sequence), else 0. */
+int cp_raman_pulses_slow_on(const cp_raman_pulses *pl, double t);
 
 /* Break points of the window, ascending (for the reversed sequence too): count, the i-th,
  * the largest step allowed between two neighbouring ones, and a first step size. */

@@ -102,6 +102,8 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
         size_t n = p->n_samples;
         pl->t_start = p->times[0];
         pl->t_end = p->times[n - 1];
+        pl->loss_from = pl->t_start;
+        pl->loss_to = pl->t_end;
         pl->pump = gsl_interp_alloc(gsl_interp_steffen, n);
         pl->stokes = gsl_interp_alloc(gsl_interp_steffen, n);
         if (!pl->pump || !pl->stokes) {
@@ -120,11 +122,23 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
         pl->half = half;
         pl->t_start = -a - half;
         pl->t_end = a + half;
-        /* -a-half <= -a+half and a-half <= a+half; the middle two may be in either order */
-        pl->edges[0] = -a - half;
-        pl->edges[1] = fmin(-a + half, a - half);
-        pl->edges[2] = fmax(-a + half, a - half);
-        pl->edges[3] = a + half;
+        /* the transfer duration: from the first pulse's rise to the last pulse's fall
+         * through 1/e of its peak (Gaussian) or over the pulses' support (sin2) */
+        pl->loss_from = -a - p->width;
+        pl->loss_to = a + p->width;
+        /* the support edges and, with slow losses, the ends of the transfer duration (where
+         * they switch), sorted: the integrator then never steps across a switch */
+        double e[6] = {-a - half, -a + half, a - half, a + half, -a - p->width, a + p->width};
+        size_t n = p->gamma_initial > 0.0 || p->gamma_target > 0.0 ? 6 : 4;
+        for (size_t i = 1; i < n; i++)
+            for (size_t j = i; j > 0 && e[j - 1] > e[j]; j--) {
+                double x = e[j];
+                e[j] = e[j - 1];
+                e[j - 1] = x;
+            }
+        for (size_t i = 0; i < n; i++)
+            pl->edges[i] = e[i];
+        pl->n_edges = n;
         rabi_max = fmax(p->rabi_pump, p->rabi_stokes);
     }
     double kappa = 2 * M_PI * (p->pump_linewidth_hz + p->stokes_linewidth_hz +
@@ -145,7 +159,7 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
 
 size_t cp_raman_pulses_breaks(const cp_raman_pulses *pl)
 {
-    return pl->p->shape == CP_RAMAN_SAMPLED ? pl->p->n_samples : 4;
+    return pl->p->shape == CP_RAMAN_SAMPLED ? pl->p->n_samples : pl->n_edges;
 }
 
 double cp_raman_pulses_break(const cp_raman_pulses *pl, size_t i)
@@ -229,6 +243,12 @@ void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, doubl
         *dos = sign * ds;
 }
 
+int cp_raman_pulses_slow_on(const cp_raman_pulses *pl, double t)
+{
+    double u = pl->reversed ? -t : t;
+    return u >= pl->loss_from && u <= pl->loss_to;
+}
+
 void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
 {
     enum { M = 401 };
@@ -261,4 +281,12 @@ void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
     /* the dark state cos(theta)|1> - sin(theta)|3> leaves at 2 kappa_13 cos^2 sin^2 */
     res->dephasing_loss_estimate = 0.5 * kappa13 * mix;
     cp_raman_ddp(p, &res->nonadiabatic_loss_estimate, &res->nonadiabatic_exponent);
+    /* decay_loss and dephasing_loss are derived on resonance: flag a two-photon detuning
+     * that dephases the dark state over the overlap (|delta| T_overlap > 0.5) or a one-photon
+     * detuning beyond both the linewidth and the Rabi frequency (common practice, no source;
+     * the measured errors are in docs/models/raman.md) */
+    res->flags = 0;
+    if (fabs(p->two_photon_detuning) * res->overlap_time > 0.5 ||
+        fabs(p->detuning) > fmax(p->gamma, rms_max))
+        res->flags |= CP_RAMAN_FLAG_ESTIMATES_DETUNED;
 }

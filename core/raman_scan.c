@@ -17,6 +17,7 @@ typedef struct job {
     const double *values;
     double *efficiency, *lost;
     size_t n, first, stride;
+    const cp_cancel_flag *cancel;
     cp_status status;
     cp_error err;
 } job;
@@ -27,6 +28,11 @@ static void *run_job(void *arg)
     cp_raman_params p = *jb->base;
     jb->status = CP_OK;
     for (size_t i = jb->first; i < jb->n; i += jb->stride) {
+        if (jb->cancel && *jb->cancel) {
+            jb->status = cp_fail(&jb->err, CP_ECANCELED, CTX ": interrupted after %zu of %zu "
+                                 "points", i, jb->n);
+            break;
+        }
         if (jb->variable == CP_RAMAN_SCAN_TWO_PHOTON)
             p.two_photon_detuning = jb->values[i];
         else
@@ -47,6 +53,15 @@ static void *run_job(void *arg)
 cp_status cp_raman_scan(const cp_raman_params *p, cp_raman_scan_variable variable,
                         const double *values, size_t n, int nthreads, double *efficiency,
                         double *lost, cp_error *err)
+{
+    return cp_raman_scan_cancellable(p, variable, values, n, nthreads, efficiency, lost, NULL,
+                                     err);
+}
+
+cp_status cp_raman_scan_cancellable(const cp_raman_params *p, cp_raman_scan_variable variable,
+                                    const double *values, size_t n, int nthreads,
+                                    double *efficiency, double *lost,
+                                    const cp_cancel_flag *cancel, cp_error *err)
 {
     enum { MAX_THREADS = 64 };
     cp_init();
@@ -71,7 +86,7 @@ cp_status cp_raman_scan(const cp_raman_params *p, cp_raman_scan_variable variabl
     int started[MAX_THREADS] = {0};
     for (int k = 0; k < nthreads; k++) {
         jobs[k] = (job){p, variable, values, efficiency, lost, n, (size_t)k, (size_t)nthreads,
-                        CP_OK, {0}};
+                        cancel, CP_OK, {0}};
         /* thread 0 is the caller itself */
         if (k > 0)
             started[k] = pthread_create(&tid[k], NULL, run_job, &jobs[k]) == 0;

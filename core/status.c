@@ -18,6 +18,7 @@ const char *cp_strerror(cp_status status)
     case CP_ENOCONV: return "no convergence";
     case CP_ENOMEM: return "out of memory";
     case CP_ENUMERIC: return "numerical failure";
+    case CP_ECANCELED: return "cancelled";
     }
     return "unknown status";
 }

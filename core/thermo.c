@@ -1,7 +1,7 @@
 /*
  * Ideal Fermi and Bose gases in a 3D harmonic trap (semiclassical, LDA): the state from
  * (N, T) or (N, T/T_F), (N, T/T_c), and the inverse from the entropy per particle.
- * Relations (re-derived in ../shared/reference/physics.md §7; Butts & Rokhsar, PRA 55,
+ * Relations (re-derived in docs/models/thermo.md; Butts & Rokhsar, PRA 55,
  * 4346 (1997); Dalfovo et al., RMP 71, 463 (1999)), with x = mu/k_BT, t = k_BT/(hbar w):
  *   fermions  N = t^3 F_2(x),  E = 3 k_BT t^3 F_3(x),  S/Nk_B = 4 F_3/F_2 - x,
  *             n(0) = F_{1/2}(x)/lambda^3        (F_j: GSL's normalised Fermi-Dirac integral)
@@ -123,7 +123,7 @@ cp_status cp_thermo_fermi_solve(double y, double *x_out, cp_error *err)
     }
     *x_out = NAN;
     return cp_fail(err, CP_ENOCONV,
-                   "thermo fermi: chemical-potential solve did not converge for N (hbar "
+                   "thermo.fermi: chemical-potential solve did not converge for N (hbar "
                    "omega/k_B T)^3 = %g",
                    y);
 }
@@ -184,7 +184,7 @@ static cp_status fermi_at(const cp_thermo_trap *trap, double t_over_tf,
 cp_status cp_thermo_fermi(const cp_thermo_trap *trap, double temperature,
                           cp_thermo_fermi_result *out, cp_error *err)
 {
-    const char *ctx = "thermo fermi";
+    const char *ctx = "thermo.fermi";
     fermi_poison(out);
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
@@ -202,7 +202,7 @@ cp_status cp_thermo_fermi(const cp_thermo_trap *trap, double temperature,
 cp_status cp_thermo_fermi_at(const cp_thermo_trap *trap, double t_over_tf,
                              cp_thermo_fermi_result *out, cp_error *err)
 {
-    const char *ctx = "thermo fermi";
+    const char *ctx = "thermo.fermi";
     fermi_poison(out);
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_check_range(err, ctx, "t_over_tf", t_over_tf, "", 0.0, INFINITY, CP_OPEN));
@@ -341,7 +341,7 @@ static cp_status bose_at(const cp_thermo_trap *trap, const cp_thermo_bose_plans_
 static cp_status bose_common(const cp_thermo_trap *trap, double x, cp_thermo_bose_result *out,
                              cp_error *err)
 {
-    const char *ctx = "thermo bose";
+    const char *ctx = "thermo.bose";
     if (!(x > 0.0 && x <= CP_THERMO_MAX_T_OVER))
         return cp_fail(err, CP_EINVAL, "%s: T/T_c %.6g is out of range; allowed (0, %g]", ctx,
                        x, CP_THERMO_MAX_T_OVER);
@@ -353,7 +353,7 @@ static cp_status bose_common(const cp_thermo_trap *trap, double x, cp_thermo_bos
 cp_status cp_thermo_bose(const cp_thermo_trap *trap, double temperature,
                          cp_thermo_bose_result *out, cp_error *err)
 {
-    const char *ctx = "thermo bose";
+    const char *ctx = "thermo.bose";
     bose_poison(out);
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
@@ -372,8 +372,8 @@ cp_status cp_thermo_bose_at(const cp_thermo_trap *trap, double t_over_tc,
                             cp_thermo_bose_result *out, cp_error *err)
 {
     bose_poison(out);
-    CP_TRY(cp_thermo_check_trap(trap, "thermo bose", err));
-    CP_TRY(cp_check_range(err, "thermo bose", "t_over_tc", t_over_tc, "", 0.0, INFINITY,
+    CP_TRY(cp_thermo_check_trap(trap, "thermo.bose", err));
+    CP_TRY(cp_check_range(err, "thermo.bose", "t_over_tc", t_over_tc, "", 0.0, INFINITY,
                           CP_OPEN));
     cp_status st = bose_common(trap, t_over_tc, out, err);
     if (st != CP_OK)
@@ -402,7 +402,7 @@ static double bose_entropy_of_mu(double mu, void *p)
 cp_status cp_thermo_temperature_from_entropy(const cp_thermo_trap *trap, cp_statistics stat,
                                              double s, double *temperature, cp_error *err)
 {
-    const char *ctx = "thermo temperature_from_entropy";
+    const char *ctx = "thermo.temperature_from_entropy";
     *temperature = NAN;
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_statistics(stat, ctx, err));
@@ -449,7 +449,7 @@ cp_status cp_thermo_entropy(const cp_thermo_trap *trap, cp_statistics stat, doub
                             double *s, cp_error *err)
 {
     *s = NAN;
-    CP_TRY(cp_thermo_check_statistics(stat, "thermo entropy", err));
+    CP_TRY(cp_thermo_check_statistics(stat, "thermo.entropy", err));
     if (stat == CP_FERMION) {
         cp_thermo_fermi_result r;
         CP_TRY(cp_thermo_fermi(trap, temperature, &r, err));
@@ -466,7 +466,7 @@ cp_status cp_thermo_match_harmonic(const cp_thermo_trap *trap, cp_statistics sta
                                    double temperature, const double omega_to[3],
                                    double *temperature_to, cp_error *err)
 {
-    static const char ctx[] = "thermo match_harmonic";
+    static const char ctx[] = "thermo.match_harmonic";
     *temperature_to = NAN;
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
@@ -478,7 +478,7 @@ cp_status cp_thermo_match_harmonic(const cp_thermo_trap *trap, cp_statistics sta
     cp_thermo_trap to = *trap;
     for (int i = 0; i < 3; i++)
         to.omega[i] = omega_to[i];
-    cp_status st = cp_thermo_check_trap(&to, "thermo match_harmonic (final trap)", err);
+    cp_status st = cp_thermo_check_trap(&to, "thermo.match_harmonic (final trap)", err);
     if (st != CP_OK)
         return st;
     return cp_thermo_temperature_from_entropy(&to, stat, s, temperature_to, err);

@@ -35,7 +35,7 @@ cp_status cp_thermo_temperature_from_energy(const cp_thermo_trap *trap, cp_stati
                                             double energy_per_particle, double *temperature,
                                             cp_error *err)
 {
-    static const char ctx[] = "thermo temperature_from_energy";
+    static const char ctx[] = "thermo.temperature_from_energy";
     if (temperature)
         *temperature = NAN;
     if (!temperature)

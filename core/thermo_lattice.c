@@ -9,9 +9,12 @@
  *   f_{3/2} = F_{1/2} (fermions; GSL's normalised Fermi-Dirac integral), Li_{3/2} (bosons),
  * and likewise E = A sum w [e f_{3/2} + (3/2) k_BT f_{5/2}], Omega = -k_BT A sum w f_{5/2},
  * S = (E - Omega - mu N)/T.  The 3D band energies (sums over the axes) are histogrammed
- * per band combination into bins that keep their weight and mean energy, so the sums run
- * over a few hundred terms.  Bosons condense when the thermal population saturates at
- * mu = e_min, the band bottom (the condensate carries no entropy).
+ * per band combination into bins that keep their weight and mean energy (the lowest
+ * combination finely, the others more coarsely when there are many), sorted by energy,
+ * and merged at each temperature into bins no wider than k_B T / 128 (error second order
+ * in the bin width over k_B T); states more than 45 k_B T above max(mu, e_min) are left
+ * out of the sums (weight below e^-45).  Bosons condense when the thermal population
+ * saturates at mu = e_min, the band bottom (the condensate carries no entropy).
  */
 #include <math.h>
 #include <stdlib.h>
@@ -21,29 +24,42 @@
 #include "thermo_int.h"
 
 #define DEFAULT_BINS 96
+#define MERGE_FRACTION (1.0 / 128.0) /* merged bin width, units of k_B T */
+#define SUM_CUTOFF 45.0               /* states this many k_B T above max(mu, e_min) are left out */
+#define WORK_LIMIT 8e6                /* products of 1D entries summed per DOS build */
+#define BIN_LIMIT 4e5                 /* bins over all excited band combinations */
+
+typedef struct dos_bin {
+    double w; /* states per site */
+    double e; /* J, from the lowest state */
+} dos_bin;
 
 typedef struct lattice_dos {
-    size_t count;
-    double *weight; /* per site, summing to the number of band combinations */
-    double *energy; /* J, from the lowest state (e_min subtracted) */
-    double e_min;   /* J, lowest 3D band energy from the lattice potential minimum */
+    size_t count;       /* sorted bins */
+    dos_bin *bin;
+    size_t merged;      /* bins merged at the current temperature */
+    dos_bin *merge;
+    double e_min;       /* J, lowest 3D band energy from the lattice potential minimum */
+    double e_cut;       /* J above e_min: lower bound of the first band left out */
+    int bands;          /* most bands per axis */
+    double bottom[3][CP_THERMO_LATTICE_MAX_BANDS]; /* J above the axis's lowest energy */
+    int axis_bands[3];
 } lattice_dos;
 
 static void dos_free(lattice_dos *dos)
 {
-    free(dos->weight);
-    free(dos->energy);
-    dos->weight = dos->energy = NULL;
+    free(dos->bin);
+    free(dos->merge);
+    dos->bin = dos->merge = NULL;
 }
 
 static cp_status check_lattice(const cp_thermo_lattice *lat, const char *ctx, cp_error *err)
 {
     static const char *const envs[3] = {"omega_envelope_x", "omega_envelope_y",
                                         "omega_envelope_z"};
-    double combos = 1.0, samples = 1.0;
     for (int a = 0; a < 3; a++) {
         const cp_thermo_band_table *t = &lat->axis[a];
-        CP_TRY(cp_check_int_range(err, ctx, "bands", t->bands, 1, 8));
+        CP_TRY(cp_check_int_range(err, ctx, "bands", t->bands, 1, CP_THERMO_LATTICE_MAX_BANDS));
         CP_TRY(cp_check_int_range(err, ctx, "quasimomentum points", t->points, 4, 256));
         if (!t->energy_er)
             return cp_fail(err, CP_EINVAL, "%s: band table of axis %d has no energies", ctx, a);
@@ -53,8 +69,6 @@ static cp_status check_lattice(const cp_thermo_lattice *lat, const char *ctx, cp
                                "%s: band energy %g E_r (axis %d, entry %d) is not finite or "
                                "beyond 1e6 E_r",
                                ctx, t->energy_er[k], a, k);
-        combos *= t->bands;
-        samples *= t->points;
         CP_TRY(cp_check_range(err, ctx, envs[a], lat->omega_envelope[a], "rad/s",
                               CP_MIN_TRAP_OMEGA, CP_MAX_TRAP_OMEGA, CP_CLOSED));
     }
@@ -63,13 +77,6 @@ static cp_status check_lattice(const cp_thermo_lattice *lat, const char *ctx, cp
     CP_TRY(cp_check_range(err, ctx, "spacing", lat->spacing, "m", 0.0, 1e-4, CP_LO_OPEN));
     if (lat->bins != 0)
         CP_TRY(cp_check_int_range(err, ctx, "bins", lat->bins, 8, 4096));
-    int bins = lat->bins ? lat->bins : DEFAULT_BINS;
-    if (combos * bins > 1e6 || combos * samples > 5e7)
-        return cp_fail(err, CP_EINVAL,
-                       "%s: %g band combinations x %d bins x %g quasimomentum samples is too "
-                       "large; allowed combinations x bins <= 1e6 and combinations x samples "
-                       "<= 5e7",
-                       ctx, combos, bins, samples);
     return CP_OK;
 }
 
@@ -84,65 +91,154 @@ static void band_range(const cp_thermo_band_table *t, int n, double *lo, double 
     }
 }
 
-/* Histogram the 3D band energies per band combination. */
-static cp_status build_dos(const cp_thermo_lattice *lat, lattice_dos *dos, cp_error *err)
+/* One axis's energies as weighted entries per band: band 0 keeps every quasimomentum
+ * sample, higher bands too when k reaches the sample count, else they are binned into k
+ * bins (mean energy kept). */
+typedef struct axis_entries {
+    int start[CP_THERMO_LATTICE_MAX_BANDS + 1];
+    double lo[CP_THERMO_LATTICE_MAX_BANDS], hi[CP_THERMO_LATTICE_MAX_BANDS];
+    dos_bin *entry;
+} axis_entries;
+
+static cp_status axis_build(const cp_thermo_band_table *t, int k, axis_entries *ax,
+                            cp_error *err)
 {
-    const cp_thermo_band_table *tx = &lat->axis[0], *ty = &lat->axis[1], *tz = &lat->axis[2];
-    int bins = lat->bins ? lat->bins : DEFAULT_BINS;
-    size_t combos = (size_t)tx->bands * (size_t)ty->bands * (size_t)tz->bands;
-    size_t total = combos * (size_t)bins;
-    dos->weight = calloc(total, sizeof(double));
-    dos->energy = calloc(total, sizeof(double));
-    if (!dos->weight || !dos->energy) {
-        dos_free(dos);
-        return cp_fail(err, CP_ENOMEM, "thermo lattice: cannot allocate %zu energy bins",
-                       total);
-    }
-    double norm = 1.0 / ((double)tx->points * ty->points * tz->points);
-    double e_min = INFINITY;
-    size_t c = 0;
-    for (int nx = 0; nx < tx->bands; nx++)
-        for (int ny = 0; ny < ty->bands; ny++)
-            for (int nz = 0; nz < tz->bands; nz++, c++) {
-                double lx, hx, ly, hy, lz, hz;
-                band_range(tx, nx, &lx, &hx);
-                band_range(ty, ny, &ly, &hy);
-                band_range(tz, nz, &lz, &hz);
-                double lo = lx + ly + lz, width = (hx + hy + hz) - lo;
-                e_min = fmin(e_min, lo);
-                double *w = dos->weight + c * bins, *es = dos->energy + c * bins;
-                const double *ex = tx->energy_er + nx, *ey = ty->energy_er + ny;
-                const double *ez = tz->energy_er + nz;
-                for (int i = 0; i < tx->points; i++)
-                    for (int j = 0; j < ty->points; j++) {
-                        double exy = ex[i * tx->bands] + ey[j * ty->bands];
-                        for (int k = 0; k < tz->points; k++) {
-                            double e = exy + ez[k * tz->bands];
-                            int b = width > 0 ? (int)((e - lo) / width * bins) : 0;
-                            if (b >= bins)
-                                b = bins - 1;
-                            if (b < 0)
-                                b = 0;
-                            w[b] += norm;
-                            es[b] += norm * e;
-                        }
-                    }
-            }
-    /* Compress the non-empty bins; energies to J, measured from the lowest state. */
-    size_t m = 0;
-    for (size_t b = 0; b < total; b++)
-        if (dos->weight[b] > 0.0) {
-            double e = dos->energy[b] / dos->weight[b];
-            dos->weight[m] = dos->weight[b];
-            dos->energy[m] = (e - e_min) * lat->recoil_energy;
-            m++;
+    ax->entry = malloc((size_t)(t->points + (t->bands - 1) * k) * sizeof *ax->entry);
+    if (!ax->entry)
+        return cp_fail(err, CP_ENOMEM, "thermo.lattice: cannot allocate the band entries");
+    int m = 0;
+    for (int n = 0; n < t->bands; n++) {
+        band_range(t, n, &ax->lo[n], &ax->hi[n]);
+        ax->start[n] = m;
+        int raw = n == 0 || k >= t->points, nb = raw ? t->points : k;
+        dos_bin *b = ax->entry + m;
+        for (int i = 0; i < nb; i++)
+            b[i].w = b[i].e = 0.0;
+        double width = ax->hi[n] - ax->lo[n];
+        for (int j = 0; j < t->points; j++) {
+            double e = t->energy_er[j * t->bands + n];
+            int i = raw ? j : (width > 0 ? (int)((e - ax->lo[n]) / width * nb) : 0);
+            i = i < 0 ? 0 : (i >= nb ? nb - 1 : i);
+            b[i].w += 1.0 / t->points;
+            b[i].e += e / t->points;
         }
-    dos->count = m;
-    dos->e_min = e_min * lat->recoil_energy;
+        for (int i = 0; i < nb; i++)
+            if (b[i].w > 0.0) {
+                ax->entry[m].e = b[i].e / b[i].w;
+                ax->entry[m].w = b[i].w;
+                m++;
+            }
+    }
+    ax->start[t->bands] = m;
     return CP_OK;
 }
 
-/* Sums over the bins at temperature T and log-fugacity x = (mu - e_min)/k_BT. */
+static int by_energy(const void *a, const void *b)
+{
+    double x = ((const dos_bin *)a)->e, y = ((const dos_bin *)b)->e;
+    return (x > y) - (x < y);
+}
+
+/* Histogram the 3D band energies per band combination, then sort all bins by energy. */
+static cp_status build_dos(const cp_thermo_lattice *lat, lattice_dos *dos, cp_error *err)
+{
+    const cp_thermo_band_table *tab = lat->axis;
+    int bins = lat->bins ? lat->bins : DEFAULT_BINS;
+    double combos = (double)tab[0].bands * tab[1].bands * tab[2].bands;
+    int k = (int)cbrt(WORK_LIMIT / combos);
+    int ptmax = tab[0].points > tab[1].points ? tab[0].points : tab[1].points;
+    ptmax = ptmax > tab[2].points ? ptmax : tab[2].points;
+    k = k < 2 ? 2 : (k > ptmax ? ptmax : k);
+    int excited_bins = combos > 1 ? (int)fmin(bins, fmax(8.0, BIN_LIMIT / (combos - 1))) : 0;
+    axis_entries ax[3] = {{.entry = NULL}, {.entry = NULL}, {.entry = NULL}};
+    cp_status st = CP_OK;
+    for (int a = 0; a < 3 && st == CP_OK; a++)
+        st = axis_build(&tab[a], k, &ax[a], err);
+    size_t total = (size_t)bins + (size_t)(combos - 1) * (size_t)excited_bins;
+    if (st == CP_OK) {
+        dos->bin = malloc(total * sizeof *dos->bin);
+        dos->merge = malloc(total * sizeof *dos->merge);
+        if (!dos->bin || !dos->merge)
+            st = cp_fail(err, CP_ENOMEM, "thermo.lattice: cannot allocate %zu energy bins",
+                         total);
+    }
+    dos_bin *h = st == CP_OK ? malloc((size_t)bins * sizeof *h) : NULL;
+    if (st == CP_OK && !h)
+        st = cp_fail(err, CP_ENOMEM, "thermo.lattice: cannot allocate the bins");
+    if (st != CP_OK) {
+        for (int a = 0; a < 3; a++)
+            free(ax[a].entry);
+        dos_free(dos);
+        return st;
+    }
+    double e_min = ax[0].lo[0] + ax[1].lo[0] + ax[2].lo[0];
+    size_t m = 0;
+    for (int nx = 0; nx < tab[0].bands; nx++)
+        for (int ny = 0; ny < tab[1].bands; ny++)
+            for (int nz = 0; nz < tab[2].bands; nz++) {
+                int nb = nx + ny + nz == 0 ? bins : excited_bins;
+                double lo = ax[0].lo[nx] + ax[1].lo[ny] + ax[2].lo[nz];
+                double width = ax[0].hi[nx] + ax[1].hi[ny] + ax[2].hi[nz] - lo;
+                for (int b = 0; b < nb; b++)
+                    h[b].w = h[b].e = 0.0;
+                for (int i = ax[0].start[nx]; i < ax[0].start[nx + 1]; i++)
+                    for (int j = ax[1].start[ny]; j < ax[1].start[ny + 1]; j++) {
+                        double wxy = ax[0].entry[i].w * ax[1].entry[j].w;
+                        double exy = ax[0].entry[i].e + ax[1].entry[j].e;
+                        for (int l = ax[2].start[nz]; l < ax[2].start[nz + 1]; l++) {
+                            double e = exy + ax[2].entry[l].e, w = wxy * ax[2].entry[l].w;
+                            int b = width > 0 ? (int)((e - lo) / width * nb) : 0;
+                            b = b < 0 ? 0 : (b >= nb ? nb - 1 : b);
+                            h[b].w += w;
+                            h[b].e += w * e;
+                        }
+                    }
+                for (int b = 0; b < nb; b++)
+                    if (h[b].w > 0.0) {
+                        dos->bin[m].w = h[b].w;
+                        dos->bin[m].e = (h[b].e / h[b].w - e_min) * lat->recoil_energy;
+                        m++;
+                    }
+            }
+    free(h);
+    qsort(dos->bin, m, sizeof *dos->bin, by_energy);
+    dos->count = m;
+    dos->e_min = e_min * lat->recoil_energy;
+    /* 1D bands do not overlap: the first band left out on an axis starts at or above the
+     * top of the last band kept. */
+    dos->e_cut = INFINITY;
+    dos->bands = 0;
+    for (int a = 0; a < 3; a++) {
+        int nb = tab[a].bands;
+        dos->axis_bands[a] = nb;
+        dos->bands = nb > dos->bands ? nb : dos->bands;
+        dos->e_cut = fmin(dos->e_cut, (ax[a].hi[nb - 1] - ax[a].lo[0]) * lat->recoil_energy);
+        for (int n = 0; n < nb; n++)
+            dos->bottom[a][n] = (ax[a].lo[n] - ax[a].lo[0]) * lat->recoil_energy;
+        free(ax[a].entry);
+    }
+    return CP_OK;
+}
+
+/* Merge neighbouring sorted bins into bins no wider than MERGE_FRACTION k_B T. */
+static void dos_merge(lattice_dos *dos, double kt)
+{
+    size_t m = 0;
+    double width = MERGE_FRACTION * kt;
+    for (size_t i = 0; i < dos->count;) {
+        double first = dos->bin[i].e, w = 0.0, we = 0.0;
+        for (; i < dos->count && dos->bin[i].e - first <= width; i++) {
+            w += dos->bin[i].w;
+            we += dos->bin[i].w * dos->bin[i].e;
+        }
+        dos->merge[m].w = w;
+        dos->merge[m].e = we / w;
+        m++;
+    }
+    dos->merged = m;
+}
+
+/* Sums over the merged bins at temperature T and log-fugacity x = (mu - e_min)/k_BT. */
 typedef struct lattice_eval {
     const lattice_dos *dos;
     cp_statistics stat;
@@ -162,12 +258,22 @@ static double f_order(const lattice_eval *ev, int order52, double eta)
     return cp_polylog_bose(order52 ? ev->li52 : ev->li32, fmin(exp(eta), 1.0));
 }
 
+/* The last eta kept in the sums at log-fugacity x. */
+static double eta_floor(double x)
+{
+    return fmin(x, 0.0) - SUM_CUTOFF;
+}
+
 static double lattice_number(double x, void *p)
 {
     const lattice_eval *ev = p;
-    double n = 0.0;
-    for (size_t b = 0; b < ev->dos->count; b++)
-        n += ev->dos->weight[b] * f_order(ev, 0, x - ev->dos->energy[b] / ev->kt);
+    double n = 0.0, floor = eta_floor(x);
+    for (size_t b = 0; b < ev->dos->merged; b++) {
+        double eta = x - ev->dos->merge[b].e / ev->kt;
+        if (eta < floor)
+            break;
+        n += ev->dos->merge[b].w * f_order(ev, 0, eta);
+    }
     return ev->amp * n;
 }
 
@@ -176,13 +282,13 @@ static double lattice_number(double x, void *p)
 static cp_status lattice_solve(const lattice_eval *ev, double number, double *x, double *n0,
                                cp_error *err)
 {
-    const char *ctx = "thermo lattice";
+    const char *ctx = "thermo.lattice";
     *n0 = 0.0;
     /* F_{1/2}(eta) <= e^eta and Li_{3/2}(e^eta) <= zeta(3/2) e^eta bound N from above, so
      * N(lo) < N at lo = ln(N / (A sum w c)) - 1 with c = 1 or zeta(3/2) < 2.62. */
     double wsum = 0.0;
-    for (size_t b = 0; b < ev->dos->count; b++)
-        wsum += ev->dos->weight[b];
+    for (size_t b = 0; b < ev->dos->merged; b++)
+        wsum += ev->dos->merge[b].w;
     double lo = log(number / (ev->amp * wsum * (ev->stat == CP_BOSON ? 2.62 : 1.0))) - 1.0;
     double hi;
     if (ev->stat == CP_BOSON) {
@@ -212,7 +318,7 @@ static cp_status lattice_solve(const lattice_eval *ev, double number, double *x,
 }
 
 /* The lattice state at temperature T (DOS and plans prepared). */
-static cp_status lattice_at(const lattice_dos *dos, const cp_thermo_lattice *lat,
+static cp_status lattice_at(lattice_dos *dos, const cp_thermo_lattice *lat,
                             const cp_thermo_trap *trap, cp_statistics stat,
                             const cp_polylog_plan *li32, const cp_polylog_plan *li52,
                             double temperature, cp_thermo_lattice_result *out, cp_error *err)
@@ -220,17 +326,20 @@ static cp_status lattice_at(const lattice_dos *dos, const cp_thermo_lattice *lat
     double wbar = cbrt(lat->omega_envelope[0] * lat->omega_envelope[1] * lat->omega_envelope[2]);
     double kt = CP_KB * temperature;
     double d3 = lat->spacing * lat->spacing * lat->spacing;
+    dos_merge(dos, kt);
     lattice_eval ev = {dos, stat, kt,
                        pow(2.0 * CP_PI * kt / (trap->mass * wbar * wbar), 1.5) / d3, li32, li52};
     double x, n0;
     CP_TRY(lattice_solve(&ev, trap->number, &x, &n0, err));
-    double n = 0.0, e = 0.0, omega = 0.0, fill = 0.0;
-    for (size_t b = 0; b < dos->count; b++) {
-        double eta = x - dos->energy[b] / kt;
+    double n = 0.0, e = 0.0, omega = 0.0, fill = 0.0, floor = eta_floor(x);
+    for (size_t b = 0; b < dos->merged; b++) {
+        double eta = x - dos->merge[b].e / kt;
+        if (eta < floor)
+            break;
         double f32 = f_order(&ev, 0, eta), f52 = f_order(&ev, 1, eta);
-        double w = dos->weight[b];
+        double w = dos->merge[b].w;
         n += w * f32;
-        e += w * (dos->energy[b] * f32 + 1.5 * kt * f52);
+        e += w * (dos->merge[b].e * f32 + 1.5 * kt * f52);
         omega -= w * kt * f52;
         if (stat == CP_FERMION) /* occupation per site at the envelope centre */
             fill += w / (exp(-eta) + 1.0);
@@ -241,14 +350,23 @@ static cp_status lattice_at(const lattice_dos *dos, const cp_thermo_lattice *lat
     double mu = x * kt; /* from e_min */
     double s = (e - omega - mu * n) / (kt * trap->number);
     if (!(isfinite(s) && isfinite(e)))
-        return cp_fail(err, CP_ENUMERIC, "thermo lattice: entropy not finite at T = %g K",
+        return cp_fail(err, CP_ENUMERIC, "thermo.lattice: entropy not finite at T = %g K",
                        temperature);
+    double top = fmax(mu, 0.0);
+    int needed = 0;
+    for (int a = 0; a < 3; a++)
+        for (int k = 0; k < dos->axis_bands[a]; k++)
+            if (dos->bottom[a][k] < top + CP_THERMO_LATTICE_MARGIN * kt && k + 1 > needed)
+                needed = k + 1;
     out->temperature = temperature;
     out->chemical_potential = mu + dos->e_min;
     out->entropy_per_particle = s;
     out->energy_per_particle = e / trap->number + dos->e_min; /* condensate at e_min */
     out->peak_filling = stat == CP_FERMION ? fill : NAN;
     out->condensed_fraction = n0 / trap->number;
+    out->band_margin = (dos->e_cut - top) / kt;
+    out->bands = dos->bands;
+    out->bands_needed = needed;
     return CP_OK;
 }
 
@@ -273,18 +391,23 @@ static cp_status prepare(const cp_thermo_lattice *lat, lattice_dos *dos, cp_poly
 
 static void lattice_poison(cp_thermo_lattice_result *out)
 {
-    cp_poison(&out->temperature, (int)(sizeof *out / sizeof(double)));
+    double *d[] = {&out->temperature,  &out->chemical_potential, &out->entropy_per_particle,
+                   &out->energy_per_particle, &out->peak_filling, &out->condensed_fraction,
+                   &out->band_margin};
+    for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
+        *d[i] = NAN;
+    out->bands = out->bands_needed = 0;
 }
 
 cp_status cp_thermo_lattice_state(const cp_thermo_lattice *lat, const cp_thermo_trap *trap,
                                   cp_statistics stat, double temperature,
                                   cp_thermo_lattice_result *out, cp_error *err)
 {
-    const char *ctx = "thermo lattice_state";
+    const char *ctx = "thermo.lattice_state";
     lattice_poison(out);
     CP_TRY(check_common(lat, trap, stat, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
-    lattice_dos dos = {0, NULL, NULL, 0.0};
+    lattice_dos dos = {.bin = NULL, .merge = NULL};
     cp_polylog_plan li32, li52;
     CP_TRY(prepare(lat, &dos, &li32, &li52, err));
     cp_status st = lattice_at(&dos, lat, trap, stat, &li32, &li52, temperature, out, err);
@@ -296,7 +419,7 @@ cp_status cp_thermo_lattice_state(const cp_thermo_lattice *lat, const cp_thermo_
 
 /* Entropy per particle in the lattice as a function of ln T (for Brent). */
 typedef struct match_ctx {
-    const lattice_dos *dos;
+    lattice_dos *dos;
     const cp_thermo_lattice *lat;
     const cp_thermo_trap *trap;
     cp_statistics stat;
@@ -317,12 +440,12 @@ cp_status cp_thermo_match_lattice(const cp_thermo_trap *trap, cp_statistics stat
                                   double temperature, const cp_thermo_lattice *lat,
                                   cp_thermo_lattice_result *out, cp_error *err)
 {
-    const char *ctx = "thermo match_lattice";
+    const char *ctx = "thermo.match_lattice";
     lattice_poison(out);
     CP_TRY(check_common(lat, trap, stat, ctx, err));
     double s;
     CP_TRY(cp_thermo_entropy(trap, stat, temperature, &s, err));
-    lattice_dos dos = {0, NULL, NULL, 0.0};
+    lattice_dos dos = {.bin = NULL, .merge = NULL};
     cp_polylog_plan li32, li52;
     CP_TRY(prepare(lat, &dos, &li32, &li52, err));
     match_ctx m = {&dos, lat, trap, stat, &li32, &li52};

@@ -17,7 +17,7 @@ cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, d
 {
     static const char *const names[3] = {"depth_er (x)", "depth_er (y)", "depth_er (z)"};
     const char *ctx = "thermo lattice_bands";
-    CP_TRY(cp_check_int_range(err, ctx, "bands", bands, 1, 8));
+    CP_TRY(cp_check_int_range(err, ctx, "bands", bands, 1, CP_THERMO_LATTICE_MAX_BANDS));
     CP_TRY(cp_check_int_range(err, ctx, "quasimomentum points", points, 4, 256));
     if (!depth_er || !tables || !lat)
         return cp_fail(err, CP_EINVAL, "%s: depth_er, tables and lattice must not be NULL",
@@ -34,7 +34,7 @@ cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, d
     for (int j = 0; j < points; j++)
         q[j] = (j + 0.5) / points;
     for (int a = 0; a < 3; a++) {
-        double *t = tables + a * per_axis;
+        double *t = tables + (size_t)a * per_axis;
         /* Axes of equal depth share one solve. */
         int same = -1;
         for (int b = 0; b < a; b++)
@@ -42,7 +42,7 @@ cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, d
                 same = b;
         if (same >= 0) {
             for (size_t k = 0; k < per_axis; k++)
-                t[k] = tables[same * per_axis + k];
+                t[k] = tables[(size_t)same * per_axis + k];
         } else {
             cp_status st = cp_lattice_band_energies(depth_er[a], bands, 0, (size_t)points, q,
                                                     t, NULL, err);

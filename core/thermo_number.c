@@ -16,7 +16,7 @@
 cp_status cp_thermo_number_at(cp_statistics stat, double temperature, const double omega[3],
                               double t_over_tdeg, double *number, cp_error *err)
 {
-    static const char ctx[] = "thermo number_at";
+    static const char ctx[] = "thermo.number_at";
     static const char *const names[3] = {"omega_x", "omega_y", "omega_z"};
     if (number)
         *number = NAN;

@@ -21,7 +21,7 @@
 cp_status cp_polylog_plan_init(cp_polylog_plan *plan, double s, cp_error *err)
 {
     cp_init();
-    CP_TRY(cp_check_range(err, "thermo polylog", "order s", s, "", 1.5, 8.0, CP_CLOSED));
+    CP_TRY(cp_check_range(err, "thermo.polylog", "order s", s, "", 1.5, 8.0, CP_CLOSED));
     plan->s = s;
     plan->integer_order = (s == floor(s));
     plan->gamma_1ms = NAN;
@@ -43,7 +43,7 @@ cp_status cp_polylog_plan_init(cp_polylog_plan *plan, double s, cp_error *err)
             status = gsl_sf_zeta_e(s - k, &r);
         }
         if (status != GSL_SUCCESS)
-            return cp_fail(err, CP_ENUMERIC, "thermo polylog: zeta(%g) failed: %s", s - k,
+            return cp_fail(err, CP_ENUMERIC, "thermo.polylog: zeta(%g) failed: %s", s - k,
                            gsl_strerror(status));
         plan->coef[k] = r.val / factorial;
     }
@@ -56,7 +56,7 @@ cp_status cp_polylog_plan_init(cp_polylog_plan *plan, double s, cp_error *err)
         gsl_sf_result g;
         int status = gsl_sf_gamma_e(1.0 - s, &g);
         if (status != GSL_SUCCESS)
-            return cp_fail(err, CP_ENUMERIC, "thermo polylog: Gamma(%g) failed: %s", 1.0 - s,
+            return cp_fail(err, CP_ENUMERIC, "thermo.polylog: Gamma(%g) failed: %s", 1.0 - s,
                            gsl_strerror(status));
         plan->gamma_1ms = g.val;
     }
@@ -107,7 +107,7 @@ double cp_polylog_bose(const cp_polylog_plan *plan, double z)
 cp_status cp_polylog(double s, double z, double *value, cp_error *err)
 {
     *value = NAN;
-    CP_TRY(cp_check_range(err, "thermo polylog", "argument z", z, "", 0.0, 1.0, CP_CLOSED));
+    CP_TRY(cp_check_range(err, "thermo.polylog", "argument z", z, "", 0.0, 1.0, CP_CLOSED));
     cp_polylog_plan plan;
     CP_TRY(cp_polylog_plan_init(&plan, s, err));
     *value = cp_polylog_bose(&plan, z);

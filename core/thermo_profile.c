@@ -19,7 +19,7 @@ cp_status cp_thermo_density(const cp_thermo_trap *trap, cp_statistics stat, doub
                             const double r[3], cp_thermo_density_result *out, cp_error *err)
 {
     static const char *const names[3] = {"x", "y", "z"};
-    const char *ctx = "thermo density";
+    const char *ctx = "thermo.density";
     cp_poison(&out->density, 3);
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));
@@ -65,7 +65,7 @@ cp_status cp_thermo_density(const cp_thermo_trap *trap, cp_statistics stat, doub
 cp_status cp_thermo_tof(const cp_thermo_trap *trap, cp_statistics stat, double temperature,
                         double time, cp_thermo_tof_result *out, cp_error *err)
 {
-    const char *ctx = "thermo tof";
+    const char *ctx = "thermo.tof";
     cp_poison(out->sigma_trap, 12);
     CP_TRY(cp_thermo_check_trap(trap, ctx, err));
     CP_TRY(cp_thermo_check_temperature(temperature, ctx, err));

@@ -11,7 +11,7 @@
 #include "coldprep/consts.h"
 
 /* 2 pi / Gamma(1/4)^2 (Gribakin & Flambaum, PRA 48, 546 (1993)); value [C] in
- * physics.md §4.1.2, checked against GSL's gamma function in tests/unit/test_feshbach.c. */
+ * docs/models/feshbach.md, checked against GSL's gamma function in tests/unit/test_feshbach.c. */
 #define CP_ABAR_PREFACTOR 0.477988797486125
 
 /* Mean scattering length abar = [2 pi / Gamma(1/4)^2] (2 mu C6 / hbar^2)^(1/4), m, for

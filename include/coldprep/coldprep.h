@@ -10,10 +10,12 @@
 #include "coldprep/limits.h"
 #include "coldprep/names.h"
 #include "coldprep/species.h"
+#include "coldprep/species_sources.h"
 #include "coldprep/lattice.h"
 #include "coldprep/thermo.h"
 #include "coldprep/collisions.h"
 #include "coldprep/feshbach.h"
 #include "coldprep/raman.h"
+#include "coldprep/fields.h"
 
 #endif

@@ -8,7 +8,7 @@
  * and the energy released by a dissociation ramp.
  *
  * Units are SI: fields in T, ramp rates in T/s, lengths in m, masses in kg, energies in J,
- * densities in m^-3, trap frequencies in rad/s.  Sign convention (physics.md §4.1): the
+ * densities in m^-3, trap frequencies in rad/s.  Sign convention (docs/models/feshbach.md): the
  * resonance is described by a(B) = abg (1 - width/(B - b0)) with dmu > 0 and
  * abg * width > 0, so the molecular (bound-state) side is B < b0.  Every function returns
  * a cp_status, writes its results through out-parameters (poisoned with NaN on error) and
@@ -54,6 +54,19 @@ typedef enum cp_feshbach_model {
 /* The name of a model: "auto", "universal", "corrected", "linear". */
 const char *cp_feshbach_model_name(cp_feshbach_model model);
 
+/* Validity flags of a binding energy (bits of cp_feshbach_binding.flags). */
+enum {
+    /* 0 < a < abar where the linear form does not take over (a universal form used, or
+     * s_res >= 1): the state is no longer a halo molecule and no form here describes it */
+    CP_FESHBACH_FLAG_BELOW_ABAR = 1u,
+    /* a <= 0: the field is past the zero crossing B0 + Delta of the scattering length; only
+     * the linear extrapolation is left, and it ignores the background bound state */
+    CP_FESHBACH_FLAG_PAST_ZERO = 2u,
+    /* the linear (closed-channel) form used on an open-channel-dominated resonance,
+     * s_res >= 1, where it is not meant to hold */
+    CP_FESHBACH_FLAG_LINEAR_BROAD = 4u
+};
+
 typedef struct cp_feshbach_binding {
     double energy;           /* binding energy E_b > 0, J */
     double a;                /* scattering length at the field, m */
@@ -61,6 +74,7 @@ typedef struct cp_feshbach_binding {
     double rstar;            /* R* = hbar^2 / (2 mu abg dmu width), m */
     double s_res;            /* resonance strength abar / R* (NaN when c6_au = 0) */
     cp_feshbach_model model; /* the model used (never AUTO) */
+    unsigned flags;          /* CP_FESHBACH_FLAG_* bits: outside the model's stated range */
 } cp_feshbach_binding;
 
 /* Binding energy of the Feshbach molecule at `field` (molecular side, B < b0).
@@ -76,7 +90,7 @@ cp_status cp_feshbach_binding_energy(const cp_feshbach_resonance *res, double mu
 cp_status cp_feshbach_lz_probability(double delta, double *probability, cp_error *err);
 
 /* Theoretical ramp-rate-law coefficient alpha = 4 pi^2 hbar / mu (m^2/s) for the density
- * convention n = partner density averaged over the minority cloud (physics.md §4.1.6). */
+ * convention n = partner density averaged over the minority cloud (docs/models/feshbach.md). */
 cp_status cp_feshbach_alpha(double mu, double *alpha, cp_error *err);
 
 /* A bulk field ramp across the resonance. */
@@ -102,7 +116,7 @@ cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const 
 
 /* Two atoms in the ground state of one harmonic site swept at ramp_rate (T/s):
  * 2 pi delta = (4 pi^2 hbar |abg width| / (mu |Bdot|)) |psi_rel(0)|^2,
- * |psi_rel(0)|^2 = (mu/(pi hbar))^(3/2) sqrt(wx wy wz) (physics.md §4.1.5); omega_rel are
+ * |psi_rel(0)|^2 = (mu/(pi hbar))^(3/2) sqrt(wx wy wz) (docs/models/feshbach.md); omega_rel are
  * the relative-motion frequencies, rad/s, each in [1e-2, 2 pi x 10 MHz]. */
 cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu,
                                      double ramp_rate, const double omega_rel[3],
@@ -113,8 +127,10 @@ cp_status cp_feshbach_associate_site(const cp_feshbach_resonance *res, double mu
 typedef enum cp_feshbach_profile {
     CP_PROFILE_THERMAL = 0,      /* Boltzmann (Gaussian) */
     CP_PROFILE_FERMI = 1,        /* ideal Fermi gas, Fermi–Dirac in the local-density approx. */
-    CP_PROFILE_BOSE = 2,         /* ideal Bose gas in LDA: thermal part + ideal condensate */
-    CP_PROFILE_THOMAS_FERMI = 3  /* interacting condensate, Thomas–Fermi (overlap only) */
+    CP_PROFILE_BOSE = 2,         /* Bose gas in LDA: ideal thermal part; below T_c the ideal-gas
+                                    fraction N0 = N (1 - (T/T_c)^3) as a Thomas–Fermi
+                                    condensate (needs scattering_length) */
+    CP_PROFILE_THOMAS_FERMI = 3  /* pure interacting condensate, Thomas–Fermi (overlap only) */
 } cp_feshbach_profile;
 
 /* One cloud in a harmonic trap (gravity along -z). */
@@ -123,15 +139,18 @@ typedef struct cp_feshbach_cloud {
     double number;        /* atom number, [1, 1e10] */
     double mass;          /* kg, [0.5, 500] u */
     double omega[3];      /* trap frequencies x, y, z, rad/s, [1e-2, 2 pi x 1 MHz] */
-    double scattering_length; /* own s-wave scattering length, m (THOMAS_FERMI only), > 0 */
+    double scattering_length; /* own s-wave scattering length, m, (0, 1e-6]: THOMAS_FERMI, and
+                                 BOSE below T_c (0 = not given, allowed above T_c) */
 } cp_feshbach_cloud;
 
 /* Overlap density <n_a>_b = (1/N_b) Int n_a n_b d^3r of cloud a (the partner) seen by
  * cloud b, both at temperature T (K, [1e-12, 1e-3]; unused for THOMAS_FERMI), each sagging by
- * g/omega_z^2 below the common trap centre.  Two THERMAL clouds use the closed form for
+ * g/omega_z^2 below the common trap centre.  Any profile; a BOSE cloud below T_c without a
+ * scattering length is CP_EINVAL.  Two THERMAL clouds use the closed form for
  * displaced Gaussians; any other pair is integrated numerically (a fixed product rule with
  * its own error estimate, ~1 ms; GSL adaptive quadrature where that rule declines, ~0.1 s;
- * relative accuracy ~1e-7 either way; docs/models/feshbach.md).
+ * relative accuracy ~1e-7 either way, ~1e-6 with a condensed Bose cloud, whose overlaps take
+ * up to ~20 ms; docs/models/feshbach.md).
  * *sag is the differential sag (z_b - z_a), m.  Result in m^-3. */
 cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
                                       double temperature, double *overlap, double *sag,
@@ -141,9 +160,14 @@ cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshb
  * that can pair with partners from cloud a.  Profiles THERMAL, FERMI or BOSE (as the cloud's
  * statistics); temperature T in [1e-12, 1e-3] K; gamma: phase-space cell in units of h^3
  * (0, 100]; samples in [100, 1e7]; seed any value.  Deterministic for a given seed.
- * *std_error is the Monte Carlo standard error of *p_max. */
+ * The cell counting covers the thermal parts only; a condensed minority atom pairs with
+ * probability min(1, n_a,c(r) / n_b,c(r)) with the partner's condensate instead
+ * (feshbach_spss.c, docs/models/feshbach.md).  *std_error is the Monte Carlo standard error
+ * of *p_max. */
 typedef struct cp_feshbach_spss {
-    double gamma;            /* cell volume / h^3 in relative phase space; 0.38 [M] default */
+    double gamma;            /* cell volume / h^3 in relative phase space; default 0.38, the
+                                value fitted by Hodby et al. (recalled [M]), a fit
+                                parameter of this cell (docs/data.md) */
     unsigned long seed;
     long samples;
     int include_sag;         /* 1: displace the clouds by their gravitational sag */
@@ -152,6 +176,14 @@ typedef struct cp_feshbach_spss {
 cp_status cp_feshbach_max_efficiency(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
                                      double temperature, const cp_feshbach_spss *opts,
                                      double *p_max, double *std_error, cp_error *err);
+
+/* cp_feshbach_max_efficiency, polling *cancel (may be NULL) every 65536 samples: once it
+ * is non-zero the outputs are NaN and CP_ECANCELED is returned. */
+cp_status cp_feshbach_max_efficiency_cancellable(const cp_feshbach_cloud *a,
+                                                 const cp_feshbach_cloud *b, double temperature,
+                                                 const cp_feshbach_spss *opts, double *p_max,
+                                                 double *std_error, const cp_cancel_flag *cancel,
+                                                 cp_error *err);
 
 /* Dissociation by a ramp at rate ramp_rate (T/s) up across the resonance: the quasi-bound
  * molecule decays at Gamma(E)/hbar with Gamma(E) = 2 k abg dmu width; survival

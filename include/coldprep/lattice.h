@@ -118,6 +118,29 @@ typedef struct cp_lattice_3d_result {
 cp_status cp_lattice_depth_3d(const cp_lattice_beam beams[3], double mass, int gravity_axis,
                               cp_lattice_3d_result *result, cp_error *err);
 
+/* The envelope of a 3D lattice against gravity (along gravity_axis, pointing to -s): the
+ * potential of the well bottoms along s through the centre,
+ *   V(s) = sum_{j != g} U_j exp(-2 s^2 / w_j^2) + U_g / (1 + s^2 / z_R,g^2) + m g s,
+ * U_j = axis[j].well_bottom < 0 (beams j != g vary across their Gaussian profile, beam g
+ * along its own axis, Rayleigh), the form whose curvature at s = 0 is the envelope
+ * frequency of cp_lattice_depth_3d.  The minimum is found on a grid over
+ * [-4 w, 2 w] (w the largest waist across gravity) refined by a parabola, the barrier
+ * below it likewise.  The on-site zero-point energy and the change of the lattice depth
+ * over the sag are left out. */
+typedef struct cp_lattice_gravity_result {
+    int held;              /* 1 if V has a minimum (the beams hold against gravity) */
+    double sag;            /* m, how far below the beam centre the minimum lies */
+    double omega;          /* rad/s, envelope frequency along gravity at the minimum */
+    double depth;          /* J, barrier below the minimum minus the minimum (0 if not held) */
+    double depth_no_gravity; /* J, -sum of the well bottoms: the envelope depth at g = 0 */
+    double max_gravity;    /* m/s^2, the largest g the envelope's force holds against */
+} cp_lattice_gravity_result;
+
+/* beams[3] along x, y, z as cp_lattice_depth_3d; mass in kg; gravity_axis 0, 1 or 2.
+ * Not being held is a result (held = 0, sag, omega and depth NaN/0), not an error. */
+cp_status cp_lattice_gravity(const cp_lattice_beam beams[3], double mass, int gravity_axis,
+                             cp_lattice_gravity_result *result, cp_error *err);
+
 /* ---- band structure ------------------------------------------------------------------- */
 
 /* The plane-wave basis size the automatic choice uses for `bands` bands at depth
@@ -185,7 +208,7 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
 
 /* ---- on-site quantities and Wannier functions ------------------------------------------ */
 
-/* Harmonic approximation of one well: hbar omega_site = 2 sqrt(V0 E_r) (physics.md §6.1),
+/* Harmonic approximation of one well: hbar omega_site = 2 sqrt(V0 E_r) (docs/models/lattice.md),
  * returned in E_r as 2 sqrt(depth_er), and the Lamb-Dicke parameter
  * eta = k_p sqrt(hbar / (2 m omega_site)) = probe_ratio / (sqrt(2) depth_er^(1/4)) for
  * light of wavenumber k_p = probe_ratio * k projected on the lattice axis.
@@ -217,18 +240,29 @@ cp_status cp_lattice_wannier(double depth_er, int band, double half_range, size_
 cp_status cp_lattice_scattering_rate(double alpha_imag, cp_polarizability_unit unit,
                                      double intensity, double *rate, cp_error *err);
 
+/* Validity flags of the lattice heating and loading results (bits of their `flags`). */
+enum {
+    /* heating: depth below 3 E_r, where eta^2 = 1/(2 sqrt(depth_er)) exceeds ~0.3 and the
+     * Lamb-Dicke (eta^2 << 1), harmonic-well band-excitation rate does not hold */
+    CP_LATTICE_FLAG_SHALLOW = 1u,
+    /* loading: excited_fraction above 0.05, beyond where first-order adiabatic
+     * perturbation theory is trustworthy */
+    CP_LATTICE_FLAG_BEYOND_FIRST_ORDER = 2u
+};
+
 typedef struct cp_lattice_heating_result {
     double energy_rate;          /* J/s per particle: 2 E_rec Gamma_sc */
     double temperature_rate;     /* K/s in a 3D harmonic trap (E = 3 kB T): 2 E_rec Gamma/(3 kB) */
     double band_excitation_rate; /* 1/s: rate out of the lowest band along the lattice axis */
     double lamb_dicke;           /* eta of the trap light along the axis (see cp_lattice_site) */
+    unsigned flags;              /* CP_LATTICE_FLAG_SHALLOW when depth_er < 3, else 0 */
 } cp_lattice_heating_result;
 
 /* Heating of a molecule in the lowest band of a 1D lattice of depth depth_er ((0, 1e4])
  * from photon scattering at rate scattering_rate (1/s, [0, 1e9]); recoil = E_r of the
  * lattice light (J, > 0; the lattice is retro-reflected so E_rec = E_r).
  * Energy: each scattering adds 2 E_rec on average (absorption and spontaneous emission
- * recoil; Grimm et al. 2000 [M], physics.md §6.1).  Band excitation: in the Lamb-Dicke
+ * recoil; Grimm et al. 2000 [M], docs/models/lattice.md).  Band excitation: in the Lamb-Dicke
  * regime the emitted photon's kick hbar k cos(theta) along the axis excites the first
  * band with probability eta^2 <cos^2 theta> = eta^2 / 3 (isotropic emission), while
  * absorption from the standing wave at its antinode does not change the band to first
@@ -268,6 +302,8 @@ typedef struct cp_lattice_loading_result {
     double excited_fraction; /* first-order estimate of the population left in bands 2 and
                                 4 at the end (q = 0) */
     int basis_size;          /* even-parity plane waves used */
+    unsigned flags;          /* CP_LATTICE_FLAG_BEYOND_FIRST_ORDER when excited_fraction >
+                                0.05, else 0 */
 } cp_lattice_loading_result;
 
 /* Interband adiabaticity of loading a condensate (quasimomentum 0, band 0) by a depth

@@ -18,4 +18,18 @@
 #define CP_MIN_TRAP_OMEGA 1e-2
 #define CP_MAX_TRAP_OMEGA 1e7
 
+/* Laser power of one trap or lattice beam (W): from 1 uW (below it no optical trap holds an
+ * ultracold gas; common practice, no source) to 10 kW. */
+#define CP_MIN_BEAM_POWER 1e-6
+#define CP_MAX_BEAM_POWER 1e4
+
+/* A van der Waals C6 coefficient (atomic units, E_h a0^6): from 1 (below the lightest
+ * pairs, H-H is 6.5 a.u.; common practice, no source) upwards; smaller values make the
+ * van der Waals length vanish and the barrier heights overflow. */
+#define CP_MIN_C6_AU 1.0
+
+/* The shortest time a ramp, pulse or hold is given (s): 1 ns (common practice, no source:
+ * nothing in a preparation sequence is faster). */
+#define CP_MIN_DURATION 1e-9
+
 #endif

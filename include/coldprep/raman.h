@@ -43,8 +43,9 @@ typedef struct cp_raman_params {
     double gamma;                /* decay rate of |2>, 1/s, >= 0 */
     double branching_initial;    /* fraction of that decay into |1>, [0, 1] */
     double branching_target;     /* fraction into |3>, [0, 1 - branching_initial] */
-    double gamma_initial;        /* slow loss rate of |1> (trap lifetime), 1/s, >= 0 */
-    double gamma_target;         /* slow loss rate of |3>, 1/s, >= 0 */
+    double gamma_initial;        /* slow loss rate of |1> (trap lifetime), 1/s, >= 0; acts
+                                    over the transfer duration only (see the result) */
+    double gamma_target;         /* slow loss rate of |3>, 1/s, >= 0; likewise */
     double detuning;             /* one-photon detuning Delta, rad/s */
     double two_photon_detuning;  /* delta, rad/s */
     double pump_linewidth_hz;    /* FWHM, Hz, >= 0 */
@@ -64,8 +65,15 @@ typedef struct cp_raman_params {
  * 1e-8, no estimates. */
 void cp_raman_params_init(cp_raman_params *p);
 
-/* Final state and, if asked for (params.estimates), the closed-form estimates of
- * physics.md §5.2. */
+/* Validity flags of a result (bits of cp_raman_result.flags; set only with the estimates). */
+enum {
+    /* decay_loss_estimate and dephasing_loss_estimate are outside their range (derived for
+     * Delta = delta = 0): |delta| overlap_time > 0.5 or |Delta| > max(gamma, max Omega_rms) */
+    CP_RAMAN_FLAG_ESTIMATES_DETUNED = 1u
+};
+
+/* Final state and, if asked for (params.estimates), the closed-form estimates
+ * (docs/models/raman.md). */
 typedef struct cp_raman_result {
     double efficiency;        /* population of |3> at the end (one way) */
     double populations[3];    /* rho_11, rho_22, rho_33 at the end */
@@ -73,6 +81,11 @@ typedef struct cp_raman_result {
     double rho[3][3][2];      /* final density matrix, [i][j][0] real, [1] imaginary part */
     double round_trip_efficiency; /* |1> population after the reversed sequence, or NaN */
     double t_start, t_end;    /* integration window, s */
+    double transfer_duration; /* s: the time the slow losses gamma_initial, gamma_target act,
+                                 from -|delay|/2 - width to |delay|/2 + width (Gaussian: the
+                                 pulses above 1/e of their peaks; sin2: their support;
+                                 sampled: the sample span) */
+    unsigned flags;           /* CP_RAMAN_FLAG_* bits: estimates used outside their range */
     double adiabaticity;      /* max_t Omega_rms(t) * T_overlap, dimensionless */
     double overlap_time;      /* T_overlap = int Op Os dt / max(Op Os), s */
     double decay_loss_estimate;    /* 1 - exp(-int 4 gamma thetadot^2 / Omega_rms^2 dt) */
@@ -125,6 +138,13 @@ typedef enum cp_raman_scan_variable {
 cp_status cp_raman_scan(const cp_raman_params *p, cp_raman_scan_variable variable,
                         const double *values, size_t n, int nthreads, double *efficiency,
                         double *lost, cp_error *err);
+
+/* cp_raman_scan, polling *cancel (may be NULL) before every point: once it is non-zero the
+ * outputs are poisoned and CP_ECANCELED is returned. */
+cp_status cp_raman_scan_cancellable(const cp_raman_params *p, cp_raman_scan_variable variable,
+                                    const double *values, size_t n, int nthreads,
+                                    double *efficiency, double *lost,
+                                    const cp_cancel_flag *cancel, cp_error *err);
 
 #ifdef __cplusplus
 }

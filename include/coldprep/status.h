@@ -10,6 +10,8 @@
 #ifndef COLDPREP_STATUS_H
 #define COLDPREP_STATUS_H
 
+#include <signal.h>
+
 #ifdef __cplusplus
 extern "C" {
 #endif
@@ -20,8 +22,14 @@ typedef enum cp_status {
     CP_ENOTFOUND = 2, /* a named item (species, resonance, ...) does not exist */
     CP_ENOCONV = 3,   /* an iterative method did not converge */
     CP_ENOMEM = 4,    /* memory allocation failed */
-    CP_ENUMERIC = 5   /* a numerical routine (GSL, ODE, eigen solver) failed */
+    CP_ENUMERIC = 5,  /* a numerical routine (GSL, ODE, eigen solver) failed */
+    CP_ECANCELED = 6  /* stopped because the caller's cancel flag was set (Ctrl-C) */
 } cp_status;
+
+/* A cancel flag: long computations with a `_cancellable` variant take a pointer to one,
+ * poll it while they run and stop with CP_ECANCELED once it is non-zero (a signal handler
+ * may set it).  The caller owns it; NULL means never cancelled. */
+typedef volatile sig_atomic_t cp_cancel_flag;
 
 #define CP_ERROR_MESSAGE_SIZE 512
 

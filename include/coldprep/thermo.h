@@ -151,13 +151,16 @@ cp_status cp_thermo_tof(const cp_thermo_trap *trap, cp_statistics stat, double t
 
 /* ---- lattice plus harmonic envelope ------------------------------------------------- */
 
+/* Most bands per axis the lattice thermodynamics takes (the automatic choice stops here). */
+#define CP_THERMO_LATTICE_MAX_BANDS 32
+
 /* One axis of a separable cubic lattice: the single-particle band energies E_n(q), in
  * units of the recoil energy, of `bands` bands at `points` quasimomenta spread evenly over
  * half the Brillouin zone (q = (j + 1/2)/points in units of the lattice k, j = 0 ..
  * points-1; E(-q) = E(q)).  energy_er[j * bands + n] (the layout of
  * cp_lattice_band_energies); caller-owned. */
 typedef struct cp_thermo_band_table {
-    int bands;               /* in [1, 8] */
+    int bands;               /* in [1, CP_THERMO_LATTICE_MAX_BANDS] */
     int points;              /* in [4, 256] */
     const double *energy_er; /* bands * points finite values */
 } cp_thermo_band_table;
@@ -168,14 +171,16 @@ typedef struct cp_thermo_lattice {
     double recoil_energy;    /* E_r = hbar^2 k^2 / (2 m), J */
     double spacing;          /* lattice period d = lambda/2, m */
     double omega_envelope[3];/* envelope angular frequencies, rad/s */
-    int bins;                /* energy bins per band combination, in [8, 4096]; 0 = 96 */
+    int bins;                /* energy bins of the lowest band combination, in [8, 4096];
+                                0 = 96 */
 } cp_thermo_lattice;
 
 /* The ideal gas in the lattice in the local-density approximation for the envelope and
  * exactly in the band structure:
  *   N = A sum_b w_b f_{3/2}(beta (mu - e_b)),  A = (2 pi k_B T / (m omega_env^2))^{3/2}/d^3,
  * with f_{3/2} = F_{1/2} (fermions) or Li_{3/2} (bosons), the 3D band energies e_b = sum
- * of the three axes' energies histogrammed into bins of weight w_b (mean energy kept). */
+ * of the three axes' energies histogrammed into bins of weight w_b (mean energy kept),
+ * merged at the temperature into bins no wider than k_B T / 128. */
 typedef struct cp_thermo_lattice_result {
     double temperature;          /* K */
     double chemical_potential;   /* J, from the lattice potential minimum */
@@ -184,7 +189,17 @@ typedef struct cp_thermo_lattice_result {
     double peak_filling;         /* fermions: particles per site at the envelope centre
                                     (NaN for bosons, whose LDA centre diverges at T_c) */
     double condensed_fraction;   /* bosons: fraction in the lowest band state; else 0 */
+    double band_margin;          /* (E_cut - max(mu, e_min)) / k_B T: how far the first band
+                                    left out (bounded below by the top of the last band kept
+                                    on each axis) lies above the lowest state or mu */
+    int bands;                   /* bands per axis in the tables (most over the axes) */
+    int bands_needed;            /* bands per axis whose bottom lies within
+                                    CP_THERMO_LATTICE_MARGIN k_B T of max(mu, e_min) */
 } cp_thermo_lattice_result;
+
+/* Band margin (units of k_B T) the automatic band choice asks for: the weight left in the
+ * omitted bands is then below about e^-20 ~ 2e-9 of a kept band's. */
+#define CP_THERMO_LATTICE_MARGIN 20.0
 
 /* The state of N particles of mass m (trap->number, trap->mass; trap->omega unused) at
  * temperature T in the lattice. */
@@ -201,13 +216,58 @@ cp_status cp_thermo_match_lattice(const cp_thermo_trap *trap, cp_statistics stat
 /* Fill `lat` with the band tables of a cubic lattice from the band structure of
  * cp_lattice_band_energies (coldprep/lattice.h): depth_er[3] (E_r, each in
  * [0, 1e4]) along x, y, z of light of wavelength `wavelength` (m, [1e-8, 1e-3]), particle
- * mass `mass` (kg), the lowest `bands` bands (1..8) at `points` quasimomenta (4..256) per
- * half zone.  tables: caller-owned storage of 3 * bands * points doubles that lat's
- * tables point into.  Sets recoil_energy and spacing (lambda/2); leaves omega_envelope
- * and bins to the caller. */
+ * mass `mass` (kg), the lowest `bands` bands (1..CP_THERMO_LATTICE_MAX_BANDS) at `points`
+ * quasimomenta (4..256) per half zone.  tables: caller-owned storage of
+ * 3 * bands * points doubles that lat's tables point into.  Sets recoil_energy and
+ * spacing (lambda/2); leaves omega_envelope and bins to the caller. */
 cp_status cp_thermo_lattice_bands(const double depth_er[3], double wavelength, double mass,
                                   int bands, int points, double *tables,
                                   cp_thermo_lattice *lat, cp_error *err);
+
+/* A cubic lattice described by its depths, for the automatic band choice. */
+typedef struct cp_thermo_lattice_spec {
+    double depth_er[3];       /* V0 / E_r along x, y, z, [0, 1e4] */
+    double wavelength;        /* m, [1e-8, 1e-3]; spacing lambda/2 */
+    double omega_envelope[3]; /* envelope angular frequencies, rad/s */
+    int points;               /* quasimomenta per half zone, [4, 256]; 0 = 32 */
+    int bins;                 /* as cp_thermo_lattice.bins; 0 = 96 */
+} cp_thermo_lattice_spec;
+
+/* cp_thermo_lattice_state and cp_thermo_match_lattice with as many bands as k_B T needs:
+ * the band count grows (from the count the initial temperature needs, at least 2) until
+ * the band margin reaches CP_THERMO_LATTICE_MARGIN or the count reaches
+ * CP_THERMO_LATTICE_MAX_BANDS (then out->band_margin tells how short it fell; no error).
+ * out->bands is the count used.  The band tables are allocated and freed inside. */
+cp_status cp_thermo_lattice_state_auto(const cp_thermo_lattice_spec *spec,
+                                       const cp_thermo_trap *trap, cp_statistics stat,
+                                       double temperature, cp_thermo_lattice_result *out,
+                                       cp_error *err);
+cp_status cp_thermo_match_lattice_auto(const cp_thermo_trap *trap, cp_statistics stat,
+                                       double temperature, const cp_thermo_lattice_spec *spec,
+                                       cp_thermo_lattice_result *out, cp_error *err);
+
+/* Site occupation statistics in the atomic limit (tunnelling J << k_B T): each site is
+ * independent, with one orbital per band combination at the sum of the three axes' band
+ * means (the Wannier energies); the envelope enters in the local-density approximation,
+ * mu_local = mu - V(r).  Fermions (one component): at most one per orbital.  Bosons: the
+ * lowest orbital has the Bose-Hubbard on-site energy U n (n - 1)/2 (onsite_u in J, > 0;
+ * INFINITY = hard-core), the excited orbitals are ideal.  mu is solved so that the sites
+ * hold trap->number particles at temperature T (trap->omega unused). */
+typedef struct cp_thermo_filling_result {
+    double chemical_potential; /* J, from the lattice potential minimum */
+    double center_empty;       /* probability of 0 particles on the central site */
+    double center_single;      /* ... of exactly 1 */
+    double center_multiple;    /* ... of 2 or more */
+    double center_filling;     /* mean particles on the central site */
+    double sites_occupied;     /* sites with at least one particle */
+    double sites_single;       /* sites with exactly one */
+    double sites_multiple;     /* sites with two or more */
+    double single_fraction;    /* fraction of the particles alone on their site */
+} cp_thermo_filling_result;
+
+cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_thermo_trap *trap,
+                                    cp_statistics stat, double temperature, double onsite_u,
+                                    cp_thermo_filling_result *out, cp_error *err);
 
 #ifdef __cplusplus
 }

@@ -32,6 +32,12 @@ static const char *nonfinite_text(double v)
     return isnan(v) ? "NaN" : v > 0 ? "inf" : "-inf";
 }
 
+/* What is wrong with a non-finite number, in the house wording of core/check.c. */
+static const char *nonfinite_problem(double v)
+{
+    return isnan(v) ? "not a number" : "infinite";
+}
+
 /* Push the set {key = position} of a NULL-terminated key list, built once per list and kept
  * in the registry under the list's address (the lists are static arrays), so that
  * checking a key costs one table lookup instead of a string comparison per known key. */
@@ -127,8 +133,8 @@ void cpl_read_fields(lua_State *L, int idx, const char *fname, const char *what,
                           unit, luaL_typename(L, -1));
             values[i] = lua_tonumber(L, -1);
             if (!isfinite(values[i]))
-                cpl_error(L, fname, "%s field '%s' must be a finite number (%s), got %s", what,
-                          key, unit, nonfinite_text(values[i]));
+                cpl_error(L, fname, "%s %s %s %s is %s; allowed finite values (%s)", what, key,
+                          nonfinite_text(values[i]), unit, nonfinite_problem(values[i]), unit);
         }
         lua_pop(L, 1);
     }
@@ -150,8 +156,8 @@ static double to_finite(lua_State *L, const char *fname, const char *key, const 
                   luaL_typename(L, -1));
     double v = lua_tonumber(L, -1);
     if (!isfinite(v))
-        cpl_error(L, fname, "argument '%s' must be a finite number (%s), got %s", key, u,
-                  nonfinite_text(v));
+        cpl_error(L, fname, "%s %s %s is %s; allowed finite values (%s)", key,
+                  nonfinite_text(v), u, nonfinite_problem(v), u);
     return v;
 }
 
@@ -190,8 +196,8 @@ long cpl_opt_integer(lua_State *L, int arg, const char *fname, const char *key, 
         cpl_error(L, fname, "argument '%s' must be an integer in [%ld, %ld], got %s", key, lo,
                   hi, luaL_tolstring(L, -1, NULL));
     if (v < lo || v > hi)
-        cpl_error(L, fname, "argument '%s' = %lld is out of range; allowed [%ld, %ld]", key,
-                  (long long)v, lo, hi);
+        cpl_error(L, fname, "%s %lld is out of range; allowed [%ld, %ld]", key, (long long)v,
+                  lo, hi);
     lua_pop(L, 1);
     return (long)v;
 }
@@ -248,7 +254,7 @@ int cpl_option(lua_State *L, int arg, const char *fname, const char *key,
     if (!s)
         return cpl_error(L, fname, "missing argument '%s'; allowed %s", key,
                          lua_tostring(L, -1));
-    return cpl_error(L, fname, "argument '%s' = \"%s\" is not one of %s", key, s,
+    return cpl_error(L, fname, "%s \"%s\" is not allowed; allowed %s", key, s,
                      lua_tostring(L, -1));
 }
 
@@ -266,10 +272,14 @@ double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *k
     double *v = lua_newuserdatauv(L, (size_t)(len > 0 ? len : 1) * sizeof *v, 0);
     for (lua_Integer i = 1; i <= len; i++) {
         lua_geti(L, -2, i);
-        if (lua_type(L, -1) != LUA_TNUMBER || !isfinite(lua_tonumber(L, -1)))
-            cpl_error(L, fname, "argument '%s'[%lld] must be a finite number (%s), got %s", key,
-                      (long long)i, (unit && unit[0]) ? unit : "dimensionless",
-                      luaL_tolstring(L, -1, NULL));
+        const char *u = (unit && unit[0]) ? unit : "dimensionless";
+        if (lua_type(L, -1) != LUA_TNUMBER)
+            cpl_error(L, fname, "argument '%s'[%lld] must be a number (%s), got %s", key,
+                      (long long)i, u, luaL_typename(L, -1));
+        if (!isfinite(lua_tonumber(L, -1)))
+            cpl_error(L, fname, "%s[%lld] %s %s is %s; allowed finite values (%s)", key,
+                      (long long)i, nonfinite_text(lua_tonumber(L, -1)), u,
+                      nonfinite_problem(lua_tonumber(L, -1)), u);
         v[i - 1] = lua_tonumber(L, -1);
         lua_pop(L, 1);
     }
@@ -287,8 +297,8 @@ static double trap_omega(lua_State *L, int arg, const char *fname, const char *k
 {
     double w = cpl_number(L, arg, fname, key, "rad/s");
     if (!(w >= TRAP_OMEGA_MIN && w <= TRAP_OMEGA_MAX))
-        cpl_error(L, fname, "argument '%s' %g rad/s is out of range; allowed [%g, %g] rad/s",
-                  key, w, TRAP_OMEGA_MIN, TRAP_OMEGA_MAX);
+        cpl_error(L, fname, "%s %g rad/s is out of range; allowed [%g, %g] rad/s", key, w,
+                  TRAP_OMEGA_MIN, TRAP_OMEGA_MAX);
     return w;
 }
 
@@ -326,6 +336,18 @@ void cpl_set_boolean(lua_State *L, const char *key, int value)
     lua_setfield(L, -2, key);
 }
 
+void cpl_set_flags(lua_State *L, unsigned flags, const char *const names[])
+{
+    lua_newtable(L);
+    lua_Integer n = 0;
+    for (unsigned i = 0; names[i]; i++)
+        if (flags & (1u << i)) {
+            lua_pushstring(L, names[i]);
+            lua_rawseti(L, -2, ++n);
+        }
+    lua_setfield(L, -2, "flags");
+}
+
 void cpl_set_integer(lua_State *L, const char *key, lua_Integer value)
 {
     lua_pushinteger(L, value);
@@ -339,4 +361,12 @@ void cpl_push_array(lua_State *L, const double *values, size_t n)
         lua_pushnumber(L, values[i]);
         lua_rawseti(L, -2, (lua_Integer)i + 1);
     }
+}
+
+const cp_cancel_flag *cpl_cancel_flag(lua_State *L)
+{
+    lua_getfield(L, LUA_REGISTRYINDEX, CPL_CANCEL_KEY);
+    const cp_cancel_flag *flag = lua_touserdata(L, -1);
+    lua_pop(L, 1);
+    return flag;
 }

@@ -67,6 +67,13 @@ void cpl_trap_frequencies(lua_State *L, int arg, const char *fname, const char *
 /* Raise err->message as a Lua error (never returns). */
 int cpl_raise(lua_State *L, const cp_error *err);
 
+/* The cancel flag the host program registered for this state (the coldprep executable
+ * registers the one its Ctrl-C handler sets), or NULL: long computations pass it to the
+ * core's _cancellable functions.  The host stores a light userdata under the registry
+ * key CPL_CANCEL_KEY. */
+#define CPL_CANCEL_KEY "coldprep.cancel"
+const cp_cancel_flag *cpl_cancel_flag(lua_State *L);
+
 /* Raise a formatted error prefixed with "fname: " (never returns). */
 int cpl_error(lua_State *L, const char *fname, const char *fmt, ...);
 
@@ -75,6 +82,11 @@ void cpl_set_number(lua_State *L, const char *key, double value);
 void cpl_set_string(lua_State *L, const char *key, const char *value);
 void cpl_set_boolean(lua_State *L, const char *key, int value);
 void cpl_set_integer(lua_State *L, const char *key, lua_Integer value);
+
+/* Set t.flags on the table at the top of the stack to the list of names[i] for every bit
+ * 1 << i set in `flags` (names NULL-terminated): the validity flags of a model result, an
+ * empty list when every estimate is inside its range. */
+void cpl_set_flags(lua_State *L, unsigned flags, const char *const names[]);
 
 /* Push a Lua array of n numbers. */
 void cpl_push_array(lua_State *L, const double *values, size_t n);

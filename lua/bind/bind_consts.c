@@ -24,7 +24,11 @@ int cpl_open_consts(lua_State *L)
     for (size_t i = 0; i < sizeof table / sizeof table[0]; i++)
         cpl_set_number(L, table[i].name, table[i].value);
     /* consts.limits: the shared input limits of coldprep/limits.h, for the Lua library */
-    lua_createtable(L, 0, 4);
+    lua_createtable(L, 0, 7);
+    cpl_set_number(L, "min_beam_power", CP_MIN_BEAM_POWER);
+    cpl_set_number(L, "max_beam_power", CP_MAX_BEAM_POWER);
+    cpl_set_number(L, "min_c6_au", CP_MIN_C6_AU);
+    cpl_set_number(L, "min_duration", CP_MIN_DURATION);
     cpl_set_number(L, "min_temperature", CP_MIN_TEMPERATURE);
     cpl_set_number(L, "max_temperature", CP_MAX_TEMPERATURE);
     cpl_set_number(L, "min_trap_omega", CP_MIN_TRAP_OMEGA);

@@ -19,6 +19,7 @@
 #include "coldprep/thermo.h"
 #include "help.h"
 #include "memo.h"
+#include "species_lookup.h"
 
 int cpl_open_feshbach(lua_State *L);
 
@@ -34,20 +35,6 @@ static void cloud_key(const cp_feshbach_cloud *c, double *k)
     k[4] = c->omega[1];
     k[5] = c->omega[2];
     k[6] = c->scattering_length;
-}
-
-/* Call cp.species.<fn>(value at idx) and leave the result on the stack. */
-static void species_call(lua_State *L, const char *fn, int idx)
-{
-    idx = lua_absindex(L, idx);
-    luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_LOADED_TABLE);
-    lua_getfield(L, -1, "coldprep");
-    lua_getfield(L, -1, "species");
-    lua_getfield(L, -1, fn);
-    lua_pushvalue(L, idx);
-    lua_call(L, 1, 1);
-    lua_replace(L, -4);
-    lua_pop(L, 2);
 }
 
 /* A number field of the table at idx: required (no default) or optional (dflt). */
@@ -67,8 +54,9 @@ static double field_number(lua_State *L, int idx, const char *fname, const char 
     double v = lua_tonumber(L, -1);
     lua_pop(L, 1);
     if (!isfinite(v))
-        cpl_error(L, fname, "%s field '%s' must be a finite number (%s), got %g", tname, key,
-                  unit, v);
+        cpl_error(L, fname, "%s %s %s %s is %s; allowed finite values (%s)", tname, key,
+                  isnan(v) ? "NaN" : v > 0 ? "inf" : "-inf", unit,
+                  isnan(v) ? "not a number" : "infinite", unit);
     return v;
 }
 
@@ -85,7 +73,7 @@ static void read_resonance(lua_State *L, const char *fname, int need_c6,
     double v[5];
     int t = lua_getfield(L, 1, "resonance");
     if (t == LUA_TSTRING) {
-        species_call(L, "resonance", -1);
+        cpl_push_first_resonance(L, -1);
         lua_remove(L, -2);
     } else if (t != LUA_TTABLE) {
         cpl_error(L, fname, "argument 'resonance' must be a table {b0, width, abg, dmu "
@@ -118,7 +106,7 @@ static void read_resonance(lua_State *L, const char *fname, int need_c6,
 static double atom_mass(lua_State *L, int idx, const char *fname)
 {
     if (lua_type(L, idx) == LUA_TSTRING) {
-        species_call(L, "atom", idx);
+        cpl_push_atom(L, idx);
         lua_replace(L, idx);
     }
     if (lua_type(L, idx) != LUA_TTABLE)
@@ -131,7 +119,7 @@ static double read_reduced_mass(lua_State *L, const char *fname)
 {
     int t = lua_getfield(L, 1, "molecule");
     if (t == LUA_TSTRING) {
-        species_call(L, "molecule", -1);
+        cpl_push_molecule(L, -1);
         lua_remove(L, -2);
     } else if (t != LUA_TTABLE) {
         cpl_error(L, fname, "argument 'molecule' must be a name or a table from "
@@ -192,6 +180,9 @@ static int l_binding_energy(lua_State *L)
         cpl_set_number(L, "abar", out.abar);
         cpl_set_number(L, "s_res", out.s_res);
     }
+    static const char *const flag_names[] = {"below_abar", "past_zero_crossing", "linear_broad",
+                                             NULL};
+    cpl_set_flags(L, out.flags, flag_names);
     return 1;
 }
 
@@ -215,7 +206,7 @@ static int l_associate(lua_State *L)
     if (isnan(ramp.alpha))
         ramp.alpha = 0.0; /* theory */
     else if (!(ramp.alpha > 0.0))
-        return cpl_error(L, fname, "argument 'alpha' = %g m^2/s is out of range; allowed "
+        return cpl_error(L, fname, "alpha %g m^2/s is out of range; allowed "
                          "(0, 1000] m^2/s", ramp.alpha);
     if (cp_feshbach_associate(&r, mu, &ramp, &eff, &delta, &err))
         return cpl_raise(L, &err);
@@ -240,7 +231,7 @@ static int l_ramp_law(lua_State *L)
     double pmax = cpl_opt_number(L, 1, fname, "max_efficiency", "", 1.0);
     double alpha = cpl_opt_number(L, 1, fname, "alpha", "m^2/s", 0.0);
     if (cpl_has(L, 1, "alpha") && !(alpha > 0.0 && alpha <= 1e3))
-        return cpl_error(L, fname, "argument 'alpha' = %g m^2/s is out of range; allowed "
+        return cpl_error(L, fname, "alpha %g m^2/s is out of range; allowed "
                          "(0, 1000] m^2/s", alpha);
     /* validate everything else through the single-rate call */
     cp_feshbach_ramp ramp = {1.0, density, alpha, pmax};
@@ -318,11 +309,12 @@ static int l_dissociation_energy(lua_State *L)
     return 1;
 }
 
-/* args[key] is a cloud table -> c.  Without a 'profile' the atom's statistics choose it:
- * a fermion is 'fermi'; a boson is 'bose' when quantum_default is set, else 'thermal'; a
- * cloud given by mass alone is 'thermal'.  t_over_tf / t_over_tc set the atom number. */
+/* args[key] is a cloud table -> c.  Without a 'profile' the atom's statistics choose it: a
+ * fermion is 'fermi', a boson 'bose'; a cloud given by mass alone is 'thermal'.  Without a
+ * 'scattering_length' an atom's own a_bb is used where it is positive (a condensate needs
+ * one).  t_over_tf / t_over_tc set the atom number. */
 static void read_cloud(lua_State *L, const char *fname, const char *key, double temperature,
-                       int quantum_default, cp_feshbach_cloud *c)
+                       cp_feshbach_cloud *c)
 {
     static const char *const known[] = {"atom", "mass", "number", "t_over_tf", "t_over_tc",
                                         "omega_x", "omega_y", "omega_z", "profile",
@@ -337,15 +329,17 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
     int t = lua_gettop(L);
     cpl_check_args(L, t, cname, known);
     const char *stats = NULL;
+    double a_bb = 0.0;
     if (cpl_has(L, t, "atom")) {
         lua_getfield(L, t, "atom");
         if (lua_type(L, -1) == LUA_TSTRING) {
-            species_call(L, "atom", -1);
+            cpl_push_atom(L, -1);
             lua_remove(L, -2);
         }
         if (!lua_istable(L, -1))
             cpl_error(L, cname, "field 'atom' must be an atom name or table");
         c->mass = field_number(L, -1, cname, "atom", "mass", "kg", 1, 0.0);
+        a_bb = field_number(L, -1, cname, "atom", "a_bb", "m", 0, 0.0);
         lua_getfield(L, -1, "statistics");
         stats = lua_tostring(L, -1);
         lua_pop(L, 1); /* the atom table keeps the string alive */
@@ -353,16 +347,15 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
         c->mass = cpl_number(L, t, cname, "mass", "kg");
     }
     int dflt = 0;
-    if (quantum_default && stats)
+    if (stats)
         dflt = strcmp(stats, "fermion") == 0 ? 1 : 2;
-    else if (stats && strcmp(stats, "fermion") == 0)
-        dflt = 1;
     c->profile = (cp_feshbach_profile)cpl_option(L, t, cname, "profile", profiles,
                                                  profiles[dflt]);
     c->omega[0] = cpl_number(L, t, cname, "omega_x", "rad/s");
     c->omega[1] = cpl_number(L, t, cname, "omega_y", "rad/s");
     c->omega[2] = cpl_number(L, t, cname, "omega_z", "rad/s");
-    c->scattering_length = cpl_opt_number(L, t, cname, "scattering_length", "m", 0.0);
+    c->scattering_length = cpl_opt_number(L, t, cname, "scattering_length", "m",
+                                          a_bb > 0.0 ? a_bb : 0.0);
     int has_n = cpl_has(L, t, "number"), has_f = cpl_has(L, t, "t_over_tf"),
         has_c = cpl_has(L, t, "t_over_tc");
     if (has_n + has_f + has_c != 1)
@@ -380,7 +373,7 @@ static void read_cloud(lua_State *L, const char *fname, const char *key, double 
                                                   : "'t_over_tf' for a Fermi gas");
         double x = cpl_number(L, t, cname, k, "");
         if (!(x > 0.0 && x <= 1e3))
-            cpl_error(L, cname, "argument '%s' = %g is out of range; allowed (0, 1000]", k, x);
+            cpl_error(L, cname, "%s %g is out of range; allowed (0, 1000]", k, x);
         if (!(temperature > 0.0))
             cpl_error(L, cname, "'%s' needs a positive 'temperature'", k);
         cp_error err;
@@ -400,8 +393,8 @@ static int l_overlap_density(lua_State *L)
     double n, sag;
     cpl_check_args(L, 1, fname, known);
     double temp = cpl_opt_number(L, 1, fname, "temperature", "K", 0.0);
-    read_cloud(L, fname, "a", temp, 0, &a);
-    read_cloud(L, fname, "b", temp, 0, &b);
+    read_cloud(L, fname, "a", temp, &a);
+    read_cloud(L, fname, "b", temp, &b);
     double key[2 + 2 * CLOUD_KEY] = {TAG_OVERLAP, temp}, res[2];
     cloud_key(&a, key + 2);
     cloud_key(&b, key + 2 + CLOUD_KEY);
@@ -429,8 +422,8 @@ static int l_max_efficiency(lua_State *L)
     double p, se;
     cpl_check_args(L, 1, fname, known);
     double temp = cpl_number(L, 1, fname, "temperature", "K");
-    read_cloud(L, fname, "a", temp, 1, &a);
-    read_cloud(L, fname, "b", temp, 1, &b);
+    read_cloud(L, fname, "a", temp, &a);
+    read_cloud(L, fname, "b", temp, &b);
     opts.gamma = cpl_opt_number(L, 1, fname, "gamma", "", 0.38);
     opts.samples = cpl_opt_integer(L, 1, fname, "samples", 20000, 100, 10000000);
     opts.seed = (unsigned long)cpl_opt_integer(L, 1, fname, "seed", 1, 0, 4294967295L);
@@ -441,7 +434,8 @@ static int l_max_efficiency(lua_State *L)
     cloud_key(&a, key + 6);
     cloud_key(&b, key + 6 + CLOUD_KEY);
     if (!cpl_memo_get(L, key, sizeof key / sizeof key[0], res, 2)) {
-        if (cp_feshbach_max_efficiency(&a, &b, temp, &opts, &p, &se, &err))
+        if (cp_feshbach_max_efficiency_cancellable(&a, &b, temp, &opts, &p, &se,
+                                                   cpl_cancel_flag(L), &err))
             return cpl_raise(L, &err);
         res[0] = p;
         res[1] = se;
@@ -477,10 +471,12 @@ static const cpl_function functions[] = {
      "  cp.feshbach.scattering_length{resonance = r, field = 546*cp.units.G}.a / cp.units.a0"},
     {"binding_energy", l_binding_energy,
      "feshbach.binding_energy{resonance, field (T), molecule [, model = 'auto', c6_au]}\n"
-     "  -> {energy (J), energy_hz (Hz), model, a (m), rstar (m), abar (m), s_res}\n"
+     "  -> {energy (J), energy_hz (Hz), model, a (m), rstar (m), abar (m), s_res, flags}\n"
      "Binding energy below the resonance (field < b0).  model: 'universal' hbar^2/(2 mu a^2),\n"
      "'corrected' hbar^2/(2 mu (a - abar)^2) (needs the atom-pair C6: resonance.c6_au or\n"
      "c6_au), 'linear' dmu |B - b0|, 'auto' (corrected where a > 2 abar + R*, else linear).\n"
+     "flags: validity flags, {} inside the range: 'below_abar' (0 < a < abar, no halo form\n"
+     "applies), 'past_zero_crossing' (a <= 0), 'linear_broad' (linear form at s_res >= 1).\n"
      "molecule: a name or cp.species.molecule table (for the reduced mass).  Example:\n"
      "  cp.feshbach.binding_energy{resonance = 'KRb', molecule = 'KRb',\n"
      "                             field = 546.4*cp.units.G}.energy_hz"},
@@ -528,9 +524,11 @@ static const cpl_function functions[] = {
      "(1/N_b) Int n_a n_b d^3r: the density of partner cloud a averaged over cloud b, with\n"
      "each cloud sagging by g/omega_z^2.  cloud = {atom = name or mass = kg, number or\n"
      "t_over_tf / t_over_tc, omega_x, omega_y, omega_z (rad/s) [, profile = 'thermal' |\n"
-     "'fermi' | 'thomas_fermi' (default: 'fermi' for a fermionic atom, else 'thermal'),\n"
-     "scattering_length (m, thomas_fermi)]}.  temperature is needed except for two\n"
-     "Thomas–Fermi clouds.  Example:\n"
+     "'fermi' | 'bose' | 'thomas_fermi' (default by the atom's statistics: 'fermi' or 'bose';\n"
+     "'thermal' for a cloud given by mass), scattering_length (m; default the atom's a_bb)]}.\n"
+     "'bose' below T_c: the ideal-gas condensed fraction as a Thomas–Fermi condensate set by\n"
+     "scattering_length (needed, > 0), the saturated thermal part around it.  temperature\n"
+     "is needed except for two Thomas–Fermi clouds.  Example:\n"
      "  w = 2*math.pi*100; c = {atom = '87Rb', number = 1e5, omega_x = w, omega_y = w,\n"
      "  omega_z = w, profile = 'thermal'}\n"
      "  cp.feshbach.overlap_density{a = c, b = c, temperature = 300e-9}.density"},
@@ -539,9 +537,10 @@ static const cpl_function functions[] = {
      "  samples = 20000, seed = 1, sag = true]} -> {max_efficiency, std_error}\n"
      "Phase-space ceiling P_max of association (stochastic phase-space sampling, Hodby et\n"
      "al. 2005): fraction of the minority cloud b that finds a partner of cloud a within a\n"
-     "relative phase-space cell gamma h^3.  Clouds as in overlap_density; profile defaults to\n"
-     "'fermi' / 'bose' by the atom's statistics ('thermal' = Boltzmann).  Deterministic for a\n"
-     "given seed.  Example: w = 2*math.pi*100\n"
+     "relative phase-space cell gamma h^3.  Clouds as in overlap_density ('thermal', 'fermi'\n"
+     "or 'bose').  A condensate is not counted in cells: a condensed minority atom pairs with\n"
+     "probability min(1, n_a,c/n_b,c), the local ratio of the condensate densities\n"
+     "(docs/models/feshbach.md).  Deterministic for a given seed.  Example: w = 2*math.pi*100\n"
      "  cp.feshbach.max_efficiency{temperature = 200e-9,\n"
      "  a = {atom = '87Rb', t_over_tc = 1.2, omega_x = w, omega_y = w, omega_z = w},\n"
      "  b = {atom = '40K', t_over_tf = 0.3, omega_x = w, omega_y = w, omega_z = w}}"},

@@ -13,6 +13,7 @@
 #include "args.h"
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
+#include "coldprep/species.h"
 #include "help.h"
 
 int cpl_open_lattice(lua_State *L);
@@ -56,7 +57,30 @@ static double read_polarizability(lua_State *L, int arg, const char *fname, cons
 
 static const char *const BEAM_KEYS[] = {"power",          "waist",        "wavelength",
                                         "polarizability_au", "polarizability", "polarizability_hz",
-                                        "reflectivity",   "angle",        NULL};
+                                        "species",        "reflectivity", "angle",
+                                        NULL};
+
+/* The polarizability of a beam: given under one of the polarizability keys, or else the
+ * built-in value of 'species' at the beam's wavelength (cp_species_polarizability, whose
+ * error asks for polarizability_au where there is none). */
+static double beam_polarizability(lua_State *L, int arg, const char *fname, double wavelength,
+                                  cp_polarizability_unit *unit)
+{
+    int given = cpl_has(L, arg, "polarizability_au") || cpl_has(L, arg, "polarizability") ||
+                cpl_has(L, arg, "polarizability_hz");
+    if (!cpl_has(L, arg, "species") || given) {
+        if (given && cpl_has(L, arg, "species"))
+            cpl_error(L, fname, "give either 'species' or a polarizability, not both");
+        return read_polarizability(L, arg, fname, "polarizability", unit);
+    }
+    const char *name = cpl_opt_string(L, arg, fname, "species", NULL);
+    double alpha;
+    cp_error err;
+    if (cp_species_polarizability(name, wavelength, &alpha, &err) != CP_OK)
+        cpl_error(L, fname, "%s", err.message);
+    *unit = CP_POLARIZABILITY_AU;
+    return alpha;
+}
 
 /* Read the beam fields from the table at arg (keys checked by the caller). */
 static cp_lattice_beam read_beam(lua_State *L, int arg, const char *fname)
@@ -65,7 +89,7 @@ static cp_lattice_beam read_beam(lua_State *L, int arg, const char *fname)
     b.power = cpl_number(L, arg, fname, "power", "W");
     b.waist = cpl_number(L, arg, fname, "waist", "m");
     b.wavelength = cpl_number(L, arg, fname, "wavelength", "m");
-    b.polarizability = read_polarizability(L, arg, fname, "polarizability", &b.unit);
+    b.polarizability = beam_polarizability(L, arg, fname, b.wavelength, &b.unit);
     b.reflectivity = cpl_opt_number(L, arg, fname, "reflectivity", "", 1.0);
     b.angle = cpl_opt_number(L, arg, fname, "angle", "rad", CP_PI);
     return b;
@@ -114,8 +138,8 @@ static int l_depth(lua_State *L)
 {
     static const char *const keys[] = {"power",          "waist",          "wavelength",
                                        "polarizability_au", "polarizability", "polarizability_hz",
-                                       "reflectivity",   "angle",          "mass",
-                                       NULL};
+                                       "species",        "reflectivity",   "angle",
+                                       "mass",           NULL};
     const char *fname = "lattice.depth";
     cpl_check_args(L, 1, fname, keys);
     cp_lattice_beam b = read_beam(L, 1, fname);
@@ -168,6 +192,20 @@ static int l_depth3d(lua_State *L)
     cpl_set_number(L, "omega_bar", r.omega_bar);
     cpl_set_number(L, "well_bottom", r.well_bottom);
     cpl_set_number(L, "sag", r.sag);
+    cp_lattice_gravity_result g;
+    if (cp_lattice_gravity(beams, m, gravity, &g, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_createtable(L, 0, 6);
+    lua_pushboolean(L, g.held);
+    lua_setfield(L, -2, "held");
+    cpl_set_number(L, "depth", g.depth);
+    cpl_set_number(L, "depth_no_gravity", g.depth_no_gravity);
+    cpl_set_number(L, "max_gravity", g.max_gravity);
+    if (g.held) {
+        cpl_set_number(L, "sag", g.sag);
+        cpl_set_number(L, "omega", g.omega);
+    }
+    lua_setfield(L, -2, "gravity");
     return 1;
 }
 
@@ -343,6 +381,9 @@ static int l_scattering_rate(lua_State *L)
     return 1;
 }
 
+/* Names of the CP_LATTICE_FLAG_* bits, in bit order. */
+static const char *const FLAG_NAMES[] = {"shallow", "beyond_first_order", NULL};
+
 static int l_heating(lua_State *L)
 {
     static const char *const keys[] = {"scattering_rate", "polarizability_imag_au",
@@ -375,6 +416,7 @@ static int l_heating(lua_State *L)
     cpl_set_number(L, "temperature_rate", r.temperature_rate);
     cpl_set_number(L, "band_excitation_rate", r.band_excitation_rate);
     cpl_set_number(L, "lamb_dicke", r.lamb_dicke);
+    cpl_set_flags(L, r.flags, FLAG_NAMES);
     return 1;
 }
 
@@ -482,6 +524,7 @@ static int l_loading(lua_State *L)
     cpl_set_number(L, "simple_criterion", res.simple_criterion);
     cpl_set_number(L, "excited_fraction", res.excited_fraction);
     cpl_set_integer(L, "basis_size", res.basis_size);
+    cpl_set_flags(L, res.flags, FLAG_NAMES);
     return 1;
 }
 
@@ -495,11 +538,13 @@ static const cpl_function functions[] = {
      "         wavelength = 1064*cp.units.nm}"},
     {"depth", l_depth,
      "lattice.depth{power, waist, wavelength, polarizability_au | polarizability |\n"
-     "              polarizability_hz [, reflectivity = 1] [, angle = pi] [, mass]}\n"
+     "              polarizability_hz | species [, reflectivity = 1] [, angle = pi] [, mass]}\n"
      "Depth of the 1D lattice of a Gaussian beam (power W, waist m = 1/e^2 intensity radius,\n"
      "wavelength m) and its retro-reflection (reflectivity = return/incoming power) or a second\n"
      "beam crossing at full angle `angle` (rad; spacing lambda/(2 sin(angle/2))).  The real\n"
-     "polarizability in atomic units, in C m^2/V, or in Hz/(W/cm^2); > 0 (red-detuned).\n"
+     "polarizability in atomic units, in C m^2/V, or in Hz/(W/cm^2); > 0 (red-detuned); or\n"
+     "species = a name whose polarizability is built in at this wavelength\n"
+     "(cp.species.polarizability: 1064 nm for Na, K, Rb, Cs; else an error asks for it).\n"
      "V0 = 4 sqrt(reflectivity) Re(alpha) I0/(2 eps0 c), I0 = 2 P/(pi w^2).\n"
      "Returns {depth (J), depth_hz (V0/h), well_bottom (J), offset (J, barrier tops),\n"
      "spacing (m), peak_intensity (I0, W/m^2), polarizability (C m^2/V), rayleigh_range (m)};\n"
@@ -514,7 +559,10 @@ static const cpl_function functions[] = {
      "A 3D lattice from three orthogonal retro-reflected beams (each a table with the keys of\n"
      "lattice.depth except mass and angle).  Returns {axes = {x, y, z} (results of\n"
      "lattice.depth), omega = {wx, wy, wz} (envelope, rad/s), omega_bar (rad/s),\n"
-     "well_bottom (J), sag (m, along gravity_axis 'x', 'y' or 'z')}.\n"
+     "well_bottom (J), sag (m, along gravity_axis 'x', 'y' or 'z', harmonic: g/omega^2),\n"
+     "gravity = {held (boolean), sag (m, of the true minimum), omega (rad/s, envelope\n"
+     "frequency along gravity there), depth (J, barrier below the minimum minus the\n"
+     "minimum), depth_no_gravity (J), max_gravity (m/s^2, the most the envelope holds)}}.\n"
      "Example: local u = cp.units; local b = {power = 1*u.W, waist = 150*u.um,\n"
      "  wavelength = 1064*u.nm, polarizability_au = 1000}\n"
      "  cp.lattice.depth3d{beams = {b, b, b}, mass = cp.species.molecule('KRb').mass}"},
@@ -563,7 +611,8 @@ static const cpl_function functions[] = {
      "Heating by photon scattering in a retro-reflected lattice of depth depth_er: each\n"
      "photon adds 2 E_rec.  Returns {scattering_rate (1/s), energy_rate (J/s per particle),\n"
      "temperature_rate (K/s, 3D harmonic), band_excitation_rate (1/s, out of the lowest band\n"
-     "along the axis: Gamma eta^2/3), lamb_dicke}.\n"
+     "along the axis: Gamma eta^2/3), lamb_dicke, flags ({\"shallow\"} below 3 E_r, where\n"
+     "eta^2 > 0.3 and the band-excitation rate does not hold; else {})}.\n"
      "Example: cp.lattice.heating{scattering_rate = 0.1, mass = cp.species.molecule('KRb').mass,\n"
      "         wavelength = 1064*cp.units.nm,\n"
      "         depth_er = 30}"},
@@ -578,7 +627,8 @@ static const cpl_function functions[] = {
      "sampled `samples` times over [0, duration]).  Returns {max_adiabaticity (max of\n"
      "hbar |<2|dH/dt|0>|/(E2-E0)^2, << 1 is adiabatic), max_time (s), max_depth_er,\n"
      "simple_criterion (max hbar |dV0/dt|/(16 E_r^2)), excited_fraction (first-order\n"
-     "estimate, bands 3 and 5 at q = 0), basis_size}.\n"
+     "estimate, bands 3 and 5 at q = 0), basis_size, flags ({\"beyond_first_order\"} when\n"
+     "excited_fraction > 0.05, past first-order perturbation theory; else {})}.\n"
      "Example: cp.lattice.loading{end_er = 20, duration = 10*cp.units.ms,\n"
      "         mass = cp.species.molecule('KRb').mass, wavelength = 1064*cp.units.nm}"},
     {NULL, NULL, NULL}};

@@ -8,9 +8,19 @@
 
 int cpl_open_names(lua_State *L);
 
+/* The string argument i of fname, or a house error naming it. */
+static const char *name_arg(lua_State *L, int i, const char *fname)
+{
+    if (lua_type(L, i) != LUA_TSTRING)
+        luaL_error(L, "%s: argument %d must be a name (string), got %s", fname, i,
+                   luaL_typename(L, i));
+    return lua_tostring(L, i);
+}
+
 static int l_edit_distance(lua_State *L)
 {
-    size_t d = cp_edit_distance(luaL_checkstring(L, 1), luaL_checkstring(L, 2));
+    static const char fname[] = "names.edit_distance";
+    size_t d = cp_edit_distance(name_arg(L, 1, fname), name_arg(L, 2, fname));
     if (d == (size_t)-1)
         return luaL_error(L, "names.edit_distance: a name is longer than %d bytes",
                           CP_NAME_MAX_LEN);
@@ -23,13 +33,21 @@ static int l_closest(lua_State *L)
 {
     enum { MAX_NAMES = 256 };
     const char *names[MAX_NAMES];
-    const char *key = luaL_checkstring(L, 1);
-    luaL_checktype(L, 2, LUA_TTABLE);
-    lua_Integer n = luaL_len(L, 2);
-    luaL_argcheck(L, n <= MAX_NAMES, 2, "at most 256 names");
+    static const char fname[] = "names.closest";
+    const char *key = name_arg(L, 1, fname);
+    if (!lua_istable(L, 2))
+        return luaL_error(L, "%s: argument 2 must be a list of names, got %s", fname,
+                          luaL_typename(L, 2));
+    lua_Integer n = (lua_Integer)lua_rawlen(L, 2);
+    if (n > MAX_NAMES)
+        return luaL_error(L, "%s: argument 2 has %lld names; allowed at most %d", fname,
+                          (long long)n, MAX_NAMES);
     for (lua_Integer i = 1; i <= n; i++) {
-        lua_rawgeti(L, 2, i); /* the string stays referenced by the table */
-        names[i - 1] = luaL_checkstring(L, -1);
+        /* the string stays referenced by the table */
+        if (lua_rawgeti(L, 2, i) != LUA_TSTRING)
+            return luaL_error(L, "%s: argument 2 entry %lld must be a name (string), got %s",
+                              fname, (long long)i, luaL_typename(L, -1));
+        names[i - 1] = lua_tostring(L, -1);
         lua_pop(L, 1);
     }
     const char *best = cp_closest_name(key, names, (size_t)n);

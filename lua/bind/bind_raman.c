@@ -94,7 +94,7 @@ static int l_transfer(lua_State *L)
     p.estimates = cpl_opt_boolean(L, 1, fname, "estimates", 1);
     long ntrace = cpl_opt_integer(L, 1, fname, "trace", 0, 0, 100000);
     if (ntrace == 1)
-        cpl_error(L, fname, "argument 'trace' = 1 is out of range; allowed 0 (none) or 2 to "
+        cpl_error(L, fname, "trace 1 is out of range; allowed 0 (none) or 2 to "
                   "100000 samples");
     cp_raman_trace tr = {.n = (size_t)ntrace};
     if (ntrace) {
@@ -131,6 +131,9 @@ static int l_transfer(lua_State *L)
     }
     cpl_set_number(L, "t_start", r.t_start);
     cpl_set_number(L, "t_end", r.t_end);
+    cpl_set_number(L, "transfer_duration", r.transfer_duration);
+    static const char *const flag_names[] = {"estimates_detuned", NULL};
+    cpl_set_flags(L, r.flags, flag_names);
     cpl_set_integer(L, "steps", (lua_Integer)r.steps);
     cpl_set_string(L, "integrator", r.integrator);
     if (ntrace) {
@@ -173,7 +176,8 @@ static int l_lineshape(lua_State *L)
     }
     double *eff = new_array(L, n), *lost = new_array(L, n);
     cp_error err;
-    if (cp_raman_scan(&p, (cp_raman_scan_variable)var, values, n, threads, eff, lost, &err) !=
+    if (cp_raman_scan_cancellable(&p, (cp_raman_scan_variable)var, values, n, threads, eff,
+                                  lost, cpl_cancel_flag(L), &err) !=
         CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 4);
@@ -200,7 +204,8 @@ static int l_lineshape(lua_State *L)
     "  shape = \"gaussian\" | \"sin2\" | \"sampled\"; sampled: times (s, increasing, >= 3),\n" \
     "           pump, stokes (rad/s at those times; Steffen interpolation, 0 outside)\n"      \
     "  branching_initial = 0, branching_target = 0  fractions of the |2> decay into |1>, |3>\n" \
-    "  gamma_initial = 0, gamma_target = 0  slow loss rates of |1>, |3> (1/s)\n"          \
+    "  gamma_initial = 0, gamma_target = 0  slow loss rates of |1>, |3> (1/s), acting over the\n" \
+    "           transfer duration |delay| + 2 width (sampled: the sample span)\n"           \
     "  accuracy = 1e-8  absolute accuracy asked of the final populations (1e-12 to 1e-3)\n"
 
 static const cpl_function functions[] = {
@@ -216,8 +221,10 @@ static const cpl_function functions[] = {
      "  nonadiabatic_exponent} (closed forms; the last two, the Dykhne-Davis-Pechukas loss\n"
      "  4p(1-p), p = exp(-nonadiabatic_exponent), only for Gaussian pulses with delay >= width\n"
      "  and detuning = two_photon_detuning = 0; these three only with estimates = true),\n"
-     "  t_start, t_end (s), steps, integrator (\"dopri5\" or \"msbdf\"),\n"
-     "  trace = {time, initial, excited, target, lost,\n"
+     "  flags = {\"estimates_detuned\"} when decay_loss and dephasing_loss are outside their\n"
+     "  range (|delta| overlap_time > 0.5 or |Delta| > max(gamma, Omega_rms)), else {} (always\n"
+     "  {} with estimates = false), transfer_duration (s), t_start, t_end (s), steps,\n"
+     "  integrator (\"dopri5\" or \"msbdf\"), trace = {time, initial, excited, target, lost,\n"
      "  coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if trace)}.\n"
      "Example: cp.raman.transfer{rabi_pump = 2*math.pi*5*cp.units.MHz,\n"
      "  rabi_stokes = 2*math.pi*5*cp.units.MHz, width = 2*cp.units.us, delay = 2.4*cp.units.us,\n"

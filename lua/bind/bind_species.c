@@ -1,15 +1,24 @@
 /*
- * Lua binding: coldprep.species over the built-in tables (core/species.c).  The
- * user-added species live in the Lua-side library (lua/coldprep/species.lua), which wraps
- * these functions; the raw C lookups are published as species.builtin_*.
+ * Lua binding: coldprep.species over the built-in tables (core/species.c) and their
+ * provenance (core/species_sources.c), and the lookup other bindings use
+ * (species_lookup.h).  The user-added species are kept in registry tables this file
+ * creates (species.builtin_user_tables) and the Lua-side library (lua/coldprep/species.lua)
+ * fills; the raw C lookups are published as species.builtin_*.  A value with no data is
+ * left out of the record (nil).
  */
+#include <ctype.h>
+#include <math.h>
+#include <string.h>
+
 #include <lauxlib.h>
 #include <lua.h>
 
 #include "args.h"
 #include "coldprep/consts.h"
 #include "coldprep/species.h"
+#include "coldprep/species_sources.h"
 #include "help.h"
+#include "species_lookup.h"
 
 int cpl_open_species(lua_State *L);
 
@@ -18,9 +27,16 @@ static const char *statistics_name(cp_statistics s)
     return s == CP_FERMION ? "fermion" : "boson";
 }
 
+/* Set t[key] = v when v is a number, leave it nil when the table has no data (NaN). */
+static void set_known(lua_State *L, const char *key, double v)
+{
+    if (isfinite(v))
+        cpl_set_number(L, key, v);
+}
+
 static void push_atom(lua_State *L, const cp_atom *a)
 {
-    lua_createtable(L, 0, 9);
+    lua_createtable(L, 0, 12);
     cpl_set_string(L, "kind", "atom");
     cpl_set_string(L, "name", a->name);
     cpl_set_string(L, "symbol", a->symbol);
@@ -30,12 +46,16 @@ static void push_atom(lua_State *L, const cp_atom *a)
     cpl_set_number(L, "mass_u", a->mass_u);
     cpl_set_number(L, "nuclear_spin", a->nuclear_spin);
     cpl_set_string(L, "statistics", statistics_name(cp_atom_statistics(a)));
+    set_known(L, "pol_1064_au", a->pol_1064_au);
+    set_known(L, "pol_1550_au", a->pol_1550_au);
     cpl_set_string(L, "source", a->source);
+    cpl_set_number(L, "a_bb", a->a_bb);
+    cpl_set_string(L, "a_bb_source", a->a_bb_source);
 }
 
 static void push_molecule(lua_State *L, const cp_molecule *m)
 {
-    lua_createtable(L, 0, 13);
+    lua_createtable(L, 0, 19);
     cpl_set_string(L, "kind", "molecule");
     cpl_set_string(L, "name", m->name);
     lua_createtable(L, 2, 0);
@@ -55,6 +75,13 @@ static void push_molecule(lua_State *L, const cp_molecule *m)
     cpl_set_number(L, "rot_const_hz", m->rot_const_hz);
     cpl_set_number(L, "c6_au", m->c6_au);
     cpl_set_boolean(L, "reactive", m->reactive);
+    set_known(L, "pol_1064_au", m->pol_1064_au);
+    set_known(L, "pol_1064_par_au", m->pol_1064_par_au);
+    set_known(L, "pol_1064_perp_au", m->pol_1064_perp_au);
+    set_known(L, "pol_1550_au", m->pol_1550_au);
+    set_known(L, "loss_rate", m->loss_rate);
+    if (isfinite(m->loss_rate))
+        set_known(L, "loss_temperature", m->loss_temperature);
     cpl_set_string(L, "source", m->source);
 }
 
@@ -107,6 +134,126 @@ static int l_resonance(lua_State *L)
     return 1;
 }
 
+/* ---- the user-added species of this Lua state ------------------------------------------ */
+
+static const char USER_KEY[] = "coldprep.species.user";
+
+/* Push the registry table of user-added "atoms", "molecules" or "resonances" (created on
+ * first use): atoms and molecules keyed by the normalised name, resonances by the
+ * molecule's name, each a list. */
+static void push_user_table(lua_State *L, const char *which)
+{
+    luaL_getsubtable(L, LUA_REGISTRYINDEX, USER_KEY);
+    luaL_getsubtable(L, -1, which);
+    lua_remove(L, -2);
+}
+
+/* species.builtin_user_tables() -> atoms, molecules, resonances: the tables the Lua
+ * library fills with cp.species.add_*. */
+static int l_user_tables(lua_State *L)
+{
+    push_user_table(L, "atoms");
+    push_user_table(L, "molecules");
+    push_user_table(L, "resonances");
+    return 3;
+}
+
+/* The key user entries are filed under: lower case without '-', '_' or spaces (as the
+ * Lua library files them). */
+static void normalised(const char *name, char *out, size_t size)
+{
+    size_t n = 0;
+    for (; *name && n + 1 < size; name++)
+        if (*name != '-' && *name != '_' && *name != ' ')
+            out[n++] = (char)tolower((unsigned char)*name);
+    out[n] = '\0';
+}
+
+/* Push the user entry of `which` named by the string at idx, or return 0 (nothing pushed). */
+static int push_user_entry(lua_State *L, const char *which, int idx)
+{
+    char key[128];
+    normalised(lua_tostring(L, idx), key, sizeof key);
+    push_user_table(L, which);
+    if (lua_getfield(L, -1, key) == LUA_TTABLE) {
+        lua_remove(L, -2);
+        return 1;
+    }
+    lua_pop(L, 2);
+    return 0;
+}
+
+/* Raise the core's not-found message, with the names the user added appended. */
+static int not_found(lua_State *L, const cp_error *err)
+{
+    luaL_Buffer b;
+    luaL_buffinit(L, &b);
+    luaL_addstring(&b, err->message);
+    const char *sep = "; user-added: ";
+    for (int k = 0; k < 2; k++) {
+        push_user_table(L, k == 0 ? "atoms" : "molecules");
+        lua_pushnil(L);
+        while (lua_next(L, -2)) {
+            if (lua_istable(L, -1) && lua_getfield(L, -1, "name") == LUA_TSTRING) {
+                lua_pushstring(L, sep);
+                luaL_addvalue(&b);
+                lua_pushvalue(L, -1);
+                luaL_addvalue(&b);
+                sep = ", ";
+            }
+            lua_pop(L, 2);
+        }
+        lua_pop(L, 1);
+    }
+    luaL_pushresult(&b);
+    return lua_error(L);
+}
+
+void cpl_push_atom(lua_State *L, int idx)
+{
+    idx = lua_absindex(L, idx);
+    if (push_user_entry(L, "atoms", idx))
+        return;
+    const cp_atom *a;
+    cp_error err;
+    if (cp_species_atom(lua_tostring(L, idx), &a, &err) != CP_OK)
+        not_found(L, &err);
+    push_atom(L, a);
+}
+
+void cpl_push_molecule(lua_State *L, int idx)
+{
+    idx = lua_absindex(L, idx);
+    if (push_user_entry(L, "molecules", idx))
+        return;
+    const cp_molecule *m;
+    cp_error err;
+    if (cp_species_molecule(lua_tostring(L, idx), &m, &err) != CP_OK)
+        not_found(L, &err);
+    push_molecule(L, m);
+}
+
+void cpl_push_first_resonance(lua_State *L, int idx)
+{
+    cpl_push_molecule(L, idx);
+    lua_getfield(L, -1, "name");
+    const char *name = lua_tostring(L, -1);
+    const cp_resonance *r;
+    if (cp_species_resonance(name, 0, &r, NULL) == CP_OK) {
+        push_resonance(L, r);
+    } else {
+        push_user_table(L, "resonances");
+        if (lua_getfield(L, -1, name) != LUA_TTABLE || lua_rawgeti(L, -1, 1) != LUA_TTABLE)
+            luaL_error(L, "species.resonance: no Feshbach resonance is known for %s; add one "
+                       "with cp.species.add_resonance{molecule = \"%s\", b0 = ..., width = ..., "
+                       "abg = ..., dmu = ...}", name, name);
+        lua_replace(L, -3); /* the resonance replaces the user table */
+        lua_pop(L, 1);
+    }
+    lua_replace(L, -3); /* drop the molecule and its name */
+    lua_pop(L, 1);
+}
+
 static int l_list(lua_State *L)
 {
     size_t na = cp_species_atom_count(), nm = cp_species_molecule_count();
@@ -131,13 +278,87 @@ static int l_suggest(lua_State *L)
     return 1;
 }
 
+static const char *status_name(cp_data_status s)
+{
+    return s == CP_DATA_MEASURED ? "measured" : s == CP_DATA_CALCULATED ? "calculated" : "estimated";
+}
+
+static void set_optional_string(lua_State *L, const char *key, const char *v)
+{
+    if (v)
+        cpl_set_string(L, key, v);
+}
+
+/* One provenance entry with its value and publication, as a table. */
+static void push_datum(lua_State *L, const cp_datum *d)
+{
+    double value;
+    const char *unit;
+    lua_createtable(L, 0, 10);
+    cpl_set_string(L, "record", d->record);
+    cpl_set_string(L, "field", d->field);
+    if (cp_species_value(d->record, d->field, &value, &unit, NULL) == CP_OK) {
+        set_known(L, "value", value);
+        cpl_set_string(L, "unit", unit);
+    }
+    if (d->uncertainty > 0)
+        cpl_set_number(L, "uncertainty", d->uncertainty);
+    cpl_set_string(L, "status", status_name(d->status));
+    cpl_set_boolean(L, "verified", d->verified);
+    set_optional_string(L, "note", d->note);
+    const cp_reference *r = cp_species_reference(d->reference);
+    if (r) {
+        lua_createtable(L, 0, 8);
+        cpl_set_string(L, "key", r->key);
+        cpl_set_string(L, "authors", r->authors);
+        cpl_set_string(L, "journal", r->journal);
+        cpl_set_string(L, "volume", r->volume);
+        cpl_set_string(L, "page", r->page);
+        cpl_set_integer(L, "year", r->year);
+        set_optional_string(L, "doi", r->doi);
+        set_optional_string(L, "arxiv", r->arxiv);
+        lua_setfield(L, -2, "reference");
+    }
+}
+
+static int l_sources(lua_State *L)
+{
+    size_t n = cp_species_datum_count();
+    lua_createtable(L, (int)n, 0);
+    for (size_t i = 0; i < n; i++) {
+        push_datum(L, cp_species_datum_at(i));
+        lua_rawseti(L, -2, (lua_Integer)i + 1);
+    }
+    return 1;
+}
+
+static int l_polarizability(lua_State *L)
+{
+    const char *name = luaL_checkstring(L, 1);
+    double wavelength = luaL_checknumber(L, 2);
+    double alpha;
+    cp_error err;
+    if (cp_species_polarizability(name, wavelength, &alpha, &err) != CP_OK)
+        return cpl_raise(L, &err);
+    lua_pushnumber(L, alpha);
+    return 1;
+}
+
 static const cpl_function functions[] = {
     {"builtin_atom", l_atom, "species.builtin_atom(name): an atom from the built-in table only."},
     {"builtin_molecule", l_molecule,
      "species.builtin_molecule(name): a molecule from the built-in table only."},
     {"builtin_resonance", l_resonance,
      "species.builtin_resonance(molecule [, index]): a built-in Feshbach resonance."},
+    {"builtin_user_tables", l_user_tables,
+     "species.builtin_user_tables(): the registry tables of user-added atoms, molecules and "
+     "resonances."},
     {"builtin_list", l_list, "species.builtin_list(): names of the built-in atoms and molecules."},
+    {"builtin_sources", l_sources,
+     "species.builtin_sources(): every built-in value with its publication, status and check."},
+    {"builtin_polarizability", l_polarizability,
+     "species.builtin_polarizability(name, wavelength): built-in polarizability (a.u.) at 1064 "
+     "or 1550 nm."},
     {"builtin_suggest", l_suggest,
      "species.builtin_suggest(name): the built-in names closest to `name`, comma-separated."},
     {NULL, NULL, NULL}};

@@ -243,16 +243,17 @@ static int l_match_harmonic(lua_State *L)
 }
 
 /* Lattice arguments: depth_er (number or {x, y, z}), wavelength, envelope frequencies,
- * bands, points, bins.  The band tables live in a userdata left on the stack. */
+ * bands (omitted: chosen automatically), points, bins. */
 #define LATTICE_KEYS                                                                       \
     "depth_er", "wavelength", "envelope_omega_bar", "envelope_omega_x", "envelope_omega_y", \
         "envelope_omega_z", "bands", "points", "bins"
 
-static void read_lattice(lua_State *L, const char *fname, double mass, cp_thermo_lattice *lat)
+/* Reads the lattice arguments into spec; returns the fixed band count, or 0 when `bands`
+ * is not given (automatic choice). */
+static int read_lattice_spec(lua_State *L, const char *fname, cp_thermo_lattice_spec *spec)
 {
     static const char *const axes[3] = {"envelope_omega_x", "envelope_omega_y",
                                         "envelope_omega_z"};
-    double depth[3];
     if (lua_getfield(L, 1, "depth_er") == LUA_TTABLE) {
         lua_pop(L, 1);
         size_t n;
@@ -260,38 +261,83 @@ static void read_lattice(lua_State *L, const char *fname, double mass, cp_thermo
         if (n != 3)
             cpl_error(L, fname, "argument 'depth_er' must be one number or 3 numbers (E_r), "
                                 "got %zu", n);
-        memcpy(depth, d, sizeof depth);
+        memcpy(spec->depth_er, d, sizeof spec->depth_er);
         lua_pop(L, 1);
     } else {
         lua_pop(L, 1);
-        depth[0] = depth[1] = depth[2] = cpl_number(L, 1, fname, "depth_er", "E_r");
+        spec->depth_er[0] = spec->depth_er[1] = spec->depth_er[2] =
+            cpl_number(L, 1, fname, "depth_er", "E_r");
     }
-    double wavelength = cpl_number(L, 1, fname, "wavelength", "m");
-    cpl_trap_frequencies(L, 1, fname, "envelope_omega_bar", axes, lat->omega_envelope);
-    int bands = (int)cpl_opt_integer(L, 1, fname, "bands", 1, 1, 8);
-    int points = (int)cpl_opt_integer(L, 1, fname, "points", 32, 4, 256);
-    lat->bins = (int)cpl_opt_integer(L, 1, fname, "bins", 96, 8, 4096);
-    double *tables = lua_newuserdatauv(L, 3 * (size_t)bands * (size_t)points * sizeof(double), 0);
+    spec->wavelength = cpl_number(L, 1, fname, "wavelength", "m");
+    cpl_trap_frequencies(L, 1, fname, "envelope_omega_bar", axes, spec->omega_envelope);
+    int bands = cpl_has(L, 1, "bands")
+                    ? (int)cpl_opt_integer(L, 1, fname, "bands", 1, 1,
+                                           CP_THERMO_LATTICE_MAX_BANDS)
+                    : 0;
+    spec->points = (int)cpl_opt_integer(L, 1, fname, "points", 32, 4, 256);
+    spec->bins = (int)cpl_opt_integer(L, 1, fname, "bins", 96, 8, 4096);
+    return bands;
+}
+
+/* Band tables of `bands` bands for spec, in a userdata left on the stack. */
+static void lattice_tables(lua_State *L, const cp_thermo_lattice_spec *spec, double mass,
+                           int bands, cp_thermo_lattice *lat)
+{
+    double *tables =
+        lua_newuserdatauv(L, 3 * (size_t)bands * (size_t)spec->points * sizeof(double), 0);
     cp_error err;
-    if (cp_thermo_lattice_bands(depth, wavelength, mass, bands, points, tables, lat, &err) !=
-        CP_OK)
+    if (cp_thermo_lattice_bands(spec->depth_er, spec->wavelength, mass, bands, spec->points,
+                                tables, lat, &err) != CP_OK)
         cpl_raise(L, &err);
+    memcpy(lat->omega_envelope, spec->omega_envelope, sizeof lat->omega_envelope);
+    lat->bins = spec->bins;
 }
 
 static void push_lattice_result(lua_State *L, const cp_thermo_lattice_result *r,
-                                const cp_thermo_lattice *lat, cp_statistics stat)
+                                double recoil, cp_statistics stat)
 {
-    lua_createtable(L, 0, 8);
+    lua_createtable(L, 0, 11);
     cpl_set_number(L, "temperature", r->temperature);
-    cpl_set_number(L, "temperature_er", CP_KB * r->temperature / lat->recoil_energy);
+    cpl_set_number(L, "temperature_er", CP_KB * r->temperature / recoil);
     cpl_set_number(L, "chemical_potential", r->chemical_potential);
     cpl_set_number(L, "energy_per_particle", r->energy_per_particle);
     cpl_set_number(L, "entropy_per_particle", r->entropy_per_particle);
-    cpl_set_number(L, "recoil_energy", lat->recoil_energy);
+    cpl_set_number(L, "recoil_energy", recoil);
+    cpl_set_number(L, "band_margin", r->band_margin);
+    lua_pushinteger(L, r->bands);
+    lua_setfield(L, -2, "bands");
+    lua_pushinteger(L, r->bands_needed);
+    lua_setfield(L, -2, "bands_needed");
     if (stat == CP_FERMION)
         cpl_set_number(L, "peak_filling", r->peak_filling);
     else
         cpl_set_number(L, "condensed_fraction", r->condensed_fraction);
+}
+
+/* The lattice state (match = 0) or the entropy match (match = 1), with fixed or automatic
+ * bands. */
+static int lattice_run(lua_State *L, const char *fname, const cp_thermo_trap *trap,
+                       cp_statistics stat, double t, int match)
+{
+    cp_thermo_lattice_spec spec;
+    int bands = read_lattice_spec(L, fname, &spec);
+    cp_thermo_lattice_result r;
+    cp_error err;
+    cp_status st;
+    double recoil = CP_H * CP_H / (2.0 * trap->mass * spec.wavelength * spec.wavelength);
+    if (bands) {
+        cp_thermo_lattice lat;
+        lattice_tables(L, &spec, trap->mass, bands, &lat);
+        st = match ? cp_thermo_match_lattice(trap, stat, t, &lat, &r, &err)
+                   : cp_thermo_lattice_state(&lat, trap, stat, t, &r, &err);
+    } else {
+        st = match ? cp_thermo_match_lattice_auto(trap, stat, t, &spec, &r, &err)
+                   : cp_thermo_lattice_state_auto(&spec, trap, stat, t, &r, &err);
+    }
+    if (st != CP_OK)
+        return cpl_raise(L, &err);
+    push_lattice_result(L, &r, recoil, stat);
+    return 1;
 }
 
 static int l_lattice_state(lua_State *L)
@@ -306,14 +352,7 @@ static int l_lattice_state(lua_State *L)
     cp_thermo_trap_isotropic(&trap, number, 1.0, mass);
     cp_statistics stat = read_statistics(L, fname);
     double t = cpl_number(L, 1, fname, "temperature", "K");
-    cp_thermo_lattice lat;
-    read_lattice(L, fname, mass, &lat);
-    cp_thermo_lattice_result r;
-    cp_error err;
-    if (cp_thermo_lattice_state(&lat, &trap, stat, t, &r, &err) != CP_OK)
-        return cpl_raise(L, &err);
-    push_lattice_result(L, &r, &lat, stat);
-    return 1;
+    return lattice_run(L, fname, &trap, stat, t, 0);
 }
 
 static int l_match_lattice(lua_State *L)
@@ -326,13 +365,48 @@ static int l_match_lattice(lua_State *L)
     read_trap(L, fname, &trap);
     cp_statistics stat = read_statistics(L, fname);
     double t = cpl_number(L, 1, fname, "temperature", "K");
-    cp_thermo_lattice lat;
-    read_lattice(L, fname, trap.mass, &lat);
-    cp_thermo_lattice_result r;
+    return lattice_run(L, fname, &trap, stat, t, 1);
+}
+
+static int l_lattice_filling(lua_State *L)
+{
+    static const char *const keys[] = {"number", "mass", "statistics", "temperature",
+                                       "onsite_u", LATTICE_KEYS, NULL};
+    const char *fname = "thermo.lattice_filling";
+    cpl_check_args(L, 1, fname, keys);
+    cp_thermo_trap trap;
+    double number = cpl_number(L, 1, fname, "number", "");
+    double mass = cpl_number(L, 1, fname, "mass", "kg");
+    cp_thermo_trap_isotropic(&trap, number, 1.0, mass);
+    cp_statistics stat = read_statistics(L, fname);
+    double t = cpl_number(L, 1, fname, "temperature", "K");
+    double u = cpl_opt_number(L, 1, fname, "onsite_u", "J", INFINITY);
+    cp_thermo_lattice_spec spec;
+    int bands = read_lattice_spec(L, fname, &spec);
     cp_error err;
-    if (cp_thermo_match_lattice(&trap, stat, t, &lat, &r, &err) != CP_OK)
+    if (!bands) { /* the count the lattice state at T needs */
+        cp_thermo_lattice_result r;
+        if (cp_thermo_lattice_state_auto(&spec, &trap, stat, t, &r, &err) != CP_OK)
+            return cpl_raise(L, &err);
+        bands = r.bands;
+    }
+    cp_thermo_lattice lat;
+    lattice_tables(L, &spec, mass, bands, &lat);
+    cp_thermo_filling_result f;
+    if (cp_thermo_lattice_filling(&lat, &trap, stat, t, u, &f, &err) != CP_OK)
         return cpl_raise(L, &err);
-    push_lattice_result(L, &r, &lat, stat);
+    lua_createtable(L, 0, 10);
+    cpl_set_number(L, "chemical_potential", f.chemical_potential);
+    cpl_set_number(L, "center_empty", f.center_empty);
+    cpl_set_number(L, "center_single", f.center_single);
+    cpl_set_number(L, "center_multiple", f.center_multiple);
+    cpl_set_number(L, "center_filling", f.center_filling);
+    cpl_set_number(L, "sites_occupied", f.sites_occupied);
+    cpl_set_number(L, "sites_single", f.sites_single);
+    cpl_set_number(L, "sites_multiple", f.sites_multiple);
+    cpl_set_number(L, "single_fraction", f.single_fraction);
+    lua_pushinteger(L, bands);
+    lua_setfield(L, -2, "bands");
     return 1;
 }
 
@@ -407,25 +481,27 @@ static const cpl_function functions[] = {
      "statistics = \"fermion\", temperature = 100e-9, omega_bar_to = 1200}"},
     {"lattice_state", l_lattice_state,
      "thermo.lattice_state{number, mass, statistics, temperature, depth_er, wavelength, "
-     "envelope_omega_bar, bands = 1, points = 32, bins = 96}: ideal gas in a cubic lattice "
+     "envelope_omega_bar [, bands, points = 32, bins = 96]}: ideal gas in a cubic lattice "
      "(band structure from cp.lattice) with a harmonic envelope (local-density "
      "approximation).\n"
      "  number, mass (kg), statistics \"fermion\"|\"boson\", temperature (K)\n"
      "  depth_er    lattice depth in recoil energies, one number or {x, y, z}\n"
      "  wavelength  lattice light wavelength, m (spacing lambda/2)\n"
      "  envelope_omega_bar (or envelope_omega_x, _y, _z): envelope frequencies, rad/s\n"
-     "  bands       bands per axis kept, 1..8;  points: quasimomenta per half zone, 4..256;\n"
-     "  bins        energy bins per band combination, 8..4096\n"
+     "  bands       bands per axis kept, 1..32; omitted: as many as k_B T needs (the first\n"
+     "              band left out 20 k_B T above max(mu, lowest state)), at most 32\n"
+     "  points      quasimomenta per half zone, 4..256;  bins: bins of the lowest band, 8..4096\n"
      "Returns {temperature (K), temperature_er (k_B T / E_r), chemical_potential (J),\n"
      "  energy_per_particle (J), entropy_per_particle (k_B), recoil_energy (J), peak_filling\n"
-     "  (fermions: per site at the centre) or condensed_fraction (bosons)}; energies from\n"
-     "  the lattice potential minimum.\n"
+     "  (fermions: per site at the centre) or condensed_fraction (bosons), bands (used),\n"
+     "  bands_needed, band_margin (k_B T from max(mu, lowest state) to the first band left\n"
+     "  out; below 20 the tables are too short)}; energies from the lattice potential minimum.\n"
      "Example: cp.thermo.lattice_state{number = 2e4, mass = 2.1e-25, statistics = "
      "\"fermion\", temperature = 50e-9, depth_er = 20, wavelength = 1064e-9, "
      "envelope_omega_bar = 2*math.pi*60}"},
     {"match_lattice", l_match_lattice,
      "thermo.match_lattice{number, omega_bar, mass, statistics, temperature, depth_er, "
-     "wavelength, envelope_omega_bar, bands = 1, points = 32, bins = 96}: entropy matching "
+     "wavelength, envelope_omega_bar [, bands, points = 32, bins = 96]}: entropy matching "
      "from a harmonic trap into a lattice with a harmonic envelope (adiabatic loading).\n"
      TRAP_HELP
      "  statistics, temperature (initial, K), and the lattice arguments of "
@@ -434,11 +510,30 @@ static const cpl_function functions[] = {
      "Example: cp.thermo.match_lattice{number = 2e4, omega_bar = 2*math.pi*60, mass = "
      "2.1e-25, statistics = \"fermion\", temperature = 60e-9, depth_er = 20, wavelength = "
      "1064e-9, envelope_omega_bar = 2*math.pi*60}"},
+    {"lattice_filling", l_lattice_filling,
+     "thermo.lattice_filling{number, mass, statistics, temperature, depth_er, wavelength, "
+     "envelope_omega_bar [, onsite_u, bands, points, bins]}: site occupation "
+     "statistics in the atomic limit (tunnelling << k_B T; sites independent, one orbital "
+     "per band combination at the band means), envelope in the local-density "
+     "approximation.\n"
+     "  onsite_u    bosons: Hubbard U of the lowest orbital, J, > 0 (omitted: hard-core);\n"
+     "              fermions (one component) ignore it\n"
+     "  the other arguments as thermo.lattice_state (bands omitted: the count it chooses)\n"
+     "Returns {chemical_potential (J), center_empty, center_single, center_multiple\n"
+     "  (probabilities of 0, 1, 2+ on the central site), center_filling (mean there),\n"
+     "  sites_occupied, sites_single, sites_multiple (numbers of sites), single_fraction\n"
+     "  (particles alone on their site / N), bands}.\n"
+     "Example: cp.thermo.lattice_filling{number = 2e4, mass = 2.1e-25, statistics = "
+     "\"fermion\", temperature = 50e-9, depth_er = 40, wavelength = 1064e-9, "
+     "envelope_omega_bar = 2*math.pi*60}"},
     {NULL, NULL, NULL}};
 
 int cpl_open_thermo(lua_State *L)
 {
     lua_newtable(L);
     cpl_register(L, functions);
+    /* the band margin (k_B T) the automatic band choice asks for */
+    lua_pushnumber(L, CP_THERMO_LATTICE_MARGIN);
+    lua_setfield(L, -2, "lattice_margin");
     return 1;
 }

@@ -12,6 +12,7 @@
 
 #include "coldprep/status.h"
 #include "embedded_lua.h"
+#include "fileio.h"
 #include "help.h"
 
 #define CPL_BINDING(name) int cpl_open_##name(lua_State *L);
@@ -74,6 +75,8 @@ int luaopen_coldprep(lua_State *L)
         }
         lua_pop(L, 1);
     }
+    lua_pushcfunction(L, cpl_open_files);
+    lua_setfield(L, -2, "coldprep.files");
     lua_pop(L, 1);
 
     luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_LOADED_TABLE);

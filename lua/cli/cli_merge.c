@@ -6,6 +6,7 @@
  * points in order.  The result is written to OUT.tmp and renamed to OUT at the end.
  */
 #include <errno.h>
+#include <fcntl.h>
 #include <inttypes.h>
 #include <stdlib.h>
 #include <string.h>
@@ -13,6 +14,7 @@
 
 #include "cli.h"
 #include "cli_sweep.h"
+#include "fileio.h"
 
 static const char MERGE_USAGE[] =
     "usage: coldprep merge OUT SLICE...\n"
@@ -23,7 +25,10 @@ static const char MERGE_USAGE[] =
 /* The CSV header line of a file (bytes up to and including the first line end). */
 static char *read_header(const char *path, char *err, size_t errlen)
 {
-    FILE *f = fopen(path, "rb");
+    int fd = cpl_open_nofollow(path, O_RDONLY, 0);
+    FILE *f = fd >= 0 ? fdopen(fd, "rb") : NULL;
+    if (f == NULL && fd >= 0)
+        close(fd);
     if (f == NULL) {
         snprintf(err, errlen, "cannot open %s: %s", path, strerror(errno));
         return NULL;
@@ -83,6 +88,9 @@ static int copy_rows(FILE *dst, const char *path, long skip, char *err, size_t e
     return 0;
 }
 
+static int check_each(char **paths, int n, cpl_sweep_marker *marks, int *order,
+                      const char *header, const char *shape, char *err, size_t errlen);
+
 /* Check the slices against each other; fills order[k-1] = index into paths of slice k. */
 static int check_slices(char **paths, int n, cpl_sweep_marker *marks, int *order, char **header,
                         char *err, size_t errlen)
@@ -113,6 +121,30 @@ static int check_slices(char **paths, int n, cpl_sweep_marker *marks, int *order
     *header = read_header(paths[0], err, errlen);
     if (*header == NULL)
         return -1;
+    /* the shape every row must have: the CSV header, or the keys of slice 1's first row */
+    char *shape = *header;
+    if (strcmp(marks[0].format, "csv") != 0) {
+        size_t len = strlen(*header);
+        shape = malloc(len + 2);
+        if (shape != NULL && len == 0)
+            shape[0] = '\0'; /* slice 1 is empty (more slices than points): rows are only parsed */
+        else if (shape == NULL || cpl_row_keys(*header, len, shape, len + 2) != 0) {
+            snprintf(err, errlen, "%s does not start with a JSON Lines row of a sweep", paths[0]);
+            free(shape);
+            return -1;
+        }
+    }
+    int rc = check_each(paths, n, marks, order, *header, shape, err, errlen);
+    if (shape != *header)
+        free(shape);
+    return rc;
+}
+
+/* Check every slice against slice 1's marker, header and row shape. */
+static int check_each(char **paths, int n, cpl_sweep_marker *marks, int *order,
+                      const char *header, const char *shape, char *err, size_t errlen)
+{
+    int64_t shards = marks[0].shards;
     for (int i = 0; i < n; i++) {
         cpl_sweep_marker *m = &marks[i];
         if (m->shards != shards || m->points != marks[0].points
@@ -129,15 +161,15 @@ static int check_slices(char **paths, int n, cpl_sweep_marker *marks, int *order
         int64_t first, last, next;
         cpl_shard_range(m->points, m->shard, shards, &first, &last);
         off_t good_end, torn;
-        const char *h = strcmp(m->format, "csv") == 0 ? *header : "";
-        if (m->first != first || m->last != last
-            || cpl_sweep_scan(paths[i], m->format, h, first, &next, &good_end, &torn, err,
-                              errlen) != 0
-            || next != last + 1 || torn != 0) {
-            if (!err[0] || m->first != first || next != last + 1 || torn != 0)
-                snprintf(err, errlen, "%s should hold points %" PRId64 " to %" PRId64
-                         " (slice %" PRId64 " of %" PRId64 ") and does not", paths[i], first,
-                         last, m->shard, shards);
+        const char *h = strcmp(m->format, "csv") == 0 ? header : "";
+        int bad = m->first != first || m->last != last;
+        if (!bad && cpl_sweep_scan(paths[i], m->format, h, shape, first, &next, &good_end, &torn,
+                                   err, errlen) != 0)
+            return -1; /* its message says which row is wrong */
+        if (bad || next != last + 1 || torn != 0) {
+            snprintf(err, errlen, "%s should hold points %" PRId64 " to %" PRId64
+                     " (slice %" PRId64 " of %" PRId64 ") and does not", paths[i], first, last,
+                     m->shard, shards);
             return -1;
         }
     }
@@ -157,7 +189,8 @@ int cpl_merge_main(int argc, char **argv)
     const char *out = argv[1];
     int n = argc - 2;
     char **paths = argv + 2;
-    char err[8192] = "", tmp[4200];
+    char err[8400] = "", tmp[4200], lock[4200] = "";
+    int lfd = -1;
     cpl_sweep_marker *marks = calloc((size_t)n, sizeof *marks);
     int *order = calloc((size_t)n, sizeof *order);
     char *header = NULL;
@@ -168,18 +201,26 @@ int cpl_merge_main(int argc, char **argv)
         goto done;
     }
     for (int i = 0; i < n; i++) {
-        if (strcmp(paths[i], out) == 0) {
-            snprintf(err, sizeof err, "the output %s is also given as a slice", out);
+        /* the same file under another name (./m.csv, a link) counts too */
+        if (strcmp(paths[i], out) == 0 || cpl_same_file(paths[i], out)) {
+            snprintf(err, sizeof err, "the output %s is also given as a slice (%s)", out,
+                     paths[i]);
             goto done;
         }
     }
+    lfd = cpl_lock_take(out, lock, sizeof lock, err, sizeof err);
+    if (lfd < 0)
+        goto done;
     if (check_slices(paths, n, marks, order, &header, err, sizeof err) != 0)
         goto done;
     int csv = strcmp(marks[0].format, "csv") == 0;
     snprintf(tmp, sizeof tmp, "%s.tmp", out);
-    dst = fopen(tmp, "wb");
+    int tfd = cpl_create_temp(tmp);
+    dst = tfd >= 0 ? fdopen(tfd, "wb") : NULL;
     if (dst == NULL) {
         snprintf(err, sizeof err, "cannot write %s: %s", tmp, strerror(errno));
+        if (tfd >= 0)
+            close(tfd);
         goto done;
     }
     if (csv && fputs(header, dst) == EOF) {
@@ -212,6 +253,7 @@ done:
         fclose(dst);
         remove(tmp);
     }
+    cpl_lock_release(lfd, lock);
     if (rc != CPL_EXIT_OK)
         fprintf(stderr, "coldprep merge: %s\n", err);
     free(header);

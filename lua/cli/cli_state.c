@@ -12,8 +12,10 @@
 #include <lualib.h>
 #include <signal.h>
 #include <stdio.h>
+#include <stdint.h>
 #include <stdlib.h>
 
+#include "args.h"
 #include "cli.h"
 
 int luaopen_coldprep(lua_State *L);
@@ -193,6 +195,9 @@ void cpl_report(lua_State *L, const char *progname)
 
 static int open_everything(lua_State *L)
 {
+    /* long C computations poll this flag (lua/bind/args.h): the first Ctrl-C stops them */
+    lua_pushlightuserdata(L, (void *)(uintptr_t)&interrupt_pending);
+    lua_setfield(L, LUA_REGISTRYINDEX, CPL_CANCEL_KEY);
     luaL_openlibs(L);
     track_coroutines(L);
     luaL_requiref(L, "coldprep", luaopen_coldprep, 0);
@@ -205,18 +210,24 @@ static int open_everything(lua_State *L)
     return 0;
 }
 
-lua_State *cpl_new_state(void)
+lua_State *cpl_new_state_for(cpl_sandbox *sb)
 {
-    lua_State *L = luaL_newstate();
+    int sandboxed = sb != NULL && sb->on;
+    lua_State *L = sandboxed ? cpl_sandbox_newstate(sb) : luaL_newstate();
     if (L == NULL) {
         fprintf(stderr, "coldprep: cannot create a Lua state (out of memory)\n");
         return NULL;
     }
     lua_pushcfunction(L, open_everything);
-    if (lua_pcall(L, 0, 0, 0) != LUA_OK) {
+    if (lua_pcall(L, 0, 0, 0) != LUA_OK || (sandboxed && cpl_sandbox_enter(L, sb) != 0)) {
         cpl_report(L, "coldprep");
         lua_close(L);
         return NULL;
     }
     return L;
+}
+
+lua_State *cpl_new_state(void)
+{
+    return cpl_new_state_for(NULL);
 }

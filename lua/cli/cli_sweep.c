@@ -19,6 +19,7 @@
 
 #include "cli.h"
 #include "cli_sweep.h"
+#include "fileio.h"
 
 static const char SWEEP_USAGE[] =
     "usage: coldprep sweep FILE.lua [--jobs N] [--out PATH] [--resume] [--force]\n"
@@ -33,7 +34,13 @@ static const char SWEEP_USAGE[] =
     "  --force      overwrite an existing output file\n"
     "  --shard K/N  compute only slice K of N (output PATH gets .K-of-N before its\n"
     "               extension); without it, SLURM_ARRAY_TASK_ID/_COUNT or SGE_TASK_ID/\n"
-    "               _FIRST/_LAST/_STEPSIZE give the slice when set\n"
+    "               _FIRST/_LAST/_STEPSIZE give the slice when set (SGE_TASK_ID=undefined:\n"
+    "               none)\n"
+    "  --sandbox    run FILE as a file you do not trust (also when COLDPREP_SANDBOX=1):\n"
+    "               no os or io beyond reading its own directory, no native code, debug\n"
+    "               library or bytecode; each point capped in memory and time\n"
+    "  --max-memory MIB  memory cap of each worker's Lua state (default 1024)\n"
+    "  --max-time S      time cap of each point (default 600)\n"
     "Join slices with `coldprep merge OUT SLICES...`.  See docs/cli.md (Sweeps).\n";
 
 enum { MAX_JOBS = 1024 };
@@ -103,6 +110,10 @@ static int shard_from_env(int64_t *k, int64_t *n, char *err, size_t errlen)
             step = 1;
         *n = count;
     } else {
+        /* SGE and its successors set SGE_TASK_ID=undefined in jobs that are not arrays */
+        const char *sge = getenv("SGE_TASK_ID");
+        if (sge != NULL && strcmp(sge, "undefined") == 0)
+            return 0;
         have = env_int("SGE_TASK_ID", &id, err, errlen);
         if (have <= 0)
             return have;
@@ -156,12 +167,19 @@ typedef struct sweep_options {
     long jobs;
     int resume, force;
     int64_t shard, shards;
+    cpl_sandbox sandbox;
 } sweep_options;
 
 static int parse_options(int argc, char **argv, sweep_options *o)
 {
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
+        char err[256];
+        int sbo = cpl_sandbox_option(argc, argv, &i, &o->sandbox, err, sizeof err);
+        if (sbo < 0)
+            return usage(err, NULL);
+        if (sbo > 0)
+            continue;
         if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
             fputs(SWEEP_USAGE, stdout);
             return -1;
@@ -218,8 +236,8 @@ static int open_output(cpl_sweep_run *r, const sweep_options *o, int64_t first, 
     }
     if (exists && o->resume) {
         off_t good_end, torn;
-        if (cpl_sweep_scan(r->out, r->format, r->header, first, &r->next_write, &good_end, &torn,
-                           err, sizeof err) != 0) {
+        if (cpl_sweep_scan(r->out, r->format, r->header, r->shape, first, &r->next_write,
+                           &good_end, &torn, err, sizeof err) != 0) {
             fprintf(stderr, "coldprep sweep: cannot resume: %s\n", err);
             return -1;
         }
@@ -228,15 +246,20 @@ static int open_output(cpl_sweep_run *r, const sweep_options *o, int64_t first, 
                     r->out);
             return -1;
         }
-        if (cpl_journal_read(r->journal, r->format, r->next_write, r->last, &r->recovered,
-                             &r->nrecovered, err, sizeof err) != 0) {
+        size_t dropped;
+        if (cpl_journal_read(r->journal, r->format, r->shape, r->next_write, r->last,
+                             &r->recovered, &r->nrecovered, &dropped, err, sizeof err) != 0) {
             fprintf(stderr, "coldprep sweep: cannot resume: %s\n", err);
             return -1;
         }
-        r->fd = open(r->out, O_WRONLY | O_APPEND);
+        if (dropped > 0)
+            fprintf(stderr, "coldprep sweep: ignored %zu malformed rows of %s (their points are "
+                    "computed again)\n", dropped, r->journal);
+        r->fd = cpl_open_nofollow(r->out, O_WRONLY | O_APPEND, 0);
         if (r->fd < 0 || ftruncate(r->fd, good_end) != 0
             || (good_end == 0 && cpl_write_all(r->fd, r->header, strlen(r->header)) != 0)) {
-            fprintf(stderr, "coldprep sweep: cannot resume %s: %s\n", r->out, strerror(errno));
+            fprintf(stderr, "coldprep sweep: cannot resume %s: %s\n", r->out,
+                    errno == ELOOP ? "it is a symbolic link" : strerror(errno));
             return -1;
         }
         if (torn > 0)
@@ -248,9 +271,10 @@ static int open_output(cpl_sweep_run *r, const sweep_options *o, int64_t first, 
         *complete = r->next_write > r->last && stat(done, &st) == 0;
     } else {
         remove(done); /* before the old rows go: a marker must never outlive its file */
-        r->fd = open(r->out, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
+        r->fd = cpl_open_nofollow(r->out, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
         if (r->fd < 0 || cpl_write_all(r->fd, r->header, strlen(r->header)) != 0) {
-            fprintf(stderr, "coldprep sweep: cannot write %s: %s\n", r->out, strerror(errno));
+            fprintf(stderr, "coldprep sweep: cannot write %s: %s\n", r->out,
+                    errno == ELOOP ? "it is a symbolic link" : strerror(errno));
             return -1;
         }
     }
@@ -259,7 +283,7 @@ static int open_output(cpl_sweep_run *r, const sweep_options *o, int64_t first, 
      * the old journal with the same rows: never a truncated one. */
     char tmp[4300];
     snprintf(tmp, sizeof tmp, "%s.tmp", r->journal);
-    r->jfd = open(tmp, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
+    r->jfd = cpl_create_temp(tmp);
     int bad = r->jfd < 0;
     for (size_t i = 0; i < r->nrecovered && !bad; i++)
         bad = cpl_write_all(r->jfd, r->recovered[i].text, r->recovered[i].len) != 0;
@@ -283,40 +307,6 @@ static void close_output(cpl_sweep_run *r)
     free(r->recovered);
     r->recovered = NULL;
     r->nrecovered = 0;
-}
-
-/* Take the output's lock, PATH.lock, so that two sweeps never write one file (their rows
- * would interleave).  Returns the held descriptor, or -1 after printing why.  The inode
- * check guards against a lock file that a finishing sweep unlinked meanwhile. */
-static int lock_output(const char *out, char *lock, size_t size)
-{
-    snprintf(lock, size, "%s.lock", out);
-    for (;;) {
-        int fd = open(lock, O_RDWR | O_CREAT | O_CLOEXEC, 0644);
-        if (fd < 0) {
-            fprintf(stderr, "coldprep sweep: cannot create %s: %s\n", lock, strerror(errno));
-            return -1;
-        }
-        if (flock(fd, LOCK_EX | LOCK_NB) != 0) {
-            int busy = errno == EWOULDBLOCK;
-            fprintf(stderr, "coldprep sweep: %s%s%s\n",
-                    busy ? "another coldprep sweep is writing " : "cannot lock ",
-                    busy ? out : lock, busy ? "; wait for it to end or stop it first" : "");
-            close(fd);
-            return -1;
-        }
-        struct stat held, now;
-        if (fstat(fd, &held) == 0 && stat(lock, &now) == 0 && held.st_ino == now.st_ino &&
-            held.st_dev == now.st_dev)
-            return fd;
-        close(fd); /* the file was replaced between open and flock: take the new one */
-    }
-}
-
-static void unlock_output(int fd, const char *lock)
-{
-    unlink(lock);
-    close(fd);
 }
 
 static int run_sweep_locked(cpl_sweep_run *r, const sweep_options *o, int64_t shard,
@@ -386,18 +376,23 @@ static int run_sweep_locked(cpl_sweep_run *r, const sweep_options *o, int64_t sh
 
 static int run_sweep(cpl_sweep_run *r, const sweep_options *o, int64_t shard, int64_t shards)
 {
-    char lock[4200];
-    int lfd = lock_output(r->out, lock, sizeof lock);
-    if (lfd < 0)
+    /* PATH.lock keeps two writers (another coldprep sweep, a cp.sweep{out = PATH} in a
+     * script) off one file: their rows would interleave, or one would truncate the other's */
+    char lock[4200], err[8400];
+    int lfd = cpl_lock_take(r->out, lock, sizeof lock, err, sizeof err);
+    if (lfd < 0) {
+        fprintf(stderr, "coldprep sweep: %s\n", err);
         return CPL_EXIT_ERROR;
+    }
     int rc = run_sweep_locked(r, o, shard, shards);
-    unlock_output(lfd, lock);
+    cpl_lock_release(lfd, lock);
     return rc;
 }
 
 int cpl_sweep_main(int argc, char **argv)
 {
     sweep_options o = {.jobs = sysconf(_SC_NPROCESSORS_ONLN), .shard = 1, .shards = 1};
+    cpl_sandbox_defaults(&o.sandbox);
     if (o.jobs < 1)
         o.jobs = 1;
     if (o.jobs > MAX_JOBS)
@@ -414,27 +409,36 @@ int cpl_sweep_main(int argc, char **argv)
             return usage(err, NULL);
     }
 
-    lua_State *L = cpl_new_state();
+    /* in the sandbox the file may read its own directory only, and write nothing: the
+     * runner writes the output */
+    char dir[4096];
+    cpl_sandbox_dir(o.file, dir, sizeof dir);
+    o.sandbox.dir = dir;
+    lua_State *L = cpl_new_state_for(&o.sandbox);
     if (L == NULL)
         return CPL_EXIT_ERROR;
-    if (cpl_sweep_load(L, o.file, o.out, NULL) != 0) {
+    if (o.sandbox.on)
+        cpl_sandbox_arm(L);
+    int loaded = cpl_sweep_load(L, o.file, o.out, NULL);
+    if (o.sandbox.on)
+        cpl_sandbox_disarm(L);
+    if (loaded != 0) {
         cpl_report(L, "coldprep sweep");
         lua_close(L);
         return CPL_EXIT_ERROR;
     }
-    lua_getfield(L, -1, "count");
-    lua_getfield(L, -2, "header");
-    lua_getfield(L, -3, "format");
-    lua_getfield(L, -4, "out");
+    lua_getfield(L, -1, "shape");
+    lua_getfield(L, -2, "count");
+    lua_getfield(L, -3, "header");
+    lua_getfield(L, -4, "format");
+    lua_getfield(L, -5, "out");
     char out[4096], journal[4200];
     if (o.shards > 1)
         shard_path(lua_tostring(L, -1), o.shard, o.shards, out, sizeof out);
     else
         snprintf(out, sizeof out, "%s", lua_tostring(L, -1));
     snprintf(journal, sizeof journal, "%s.pending", out);
-    struct stat in_st, out_st;
-    if (stat(o.file, &in_st) == 0 && stat(out, &out_st) == 0 && in_st.st_dev == out_st.st_dev
-        && in_st.st_ino == out_st.st_ino) {
+    if (cpl_same_file(o.file, out)) {
         fprintf(stderr, "coldprep sweep: the output %s is the sweep file itself; give another "
                 "--out\n", out);
         lua_close(L);
@@ -442,7 +446,8 @@ int cpl_sweep_main(int argc, char **argv)
     }
     cpl_sweep_run r = {.file = o.file, .out = out, .journal = journal,
                        .count = lua_tointeger(L, -4), .header = lua_tostring(L, -3),
-                       .format = lua_tostring(L, -2), .fd = -1, .jfd = -1};
+                       .format = lua_tostring(L, -2), .shape = lua_tostring(L, -5),
+                       .sandbox = &o.sandbox, .fd = -1, .jfd = -1};
     int rc = run_sweep(&r, &o, o.shard, o.shards);
     lua_close(L);
     return rc;

@@ -33,12 +33,23 @@ typedef struct cpl_sweep_marker {
  * balanced slices; an empty slice has last = first - 1. */
 void cpl_shard_range(int64_t count, int64_t k, int64_t n, int64_t *first, int64_t *last);
 
+/* The shape of a row: for CSV the header line (rows have as many fields), for JSON Lines
+ * the keys as written, quoted and joined by commas ("point","x","error").  cpl_row_fits
+ * is 1 when row[0..len) (with its line end) is a well-formed row of that shape: CSV per
+ * RFC 4180 section 2 ending with CRLF, JSON one flat object with exactly those keys in
+ * order, ending with LF.  cpl_row_keys writes a JSON row's keys in that form to keys[size];
+ * 0, or -1 when the row is not such an object or keys is too small. */
+int cpl_row_fits(const char *row, size_t len, const char *format, const char *shape);
+int cpl_row_keys(const char *row, size_t len, char *keys, size_t size);
+
 /* Scan an existing sweep file: it must start with `header` (CSV; "" for JSON Lines) and
- * hold rows numbered first, first + 1, ...  On success *next is the next point to compute,
- * *good_end the byte offset just past the last complete row and *torn the number of
- * bytes of an incomplete last row after it.  Returns 0, or -1 with a message in err. */
-int cpl_sweep_scan(const char *path, const char *format, const char *header, int64_t first,
-                   int64_t *next, off_t *good_end, off_t *torn, char *err, size_t errlen);
+ * hold rows of `shape` numbered first, first + 1, ...  On success *next is the next point
+ * to compute, *good_end the byte offset just past the last complete row and *torn the
+ * number of bytes of an incomplete last row after it.  Neither the file nor the journal
+ * is read through a symbolic link.  Returns 0, or -1 with a message in err. */
+int cpl_sweep_scan(const char *path, const char *format, const char *header, const char *shape,
+                   int64_t first, int64_t *next, off_t *good_end, off_t *torn, char *err,
+                   size_t errlen);
 
 /* One finished row: its point number and its text (with its line end), malloc'd. */
 typedef struct cpl_row {
@@ -48,10 +59,13 @@ typedef struct cpl_row {
 } cpl_row;
 
 /* Read the complete rows of a journal PATH.pending whose points lie in [lo, hi], sorted by
- * point, duplicates dropped; an incomplete last row is ignored.  *rows is malloc'd (free
- * each text and the array); a missing file gives no rows.  0, or -1 with err. */
-int cpl_journal_read(const char *path, const char *format, int64_t lo, int64_t hi,
-                     cpl_row **rows, size_t *n, char *err, size_t errlen);
+ * point, duplicates dropped; an incomplete last row is ignored, and so are rows that are
+ * not of `shape` (counted in *dropped: their points are computed again).  *rows is
+ * malloc'd (free each text and the array); a missing file gives no rows.  0, or -1 with
+ * err. */
+int cpl_journal_read(const char *path, const char *format, const char *shape, int64_t lo,
+                     int64_t hi, cpl_row **rows, size_t *n, size_t *dropped, char *err,
+                     size_t errlen);
 
 /* Rows each worker may run ahead of the first row not yet written. */
 enum { CPL_SWEEP_WINDOW_PER_JOB = 64 };
@@ -61,7 +75,8 @@ enum { CPL_SWEEP_WINDOW_PER_JOB = 64 };
  * and holding exactly the recovered rows (journal_rows of them); the engine owns the
  * recovered rows' texts. */
 typedef struct cpl_sweep_run {
-    const char *file, *out, *journal, *format, *header;
+    const char *file, *out, *journal, *format, *header, *shape;
+    const struct cpl_sandbox *sandbox; /* the workers' caps and rules when sandbox->on */
     int64_t count, last, next_write; /* next_write: the first point not yet in the file */
     int fd, jfd;
     cpl_row *recovered;

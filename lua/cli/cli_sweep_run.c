@@ -24,6 +24,7 @@
 
 #include "cli.h"
 #include "cli_sweep.h"
+#include "fileio.h"
 
 enum { JOURNAL_COMPACT_FACTOR = 8 };
 
@@ -143,7 +144,7 @@ static int journal_rewrite(cpl_sweep_run *r)
 {
     char tmp[4200];
     snprintf(tmp, sizeof tmp, "%s.tmp", r->journal);
-    int fd = open(tmp, O_WRONLY | O_CREAT | O_TRUNC | O_APPEND, 0644);
+    int fd = cpl_create_temp(tmp);
     if (fd < 0)
         return -1;
     int bad = 0;
@@ -267,14 +268,15 @@ static int open_worker_libraries(lua_State *L)
 
 /* A worker's Lua state: the standard libraries and `cp`, as in scripts, but not built by
  * cpl_new_state, whose Ctrl-C machinery keeps process-wide records meant for the one
- * interactive thread (workers never see signals: the main thread takes them). */
-static lua_State *worker_state(void)
+ * interactive thread (workers never see signals: the main thread takes them).  In the
+ * sandbox (sb->on) the state has the caps of sb, which must outlive it. */
+static lua_State *worker_state(cpl_sandbox *sb)
 {
-    lua_State *L = luaL_newstate();
+    lua_State *L = sb->on ? cpl_sandbox_newstate(sb) : luaL_newstate();
     if (L == NULL)
         return NULL;
     lua_pushcfunction(L, open_worker_libraries);
-    if (lua_pcall(L, 0, 0, 0) != LUA_OK) {
+    if (lua_pcall(L, 0, 0, 0) != LUA_OK || (sb->on && cpl_sandbox_enter(L, sb) != 0)) {
         lua_close(L);
         return NULL;
     }
@@ -286,12 +288,20 @@ static void *worker(void *arg)
 {
     cpl_sweep_run *r = arg;
     char msg[1024];
-    lua_State *L = worker_state();
+    cpl_sandbox sb = {0};
+    if (r->sandbox != NULL)
+        sb = *r->sandbox;
+    lua_State *L = worker_state(&sb);
     if (L == NULL) {
         fail(r, "a worker could not create its Lua state (out of memory?)");
         goto out;
     }
-    if (cpl_sweep_load(L, r->file, r->out, r->format) != 0) {
+    if (sb.on)
+        cpl_sandbox_arm(L);
+    int loaded = cpl_sweep_load(L, r->file, r->out, r->format);
+    if (sb.on)
+        cpl_sandbox_disarm(L);
+    if (loaded != 0) {
         const char *why = lua_tostring(L, -1);
         snprintf(msg, sizeof msg, "%s", why ? why : "the sweep file raised a non-string error");
         fail(r, msg);
@@ -313,7 +323,12 @@ static void *worker(void *arg)
     while ((i = claim(r)) >= 0) {
         lua_pushvalue(L, row_fn);
         lua_pushinteger(L, i);
-        if (lua_pcall(L, 1, 1, 0) != LUA_OK) {
+        if (sb.on)
+            cpl_sandbox_arm(L); /* the time cap is per point */
+        int status = lua_pcall(L, 1, 1, 0);
+        if (sb.on)
+            cpl_sandbox_disarm(L);
+        if (status != LUA_OK) {
             snprintf(msg, sizeof msg, "point %" PRId64 ": %s", i,
                      lua_tostring(L, -1) ? lua_tostring(L, -1) : "(error object)");
             fail(r, msg);

@@ -16,8 +16,11 @@
  * and merge, cli_sweep.h). */
 static const cpl_command COMMANDS[] = {
     {"help", cpl_cmd_help, "help [NAME]", "print the help of NAME (e.g. cp.species.atom)"},
+    {"data", cpl_cmd_data, "data [SPECIES]",
+     "list the built-in species values with their publications and checks"},
     {"sweep", cpl_sweep_main, "sweep FILE.lua",
-     "run the sweep FILE.lua returns [--jobs N] [--out PATH] [--resume] [--shard K/N]"},
+     "run the sweep FILE.lua returns [--jobs N] [--out PATH] [--resume] [--shard K/N]\n"
+     "                 [--sandbox]"},
     {"merge", cpl_merge_main, "merge OUT SLICE...", "join the slices of a sharded sweep"},
     {NULL, NULL, NULL, NULL},
 };
@@ -36,6 +39,12 @@ static const char USAGE[] =
     "  -v, --version  print the version\n"
     "  --             stop option processing; the next word is FILE\n"
     "  -              as FILE: read the script from standard input\n"
+    "  --sandbox      run FILE as a file you do not trust: no os or io beyond reading\n"
+    "                 its own directory and writing the --allow-write paths, no native\n"
+    "                 code, debug library or bytecode, capped memory and time\n"
+    "  --allow-write PATH  let the sandboxed FILE write PATH (may be repeated)\n"
+    "  --max-memory MIB    the sandbox's memory cap (default 1024)\n"
+    "  --max-time S        the sandbox's time cap (default 600)\n"
     "\n"
     "The script sees its arguments in the global table `arg` (arg[0] = FILE) and as `...`.\n"
     "In scripts and the session, `cp` (also `coldprep`) is the library; help() lists it.\n"
@@ -89,10 +98,10 @@ static int run_code(lua_State *L, const char *code)
     return CPL_EXIT_OK;
 }
 
-static int run_script(lua_State *L, int argc, char **argv, int script)
+static int run_script(lua_State *L, int argc, char **argv, int script, int sandboxed)
 {
     const char *name = strcmp(argv[script], "-") == 0 ? NULL : argv[script];
-    int status = luaL_loadfile(L, name);
+    int status = sandboxed ? cpl_sandbox_loadfile(L, name) : luaL_loadfile(L, name);
     if (status == LUA_OK) {
         int nargs = argc - script - 1;
         if (!lua_checkstack(L, nargs + 1)) {
@@ -101,7 +110,13 @@ static int run_script(lua_State *L, int argc, char **argv, int script)
         }
         for (int i = script + 1; i < argc; i++)
             lua_pushstring(L, argv[i]);
+        if (sandboxed)
+            cpl_sandbox_arm(L);
         status = cpl_pcall(L, nargs, 0);
+    }
+    if (status == LUA_ERRMEM && sandboxed) {
+        lua_pop(L, 1);
+        lua_pushliteral(L, "sandbox: the file reached the memory cap (--max-memory)");
     }
     if (status != LUA_OK) {
         cpl_report(L, NULL);
@@ -119,10 +134,26 @@ int main(int argc, char **argv)
     }
 
     /* First pass: check the options, find the script. */
-    int interactive = 0, have_code = 0, script = 0;
+    int interactive = 0, have_code = 0, script = 0, nwritable = 0;
+    cpl_sandbox sb;
+    cpl_sandbox_defaults(&sb);
+    enum { MAX_WRITABLE = 64 };
+    const char *writable[MAX_WRITABLE];
     for (int i = 1; i < argc && !script; i++) {
         const char *a = argv[i];
-        if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
+        char err[256];
+        int sbo = cpl_sandbox_option(argc, argv, &i, &sb, err, sizeof err);
+        if (sbo < 0) {
+            return usage_error(err, NULL);
+        } else if (sbo > 0) {
+            continue;
+        } else if (strcmp(a, "--allow-write") == 0) {
+            if (++i >= argc)
+                return usage_error("option --allow-write needs a path", NULL);
+            if (nwritable == MAX_WRITABLE)
+                return usage_error("at most 64 --allow-write paths", NULL);
+            writable[nwritable++] = argv[i];
+        } else if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
             print_usage();
             return CPL_EXIT_OK;
         } else if (strcmp(a, "-v") == 0 || strcmp(a, "--version") == 0) {
@@ -145,7 +176,22 @@ int main(int argc, char **argv)
         }
     }
 
-    lua_State *L = cpl_new_state();
+    /* The sandbox runs one file and nothing typed beside it: its state is narrowed. */
+    char dir[4096];
+    if (sb.on && (!script || have_code || interactive)) {
+        return usage_error("--sandbox (or COLDPREP_SANDBOX=1) runs one FILE, without -e or -i",
+                           NULL);
+    }
+    if (sb.on) {
+        cpl_sandbox_dir(strcmp(argv[script], "-") == 0 ? NULL : argv[script], dir, sizeof dir);
+        sb.dir = dir;
+        sb.writable = writable;
+        sb.nwritable = nwritable;
+    } else if (nwritable > 0) {
+        return usage_error("--allow-write only means something with --sandbox", NULL);
+    }
+
+    lua_State *L = cpl_new_state_for(&sb);
     if (L == NULL)
         return CPL_EXIT_ERROR;
     set_arg_table(L, argc, argv, script);
@@ -160,7 +206,7 @@ int main(int argc, char **argv)
             break;
     }
     if (rc == CPL_EXIT_OK && script)
-        rc = run_script(L, argc, argv, script);
+        rc = run_script(L, argc, argv, script, sb.on);
     if (rc == CPL_EXIT_OK && (interactive || (!script && !have_code)))
         rc = cpl_repl(L);
     lua_close(L);

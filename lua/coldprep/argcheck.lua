@@ -1,4 +1,5 @@
--- coldprep.argcheck: named-argument checks for the Lua-side library (species, plans, stages),
+-- coldprep.argcheck: named-argument checks for the Lua-side library (species, plans, stages,
+-- sweeps, optimisation, uncertainty, plots),
 -- with the same messages as the C readers in lua/bind/args.c:
 --   "stages.transfer: missing argument 'width' (s)",
 --   "stages.hold: unknown argument 'duraton' (did you mean 'duration'?)".
@@ -54,10 +55,11 @@ function M.number(fname, args, key, unit, opt)
     fail(fname, "argument '%s' must be a number (%s), got %s", key, u, type(v))
   end
   if not finite(v) then
-    fail(fname, "argument '%s' must be a finite number (%s), got %s", key, u, tostring(v))
+    fail(fname, "%s %s %s is %s; allowed finite values (%s)", key, v ~= v and "NaN" or tostring(v),
+      u, v ~= v and "not a number" or "infinite", u)
   end
   local function range(allowed)
-    fail(fname, "argument '%s' = %g %s is out of range; allowed %s", key, v, u, allowed)
+    fail(fname, "%s %g %s is out of range; allowed %s", key, v, u, allowed)
   end
   if opt.positive and v <= 0 then range("(0, inf) " .. u) end
   if opt.nonnegative and v < 0 then range("[0, inf) " .. u) end
@@ -80,8 +82,7 @@ function M.option(fname, args, key, options, default)
   for _, o in ipairs(options) do
     if v == o then return v end
   end
-  fail(fname, "argument '%s' = %s is not allowed; use one of %s", key, tostring(v),
-    table.concat(options, ", "))
+  fail(fname, "%s %s is not allowed; allowed %s", key, tostring(v), table.concat(options, ", "))
 end
 
 -- The trap frequencies every model accepts (rad/s; the shared limits of coldprep/limits.h).
@@ -116,6 +117,60 @@ function M.func(fname, args, key)
     fail(fname, "argument '%s' must be a function, got %s", key, type(v))
   end
   return v
+end
+
+-- true for a number that is finite (not NaN, not an infinity)
+function M.is_finite(x)
+  return type(x) == "number" and finite(x)
+end
+local is_finite = M.is_finite
+
+-- An integer under key in [lo, hi] (dflt when absent).
+function M.integer(fname, t, key, dflt, lo, hi)
+  local v = t[key]
+  if v == nil and dflt ~= nil then return dflt end
+  if math.type(v) ~= "integer" and not (is_finite(v) and v == math.floor(v)) then
+    fail(fname, "argument '%s' must be an integer, got %s", key, tostring(v))
+  end
+  local iv = math.tointeger(v) -- nil for a whole float beyond the integers (1e300)
+  if iv == nil or iv < lo or iv > hi then
+    fail(fname, "%s %s is out of range; allowed [%d, %d]", key, tostring(v), lo, hi)
+  end
+  return iv
+end
+
+-- A value of Lua type `ty` under key (required unless dflt ~= nil).
+function M.typed(fname, t, key, ty, dflt)
+  local v = t[key]
+  if v == nil then
+    if dflt ~= nil then return dflt end
+    fail(fname, "missing argument '%s' (a %s)", key, ty)
+  end
+  if type(v) ~= ty then
+    fail(fname, "argument '%s' must be a %s, got %s", key, ty, type(v))
+  end
+  return v
+end
+
+-- A reader of one value of a result table: a dotted path "final.t_over_tf" (nil when a
+-- step of it is missing) or a function(result, p) used as it is.  `what` names the
+-- argument in the message for anything else.
+function M.result_getter(fname, what, spec)
+  if type(spec) == "function" then return spec end
+  if type(spec) ~= "string" then
+    fail(fname, "%s must be a result name (string) or a function(result, p), got %s", what,
+      type(spec))
+  end
+  local parts = {}
+  for part in spec:gmatch("[^.]+") do parts[#parts + 1] = part end
+  return function(result)
+    local v = result
+    for _, k in ipairs(parts) do
+      if type(v) ~= "table" then return nil end
+      v = v[k]
+    end
+    return v
+  end
 end
 
 return M

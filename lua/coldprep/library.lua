@@ -19,7 +19,8 @@ end
 
 -- A placeholder for the module coldprep.NAME at cp[name], loaded on first use.  A C binding
 -- already there (cp.plot.render) is put back before the module runs, which extends it.
-local function on_first_use(name)
+-- callable: the module is called as a function (cp.sweep{...}).
+local function on_first_use(name, callable)
   local binding = rawget(cp, name)
   local function load()
     rawset(cp, name, binding)
@@ -31,13 +32,14 @@ local function on_first_use(name)
     __index = function(_, k) return load()[k] end,
     __newindex = function(_, k, v) load()[k] = v end,
     __pairs = function() return next, load(), nil end,
-    __call = function(_, ...) return load()(...) end, -- cp.sweep{...}
+    __call = callable and function(_, ...) return load()(...) end or nil,
     __load = load,
   })
 end
 
-for _, name in ipairs { "sweep", "optimize", "uncertainty", "plot" } do
-  cp[name] = on_first_use(name)
-end
+cp.sweep = on_first_use("sweep", true)
+cp.optimize = on_first_use("optimize", true)
+cp.uncertainty = on_first_use("uncertainty", true)
+cp.plot = on_first_use("plot", false)
 
 return cp

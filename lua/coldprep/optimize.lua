@@ -12,7 +12,7 @@
 --  * Restarts: Nelder-Mead can stall; the search is restarted from its best point until a
 --    restart improves the objective by less than the tolerance (common practice, no source).
 local cp = require "coldprep"
-local named = require "coldprep.named"
+local A = require "coldprep.argcheck"
 
 local M = {}
 
@@ -20,29 +20,29 @@ local function logistic(u) return 1 / (1 + math.exp(-u)) end
 
 local function parse_parameters(fname, list)
   if type(list) ~= "table" or #list == 0 then
-    named.fail(fname, "parameters must be a non-empty list of {name = ..., min = ..., max = ...}")
+    A.fail(fname, "parameters must be a non-empty list of {name = ..., min = ..., max = ...}")
   end
   local params, seen = {}, {}
   for i, spec in ipairs(list) do
-    if type(spec) ~= "table" then named.fail(fname, "parameters[%d] must be a table", i) end
-    named.check(fname, spec, { "name", "min", "max", "start", "scale" })
+    if type(spec) ~= "table" then A.fail(fname, "parameters[%d] must be a table", i) end
+    A.table(fname, spec, { "name", "min", "max", "start", "scale" })
     local name = spec.name
     if type(name) ~= "string" or name == "" or seen[name] then
-      named.fail(fname, "parameters[%d] needs a unique name, got %s", i, tostring(name))
+      A.fail(fname, "parameters[%d] needs a unique name, got %s", i, tostring(name))
     end
     seen[name] = true
-    local lo, hi = named.number(fname, spec, "min"), named.number(fname, spec, "max")
-    local scale = named.option(fname, spec, "scale", { "linear", "log" }, "linear")
+    local lo, hi = A.number(fname, spec, "min", "SI units"), A.number(fname, spec, "max", "SI units")
+    local scale = A.option(fname, spec, "scale", { "linear", "log" }, "linear")
     if not (hi > lo) then
-      named.fail(fname, "parameter '%s': max %s must be larger than min %s", name, hi, lo)
+      A.fail(fname, "parameter '%s': max %s must be larger than min %s", name, hi, lo)
     end
     if scale == "log" and lo <= 0 then
-      named.fail(fname, "parameter '%s': a logarithmic scale needs min > 0, got %s", name, lo)
+      A.fail(fname, "parameter '%s': a logarithmic scale needs min > 0, got %s", name, lo)
     end
-    local start = named.number(fname, spec, "start",
-      scale == "log" and math.sqrt(lo * hi) or (lo + hi) / 2)
+    local start = A.number(fname, spec, "start", "SI units",
+      { optional = true, default = scale == "log" and math.sqrt(lo * hi) or (lo + hi) / 2 })
     if start < lo or start > hi then
-      named.fail(fname, "parameter '%s': start %s is outside [%s, %s]", name, start, lo, hi)
+      A.fail(fname, "parameter '%s': start %s is outside [%s, %s]", name, start, lo, hi)
     end
     local a, b = lo, hi
     if scale == "log" then a, b = math.log(lo), math.log(hi) end
@@ -66,18 +66,18 @@ end
 local function parse_constraints(fname, list)
   local out = {}
   if list == nil then return out end
-  if type(list) ~= "table" then named.fail(fname, "constraints must be a list") end
+  if type(list) ~= "table" then A.fail(fname, "constraints must be a list") end
   for i, c in ipairs(list) do
-    if type(c) ~= "table" then named.fail(fname, "constraints[%d] must be a table", i) end
-    named.check(fname, c, { "output", "min", "max" })
+    if type(c) ~= "table" then A.fail(fname, "constraints[%d] must be a table", i) end
+    A.table(fname, c, { "output", "min", "max" })
     if c.min == nil and c.max == nil then
-      named.fail(fname, "constraints[%d] needs min or max", i)
+      A.fail(fname, "constraints[%d] needs min or max", i)
     end
     out[i] = {
       label = type(c.output) == "string" and c.output or ("constraint " .. i),
-      get = named.result_getter(fname, string.format("constraints[%d].output", i), c.output),
-      min = c.min ~= nil and named.number(fname, c, "min") or nil,
-      max = c.max ~= nil and named.number(fname, c, "max") or nil,
+      get = A.result_getter(fname, string.format("constraints[%d].output", i), c.output),
+      min = c.min ~= nil and A.number(fname, c, "min", "SI units") or nil,
+      max = c.max ~= nil and A.number(fname, c, "max", "SI units") or nil,
     }
   end
   return out
@@ -90,17 +90,19 @@ end
 
 local function optimize(args)
   local fname = "optimize"
-  named.check(fname, args, { "parameters", "evaluate", "merit", "goal", "constraints",
+  A.table(fname, args, { "parameters", "evaluate", "merit", "goal", "constraints",
     "tolerance", "max_evaluations", "penalty" })
   local params = parse_parameters(fname, args.parameters)
-  local evaluate = named.typed(fname, args, "evaluate", "function")
-  local merit_of = args.merit ~= nil and named.result_getter(fname, "merit", args.merit) or nil
-  local goal = named.option(fname, args, "goal", { "max", "min" }, "max")
+  local evaluate = A.typed(fname, args, "evaluate", "function")
+  local merit_of = args.merit ~= nil and A.result_getter(fname, "merit", args.merit) or nil
+  local goal = A.option(fname, args, "goal", { "max", "min" }, "max")
   local sign = goal == "max" and 1 or -1
   local constraints = parse_constraints(fname, args.constraints)
-  local tol = named.number(fname, args, "tolerance", 1e-5, "positive")
-  local max_evals = named.integer(fname, args, "max_evaluations", 4000, 10, 100000000)
-  local penalty = named.number(fname, args, "penalty", 100, "positive")
+  local tol = A.number(fname, args, "tolerance", "SI units",
+    { optional = true, default = 1e-5, positive = true })
+  local max_evals = A.integer(fname, args, "max_evaluations", 4000, 10, 100000000)
+  local penalty = A.number(fname, args, "penalty", "SI units",
+    { optional = true, default = 100, positive = true })
 
   local function point_of(x)
     local p = {}
@@ -124,14 +126,14 @@ local function optimize(args)
     else
       merit = result
     end
-    if not named.is_finite(merit) then
+    if not A.is_finite(merit) then
       return { failed = "the merit is " .. tostring(merit) .. " (not a finite number)", p = p }
     end
     local violation, report = 0, {}
     for i, c in ipairs(constraints) do
       local v = c.get(result, p)
       local excess = math.huge
-      if named.is_finite(v) then
+      if A.is_finite(v) then
         excess = 0
         if c.max and v > c.max then excess = relative_excess(v, c.max, c.max) end
         if c.min and v < c.min then excess = relative_excess(c.min, v, c.min) end
@@ -215,7 +217,7 @@ local function optimize(args)
   end
 
   if not best.merit then
-    named.fail(fname, "no parameter set could be evaluated; the last failure: %s", best.failed)
+    A.fail(fname, "no parameter set could be evaluated; the last failure: %s", best.failed)
   end
   local out = { parameters = {}, merit = best.merit, result = best.result, feasible = best.feasible,
     constraints = best.constraints, evaluations = evaluations, iterations = iterations,

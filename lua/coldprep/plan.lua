@@ -14,6 +14,7 @@ local cp = require "coldprep"
 local A = require "coldprep.argcheck"
 local S = require "coldprep.sample"
 local report = require "coldprep.report"
+local common = require "coldprep.stage.common"
 
 local P = {}
 local Plan = {}
@@ -32,7 +33,7 @@ end
 
 -- ---- the start ------------------------------------------------------------------------
 
-local CLOUD_KEYS = { "atom", "number", "trap_frequencies", "beam_power" }
+local CLOUD_KEYS = { "atom", "number", "trap_frequencies", "beam_power", "scattering_length" }
 
 -- One atom cloud of the start at temperature T, checked; `where` is e.g.
 -- "plan: start.atoms[2]".
@@ -53,6 +54,10 @@ local function start_cloud(where, c, molecule, temperature)
     temperature = temperature,
     trap_frequencies = A.frequencies(where, c, "trap_frequencies"),
     beam_power = A.number(where, c, "beam_power", "W", { optional = true, positive = true }),
+    -- the atoms' own s-wave scattering length in the state and field of the plan; it sets
+    -- the size of a condensate (default: the atom's a_bb)
+    scattering_length = A.number(where, c, "scattering_length", "m",
+      { optional = true, default = atom.a_bb, min = -1e-6, max = 1e-6 }),
   }
   local ok, err = pcall(S.derive, cloud)
   if not ok then A.fail(where, "%s", plain(err)) end
@@ -147,68 +152,80 @@ local function check_mixture(before, after, who)
   end
 end
 
--- Run stages first..last on sample s; returns the list of {stage, before, after, info}
--- and the final sample.
+-- Run stages first..last on sample s; returns the list of {stage, before, after, info},
+-- the final sample and, when a stage's physics did not work out (common.fail), the
+-- failure {index, name, reason}: that stage hands on its input unchanged, marked failed,
+-- and the stages after it are not run.
 local function run_stages(self, s, first, last)
-  local steps = {}
+  local steps, failure = {}, nil
   for i = first, last do
     local st = self.stages[i]
     local before = s
     local after, info
-    if S.is_empty(before) then
+    local who = string.format("stage %d (%s)", i, st.name)
+    if failure then
+      after, info = S.copy(before), { duration = 0, skipped = true,
+        notes = { string.format("not run: stage %d (%s) failed", failure.index, failure.name) } }
+    elseif S.is_empty(before) then
       after, info = S.copy(before), { duration = 0, notes = { "not run: no particles left" }, skipped = true }
     else
-      local who = string.format("stage %d (%s)", i, st.name)
       local ok
       ok, after, info = pcall(st.run, st, S.copy(before))
-      if not ok then error(who .. ": " .. plain(after), 0) end
-      S.check(after, who)
-      -- the kind a stage hands on is the one the order check assumed
-      local want = st.produces or before.kind
-      if after.kind ~= want then
-        error(string.format("%s: sample field 'kind' = %s, but the stage declares that it hands on "
-          .. "%s (give produces = \"%s\" to cp.stages.custom)", who, after.kind, want, after.kind), 0)
-      end
-      info = info or {}
-      after.elapsed = before.elapsed + (info.duration or 0)
-      ok, info.error = pcall(function()
-        if after.kind == "atom-mixture" then
-          check_mixture(before, after, who)
-          -- a stage acting on a mixture changes the clouds; the followed fields follow them
-          for _, c in ipairs(after.atoms) do S.derive(c) end
-          S.follow(after, after.atoms[S.minority(after.atoms)])
-        else
-          S.derive(after)
+      local why = not ok and common.failure_reason(after)
+      if why then
+        failure = { index = i, name = st.name, reason = why }
+        after, info = S.copy(before), { duration = 0, failed = why,
+          notes = { "FAILED: " .. why .. "; the sample is shown as it entered this stage" } }
+      else
+        if not ok then error(who .. ": " .. plain(after), 0) end
+        S.check(after, who)
+        -- the kind a stage hands on is the one the order check assumed
+        local want = st.produces or before.kind
+        if after.kind ~= want then
+          error(string.format("%s: sample field 'kind' = %s, but the stage declares that it hands on "
+            .. "%s (give produces = \"%s\" to cp.stages.custom)", who, after.kind, want, after.kind), 0)
         end
-      end)
-      if not ok then
-        local msg = plain(info.error)
-        error(msg:find(who, 1, true) == 1 and msg
-          or string.format("%s: the sample it hands on is outside the thermodynamics model: %s", who, msg), 0)
-      end
-      info.error = nil
-      local sc = S.semiclassical_note(after)
-      if sc then
-        info.notes = info.notes or {}
-        info.notes[#info.notes + 1] = sc
-      end
-      if st.adiabatic and before.kind == after.kind
-        and after.entropy_per_particle < before.entropy_per_particle * (1 - 1e-6) then
-        -- an adiabatic change keeps the entropy per particle or adds to it, never lowers it
-        info.notes = info.notes or {}
-        table.insert(info.notes, 1, string.format("entropy per particle fell from %.4g to %.4g kB in a "
-          .. "stage declared adiabatic: it cannot", before.entropy_per_particle, after.entropy_per_particle))
-      end
-      if after.number > before.number * (1 + 1e-12) then
-        info.notes = info.notes or {}
-        table.insert(info.notes, 1, string.format("the number of particles rose by a factor %.3g: "
-          .. "check that this stage really adds particles", after.number / before.number))
+        info = info or {}
+        after.elapsed = before.elapsed + (info.duration or 0)
+        ok, info.error = pcall(function()
+          if after.kind == "atom-mixture" then
+            check_mixture(before, after, who)
+            -- a stage acting on a mixture changes the clouds; the followed fields follow them
+            for _, c in ipairs(after.atoms) do S.derive(c) end
+            S.follow(after, after.atoms[S.minority(after.atoms)])
+          else
+            S.derive(after)
+          end
+        end)
+        if not ok then
+          local msg = plain(info.error)
+          error(msg:find(who, 1, true) == 1 and msg
+            or string.format("%s: the sample it hands on is outside the thermodynamics model: %s", who, msg), 0)
+        end
+        info.error = nil
+        local sc = S.semiclassical_note(after)
+        if sc then
+          info.notes = info.notes or {}
+          info.notes[#info.notes + 1] = sc
+        end
+        if st.adiabatic and before.kind == after.kind
+          and after.entropy_per_particle < before.entropy_per_particle * (1 - 1e-6) then
+          -- an adiabatic change keeps the entropy per particle or adds to it, never lowers it
+          info.notes = info.notes or {}
+          table.insert(info.notes, 1, string.format("entropy per particle fell from %.4g to %.4g kB in a "
+            .. "stage declared adiabatic: it cannot", before.entropy_per_particle, after.entropy_per_particle))
+        end
+        if after.number > before.number * (1 + 1e-12) then
+          info.notes = info.notes or {}
+          table.insert(info.notes, 1, string.format("the number of particles rose by a factor %.3g: "
+            .. "check that this stage really adds particles", after.number / before.number))
+        end
       end
     end
     steps[#steps + 1] = { index = i, stage = st, before = before, after = after, info = info }
     s = after
   end
-  return steps, s
+  return steps, s, failure
 end
 
 -- Cloud `after` made better by a fraction d relative to `before`: a fraction d less of
@@ -246,12 +263,16 @@ local function improved(d)
   end
 end
 
--- The verdict on the final sample.
-local function verdict(self, final)
+-- The verdict on the final sample (not degenerate when a stage failed).
+local function verdict(self, final, failure)
   local stat = final.statistics
   local thr = self.threshold or DEFAULT_THRESHOLD[stat]
   local v = { threshold = thr, degeneracy_name = final.degeneracy_name, degeneracy = final.degeneracy }
-  if S.is_empty(final) then
+  if failure then
+    v.degenerate = false
+    v.text = string.format("not degenerate: stage %d (%s) failed: %s", failure.index,
+      failure.name, failure.reason)
+  elseif S.is_empty(final) then
     v.degenerate = false
     v.text = "not degenerate: no molecules survive the plan"
   else
@@ -279,7 +300,11 @@ local function limiting(self, steps, final)
       -- the stage's recorded outcome, made better, handed to the stages after it
       local ok, f = pcall(function()
         local better = improved(self.perturbation)(steps[i].before, steps[i].after)
-        return select(2, run_stages(self, better, i + 1, #steps))
+        local _, out, failure = run_stages(self, better, i + 1, #steps)
+        if failure then
+          error(string.format("stage %d (%s) failed: %s", failure.index, failure.name, failure.reason), 0)
+        end
+        return out
       end)
       if ok then
         entry.gain = (base > 0) and (f.trap_phase_space_density / base - 1) or f.trap_phase_space_density
@@ -297,9 +322,14 @@ local function limiting(self, steps, final)
   return ranking
 end
 
--- The plain-language reason for the verdict, naming the limiting stage.
-local function reason(self, steps, ranking, v, start, final)
+-- The plain-language reason for the verdict, naming the limiting stage (or the failed one).
+local function reason(self, steps, ranking, v, start, final, failure)
   local parts = {}
+  if failure then
+    return string.format("Stage %d (%s) failed: %s. The budget shows the sample as it entered "
+      .. "that stage; the stages after it were not run, and no stage is ranked.", failure.index,
+      failure.name, failure.reason)
+  end
   if S.is_empty(final) then
     parts[1] = "No molecules are left at the end of the plan."
   else
@@ -350,12 +380,12 @@ function Plan:run(opts)
       A.fail("plan:run", "argument 'limiting' must be true or false, got %s", type(opts.limiting))
     end
   end
-  local steps, final = run_stages(self, self.start, 1, #self.stages)
-  local v = verdict(self, final)
-  local ranking = (opts and opts.limiting == false) and {} or limiting(self, steps, final)
+  local steps, final, failure = run_stages(self, self.start, 1, #self.stages)
+  local v = verdict(self, final, failure)
+  local ranking = ((opts and opts.limiting == false) or failure) and {} or limiting(self, steps, final)
   return report.budget {
-    plan = self, start = self.start, steps = steps, final = final, verdict = v,
-    ranking = ranking, reason = reason(self, steps, ranking, v, self.start, final),
+    plan = self, start = self.start, steps = steps, final = final, verdict = v, failure = failure,
+    ranking = ranking, reason = reason(self, steps, ranking, v, self.start, final, failure),
   }
 end
 
@@ -375,12 +405,17 @@ start = {molecule = "23Na40K", temperature = 250*nK (K, both clouds in equilibri
            {atom = "23Na", number = 3e5, trap_frequencies = {wx, wy, wz}},
            {atom = "40K",  number = 1.5e5, trap_frequencies = {...}}}}
   trap_frequencies: angular, rad/s (one number = isotropic); optional beam_power (W) of
-  the trap beams, used only for the safety cautions.  Degeneracy of each cloud is computed.
+  the trap beams, used only for the safety cautions; optional scattering_length (m), the
+  atoms' own s-wave scattering length in the plan's state and field (default the atom's
+  a_bb, cp.species.atom): it sets the size of a condensate.  Degeneracy of each cloud is
+  computed.
 stages: a list built with cp.stages.* (help(cp.stages) lists them); the order is checked.
 threshold: the degeneracy threshold (default T/T_F <= 0.5 for fermionic molecules,
   T/T_c <= 1 for bosonic ones); perturbation: how much better a stage is made when
   looking for the limiting stage (fraction, default 0.1).
-plan:run() -> budget with stages, final, degenerate, verdict, limiting_stage, reason;
+plan:run() -> budget with stages, final, degenerate, verdict, limiting_stage, reason,
+  failed_stage (index of a stage whose physics did not work out, e.g. an evaporation that
+  never reaches its final temperature: marked failed, verdict "not degenerate");
   budget:print(), budget:write_csv(path), budget:write_json(path).  A full scenario:
   scripts/demo.lua and docs/planning.md.
 Example:
@@ -397,8 +432,10 @@ stage's outcome made `perturbation` better to find the limiting stage (limiting 
 skips that analysis, e.g. inside a sweep).
 budget.stages[i] = {name, number, temperature (K), t_over_tf | t_over_tc, peak_density (m^-3),
   phase_space_density, entropy_per_particle (kB), efficiency, cumulative_efficiency,
-  duration (s), elapsed (s), notes}; budget.final, budget.degenerate, budget.verdict,
-  budget.limiting_stage, budget.reason, budget.ranking ({index, name, gain [, failed]}).
+  duration (s), elapsed (s), failed, failure, flags, notes [, lattice: load_lattice's lattice
+  state]}; budget.final, budget.degenerate, budget.verdict, budget.limiting_stage,
+  budget.reason, budget.ranking ({index, name, gain [, failed]}), budget.failed_stage and
+  budget.failure when a stage failed.
 Example (p from help(cp.plan)): b = p:run(); print(b.final.number, b.limiting_stage)]])
 
 return P

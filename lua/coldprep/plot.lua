@@ -3,7 +3,7 @@
 -- molecule number and T/T_F through the stages, a Raman time trace and a band structure.
 -- The output format follows the file name: .png, .svg or .pdf.
 local cp = require "coldprep"
-local named = require "coldprep.named"
+local A = require "coldprep.argcheck"
 
 local P = cp.plot -- the C binding: P.render
 
@@ -13,12 +13,12 @@ local function render(fname, figure)
   local ok, res = pcall(P.render, figure)
   if ok then return res end
   local msg = type(res) == "string" and res:match("plot%.render: (.*)$")
-  if msg then named.fail(fname, "%s", msg) end
+  if msg then A.fail(fname, "%s", msg) end
   error(res, 0)
 end
 
 -- Rows from `data`: a list of row tables, a cp.sweep result (its rows), or a file name.
-local function rows_of(fname, data)
+local function find_rows(fname, data)
   if type(data) == "string" then return cp.sweep.read { path = data }.rows end
   if type(data) == "table" and type(data.rows) == "table" then return data.rows end
   -- a cp.sweep result streamed to a file keeps no rows: read them back
@@ -26,26 +26,34 @@ local function rows_of(fname, data)
     return cp.sweep.read { path = data.out, format = data.format }.rows
   end
   if type(data) == "table" then return data end
-  named.fail(fname, "data must be rows, a cp.sweep result or a file name, got %s", type(data))
+  A.fail(fname, "data must be rows, a cp.sweep result or a file name, got %s", type(data))
+end
+
+local function rows_of(fname, data)
+  local rows = find_rows(fname, data)
+  for i, r in ipairs(rows) do
+    if type(r) ~= "table" then A.fail(fname, "row %d of data must be a table of columns, got %s", i, type(r)) end
+  end
+  return rows
 end
 
 local function column(fname, rows, name)
-  if type(name) ~= "string" then named.fail(fname, "column names must be strings, got %s", type(name)) end
+  if type(name) ~= "string" then A.fail(fname, "column names must be strings, got %s", type(name)) end
   for _, r in ipairs(rows) do
     if r[name] ~= nil then return end
   end
-  named.fail(fname, "no row has a value in column '%s'", name)
+  A.fail(fname, "no row has a value in column '%s'", name)
 end
 
 local function usable(v, logscale)
-  return named.is_finite(v) and (not logscale or v > 0)
+  return A.is_finite(v) and (not logscale or v > 0)
 end
 
 local function sweep(args)
   local fname = "plot.sweep"
-  named.check(fname, args, { "data", "x", "y", "group", "out", "title", "xlabel", "ylabel",
+  A.table(fname, args, { "data", "x", "y", "group", "out", "title", "xlabel", "ylabel",
     "xlog", "ylog", "points", "legend" })
-  local out = named.typed(fname, args, "out", "string")
+  local out = A.typed(fname, args, "out", "string")
   local rows = rows_of(fname, args.data)
   local ys = type(args.y) == "table" and args.y or { args.y }
   column(fname, rows, args.x)
@@ -79,8 +87,8 @@ local function sweep(args)
   for _, key in ipairs(order) do
     if #curves[key].x > 0 then lines[#lines + 1] = curves[key] end
   end
-  if #lines == 0 then named.fail(fname, "no row has finite values to plot") end
-  if #lines > 16 then named.fail(fname, "%d curves; at most 16 (choose fewer group values)", #lines) end
+  if #lines == 0 then A.fail(fname, "no row has finite values to plot") end
+  if #lines > 16 then A.fail(fname, "%d curves; at most 16 (choose fewer group values)", #lines) end
   if #lines == 1 and #ys == 1 and not args.group then lines[1].label = nil end
   return render(fname, { out = out, panels = { {
     title = args.title, xlabel = args.xlabel or args.x, ylabel = args.ylabel or table.concat(ys, ", "),
@@ -101,9 +109,9 @@ Returns {out, device}.  Example:
 
 local function map(args)
   local fname = "plot.map"
-  named.check(fname, args, { "data", "x", "y", "z", "out", "title", "xlabel", "ylabel", "zlabel",
+  A.table(fname, args, { "data", "x", "y", "z", "out", "title", "xlabel", "ylabel", "zlabel",
     "xlog", "ylog", "zlog" })
-  local out = named.typed(fname, args, "out", "string")
+  local out = A.typed(fname, args, "out", "string")
   local rows = rows_of(fname, args.data)
   column(fname, rows, args.x)
   column(fname, rows, args.y)
@@ -111,19 +119,19 @@ local function map(args)
   local xs, ys, xi, yi = {}, {}, {}, {}
   for _, r in ipairs(rows) do
     local x, y = r[args.x], r[args.y]
-    if named.is_finite(x) and not xi[x] then xi[x] = true; xs[#xs + 1] = x end
-    if named.is_finite(y) and not yi[y] then yi[y] = true; ys[#ys + 1] = y end
+    if A.is_finite(x) and not xi[x] then xi[x] = true; xs[#xs + 1] = x end
+    if A.is_finite(y) and not yi[y] then yi[y] = true; ys[#ys + 1] = y end
   end
   table.sort(xs)
   table.sort(ys)
-  if #xs < 2 or #ys < 2 then named.fail(fname, "a map needs at least 2 distinct x and y values") end
+  if #xs < 2 or #ys < 2 then A.fail(fname, "a map needs at least 2 distinct x and y values") end
   for i, x in ipairs(xs) do xi[x] = i end
   for j, y in ipairs(ys) do yi[y] = j end
   local z = {}
   for j = 1, #ys do z[j] = {} end
   for _, r in ipairs(rows) do
     local i, j, v = xi[r[args.x]], yi[r[args.y]], r[args.z]
-    if i and j and named.is_finite(v) then z[j][i] = v end
+    if i and j and A.is_finite(v) then z[j][i] = v end
   end
   for j = 1, #ys do
     for i = 1, #xs do
@@ -151,28 +159,35 @@ end
 
 local function waterfall(args)
   local fname = "plot.waterfall"
-  named.check(fname, args, { "budget", "out", "title", "limit" })
-  local out = named.typed(fname, args, "out", "string")
-  local budget = named.typed(fname, args, "budget", "table")
+  A.table(fname, args, { "budget", "out", "title", "limit" })
+  local out = A.typed(fname, args, "out", "string")
+  local budget = A.typed(fname, args, "budget", "table")
   local stages = budget.stages
   if type(stages) ~= "table" or #stages == 0 then
-    named.fail(fname, "budget.stages must be a non-empty list of {name, number, t_over_tf}")
+    A.fail(fname, "budget.stages must be a non-empty list of {name, number, t_over_tf}")
   end
-  if #stages > 64 then named.fail(fname, "at most 64 stages") end
+  if #stages > 64 then A.fail(fname, "at most 64 stages") end
   local names, numbers, notes, ratio_x, ratio_y, ratio_label = {}, {}, {}, {}, {}, "T/T#dF#u"
   for i, s in ipairs(stages) do
-    if type(s) ~= "table" then named.fail(fname, "budget.stages[%d] must be a table", i) end
-    names[i] = tostring(s.name or ("stage " .. i))
+    if type(s) ~= "table" then A.fail(fname, "budget.stages[%d] must be a table", i) end
+    if s.name ~= nil and type(s.name) ~= "string" then
+      A.fail(fname, "budget.stages[%d].name must be a string, got %s", i, type(s.name))
+    end
+    names[i] = s.name or ("stage " .. i)
     local n = s.number
-    if not (named.is_finite(n) and n > 0) then
-      named.fail(fname, "stage %d (%s): number must be a positive finite number, got %s", i, names[i], tostring(n))
+    if not (A.is_finite(n) and n > 0) then
+      A.fail(fname, "stage %d (%s): number must be a positive finite number, got %s", i, names[i], tostring(n))
     end
     numbers[i] = n
     local prev = i > 1 and numbers[i - 1] or nil
     notes[i] = format_count(n) .. (prev and string.format(" (%.0f %%)", 100 * n / prev) or "")
     local r = s.t_over_tf or s.t_over_tc
     if s.t_over_tf == nil and s.t_over_tc ~= nil then ratio_label = "T/T#dc#u" end
-    if usable(r, true) then
+    if r ~= nil and not usable(r, true) then
+      A.fail(fname, "stage %d (%s): %s must be a positive finite number, got %s", i, names[i],
+        s.t_over_tf ~= nil and "t_over_tf" or "t_over_tc", tostring(r))
+    end
+    if r ~= nil then
       ratio_x[#ratio_x + 1], ratio_y[#ratio_y + 1] = i, r
     end
   end
@@ -186,7 +201,8 @@ local function waterfall(args)
     ylog = hi / lo > 20,
     bars = { values = numbers, categories = names, notes = notes } } }
   if #ratio_x > 0 then
-    local limit = named.number(fname, args, "limit", ratio_label == "T/T#dF#u" and 0.5 or 1, "positive")
+    local limit = A.number(fname, args, "limit", "SI units",
+      { optional = true, default = ratio_label == "T/T#dF#u" and 0.5 or 1, positive = true })
     panels[2] = { ylabel = ratio_label, ymin = 0, categories = names,
       lines = { { x = ratio_x, y = ratio_y, points = true } },
       hlines = { { y = limit, label = string.format("degenerate below %g", limit) } } }
@@ -205,31 +221,32 @@ local function series(fname, t, key, n)
   local v = t[key]
   if v == nil then return nil end
   if type(v) ~= "table" or #v ~= n then
-    named.fail(fname, "'%s' must be a list of %d numbers (one per time)", key, n)
+    A.fail(fname, "'%s' must be a list of %d numbers (one per time)", key, n)
   end
   return v
 end
 
 local function raman(args)
   local fname = "plot.raman"
-  named.check(fname, args, { "time", "initial", "excited", "target", "pump", "stokes", "trace",
+  A.table(fname, args, { "time", "initial", "excited", "target", "pump", "stokes", "trace",
     "pulses", "out", "title", "time_unit" })
-  local out = named.typed(fname, args, "out", "string")
+  local out = A.typed(fname, args, "out", "string")
   -- a trace from cp.raman.transfer{..., trace = n} supplies time and the populations
   local src = args
   if args.trace ~= nil then
-    src = named.typed(fname, args, "trace", "table")
+    src = A.typed(fname, args, "trace", "table")
     for _, key in ipairs { "time", "initial", "excited", "target" } do
-      if args[key] ~= nil then named.fail(fname, "give either trace or %s, not both", key) end
+      if args[key] ~= nil then A.fail(fname, "give either trace or %s, not both", key) end
     end
   end
-  local time = named.typed(fname, src, "time", "table")
+  local time = A.typed(fname, src, "time", "table")
   local n = #time
-  if n < 2 then named.fail(fname, "time must hold at least 2 values (s)") end
-  local unit = named.number(fname, args, "time_unit", 1e-6, "positive")
+  if n < 2 then A.fail(fname, "time must hold at least 2 values (s)") end
+  local unit = A.number(fname, args, "time_unit", "SI units",
+    { optional = true, default = 1e-6, positive = true })
   local t = {}
   for i = 1, n do
-    if not named.is_finite(time[i]) then named.fail(fname, "time[%d] is not a finite number", i) end
+    if not A.is_finite(time[i]) then A.fail(fname, "time[%d] is not a finite number", i) end
     t[i] = time[i] / unit
   end
   local tlabel = unit == 1e-6 and "time (#gms)" or string.format("time (units of %g s)", unit)
@@ -238,17 +255,18 @@ local function raman(args)
     local v = series(fname, src, key, n)
     if v then pops[#pops + 1] = { x = t, y = v, label = key } end
   end
-  if #pops == 0 then named.fail(fname, "give at least one of initial, excited, target (populations)") end
+  if #pops == 0 then A.fail(fname, "give at least one of initial, excited, target (populations)") end
   -- Rabi frequencies: given per time, or Gaussian pulses in cp.raman's convention,
   -- Omega(t) = rabi exp(-(t - tc)^2 / width^2), Stokes delay/2 before t = 0, pump delay/2 after
   local pump, stokes = series(fname, args, "pump", n), series(fname, args, "stokes", n)
   if args.pulses ~= nil then
-    if pump or stokes then named.fail(fname, "give either pulses or pump/stokes, not both") end
-    local pl = named.check(fname, named.typed(fname, args, "pulses", "table"),
+    if pump or stokes then A.fail(fname, "give either pulses or pump/stokes, not both") end
+    local pl = A.table(fname, A.typed(fname, args, "pulses", "table"),
       { "rabi_pump", "rabi_stokes", "width", "delay" })
-    local rp, rs = named.number(fname, pl, "rabi_pump", nil, "nonnegative", "rad/s"),
-      named.number(fname, pl, "rabi_stokes", nil, "nonnegative", "rad/s")
-    local w, d = named.number(fname, pl, "width", nil, "positive", "s"), named.number(fname, pl, "delay", nil, nil, "s")
+    local rp, rs = A.number(fname, pl, "rabi_pump", "rad/s", { nonnegative = true }),
+      A.number(fname, pl, "rabi_stokes", "rad/s", { nonnegative = true })
+    local w, d = A.number(fname, pl, "width", "s",
+      { positive = true }), A.number(fname, pl, "delay", "s")
     pump, stokes = {}, {}
     for i = 1, n do
       pump[i] = rp * math.exp(-((time[i] - d / 2) / w)^2)
@@ -288,26 +306,26 @@ Example: local a = {rabi_pump = 2*math.pi*5e6, rabi_stokes = 2*math.pi*5e6, widt
 
 local function bands(args)
   local fname = "plot.bands"
-  named.check(fname, args, { "quasimomenta", "energies_er", "out", "title", "depth_er" })
-  local out = named.typed(fname, args, "out", "string")
-  local q = named.typed(fname, args, "quasimomenta", "table")
-  local e = named.typed(fname, args, "energies_er", "table")
+  A.table(fname, args, { "quasimomenta", "energies_er", "out", "title", "depth_er" })
+  local out = A.typed(fname, args, "out", "string")
+  local q = A.typed(fname, args, "quasimomenta", "table")
+  local e = A.typed(fname, args, "energies_er", "table")
   if #q < 2 or #e ~= #q then
-    named.fail(fname, "energies_er must hold one list of band energies per quasimomentum (%d), got %d",
+    A.fail(fname, "energies_er must hold one list of band energies per quasimomentum (%d), got %d",
       #q, #e)
   end
   local nb = type(e[1]) == "table" and #e[1] or 0
-  if nb == 0 then named.fail(fname, "energies_er[1] must list the band energies (E_R)") end
-  if nb > 16 then named.fail(fname, "at most 16 bands") end
+  if nb == 0 then A.fail(fname, "energies_er[1] must list the band energies (E_R)") end
+  if nb > 16 then A.fail(fname, "at most 16 bands") end
   local lines = {}
   for b = 1, nb do lines[b] = { x = {}, y = {}, label = "band " .. b } end
   for i = 1, #q do
-    if not named.is_finite(q[i]) then named.fail(fname, "quasimomenta[%d] is not a finite number", i) end
+    if not A.is_finite(q[i]) then A.fail(fname, "quasimomenta[%d] is not a finite number", i) end
     if type(e[i]) ~= "table" or #e[i] ~= nb then
-      named.fail(fname, "energies_er[%d] must list %d band energies", i, nb)
+      A.fail(fname, "energies_er[%d] must list %d band energies", i, nb)
     end
     for b = 1, nb do
-      if not named.is_finite(e[i][b]) then named.fail(fname, "energies_er[%d][%d] is not finite", i, b) end
+      if not A.is_finite(e[i][b]) then A.fail(fname, "energies_er[%d][%d] is not finite", i, b) end
       lines[b].x[i], lines[b].y[i] = q[i], e[i][b]
     end
   end

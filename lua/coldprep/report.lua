@@ -9,14 +9,19 @@
 --              "T/T_c"), degeneracy, t_over_tf or t_over_tc, peak_density (m^-3),
 --              phase_space_density (peak), entropy_per_particle (kB), efficiency (this
 --              stage's N_out/N_in), cumulative_efficiency (N/N_start), duration (s),
---              elapsed (s), adiabatic, notes (list of strings)
+--              elapsed (s), adiabatic, failed (true when the stage's physics did not
+--              work out), failure (its reason, or nil), flags (list of {model, flag, text}:
+--              estimates used outside their stated range), notes (list of strings)
 --   start, final  records of the starting and the final sample (same fields)
+--   failed_stage (index) and failure (reason) when a stage failed: the verdict is then
+--   "not degenerate" and the stages after it were not run
 --   degenerate, threshold, verdict (text), limiting_stage (name), limiting_index, reason,
 --   ranking ({index, name, gain [, failed]} sorted, gain = relative rise of the final
 --   phase-space density when that stage is improved; NaN, with the message in `failed`,
 --   when the plan fails with that stage improved), safety (list of caution texts)
 local cp = require "coldprep"
 local S = require "coldprep.sample"
+local encode = require "coldprep.encode"
 
 local R = {}
 local Budget = {}
@@ -45,22 +50,26 @@ local function record(index, name, s, info, start_number, before_number)
     -- an unknown duration is NaN: "-" in the table, empty in CSV, null in JSON
     duration = info and (info.duration_unknown and 0 / 0 or info.duration) or 0, elapsed = s.elapsed,
     adiabatic = info and info.adiabatic or false,
-    notes = {},
+    failed = info and info.failed ~= nil or false, failure = info and info.failed,
+    lattice = info and info.lattice, -- the lattice state, from load_lattice
+    flags = {}, notes = {},
   }
   for _, n in ipairs(info and info.notes or {}) do r.notes[#r.notes + 1] = n end
+  for _, f in ipairs(info and info.flags or {}) do r.flags[#r.flags + 1] = f end
   return r
 end
 
 -- ---- safety ---------------------------------------------------------------------------
 
--- W; IEC 60825-1 / ANSI Z136.1 boundaries for CW sources (physics.md section 9 [M]):
+-- W; IEC 60825-1 / ANSI Z136.1 boundaries for CW sources (IEC 60825-1:2014, Class 3B/4 limits [M]):
 -- Class 4 above 0.5 W, Class 3B above 5 mW (Class 3R up to 5x the Class 1/2 limit)
 local CLASS4_W = 0.5
 local CLASS3B_W = 5e-3
 
 -- Collect the equipment the plan declares: the start's trap beams and each stage's
 -- `equipment` list ({kind = "laser", what, power (W) [, wavelength]}, {kind = "coil",
--- what, field (T)}, {kind = "electric", what, field (V/m)}).
+-- what, field (T)}, {kind = "electric", what, field (V/m)}, {kind = "microwave", what,
+-- rabi (rad/s)}).
 local function equipment(plan)
   local list = {}
   for _, c in ipairs(plan.start.atoms) do
@@ -78,7 +87,7 @@ local function equipment(plan)
 end
 
 local function cautions(plan)
-  local out, class4, class3b, unknown, coils, hv = {}, {}, {}, {}, {}, {}
+  local out, class4, class3b, unknown, coils, hv, mw = {}, {}, {}, {}, {}, {}, {}
   for _, e in ipairs(equipment(plan)) do
     if e.kind == "laser" then
       if e.power == nil then
@@ -92,6 +101,9 @@ local function cautions(plan)
       coils[#coils + 1] = string.format("%s, %.4g G", e.what, e.field / cp.units.G)
     elseif e.kind == "electric" then
       hv[#hv + 1] = string.format("%s, %.3g kV/cm", e.what, e.field / 1e5)
+    elseif e.kind == "microwave" then
+      mw[#mw + 1] = string.format("%s, Rabi frequency 2 pi x %.3g MHz", e.what,
+        e.rabi / (2 * math.pi * 1e6))
     end
   end
   if #class4 > 0 then
@@ -121,9 +133,17 @@ local function cautions(plan)
       .. ". Current-limited supplies, interlocked covers, proper grounding, discharge before"
       .. " handling, feedthroughs rated for the voltage; never work alone on live high voltage."
   end
+  if #mw > 0 then
+    out[#out + 1] = "Microwave sources for shielding: " .. table.concat(mw, "; ")
+      .. ". Rabi frequencies of tens of MHz take amplifiers of watts to tens of watts into an"
+      .. " antenna or waveguide near the cell: RF exposure of people near the antenna (keep"
+      .. " to the exposure limits, e.g. ICNIRP 2020 / IEEE C95.1, and check with a field"
+      .. " meter), shielded and terminated lines, amplifier power interlocked off before"
+      .. " work near the antenna, never run an amplifier into an open or unmatched load."
+  end
   out[#out + 1] = "These numbers plan an experiment; they are not a safety clearance. Follow your"
-    .. " local codes and regulations, your laser safety officer and licensed practice"
-    .. " (ANSI Z136.1, IEC 60825-1)."
+    .. " local codes and regulations, your laser safety officer, radiation (RF) safety officer"
+    .. " and licensed practice (ANSI Z136.1, IEC 60825-1)."
   return out
 end
 
@@ -157,6 +177,7 @@ function R.budget(run)
     b.limiting_stage = run.ranking[1].name
   end
   b.reason = run.reason
+  if run.failure then b.failed_stage, b.failure = run.failure.index, run.failure.reason end
   b.safety = cautions(plan)
   return b
 end
@@ -170,7 +191,7 @@ end
 
 local COLUMNS = {
   { "#", "", "%d", function(r) return r.index end, 2 },
-  { "stage", "", "%s", function(r) return r.name end, -16 },
+  { "stage", "", "%s", function(r) return r.failed and (r.name .. " FAILED") or r.name end, -16 },
   { "particles", "", "%s", function(r) return r.particles end, -22 },
   { "N", "", "%.3g", function(r) return r.number end, 9 },
   { "T", "nK", "%.4g", function(r) return r.temperature / cp.units.nK end, 8 },
@@ -287,15 +308,20 @@ end
 -- ---- CSV (RFC 4180) -------------------------------------------------------------------
 
 local CSV_FIELDS = { "index", "name", "kind", "particles", "number", "temperature_K",
-  "degeneracy_name", "degeneracy", "peak_density_m3", "phase_space_density",
+  "degeneracy_name", "degeneracy", "peak_density_per_m3", "phase_space_density",
   "entropy_per_particle_kB", "efficiency", "cumulative_efficiency", "duration_s", "elapsed_s",
-  "adiabatic", "notes" }
+  "adiabatic", "failed", "flags", "notes" }
 
 local function csv_value(r, f)
-  local map = { temperature_K = "temperature", peak_density_m3 = "peak_density",
+  local map = { temperature_K = "temperature", peak_density_per_m3 = "peak_density",
     entropy_per_particle_kB = "entropy_per_particle", duration_s = "duration", elapsed_s = "elapsed" }
   local v = r[map[f] or f]
   if f == "notes" then v = table.concat(r.notes, "; ") end
+  if f == "flags" then
+    local names = {}
+    for _, g in ipairs(r.flags) do names[#names + 1] = g.model .. "." .. g.flag end
+    v = table.concat(names, " ")
+  end
   if type(v) == "number" then
     if v ~= v or v == math.huge or v == -math.huge then return "" end
     if math.type(v) == "integer" then return tostring(v) end
@@ -304,11 +330,7 @@ local function csv_value(r, f)
   return tostring(v == nil and "" or v)
 end
 
--- A field quoted when it holds a comma, a double quote, CR or LF (RFC 4180 section 2, rules 6-7).
-local function csv_field(s)
-  if s:find('[,"\r\n]') then return '"' .. s:gsub('"', '""') .. '"' end
-  return s
-end
+local csv_field = encode.csv_field -- RFC 4180 quoting, valid UTF-8
 
 local function open_for_writing(fname, path)
   if type(path) ~= "string" or path == "" then
@@ -338,62 +360,6 @@ end
 
 -- ---- JSON -----------------------------------------------------------------------------
 
--- s as valid UTF-8: a byte that does not belong to a valid sequence becomes U+FFFD, so
--- a label or note typed in another encoding cannot make the JSON invalid.
-local function valid_utf8(s)
-  if utf8.len(s) then return s end
-  local out, i = {}, 1
-  while i <= #s do
-    local lead = s:byte(i)
-    local n = (lead >= 0xF0 and 4) or (lead >= 0xE0 and 3) or (lead >= 0xC0 and 2) or 1
-    local seq = s:sub(i, i + n - 1)
-    if #seq == n and utf8.len(seq) == 1 then
-      out[#out + 1], i = seq, i + n
-    else
-      out[#out + 1], i = "\u{FFFD}", i + 1
-    end
-  end
-  return table.concat(out)
-end
-
-local function json_string(s)
-  return '"' .. valid_utf8(s):gsub('[%c"\\]', function(ch)
-    local esc = { ['"'] = '\\"', ["\\"] = "\\\\", ["\n"] = "\\n", ["\r"] = "\\r", ["\t"] = "\\t" }
-    return esc[ch] or string.format("\\u%04x", ch:byte())
-  end) .. '"'
-end
-
-local function json(v, indent)
-  local t = type(v)
-  if t == "number" then
-    if v ~= v or v == math.huge or v == -math.huge then return "null" end
-    if math.type(v) == "integer" then return tostring(v) end
-    return string.format("%.17g", v)
-  elseif t == "string" then
-    return json_string(v)
-  elseif t == "boolean" then
-    return tostring(v)
-  elseif t == "nil" then
-    return "null"
-  elseif t == "table" then
-    local pad, inner = string.rep("  ", indent), string.rep("  ", indent + 1)
-    local parts = {}
-    if #v > 0 or next(v) == nil then
-      for _, x in ipairs(v) do parts[#parts + 1] = inner .. json(x, indent + 1) end
-      if #parts == 0 then return "[]" end
-      return "[\n" .. table.concat(parts, ",\n") .. "\n" .. pad .. "]"
-    end
-    local keys = {}
-    for k in pairs(v) do keys[#keys + 1] = tostring(k) end
-    table.sort(keys)
-    for _, k in ipairs(keys) do
-      parts[#parts + 1] = inner .. json_string(k) .. ": " .. json(v[k], indent + 1)
-    end
-    return "{\n" .. table.concat(parts, ",\n") .. "\n" .. pad .. "}"
-  end
-  error("budget:write_json: cannot encode a " .. t, 0)
-end
-
 -- budget:write_json(path): the whole budget as one JSON object (NaN written as null).
 function Budget:write_json(path)
   local f = open_for_writing("budget:write_json", path)
@@ -402,9 +368,9 @@ function Budget:write_json(path)
     final = self.final, degenerate = self.degenerate, threshold = self.threshold,
     verdict = self.verdict, limiting_stage = self.limiting_stage,
     limiting_index = self.limiting_index, reason = self.reason, ranking = self.ranking,
-    safety = self.safety,
+    failed_stage = self.failed_stage, failure = self.failure, safety = self.safety,
   }
-  local ok, err = f:write(json(doc, 0), "\n")
+  local ok, err = f:write(encode.json(doc, 0, "budget:write_json"), "\n")
   local closed, cerr = f:close()
   if not ok or not closed then
     error("budget:write_json: cannot write " .. path .. ": " .. tostring(err or cerr), 2)
@@ -425,9 +391,10 @@ safety cautions).  Example: io.open("budget.txt", "w"):write(cp.plan{...}:run():
 cp.set_help(Budget.write_csv, [[
 budget:write_csv(path) writes the start and one line per stage as CSV (RFC 4180: comma
 separated, CRLF line ends, fields with commas, quotes or line breaks quoted).  Columns:
-index, name, kind, particles, number, temperature_K, degeneracy_name, degeneracy,
-peak_density_m3, phase_space_density, entropy_per_particle_kB, efficiency,
-cumulative_efficiency, duration_s, elapsed_s, adiabatic, notes (joined by "; ").
+index, name, kind, particles, number, temperature_K, degeneracy_name (T/T_F or T/T_c),
+degeneracy (its value), peak_density_per_m3, phase_space_density, entropy_per_particle_kB,
+efficiency, cumulative_efficiency, duration_s, elapsed_s, adiabatic, failed, flags (model.flag
+names, space separated), notes (joined by "; ").
 Example: cp.plan{...}:run():write_csv("budget.csv")]])
 cp.set_help(Budget.write_json, [[
 budget:write_json(path) writes the whole budget (stages, start, final, verdict, ranking,

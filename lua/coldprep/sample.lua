@@ -15,9 +15,11 @@
 --   atoms               {cloud_a, cloud_b}: for a mixture the two atom clouds, for molecules
 --                       the atoms left over from association (number 0 once removed); each
 --                       cloud has name, mass, statistics, number, temperature,
---                       trap_frequencies and the derived fields below
+--                       trap_frequencies, scattering_length (m, the atoms' own; may be
+--                       nil) and the derived fields below
 --   lattice             nil, or {depth (J), depth_er, wavelength (m), spacing (m), ...}
---                       once the sample sits in an optical lattice
+--                       once the sample sits in an optical lattice (the state
+--                       load_lattice records, see its help)
 --   elapsed             s since the start of the plan
 -- Derived by `derive` from the thermo model (cp.thermo.fermi / cp.thermo.bose), never
 -- typed in:
@@ -95,7 +97,7 @@ function S.derive(c)
 end
 
 -- The thermo model is semiclassical: it needs many trap levels thermally occupied,
--- kB T >> hbar omega_bar (physics.md 7).  Below SEMICLASSICAL times hbar omega_bar (common
+-- kB T >> hbar omega_bar (docs/models/thermo.md).  Below SEMICLASSICAL times hbar omega_bar (common
 -- practice, no source: the corrections grow as (hbar omega_bar / kB T)^2) this returns a
 -- note for the budget, else nil.
 local SEMICLASSICAL = 3
@@ -175,14 +177,19 @@ function S.check(s, who)
   local ok_kind = false
   for _, k in ipairs(S.KINDS) do if s.kind == k then ok_kind = true end end
   if not ok_kind then
-    error(string.format("%s: sample field 'kind' = %s; allowed %s", who, tostring(s.kind),
+    error(string.format("%s: sample field kind %s is not allowed; allowed %s", who, tostring(s.kind),
       table.concat(S.KINDS, ", ")), 0)
   end
   local function num(k, unit, lo)
     local v = s[k]
-    if type(v) ~= "number" or v ~= v or v == math.huge or v < lo then
-      error(string.format("%s: sample field '%s' = %s must be a finite number >= %g (%s)", who, k,
-        tostring(v), lo, unit), 0)
+    if type(v) ~= "number" then
+      error(string.format("%s: sample field '%s' must be a number (%s), got %s", who, k, unit,
+        type(v)), 0)
+    end
+    if v ~= v or v == math.huge or v < lo then
+      error(string.format("%s: sample field %s %s %s is %s; allowed [%g, inf) %s", who, k,
+        v ~= v and "NaN" or tostring(v), unit, v ~= v and "not a number"
+        or v == math.huge and "infinite" or "out of range", lo, unit), 0)
     end
   end
   num("number", "particles", 0)

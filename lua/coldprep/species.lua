@@ -6,7 +6,9 @@ local builtin = cp.species -- the C binding (lua/bind/bind_species.c)
 local A = require "coldprep.argcheck"
 
 local M = {}
-local user_atoms, user_molecules, user_resonances = {}, {}, {}
+-- the registry tables the bindings read too (a binding given a species name finds the
+-- user's entries there without calling back into this library)
+local user_atoms, user_molecules, user_resonances = builtin.builtin_user_tables()
 
 local function key(name)
   return (name:lower():gsub("[%-_ ]", ""))
@@ -88,6 +90,76 @@ function M.resonance(name, index)
   return list[index]
 end
 
+-- The polarizability (a.u.) of a named species at a trap wavelength (m): a user-added
+-- species' own value, else the built-in one; the error asks for polarizability_au where
+-- there is none.
+function M.polarizability(name, wavelength)
+  check_name("species.polarizability", name)
+  if math.type(wavelength) == nil then
+    error(string.format("species.polarizability: wavelength must be a number (m), got %s",
+      type(wavelength)), 2)
+  end
+  local user = user_atoms[key(name)] or user_molecules[key(name)]
+  if user then
+    local nm = wavelength / 1e-9
+    local v = math.abs(nm - 1064) <= 1 and user.pol_1064_au or math.abs(nm - 1550) <= 1
+      and user.pol_1550_au or nil
+    if v then return v end
+    error(string.format("species polarizability: no polarizability of %s at %.6g nm was given; "
+      .. "give polarizability_au (a.u.) for this species and wavelength (or pol_1064_au / "
+      .. "pol_1550_au when adding it)", user.name, nm), 2)
+  end
+  local ok, r = pcall(builtin.builtin_polarizability, name, wavelength)
+  if ok then return r end
+  error(r, 2)
+end
+
+local function citation(ref)
+  if not ref then return "no publication identified" end
+  local ids = {}
+  if ref.doi then ids[#ids + 1] = "doi:" .. ref.doi end
+  if ref.arxiv then ids[#ids + 1] = "arXiv:" .. ref.arxiv end
+  return string.format("%s, %s %s, %s (%d)%s", ref.authors, ref.journal, ref.volume, ref.page,
+    ref.year, #ids > 0 and ", " .. table.concat(ids, ", ") or "")
+end
+
+-- A value in the unit a lab uses (G, a0, muB, MHz) for printing.
+local function shown(d)
+  if d.field == "reactive" then return d.value ~= 0 and "yes" or "no" end
+  local scale = { T = { cp.units.G, "G" }, m = { cp.units.a0, "a0" }, ["J/T"] = { cp.consts.muB, "muB" },
+    Hz = { cp.units.MHz, "MHz" }, ["1"] = { 1, "" } }
+  local sc = scale[d.unit] or { 1, d.unit }
+  local unc = d.uncertainty and string.format(" +- %.3g", d.uncertainty / sc[1]) or ""
+  return string.format("%.6g%s%s", d.value / sc[1], sc[2] ~= "" and " " .. sc[2] or "", unc)
+end
+
+-- Every built-in value with its publication, status and whether it was checked against
+-- the paper; `name` (optional) keeps one species (its resonances included).  Prints one
+-- block per value unless quiet is true; returns the entries.
+function M.sources(name, quiet)
+  local list = builtin.builtin_sources()
+  if name ~= nil then
+    check_name("species.sources", name)
+    local ok, rec = pcall(builtin.builtin_atom, name)
+    if not ok then ok, rec = pcall(builtin.builtin_molecule, name) end
+    if not ok then error(rec, 2) end
+    local keep = {}
+    for _, d in ipairs(list) do
+      if d.record == rec.name or d.record:match("^(.-)#") == rec.name then keep[#keep + 1] = d end
+    end
+    list = keep
+  end
+  if not quiet then
+    for _, d in ipairs(list) do
+      print(string.format("%s %s = %s  [%s, %s]", d.record, d.field, shown(d), d.status,
+        d.verified and "checked against the paper" or "NOT checked"))
+      print("    " .. citation(d.reference))
+      if d.note then print("    " .. d.note) end
+    end
+  end
+  return list
+end
+
 function M.list()
   local names = builtin.builtin_list()
   for _, n in ipairs(user_names()) do names[#names + 1] = n end
@@ -95,21 +167,27 @@ function M.list()
 end
 
 -- The add_* functions check their arguments with the shared Lua-side readers.
-local function number(fname, args, k, unit, positive)
-  return A.number(fname, args, k, unit, { positive = positive })
+local function number(fname, args, k, unit, positive, optional)
+  return A.number(fname, args, k, unit, { positive = positive, optional = optional })
 end
 
 function M.add_atom(args)
   local fname = "species.add_atom"
-  A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "source" })
+  A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "pol_1064_au",
+    "pol_1550_au", "source", "a_bb", "a_bb_source" })
   check_name(fname, args.name)
   local mass_u = number(fname, args, "mass_u", "u", true)
   A.option(fname, args, "statistics", { "boson", "fermion" })
   local a = {
     kind = "atom", name = args.name, mass_u = mass_u, mass = mass_u * cp.consts.amu,
     statistics = args.statistics, nuclear_spin = args.nuclear_spin,
+    pol_1064_au = number(fname, args, "pol_1064_au", "a.u.", true, true),
+    pol_1550_au = number(fname, args, "pol_1550_au", "a.u.", true, true),
     source = args.source or "user-supplied",
+    a_bb = A.number(fname, args, "a_bb", "m", { optional = true, min = -1e-6, max = 1e-6 }),
+    a_bb_source = args.a_bb_source,
   }
+  if a.a_bb and not a.a_bb_source then a.a_bb_source = "user-supplied" end
   user_atoms[key(args.name)] = a
   local num, sym = args.name:match("^(%d+)(%a+)$")
   if num then user_atoms[key(sym .. num)] = a end
@@ -119,7 +197,8 @@ end
 function M.add_molecule(args)
   local fname = "species.add_molecule"
   A.table(fname, args, { "name", "atoms", "dipole_debye", "rot_const_hz", "c6_au",
-    "reactive", "source" })
+    "reactive", "pol_1064_au", "pol_1064_par_au", "pol_1064_perp_au", "pol_1550_au",
+    "loss_rate", "loss_temperature", "source" })
   check_name(fname, args.name)
   if type(args.atoms) ~= "table" or #args.atoms ~= 2 then
     error(fname .. ": argument 'atoms' must be a list of two atom names", 2)
@@ -134,8 +213,24 @@ function M.add_molecule(args)
     rot_const_hz = number(fname, args, "rot_const_hz", "Hz", true),
     c6_au = number(fname, args, "c6_au", "a.u.", true),
     reactive = args.reactive and true or false,
+    pol_1064_par_au = number(fname, args, "pol_1064_par_au", "a.u.", true, true),
+    pol_1064_perp_au = number(fname, args, "pol_1064_perp_au", "a.u.", true, true),
+    pol_1550_au = number(fname, args, "pol_1550_au", "a.u.", true, true),
+    loss_rate = number(fname, args, "loss_rate", "m^3/s", true, true),
+    loss_temperature = number(fname, args, "loss_temperature", "K", true, true),
     source = args.source or "user-supplied",
   }
+  -- the isotropic part: given, or (alpha_par + 2 alpha_perp) / 3 from the two components
+  m.pol_1064_au = number(fname, args, "pol_1064_au", "a.u.", true, true)
+  if (m.pol_1064_par_au == nil) ~= (m.pol_1064_perp_au == nil) then
+    error(fname .. ": give both 'pol_1064_par_au' and 'pol_1064_perp_au', or neither", 2)
+  end
+  if m.pol_1064_par_au and not m.pol_1064_au then
+    m.pol_1064_au = (m.pol_1064_par_au + 2 * m.pol_1064_perp_au) / 3
+  end
+  if (m.loss_rate == nil) ~= (m.loss_temperature == nil) then
+    error(fname .. ": give 'loss_rate' with the 'loss_temperature' it was measured at", 2)
+  end
   user_molecules[key(args.name)] = m
   return copy(m)
 end
@@ -165,29 +260,52 @@ end
 local H = {
   atom = [[
 species.atom(name) -> {kind, name, symbol, protons, mass_number, mass (kg), mass_u (u),
-  nuclear_spin, statistics = "boson"|"fermion", source}
+  nuclear_spin, statistics = "boson"|"fermion", pol_1064_au, pol_1550_au, source, a_bb (m),
+  a_bb_source}
+(a polarizability is nil where none is built in)
 Names as "87Rb" or "Rb87" (case-insensitive).  An unknown name is an error listing the
-closest known names.  Example: cp.species.atom("40K").statistics  --> "fermion"]],
+closest known names.  a_bb: the atoms' own s-wave scattering length (sets the size of a
+condensate), for the hyperfine state named in a_bb_source with its paper.
+Example: cp.species.atom("40K").statistics  --> "fermion"
+Example: cp.species.atom("87Rb").a_bb / cp.units.a0  --> 100.4]],
   molecule = [[
 species.molecule(name) -> {kind, name, atoms = {a, b}, mass (kg), mass_u,
   reduced_mass (kg, of the two atoms), statistics,
-  dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.), reactive, source}
+  dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.), reactive, pol_1064_au,
+  pol_1064_par_au, pol_1064_perp_au, pol_1550_au (a.u.), loss_rate (m^3/s, no shielding)
+  and loss_temperature (K), source}   (nil where the table has no value)
 Names as "40K87Rb", "K40Rb87" or "KRb".  Example: cp.species.molecule("NaK").dipole_debye]],
   resonance = [[
 species.resonance(molecule [, index = 1]) -> {molecule, states, b0 (T), width (T),
   abg (m), dmu (J/T), c6_au (atom-atom C6, a.u.), verified, source}
 The index-th interspecies Feshbach resonance known for the pair (built-in first, then
-user-added).  Built-in values are from memory (verified = false): check them.
+user-added).  Built-in values are not yet checked against their papers (verified =
+false): see cp.species.sources(molecule) and calibrate them.
 Example: r = cp.species.resonance("KRb"); print(r.b0 / cp.units.G)]],
   list = "species.list() -> names of every known atom and molecule (built-in and user-added).",
+  polarizability = [[
+species.polarizability(name, wavelength (m)) -> ground-state dynamic polarizability, a.u.
+Built in at 1064 nm (and 1550 nm where published) for a named atom or molecule (the
+isotropic part); elsewhere an error asks for polarizability_au.
+Example: cp.species.polarizability("87Rb", 1064 * cp.units.nm)]],
+  sources = [[
+species.sources([name] [, quiet]) -> list of {record, field, value, unit, uncertainty,
+  status = "measured"|"calculated"|"estimated", verified, reference = {key, authors,
+  journal, volume, page, year, doi, arxiv}, note}
+Every built-in number with its publication; prints them unless quiet.  "NOT checked"
+marks values to calibrate.  Example: cp.species.sources("KRb")]],
   add_atom = [[
-species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin, source]}
-Adds an atom to this session.  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
+species.add_atom{name, mass_u (u), statistics = "boson"|"fermion" [, nuclear_spin,
+  pol_1064_au, pol_1550_au (a.u.), source, a_bb (m, |a_bb| <= 1e-6), a_bb_source]}
+Adds an atom to this session (a_bb: its own s-wave scattering length, needed for a condensed
+cloud of it in a plan).  Example: cp.species.add_atom{name = "162Dy", mass_u = 161.9268,
 statistics = "boson"}]],
   add_molecule = [[
 species.add_molecule{name, atoms = {a, b}, dipole_debye (D), rot_const_hz (Hz), c6_au (a.u.)
-  [, reactive = false, source]}
-Adds a molecule; its mass and statistics follow from its atoms.]],
+  [, reactive = false, pol_1064_au | pol_1064_par_au + pol_1064_perp_au, pol_1550_au (a.u.),
+  loss_rate (m^3/s) + loss_temperature (K), source]}
+Adds a molecule; its mass and statistics follow from its atoms; a lattice for it given as
+power and waist then uses its polarizability (cp.species.polarizability).]],
   add_resonance = [[
 species.add_resonance{molecule, b0 (T), width (T), abg (m), dmu (J/T)
   [, c6_au (atom-atom C6, a.u.), states, source]}

@@ -8,107 +8,52 @@
 -- so the file holds only finished rows at every moment.  `coldprep sweep` (lua/cli/cli_sweep.c)
 -- runs the same description on several Lua states in parallel through M.prepare.
 local cp = require "coldprep"
-local named = require "coldprep.named"
+local A = require "coldprep.argcheck"
 
 local M = {}
 
--- Number formatting shared by CSV and JSON: integers as integers, floats with the fewest
--- significant digits (15, 16 or 17) that read back as the same double.
-local function format_number(v)
-  if math.type(v) == "integer" then return string.format("%d", v) end
-  if v ~= v then return "nan" end
-  if v == math.huge then return "inf" end
-  if v == -math.huge then return "-inf" end
-  for _, digits in ipairs { "%.15g", "%.16g" } do
-    local s = string.format(digits, v)
-    if tonumber(s) == v then return s end
-  end
-  return string.format("%.17g", v)
-end
-
-local function csv_field(v)
-  if v == nil then return "" end
-  local s
-  if type(v) == "number" then
-    s = format_number(v)
-  else
-    s = tostring(v)
-  end
-  if s:find('[,"\r\n]') then s = '"' .. s:gsub('"', '""') .. '"' end
-  return s
-end
-
-local json_escapes = { ['"'] = '\\"', ["\\"] = "\\\\", ["\b"] = "\\b", ["\f"] = "\\f",
-  ["\n"] = "\\n", ["\r"] = "\\r", ["\t"] = "\\t" }
-
--- s with every byte that is not part of valid UTF-8 replaced by U+FFFD (JSON text is
--- UTF-8, RFC 8259 section 8.1; a Latin-1 string would make the row invalid).
-local function valid_utf8(s)
-  if utf8.len(s) then return s end
-  local parts, i = {}, 1
-  while true do
-    local n, bad = utf8.len(s, i)
-    if n then break end
-    parts[#parts + 1] = s:sub(i, bad - 1) .. "\u{FFFD}"
-    i = bad + 1
-  end
-  parts[#parts + 1] = s:sub(i)
-  return table.concat(parts)
-end
-
-local function json_string(s)
-  s = valid_utf8(s)
-  return '"' .. s:gsub('[%c"\\]', function(c)
-    return json_escapes[c] or string.format("\\u%04x", c:byte())
-  end) .. '"'
-end
-
-local function json_value(v)
-  if v == nil then return "null" end
-  if type(v) == "number" then
-    if v ~= v or v == math.huge or v == -math.huge then return "null" end
-    return format_number(v)
-  end
-  if type(v) == "boolean" then return tostring(v) end
-  return json_string(tostring(v))
-end
+local encode = require "coldprep.encode"
+local decode = require "coldprep.decode"
+local files = require "coldprep.files"
+local format_number = encode.number
 
 -- One axis of the grid: a list of names and, for index j (1-based), their values.
 local function parse_parameter(fname, spec, where)
   if type(spec) ~= "table" then
-    named.fail(fname, "%s must be a table such as {name = \"x\", from = 0, to = 1, points = 11}, got %s",
+    A.fail(fname, "%s must be a table such as {name = \"x\", from = 0, to = 1, points = 11}, got %s",
       where, type(spec))
   end
-  named.check(fname, spec, { "name", "from", "to", "points", "scale", "values" })
+  A.table(fname, spec, { "name", "from", "to", "points", "scale", "values" })
   local name = spec.name
   if type(name) ~= "string" or not name:match("^[%a_][%w_]*$") then
-    named.fail(fname, "%s needs a name (letters, digits, _), got %s", where, tostring(name))
+    A.fail(fname, "%s needs a name (letters, digits, _), got %s", where, tostring(name))
   end
   local label = string.format("parameter '%s'", name)
   if spec.values ~= nil then
     if spec.from ~= nil or spec.to ~= nil or spec.points ~= nil or spec.scale ~= nil then
-      named.fail(fname, "%s: give either values = {...} or from/to/points, not both", label)
+      A.fail(fname, "%s: give either values = {...} or from/to/points, not both", label)
     end
     local vals = spec.values
     if type(vals) ~= "table" or #vals == 0 then
-      named.fail(fname, "%s: values must be a non-empty list", label)
+      A.fail(fname, "%s: values must be a non-empty list", label)
     end
     for i, v in ipairs(vals) do
       local t = type(v)
-      if not (t == "string" or t == "boolean" or named.is_finite(v)) then
-        named.fail(fname, "%s: values[%d] must be a finite number, a string or a boolean, got %s",
+      if not (t == "string" or t == "boolean" or A.is_finite(v)) then
+        A.fail(fname, "%s: values[%d] must be a finite number, a string or a boolean, got %s",
           label, i, tostring(v))
       end
     end
     local copy = table.move(vals, 1, #vals, 1, {})
     return { name = name, len = #copy, value = function(j) return copy[j] end }
   end
-  local scale = named.option(fname, spec, "scale", { "linear", "log" }, "linear")
-  local from = named.number(fname, spec, "from")
-  local points = named.integer(fname, spec, "points", nil, 1, 1 << 40)
-  local to = points == 1 and named.number(fname, spec, "to", from) or named.number(fname, spec, "to")
+  local scale = A.option(fname, spec, "scale", { "linear", "log" }, "linear")
+  local from = A.number(fname, spec, "from", "SI units")
+  local points = A.integer(fname, spec, "points", nil, 1, 1 << 40)
+  local to = points == 1 and A.number(fname, spec, "to", "SI units",
+    { optional = true, default = from }) or A.number(fname, spec, "to", "SI units")
   if scale == "log" and (from <= 0 or to <= 0) then
-    named.fail(fname, "%s: a logarithmic range needs from > 0 and to > 0, got from = %s, to = %s",
+    A.fail(fname, "%s: a logarithmic range needs from > 0 and to > 0, got from = %s, to = %s",
       label, format_number(from), format_number(to))
   end
   local value
@@ -133,15 +78,15 @@ end
 -- An axis: one parameter, or {zip = {p1, p2, ...}} whose lists advance together.
 local function parse_axis(fname, spec, where)
   if type(spec) == "table" and spec.zip ~= nil then
-    named.check(fname, spec, { "zip" })
+    A.table(fname, spec, { "zip" })
     if type(spec.zip) ~= "table" or #spec.zip == 0 then
-      named.fail(fname, "%s: zip must be a non-empty list of parameters", where)
+      A.fail(fname, "%s: zip must be a non-empty list of parameters", where)
     end
     local members = {}
     for i, p in ipairs(spec.zip) do
       members[i] = parse_parameter(fname, p, string.format("%s.zip[%d]", where, i))
       if members[i].len ~= members[1].len then
-        named.fail(fname, "%s: zipped parameters need equal lengths; '%s' has %d, '%s' has %d",
+        A.fail(fname, "%s: zipped parameters need equal lengths; '%s' has %d, '%s' has %d",
           where, members[1].name, members[1].len, members[i].name, members[i].len)
       end
     end
@@ -156,10 +101,10 @@ local DESCRIPTION_KEYS = { "parameters", "combine", "evaluate", "outputs", "out"
 
 -- Validate a sweep description; returns the compiled sweep (see M.prepare).
 local function compile(fname, desc, format)
-  named.check(fname, desc, DESCRIPTION_KEYS)
-  local params = named.typed(fname, desc, "parameters", "table")
-  if #params == 0 then named.fail(fname, "parameters must be a non-empty list") end
-  local combine = named.option(fname, desc, "combine", { "grid", "zip" }, "grid")
+  A.table(fname, desc, DESCRIPTION_KEYS)
+  local params = A.typed(fname, desc, "parameters", "table")
+  if #params == 0 then A.fail(fname, "parameters must be a non-empty list") end
+  local combine = A.option(fname, desc, "combine", { "grid", "zip" }, "grid")
   local axes = {}
   if combine == "zip" then
     axes[1] = parse_axis(fname, { zip = params }, "parameters")
@@ -168,15 +113,15 @@ local function compile(fname, desc, format)
       axes[i] = parse_axis(fname, spec, string.format("parameters[%d]", i))
     end
   end
-  local evaluate = named.typed(fname, desc, "evaluate", "function")
+  local evaluate = A.typed(fname, desc, "evaluate", "function")
   local outputs = desc.outputs
   if outputs ~= nil then
     if type(outputs) ~= "table" or #outputs == 0 then
-      named.fail(fname, "outputs must be a non-empty list of result names, e.g. {\"final.number\"}")
+      A.fail(fname, "outputs must be a non-empty list of result names, e.g. {\"final.number\"}")
     end
     for i, o in ipairs(outputs) do
       if type(o) ~= "string" or o == "" then
-        named.fail(fname, "outputs[%d] must be a result name (string), got %s", i, tostring(o))
+        A.fail(fname, "outputs[%d] must be a result name (string), got %s", i, tostring(o))
       end
     end
   end
@@ -184,17 +129,17 @@ local function compile(fname, desc, format)
   local columns, seen, count = { "point" }, { point = true, error = true }, 1
   for _, axis in ipairs(axes) do
     for _, p in ipairs(axis.members) do
-      if seen[p.name] then named.fail(fname, "parameter name '%s' is used twice (or reserved)", p.name) end
+      if seen[p.name] then A.fail(fname, "parameter name '%s' is used twice (or reserved)", p.name) end
       seen[p.name] = true
       columns[#columns + 1] = p.name
     end
     count = count * axis.len
   end
-  if count > (1 << 53) then named.fail(fname, "the grid has more than 2^53 points") end
+  if count > (1 << 53) then A.fail(fname, "the grid has more than 2^53 points") end
   local nparams = #columns - 1
   local outnames = outputs or { "value" }
   for _, o in ipairs(outnames) do
-    if seen[o] then named.fail(fname, "output '%s' has the name of a parameter or column", o) end
+    if seen[o] then A.fail(fname, "output '%s' has the name of a parameter or column", o) end
     seen[o] = true
     columns[#columns + 1] = o
   end
@@ -205,7 +150,7 @@ local function compile(fname, desc, format)
   -- The parameters of point i (1-based): decode i - 1 in mixed radix, last axis fastest.
   function s.point(i)
     if math.type(i) ~= "integer" or i < 1 or i > count then
-      named.fail(fname, "point %s is out of range; allowed 1 to %d", tostring(i), count)
+      A.fail(fname, "point %s is out of range; allowed 1 to %d", tostring(i), count)
     end
     local p, k = {}, i - 1
     for a = #axes, 1, -1 do
@@ -219,7 +164,7 @@ local function compile(fname, desc, format)
 
   local getters = {}
   for i, o in ipairs(outnames) do
-    getters[i] = named.result_getter(fname, string.format("outputs[%d]", i), o)
+    getters[i] = A.result_getter(fname, string.format("outputs[%d]", i), o)
   end
 
   local function pick(result, o)
@@ -266,15 +211,8 @@ local function compile(fname, desc, format)
   end
 
   function s.format_row(values)
-    local parts = {}
-    if format == "csv" then
-      for c = 1, #columns do parts[c] = csv_field(values[c]) end
-      return table.concat(parts, ",") .. "\r\n"
-    end
-    for c = 1, #columns do
-      parts[c] = json_string(columns[c]) .. ":" .. json_value(values[c])
-    end
-    return "{" .. table.concat(parts, ",") .. "}\n"
+    if format == "csv" then return encode.csv_record(values, #columns) end
+    return encode.json_row(columns, values)
   end
 
   -- The whole text of row i, ready to append to the file.
@@ -282,13 +220,12 @@ local function compile(fname, desc, format)
     return s.format_row((s.evaluate(i)))
   end
 
-  if format == "csv" then
-    local h = {}
-    for c = 1, #columns do h[c] = csv_field(columns[c]) end
-    s.header = table.concat(h, ",") .. "\r\n"
-  else
-    s.header = ""
-  end
+  s.header = format == "csv" and encode.csv_record(columns) or ""
+  -- what `coldprep sweep --resume` checks every row against: the header (CSV: as many
+  -- fields) or the keys as written (JSON Lines)
+  local keys = {}
+  for c = 1, #columns do keys[c] = encode.json_string(columns[c]) end
+  s.shape = format == "csv" and s.header or table.concat(keys, ",")
   return s
 end
 
@@ -302,9 +239,9 @@ end
 
 function M.prepare(args)
   local fname = "sweep.prepare"
-  named.check(fname, args, { "sweep", "format" })
-  local desc = named.typed(fname, args, "sweep", "table")
-  local format = named.option(fname, args, "format", { "csv", "jsonl" }, "csv")
+  A.table(fname, args, { "sweep", "format" })
+  local desc = A.typed(fname, args, "sweep", "table")
+  local format = A.option(fname, args, "format", { "csv", "jsonl" }, "csv")
   return compile("sweep", desc, format)
 end
 
@@ -319,26 +256,46 @@ Example: local s = cp.sweep.prepare{sweep = {parameters = {{name = "x", values =
                                      evaluate = function(p) return p.x^2 end}}
          print(s.count, s.row(2))   --> 2   2,2,4,]])
 
+-- Open `out` for a new sweep: under its lock PATH.lock (the one `coldprep sweep` takes, so
+-- neither truncates a file the other is writing), without following a symbolic link, after
+-- removing a completion marker PATH.done that would describe the old rows.  A device or
+-- pipe (not a regular file) takes no lock.  Returns the file and the lock (or nil).
+local function open_output(fname, out)
+  local lock, lerr
+  local kind = files.kind(out)
+  if kind == "link" then A.fail(fname, "the output %s is a symbolic link; give the file's own path", out) end
+  if kind == nil or kind == "file" then
+    lock, lerr = files.lock(out)
+    if not lock then A.fail(fname, "%s", lerr) end
+    os.remove(out .. ".done")
+  end
+  local f, err = files.open(out, "w")
+  if not f then
+    if lock then lock:release() end
+    A.fail(fname, "cannot open the output file %s", err)
+  end
+  f:setvbuf("full")
+  return f, lock
+end
+
 local function run(args)
   local fname = "sweep"
-  named.check(fname, args, DESCRIPTION_KEYS)
-  local out = named.typed(fname, args, "out", "string", false) or nil
+  A.table(fname, args, DESCRIPTION_KEYS)
+  local out = A.typed(fname, args, "out", "string", false) or nil
   local format = args.format or (out and format_of(out)) or "csv"
-  format = named.option(fname, { format = format }, "format", { "csv", "jsonl" })
-  local on_row = named.typed(fname, args, "on_row", "function", false) or nil
+  format = A.option(fname, { format = format }, "format", { "csv", "jsonl" })
+  local on_row = A.typed(fname, args, "on_row", "function", false) or nil
   local s = compile(fname, args, format)
   local f
   -- Write and flush text, failing the sweep when the disk refuses (full, quota, I/O error).
   local function put(text)
     local ok, err = f:write(text)
     if ok then ok, err = f:flush() end
-    if not ok then named.fail(fname, "cannot write %s: %s", out, tostring(err)) end
+    if not ok then A.fail(fname, "cannot write %s: %s", out, tostring(err)) end
   end
+  local lock
   if out then
-    local err
-    f, err = io.open(out, "wb")
-    if not f then named.fail(fname, "cannot open the output file: %s", err) end
-    f:setvbuf("full")
+    f, lock = open_output(fname, out)
     put(s.header)
   end
   local rows = (not out) and {} or nil
@@ -360,6 +317,7 @@ local function run(args)
     local closed, cerr = f:close()
     if ok and not closed then ok, err = false, string.format("%s: cannot write %s: %s", fname, out, tostring(cerr)) end
   end
+  if lock then lock:release() end
   if not ok then error(err, 0) end
   return { count = s.count, columns = s.columns, rows = rows, out = out, format = format,
     failed = failed }
@@ -369,19 +327,19 @@ end
 -- the output path `out` (default: desc.out, else FILE with .lua replaced by .csv).
 function M.load(args)
   local fname = "sweep.load"
-  named.check(fname, args, { "file", "out", "format" })
-  local file = named.typed(fname, args, "file", "string")
+  A.table(fname, args, { "file", "out", "format" })
+  local file = A.typed(fname, args, "file", "string")
   local chunk, err = loadfile(file, "t")
-  if not chunk then error(err, 0) end
+  if not chunk then A.fail(fname, "%s", err) end
   local desc = chunk()
   if type(desc) ~= "table" then
-    error(string.format("%s: a sweep file must return a sweep description table " ..
-      "(return {parameters = ..., evaluate = ...}), got %s", file, type(desc)), 0)
+    A.fail(fname, "%s: a sweep file must return a sweep description table " ..
+      "(return {parameters = ..., evaluate = ...}), got %s", file, type(desc))
   end
   local out = args.out or desc.out or (file:gsub("%.lua$", "") .. ".csv")
-  if type(out) ~= "string" then named.fail("sweep", "out must be a path (string), got %s", type(out)) end
+  if type(out) ~= "string" then A.fail("sweep", "out must be a path (string), got %s", type(out)) end
   local format = args.format or desc.format or format_of(out)
-  format = named.option("sweep", { format = format }, "format", { "csv", "jsonl" })
+  format = A.option("sweep", { format = format }, "format", { "csv", "jsonl" })
   local s = compile("sweep", desc, format)
   s.out = out
   return s
@@ -393,145 +351,27 @@ sweep.load{file = "scan.lua" [, out = PATH] [, format = "csv" | "jsonl"]}: run a
 compiled sweep (see sweep.prepare) with its output path in field out.
 Example: local s = cp.sweep.load{file = "scan.lua"}; print(s.count, s.out)]])
 
--- Parse one flat JSON object (string keys; number, string, boolean or null values), the
--- shape of the rows written here; returns nil if the line is not such an object.
-local json_unescapes = { b = "\b", f = "\f", n = "\n", r = "\r", t = "\t" }
-local function parse_json_object(line)
-  local pos, obj = 1, {}
-  local function skip() pos = line:find("[^ \t\r]", pos) or #line + 1 end
-  local function str()
-    if line:sub(pos, pos) ~= '"' then return nil end
-    local parts, p = {}, pos + 1
-    while true do
-      local e = line:find('["\\]', p)
-      if not e then return nil end
-      parts[#parts + 1] = line:sub(p, e - 1)
-      if line:sub(e, e) == '"' then
-        pos = e + 1
-        return table.concat(parts)
-      end
-      local c = line:sub(e + 1, e + 1)
-      if c == "u" then
-        parts[#parts + 1] = utf8.char(tonumber(line:sub(e + 2, e + 5), 16) or 63)
-        p = e + 6
-      else
-        parts[#parts + 1] = json_unescapes[c] or c
-        p = e + 2
-      end
-    end
-  end
-  skip()
-  if line:sub(pos, pos) ~= "{" then return nil end
-  pos = pos + 1
-  skip()
-  if line:sub(pos, pos) == "}" then return obj end
-  while true do
-    skip()
-    local key = str()
-    if not key then return nil end
-    skip()
-    if line:sub(pos, pos) ~= ":" then return nil end
-    pos = pos + 1
-    skip()
-    local c, v = line:sub(pos, pos), nil
-    if c == '"' then
-      v = str()
-      if v == nil then return nil end
-    else
-      local word = line:match("^[^,}%s]+", pos)
-      if not word then return nil end
-      pos = pos + #word
-      if word == "true" then v = true
-      elseif word == "false" then v = false
-      elseif word ~= "null" then
-        v = tonumber(word)
-        if v == nil then return nil end
-      end
-    end
-    obj[key] = v
-    skip()
-    c = line:sub(pos, pos)
-    pos = pos + 1
-    if c == "}" then return obj end
-    if c ~= "," then return nil end
-  end
-end
-
 -- Read a sweep file (CSV as written here, or JSON Lines) back into a list of rows.
 function M.read(args)
   local fname = "sweep.read"
-  named.check(fname, args, { "path", "format" })
-  local path = named.typed(fname, args, "path", "string")
-  local format = named.option(fname, args, "format", { "csv", "jsonl" }, format_of(path))
+  A.table(fname, args, { "path", "format" })
+  local path = A.typed(fname, args, "path", "string")
+  local format = A.option(fname, args, "format", { "csv", "jsonl" }, format_of(path))
   local f, err = io.open(path, "rb")
-  if not f then named.fail(fname, "cannot open %s", err) end
+  if not f then A.fail(fname, "cannot open %s", err) end
   local text = f:read("a")
   f:close()
-  local rows, columns = {}, nil
-  local function convert(field, quoted)
-    if quoted then return field end
-    if field == "" then return nil end
-    if field == "true" then return true elseif field == "false" then return false end
-    if field == "nan" then return 0 / 0 end -- the texts format_number writes
-    if field == "inf" then return math.huge elseif field == "-inf" then return -math.huge end
-    return tonumber(field) or field
-  end
-  if format == "csv" then
-    local pos, n = 1, #text
-    local record, fields, quoted = {}, {}, {}
-    while pos <= n do
-      local field, q
-      if text:sub(pos, pos) == '"' then
-        local parts, p = {}, pos + 1
-        while true do
-          local e = text:find('"', p, true)
-          if not e then named.fail(fname, "%s: unterminated quoted field", path) end
-          parts[#parts + 1] = text:sub(p, e - 1)
-          if text:sub(e + 1, e + 1) == '"' then
-            parts[#parts + 1] = '"'
-            p = e + 2
-          else
-            pos = e + 1
-            break
-          end
-        end
-        field, q = table.concat(parts), true
-      else
-        local e = text:find("[,\r\n]", pos) or n + 1
-        field, q = text:sub(pos, e - 1), false
-        pos = e
-      end
-      fields[#fields + 1], quoted[#fields + 1] = field, q
-      local c = text:sub(pos, pos)
-      if c == "," then
-        pos = pos + 1
-      else
-        if c == "\r" then pos = pos + 1 end
-        if text:sub(pos, pos) == "\n" then pos = pos + 1 end
-        if not columns then
-          columns = fields
-        else
-          record = {}
-          for i, name in ipairs(columns) do record[name] = convert(fields[i] or "", quoted[i]) end
-          rows[#rows + 1] = record
-        end
-        fields, quoted = {}, {}
-      end
-    end
-  else
-    for line in text:gmatch("[^\n]+") do
-      local record = parse_json_object(line)
-      if not record then named.fail(fname, "%s: a line is not a flat JSON object: %s", path, line) end
-      rows[#rows + 1] = record
-    end
-  end
+  local decoder = format == "csv" and decode.csv or decode.jsonl
+  local columns, rows = decoder(text, fname .. ": " .. path)
   return { rows = rows, columns = columns }
 end
 
 cp.set_help(M.read, [[
 sweep.read{path = FILE [, format = "csv" | "jsonl"]}: read a sweep's output back.
-Returns {rows = {{point = 1, x = ..., y = ..., error = nil}, ...}, columns = {...} (CSV)}.
-Empty fields are nil; numbers are converted.  Example: cp.sweep.read{path = "scan.csv"}]])
+Returns {rows = {{point = 1, x = ..., y = ..., error = nil}, ...}, columns = {...}}.
+Empty fields are nil; decimal numbers are converted.  A row cut off (no line end), of the
+wrong width or breaking CSV (RFC 4180) or JSON (RFC 8259) grammar is an error naming the
+byte.  Example: cp.sweep.read{path = "scan.csv"}]])
 
 setmetatable(M, { __call = function(_, args) return run(args) end })
 M.run = run

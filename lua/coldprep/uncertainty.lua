@@ -7,7 +7,7 @@
 -- usual sampling-based sensitivity measure, e.g. Saltelli et al., Sensitivity Analysis in
 -- Practice, 2004, ch. 1 [M]).
 local cp = require "coldprep"
-local named = require "coldprep.named"
+local A = require "coldprep.argcheck"
 
 local M = {}
 
@@ -22,30 +22,30 @@ local DISTRIBUTIONS = {
 
 local function parse_parameters(fname, list)
   if type(list) ~= "table" or #list == 0 then
-    named.fail(fname, "parameters must be a non-empty list such as " ..
+    A.fail(fname, "parameters must be a non-empty list such as " ..
       "{{name = \"x\", distribution = \"normal\", mean = 1, sd = 0.1}}")
   end
   local params, seen = {}, {}
   for i, spec in ipairs(list) do
-    if type(spec) ~= "table" then named.fail(fname, "parameters[%d] must be a table", i) end
+    if type(spec) ~= "table" then A.fail(fname, "parameters[%d] must be a table", i) end
     local dist = DISTRIBUTIONS[spec.distribution]
     if not dist then
-      named.fail(fname, "parameters[%d]: distribution must be normal, uniform or lognormal, got %s",
+      A.fail(fname, "parameters[%d]: distribution must be normal, uniform or lognormal, got %s",
         i, tostring(spec.distribution))
     end
     local known = { "name", "distribution" }
     for _, k in ipairs(dist.keys) do known[#known + 1] = k end
-    named.check(fname, spec, known)
+    A.table(fname, spec, known)
     if type(spec.name) ~= "string" or spec.name == "" or seen[spec.name] then
-      named.fail(fname, "parameters[%d] needs a unique name, got %s", i, tostring(spec.name))
+      A.fail(fname, "parameters[%d] needs a unique name, got %s", i, tostring(spec.name))
     end
     seen[spec.name] = true
     local p = { name = spec.name, distribution = spec.distribution, dist = dist }
-    for _, k in ipairs(dist.keys) do p[k] = named.number(fname, spec, k) end
+    for _, k in ipairs(dist.keys) do p[k] = A.number(fname, spec, k, "SI units") end
     local bad = (p.sd and p.sd < 0) or (p.sigma and p.sigma < 0) or (p.median and p.median <= 0)
       or (p.max and p.max < p.min)
     if bad then
-      named.fail(fname, "parameter '%s': widths must be >= 0, a median > 0 and max >= min", p.name)
+      A.fail(fname, "parameter '%s': widths must be >= 0, a median > 0 and max >= min", p.name)
     end
     params[i] = p
   end
@@ -110,12 +110,12 @@ end
 
 function M.rank_correlation(args)
   local fname = "uncertainty.rank_correlation"
-  named.check(fname, args, { "x", "y" })
-  local x, y = named.typed(fname, args, "x", "table"), named.typed(fname, args, "y", "table")
-  if #x ~= #y or #x < 2 then named.fail(fname, "x and y must be lists of equal length >= 2") end
+  A.table(fname, args, { "x", "y" })
+  local x, y = A.typed(fname, args, "x", "table"), A.typed(fname, args, "y", "table")
+  if #x ~= #y or #x < 2 then A.fail(fname, "x and y must be lists of equal length >= 2") end
   for i = 1, #x do
-    if not (named.is_finite(x[i]) and named.is_finite(y[i])) then
-      named.fail(fname, "x[%d] and y[%d] must be finite numbers", i, i)
+    if not (A.is_finite(x[i]) and A.is_finite(y[i])) then
+      A.fail(fname, "x[%d] and y[%d] must be finite numbers", i, i)
     end
   end
   return { rho = spearman(x, y) }
@@ -128,39 +128,39 @@ list is constant).  Example: cp.uncertainty.rank_correlation{x = {1, 2, 3}, y = 
 
 local function run(args)
   local fname = "uncertainty"
-  named.check(fname, args, { "parameters", "evaluate", "outputs", "degenerate", "samples", "seed" })
+  A.table(fname, args, { "parameters", "evaluate", "outputs", "degenerate", "samples", "seed" })
   local params = parse_parameters(fname, args.parameters)
-  local evaluate = named.typed(fname, args, "evaluate", "function")
-  local outputs = named.typed(fname, args, "outputs", "table")
-  if #outputs == 0 then named.fail(fname, "outputs must list at least one result name") end
+  local evaluate = A.typed(fname, args, "evaluate", "function")
+  local outputs = A.typed(fname, args, "outputs", "table")
+  if #outputs == 0 then A.fail(fname, "outputs must list at least one result name") end
   local getters = {}
   for i, o in ipairs(outputs) do
-    if type(o) ~= "string" then named.fail(fname, "outputs[%d] must be a result name", i) end
-    getters[i] = named.result_getter(fname, string.format("outputs[%d]", i), o)
+    if type(o) ~= "string" then A.fail(fname, "outputs[%d] must be a result name", i) end
+    getters[i] = A.result_getter(fname, string.format("outputs[%d]", i), o)
   end
   local degenerate = args.degenerate
   if degenerate == nil then degenerate = "degenerate" end
   local is_degenerate
   if type(degenerate) == "table" then
-    named.check(fname, degenerate, { "output", "max", "min" })
-    local get = named.result_getter(fname, "degenerate.output",
-      named.typed(fname, degenerate, "output", "string"))
-    local lo = degenerate.min ~= nil and named.number(fname, degenerate, "min") or nil
-    local hi = degenerate.max ~= nil and named.number(fname, degenerate, "max") or nil
-    if lo == nil and hi == nil then named.fail(fname, "degenerate needs min or max") end
+    A.table(fname, degenerate, { "output", "max", "min" })
+    local get = A.result_getter(fname, "degenerate.output",
+      A.typed(fname, degenerate, "output", "string"))
+    local lo = degenerate.min ~= nil and A.number(fname, degenerate, "min", "SI units") or nil
+    local hi = degenerate.max ~= nil and A.number(fname, degenerate, "max", "SI units") or nil
+    if lo == nil and hi == nil then A.fail(fname, "degenerate needs min or max") end
     is_degenerate = function(result)
       local v = get(result)
-      if not named.is_finite(v) then return nil end
+      if not A.is_finite(v) then return nil end
       return (hi == nil or v <= hi) and (lo == nil or v >= lo)
     end
   elseif type(degenerate) == "string" or type(degenerate) == "function" then
-    is_degenerate = named.result_getter(fname, "degenerate", degenerate)
+    is_degenerate = A.result_getter(fname, "degenerate", degenerate)
   else
-    named.fail(fname, "degenerate must be a result name, a function(result, p) or " ..
+    A.fail(fname, "degenerate must be a result name, a function(result, p) or " ..
       "{output = ..., max = ...}, got %s", type(degenerate))
   end
-  local samples = named.integer(fname, args, "samples", 1000, 2, 100000000)
-  local seed = named.integer(fname, args, "seed", 1, 0, 4294967295)
+  local samples = A.integer(fname, args, "samples", 1000, 2, 100000000)
+  local seed = A.integer(fname, args, "seed", 1, 0, 4294967295)
 
   local function evaluate_at(p)
     local arg = {}
@@ -210,7 +210,7 @@ local function run(args)
     if good then
       vals = outputs_of(result)
       for i, v in ipairs(vals) do
-        if not named.is_finite(v) then -- it would poison the mean and the sorting
+        if not A.is_finite(v) then -- it would poison the mean and the sorting
           good, result = false, string.format("output '%s' is %s", outputs[i], tostring(v))
           break
         end

@@ -11,6 +11,7 @@ local units = {
   ns = 1e-9, us = 1e-6, ms = 1e-3, s = 1,
   nm = 1e-9, um = 1e-6, mm = 1e-3, cm = 1e-2, m = 1,
   uW = 1e-6, mW = 1e-3, W = 1,
+  V_per_m = 1, V_per_cm = 1e2, kV_per_cm = 1e5,
   a0 = consts.a0, debye = consts.debye, Debye = consts.debye, amu = consts.amu,
   cm3 = 1e-6,     -- 1 cm^3 in m^3: a rate coefficient K [cm^3/s] is K * units.cm3 in m^3/s
   per_cm3 = 1e6,  -- 1 cm^-3 in m^-3: a density n [cm^-3] is n * units.per_cm3 in m^-3

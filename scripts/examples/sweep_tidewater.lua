@@ -1,6 +1,8 @@
 -- A sweep of the demo plan (scripts/demo.lua: the Tidewater lab's 23Na40K sequence) over
 -- the two settings its verdict is most sensitive to: the Feshbach ramp rate and the dc
--- electric field of the final evaporation.  100 x 100 = 10 000 points.
+-- electric field of the final evaporation, with a loss rate the lab measured (it overrides
+-- the predicted one; the elastic cross section is still predicted for the field).
+-- 100 x 100 = 10 000 points.
 --   coldprep sweep scripts/examples/sweep_tidewater.lua --out tidewater.csv
 --   cp.plot.map{data = "tidewater.csv", x = "ramp_rate", y = "electric_field",
 --               z = "final.t_over_tf", xlog = true, out = "tidewater.png",

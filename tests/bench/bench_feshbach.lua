@@ -1,5 +1,5 @@
--- Timing of cp.feshbach.associate called from a plain Lua loop (target >= 1e6 calls/s,
--- issue 3), with the resonance and molecule passed as the tables cp.species returns (the
+-- Timing of cp.feshbach.associate called from a plain Lua loop (target >= 1e6 calls/s),
+-- with the resonance and molecule passed as the tables cp.species returns (the
 -- lean path: no name lookups).  Best of several repeats: the machine is shared.
 local cp = require "coldprep"
 local r, m = cp.species.resonance("KRb"), cp.species.molecule("KRb")

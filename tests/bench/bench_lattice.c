@@ -1,5 +1,5 @@
 /*
- * Benchmark of the lattice model (issue 5 targets, one core):
+ * Benchmark of the lattice model (one core):
  *   - band energies of 5 bands at 1000 quasimomenta across the zone at V0 = 10 E_r
  *     (target <= 2 ms), in order and in a scrambled order (sorted internally: the same
  *     cost); numpy's batched eigvalsh cannot be measured here (no Python package registry);

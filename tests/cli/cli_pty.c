@@ -8,6 +8,8 @@
  * Script lines (TEXT may use the escapes \n \r \t \e \\ \xHH):
  *   send TEXT     write TEXT to the terminal, as if typed
  *   expect TEXT   wait until TEXT appears in the output after the previous match
+ *   within MS TEXT  expect TEXT, failing unless it appears within MS milliseconds of the
+ *                 last send (how fast the program reacts to a key, e.g. Ctrl-C)
  *   sleep MS      wait MS milliseconds (reading output meanwhile)
  *   exit CODE     wait for the program to end; it must exit normally with status CODE
  *   # ...         a comment; empty lines are ignored
@@ -178,9 +180,10 @@ static void wait_exit(int lineno, int want)
     }
 }
 
-static void expect(int lineno, const char *pattern, size_t len)
+static double last_send; /* when the last send was written, s */
+
+static void expect(int lineno, const char *pattern, size_t len, double deadline)
 {
-    double deadline = now() + timeout_s;
     for (;;) {
         for (size_t i = matched; i + len <= out_len; i++) {
             if (memcmp(out + i, pattern, len) == 0) {
@@ -236,10 +239,18 @@ int main(int argc, char **argv)
                 if (n > 0)
                     done += (size_t)n;
             }
+            last_send = now();
             pump(0);
         } else if (strcmp(line, "expect") == 0) {
             size_t len = unescape(arg);
-            expect(lineno, arg, len);
+            expect(lineno, arg, len, now() + timeout_s);
+        } else if (strcmp(line, "within") == 0) {
+            char *text = strchr(arg, ' ');
+            if (text == NULL)
+                fail(lineno, "within needs MS and TEXT");
+            *text++ = '\0';
+            size_t len = unescape(text);
+            expect(lineno, text, len, last_send + atof(arg) / 1000.0);
         } else if (strcmp(line, "sleep") == 0) {
             double until = now() + atof(arg) / 1000.0;
             while (now() < until)
@@ -248,7 +259,7 @@ int main(int argc, char **argv)
         } else if (strcmp(line, "exit") == 0) {
             wait_exit(lineno, atoi(arg));
         } else {
-            fail(lineno, "unknown command (send, expect, sleep, exit)");
+            fail(lineno, "unknown command (send, expect, within, sleep, exit)");
         }
     }
     if (child > 0) { /* the script did not wait for the end: stop the program */

@@ -41,7 +41,7 @@ printf '\n\nlocal p = cp.plan { start = {} }\n' >plan_error.lua
 run "$coldprep" plan_error.lua </dev/null
 err_has RUN-4e "plan_error.lua:3: plan: argument 'stages'"
 
-# RUN-5: the acceptance checks of issue 2.
+# RUN-5: the acceptance checks of the command-line runner (docs/cli.md).
 run "$coldprep" -e 'print(require("coldprep").species.atom("40K").statistics)'
 out_is RUN-5a "fermion"
 status RUN-5b 0

@@ -1,5 +1,5 @@
 -- Lua-level tests of cp.feshbach through the real coldprep binary: the API names of
--- ../shared/API.md, unit round trips, results against hand-evaluated formulas, help texts,
+-- docs/lua-api.md, unit round trips, results against hand-evaluated formulas, help texts,
 -- and bad input for every argument (a clear, catchable error every time).
 local T = require "testlib"
 local cp = require "coldprep"
@@ -19,7 +19,7 @@ T.near(fb.scattering_length { resonance = r, field = r.b0 - r.width }.a, 2 * r.a
   "a(B0 - Delta) = 2 abg")
 T.near(fb.scattering_length { resonance = "KRb", field = 546 * G }.a / a0,
   -187 * (1 - (-3.04) / (546 - 546.7)), 1e-9, "resonance given by molecule name, field in G")
-T.near(m.reduced_mass / cp.consts.amu, 27.375670, 1e-7, "reduced mass of 40K87Rb (physics.md §2)")
+T.near(m.reduced_mass / cp.consts.amu, 27.375670, 1e-7, "reduced mass of 40K87Rb (AME2020 masses, docs/data.md)")
 
 -- FB-L2: binding energy: model choice and the universal formula by hand.
 local b = fb.binding_energy { resonance = r, molecule = m, field = 546.6 * G }
@@ -32,6 +32,13 @@ local l = fb.binding_energy { resonance = r, molecule = m, field = 540 * G }
 T.check(l.model == "linear", "far below (a < 0) the linear form")
 T.near(l.energy, r.dmu * 6.7 * G, 1e-9, "linear dmu |B - B0|")
 T.near(b.abar / a0, 68.8, 0.01, "abar(40K-87Rb) = 68.8 a0 (Chin et al. RMP 2010 [M])")
+-- FB-L2b validity flags reach Lua: none near the pole; past the zero crossing B0 + Delta =
+-- 543.66 G (a = abg (1 + Delta/(B0 - B)) < 0 at 540 G, by hand) and the linear form on this
+-- s_res > 1 resonance are flagged.
+T.check(#b.flags == 0, "near the pole: no flag")
+local lf = {}
+for _, f in ipairs(l.flags) do lf[f] = true end
+T.check(lf.past_zero_crossing and lf.linear_broad and b.s_res > 1, "540 G: past the zero crossing, linear on a broad resonance")
 local nc = fb.binding_energy { resonance = r, molecule = m, field = 546.6 * G, c6_au = 8000 }
 T.check(nc.abar > b.abar, "explicit c6_au overrides the resonance's")
 
@@ -65,7 +72,7 @@ local site = fb.associate_site { resonance = r, molecule = m, ramp_rate = 100, o
   omega_y = w, omega_z = w }
 local psi2 = (mu * w / (math.pi * hbar)) ^ 1.5
 T.near(site.lz_parameter, alpha * psi2 * math.abs(r.abg * r.width) / 100 / (2 * math.pi), 1e-12,
-  "site LZ parameter (physics.md §4.1.5)")
+  "site LZ parameter (docs/models/feshbach.md)")
 
 -- FB-L4: overlap, ceiling, dissociation.
 local wt = 2 * math.pi * 100

@@ -1,4 +1,4 @@
--- Lua-level tests of cp.lattice through the real coldprep binary: the API.md names and
+-- Lua-level tests of cp.lattice through the real coldprep binary: the docs/lua-api.md names and
 -- units, values against hand calculations and published limits, and error messages.
 local T = require "testlib"
 local cp = require "coldprep"
@@ -11,7 +11,7 @@ local r = cp.lattice.recoil { mass = krb, wavelength = 1064 * u.nm }
 T.near(r.frequency_hz, 1389.0691289, 1e-9, "KRb recoil at 1064 nm")
 T.near(r.energy, 1389.0691289 * cp.consts.h, 1e-9, "recoil energy in J")
 
--- LAT-L2: depth worked example (Grimm et al. 2000 [M], physics.md §6.1): 1 W, 100 um,
+-- LAT-L2: depth worked example (Grimm et al. 2000 [M], docs/models/lattice.md): 1 W, 100 um,
 -- 1064 nm, 1000 a.u. -> V0/h = 1.19356658 MHz by hand; 1000 a.u. = 46.8712499 Hz/(W/cm^2)
 -- and 1.6487772743602864e-38 C m^2/V give the same.
 local base = { power = 1 * u.W, waist = 100 * u.um, wavelength = 1064 * u.nm }
@@ -46,8 +46,8 @@ T.near(d3.omega_bar, math.sqrt(d_au.depth * (2 / zr ^ 2 + 8 / 1e-8) / krb), 1e-9
 T.near(d3.axes[2].depth, d_au.depth, 1e-12, "3D axis depth")
 
 -- LAT-L4: bands.  Free particle (depth 0): folded parabolas (q + 2l)^2 (Ashcroft and Mermin
--- Ch. 9); at 10 E_r J = width/4 to 1e-3 (Mathieu, physics.md §6.1) and Zwerger's
--- asymptotic J is 19 % high (physics.md §6.1 [C]).
+-- Ch. 9); at 10 E_r J = width/4 to 1e-3 (Mathieu, docs/models/lattice.md) and Zwerger's
+-- asymptotic J is 19 % high (computed from the Mathieu width, docs/models/lattice.md).
 local b0 = cp.lattice.bands { depth_er = 0, bands = 3, quasimomenta = { 0.5 } }
 T.near(b0.energies_er[1][1], 0.25, 1e-12, "free band 1 at q = 0.5")
 T.near(b0.energies_er[1][2], 2.25, 1e-12, "free band 2 at q = 0.5")
@@ -146,8 +146,39 @@ T.raises(function() cp.lattice.depth3d { beams = { beam, beam }, mass = krb } en
   { "3 beam tables" }, "3D needs three beams")
 
 -- HELP-L2: every lattice function has a help text.
+-- LAT-L-SPECIES: a beam given with a species takes its built-in polarizability at the beam's
+-- wavelength.  The depth is linear in alpha, so 87Rb (699.8 a.u. at 1064 nm, the estimate in
+-- docs/data.md from Holmgren et al., PRA 81, 053607 (2010)) gives 0.6998 of LAT-L2's
+-- 1.19356658 MHz for 1000 a.u. (by hand).
+local d_rb = cp.lattice.depth(with(base, { species = "87Rb" }))
+T.near(d_rb.depth_hz, 1.19356658e6 * cp.species.polarizability("87Rb", 1064 * u.nm) / 1000, 1e-8,
+  "depth from the species' built-in polarizability")
+T.near(cp.species.polarizability("87Rb", 1064 * u.nm), 699.8, 1e-12, "87Rb alpha(1064) as tabulated")
+T.raises(function() cp.lattice.depth(with(base, { species = "KRb" })) end,
+  { "lattice.depth", "no published polarizability of 40K87Rb", "polarizability_au" },
+  "no built-in molecular polarizability: asks for it")
+T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", wavelength = 780.5 * u.nm })) end,
+  { "87Rb", "780.5 nm", "polarizability_au" }, "an untabulated wavelength asks for the value")
+T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", polarizability_au = 700 })) end,
+  { "either 'species' or a polarizability" }, "both given")
+local d3 = cp.lattice.depth3d { beams = { with(base, { species = "Rb87" }), with(base, { species = "Rb87" }),
+  with(base, { species = "Rb87" }) }, mass = cp.species.atom("87Rb").mass }
+T.near(d3.axes[1].depth / cp.consts.h, d_rb.depth_hz, 1e-12, "depth3d beams take a species too")
+
 for name, f in pairs(cp.lattice) do
   T.check(type(cp.get_help(f)) == "string", "help text for lattice." .. name)
 end
 
+-- LAT-L-FLAG: the validity flags reach Lua: heating at 2 E_r is "shallow" (eta^2 =
+-- 1/(2 sqrt 2) > 0.3), at 10 E_r not; a linear 0 -> 10 E_r load in 0.1 ms leaves more than
+-- 5 % excited ("beyond_first_order"), in 1 ms not (first-order fractions, checked against
+-- an exact propagation in the unit test).
+local KM = cp.species.molecule("KRb").mass
+T.check(cp.lattice.heating { scattering_rate = 0.1, mass = KM, wavelength = 1064e-9, depth_er = 2 }.flags[1] == "shallow"
+  and #cp.lattice.heating { scattering_rate = 0.1, mass = KM, wavelength = 1064e-9, depth_er = 10 }.flags == 0,
+  "heating: shallow flag below 3 E_r only")
+local fast = cp.lattice.loading { shape = "linear", end_er = 10, duration = 1e-4, mass = KM, wavelength = 1064e-9 }
+local slow = cp.lattice.loading { shape = "linear", end_er = 10, duration = 1e-3, mass = KM, wavelength = 1064e-9 }
+T.check(fast.flags[1] == "beyond_first_order" and fast.excited_fraction > 0.05 and #slow.flags == 0,
+  "loading: beyond_first_order above 5 % excitation only")
 T.done()

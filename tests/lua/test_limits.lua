@@ -27,7 +27,22 @@ for name, call in pairs(calls) do
     name .. ": above the temperature cap refused")
 end
 
+-- Tiny inputs inside the old ranges gave silent inf or NaN (sag inf for a 1e-300 W beam, a
+-- barrier of inf for C6 = 1.6e-296 a.u., NaN for a 5e-324 s ramp); the ranges now start at
+-- physical floors (coldprep/limits.h) and such inputs are refused, naming the parameter.
+T.raises(function() cp.lattice.depth { power = 1e-300, waist = 1e-4, wavelength = 1064e-9,
+  polarizability_au = 700, mass = 2e-25 } end, { "power", "W", "allowed" }, "a 1e-300 W beam")
+T.raises(function() cp.collisions.pwave_barrier { c6_au = 1.6e-296, mass = 1e-25 } end,
+  { "c6_au", "a.u.", "allowed" }, "a vanishing C6")
+T.raises(function() cp.collisions.mean_scattering_length { c6_au = 1e-300, mass = 1e-25 } end,
+  { "c6_au", "allowed" }, "a vanishing C6 for the mean scattering length")
+T.raises(function() cp.lattice.loading { shape = "linear", start_er = 0, end_er = 20,
+  duration = 4.9e-324, mass = 2e-25, wavelength = 1064e-9 } end, { "duration", "s", "allowed" },
+  "a denormal ramp duration")
+T.check(cp.lattice.depth { power = L.min_beam_power, waist = 1e-4, wavelength = 1064e-9,
+  polarizability_au = 700, mass = 2e-25 }.sag < math.huge, "the weakest allowed beam gives a finite sag")
+
 -- A NaN with its sign bit set (0/0 on x86 is one) reads "NaN" on every platform, not "-nan".
 local ok, msg = pcall(cp.thermo.fermi, { number = 1e5, omega_bar = 100, mass = mass, temperature = -(0 / 0) })
-T.check(not ok and msg:find("got NaN", 1, true) and not msg:find("-nan", 1, true), "NaN spelled NaN: " .. tostring(msg))
+T.check(not ok and msg:find("temperature NaN K is not a number", 1, true) and not msg:find("-nan", 1, true), "NaN spelled NaN: " .. tostring(msg))
 T.done()

@@ -74,7 +74,7 @@ raises("log scale through 0", "needs min > 0", cp.optimize, { parameters = { {na
   evaluate = function() return 1 end })
 raises("start outside", "outside", cp.optimize, { parameters = { {name = "x", min = 0, max = 1, start = 2} },
   evaluate = function() return 1 end })
-raises("NaN bound", "must be a finite number", cp.optimize, { parameters = { {name = "x", min = 0 / 0, max = 1} },
+raises("NaN bound", "min NaN SI units is not a number", cp.optimize, { parameters = { {name = "x", min = 0 / 0, max = 1} },
   evaluate = function() return 1 end })
 raises("nothing evaluates", "no parameter set could be evaluated", cp.optimize,
   { parameters = { {name = "x", min = 0, max = 1} }, evaluate = function() error("always") end })

@@ -1,6 +1,7 @@
 -- Sharp edges of the model stages that a user hits with unrealistic or impossible plans:
--- each must be an error naming the stage and the field, or a note in the budget, never a
--- silently implausible number.
+-- wrong input is an error naming the stage and the field; physics that does not work out
+-- is a failed stage in a budget that is still returned; an estimate out of its range is a
+-- note; never a silently implausible number.
 local T = require "testlib"
 local cp = require "coldprep"
 
@@ -21,21 +22,60 @@ local function plan(stages, T0)
 end
 local function notes(r) return table.concat(r.notes, " | ") end
 
--- EDGE-1 evaporation end points that cannot be reached are errors naming the stage and the
--- argument (they reached the C model as a final_number out of its range).
+-- EDGE-1 evaporation end points the sample has already passed are input errors naming the
+-- stage and the argument (they reached the C model as a final_number out of its range).
 T.raises(function() cp.stages.evaporate { eta = 8, keep = 1, ratio = 100 } end,
-  { "stages.evaporate", "'keep'", "(0, 1)" }, "keep = 1 is no evaporation")
+  { "stages.evaporate", "keep 1 fraction is out of range", "(0, 1)" }, "keep = 1 is no evaporation")
 T.raises(function() plan { cp.stages.evaporate { eta = 8, final_temperature = 1 * u.uK, ratio = 100 } }:run() end,
   { "stage 4 (evaporate)", "'final_temperature'", "1000 nK", "not below" }, "final temperature above the start")
 T.raises(function() plan { cp.stages.evaporate { eta = 8, final_depth = 8 * cp.consts.kB * 1e-6, ratio = 100 } }:run() end,
   { "stage 4 (evaporate)", "'final_depth'", "eta = 8" }, "final depth above the start")
 T.raises(function() plan { cp.stages.evaporate { eta = 8, final_number = 1e6, ratio = 100 } }:run() end,
-  { "stage 4 (evaporate)", "'final_number'", "not below" }, "final number above the start")
+  { "stage 4 (evaporate)", "final_number 1e+06", "not below" }, "final number above the start")
 
 T.raises(function() cp.stages.evaporate { eta = 8, duration = 1, ratio = 100 } end,
   { "stages.evaporate", "'duration'", "cross_section" }, "a duration end point needs the collision rates")
-T.raises(function() plan { cp.stages.evaporate { eta = 8, duration = 1e5, cross_section = 1e-15, loss_rate = 0 } }:run() end,
-  { "stage 4 (evaporate)", "'duration'", "longer than the evaporation can last" }, "an unreachable duration")
+
+-- EDGE-1b end points the physics never reaches are a failed stage, not an error: the plan
+-- returns its budget, the stage is marked failed with the reason, the verdict is "not
+-- degenerate", the stages after it are not run and the sample is the one that entered it.
+-- Without loss no evaporation of 2.7e4 molecules lasts 1e5 s at sigma = 1e-15 m^2; with an
+-- elastic/loss ratio of 3 at eta = 8 the evaporating fraction f R ~ 8e-3 is far below the
+-- loss, so the cloud heats (Ketterle & van Druten 1996 [M]: d ln T/d ln N < 0 while
+-- (eta + kappa - 3) f R < 3 - 9/4) and never reaches 40 nK.
+local function failed_case(evap, what, reason)
+  local fb = plan { evap, cp.stages.hold { duration = 0.1 } }:run()
+  T.check(fb.failed_stage == 4 and fb.stages[4].failed == true, what .. ": stage 4 marked failed")
+  T.check(fb.failure:find(reason, 1, true) ~= nil and fb.stages[4].failure == fb.failure, what .. ": the reason")
+  T.check(fb.degenerate == false and fb.verdict:find("not degenerate: stage 4 (evaporate) failed", 1, true) == 1,
+    what .. ": verdict not degenerate, naming the stage")
+  T.check(fb.stages[5].failed == false and notes(fb.stages[5]):find("not run: stage 4", 1, true) ~= nil,
+    what .. ": the hold after it is not run")
+  T.near(fb.final.number, fb.stages[3].number, 1e-15, what .. ": the sample as it entered the stage")
+  T.check(fb.reason:find("failed", 1, true) ~= nil and #fb.ranking == 0, what .. ": reason, no ranking")
+  T.check(fb:text():find("evaporate FAILED", 1, true) ~= nil, what .. ": the table marks the row")
+end
+failed_case(cp.stages.evaporate { eta = 8, duration = 1e5, cross_section = 1e-15, loss_rate = 0 },
+  "unreachable duration", "longer than the evaporation can last")
+failed_case(cp.stages.evaporate { eta = 8, final_temperature = 40 * u.nK, ratio = 3 },
+  "unreachable temperature", "never falls to 40 nK")
+-- the same plans with reachable end points do not fail
+local okb = plan { cp.stages.evaporate { eta = 8, final_temperature = 250 * u.nK, ratio = 300 } }:run { limiting = false }
+T.check(okb.failed_stage == nil and okb.stages[4].failed == false and okb.final.temperature < 251 * u.nK,
+  "a reachable final temperature: no failure")
+
+-- EDGE-1c validity flags reach the budget: a hold of 23Na40K molecules with the universal
+-- p-wave rate at 300 nK (k_B T / E_1 ~ 0.025 of the barrier, E_1/k_B = 12 uK from
+-- cp.collisions.pwave_barrier) carries no flag; at 5 uK (0.41 > 0.1) the stage record
+-- carries {model = "collisions", flag = "above_barrier"}, a note, and the CSV names it.
+local function hold_at(T0)
+  return plan({ cp.stages.hold { duration = 0.01 } }, T0):run { limiting = false }.stages[4]
+end
+local cold, hot = hold_at(300 * u.nK), hold_at(5 * u.uK)
+T.check(#cold.flags == 0, "universal rate inside its range: no flag")
+T.check(#hot.flags == 1 and hot.flags[1].model == "collisions" and hot.flags[1].flag == "above_barrier",
+  "universal rate above a tenth of the p-wave barrier: flagged")
+T.check(notes(hot):find("outside its range (collisions.above_barrier)", 1, true) ~= nil, "and noted")
 
 -- EDGE-2 an evaporation whose duration follows only from a collision ratio has an unknown
 -- duration: NaN ("-"), not 0 ms, and the elapsed time says it is not counted.
@@ -51,8 +91,9 @@ T.near(ev.elapsed, b.stages[3].elapsed, 1e-12, "the elapsed time counts only kno
 -- EDGE-3 a slow evaporation (weak dipolar collisions) is flagged: its one-body loss is
 -- not modelled, and one lasting minutes is not a realistic plan.  The cross section of
 -- 1e-17 m^2 with ~1e18 m^-3 gives elastic rates of ~0.1 /s (order of magnitude by hand:
--- n sigma v = 1e18 * 1e-17 * 1e-2 m/s), of which a fraction eta e^-eta / sqrt 2 ~ 2e-3
--- evaporates (Ketterle & van Druten 1996 [M]): losing half takes ~1e3 s, far above a minute.
+-- n sigma v = 1e18 * 1e-17 * 1e-2 m/s), of which a fraction 2 (eta - 4) e^-eta ~ 3e-3
+-- evaporates (Luiten, Reynolds & Walraven, PRA 53, 381 (1996)): losing half takes ~1e3 s,
+-- far above a minute.
 local slow = plan { cp.stages.evaporate { eta = 8, keep = 0.5, cross_section = 1e-17, loss_rate = 0 } }
   :run { limiting = false }
 T.check(slow.stages[4].duration > 60, "slow evaporation: minutes")
@@ -100,8 +141,8 @@ if okr then
 end
 
 -- EDGE-4c the universal loss rate rests on threshold laws: a hold at a temperature near
--- the p-wave barrier says so.  NaCs (C6 ~ 6.8e6 a.u., physics.md 3) has a barrier of
--- ~0.9 uK (E_1 = [2 hbar^2]^(3/2) / (3 sqrt 6 mu^(3/2) C6^(1/2)), physics.md 8.1), KRb
+-- the p-wave barrier says so.  NaCs (C6 ~ 6.8e6 a.u., docs/data.md) has a barrier of
+-- ~0.9 uK (E_1 = [2 hbar^2]^(3/2) / (3 sqrt 6 mu^(3/2) C6^(1/2)), docs/models/collisions.md), KRb
 -- (C6 = 16130 a.u.) ~24 uK; at 300 nK NaCs is past a tenth of it, KRb is not.
 local function hold_note(molecule, a, b)
   local bud = cp.plan { start = { molecule = molecule, temperature = 300 * u.nK, atoms = {
@@ -112,7 +153,7 @@ local function hold_note(molecule, a, b)
 end
 local mol = cp.species.molecule("NaCs")
 local mu = mol.mass / 2
-local c6 = mol.c6_au * 4.3597447222071e-18 * 5.29177210903e-11 ^ 6 -- E_h a0^6 (CODATA 2018, physics.md 1)
+local c6 = mol.c6_au * 4.3597447222071e-18 * 5.29177210903e-11 ^ 6 -- E_h a0^6 (CODATA 2018)
 local e1 = (2 * cp.consts.hbar ^ 2) ^ 1.5 / (3 * math.sqrt(6) * mu ^ 1.5 * math.sqrt(c6)) / cp.consts.kB
 T.check(e1 < 3e-6 and 300 * u.nK > 0.1 * e1, "NaCs: 300 nK is past a tenth of the barrier (by hand)")
 T.check(hold_note("23Na133Cs", "23Na", "133Cs"):find("of the p-wave barrier", 1, true) ~= nil, "NaCs near its barrier: noted")
@@ -121,7 +162,7 @@ T.check(not hold_note("40K87Rb", "87Rb", "40K"):find("p-wave barrier", 1, true),
 -- EDGE-5 bad model parameters are errors where the stage is built, naming the stage
 -- constructor and the field (they surfaced only when the plan ran).
 T.raises(function() cp.stages.transfer { rabi_pump = 1e7, rabi_stokes = 1e7, width = 1e-5, delay = 1e-5,
-  gamma = 1e7, shape = "gauss" } end, { "stages.transfer", "'shape'" }, "bad pulse shape at construction")
+  gamma = 1e7, shape = "gauss" } end, { "stages.transfer", "shape \"gauss\" is not allowed" }, "bad pulse shape at construction")
 T.raises(function() cp.stages.associate { ramp_rate = 1, resonance = { b0 = 0.01387, width = -1e-4,
   abg = -3.7e-8, dmu = 1.85e-23, c6au = 2447 } } end,
   { "stages.associate", "'resonance'", "unknown argument 'c6au'", "c6_au" }, "misspelt resonance field")
@@ -144,7 +185,7 @@ local hot = plan({}, 600 * u.nK):run { limiting = false }
 T.check(600 * u.nK > tc_na and not notes(hot.stages[1]):find("below T_c", 1, true), "thermal partner: no note")
 
 -- EDGE-6b a lattice of 1 uW per beam is far too shallow to hold molecules at ~100 nK:
--- V0 = 4 Re(alpha) P / (pi eps0 c w^2) (physics.md 6.1) with 700 a.u. = 1.154e-38 SI,
+-- V0 = 4 Re(alpha) P / (pi eps0 c w^2) (docs/models/lattice.md) with 700 a.u. = 1.154e-38 SI,
 -- 1e-6 W, 180 um gives V0/kB ~ 1e-11 K, i.e. ~1e-4 kB T (by hand).
 local alpha_si = 700 * 1.6487772743602864e-41
 local v0 = 4 * alpha_si * 1e-6 / (pi * 8.8541878128e-12 * 299792458 * (180 * u.um) ^ 2)
@@ -153,6 +194,13 @@ local shallow = plan { cp.stages.load_lattice { wavelength = 1064 * u.nm, power 
   polarizability_au = 700, ramp_time = 0.05 } }:run { limiting = false }
 T.check(notes(shallow.stages[4]):find("molecules are not held", 1, true) ~= nil, "too shallow a lattice is flagged")
 T.check(notes(cold.stages[1]):find("40K is degenerate", 1, true) ~= nil, "degenerate fermionic partner noted")
+
+-- EDGE-6c without polarizability_au the lattice takes the molecules' built-in value at its
+-- wavelength; NaK has none built in, so the stage asks for it plainly.
+T.raises(function() plan { cp.stages.load_lattice { wavelength = 1064 * u.nm, power = 0.6,
+  waist = 180 * u.um, ramp_time = 0.05 } }:run { limiting = false } end,
+  { "stages.load_lattice", "no published polarizability of 23Na40K", "polarizability_au" },
+  "no built-in molecular polarizability: the stage asks for it")
 
 -- EDGE-7 a trap change after lattice loading leaves the lattice: the next hold has no
 -- photon-scattering heating (it kept heating at the lattice's rate).

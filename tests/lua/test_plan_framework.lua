@@ -42,7 +42,7 @@ end
 local function rho(N, T, w) return N * (c.hbar * w / (c.kB * T)) ^ 3 end
 
 -- PLAN-F1: the start's degeneracy is computed from the model: T_F = hbar w (6N)^(1/3)/kB
--- (Butts & Rokhsar 1997; physics.md section 7), entropy as the classical limit above.
+-- (Butts & Rokhsar 1997; docs/models/thermo.md), entropy as the classical limit above.
 local plan = cp.plan { name = "framework", start = start(), stages = { convert(0.3), heat(2), keep(0.1) } }
 local b = plan:run()
 local TF = c.hbar * W * (6 * 1e4) ^ (1 / 3) / c.kB
@@ -119,9 +119,9 @@ T.raises(function() cp.stages.transfer { rabi_pump = 1e7, rabi_stokes = 1e7, del
 T.raises(function() cp.stages.hold { duraton = 1 } end,
   { "stages.hold", "unknown argument 'duraton'", "did you mean 'duration'" }, "misspelt key")
 T.raises(function() cp.stages.hold { duration = -1 } end,
-  { "stages.hold", "'duration'", "out of range" }, "negative duration")
+  { "stages.hold", "duration -1 s is out of range" }, "negative duration")
 T.raises(function() cp.stages.hold { duration = 0 / 0 } end,
-  { "stages.hold", "'duration'", "finite" }, "NaN duration")
+  { "stages.hold", "duration NaN s is not a number", "finite" }, "NaN duration")
 T.raises(function() cp.stages.evaporate { eta = 8, keep = 0.3 } end,
   { "stages.evaporate", "electric_field" }, "evaporation without a collision source")
 local s0 = start()
@@ -149,7 +149,7 @@ T.raises(function() cp.plan { start = start(), stages = { keep(1) }, threshhold 
 -- PLAN-F7: a custom stage that breaks the sample is reported with the stage and the field.
 local bad = cp.stages.custom { name = "breaker", fn = function(s) s.temperature = -1; return s end }
 T.raises(function() cp.plan { start = start(), stages = { bad } }:run() end,
-  { "stage 1 (breaker)", "'temperature'" }, "negative temperature from a custom stage")
+  { "stage 1 (breaker)", "sample field temperature -1 K is out of range" }, "negative temperature from a custom stage")
 local raiser = cp.stages.custom { name = "raiser", fn = function() error("lab on fire") end }
 T.raises(function() cp.plan { start = start(), stages = { raiser } }:run() end,
   { "stage 1 (raiser)", "lab on fire" }, "an error inside a custom stage names it")
@@ -189,7 +189,7 @@ T.check(grow.stages[2].notes[1]:find("rose by a factor 2", 1, true) ~= nil, "a s
 local s1 = start()
 s1.atoms[1].trap_frequencies = 1e-5
 T.raises(function() cp.plan { start = s1, stages = { keep(1) } } end,
-  { "plan: start.atoms[1]", "'trap_frequencies'", "1e-05" }, "absurd trap frequency")
+  { "plan: start.atoms[1]", "trap_frequencies 1e-05 rad/s is out of range" }, "absurd trap frequency")
 s1 = start()
 s1.temperature = 1e-14
 T.raises(function() cp.plan { start = s1, stages = { keep(1) } } end,
@@ -265,6 +265,16 @@ T.check(csv:sub(-2) == "\r\n", "CSV ends in CRLF")
 local recs = parse_csv(csv)
 T.check(#recs == 4, "CSV: header, start and two stages")
 T.check(recs[1][1] == "index" and recs[1][#recs[1]] == "notes", "CSV header")
+-- every column with a unit names it (SI): K, per m^3, kB, s
+local col = {}
+for i, name in ipairs(recs[1]) do col[name] = i end
+for _, name in ipairs { "temperature_K", "peak_density_per_m3", "entropy_per_particle_kB", "duration_s",
+  "elapsed_s", "degeneracy_name", "degeneracy", "failed", "flags" } do
+  T.check(col[name] ~= nil, "CSV column " .. name)
+end
+T.near(tonumber(recs[4][col.peak_density_per_m3]), nb.final.peak_density, 1e-9, "CSV peak density in m^-3")
+T.check(recs[4][col.degeneracy_name] == nb.final.degeneracy_name and recs[4][col.failed] == "false",
+  "CSV: T/T_F or T/T_c named in every row; not failed")
 T.check(recs[4][#recs[4]] == 'a "quoted", noted\nline; tab\tctrl\1 ünï; latin-1 \233t\233',
   "CSV quoting round-trips (notes joined by '; ')")
 T.near(tonumber(recs[4][5]), nb.final.number, 1e-9, "CSV number column")

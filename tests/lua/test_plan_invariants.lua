@@ -87,7 +87,7 @@ T.check(krb.species == "40K87Rb" and krb.final.degeneracy_name == "T/T_F", "KRb 
 local hold_note = table.concat(krb.stages[6].notes, " ")
 T.check(hold_note:find("universal p-wave", 1, true) ~= nil, "KRb hold uses the universal p-wave rate")
 T.check(hold_note:find("1.613e+04", 1, true) ~= nil, "with KRb's C6 from the species table")
--- bosonic 87Rb133Cs (50 + 78 neutrons: even, physics.md 3): T/T_c, universal s-wave loss
+-- bosonic 87Rb133Cs (50 + 78 neutrons: even, docs/data.md): T/T_c, universal s-wave loss
 local rbcs = nak_plan { molecule = "87Rb133Cs", a = "87Rb", b = "133Cs", T = 200 * u.nK, Na = 4e5, K = 1.5e5,
   ramp = 2 * u.G / u.ms, heat = 0, mloss = 0, rt = 0.8, lattice_ramp = 20 * u.ms, lifetime = 2 }:run { limiting = false }
 T.check(rbcs.final.degeneracy_name == "T/T_c" and rbcs.final.t_over_tc ~= nil and rbcs.final.t_over_tf == nil,

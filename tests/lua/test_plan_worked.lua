@@ -1,5 +1,5 @@
 -- A worked plan for bosonic 87Rb133Cs, checked stage by stage against values worked out
--- here by hand from the model formulas (docs/models/*.md and physics.md), not by calling
+-- here by hand from the model formulas (docs/models/*.md and the papers they cite), not by calling
 -- the code under test again.  The clouds are hot (T/T_c ~ 10) so the classical limits of
 -- the ideal gas hold to ~1e-4 where the check needs them.
 local T = require "testlib"
@@ -41,20 +41,42 @@ local plan = cp.plan { name = "worked RbCs", start = {
 local b = plan:run()
 local st = b.stages
 
--- WORKED-1 association.  Overlap of two thermal clouds displaced by the differential sag
--- (closed form for displaced Gaussians): <n_Rb>_Cs = N_Rb / ((2 pi)^(3/2) prod_i
--- sqrt(s_Rb,i^2 + s_Cs,i^2)) exp(-dz^2 / (2 (s_Rb,z^2 + s_Cs,z^2))), s_i^2 = kB T/(m w_i^2),
--- dz = g/w_Cs,z^2 - g/w_Rb,z^2 (physics.md 8.1, 4.1.6).  Ramp-rate law (Hodby et al. 2005):
+-- WORKED-1 association.  Overlap of two ideal Bose gases (the stage's profile for bosons)
+-- displaced by the differential sag, summed by hand as the series of displaced Gaussians:
+-- n(r) = lambda^-3 sum_k z^k k^(-3/2) exp(-k V(r)/kB T), so <n_Rb>_Cs = (1/N_Cs) sum_j sum_k
+-- z_Rb^j z_Cs^k (j k)^(-3/2) lambda_Rb^-3 lambda_Cs^-3 prod_i sqrt(pi/(al+be))
+-- exp(-al be d_i^2/(al+be)), al = j/(2 s_Rb,i^2), be = k/(2 s_Cs,i^2), s_i^2 = kB T/(m w_i^2),
+-- d = (0, 0, g/w_Cs,z^2 - g/w_Rb,z^2) (docs/models/collisions.md and feshbach.md; the Bose functions:
+-- Dalfovo et al., RMP 71, 463 (1999)), with the fugacity from N = (kB T/hbar wbar)^3 g_3(z)
+-- solved here by Newton's method on the series.  Ramp-rate law (Hodby et al. 2005):
 -- P = Pmax (1 - exp(-alpha n |abg width / Bdot|)), alpha = 4 pi^2 hbar / mu.
 local function s2(m, w) return c.kB * T0 / (m * w * w) end
-local prod, zz = 1, 0
-for i = 1, 3 do
-  local v = s2(rb.mass, w_rb[i]) + s2(cs.mass, w_cs[i])
-  prod = prod * math.sqrt(v)
-  if i == 3 then zz = v end
+local function fugacity(N, w)
+  local target = N * (c.hbar * (w[1] * w[2] * w[3]) ^ (1 / 3) / (c.kB * T0)) ^ 3
+  local z = target
+  for _ = 1, 50 do
+    local g3, g2 = 0, 0
+    for k = 1, 200 do g3, g2 = g3 + z ^ k / k ^ 3, g2 + z ^ k / k ^ 2 end
+    z = z - (g3 - target) / (g2 / z)
+  end
+  return z
 end
+local function lambda3(m) return (2 * pi * c.hbar / math.sqrt(2 * pi * m * c.kB * T0)) ^ 3 end
+local z_rb, z_cs = fugacity(N_rb, w_rb), fugacity(N_cs, w_cs)
 local dz = c.g / w_cs[3] ^ 2 - c.g / w_rb[3] ^ 2
-local n_ov = N_rb / ((2 * pi) ^ 1.5 * prod) * math.exp(-dz * dz / (2 * zz))
+local sum = 0
+for j = 1, 12 do
+  for k = 1, 12 do
+    local term = z_rb ^ j * z_cs ^ k / (j * k) ^ 1.5
+    for i = 1, 3 do
+      local al, be = j / (2 * s2(rb.mass, w_rb[i])), k / (2 * s2(cs.mass, w_cs[i]))
+      local d = i == 3 and dz or 0
+      term = term * math.sqrt(pi / (al + be)) * math.exp(-al * be * d * d / (al + be))
+    end
+    sum = sum + term
+  end
+end
+local n_ov = sum / (lambda3(rb.mass) * lambda3(cs.mass) * N_cs)
 local mu = rb.mass * cs.mass / (rb.mass + cs.mass)
 local P = pmax * (1 - math.exp(-4 * pi * pi * c.hbar / mu * n_ov * math.abs(res.abg * res.width) / ramp))
 T.check(P > 0.1 and P < 0.29, "the worked ramp sits between the fast and slow limits")
@@ -74,10 +96,10 @@ local T2 = T0 + heat * removed / (3 * c.kB * N1)
 T.near(st[2].temperature, T2, 2e-4, "temperature after removal (classical limit)")
 T.near(st[2].number, N1, 1e-12, "removal keeps the molecules")
 
--- WORKED-3 transfer: one way = sqrt(round trip) (physics.md 5.2).  The molecules that
+-- WORKED-3 transfer: one way = sqrt(round trip) (docs/planning.md, transfer).  The molecules that
 -- fail are lost at random, so the energy per particle is kept.  For the ideal Bose gas
 -- E/N = 3 kB T Li4(z)/Li3(z) = 3 kB T (1 - z/16 + O(z^2)) with z = rho = N (hbar wbar /
--- kB T)^3 to first order (physics.md 7, series of Li_n(z) = z + z^2/2^n + ...), so keeping
+-- kB T)^3 to first order (docs/models/thermo.md, series of Li_n(z) = z + z^2/2^n + ...), so keeping
 -- E/N while N drops from N1 to N3 gives T3 = T2 (1 - (rho1 - rho3)/16) (worked here by
 -- hand; rho ~ 1e-4, the O(z^2) remainder ~1e-9).
 local N3 = N1 * 0.9
@@ -97,7 +119,7 @@ local T4 = 2 * T3
 T.near(st[4].temperature, T4, 2e-4, "temperature after the trap change (classical)")
 T.near(st[4].entropy_per_particle, st[3].entropy_per_particle, 1e-9, "entropy kept by the trap change")
 
--- WORKED-5 hold with s-wave loss and its anti-evaporation heating (physics.md 8.1):
+-- WORKED-5 hold with s-wave loss and its anti-evaporation heating (docs/models/collisions.md):
 -- dN/dt = -beta <n> N, dT/dt = beta <n> T / 4, <n> = N (m wbar^2 / (4 pi kB T))^(3/2)
 -- => T = T4 (N4/N)^(1/4) and N^(-11/8) = N4^(-11/8) + (11/8) k t with
 -- k = beta (m wbar^2 / (4 pi kB))^(3/2) T4^(-3/2) N4^(-3/8)   (integrated here by hand).
@@ -111,12 +133,21 @@ T.near(st[5].temperature, T5, 1e-6, "temperature after the hold (closed form)")
 
 -- WORKED-6 evaporation (Ketterle & van Druten 1996 scaling model, as documented in
 -- docs/models/collisions.md): d ln T / d ln N = [(eta + kappa - 3) r - (3 - eps)] / (3 (r + 1)),
--- r = R / lambda, lambda = sqrt(2) e^eta / eta, kappa = (eta - 5)/(eta - 4), eps = 9/4
--- (s-wave), R = R0 (T/T0)^(1/2).  Integrated here with classical RK4 in ln N.
+-- r = f R, f = 2 e^-eta [eta - 4 P(4, eta) / P(3, eta)] (Luiten, Reynolds & Walraven, PRA 53,
+-- 381 (1996); P(n, x) = 1 - e^-x sum_{k<n} x^k/k! written out here), kappa = (eta - 5)/(eta - 4),
+-- eps = 9/4 (s-wave), R = R0 (T/T0)^(1/2).  Integrated here with classical RK4 in ln N.
+local function gamma_p(n, x)
+  local s, term = 0, 1
+  for k = 0, n - 1 do
+    if k > 0 then term = term * x / k end
+    s = s + term
+  end
+  return 1 - math.exp(-x) * s
+end
+local function evap_f(e) return 2 * math.exp(-e) * (e - 4 * gamma_p(4, e) / gamma_p(3, e)) end
 local kappa = (eta - 5) / (eta - 4)
-local lam = math.sqrt(2) * math.exp(eta) / eta
 local function slope(lnT, T_start)
-  local r = ratio * math.sqrt(math.exp(lnT) / T_start) / lam
+  local r = ratio * math.sqrt(math.exp(lnT) / T_start) * evap_f(eta)
   return ((eta + kappa - 3) * r - (3 - 9 / 4)) / (3 * (r + 1))
 end
 local lnT, steps = math.log(T5), 2000
@@ -134,8 +165,8 @@ T.near(b.final.degeneracy, math.exp(lnT) / tc(N5 / 3, w4), 1e-6, "final T/T_c by
 
 -- WORKED-7 the evaporation's duration without two-body loss (cross section given): with
 -- T = T0 x^alpha (x = N/N0, alpha = (eta + kappa)/3 - 1, the no-loss scaling above) the
--- per-particle loss rate <n> f sigma v_rel, <n> = N (m wbar^2 / (4 pi kB T))^(3/2),
--- v_rel = sqrt(16 kB T / (pi m)), f = eta e^-eta / sqrt 2 (docs/models/collisions.md) is
+-- per-particle loss rate <n> f sigma v_rel, <n> = N (m wbar^2 / (4 pi kB T))^(3/2) / P(3, eta),
+-- v_rel = sqrt(16 kB T / (pi m)), f as in WORKED-6 (docs/models/collisions.md) is
 -- Gamma0 x^(1 - alpha), so t = integral dx x^(alpha - 2) / Gamma0 from x_f to 1
 -- = (1 - x_f^(alpha - 1)) / ((alpha - 1) Gamma0)   (integrated here by hand).
 local sigma, eta7 = 1e-16, 8
@@ -145,8 +176,8 @@ local b7 = cp.plan { start = { molecule = "87Rb133Cs", temperature = T0, atoms =
     cp.stages.evaporate { eta = eta7, keep = 0.5, cross_section = sigma, loss_rate = 0 } } }:run { limiting = false }
 local N6, T6 = b7.stages[2].number, b7.stages[2].temperature
 local alpha = (eta7 + (eta7 - 5) / (eta7 - 4)) / 3 - 1
-local n_mean = N6 * (mol.mass * wbar * wbar / (4 * pi * c.kB * T6)) ^ 1.5
-local gamma0 = n_mean * eta7 * math.exp(-eta7) / math.sqrt(2) * sigma * math.sqrt(16 * c.kB * T6 / (pi * mol.mass))
+local n_mean = N6 * (mol.mass * wbar * wbar / (4 * pi * c.kB * T6)) ^ 1.5 / gamma_p(3, eta7)
+local gamma0 = n_mean * evap_f(eta7) * sigma * math.sqrt(16 * c.kB * T6 / (pi * mol.mass))
 T.near(b7.final.temperature, T6 * 0.5 ^ alpha, 1e-6, "no-loss evaporation: T ~ N^alpha")
 T.near(b7.final.duration, (1 - 0.5 ^ (alpha - 1)) / ((alpha - 1) * gamma0), 1e-4,
   "evaporation time without loss (closed form)")

@@ -105,7 +105,7 @@ raises("a figure's argument error names the figure", "plot.sweep: 'xlog' must be
   {data = {{x = 1, y = 1}, {x = 2, y = 2}}, x = "x", y = "y", xlog = "yes", out = dir .. "/never.png"})
 raises("unknown format", "must end in .png, .svg or .pdf", cp.plot.render,
   {out = dir .. "/x.gif", panels = {{lines = {{x = {1, 2}, y = {1, 2}}}}}})
-raises("NaN data", "must be a finite number", cp.plot.render,
+raises("NaN data", "NaN dimensionless is not a number", cp.plot.render,
   {out = dir .. "/x.png", panels = {{lines = {{x = {1, 0 / 0}, y = {1, 2}}}}}})
 raises("log axis with zero", "logarithmic axis", cp.plot.render,
   {out = dir .. "/x.png", panels = {{ylog = true, lines = {{x = {1, 2}, y = {0, 2}}}}}})
@@ -124,9 +124,9 @@ raises("waterfall: zero molecules", "positive finite number", cp.plot.waterfall,
   {budget = {stages = {{name = "a", number = 0}}}, out = dir .. "/x.png"})
 raises("raman: trace and time both", "either trace or time", cp.plot.raman,
   {trace = tr.trace, time = {0, 1}, out = dir .. "/x.png"})
-raises("raman: negative width", "argument 'width' = -1 s is out of range", cp.plot.raman,
+raises("raman: negative width", "width -1 s is out of range", cp.plot.raman,
   {trace = tr.trace, pulses = {rabi_pump = 1, rabi_stokes = 1, width = -1, delay = 0}, out = dir .. "/x.png"})
-raises("legend position", "is not one of", cp.plot.render,
+raises("legend position", "legend \"middle\" is not allowed", cp.plot.render,
   {out = dir .. "/x.png", panels = {{legend = "middle", lines = {{x = {1, 2}, y = {1, 2}}}}}})
 raises("bands: ragged energies", "must list 2 band energies", cp.plot.bands,
   {quasimomenta = {0, 1}, energies_er = {{1, 2}, {1}}, out = dir .. "/x.png"})

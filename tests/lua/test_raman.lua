@@ -107,6 +107,17 @@ T.raises(function() cp.raman.lineshape(with { threads = 0, from = 0, to = 1 }) e
 T.raises(function() cp.raman.lineshape(with { two_photon_detuning = 1, from = 0, to = 1 }) end,
   { "scanned variable" }, "scanned key given")
 
+-- RAMAN-L-FLAG: the validity flag of the closed-form estimates reaches Lua: clear on
+-- resonance, "estimates_detuned" at delta = 2 pi 200 kHz (|delta| T_overlap = 3.1, beyond
+-- the stated 0.5), where the propagation (the independent method) loses nearly twice what the
+-- estimate says; the slow losses act over |delay| + 2 width.
+local on = cp.raman.transfer(with {})
+T.check(#on.flags == 0, "resonant: no flag")
+local off = cp.raman.transfer(with { two_photon_detuning = 2 * math.pi * 200e3 })
+T.check(off.flags[1] == "estimates_detuned" and #off.flags == 1, "two-photon detuned: flagged")
+T.check(off.lost > 1.5 * off.estimates.decay_loss, "and the estimate is indeed far off")
+T.near(on.transfer_duration, 2.4e-6 + 2 * 2e-6, 1e-12, "transfer duration |delay| + 2 width")
+
 -- HELP-L: help texts.
 T.check(type(cp.get_help(cp.raman.transfer)) == "string", "help for raman.transfer")
 T.check(type(cp.get_help(cp.raman.lineshape)) == "string", "help for raman.lineshape")

@@ -1,4 +1,4 @@
--- Lua-level tests of cp.thermo through the real coldprep binary: the API.md names and
+-- Lua-level tests of cp.thermo through the real coldprep binary: the docs/lua-api.md names and
 -- units, the relations checked against outside references, and the error messages.
 local T = require "testlib"
 local cp = require "coldprep"
@@ -7,9 +7,9 @@ local m = 127 * cp.units.amu
 local w = 2 * math.pi * 100
 local hbar, kB = cp.consts.hbar, cp.consts.kB
 
--- THERMO-L1: fermi from (N, T) and from (N, T/T_F) (API.md); T_F = hbar w (6N)^(1/3)/kB
+-- THERMO-L1: fermi from (N, T) and from (N, T/T_F) (docs/lua-api.md); T_F = hbar w (6N)^(1/3)/kB
 -- (Butts & Rokhsar, PRA 55, 4346 (1997) [M]); Sommerfeld S/N = pi^2 T/T_F at 0.05
--- (physics.md §7; next term O((T/T_F)^3)).
+-- (docs/models/thermo.md; next term O((T/T_F)^3)).
 local f = cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, t_over_tf = 0.05 }
 T.near(f.fermi_temperature, hbar * w * (6e5) ^ (1 / 3) / kB, 1e-14, "T_F")
 T.near(f.entropy_per_particle, math.pi ^ 2 * 0.05, 1e-2, "Sommerfeld entropy")
@@ -41,7 +41,7 @@ for _, stat in ipairs { "fermion", "boson" } do
   T.near(r.temperature, t0, 1e-10, "temperature_from_entropy round trip, " .. stat)
 end
 
--- THERMO-L4: harmonic -> harmonic matching scales T with omega_bar (by hand, physics.md §7).
+-- THERMO-L4: harmonic -> harmonic matching scales T with omega_bar (by hand, docs/models/thermo.md).
 local mh = cp.thermo.match_harmonic { number = 1e5, omega_bar = w, mass = m, statistics = "fermion",
   temperature = f.temperature, omega_bar_to = 2 * w }
 T.near(mh.temperature, 2 * f.temperature, 1e-10, "match_harmonic doubles T with omega")
@@ -66,7 +66,19 @@ local ml = cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, stat
   depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w }
 local before = cp.thermo.fermi { number = 2e4, omega_bar = w, mass = m, t_over_tf = 0.3 }
 T.near(ml.entropy_per_particle, before.entropy_per_particle, 1e-9, "match_lattice conserves S/N")
-T.check(ml.peak_filling > 0 and ml.peak_filling <= 1, "fermion filling per site in (0, 1]")
+-- Pauli: at most one fermion per band combination, bands^3 per site (by hand)
+T.check(ml.peak_filling > 0 and ml.peak_filling <= ml.bands ^ 3, "fermion filling per site in (0, bands^3]")
+T.check(ml.band_margin >= cp.thermo.lattice_margin and ml.bands_needed <= ml.bands,
+  "the automatic band choice leaves the first omitted band 20 kB T up")
+local one = cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, statistics = "fermion",
+  temperature = ml.temperature, depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w, bands = 1 }
+T.check(one.bands == 1 and one.peak_filling > 0 and one.peak_filling <= 1, "one band: filling in (0, 1]")
+-- filling through the binding: probabilities sum to 1, at most one fermion per orbital
+local fl = cp.thermo.lattice_filling { number = 2e4, mass = m, statistics = "fermion",
+  temperature = ml.temperature, depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w }
+T.near(fl.center_empty + fl.center_single + fl.center_multiple, 1, 1e-12, "filling: probabilities")
+T.check(fl.bands >= 1 and fl.center_filling <= fl.bands ^ 3 and fl.sites_single <= fl.sites_occupied,
+  "filling: counts consistent")
 local st = cp.thermo.lattice_state { number = 2e4, mass = m, statistics = "boson", temperature = 20e-9,
   depth_er = { 5, 5, 10 }, wavelength = 1064e-9, envelope_omega_bar = w, bands = 2 }
 T.check(st.condensed_fraction >= 0 and st.condensed_fraction < 1, "lattice_state boson fraction")
@@ -92,7 +104,7 @@ T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = -w, mass = m, te
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, t_over_tf = 1e-4 } end,
   { "T/T_F", "out of range" }, "T/T_F too small")
 T.raises(function() cp.thermo.temperature_from_entropy { number = 1e5, omega_bar = w, mass = m, statistics = "anyon", entropy_per_particle = 1 } end,
-  { "statistics", "not one of" }, "bad statistics")
+  { "statistics \"anyon\" is not allowed", "allowed" }, "bad statistics")
 T.raises(function() cp.thermo.tof { number = 1e5, omega_bar = w, mass = m, statistics = "boson", temperature = 1e-7, time = -1 } end,
   { "time", "out of range" }, "negative time of flight")
 T.raises(function() cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass = m, statistics = "fermion",
@@ -101,6 +113,15 @@ T.raises(function() cp.thermo.match_lattice { number = 2e4, omega_bar = w, mass 
 T.raises(function() cp.thermo.lattice_state { number = 2e4, mass = m, statistics = "fermion",
   temperature = 1e-7, depth_er = { 1, 2 }, wavelength = 1064e-9, envelope_omega_bar = w } end,
   { "depth_er" }, "depth_er with two values")
+T.raises(function() cp.thermo.lattice_state { number = 2e4, mass = m, statistics = "fermion",
+  temperature = 1e-7, depth_er = 10, wavelength = 1064e-9, envelope_omega_bar = w, bands = 33 } end,
+  { "bands", "33", "[1, 32]" }, "more bands than the model keeps")
+T.raises(function() cp.thermo.lattice_filling { number = 2e4, mass = m, statistics = "boson",
+  temperature = 1e-7, depth_er = 40, wavelength = 1064e-9, envelope_omega_bar = w, onsite_u = 0 } end,
+  { "onsite_u", "0 J", "not positive" }, "ideal bosons have no atomic-limit filling")
+T.raises(function() cp.thermo.lattice_filling { number = 2e4, mass = m, statistics = "fermion",
+  temperature = 1e-7, depth_er = 40, wavelength = 1064e-9, envelope_omega_bar = w, onsit_u = 1 } end,
+  { "unknown argument 'onsit_u'", "onsite_u" }, "filling: unknown key")
 T.raises(function() cp.thermo.fermi(5) end, { "expects one table" }, "not a table")
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = 0, mass = m, temperature = 1e-7 } end,
   { "omega_bar", "out of range", "rad/s" }, "zero omega_bar is named as given")

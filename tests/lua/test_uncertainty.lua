@@ -98,9 +98,9 @@ raises("key of another distribution", "did you mean", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sigma = 1} }, evaluate = model, outputs = {"y"} })
 raises("negative width", "widths must be >= 0", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sd = -1} }, evaluate = model, outputs = {"y"} })
-raises("NaN mean", "must be a finite number", cp.uncertainty,
+raises("NaN mean", "mean NaN SI units is not a number", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0 / 0, sd = 1} }, evaluate = model, outputs = {"y"} })
-raises("one sample", "allowed 2", cp.uncertainty,
+raises("one sample", "samples 1 is out of range; allowed [2,", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sd = 1} }, evaluate = model, outputs = {"y"}, samples = 1 })
 -- A draw with a non-finite output is a failed draw, kept out of the statistics: here
 -- y = NaN above x = 1, so the statistics are those of the draws below 1 (checked by hand

@@ -16,14 +16,14 @@ static void test_positive_messages(void **state)
 {
     (void)state;
     cp_error err;
-    assert_int_equal(cp_check_positive(&err, "lattice depth", "wavelength", 0.0, "m"), CP_EINVAL);
+    assert_int_equal(cp_check_positive(&err, "lattice.depth", "wavelength", 0.0, "m"), CP_EINVAL);
     assert_string_equal(err.message,
-                        "lattice depth: wavelength 0 m is out of range; allowed (0, inf) m");
-    assert_int_equal(cp_check_positive(&err, "lattice depth", "waist", NAN, "m"), CP_EINVAL);
+                        "lattice.depth: wavelength 0 m is out of range; allowed (0, inf) m");
+    assert_int_equal(cp_check_positive(&err, "lattice.depth", "waist", NAN, "m"), CP_EINVAL);
     assert_non_null(strstr(err.message, "not a number"));
     /* a NaN with its sign bit set is spelled like any other, never "-nan" */
-    assert_int_equal(cp_check_positive(&err, "lattice depth", "waist", -NAN, "m"), CP_EINVAL);
-    assert_string_equal(err.message, "lattice depth: waist NaN m is not a number; allowed (0, "
+    assert_int_equal(cp_check_positive(&err, "lattice.depth", "waist", -NAN, "m"), CP_EINVAL);
+    assert_string_equal(err.message, "lattice.depth: waist NaN m is not a number; allowed (0, "
                                      "inf) m");
     assert_int_equal(cp_check_positive(&err, "x", "power", INFINITY, "W"), CP_EINVAL);
     assert_non_null(strstr(err.message, "infinite"));

@@ -3,8 +3,9 @@
  * centrifugal barrier against the published constants and a direct numerical maximisation,
  * the universal rates against the published prefactor and its independent check, the
  * dipole length in atomic units, the hold against the analytic solutions (fixed T, with
- * anti-evaporation heating, one-body loss, technical heating), the evaporation model's
- * lossless scaling law, and bad input.
+ * anti-evaporation heating, one-body loss, technical heating), the evaporation rate of a
+ * truncated Boltzmann gas against a Monte Carlo written here and the published closed and
+ * large-eta forms, the evaporation model's lossless scaling law, and bad input.
  */
 #include <math.h>
 #include <setjmp.h>
@@ -15,6 +16,8 @@
 #include <cmocka.h>
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_min.h>
+#include <gsl/gsl_randist.h>
+#include <gsl/gsl_rng.h>
 #include <gsl/gsl_sf_gamma.h>
 
 #include "coldprep/collisions.h"
@@ -27,13 +30,13 @@ static void assert_rel(double got, double want, double tol)
         fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
 }
 
-#define M_KRB (126.873178694 * CP_AMU) /* 40K87Rb, physics.md §2 [C] */
+#define M_KRB (126.873178694 * CP_AMU) /* 40K87Rb, AME2020 atomic masses */
 #define MU_KRB (M_KRB / 2.0)
 
 /* COLL-1: abar = [2 pi / Gamma(1/4)^2] (2 mu C6 / hbar^2)^{1/4} with Gamma(1/4) from GSL's
  * gsl_sf_gamma, = 0.955978 R_vdW (Gribakin & Flambaum, PRA 48, 546 (1993); constant [C] in
- * physics.md §4.1); for KRb
- * (C6 = 16130 a.u. [M], physics.md §3) abar is about 118 a0 [M, Idziaszek & Julienne
+ * docs/models/feshbach.md); for KRb
+ * (C6 = 16130 a.u. [M], docs/data.md) abar is about 118 a0 [M, Idziaszek & Julienne
  * 2010]. */
 static void test_abar(void **state)
 {
@@ -97,8 +100,8 @@ static void test_barrier(void **state)
 
 /* COLL-3: universal rates (Z. Idziaszek & P. S. Julienne, PRL 104, 113202 (2010)):
  * K_p = 1513 abar^3 k_B T / h, checked against the independent prefactor
- * g 18 pi^2 0.4649114 / 0.477989^3 = 1512.58 from the numerical threshold solution in
- * physics.md §8 [C]; the p-wave rate is linear in T (Wigner threshold law); KRb's
+ * g 18 pi^2 0.4649114 / 0.477989^3 = 1512.58 from the numerical threshold solution of the
+ * same paper's quantum-defect model (computed, not a published table); the p-wave rate is linear in T (Wigner threshold law); KRb's
  * universal beta/T is about 0.8e-5 cm^3 s^-1 K^-1 (Idziaszek & Julienne 2010 [M]);
  * the s-wave rates 4 pi hbar abar g / mu with g = 2 (identical bosons), 1 (distinguishable). */
 static void test_universal(void **state)
@@ -157,7 +160,7 @@ static cp_hold_params hold_base(void)
     return p;
 }
 
-/* beta <n> at the start: <n> = N (m omega_bar^2 / (4 pi k_B T))^{3/2} (physics.md §8). */
+/* beta <n> at the start: <n> = N (m omega_bar^2 / (4 pi k_B T))^{3/2} (docs/models/collisions.md). */
 static double gamma0(const cp_hold_params *p)
 {
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
@@ -166,7 +169,7 @@ static double gamma0(const cp_hold_params *p)
 }
 
 /* COLL-5: the hold against analytic solutions.
- * Fixed T: N(t) = N0 / (1 + N0 K' t), K' = beta / (8 pi^{3/2} sx sy sz) (physics.md §8,
+ * Fixed T: N(t) = N0 / (1 + N0 K' t), K' = beta / (8 pi^{3/2} sx sy sz) (docs/models/collisions.md,
  * the issue).  With anti-evaporation, solved by hand: dT/dN = -h T/N gives
  * T = T0 (N0/N)^h, and dN/dt = -G0 N0 (N/N0)^2 (T0/T)^{3/2} (T/T0)^p then integrates to
  * N = N0 (1 + c G0 t)^{-1/c} with c = 1 + (3/2 - p) h, G0 = beta <n> at t = 0:
@@ -210,6 +213,124 @@ static void test_hold(void **state)
         assert_rel(n[i], p.number * exp(-t[i] / 0.3), 1e-9);
         assert_rel(temp[i], p.temperature + 1e-7 * t[i], 1e-12);
     }
+}
+
+/* Gamma_ev / Gamma_el by Monte Carlo, written independently of the closed form: units
+ * k_B T = m = omega = 1, a truncated Boltzmann gas f ~ exp(-eps) theta(eta - eps).  Pairs at
+ * one point r with velocities v1, v2 (centre of mass V, relative g) collide at the rate
+ * sigma |g| and scatter isotropically: the outgoing energies are E/2 +- (|g||V|/2) cos(theta),
+ * so one partner leaves (energy > eta) with probability max(0, 1 - (2 eta - E)/(|g||V|)).
+ * Position and velocities are drawn from Gaussians widened by `widen` (importance sampling
+ * of the hot tail), weighted by the ratio of densities.  The evaporation events per second
+ * and per trapped particle, over Gamma_el = n0 sigma vbar / 2 (n0 the central density of
+ * the truncated cloud, N = n0 (2 pi)^{3/2} P(3, eta)), are sqrt(pi) <w> / (8 P(3, eta)),
+ * with P(3, eta) = 1 - e^{-eta}(1 + eta + eta^2/2) (the fraction of a Boltzmann gas below
+ * eta).  Returns the estimate and its standard error. */
+static double evaporation_mc(double eta, long samples, double *stderr_out)
+{
+    gsl_rng *rng = gsl_rng_alloc(gsl_rng_mt19937);
+    gsl_rng_set(rng, 20261202UL);
+    double widen = 1.0 + 0.15 * (eta - 6.0), sum = 0.0, sum2 = 0.0;
+    for (long i = 0; i < samples; i++) {
+        double u = 0.0, e1 = 0.0, e2 = 0.0, gg = 0.0, vv = 0.0;
+        for (int a = 0; a < 3; a++) {
+            double x = gsl_ran_gaussian(rng, sqrt(0.5) * widen);
+            double v = gsl_ran_gaussian(rng, sqrt(0.5) * widen);
+            double g = gsl_ran_gaussian(rng, sqrt(2.0) * widen);
+            u += 0.5 * x * x;
+            e1 += 0.5 * (v + g / 2) * (v + g / 2);
+            e2 += 0.5 * (v - g / 2) * (v - g / 2);
+            gg += g * g;
+            vv += v * v;
+        }
+        /* target exponent r^2 + V^2 + g^2/4 (pair density e^{-2u} Maxwell^2), proposal the
+         * same over widen^2 */
+        double q = 2.0 * u + vv + gg / 4.0;
+        double w = pow(widen, 9) * exp(-q * (1.0 - 1.0 / (widen * widen)));
+        double val = 0.0;
+        e1 += u;
+        e2 += u;
+        if (e1 < eta && e2 < eta) {
+            double leave = 1.0 - (2.0 * eta - e1 - e2) / (sqrt(gg) * sqrt(vv));
+            if (leave > 0.0)
+                val = sqrt(gg) * leave * w;
+        }
+        sum += val;
+        sum2 += val * val;
+    }
+    gsl_rng_free(rng);
+    double mean = sum / (double)samples;
+    double p3 = 1.0 - exp(-eta) * (1.0 + eta + eta * eta / 2.0);
+    double scale = sqrt(M_PI) / (8.0 * p3);
+    *stderr_out = scale * sqrt((sum2 / (double)samples - mean * mean) / (double)samples);
+    return scale * mean;
+}
+
+/* COLL-6a: the evaporation rate constant.  (1) Against the Monte Carlo above at eta = 6, 8,
+ * 10, within four standard errors plus 0.2 % (an independent Monte Carlo gave 1.175e-2,
+ * 2.755e-3 and 5.46e-4, the same within its noise).  (2) Against the published closed form
+ * of Luiten, Reynolds & Walraven, PRA 53, 381 (1996), V_ev/V_e = eta - 4 P(4,eta)/P(3,eta)
+ * for a 3D harmonic trap, P written out as 1 - e^{-eta} sum_{k<n} eta^k/k!, at eta = 7 and
+ * 12.  (3) At eta = 25 against the large-eta form 2 (eta - 4) e^{-eta} (K. M. O'Hara et al.,
+ * PRA 64, 051403(R) (2001) [M]).  (4) The truncated fraction P(3, eta) against
+ * gsl_sf_gamma_inc_P. */
+static void test_evaporation_rate(void **state)
+{
+    (void)state;
+    double f, p3, se;
+    const double etas[] = {6.0, 8.0, 10.0};
+    for (int i = 0; i < 3; i++) {
+        assert_int_equal(cp_collisions_evaporation_rate(etas[i], &f, &p3, NULL), CP_OK);
+        double mc = evaporation_mc(etas[i], 2000000, &se);
+        if (!(fabs(f - mc) <= 4.0 * se + 2e-3 * mc))
+            fail_msg("eta %g: closed form %.6g, Monte Carlo %.6g +- %.2g", etas[i], f, mc, se);
+        assert_true(se < 5e-3 * mc);
+    }
+    const double closed[] = {7.0, 12.0};
+    for (int i = 0; i < 2; i++) {
+        double x = closed[i], e = exp(-x);
+        double q3 = 1.0 - e * (1.0 + x + x * x / 2.0);
+        double q4 = q3 - e * x * x * x / 6.0;
+        assert_int_equal(cp_collisions_evaporation_rate(x, &f, &p3, NULL), CP_OK);
+        assert_rel(f, 2.0 * e * (x - 4.0 * q4 / q3), 1e-12);
+        assert_rel(p3, gsl_sf_gamma_inc_P(3.0, x), 1e-12);
+    }
+    assert_int_equal(cp_collisions_evaporation_rate(25.0, &f, &p3, NULL), CP_OK);
+    assert_rel(f, 2.0 * (25.0 - 4.0) * exp(-25.0), 1e-7);
+    cp_error err;
+    const double bad[] = {NAN, INFINITY, 4.9, 30.1, -1.0};
+    for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
+        assert_int_equal(cp_collisions_evaporation_rate(bad[i], &f, &p3, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "eta"));
+        assert_true(isnan(f) && isnan(p3));
+    }
+    assert_int_equal(cp_collisions_evaporation_rate(8.0, NULL, &p3, &err), CP_EINVAL);
+}
+
+/* COLL-5b: the validity flag of the universal rate.  KRb (C6 16130 a.u., mu = 127 u / 2):
+ * the p-wave barrier E_1/k_B is ~24 uK (tested against a numerical maximisation above);
+ * at 300 nK (k_B T / E_1 ~ 0.013, inside) no flag, at 10 uK (~0.4, outside the stated 0.1)
+ * the flag; the fraction is k_B T over the barrier. */
+static void test_universal_validity(void **state)
+{
+    (void)state;
+    unsigned flags;
+    double frac, e1;
+    assert_int_equal(cp_collisions_barrier(16130.0, MU_KRB, 1, &e1, NULL), CP_OK);
+    assert_int_equal(cp_collisions_universal_validity(16130.0, MU_KRB, 300e-9, &flags, &frac,
+                                                      NULL), CP_OK);
+    assert_int_equal(flags, 0);
+    assert_rel(frac, CP_KB * 300e-9 / e1, 1e-14);
+    assert_true(frac < 0.1);
+    assert_int_equal(cp_collisions_universal_validity(16130.0, MU_KRB, 10e-6, &flags, &frac,
+                                                      NULL), CP_OK);
+    assert_int_equal(flags, CP_COLLISIONS_FLAG_ABOVE_BARRIER);
+    assert_true(frac > 0.1 && frac < 1.0);
+    cp_error err;
+    assert_int_equal(cp_collisions_universal_validity(16130.0, MU_KRB, NAN, &flags, &frac, &err),
+                     CP_EINVAL);
+    assert_true(isnan(frac) && flags == 0);
+    assert_non_null(strstr(err.message, "temperature"));
 }
 
 /* COLL-6: evaporation.  Without losses (ratio -> infinity) T ~ N^alpha with
@@ -347,7 +468,9 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_abar),      cmocka_unit_test(test_barrier),
         cmocka_unit_test(test_universal), cmocka_unit_test(test_dipolar),
-        cmocka_unit_test(test_hold),      cmocka_unit_test(test_evaporation),
+        cmocka_unit_test(test_hold),      cmocka_unit_test(test_universal_validity),
+        cmocka_unit_test(test_evaporation_rate),
+        cmocka_unit_test(test_evaporation),
         cmocka_unit_test(test_bad_input),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);

@@ -2,7 +2,7 @@
  * Constants: the exact SI-2019 values, the CODATA 2018 values, the derived atomic units,
  * and where GSL's gsl_const_mksa.h (an older CODATA edition) differs.
  * Reference values: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93, 025010 (2021)) as
- * tabulated in SciPy 1.10 scipy.constants, copied in ../shared/reference/physics.md §1.
+ * tabulated in SciPy 1.10 scipy.constants.
  */
 #include <float.h>
 #include <math.h>
@@ -35,7 +35,7 @@ static void test_exact_si_constants(void **state)
     assert_rel(CP_HBAR, 6.62607015e-34 / (2.0 * M_PI), 2 * DBL_EPSILON);
 }
 
-/* CONSTS-2: measured constants, CODATA 2018 (SciPy 1.10 table, physics.md §1). */
+/* CONSTS-2: measured constants, CODATA 2018 (SciPy 1.10 table). */
 static void test_codata2018_values(void **state)
 {
     (void)state;
@@ -47,7 +47,7 @@ static void test_codata2018_values(void **state)
     assert_rel(CP_ME, 9.1093837015e-31, 1e-12);
 }
 
-/* CONSTS-3: derived atomic units (physics.md §1, computed with SciPy). */
+/* CONSTS-3: derived atomic units (CODATA 2018, computed with SciPy). */
 static void test_derived_units(void **state)
 {
     (void)state;
@@ -61,7 +61,7 @@ static void test_derived_units(void **state)
 }
 
 /* CONSTS-4: GSL 2.7's gsl_const_mksa.h is an older edition: document the differences the
- * project avoids by defining its own (physics.md §1.1 table). */
+ * project avoids by defining its own (the CODATA 2018 values, include/coldprep/consts.h). */
 static void test_gsl_constants_differ(void **state)
 {
     (void)state;

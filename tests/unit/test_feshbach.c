@@ -82,7 +82,7 @@ static void test_scattering_length(void **state)
 
 /* FB-2: mean scattering length.  The prefactor 2 pi / Gamma(1/4)^2 from GSL's gamma
  * function; published values (Chin et al. RMP 2010 Table I [M]): R_vdW(87Rb) = 82.6 a0 with
- * C6 = 4698 a.u. (Derevianko et al. [M]), abar = 0.955978 R_vdW (physics.md §4.1.2). */
+ * C6 = 4698 a.u. (Derevianko et al. [M]), abar = 0.955978 R_vdW (Gribakin & Flambaum, PRA 48, 546 (1993)). */
 static void test_mean_scattering_length(void **state)
 {
     (void)state;
@@ -122,6 +122,48 @@ static void test_resonance_strength_published(void **state)
     assert_int_equal(cp_feshbach_binding_energy(&r, mu_krb(), 546.0 * GAUSS, CP_FESHBACH_AUTO,
                                                 &out, NULL), CP_OK);
     assert_rel(out.abar / CP_A0, 68.8, 0.01);
+}
+
+/* FB-4b: validity flags of the binding energy, each with one case inside and one outside
+ * its range.  40K87Rb 546.7 G (Delta -3.04 G, abg -187 a0: a = abg (1 + Delta/(B0 - B)),
+ * zero crossing at B0 + Delta = 543.66 G, hand algebra; abar = 68.8 a0, s_res > 1): near
+ * the pole (546.6 G) no flag; at 544.0 G a = 23.5 a0 lies between 0 and abar (below_abar,
+ * and auto picks the linear form on this broad resonance: linear_broad); at 540 G a < 0
+ * (past_zero_crossing).  A narrow resonance (s_res << 1, the 87Rb133Cs-like one below)
+ * far from its pole uses the linear form where it belongs: no flag (its C6 5700 a.u. [M]
+ * only makes abar and s_res defined). */
+static void test_binding_flags(void **state)
+{
+    (void)state;
+    cp_feshbach_resonance r = krb();
+    double mu = mu_krb();
+    cp_feshbach_binding c;
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 546.6 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.flags, 0);
+    assert_true(c.s_res > 1.0);
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 544.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_rel(c.a / CP_A0, -187.0 * (1.0 - 3.04 / 2.7), 1e-9);
+    assert_int_equal(c.flags, CP_FESHBACH_FLAG_BELOW_ABAR | CP_FESHBACH_FLAG_LINEAR_BROAD);
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 540.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_true(c.flags & CP_FESHBACH_FLAG_PAST_ZERO);
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 545.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_false(c.flags & CP_FESHBACH_FLAG_PAST_ZERO);
+    cp_feshbach_resonance narrow = {197.1 * GAUSS, 0.0006 * GAUSS, 650.0 * CP_A0, 2.0 * CP_MUB,
+                                    5700.0};
+    double m2 = cp_reduced_mass(86.9 * CP_AMU, 132.9 * CP_AMU);
+    assert_int_equal(cp_feshbach_binding_energy(&narrow, m2, 196.0 * GAUSS, CP_FESHBACH_AUTO, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.model, CP_FESHBACH_LINEAR);
+    assert_true(c.s_res < 1.0);
+    assert_int_equal(c.flags, 0);
+    /* the linear form forced near the pole of the broad resonance */
+    assert_int_equal(cp_feshbach_binding_energy(&r, mu, 546.6 * GAUSS, CP_FESHBACH_LINEAR, &c,
+                                                NULL), CP_OK);
+    assert_int_equal(c.flags, CP_FESHBACH_FLAG_LINEAR_BROAD);
 }
 
 /* FB-4: binding energy.  Universal form hbar^2/(2 mu a^2) evaluated by hand; the corrected
@@ -319,7 +361,7 @@ static cp_feshbach_cloud cloud(cp_feshbach_profile p, double n, double mass_u, d
 }
 
 /* FB-8: overlap density of thermal clouds.  Identical clouds: <n> = n0 / 2^(3/2) with
- * n0 = N / ((2 pi)^(3/2) sigma^3) (physics.md §8.1).  Different species in one trap: the
+ * n0 = N / ((2 pi)^(3/2) sigma^3) (a Gaussian cloud, by hand).  Different species in one trap: the
  * sag difference g (1/w_b^2 - 1/w_a^2) and the closed form for displaced Gaussians; the
  * numerical quadrature (used for degenerate profiles) reproduces the closed form. */
 static void test_overlap_thermal(void **state)
@@ -438,7 +480,7 @@ static void prepare_pair(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
                          cp_cloud_state *sa, cp_cloud_state *sb)
 {
     const unsigned all = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
-                         (1u << CP_PROFILE_THOMAS_FERMI);
+                         (1u << CP_PROFILE_BOSE) | (1u << CP_PROFILE_THOMAS_FERMI);
     assert_int_equal(cp_cloud_prepare(a, t, "test", "a", all, sa, NULL), CP_OK);
     assert_int_equal(cp_cloud_prepare(b, t, "test", "b", all, sb, NULL), CP_OK);
 }
@@ -814,6 +856,306 @@ static void test_bad_input(void **state)
     assert_true(isnan(out1) && isnan(out2));
 }
 
+/* ---- condensed Bose clouds (Thomas–Fermi condensate with its thermal part) -------------- */
+
+static const unsigned ALL_PROFILES = (1u << CP_PROFILE_THERMAL) | (1u << CP_PROFILE_FERMI) |
+                                     (1u << CP_PROFILE_BOSE) | (1u << CP_PROFILE_THOMAS_FERMI);
+
+/* Density of a prepared cloud along a ray: f(rho) = 4 pi rho^2 n(rho n_hat scaled), for the
+ * number integral in coordinates scaled by L (n depends on sum r_i^2 / L_i^2 only). */
+typedef struct ray_ctx {
+    const cp_cloud_state *s;
+    double len[3];
+} ray_ctx;
+
+static double number_integrand(double rho, void *p)
+{
+    const ray_ctx *c = p;
+    double r[3] = {0.0, 0.0, rho * c->len[2]};
+    cp_status st = CP_OK;
+    return 4.0 * M_PI * rho * rho * cp_cloud_density(c->s, r, &st);
+}
+
+/* N = L_x L_y L_z Int 4 pi rho^2 n(rho) drho, with a break at the condensate's edge. */
+static double number_by_quadrature(const cp_cloud_state *s, const double len[3], double edge,
+                                   double rho_max)
+{
+    ray_ctx c = {s, {len[0], len[1], len[2]}};
+    gsl_function f = {number_integrand, &c};
+    gsl_integration_workspace *w = gsl_integration_workspace_alloc(200);
+    double v1 = 0.0, v2 = 0.0, e;
+    assert_int_equal(gsl_integration_qags(&f, 0.0, edge, 0.0, 1e-11, 200, w, &v1, &e), 0);
+    if (rho_max > edge)
+        assert_int_equal(gsl_integration_qags(&f, edge, rho_max, 0.0, 1e-11, 200, w, &v2, &e),
+                         0);
+    gsl_integration_workspace_free(w);
+    return (v1 + v2) * len[0] * len[1] * len[2];
+}
+
+/* FB-14: Thomas–Fermi radius and peak density against Dalfovo, Giorgini, Pitaevskii &
+ * Stringari, RMP 71, 463 (1999) (the Thomas–Fermi limit), written here in their form: a_ho = sqrt(hbar /
+ * (m omega_ho)), mu = (hbar omega_ho / 2) (15 N a / a_ho)^(2/5), R_i = a_ho (omega_ho /
+ * omega_i) (15 N a / a_ho)^(1/5), n(0) = mu / g, g = 4 pi hbar^2 a / m (the code uses
+ * R_i^2 = 2 mu / (m omega_i^2) and n(0) = 15 N / (8 pi Rx Ry Rz)); the density vanishes
+ * at R_i on each axis, and it integrates to N (GSL quadrature).  A Bose cloud below T_c:
+ * the condensate holds the ideal-gas fraction N0 = N (1 - (T/T_c)^3), k T_c = hbar
+ * omega_ho (N / zeta(3))^(1/3) (Dalfovo et al. 1999, the ideal gas), and condensate plus
+ * saturated thermal part integrate to N (the thermal part's own normalisation: Li_{3/2}
+ * integrated over the trap gives zeta(3) (kT/hbar omega_ho)^3). */
+static void test_thomas_fermi(void **state)
+{
+    (void)state;
+    double tp = 2 * M_PI, a = 100.4 * CP_A0, m = 86.909180529 * CP_AMU;
+    cp_feshbach_cloud tf = {CP_PROFILE_THOMAS_FERMI, 2e5, m, {tp * 40, tp * 60, tp * 150}, a};
+    cp_cloud_state s;
+    assert_int_equal(cp_cloud_prepare(&tf, 0.0, "t", "a", ALL_PROFILES, &s, NULL), CP_OK);
+    double wbar = cbrt(tp * 40 * tp * 60 * tp * 150), a_ho = sqrt(CP_HBAR / (m * wbar));
+    double x = 15.0 * 2e5 * a / a_ho;
+    double mu = 0.5 * CP_HBAR * wbar * pow(x, 0.4);
+    assert_rel(s.mu_tf, mu, 1e-12);
+    cp_status st = CP_OK;
+    for (int i = 0; i < 3; i++) {
+        double r_dalfovo = a_ho * wbar / tf.omega[i] * pow(x, 0.2);
+        assert_rel(s.radius[i], r_dalfovo, 1e-12);
+        double in[3] = {0, 0, 0}, out[3] = {0, 0, 0};
+        in[i] = 0.999 * r_dalfovo;
+        out[i] = 1.001 * r_dalfovo;
+        assert_true(cp_cloud_density(&s, in, &st) > 0.0);
+        assert_true(cp_cloud_density(&s, out, &st) == 0.0);
+    }
+    double zero[3] = {0, 0, 0}, g = 4 * M_PI * CP_HBAR * CP_HBAR * a / m;
+    assert_rel(cp_cloud_density(&s, zero, &st), mu / g, 1e-12);
+    assert_rel(number_by_quadrature(&s, s.radius, 1.0, 1.0), 2e5, 1e-9);
+    /* a typical 87Rb condensate is ~10 um across, not the ~1 um of the ideal ground state */
+    assert_true(s.radius[0] > 5.0 * sqrt(CP_HBAR / (m * tf.omega[0])));
+
+    /* a Bose cloud at T = 0.6 T_c */
+    double n = 2e5, tc = CP_HBAR * wbar * cbrt(n / 1.2020569031595942) / CP_KB, t = 0.6 * tc;
+    cp_feshbach_cloud b = {CP_PROFILE_BOSE, n, m, {tp * 40, tp * 60, tp * 150}, a};
+    assert_int_equal(cp_cloud_prepare(&b, t, "t", "b", ALL_PROFILES, &s, NULL), CP_OK);
+    double n0 = n * (1.0 - 0.6 * 0.6 * 0.6);
+    assert_rel(s.n_condensed, n0, 1e-12);
+    x = 15.0 * n0 * a / a_ho;
+    for (int i = 0; i < 3; i++)
+        assert_rel(s.radius[i], a_ho * wbar / b.omega[i] * pow(x, 0.2), 1e-12);
+    double len[3];
+    for (int i = 0; i < 3; i++)
+        len[i] = sqrt(2.0) * s.ell[i];
+    assert_rel(number_by_quadrature(&s, len, sqrt(s.u_tf), sqrt(60.0)), n, 1e-8);
+    /* no scattering length: an error naming it, below T_c only */
+    b.scattering_length = 0.0;
+    cp_error err;
+    assert_int_equal(cp_cloud_prepare(&b, t, "ctx", "b", ALL_PROFILES, &s, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "b scattering_length 0 m"));
+    assert_non_null(strstr(err.message, "below T_c"));
+    assert_int_equal(cp_cloud_prepare(&b, 1.2 * tc, "ctx", "b", ALL_PROFILES, &s, &err), CP_OK);
+    b.scattering_length = -27.3 * CP_A0;
+    assert_int_equal(cp_cloud_prepare(&b, 1.2 * tc, "ctx", "b", ALL_PROFILES, &s, &err),
+                     CP_EINVAL);
+    assert_non_null(strstr(err.message, "allowed (0, 1e-06] m"));
+}
+
+/* Two axisymmetric Thomas–Fermi clouds (omega_x = omega_y) on one z axis: at height z each
+ * is A - alpha s in s = x^2 + y^2, so the product integrates over the disc in closed form,
+ * pi [A_a A_b s - (A_a al_b + A_b al_a) s^2 / 2 + al_a al_b s^3 / 3] at the smaller disc
+ * s_m; z is left to GSL's QAGP with break points where the smaller disc changes. */
+typedef struct tf_axis {
+    double n0, rr2, rz, zc; /* peak density, radial R^2, axial R, centre */
+} tf_axis;
+
+static tf_axis tf_axis_of(const cp_cloud_state *s)
+{
+    tf_axis t = {s->peak_tf, s->radius[0] * s->radius[0], s->radius[2], s->sag};
+    return t;
+}
+
+typedef struct two_tf {
+    tf_axis a, b;
+    int min_mode; /* 0: Int n_a n_b; 1: Int min(n_a, n_b) */
+} two_tf;
+
+/* A(z) and alpha of one cloud at height z; A <= 0 outside it. */
+static void slab(const tf_axis *t, double z, double *amp, double *alpha)
+{
+    double q = (z - t->zc) / t->rz;
+    *amp = t->n0 * (1.0 - q * q);
+    *alpha = t->n0 / t->rr2;
+}
+
+static double disc_product(double z, void *p)
+{
+    const two_tf *c = p;
+    double aa, la, ab, lb;
+    slab(&c->a, z, &aa, &la);
+    slab(&c->b, z, &ab, &lb);
+    if (aa <= 0.0 || ab <= 0.0)
+        return 0.0;
+    double sm = fmin(aa / la, ab / lb);
+    return M_PI * (aa * ab * sm - 0.5 * (aa * lb + ab * la) * sm * sm + la * lb * sm * sm * sm / 3.0);
+}
+
+/* pi Int_0^inf min(A_a - al_a s, A_b - al_b s)_+ ds: two lines, piecewise by hand. */
+static double disc_min(double z, void *p)
+{
+    const two_tf *c = p;
+    double aa, la, ab, lb;
+    slab(&c->a, z, &aa, &la);
+    slab(&c->b, z, &ab, &lb);
+    if (aa <= 0.0 || ab <= 0.0)
+        return 0.0;
+    double ea = aa / la, eb = ab / lb, sx = fabs(la - lb) > 0 ? (aa - ab) / (la - lb) : -1.0;
+    double end = fmin(ea, eb), sum = 0.0, lo = 0.0;
+    double cuts[2] = {sx > 0.0 && sx < end ? sx : end, end};
+    for (int k = 0; k < 2; k++) {
+        double hi = cuts[k];
+        if (hi <= lo)
+            continue;
+        double mid = 0.5 * (lo + hi); /* the lower line on (lo, hi) */
+        int use_a = aa - la * mid < ab - lb * mid;
+        double amp = use_a ? aa : ab, al = use_a ? la : lb;
+        sum += amp * (hi - lo) - 0.5 * al * (hi * hi - lo * lo);
+        lo = hi;
+    }
+    return M_PI * sum;
+}
+
+static double z_quadrature(two_tf *c, double (*f)(double, void *))
+{
+    double lo = fmax(c->a.zc - c->a.rz, c->b.zc - c->b.rz);
+    double hi = fmin(c->a.zc + c->a.rz, c->b.zc + c->b.rz);
+    if (!(hi > lo))
+        return 0.0;
+    /* where A_a / al_a = A_b / al_b (the smaller disc changes) and where the lines cross at
+     * s = 0 (A_a = A_b): roots of quadratics in z, added as break points */
+    double pts[8];
+    int np = 0;
+    pts[np++] = lo;
+    for (int kind = 0; kind < 2; kind++) {
+        double wa = kind ? c->a.n0 : c->a.rr2, wb = kind ? c->b.n0 : c->b.rr2;
+        /* wa (1 - (z - za)^2 / Ra^2) - wb (1 - (z - zb)^2 / Rb^2) = q2 z^2 + q1 z + q0 */
+        double ka = wa / (c->a.rz * c->a.rz), kb = wb / (c->b.rz * c->b.rz);
+        double q2 = kb - ka, q1 = 2 * (ka * c->a.zc - kb * c->b.zc);
+        double q0 = wa - wb - ka * c->a.zc * c->a.zc + kb * c->b.zc * c->b.zc;
+        double disc = q1 * q1 - 4 * q2 * q0;
+        if (fabs(q2) > 0 && disc > 0)
+            for (int sgn = -1; sgn <= 1; sgn += 2) {
+                double z = (-q1 + sgn * sqrt(disc)) / (2 * q2);
+                if (z > lo && z < hi)
+                    pts[np++] = z;
+            }
+    }
+    pts[np++] = hi;
+    for (int i = 1; i < np; i++)
+        for (int j = i; j > 0 && pts[j - 1] > pts[j]; j--) {
+            double t = pts[j];
+            pts[j] = pts[j - 1];
+            pts[j - 1] = t;
+        }
+    gsl_function fn = {f, c};
+    gsl_integration_workspace *w = gsl_integration_workspace_alloc(500);
+    double v, e;
+    assert_int_equal(gsl_integration_qagp(&fn, pts, (size_t)np, 0.0, 1e-12, 500, w, &v, &e), 0);
+    gsl_integration_workspace_free(w);
+    return v;
+}
+
+/* FB-15: the overlap of two displaced Thomas–Fermi clouds (23Na and 87Rb condensates of
+ * different shapes in one optical trap, the Na cloud sagging 3.4 um less) against the
+ * direct quadrature above, to 1e-6 (the public path: the fixed rule declines where the
+ * surfaces cross, the adaptive reference answers).  Then condensed Bose clouds (23Na and
+ * 87Rb at 100 nK, T/T_c ~ 0.4 and 0.45, condensate and thermal part; and the 87Rb
+ * condensate with a degenerate 40K Fermi gas, and the 87Rb Bose gas just above T_c): the
+ * fast path must accept its result and meet the adaptive reference (GSL QAG nested three
+ * deep, the independent Cartesian method) to 1e-6. */
+static void test_overlap_condensed(void **state)
+{
+    (void)state;
+    double tp = 2 * M_PI, n, sag, fast, ref;
+    cp_feshbach_cloud na = {CP_PROFILE_THOMAS_FERMI, 3e5, 22.98976928195 * CP_AMU,
+                            {tp * 80, tp * 80, tp * 240}, 55.4 * CP_A0};
+    cp_feshbach_cloud rb = {CP_PROFILE_THOMAS_FERMI, 2e5, 86.909180529 * CP_AMU,
+                            {tp * 60, tp * 60, tp * 180}, 100.4 * CP_A0};
+    cp_cloud_state sa, sb;
+    assert_int_equal(cp_feshbach_overlap_density(&na, &rb, 0.0, &n, &sag, NULL), CP_OK);
+    assert_int_equal(cp_cloud_prepare(&na, 0.0, "t", "a", ALL_PROFILES, &sa, NULL), CP_OK);
+    assert_int_equal(cp_cloud_prepare(&rb, 0.0, "t", "b", ALL_PROFILES, &sb, NULL), CP_OK);
+    two_tf c = {tf_axis_of(&sa), tf_axis_of(&sb), 0};
+    double direct = z_quadrature(&c, disc_product) / 2e5;
+    assert_rel(n, direct, 1e-6);
+    assert_true(fabs(sag) > 0.5 * sb.radius[2]); /* the sag matters here */
+    /* sagged apart in a weak trap: no overlap at all */
+    cp_feshbach_cloud na_w = na, rb_w = rb;
+    na_w.omega[2] = rb_w.omega[2] = tp * 8;
+    na_w.omega[2] = tp * 12;
+    assert_int_equal(cp_feshbach_overlap_density(&na_w, &rb_w, 0.0, &n, &sag, NULL), CP_OK);
+    assert_true(n == 0.0);
+
+    na.profile = rb.profile = CP_PROFILE_BOSE;
+    prepare_pair(&na, &rb, 100e-9, &sa, &sb);
+    assert_true(sa.n_condensed > 0.9 * na.number && sb.n_condensed > 0.9 * rb.number);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+    cp_feshbach_cloud k = {CP_PROFILE_FERMI, 1e5, 39.963998165 * CP_AMU,
+                           {tp * 80, tp * 90, tp * 200}, 0.0};
+    rb.omega[0] = tp * 60, rb.omega[1] = tp * 70, rb.omega[2] = tp * 150;
+    prepare_pair(&rb, &k, 80e-9, &sa, &sb);
+    assert_true(sa.n_condensed > 0.5 * rb.number && sb.eta > 2.0);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+    /* just above T_c (no condensate, fugacity 0.998): the cusp without the condensate */
+    double wb = cbrt(rb.omega[0] * rb.omega[1] * rb.omega[2]);
+    double tc = CP_HBAR * wb * cbrt(rb.number / 1.2020569031595942) / CP_KB;
+    prepare_pair(&rb, &k, 1.001 * tc, &sa, &sb);
+    assert_true(sa.n_condensed == 0.0 && sa.eta > -1e-2);
+    assert_int_equal(cp_feshbach_overlap_fixed(&sa, &sb, &fast), CP_OK);
+    assert_int_equal(cp_feshbach_overlap_adaptive(&sa, &sb, &ref, NULL), CP_OK);
+    assert_rel(fast, ref, 1e-6);
+}
+
+/* FB-16: the ceiling with condensates.  Two condensed clouds (23Na partner, 87Rb minority,
+ * T = 0.25 T_c of the Rb cloud): the condensed minority atoms pair with probability
+ * min(1, n_a,c / n_b,c), so P_max = f0_b C + (1 - f0_b) g_th with C = (1/N0_b) Int min(n_a,c,
+ * n_b,c) d^3r from the direct quadrature of FB-15 (discs in closed form, z by GSL) and
+ * 0 <= g_th <= 1 for the thermal minority atoms: P_max within 4 standard errors of that
+ * band.  Identical condensates without sag: C = 1, P_max >= f0_b.  Condensates sagged apart
+ * (no overlap, where counting cells would still pair them): P_max <= 1 - f0_b. */
+static void test_spss_condensed(void **state)
+{
+    (void)state;
+    double tp = 2 * M_PI, p, se;
+    cp_feshbach_cloud na = {CP_PROFILE_BOSE, 3e5, 22.98976928195 * CP_AMU,
+                            {tp * 80, tp * 80, tp * 240}, 55.4 * CP_A0};
+    cp_feshbach_cloud rb = {CP_PROFILE_BOSE, 2e5, 86.909180529 * CP_AMU,
+                            {tp * 60, tp * 60, tp * 180}, 100.4 * CP_A0};
+    double wb = cbrt(rb.omega[0] * rb.omega[1] * rb.omega[2]);
+    double t = 0.25 * CP_HBAR * wb * cbrt(2e5 / 1.2020569031595942) / CP_KB;
+    cp_feshbach_spss o = {0.38, 3, 40000, 1};
+    assert_int_equal(cp_feshbach_max_efficiency(&na, &rb, t, &o, &p, &se, NULL), CP_OK);
+    cp_cloud_state sa, sb;
+    prepare_pair(&na, &rb, t, &sa, &sb);
+    two_tf c = {tf_axis_of(&sa), tf_axis_of(&sb), 1};
+    double cmin = z_quadrature(&c, disc_min) / sb.n_condensed, f0 = sb.n_condensed / 2e5;
+    assert_true(cmin > 0.2 && cmin < 0.9); /* partly overlapping condensates */
+    assert_true(p >= f0 * cmin - 4 * se && p <= f0 * cmin + (1 - f0) + 4 * se);
+
+    o.include_sag = 0;
+    assert_int_equal(cp_feshbach_max_efficiency(&rb, &rb, t, &o, &p, &se, NULL), CP_OK);
+    assert_true(p >= f0 - 4 * se);
+
+    o.include_sag = 1;
+    cp_feshbach_cloud na_w = na, rb_w = rb;
+    na_w.omega[2] = tp * 12;
+    rb_w.omega[2] = tp * 8;
+    t = 0.25 * CP_HBAR * cbrt(rb_w.omega[0] * rb_w.omega[1] * rb_w.omega[2]) *
+        cbrt(2e5 / 1.2020569031595942) / CP_KB;
+    prepare_pair(&na_w, &rb_w, t, &sa, &sb);
+    assert_true(fabs(sa.sag - sb.sag) > sa.radius[2] + sb.radius[2]);
+    assert_int_equal(cp_feshbach_max_efficiency(&na_w, &rb_w, t, &o, &p, &se, NULL), CP_OK);
+    assert_true(p <= 1.0 - sb.n_condensed / 2e5 + 4 * se);
+}
+
 int main(void)
 {
     cp_init();
@@ -821,7 +1163,7 @@ int main(void)
         cmocka_unit_test(test_scattering_length),
         cmocka_unit_test(test_mean_scattering_length),
         cmocka_unit_test(test_resonance_strength_published),
-        cmocka_unit_test(test_binding_energy),
+        cmocka_unit_test(test_binding_energy), cmocka_unit_test(test_binding_flags),
         cmocka_unit_test(test_lz_ode),
         cmocka_unit_test(test_ramp_law),
         cmocka_unit_test(test_site),
@@ -830,6 +1172,9 @@ int main(void)
         cmocka_unit_test(test_overlap_fast),
         cmocka_unit_test(test_spss),
         cmocka_unit_test(test_spss_closure),
+        cmocka_unit_test(test_thomas_fermi),
+        cmocka_unit_test(test_overlap_condensed),
+        cmocka_unit_test(test_spss_condensed),
         cmocka_unit_test(test_dissociation),
         cmocka_unit_test(test_bad_input),
     };

@@ -52,7 +52,7 @@ static double mathieu(int even, int r, double qm)
 /* LAT-1: band edges against the Mathieu characteristic values.  With z = kx + pi/2,
  * -psi'' + V0 sin^2(kx) psi = E psi (in E_r, x in 1/k) becomes Mathieu's equation
  * y'' + (a - 2 qm cos 2z) y = 0 with qm = V0/4 and E = a + 2 qm (DLMF 28.2.1; mapping in
- * physics.md §6.1).  Period-pi solutions are the zone centre, period-2pi the zone edge, and
+ * docs/models/lattice.md).  Period-pi solutions are the zone centre, period-2pi the zone edge, and
  * a0 < b1 < a1 < b2 < a2 < ...: band n at the centre is a_n (n even) or b_{n+1} (n odd),
  * at the edge b_{n+1} (n even) or a_n (n odd).  Reference: gsl_sf_mathieu_a / _b. */
 static void test_edges_vs_gsl_mathieu(void **state)
@@ -160,7 +160,7 @@ static void test_free_particle_limit(void **state)
 }
 
 /* LAT-4: deep-lattice (harmonic) limit.  The gap between bands 0 and 1 tends to the
- * harmonic spacing 2 sqrt(V0 E_r) (physics.md §6.1), with the anharmonic correction -E_r
+ * harmonic spacing 2 sqrt(V0 E_r) (docs/models/lattice.md), with the anharmonic correction -E_r
  * from the asymptotic expansion of the Mathieu values (DLMF 28.8.1 [M]:
  * a_r ~ -2h^2 + 2 s h - (s^2 + 1)/8 - (s^3 + 3 s)/(2^7 h) - (5 s^4 + 34 s^2 + 9)/(2^12 h^2),
  * h = sqrt(qm), s = 2 r + 1), which the lowest two band centres must match to the size of
@@ -191,7 +191,8 @@ static void test_harmonic_limit(void **state)
 
 /* LAT-5: tunnelling against the deep-lattice asymptotic formula of W. Zwerger, J. Opt. B 5,
  * S9 (2003): J/E_r ~ (4/sqrt(pi)) s^(3/4) exp(-2 sqrt(s)), s = V0/E_r.  Its overestimate
- * relative to the exact J is tabulated in physics.md §6.1 [C]: +58 % at 1 E_r, +31 % at 5,
+ * relative to the exact J, computed from the Mathieu band width (docs/models/lattice.md, a
+ * computed table, not a published one): +58 % at 1 E_r, +31 % at 5,
  * +19 % at 10, +12 % at 20, +8 % at 40; checked here to +-1 percentage point. */
 static void test_tunnelling_asymptotic(void **state)
 {
@@ -291,7 +292,7 @@ static void test_band_bad_input(void **state)
     assert_true(isnan(c[0]) && isnan(w[1]));
 }
 
-/* LAT-8: recoil of 40K87Rb (126.873178694 u, physics.md §2) in 1064 nm light, by hand:
+/* LAT-8: recoil of 40K87Rb (126.873178694 u, AME2020 masses, docs/data.md) in 1064 nm light, by hand:
  * E_r / h = h / (2 m lambda^2) = 1389.0691289 Hz with CODATA 2018 h and u. */
 static void test_recoil(void **state)
 {
@@ -303,9 +304,9 @@ static void test_recoil(void **state)
 }
 
 /* LAT-9: depth worked example by hand from V0 = 4 Re(alpha) P / (pi eps0 c w^2) (Grimm et
- * al. 2000 [M], physics.md §6.1): P = 1 W, w = 100 um, lambda = 1064 nm, alpha = 1000 a.u.
+ * al. 2000 [M], docs/models/lattice.md): P = 1 W, w = 100 um, lambda = 1064 nm, alpha = 1000 a.u.
  * = 1.6487772743602864e-38 C m^2/V gives V0 = 7.9086558727e-28 J = h * 1.19356658 MHz.
- * The same in Hz/(W/cm^2): 1 a.u. = 0.0468712499 Hz/(W/cm^2) (physics.md §6.1 [C]) so
+ * The same in Hz/(W/cm^2): 1 a.u. = 0.0468712499 Hz/(W/cm^2) (computed from the CODATA 2018 constants) so
  * alpha = 46.8712499 Hz/(W/cm^2); I0 = 2 P / (pi w^2) = 6366.19772 W/cm^2 and
  * V0 / h = 4 alpha I0 = 1.19356658e6 Hz. */
 static void test_depth_worked_example(void **state)
@@ -335,8 +336,8 @@ static void test_depth_worked_example(void **state)
 
 /* LAT-10: imperfect reflection, crossing angle and the harmonic envelope, by hand.
  * Reflectivity eta: V0 scales by sqrt(eta), the well bottom by (1 + sqrt(eta))^2 / 4 and
- * the barrier tops sit at (1 - sqrt(eta))^2 / 4 of the perfect-case bottom (physics.md
- * §6.1).  Crossing at 90 degrees: d = lambda / (2 sin 45 deg) = lambda / sqrt(2), so the
+ * the barrier tops sit at (1 - sqrt(eta))^2 / 4 of the perfect-case bottom (the standing
+ * wave of amplitudes 1 and sqrt(eta), docs/models/lattice.md).  Crossing at 90 degrees: d = lambda / (2 sin 45 deg) = lambda / sqrt(2), so the
  * lattice recoil h^2 / (8 m d^2) is E_r / 2.  Envelope of a focused beam of depth U
  * (Grimm et al. 2000 [M]): omega_r = sqrt(4 U / (m w^2)), omega_z = sqrt(2 U / (m z_R^2)),
  * z_R = pi w^2 / lambda; sag = g / omega_r^2. */
@@ -402,7 +403,7 @@ static void test_depth_3d(void **state)
     assert_true(isnan(r.omega_bar));
 }
 
-/* LAT-12: harmonic on-site frequency 2 sqrt(V0 E_r) (physics.md §6.1) and the Lamb-Dicke
+/* LAT-12: harmonic on-site frequency 2 sqrt(V0 E_r) (docs/models/lattice.md) and the Lamb-Dicke
  * parameter eta = k sqrt(hbar / (2 m omega)) (D. Leibfried et al., RMP 75, 281 (2003)),
  * which for the lattice light is (E_r / hbar omega)^(1/2) = 1 / (sqrt(2) s^(1/4)). */
 static void test_site(void **state)
@@ -472,7 +473,7 @@ static void test_wannier(void **state)
  * 2000 [M]): Im alpha = 1e-3 a.u. = 1.6487772743602864e-44 C m^2/V at I = 1e8 W/m^2 gives
  * by hand 1.6487772743602864e-36 / (1.054571817646156e-34 * 8.8541878128e-12 *
  * 299792458) = 5.8900150 1/s.  Energy 2 E_r Gamma; dT/dt = 2 E_r Gamma / (3 kB)
- * (physics.md §6.1); band rate Gamma / (6 sqrt(s)) (derived in lattice.h). */
+ * (docs/models/lattice.md); band rate Gamma / (6 sqrt(s)) (derived in lattice.h). */
 static void test_heating(void **state)
 {
     (void)state;
@@ -619,6 +620,39 @@ static void test_loading(void **state)
     assert_close(b.max_time - 0.5, a.max_time, 1e-9);
 }
 
+/* LAT-15b: validity flags, each with one case inside and one outside its range.  Loading,
+ * linear 0 -> 10 E_r: in 1 ms the first-order fraction is below 1e-2 (LAT-15, no flag); in
+ * 0.1 ms it exceeds the stated 0.05, the flag is set, and the exact propagation above (the
+ * independent method) shows first order has left its range: 0.068 against 0.062, more than
+ * the 3 % of LAT-15 apart (checked: over 5 %).
+ * Heating: at 10 E_r no flag; at 2 E_r eta^2 = 1/(2 sqrt 2) = 0.35 (hand), flagged. */
+static void test_validity_flags(void **state)
+{
+    (void)state;
+    gsl_set_error_handler_off();
+    const double er = CP_H * 1389.0, unit = CP_HBAR / er;
+    cp_lattice_loading_result r;
+    cp_lattice_ramp slow = {CP_RAMP_LINEAR, 0.0, 10.0, 1e-3, 0, 1000, NULL, NULL, 0, er};
+    assert_int_equal(cp_lattice_loading(&slow, &r, NULL), CP_OK);
+    assert_true(r.excited_fraction < 0.05);
+    assert_int_equal(r.flags, 0);
+    cp_lattice_ramp fast = {CP_RAMP_LINEAR, 0.0, 10.0, 1e-4, 0, 1000, NULL, NULL, 0, er};
+    assert_int_equal(cp_lattice_loading(&fast, &r, NULL), CP_OK);
+    assert_true(r.excited_fraction > 0.05);
+    assert_int_equal(r.flags, CP_LATTICE_FLAG_BEYOND_FIRST_ORDER);
+    ode_ramp o = {CP_RAMP_LINEAR, 0.0, 10.0, 1e-4 / unit, 0.0};
+    double exact = ode_excited_fraction(&o);
+    if (!(fabs(r.excited_fraction / exact - 1.0) > 0.05))
+        fail_msg("first order %.4g vs exact %.4g: expected them to differ", r.excited_fraction,
+                 exact);
+    cp_lattice_heating_result h;
+    assert_int_equal(cp_lattice_heating(0.1, er, 10.0, &h, NULL), CP_OK);
+    assert_int_equal(h.flags, 0);
+    assert_int_equal(cp_lattice_heating(0.1, er, 2.0, &h, NULL), CP_OK);
+    assert_int_equal(h.flags, CP_LATTICE_FLAG_SHALLOW);
+    assert_rel(h.lamb_dicke * h.lamb_dicke, 1.0 / (2.0 * sqrt(2.0)), 1e-12);
+}
+
 /* LAT-16: bad input for depth, recoil, Wannier and loading. */
 static void test_other_bad_input(void **state)
 {
@@ -711,6 +745,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_edges_vs_gsl_mathieu),
         cmocka_unit_test(test_band_order),
+        cmocka_unit_test(test_validity_flags),
         cmocka_unit_test(test_basis_converged),
         cmocka_unit_test(test_free_particle_limit),
         cmocka_unit_test(test_harmonic_limit),

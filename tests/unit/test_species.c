@@ -22,7 +22,7 @@ static void assert_rel(double got, double want, double tol)
 }
 
 /* SPECIES-1: masses from AME2020 (Wang et al., Chinese Phys. C 45, 030003 (2021),
- * mass_1.mas20), as tabulated in ../shared/reference/physics.md §2. */
+ * file mass_1.mas20). */
 static void test_atom_masses_ame2020(void **state)
 {
     (void)state;
@@ -39,7 +39,7 @@ static void test_atom_masses_ame2020(void **state)
     }
 }
 
-/* SPECIES-2: statistics from the parity of the neutron number (physics.md §2): 6Li and
+/* SPECIES-2: statistics from the parity of the neutron number (2Z + N fermions): 6Li and
  * 40K, 87Sr, 173Yb are fermions; 7Li, 23Na, 87Rb, 133Cs, 88Sr are bosons. */
 static void test_atom_statistics(void **state)
 {
@@ -58,8 +58,9 @@ static void test_atom_statistics(void **state)
     }
 }
 
-/* SPECIES-3: molecules.  Mass of 40K87Rb = 126.873178694 u and the statistics listed in
- * physics.md §3 (KRb, NaK, LiCs, NaLi fermions; RbCs, NaRb, NaCs, LiK bosons). */
+/* SPECIES-3: molecules.  Mass of 40K87Rb = 126.873178694 u and the statistics worked out
+ * from the neutron numbers by hand (KRb, NaK, LiCs, NaLi fermions; RbCs, NaRb, NaCs, LiK
+ * bosons). */
 static void test_molecules(void **state)
 {
     (void)state;
@@ -85,15 +86,16 @@ static void test_molecules(void **state)
     }
 }
 
-/* SPECIES-4: published molecular constants (physics.md §3): KRb d = 0.574 D (Ni et al.
- * 2008), RbCs B = 490.174 MHz (Gregory et al. 2016); C6 of the estimated entries equals
- * d^4/(6B) + 1e4 a.u. (Julienne, Hanna, Idziaszek 2011 formula) to the 4 digits stored. */
+/* SPECIES-4: published molecular constants: KRb d = 0.566(17) D (K.-K. Ni et al., Science
+ * 322, 231 (2008), arXiv:0808.2963, abstract); RbCs B = 490.174 MHz (Gregory et al., PRA 94,
+ * 041403(R) (2016) [M]); C6 of the estimated entries equals d^4/(6B) + 1e4 a.u. (Julienne,
+ * Hanna, Idziaszek, PCCP 13, 19114 (2011) formula) to the 4 digits stored. */
 static void test_molecular_constants(void **state)
 {
     (void)state;
     const cp_molecule *m;
     assert_int_equal(cp_species_molecule("KRb", &m, NULL), CP_OK);
-    assert_rel(m->dipole_debye, 0.574, 1e-12);
+    assert_rel(m->dipole_debye, 0.566, 1e-12);
     assert_true(m->reactive);
     assert_int_equal(cp_species_molecule("RbCs", &m, NULL), CP_OK);
     assert_rel(m->rot_const_hz, 490.174e6, 1e-12);
@@ -152,6 +154,42 @@ static void test_resonances(void **state)
     assert_non_null(strstr(err.message, "out of range"));
 }
 
+/* SPECIES-7: the atoms' own scattering lengths.  Every atom has one, |a_bb| <= 1e-6 m, with
+ * a source naming the hyperfine (or 1S0) state and a year; spot values against the papers:
+ * 174Yb 5.55(8) nm and 173Yb 10.55(11) nm (Kitagawa et al., PRA 77, 012719 (2008),
+ * arXiv:0708.0752), 88Sr -1.4(6) a0 (Martinez de Escobar et al., PRA 78, 062708 (2008),
+ * arXiv:0808.3434), 7Li |2,2> -27.3(8) a0 (Abraham et al., PRL 74, 1315 (1995)), 23Na
+ * |1,-1> 55.4(1.2) a0 (van Abeelen & Verhaar, PRA 59, 578 (1999)); and the sign that
+ * matters for a condensate: 87Rb repulsive, 85Rb |2,-2> attractive (Claussen et al., PRA
+ * 67, 060701(R) (2003) [M]). */
+static void test_scattering_lengths(void **state)
+{
+    (void)state;
+    for (size_t i = 0; i < cp_species_atom_count(); i++) {
+        const cp_atom *a = cp_species_atom_at(i);
+        assert_true(isfinite(a->a_bb) && a->a_bb != 0.0 && fabs(a->a_bb) <= 1e-6);
+        assert_non_null(a->a_bb_source);
+        assert_true(strstr(a->a_bb_source, "(19") || strstr(a->a_bb_source, "(20"));
+        assert_true(strchr(a->a_bb_source, '|') || strstr(a->a_bb_source, "1S0") ||
+                    strstr(a->a_bb_source, "triplet"));
+    }
+    static const struct {
+        const char *name;
+        double a_bb, tol;
+    } published[] = {{"174Yb", 5.55e-9, 1e-12},        {"173Yb", 10.55e-9, 1e-12},
+                     {"88Sr", -1.4 * CP_A0, 1e-12},   {"7Li", -27.3 * CP_A0, 1e-12},
+                     {"23Na", 55.4 * CP_A0, 1e-12}};
+    for (size_t i = 0; i < sizeof published / sizeof published[0]; i++) {
+        const cp_atom *a;
+        assert_int_equal(cp_species_atom(published[i].name, &a, NULL), CP_OK);
+        assert_rel(a->a_bb, published[i].a_bb, published[i].tol);
+    }
+    const cp_atom *rb87, *rb85;
+    assert_int_equal(cp_species_atom("87Rb", &rb87, NULL), CP_OK);
+    assert_int_equal(cp_species_atom("85Rb", &rb85, NULL), CP_OK);
+    assert_true(rb87->a_bb > 0.0 && rb85->a_bb < 0.0);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -161,6 +199,7 @@ int main(void)
         cmocka_unit_test(test_molecular_constants),
         cmocka_unit_test(test_lookup_forms_and_errors),
         cmocka_unit_test(test_resonances),
+        cmocka_unit_test(test_scattering_lengths),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -92,7 +92,7 @@ static void test_polylog(void **state)
             assert_rel(v, polylog_by_integral(orders[k], zs[i]), 1e-11);
         }
     }
-    /* zeta(3/2) = 2.612375348685488 (physics.md §7 [C]) */
+    /* zeta(3/2) = 2.612375348685488 (DLMF 25.2, computed) */
     assert_int_equal(cp_polylog(1.5, 1.0, &v, NULL), CP_OK);
     assert_rel(v, 2.612375348685488, 1e-14);
     cp_error err;
@@ -102,7 +102,7 @@ static void test_polylog(void **state)
     assert_non_null(strstr(err.message, "order s"));
 }
 
-/* THERMO-2: GSL's Fermi-Dirac normalisation as used (physics.md §1.2):
+/* THERMO-2: GSL's Fermi-Dirac normalisation as used (GSL manual, Fermi-Dirac integrals):
  * F_2(0) = 3 zeta(3)/4 with zeta(3) from gsl_sf_zeta, F_j(x) = -Li_{j+1}(-e^x); and the
  * trapped Fermi gas against a direct numerical integral over the harmonic density of
  * states g(e) = e^2 / (2 (hbar w)^3): N and E at the solved chemical potential. */
@@ -137,7 +137,7 @@ static void test_fermi_vs_integral(void **state)
 {
     (void)state;
     assert_rel(gsl_sf_fermi_dirac_2(0.0), 0.75 * gsl_sf_zeta(3.0), 1e-14);
-    assert_rel(gsl_sf_fermi_dirac_2(0.0), 0.9015426773696957, 1e-14); /* physics.md §1.2 [C] */
+    assert_rel(gsl_sf_fermi_dirac_2(0.0), 0.9015426773696957, 1e-14); /* (3/4) zeta(3): DLMF 25.12 */
     cp_thermo_trap t = iso_trap(2e4);
     const double xs[] = {0.05, 0.2, 0.5, 2.0};
     for (size_t i = 0; i < 4; i++) {
@@ -154,7 +154,7 @@ static void test_fermi_vs_integral(void **state)
     }
 }
 
-/* THERMO-3: Sommerfeld expansion at T/T_F = 0.05 (physics.md §7; Butts & Rokhsar 1997):
+/* THERMO-3: Sommerfeld expansion at T/T_F = 0.05 (docs/models/thermo.md; Butts & Rokhsar 1997):
  * mu = E_F [1 - (pi^2/3) x^2], E/N = (3/4) E_F [1 + (2 pi^2/3) x^2], S/N = pi^2 x.  The
  * next terms are O(x^4) for mu, E and O(x^3) for S, hence the tolerances. */
 static void test_sommerfeld(void **state)
@@ -168,12 +168,12 @@ static void test_sommerfeld(void **state)
     assert_rel(r.chemical_potential, ef * (1.0 - pi2 / 3.0 * x * x), 1e-5);
     assert_rel(r.energy_per_particle, 0.75 * ef * (1.0 + 2.0 * pi2 / 3.0 * x * x), 3e-4);
     assert_rel(r.entropy_per_particle, pi2 * x, 1e-2);
-    /* T = 0 peak density (2 m E_F / hbar^2)^{3/2} / (6 pi^2) (physics.md §7), O(x^2). */
+    /* T = 0 peak density (2 m E_F / hbar^2)^{3/2} / (6 pi^2) (docs/models/thermo.md), O(x^2). */
     double n0 = pow(2.0 * MASS * ef / (CP_HBAR * CP_HBAR), 1.5) / (6.0 * pi2);
     assert_rel(r.peak_density, n0, 1e-2);
 }
 
-/* THERMO-4: Boltzmann limit at T/T_F = 10 (physics.md §7): z -> N (hbar w / k_B T)^3,
+/* THERMO-4: Boltzmann limit at T/T_F = 10 (docs/models/thermo.md): z -> N (hbar w / k_B T)^3,
  * E/N -> 3 k_B T, the classical peak density N (m w^2 / (2 pi k_B T))^{3/2}; corrections
  * are O(z) ~ 1e-4. */
 static void test_boltzmann(void **state)
@@ -237,7 +237,7 @@ static void test_bose(void **state)
     assert_int_equal(cp_thermo_bose_at(&t, 1.0 + 1e-9, &hi, NULL), CP_OK);
     assert_rel(hi.entropy_per_particle, lo.entropy_per_particle, 1e-6);
     assert_rel(hi.energy_per_particle, lo.energy_per_particle, 1e-6);
-    /* S/N at T_c = 4 zeta(4)/zeta(3) (physics.md §7 relations at z = 1) */
+    /* S/N at T_c = 4 zeta(4)/zeta(3) (docs/models/thermo.md relations at z = 1) */
     assert_rel(lo.entropy_per_particle, 4.0 * gsl_sf_zeta(4.0) / gsl_sf_zeta(3.0), 1e-14);
 }
 
@@ -277,7 +277,7 @@ static void test_round_trips(void **state)
 
 /* THERMO-8: harmonic -> harmonic entropy matching.  In the semiclassical ideal gas S/N
  * depends on k_B T / (hbar omega_bar N^{1/3}) only, so an adiabatic change of omega_bar
- * scales T by the same factor (by hand from the relations of physics.md §7). */
+ * scales T by the same factor (by hand from the relations of docs/models/thermo.md). */
 static void test_match_harmonic(void **state)
 {
     (void)state;
@@ -481,7 +481,7 @@ static void test_lattice_tight_binding(void **state)
 /* THERMO-13: band tables from the lattice model (cp_lattice_band_energies): at zero depth
  * they are the free-particle energies q^2 (by hand), and a deep lattice gives a narrow
  * lowest band near the harmonic on-site energy (hbar w_site/2 = sqrt(V0/E_r) E_r,
- * physics.md §6.1, up to the anharmonic shift -E_r/4 [M]). */
+ * docs/models/lattice.md, up to the anharmonic shift -E_r/4 [M]). */
 static void test_lattice_bands_from_solver(void **state)
 {
     (void)state;
@@ -585,12 +585,12 @@ static void test_bad_input(void **state)
     flat.omega[2] = 0.0;
     cp_thermo_tof_result tof;
     assert_int_equal(cp_thermo_tof(&flat, CP_FERMION, 1e-7, 1e-3, &tof, &err), CP_EINVAL);
-    assert_non_null(strstr(err.message, "thermo tof: omega_z"));
+    assert_non_null(strstr(err.message, "thermo.tof: omega_z"));
     assert_int_equal(cp_thermo_density(&flat, CP_BOSON, 1e-7, origin, &d, &err), CP_EINVAL);
-    assert_non_null(strstr(err.message, "thermo density: omega_z"));
+    assert_non_null(strstr(err.message, "thermo.density: omega_z"));
     assert_int_equal(cp_thermo_match_harmonic(&flat, CP_BOSON, 1e-7, t.omega, &out, &err),
                      CP_EINVAL);
-    assert_non_null(strstr(err.message, "thermo match_harmonic: omega_z"));
+    assert_non_null(strstr(err.message, "thermo.match_harmonic: omega_z"));
     /* absurd magnitudes: below 1 pK, a trap weaker than 1e-2 rad/s (check_int.h floors) */
     assert_int_equal(cp_thermo_bose(&t, 1e-13, &b, &err), CP_EINVAL);
     assert_non_null(strstr(err.message, "temperature"));

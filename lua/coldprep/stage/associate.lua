@@ -40,6 +40,34 @@ local function molecule_trap(a, b)
   return w
 end
 
+-- A Bose cloud below T_c: its condensate (the ideal-gas fraction) is a Thomas-Fermi cloud
+-- of the atoms' own scattering length (cp.feshbach, Dalfovo et al., RMP 71, 463 (1999)),
+-- which must be repulsive; the note gives N0 a / a_ho, which the Thomas-Fermi form needs
+-- much larger than 1 (below TF_MIN, common practice, no source, the note says the size is
+-- rough).  An attractive or missing scattering length is an error of the plan's input.
+local TF_MIN = 5
+local function condensate_note(c)
+  local a, f = c.scattering_length, c.condensed_fraction
+  if not (a and a > 0) then
+    A.fail("stages.associate", "%s is below T_c (condensed fraction %.2g) but its scattering "
+      .. "length is %s: a condensate needs a repulsive one (an attractive condensate of %.3g "
+      .. "atoms collapses); give start.atoms[i].scattering_length (m) for the state and field "
+      .. "of the plan", c.name, f, a and string.format("%.4g a0", a / cp.units.a0) or "unknown",
+      c.number * f)
+  end
+  local a_ho = math.sqrt(cp.consts.hbar / (c.mass * c.omega_bar))
+  local x = c.number * f * a / a_ho
+  local note = string.format("%s is below T_c (condensed fraction %.2g): its condensate is a "
+    .. "Thomas-Fermi cloud (a = %.4g a0, N0 a/a_ho = %.3g) inside the saturated thermal part, in "
+    .. "the overlap and in the ceiling (which pairs condensed atoms by the local ratio of the "
+    .. "condensate densities)", c.name, f, a / cp.units.a0, x)
+  if x < TF_MIN then
+    note = note .. "; N0 a/a_ho is not >> 1, so the Thomas-Fermi size is rough (the true "
+      .. "condensate is larger)"
+  end
+  return note
+end
+
 -- cp.stages.associate{ramp_rate (T/s) [, resonance, span (T), max_efficiency, alpha (m^2/s),
 --   samples, seed, label]}
 local function associate(args)
@@ -80,12 +108,8 @@ local function associate(args)
             .. "pairs' temperature and leave out the Fermi motion of its atoms, so they start colder "
             .. "than they would", c.name, c.degeneracy)
         end
-        if c.statistics == "boson" and c.degeneracy < 1 then
-          -- overlap_density has no profile for a partly condensed cloud without the atoms'
-          -- scattering length (not in the species data)
-          notes[#notes + 1] = string.format("%s is below T_c (condensed fraction %.2g): the overlap "
-            .. "density treats it as a thermal cloud; a condensate is denser and smaller", c.name,
-            c.condensed_fraction or 0)
+        if c.statistics == "boson" and (c.condensed_fraction or 0) > 0 then
+          notes[#notes + 1] = condensate_note(c)
         end
       end
       local ov = MODEL.overlap(a, b)
@@ -119,7 +143,8 @@ return { constructor = associate, help = [[
 stages.associate{ramp_rate (T/s) [, resonance, span (T), max_efficiency, alpha (m^2/s),
   samples = 20000, seed = 1, label]} -> stage
 Magnetoassociation of the atom mixture into Feshbach molecules (cp.feshbach): the partner
-density averaged over the minority cloud (overlap_density, with gravitational sag), the
+density averaged over the minority cloud (overlap_density, with gravitational sag; a Bose
+cloud below T_c has a Thomas-Fermi condensate set by its scattering_length), the
 phase-space ceiling P_max (max_efficiency, stochastic phase-space sampling; or give it),
 and the ramp-rate law P = P_max (1 - exp(-alpha n |abg width / ramp_rate|)).  resonance: an
 index into cp.species.resonance(molecule, i) (default 1) or a table {b0, width, abg, dmu}.

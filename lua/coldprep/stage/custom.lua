@@ -23,7 +23,7 @@ local function custom(args)
   end
   local produces = args.produces and A.option(fname, args, "produces", S.KINDS) or nil
   if args.equipment ~= nil and type(args.equipment) ~= "table" then
-    A.fail(fname, "argument 'equipment' must be a list of {kind = \"laser\"|\"coil\"|\"electric\", ...}")
+    A.fail(fname, "argument 'equipment' must be a list of {kind = \"laser\"|\"coil\"|\"electric\"|\"microwave\", ...}")
   end
   return new_stage("custom", { label = args.name }, {
     accepts = accepts, produces = produces, adiabatic = args.adiabatic and true or false,
@@ -61,7 +61,7 @@ elapsed ...) and returns the changed sample and optionally a record {duration (s
 {...}}.  The plan recomputes degeneracy, density and entropy from the thermo model.  For an
 atom mixture change s.atoms[1] and s.atoms[2].  accepts: a kind or list of kinds (default
 any); produces: the kind it hands on; equipment: list of {kind = "laser", what, power (W)}
-| {kind = "coil", what, field (T)} | {kind = "electric", what, field (V/m)} for the safety
-cautions.  Example:
+| {kind = "coil", what, field (T)} | {kind = "electric", what, field (V/m)} | {kind =
+"microwave", what, rabi (rad/s)} for the safety cautions.  Example:
   cp.stages.custom{name = "imaging", fn = function(s) s.number = 0.95 * s.number; return s,
     {duration = 1e-3, notes = {"5 % lost to imaging light"}} end}]] }

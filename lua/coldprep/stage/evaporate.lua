@@ -10,24 +10,17 @@ local leftover_note = common.leftover_note
 local thermal_note = common.thermal_note
 local LONG_EVAPORATION = common.LONG_EVAPORATION
 
--- Induced lab-frame dipole of a J = 0 molecule in a weak electric field F:
--- d_ind = d^2 F / (3 B) (second-order Stark shift -d^2 F^2 / (6 B), B the rotational
--- constant in J; standard perturbation theory [M]), valid while d F << B; capped at d.
-local function induced_dipole_debye(mol, field)
-  local d = mol.dipole_debye * cp.consts.debye
-  local B = cp.consts.h * mol.rot_const_hz
-  return math.min(d * d * field / (3 * B), d) / cp.consts.debye, d * field / B
-end
-
 -- The largest elastic-to-loss ratio cp.collisions.evaporation accepts.
 local NO_LOSS_RATIO = 1e12
 
 -- cp.stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J) |
---   duration (s), electric_field (V/m) | cross_section (m^2) [, ratio, kappa, loss_rate, label]}
+--   duration (s), electric_field (V/m) | microwave | confinement | cross_section (m^2) |
+--   ratio [, kappa, loss_rate, label]}
 local function evaporate(args)
   local fname = "stages.evaporate"
   A.table(fname, args, { "eta", "final_number", "keep", "final_temperature", "final_depth",
-    "duration", "electric_field", "cross_section", "ratio", "kappa", "loss_rate", "label" })
+    "duration", "electric_field", "rotational_j", "microwave", "confinement", "cross_section", "ratio", "kappa",
+    "loss_rate", "label" })
   local p = {
     eta = A.number(fname, args, "eta", "U/kB T", { min = 5, max = 30 }),
     final_number = A.number(fname, args, "final_number", "particles", { optional = true, min = 1 }),
@@ -35,14 +28,13 @@ local function evaporate(args)
     final_temperature = A.number(fname, args, "final_temperature", "K", { optional = true, positive = true }),
     final_depth = A.number(fname, args, "final_depth", "J", { optional = true, positive = true }),
     duration = A.number(fname, args, "duration", "s", { optional = true, positive = true, max = 1e5 }),
-    electric_field = A.number(fname, args, "electric_field", "V/m", { optional = true, positive = true, max = 1e8 }),
     cross_section = A.number(fname, args, "cross_section", "m^2", { optional = true, positive = true }),
     ratio = A.number(fname, args, "ratio", "elastic/loss", { optional = true, positive = true }),
     kappa = A.number(fname, args, "kappa", "kB T", { optional = true, min = 0, max = 2 }),
     loss_rate = A.number(fname, args, "loss_rate", "m^3/s", { optional = true, nonnegative = true, max = 1e-8 }),
   }
   if p.keep == 1 then
-    A.fail(fname, "argument 'keep' = 1 fraction is out of range; allowed (0, 1) fraction "
+    A.fail(fname, "keep 1 fraction is out of range; allowed (0, 1) fraction "
       .. "(an evaporation must lose particles)")
   end
   local ends = 0
@@ -53,36 +45,52 @@ local function evaporate(args)
     A.fail(fname, "give exactly one end point: 'final_number', 'keep' (fraction kept), "
       .. "'final_temperature' (K), 'final_depth' (J) or 'duration' (s)")
   end
-  if not (p.ratio or p.electric_field or p.cross_section) then
+  local protection = common.read_protection(fname, args)
+  if not (p.ratio or protection or p.cross_section) then
     A.fail(fname, "missing argument 'electric_field' (V/m, polarises the molecules for dipolar "
-      .. "elastic collisions) or 'cross_section' (m^2) or 'ratio' (elastic to loss collisions)")
+      .. "elastic collisions), 'microwave' {rabi, detuning} (shielding), 'confinement' "
+      .. "{axial_omega} (pancakes), 'cross_section' (m^2) or 'ratio' (elastic to loss collisions)")
   end
   if p.duration and p.ratio then
-    A.fail(fname, "argument 'duration' needs the collision rates: give 'electric_field' or "
-      .. "'cross_section' instead of 'ratio'")
+    A.fail(fname, "argument 'duration' needs the collision rates: give a protection "
+      .. "('electric_field', 'microwave', 'confinement') or 'cross_section' instead of 'ratio'")
   end
-  local equipment = {}
-  if p.electric_field then
-    equipment[1] = { kind = "electric", what = "electric field for dipolar collisions", field = p.electric_field }
-  end
+  local equipment = common.protection_equipment(protection)
   return new_stage("evaporate", args, {
     accepts = { ["ground-state-molecules"] = true }, params = p, equipment = equipment,
     hint = "evaporation of molecules needs ground-state molecules: place it after cp.stages.transfer",
     run = function(_, s)
-      local notes = {}
+      local notes, flags = {}, {}
       local mol = s.molecule
-      local beta = loss_rate(s, p.loss_rate, notes)
-      local sigma = p.cross_section
-      if not sigma and not p.ratio then
-        local d, x = induced_dipole_debye(mol, p.electric_field)
-        sigma = cp.collisions.dipolar_cross_section { dipole_debye = d, mass = mol.mass / 2,
-          statistics = s.statistics }.cross_section
-        notes[#notes + 1] = string.format("induced dipole %.3g D at %.3g kV/cm (d F / B = %.2g%s); "
-          .. "dipolar elastic cross section %.3g cm^2", d, p.electric_field / 1e5, x,
-          x > 0.3 and ", beyond the weak-field formula" or "", sigma / 1e-4)
+      local predicted = protection and not p.ratio and not p.cross_section
+      -- rates that follow the temperature: predicted for the protection at every step
+      local follow = predicted and not p.loss_rate
+      local function rates(T)
+        local r = common.predicted_rates(s, protection, T)
+        return { ratio = r.ratio, elastic = r.elastic_rate_coefficient,
+          loss = r.loss_rate_coefficient, result = r }
       end
-      local ratio = p.ratio
-      if not ratio and beta == 0 then
+      local beta, sigma, ratio = nil, p.cross_section, p.ratio
+      if follow then
+        local r0 = rates(s.temperature).result
+        common.rates_note(s, r0, s.temperature, notes)
+        common.unprotected_note(protection, r0.ratio, notes)
+        beta, sigma, ratio = r0.loss_rate_coefficient, r0.cross_section, r0.ratio
+      else
+        beta = loss_rate(s, p.loss_rate, notes, flags)
+      end
+      if predicted and not follow then
+        -- the given loss rate overrides; the elastic cross section is still predicted
+        local r = common.predicted_rates(s, protection, s.temperature)
+        sigma = r.cross_section
+        notes[#notes + 1] = string.format("the given loss_rate overrides the predicted %.3g cm^3/s; "
+          .. "%s dipole %.3g D%s, dipolar elastic cross section %.3g cm^2 (%s)",
+          r.loss_rate_coefficient / cp.units.cm3, r.regime == "microwave" and "effective" or "induced",
+          r.dipole_debye, r.regime == "microwave" and "" or " (exact Stark effect)", sigma / 1e-4,
+          r.method)
+      end
+      if follow then -- noted above
+      elseif not ratio and beta == 0 then
         -- no two-body loss: the largest ratio the scaling model takes stands for "no loss"
         ratio = NO_LOSS_RATIO
         notes[#notes + 1] = string.format("no two-body loss: ratio of elastic to loss collisions "
@@ -91,6 +99,7 @@ local function evaporate(args)
         ratio = ratio or cp.collisions.collision_ratio { cross_section = sigma, rate = beta,
           mass = mol.mass, temperature = s.temperature }.ratio
         notes[#notes + 1] = string.format("ratio of elastic to loss collisions %.3g at the start", ratio)
+        if not p.ratio and not p.loss_rate then common.unprotected_note(protection, ratio, notes) end
       end
       leftover_note(s, notes)
       thermal_note(s, notes, "evaporation", "starts")
@@ -98,7 +107,7 @@ local function evaporate(args)
         temperature = p.final_temperature or (p.final_depth and p.final_depth / (p.eta * cp.consts.kB)),
         duration = p.duration, sigma = sigma, beta = beta }
       if target.number and target.number >= s.number then
-        error(string.format("argument 'final_number' = %.4g is not below the %.4g molecules the "
+        error(string.format("final_number %.4g is not below the %.4g molecules the "
           .. "evaporation starts with", target.number, s.number), 0)
       end
       if target.temperature and target.temperature >= s.temperature then
@@ -111,7 +120,16 @@ local function evaporate(args)
         notes[#notes + 1] = "in the lattice: the evaporation model uses the envelope trap of the same "
           .. "entropy; evaporation out of a deep lattice is not what it describes"
       end
-      local r = MODEL.evaporate(s, p.eta, p.kappa, ratio, target)
+      local r = follow and MODEL.evaporate_predicted(s, p.eta, p.kappa, rates, target)
+        or MODEL.evaporate(s, p.eta, p.kappa, ratio, target)
+      if follow then
+        local rf = r.finish.result
+        notes[#notes + 1] = string.format("at the end (%.3g nK): loss %.3g cm^3/s, elastic/loss %.3g",
+          r.temperature / cp.units.nK, rf.loss_rate_coefficient / cp.units.cm3, rf.ratio)
+        if rf.valid == false and r.start.result.valid then
+          notes[#notes + 1] = "outside the collision model's validity at the end: " .. rf.note
+        end
+      end
       if r.efficiency <= 0 then
         notes[#notes + 1] = string.format("evaporation does not gain phase-space density "
           .. "(efficiency %.2g): losses outrun thermalisation", r.efficiency)
@@ -120,8 +138,7 @@ local function evaporate(args)
       if s.degeneracy >= 1 then thermal_note(out, notes, "evaporation", "ends") end
       local duration, unknown = 0, false
       if sigma then
-        local times = MODEL.evaporation_times(s, r, p.eta, sigma, beta)
-        duration = times[#times]
+        duration = r.duration
         if duration > LONG_EVAPORATION then
           notes[#notes + 1] = string.format("the evaporation takes %.3g s%s: one-body loss "
             .. "(background gas, light scattering) during it is not modelled, and molecule "
@@ -132,23 +149,30 @@ local function evaporate(args)
         unknown = true
         notes[#notes + 1] = "duration unknown (only the collision ratio was given); not counted in the elapsed time"
       end
-      return out, { duration = duration, duration_unknown = unknown, notes = notes }
+      return out, { duration = duration, duration_unknown = unknown, notes = notes, flags = flags }
     end,
   })
 end
 
 return { constructor = evaporate, help = [[
 stages.evaporate{eta, final_number | keep | final_temperature (K) | final_depth (J) |
-  duration (s), electric_field (V/m) | cross_section (m^2) | ratio [, kappa,
-  loss_rate (m^3/s), label]}
+  duration (s), electric_field (V/m) [, rotational_j = 0 | 1] | microwave = {rabi, detuning [,
+  ellipticity]} |
+  confinement = {axial_omega} | cross_section (m^2) | ratio [, kappa, loss_rate (m^3/s),
+  label]}
   -> stage
 Evaporation of ground-state molecules at truncation eta (5..30) in the fixed trap
-(cp.collisions.evaporation, the scaling model).  Elastic collisions: the dipolar cross
-section (cp.collisions.dipolar_cross_section) of the dipole induced by electric_field
-(d^2 F/(3B), weak field), or a given cross_section, or a given ratio of elastic to loss
-collisions.  Ends at a number, a kept fraction (0 < keep < 1), a temperature, or a trap
-depth (T = depth/(eta kB)), which must lie below the sample's, or after a duration (needs
-electric_field or cross_section).  Duration from the
-trajectory (unknown, NaN, with only a ratio); one-body loss is not modelled (a note
-flags evaporations longer than 1 s).  Example: cp.stages.evaporate{eta = 8, final_temperature = 60e-9,
-electric_field = 0.6e5}]] }
+(cp.collisions.evaporation, the scaling model).  With a protection (a dc electric_field,
+a blue-detuned microwave {rabi, detuning} in rad/s, and/or pancake confinement
+{axial_omega} in rad/s) and no loss_rate, the elastic and loss rates are predicted by
+cp.collisions.shielded at every step of the trajectory (they follow the temperature); a
+given loss_rate overrides the predicted loss.  Otherwise a given cross_section, or a
+given ratio of elastic to loss collisions, with the universal loss rate.  Ends at a
+number, a kept fraction (0 < keep < 1), a temperature, or a trap depth (T = depth/(eta kB)),
+which must lie below the sample's, or after a duration (needs a protection or
+cross_section).  An end point the physics never reaches (losses outrun the cooling, the
+cloud empties first) marks the stage failed in the budget.  Duration from the trajectory
+(unknown, NaN, with only a ratio); one-body loss is not modelled (a note flags
+evaporations longer than 1 s).  rotational_j = 1: the molecules are in |1,0>, dc-field
+shielded above the |1,0>|1,0> crossing.  Example: cp.stages.evaporate{eta = 8,
+final_temperature = 60e-9, microwave = {rabi = 2*math.pi*40e6, detuning = 2*math.pi*8e6}}]] }

@@ -33,7 +33,7 @@ local function transfer(args)
   if args.efficiency then
     eff = A.number(fname, args, "efficiency", "fraction", { positive = true, max = 1 })
   elseif args.round_trip_efficiency then
-    -- both directions equally efficient: one way = sqrt(round trip) (physics.md 5.2)
+    -- both directions equally efficient: one way = sqrt(round trip) (docs/models/raman.md)
     eff = math.sqrt(A.number(fname, args, "round_trip_efficiency", "fraction", { positive = true, max = 1 }))
   else
     for _, k in ipairs { "rabi_pump", "rabi_stokes", "width", "delay", "gamma" } do
@@ -60,19 +60,24 @@ local function transfer(args)
     hint = "the two-photon transfer starts from Feshbach molecules: place it after cp.stages.associate",
   })
   st.run = function(_, s)
-    local notes = {}
+    local notes, flags = {}, {}
     local e = eff or result.efficiency
     if result then
       notes[#notes + 1] = string.format("one-way efficiency %.4g from the Lambda-system model "
         .. "(round trip %.3g if both ways are alike, what imaging after a return pulse sees); "
         .. "%.3g lost through the excited state, %.3g left in the Feshbach state", e, e * e,
         result.lost, result.populations.initial)
+      for _, f in ipairs(result.flags) do
+        common.flag(flags, notes, "raman", f, string.format("the closed-form decay (%.3g) and "
+          .. "dephasing (%.3g) loss estimates assume resonant pulses; the propagated numbers above "
+          .. "do not", result.estimates.decay_loss, result.estimates.dephasing_loss))
+      end
     else
       notes[#notes + 1] = string.format("one-way efficiency %.4g as given", e)
     end
     -- the molecules that fail to transfer are lost at random (the energy per molecule is kept)
     local out = S.after_uniform_loss(S.with(s, { kind = "ground-state-molecules" }), s.number * e)
-    return out, { duration = result and MODEL.pulse_duration(result) or 0, notes = notes }
+    return out, { duration = result and MODEL.pulse_duration(result) or 0, notes = notes, flags = flags }
   end
   return st
 end

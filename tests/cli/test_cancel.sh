@@ -1,0 +1,57 @@
+#!/usr/bin/env bash
+# Ctrl-C inside long C computations: cp.collisions.hold with a lifetime of 1e-8 s over
+# 100 s and cp.raman.lineshape with a million points run for minutes,
+# cp.feshbach.max_efficiency with ten million samples for seconds; the first Ctrl-C
+# must stop them within 0.2 s (the core polls the flag the SIGINT handler sets), in the
+# session on a terminal (cli_pty's `within 200`, timed from the Ctrl-C) and in a script
+# (SIGINT sent by kill); the session goes on afterwards.
+source "$(dirname "$0")/lib.sh"
+[ -x "$cli_pty" ] || { echo "usage: $0 COLDPREP CLI_PTY (the pty driver is missing)" >&2; exit 1; }
+cd "$tmp" || exit 1
+export TERM=dumb INPUTRC=/dev/null
+
+hold='cp.collisions.hold{number = 2e4, temperature = 300e-9, omega_bar = 2*math.pi*100, mass = 2.1e-25, duration = 100, lifetime = 1e-8}'
+sampling='cp.feshbach.max_efficiency{temperature = 200e-9, samples = 10000000, a = {atom = "87Rb", t_over_tc = 1.2, omega_x = 628, omega_y = 628, omega_z = 628}, b = {atom = "40K", t_over_tf = 0.3, omega_x = 628, omega_y = 628, omega_z = 628}}'
+shape='cp.raman.lineshape{rabi_pump = 2*math.pi*5e6, rabi_stokes = 2*math.pi*5e6, width = 3e-6, delay = 3e-6, gamma = 2*math.pi*6e6, from = -2*math.pi*1e6, to = 2*math.pi*1e6, points = 1000000}'
+
+# pty ID < SCRIPT: a terminal session played from SCRIPT.
+pty() {
+  run "$cli_pty" -t 30 -- "$coldprep"
+  checks=$((checks + 1))
+  [ "$rc" = 0 ] || fail "$1" "terminal session failed (see stderr)"
+}
+
+for case in "CANCEL-1 hold:$hold" "CANCEL-2 lineshape:$shape" "CANCEL-4 sampling:$sampling"; do
+  id=${case%% *}
+  call=${case#*:}
+  pty "$id" <<EOF
+expect coldprep> 
+send r = $call\r
+sleep 700
+send \x03
+within 200 interrupted
+expect coldprep> 
+send print("still " .. "here", r)\r
+expect still here	nil
+expect coldprep> 
+send \x04
+exit 0
+EOF
+done
+
+# CANCEL-3: in a script, SIGINT stops the computation within 0.2 s; exit status 1.
+for call in "$hold" "$shape" "$sampling"; do
+  "$coldprep" -e "$call" 2> script.err &
+  pid=$!
+  sleep 0.7
+  start=$(date +%s%N)
+  kill -INT "$pid"
+  wait "$pid"
+  status=$?
+  ms=$(( ($(date +%s%N) - start) / 1000000 ))
+  checks=$((checks + 1))
+  [ "$status" = 1 ] && [ "$ms" -lt 200 ] && grep -q interrupted script.err ||
+    fail CANCEL-3 "a script stopped by SIGINT: status $status after $ms ms: $(cat script.err)"
+done
+
+finish

@@ -1,0 +1,205 @@
+/*
+ * Cancellation of long core computations (cp_collisions_hold_cancellable,
+ * cp_raman_scan_cancellable, cp_feshbach_max_efficiency_cancellable): with a NULL or clear flag the result is the plain function's,
+ * bit for bit (the second method here is the plain function itself); with the flag set
+ * before the call the status is CP_ECANCELED, the outputs are NaN and the message says
+ * "interrupted"; a flag raised by another thread 100 ms into a computation that would run
+ * for minutes stops it within 0.1 s (the bound the program's Ctrl-C promises, common
+ * practice for interactive response, no source).
+ */
+#include <math.h>
+#include <pthread.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <string.h>
+#include <time.h>
+
+#include <cmocka.h>
+
+#include "coldprep/collisions.h"
+#include "coldprep/consts.h"
+#include "coldprep/feshbach.h"
+#include "coldprep/raman.h"
+
+#define TWO_PI 6.283185307179586
+
+static double now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+static cp_hold_params hold_case(double lifetime, double duration)
+{
+    cp_hold_params p = {2e4, 300e-9, {600.0, 600.0, 6000.0}, 2.1e-25, 1e-17, CP_LOSS_S_WAVE,
+                        lifetime, 0.0, 1, duration};
+    return p;
+}
+
+static cp_raman_params raman_case(void)
+{
+    cp_raman_params p;
+    cp_raman_params_init(&p);
+    p.rabi_pump = p.rabi_stokes = TWO_PI * 5e6;
+    p.width = 2e-6;
+    p.delay = 2.4e-6;
+    p.gamma = TWO_PI * 6e6;
+    return p;
+}
+
+/* Two thermal clouds (87Rb and 40K masses, 2 pi x 100 Hz) for the phase-space sampling. */
+static void spss_clouds(cp_feshbach_cloud *a, cp_feshbach_cloud *b)
+{
+    double w = TWO_PI * 100.0;
+    *a = (cp_feshbach_cloud){CP_PROFILE_THERMAL, 1e4, 86.909180529 * CP_AMU, {w, w, w}, 0.0};
+    *b = (cp_feshbach_cloud){CP_PROFILE_THERMAL, 1e4, 39.963998165 * CP_AMU, {w, w, w}, 0.0};
+}
+
+static void test_clear_flag_changes_nothing(void **state)
+{
+    (void)state;
+    enum { P = 21 };
+    double a[3 * P], b[3 * P];
+    cp_cancel_flag clear = 0;
+    cp_hold_params h = hold_case(1.0, 0.5);
+    assert_int_equal(cp_collisions_hold(&h, P, a, a + P, a + 2 * P, NULL), CP_OK);
+    assert_int_equal(cp_collisions_hold_cancellable(&h, P, b, b + P, b + 2 * P, &clear, NULL),
+                     CP_OK);
+    assert_memory_equal(a, b, sizeof a);
+    assert_int_equal(cp_collisions_hold_cancellable(&h, P, b, b + P, b + 2 * P, NULL, NULL),
+                     CP_OK);
+    assert_memory_equal(a, b, sizeof a);
+
+    cp_raman_params r = raman_case();
+    double d[P], ea[P], eb[P];
+    for (int i = 0; i < P; i++)
+        d[i] = TWO_PI * 1e5 * (i - P / 2);
+    assert_int_equal(cp_raman_scan(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, P, 2, ea, NULL, NULL), CP_OK);
+    assert_int_equal(cp_raman_scan_cancellable(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, P, 2, eb, NULL,
+                                               &clear, NULL), CP_OK);
+    assert_memory_equal(ea, eb, sizeof ea);
+
+    cp_feshbach_cloud fa, fb;
+    spss_clouds(&fa, &fb);
+    cp_feshbach_spss o = {0.38, 7, 200000, 0};
+    double pa, sa, pb, sb;
+    assert_int_equal(cp_feshbach_max_efficiency(&fa, &fb, 1e-6, &o, &pa, &sa, NULL), CP_OK);
+    assert_int_equal(cp_feshbach_max_efficiency_cancellable(&fa, &fb, 1e-6, &o, &pb, &sb, &clear,
+                                                            NULL), CP_OK);
+    assert_memory_equal(&pa, &pb, sizeof pa);
+    assert_memory_equal(&sa, &sb, sizeof sa);
+}
+
+static void test_set_flag_cancels(void **state)
+{
+    (void)state;
+    enum { P = 5 };
+    double buf[3 * P];
+    cp_cancel_flag set = 1;
+    cp_error err;
+    cp_hold_params h = hold_case(1.0, 0.5);
+    assert_int_equal(cp_collisions_hold_cancellable(&h, P, buf, buf + P, buf + 2 * P, &set,
+                                                    &err), CP_ECANCELED);
+    assert_non_null(strstr(err.message, "collisions.hold: interrupted"));
+    for (int i = 0; i < 3 * P; i++)
+        assert_true(isnan(buf[i]));
+    cp_raman_params r = raman_case();
+    double d[P] = {0, 1, 2, 3, 4}, eff[P], lost[P];
+    assert_int_equal(cp_raman_scan_cancellable(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, P, 2, eff, lost,
+                                               &set, &err), CP_ECANCELED);
+    assert_non_null(strstr(err.message, "raman scan: interrupted"));
+    for (int i = 0; i < P; i++)
+        assert_true(isnan(eff[i]) && isnan(lost[i]));
+    cp_feshbach_cloud fa, fb;
+    spss_clouds(&fa, &fb);
+    cp_feshbach_spss o = {0.38, 7, 200000, 0};
+    double pm, se;
+    assert_int_equal(cp_feshbach_max_efficiency_cancellable(&fa, &fb, 1e-6, &o, &pm, &se, &set,
+                                                            &err), CP_ECANCELED);
+    assert_non_null(strstr(err.message, "feshbach.max_efficiency: interrupted"));
+    assert_true(isnan(pm) && isnan(se));
+    assert_string_equal(cp_strerror(CP_ECANCELED), "cancelled");
+}
+
+typedef struct raiser {
+    cp_cancel_flag *flag;
+    double at; /* when the flag was raised, s */
+} raiser;
+
+static void *raise_later(void *arg)
+{
+    raiser *r = arg;
+    struct timespec d = {0, 100 * 1000 * 1000};
+    nanosleep(&d, NULL);
+    r->at = now();
+    *r->flag = 1;
+    return NULL;
+}
+
+/* Runs `run` with a flag a second thread raises after 100 ms; returns the delay from the
+ * raise to the return, s. */
+static double stop_delay(cp_status (*run)(cp_cancel_flag *))
+{
+    cp_cancel_flag flag = 0;
+    raiser r = {&flag, 0};
+    pthread_t t;
+    assert_int_equal(pthread_create(&t, NULL, raise_later, &r), 0);
+    assert_int_equal(run(&flag), CP_ECANCELED);
+    double end = now();
+    pthread_join(t, NULL);
+    return end - r.at;
+}
+
+/* A one-body lifetime of 1e-8 s over 100 s of hold: minutes of stiff integration. */
+static cp_status long_hold(cp_cancel_flag *flag)
+{
+    enum { P = 3 };
+    double buf[3 * P];
+    cp_hold_params h = hold_case(1e-8, 100.0);
+    return cp_collisions_hold_cancellable(&h, P, buf, buf + P, buf + 2 * P, flag, NULL);
+}
+
+/* A million-point line shape: minutes of transfers. */
+static cp_status long_scan(cp_cancel_flag *flag)
+{
+    enum { N = 1000000 };
+    static double d[N], eff[N];
+    for (int i = 0; i < N; i++)
+        d[i] = TWO_PI * (i - N / 2);
+    cp_raman_params r = raman_case();
+    return cp_raman_scan_cancellable(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, N, 2, eff, NULL, flag,
+                                     NULL);
+}
+
+/* Ten million phase-space samples: seconds. */
+static cp_status long_sampling(cp_cancel_flag *flag)
+{
+    cp_feshbach_cloud a, b;
+    spss_clouds(&a, &b);
+    cp_feshbach_spss o = {0.38, 7, 10000000, 0};
+    double p, se;
+    return cp_feshbach_max_efficiency_cancellable(&a, &b, 1e-6, &o, &p, &se, flag, NULL);
+}
+
+static void test_flag_stops_running_computations(void **state)
+{
+    (void)state;
+    double dh = stop_delay(long_hold), ds = stop_delay(long_scan), dm = stop_delay(long_sampling);
+    print_message("stopped after the flag: hold %.1f ms, line shape %.1f ms, sampling %.1f ms\n",
+                  1e3 * dh, 1e3 * ds, 1e3 * dm);
+    assert_true(dh < 0.1);
+    assert_true(ds < 0.1);
+    assert_true(dm < 0.1);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_clear_flag_changes_nothing),
+        cmocka_unit_test(test_set_flag_cancels),
+        cmocka_unit_test(test_flag_stops_running_computations),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}

@@ -1,0 +1,239 @@
+/*
+ * Provenance of the built-in species data: every tabulated value has a source, verified
+ * values cite a DOI or arXiv id, the records are physically possible, and spot checks of
+ * values against the numbers printed in their papers.  Also the polarizability lookup and
+ * its errors.
+ */
+#include <math.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdio.h>
+#include <string.h>
+
+#include <cmocka.h>
+
+#include "coldprep/consts.h"
+#include "coldprep/species.h"
+#include "coldprep/species_sources.h"
+
+static void assert_rel(double got, double want, double tol)
+{
+    double rel = fabs(got - want) / fabs(want);
+    if (!(rel <= tol))
+        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
+}
+
+/* Every finite value of record/kind has a provenance entry; an entry without a publication
+ * must say "[M]"; a verified entry's publication must carry a DOI or an arXiv id. */
+static int check_record(const char *record, const char *kind)
+{
+    int checked = 0;
+    for (const char *const *f = cp_species_fields(kind); *f; f++) {
+        double v;
+        const char *unit;
+        assert_int_equal(cp_species_value(record, *f, &v, &unit, NULL), CP_OK);
+        const cp_datum *d = cp_species_datum(record, *f);
+        if (!isfinite(v)) {
+            if (d)
+                fail_msg("%s.%s has no value but a provenance entry", record, *f);
+            continue;
+        }
+        if (!d)
+            fail_msg("%s.%s = %g %s has no source", record, *f, v, unit);
+        const cp_reference *r = cp_species_reference(d->reference);
+        if (d->reference && !r)
+            fail_msg("%s.%s cites unknown reference %s", record, *f, d->reference);
+        if (!r && !(d->note && strstr(d->note, "[M]")))
+            fail_msg("%s.%s has neither a publication nor an [M] mark", record, *f);
+        if (d->verified && !(r && (r->doi || r->arxiv)))
+            fail_msg("%s.%s is verified but its source has no DOI or arXiv id", record, *f);
+        if (d->verified && d->status == CP_DATA_ESTIMATED)
+            fail_msg("%s.%s: an estimate cannot be verified against a paper", record, *f);
+        if (d->uncertainty < 0 || !isfinite(d->uncertainty))
+            fail_msg("%s.%s has uncertainty %g", record, *f, d->uncertainty);
+        checked++;
+    }
+    return checked;
+}
+
+/* SRC-1: walk every built-in atom, molecule and resonance. */
+static void test_every_value_has_a_source(void **state)
+{
+    (void)state;
+    int checked = 0;
+    for (size_t i = 0; i < cp_species_atom_count(); i++)
+        checked += check_record(cp_species_atom_at(i)->name, "atom");
+    for (size_t i = 0; i < cp_species_molecule_count(); i++) {
+        const cp_molecule *m = cp_species_molecule_at(i);
+        checked += check_record(m->name, "molecule");
+        int n;
+        assert_int_equal(cp_species_resonance_count(m->name, &n, NULL), CP_OK);
+        for (int k = 1; k <= n; k++) {
+            char rec[64];
+            snprintf(rec, sizeof rec, "%s#%d", m->name, k);
+            checked += check_record(rec, "resonance");
+        }
+    }
+    /* and no entry points at a field that does not exist or holds no value */
+    for (size_t i = 0; i < cp_species_datum_count(); i++) {
+        const cp_datum *d = cp_species_datum_at(i);
+        double v;
+        const char *unit;
+        if (cp_species_value(d->record, d->field, &v, &unit, NULL) != CP_OK || !isfinite(v))
+            fail_msg("provenance entry %s.%s has no value", d->record, d->field);
+    }
+    assert_int_equal((size_t)checked, cp_species_datum_count());
+    /* every publication has its bibliographic fields */
+    for (size_t i = 0; i < cp_species_reference_count(); i++) {
+        const cp_reference *r = cp_species_reference_at(i);
+        assert_true(r->authors && r->journal && r->volume && r->page);
+        assert_true(r->year >= 1900 && r->year <= 2100);
+        assert_true(r->doi || r->arxiv);
+    }
+}
+
+/* SRC-2: physically impossible combinations.  a_bg * Delta > 0 for every resonance
+ * (Chin et al., Rev. Mod. Phys. 82, 1225 (2010)); a nuclear spin is half-integer exactly
+ * when the mass number is odd, and the atom's statistics follow the neutron number; a
+ * molecule is a fermion exactly when it holds an odd number of neutrons. */
+static void test_physical_consistency(void **state)
+{
+    (void)state;
+    for (size_t i = 0; i < cp_species_atom_count(); i++) {
+        const cp_atom *a = cp_species_atom_at(i);
+        int twice_i = (int)lround(2.0 * a->nuclear_spin);
+        assert_true(fabs(2.0 * a->nuclear_spin - twice_i) < 1e-12);
+        if ((twice_i % 2 == 1) != (a->mass_number % 2 == 1))
+            fail_msg("%s: spin %g does not match mass number %d", a->name, a->nuclear_spin,
+                     a->mass_number);
+        int neutrons = a->mass_number - a->protons;
+        assert_int_equal(cp_atom_statistics(a), neutrons % 2 ? CP_FERMION : CP_BOSON);
+        if (isfinite(a->pol_1064_au))
+            assert_true(a->pol_1064_au > 0);
+    }
+    for (size_t i = 0; i < cp_species_molecule_count(); i++) {
+        const cp_molecule *m = cp_species_molecule_at(i);
+        const cp_atom *a, *b;
+        assert_int_equal(cp_molecule_atoms(m, &a, &b, NULL), CP_OK);
+        int neutrons = a->mass_number - a->protons + b->mass_number - b->protons;
+        assert_int_equal(cp_molecule_statistics(m), neutrons % 2 ? CP_FERMION : CP_BOSON);
+        assert_true(m->dipole_debye > 0 && m->rot_const_hz > 0 && m->c6_au > 0);
+        if (isfinite(m->loss_rate))
+            assert_true(m->loss_rate > 0 && m->loss_temperature > 0);
+        int n;
+        assert_int_equal(cp_species_resonance_count(m->name, &n, NULL), CP_OK);
+        for (int k = 0; k < n; k++) {
+            const cp_resonance *r;
+            assert_int_equal(cp_species_resonance(m->name, k, &r, NULL), CP_OK);
+            if (!(r->abg * r->width > 0))
+                fail_msg("%s resonance %d: a_bg * Delta = %g m T is not positive", m->name,
+                         k + 1, r->abg * r->width);
+            assert_true(r->b0 > 0 && r->dmu > 0);
+            assert_non_null(strstr(r->states, "+"));
+        }
+    }
+}
+
+/* SRC-3: spot checks against the numbers printed in the papers. */
+static void test_spot_checks(void **state)
+{
+    (void)state;
+    const cp_molecule *m;
+    /* K.-K. Ni et al., Science 322, 231 (2008), arXiv:0808.2963, abstract: 0.566(17) D */
+    assert_int_equal(cp_species_molecule("KRb", &m, NULL), CP_OK);
+    assert_rel(m->dipole_debye, 0.566, 1e-12);
+    assert_rel(cp_species_datum("40K87Rb", "dipole_debye")->uncertainty, 0.017, 1e-12);
+    /* P. K. Molony et al., PRL 113, 255301 (2014), arXiv:1409.1485, abstract: 1.225(3)(8) D */
+    assert_int_equal(cp_species_molecule("RbCs", &m, NULL), CP_OK);
+    assert_rel(m->dipole_debye, 1.225, 1e-12);
+    /* same paper: N=0 -> N=2 splitting h x 2940.09(6) MHz = 6B for a rigid rotor; the
+     * tabulated B (Gregory et al. 2016) agrees to 0.05 % (hyperfine shifts of the levels) */
+    assert_rel(6.0 * m->rot_const_hz, 2940.09e6, 5e-4);
+    /* J. W. Park, S. A. Will, M. W. Zwierlein, NJP 17, 075016 (2015), abstract: 2.72 D */
+    assert_int_equal(cp_species_molecule("NaK", &m, NULL), CP_OK);
+    assert_rel(m->dipole_debye, 2.72, 1e-12);
+    /* 1064 nm polarizabilities from measured static values: W. F. Holmgren et al., PRA 81,
+     * 053607 (2010), arXiv:1001.3888, abstract: Na 24.11, K 43.06, Rb 47.24 (1e-24 cm^3);
+     * J. M. Amini, H. Gould, PRL 91, 153001 (2003), abstract: Cs 401.0 a0^3.  Recomputed
+     * here from the D-line wavelengths (vacuum, nm [M]) and a0^3 = 1.481847e-25 cm^3
+     * (CODATA 2018 a0). */
+    static const struct {
+        const char *atom;
+        double alpha0_au, d1_nm, d2_nm;
+    } st[] = {{"23Na", 24.11e-24 / 1.481847e-25, 589.7558, 589.1583},
+              {"40K", 43.06e-24 / 1.481847e-25, 770.108, 766.701},
+              {"87Rb", 47.24e-24 / 1.481847e-25, 794.979, 780.241},
+              {"133Cs", 401.0, 894.593, 852.347}};
+    for (size_t i = 0; i < sizeof st / sizeof st[0]; i++) {
+        const cp_atom *a;
+        assert_int_equal(cp_species_atom(st[i].atom, &a, NULL), CP_OK);
+        double centroid = 3.0 / (1.0 / st[i].d1_nm + 2.0 / st[i].d2_nm);
+        double x = centroid / 1064.0;
+        assert_rel(a->pol_1064_au, st[i].alpha0_au / (1.0 - x * x), 5e-4);
+    }
+    /* Rb: the estimate lies within 3 % of the ab initio 687 a.u. at 1064 nm (Safronova,
+     * Arora, Clark, PRA 73, 022505 (2006) [M]) */
+    const cp_atom *rb;
+    assert_int_equal(cp_species_atom("87Rb", &rb, NULL), CP_OK);
+    assert_rel(rb->pol_1064_au, 687.0, 0.03);
+    const cp_resonance *r;
+    /* Z. Guo et al., arXiv:2108.01856 (2021), abstract: the 23Na-87Rb resonance "near
+     * 347.64 G" in the absolute ground states */
+    assert_int_equal(cp_species_resonance("NaRb", 0, &r, NULL), CP_OK);
+    assert_rel(r->b0, 347.64e-4, 1e-12);
+    assert_non_null(strstr(r->states, "23Na |1,1>"));
+    assert_non_null(strstr(r->states, "87Rb |1,1>"));
+    /* S.-K. Tung et al., PRA 87, 010702(R) (2013), arXiv:1211.2888, abstract: two 6Li-133Cs
+     * resonances "as wide as 6 mT (60 G)" */
+    assert_int_equal(cp_species_resonance("LiCs", 0, &r, NULL), CP_OK);
+    assert_rel(fabs(r->width), 60e-4, 0.05);
+}
+
+/* SRC-4: polarizability lookup at the tabulated wavelengths; plain errors elsewhere. */
+static void test_polarizability_lookup(void **state)
+{
+    (void)state;
+    double alpha;
+    cp_error err;
+    assert_int_equal(cp_species_polarizability("Rb87", 1064e-9, &alpha, NULL), CP_OK);
+    const cp_atom *rb;
+    assert_int_equal(cp_species_atom("87Rb", &rb, NULL), CP_OK);
+    assert_true(alpha == rb->pol_1064_au);
+    assert_int_equal(cp_species_polarizability("87Rb", 1064.5e-9, &alpha, NULL), CP_OK);
+    assert_int_equal(cp_species_polarizability("87Rb", 1066e-9, &alpha, &err), CP_ENOTFOUND);
+    assert_true(isnan(alpha));
+    assert_non_null(strstr(err.message, "polarizability_au"));
+    assert_non_null(strstr(err.message, "87Rb"));
+    assert_int_equal(cp_species_polarizability("88Sr", 1064e-9, &alpha, &err), CP_ENOTFOUND);
+    assert_non_null(strstr(err.message, "no published polarizability of 88Sr"));
+    assert_int_equal(cp_species_polarizability("KRb", 1064e-9, &alpha, &err), CP_ENOTFOUND);
+    assert_non_null(strstr(err.message, "40K87Rb"));
+    assert_int_equal(cp_species_polarizability("Xx", 1064e-9, &alpha, &err), CP_ENOTFOUND);
+    const double bad[] = {NAN, INFINITY, -INFINITY, 0.0, -1064e-9, 1.0};
+    for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
+        assert_int_equal(cp_species_polarizability("87Rb", bad[i], &alpha, &err), CP_EINVAL);
+        assert_non_null(strstr(err.message, "wavelength"));
+        assert_true(isnan(alpha));
+    }
+    double v;
+    const char *unit;
+    assert_int_equal(cp_species_value("87Rb", "colour", &v, &unit, &err), CP_ENOTFOUND);
+    assert_int_equal(cp_species_value("40K87Rb#9", "b0", &v, &unit, &err), CP_ENOTFOUND);
+    assert_int_equal(cp_species_value("#1", "b0", &v, &unit, &err), CP_ENOTFOUND);
+    assert_null(cp_species_datum("87Rb", "colour"));
+    assert_null(cp_species_reference("nobody"));
+    assert_null(cp_species_fields("photon"));
+    assert_null(cp_species_datum_at(cp_species_datum_count()));
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_every_value_has_a_source),
+        cmocka_unit_test(test_physical_consistency),
+        cmocka_unit_test(test_spot_checks),
+        cmocka_unit_test(test_polarizability_lookup),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}
