@@ -1,5 +1,5 @@
 /*
- * Raman model: propagation of the Lindblad master equation of physics.md §5.1 for the
+ * Raman model: propagation of the Lindblad master equation of docs/models/raman.md for the
  * Lambda system plus a sink.  The state is the 3x3 density matrix as 9 reals
  * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population, which is
  * integrated on its own so that trace + lost = 1 is a check of the integrator, not an
@@ -81,7 +81,7 @@ static void model_init(model *m, const cp_raman_params *p)
         m->kappa13 = gr / 2;
         m->kappa23 = (gp + gr) / 2;
     } else {
-        /* L_p = sqrt(gp) (P2 + P3), L_s = sqrt(gs) P3 (issue 4): D[sqrt(g) P] damps rho_ij
+        /* L_p = sqrt(gp) (P2 + P3), L_s = sqrt(gs) P3: D[sqrt(g) P] damps rho_ij
          * at g (P_ii - P_jj)^2 / 2 */
         m->kappa12 = gp / 2;
         m->kappa13 = (gp + gs) / 2;

@@ -1,7 +1,7 @@
 /*
  * Raman model: parameter validation, the pulse envelopes (Gaussian, sin^2 and sampled
  * shapes with Steffen's monotone cubic interpolation) and the closed-form estimates of
- * physics.md §5.2 evaluated on the same envelopes.
+ * docs/models/raman.md evaluated on the same envelopes.
  */
 #include <math.h>
 #include <stdlib.h>
@@ -270,7 +270,7 @@ void cp_raman_estimates(const cp_raman_pulses *pl, cp_raman_result *res)
         double thetadot = (os * dop - op * dos) / r2; /* tan(theta) = Op / Os */
         double sin2theta = 2 * op * os / r2;
         mix += w * sin2theta * sin2theta;
-        /* adiabatic elimination of the bright states (physics.md §5.2): only where it is
+        /* adiabatic elimination of the bright states (docs/models/raman.md): only where it is
          * valid, Omega_rms^2 / gamma >> |thetadot| (here by a factor 10) */
         if (r2 >= 10 * p->gamma * fabs(thetadot))
             decay += w * 4 * p->gamma * thetadot * thetadot / r2;

@@ -2,7 +2,7 @@
  * coldprep — two-photon Raman transfer (STIRAP) in a Lambda system |1> - |2> - |3>.
  *
  * The density matrix of the three levels plus a sink is propagated through the Lindblad
- * master equation of physics.md §5.1: RWA Hamiltonian H/hbar = [[0, Op/2, 0],
+ * master equation of docs/models/raman.md: RWA Hamiltonian H/hbar = [[0, Op/2, 0],
  * [Op/2, -Delta, Os/2], [0, Os/2, -delta]], decay of |2> at gamma (a fraction back into |1>
  * and |3>, the rest lost), slow loss of |1> and |3>, and laser phase noise as dephasing.
  * All rates and Rabi frequencies are angular (rad/s); laser linewidths are Lorentzian FWHM

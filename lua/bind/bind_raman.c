@@ -197,7 +197,7 @@ static int l_lineshape(lua_State *L)
     "           cos^2(pi (t-tc)/(2 width)) for |t-tc| < width (duration 2 width)\n"           \
     "  delay    s; Stokes centred at -delay/2, pump at +delay/2 (delay > 0: counter-intuitive)\n" \
     "  gamma    decay rate of the excited state |2> (1/s)\n"                                  \
-    "  detuning = 0, two_photon_detuning = 0  Delta and delta (rad/s), physics.md 5.1\n"      \
+    "  detuning = 0, two_photon_detuning = 0  Delta and delta (rad/s)\n"                          \
     "  pump_linewidth_hz = 0, stokes_linewidth_hz = 0  independent lasers, Lorentzian FWHM (Hz)\n" \
     "  relative_linewidth_hz  lasers on a common reference: FWHM of their beat note (Hz);\n"  \
     "           pump_linewidth_hz is then the common-mode linewidth, stokes_linewidth_hz = 0\n" \

@@ -1,4 +1,4 @@
--- Lua-level tests of cp.raman through the real coldprep binary: the API of API.md, the
+-- Lua-level tests of cp.raman through the real coldprep binary: the API of docs/api/raman.md, the
 -- area theorem as an outside check, sampled shapes, line shapes and error messages.
 local T = require "testlib"
 local cp = require "coldprep"
@@ -13,19 +13,19 @@ local function with(extra)
   return t
 end
 
--- RAMAN-L1: the result table of API.md; trace + lost = 1 (sink integrated separately).
+-- RAMAN-L1: the result table of docs/api/raman.md; trace + lost = 1 (sink integrated separately).
 local r = cp.raman.transfer(with { round_trip = true, trace = 11 })
 T.check(r.efficiency == r.populations.target, "efficiency is the target population")
 T.near(r.populations.initial + r.populations.excited + r.populations.target + r.lost, 1, 1e-10,
   "trace + lost = 1")
 T.check(r.efficiency > 0.85 and r.efficiency < 0.95, "reference case transfers ~90%")
--- physics.md §5.2: round trip ~ one-way^2 for symmetric sequences (here within 2e-3 with
+-- docs/models/raman.md: round trip ~ one-way^2 for symmetric sequences (here within 2e-3 with
 -- the 1 kHz linewidths)
 T.near(r.round_trip_efficiency, r.efficiency ^ 2, 2e-3, "round trip ~ one-way^2")
 T.check(#r.trace.time == 11 and r.trace.initial[1] == 1, "trace starts in |1>")
 T.check(r.trace.target[11] == r.efficiency, "trace ends at the result")
 T.check(r.trace.lost[11] == r.lost and #r.trace.coherence_23_im == 11, "trace columns")
-T.near(r.lost, r.estimates.decay_loss, 0.05, "loss vs adiabatic elimination (physics.md §5.2)")
+T.near(r.lost, r.estimates.decay_loss, 0.05, "loss vs adiabatic elimination (docs/models/raman.md)")
 T.check(r.adiabaticity > 10, "Omega T > 10 (Bergmann et al. 1998 [M])")
 T.check(cp.raman.transfer(ref).round_trip_efficiency == nil, "no round trip unless asked")
 T.check(r.integrator == "dopri5" and cp.raman.transfer(with { detuning = 2 * pi * 200 * MHz }).integrator == "msbdf",

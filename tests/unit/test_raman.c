@@ -2,8 +2,8 @@
  * Raman transfer (core/raman*.c): each check names its outside reference — a second,
  * independent integration of the same master equation (a complex-valued right-hand side
  * written here and GSL's rk8pd at 1e-13), the two-level area theorem, the adiabatic-
- * elimination and dephasing formulas of physics.md §5.2, and a time-reversal identity
- * derived by hand.  Conventions: physics.md §5.1.
+ * elimination and dephasing formulas of docs/models/raman.md, and a time-reversal identity
+ * derived by hand.  Conventions: docs/models/raman.md.
  */
 #include <complex.h>
 #include <float.h>
@@ -31,7 +31,7 @@ static void assert_close(double got, double want, double tol, const char *what)
                  fabs(got - want), tol);
 }
 
-/* The reference case of issue 4. */
+/* The reference case (docs/models/raman.md). */
 static cp_raman_params reference_case(void)
 {
     cp_raman_params p;
@@ -54,8 +54,8 @@ static double env(const cp_raman_params *p, double rabi, double tc, double t)
     return fabs(x) < 1 ? rabi * pow(sin(M_PI * (x + 1) / 2), 2) : 0.0;
 }
 
-/* Lindblad equation with the jump operators written out as matrices (physics.md §5.1 and
- * issue 4): sqrt(G)|0><2| split by branching, sqrt(g1)|0><1|, sqrt(g3)|0><3|, and the
+/* Lindblad equation with the jump operators written out as matrices (docs/models/raman.md):
+ * sqrt(G)|0><2| split by branching, sqrt(g1)|0><1|, sqrt(g3)|0><3|, and the
  * dephasing operators sqrt(2 pi dnu_p)(P2 + P3), sqrt(2 pi dnu_s) P3. */
 static int ref_rhs(double t, const double y[], double dy[], void *vp)
 {
@@ -81,7 +81,7 @@ static int ref_rhs(double t, const double y[], double dy[], void *vp)
     d[0][0] += p->branching_initial * p->gamma * creal(r[1][1]);
     d[2][2] += p->branching_target * p->gamma * creal(r[1][1]);
     /* dephasing D[L] rho = L rho L - (1/2){L^2, rho} for diagonal projector sums L:
-     * independent lasers L_p = sqrt(gp)(P2 + P3), L_s = sqrt(gs) P3 (issue 4); a common
+     * independent lasers L_p = sqrt(gp)(P2 + P3), L_s = sqrt(gs) P3; a common
      * reference L_c = sqrt(gp) P2 (common mode), L_r = sqrt(g_rel) P3 (beat note) */
     double lp[3] = {0, 1, 1}, ls[3] = {0, 0, 1};
     double gp = TWO_PI * p->pump_linewidth_hz, gs = TWO_PI * p->stokes_linewidth_hz;
@@ -161,7 +161,7 @@ static void test_against_reference(void **state)
     check_against_reference(&p, "far detuned, explicit");
 }
 
-/* rho positive: eigenvalues from GSL's gsl_eigen_herm >= -1e-10 (issue 4).  (Hermiticity
+/* rho positive: eigenvalues from GSL's gsl_eigen_herm >= -1e-10.  (Hermiticity
  * holds by construction: nine reals are stored, so it is not tested.) */
 static void check_density_matrix(const cp_raman_result *r)
 {
@@ -399,7 +399,7 @@ static void test_two_state_equivalent(void **state)
  *     the DDP exponent is -1 within 2% (measured -0.993).  The same with unequal peaks
  *     (Omega_S = 1.5 Omega_P, a complex t_c off the imaginary axis), Omega0 T = 20..70.
  * (c) With delay = width the loss is dominated instead by the Gaussian wings, where
- *     Omega_rms falls faster than thetadot (physics.md §5.2), and oscillates: at Omega0 T = 40
+ *     Omega_rms falls faster than thetadot (docs/models/raman.md), and oscillates: at Omega0 T = 40
  *     it is above 1e3 times the DDP estimate (measured 1.5e-3 against 1.3e-13) — the estimate
  *     does not apply there, which docs/models/raman.md states. */
 static double ddp_integrand(double u, void *vp)
@@ -487,7 +487,7 @@ static void test_nonadiabatic_ddp(void **state)
 }
 
 /* RAMAN-4: loss through |2> against adiabatic elimination, 4 gamma thetadot^2 / Omega_rms^2
- * (physics.md §5.2; Vitanov & Stenholm, PRA 56, 1463 (1997) [M]) where Omega^2 T / gamma
+ * (docs/models/raman.md; Vitanov & Stenholm, PRA 56, 1463 (1997) [M]) where Omega^2 T / gamma
  * >> 1 and Omega T >> 1: agreement to 5%. */
 static void test_decay_loss(void **state)
 {
@@ -560,7 +560,7 @@ static void test_slow_loss_duration(void **state)
 }
 
 /* RAMAN-5: dephasing only (gamma = 0): the loss from the dark state follows
- * (kappa_13/2) int sin^2(2 theta) dt (physics.md §5.2, (gamma_phi/2) t_overlap), to 5%
+ * (kappa_13/2) int sin^2(2 theta) dt (docs/models/raman.md, (gamma_phi/2) t_overlap), to 5%
  * while it is small. */
 static void test_dephasing(void **state)
 {
@@ -577,7 +577,7 @@ static void test_dephasing(void **state)
         assert_close((1 - r.efficiency) / r.dephasing_loss_estimate, 1.0, 0.05, "dephasing");
     }
     /* a common reference: only the relative linewidth dephases rho_13, so equal relative
-     * and summed linewidths give the same estimate (physics.md §5.1) */
+     * and summed linewidths give the same estimate (docs/models/raman.md) */
     p.pump_linewidth_hz = 0;
     p.stokes_linewidth_hz = 0;
     p.use_relative = 1;
@@ -595,7 +595,7 @@ static void test_dephasing(void **state)
  * H_eff = H - i gamma/2 P2 is complex symmetric, so the reversed sequence propagates with
  * U^T and the return amplitude is sum_k psi_k^2 = sum_k rho_k1^2 / rho_11* (derivation by
  * hand): round trip = |sum_k rho_k1^2|^2 / rho_11^2 exactly; for efficient transfer this
- * is one-way^2 to a few 1e-4 (physics.md §5.2). */
+ * is one-way^2 to a few 1e-4 (docs/models/raman.md). */
 static void test_round_trip(void **state)
 {
     (void)state;
