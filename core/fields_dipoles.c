@@ -43,7 +43,7 @@ static cp_status dipoles_reduced(cp_fields_work *w, double x, int m, int levels,
         return CP_ENOMEM;
     cp_fields_tri t = {n, w->diag, w->off, w->off2, x, 1e-290 * (1.0 + x * x)};
     for (int k = 0; k < levels; k++) {
-        double *v = vecs + (size_t)k * n;
+        double *v = vecs + (size_t)k * (size_t)n;
         cp_fields_tri_vector(&t, energy[k], v, w->fwd, w->bwd);
         if (v[k] < 0.0)
             for (int i = 0; i < n; i++)
@@ -51,7 +51,7 @@ static cp_status dipoles_reduced(cp_fields_work *w, double x, int m, int levels,
     }
     for (int k = 0; k < levels; k++)
         for (int l = k; l < levels; l++) {
-            const double *a = vecs + (size_t)k * n, *b = vecs + (size_t)l * n;
+            const double *a = vecs + (size_t)k * (size_t)n, *b = vecs + (size_t)l * (size_t)n;
             double c = 0.0;
             for (int i = 0; i + 1 < n; i++)
                 c += w->coup[i] * (a[i] * b[i + 1] + a[i + 1] * b[i]);

@@ -237,9 +237,9 @@ cp_status cp_lattice_band_summary_compute(double depth_er, cp_lattice_band_summa
 static void cosine_moments(const double *e, int n, int stride, double out[3])
 {
     for (int m = 0; m < 3; m++) {
-        double sum = 0.5 * (e[0] + e[(size_t)n * stride] * (m % 2 ? -1.0 : 1.0));
+        double sum = 0.5 * (e[0] + e[(size_t)n * (size_t)stride] * (m % 2 ? -1.0 : 1.0));
         for (int j = 1; j < n; j++)
-            sum += e[(size_t)j * stride] * cos(m * CP_PI * j / n);
+            sum += e[(size_t)j * (size_t)stride] * cos(m * CP_PI * j / n);
         out[m] = sum / n;
     }
 }
@@ -281,7 +281,7 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
             break;
         nq = 0;
         for (int j = first; j <= n; j += step)
-            e[(size_t)j * stride] = energies[nq++ * bands + band];
+            e[(size_t)j * (size_t)stride] = energies[(size_t)nq++ * (size_t)bands + (size_t)band];
         cosine_moments(e, n, stride, cur);
         change = fmax(fabs(cur[1] - prev[1]), fabs(cur[2] - prev[2]));
         if (change <= 1e-12)
