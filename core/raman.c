@@ -161,13 +161,22 @@ static const int trace_index[CP_RAMAN_TRACE_COLUMNS] = {
     [CP_RAMAN_TRACE_RE13] = 5,    [CP_RAMAN_TRACE_IM13] = 6,    [CP_RAMAN_TRACE_RE23] = 7,
     [CP_RAMAN_TRACE_IM23] = 8};
 
+/* A population (y index 0, 1, 2 or 9) as reported: the integration leaves it within its
+ * accuracy of the physical range, by ~1e-10 below 0 or above 1 at the default accuracy; the
+ * reported value is clipped to [0, 1] so that no population is negative. */
+static double population(const double *y, int index)
+{
+    double v = y[index];
+    return (index <= 2 || index == 9) ? fmin(1.0, fmax(0.0, v)) : v;
+}
+
 static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
 {
     if (tr->column[CP_RAMAN_TRACE_TIME])
         tr->column[CP_RAMAN_TRACE_TIME][i] = t;
     for (int c = CP_RAMAN_TRACE_TIME + 1; c < CP_RAMAN_TRACE_COLUMNS; c++)
         if (tr->column[c])
-            tr->column[c][i] = y[trace_index[c]];
+            tr->column[c][i] = population(y, trace_index[c]);
 }
 
 /* One of the two integrators: GSL's driver (msbdf) or the explicit pair of raman_dp.c. */
@@ -257,14 +266,14 @@ static void fill_result(const double *y, cp_raman_result *res)
     const double re[3][3] = {{y[0], y[3], y[5]}, {y[3], y[1], y[7]}, {y[5], y[7], y[2]}};
     const double im[3][3] = {{0, y[4], y[6]}, {-y[4], 0, y[8]}, {-y[6], -y[8], 0}};
     for (int i = 0; i < 3; i++) {
-        res->populations[i] = y[i];
+        res->populations[i] = population(y, i);
         for (int j = 0; j < 3; j++) {
-            res->rho[i][j][0] = re[i][j];
+            res->rho[i][j][0] = i == j ? population(y, i) : re[i][j];
             res->rho[i][j][1] = im[i][j];
         }
     }
-    res->efficiency = y[2];
-    res->lost = y[9];
+    res->efficiency = population(y, 2);
+    res->lost = population(y, 9);
 }
 
 /* Run the forward sequence (and the return trip) with msbdf (nmax bounds the steps per

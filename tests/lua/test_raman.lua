@@ -121,4 +121,20 @@ T.near(on.transfer_duration, 2.4e-6 + 2 * 2e-6, 1e-12, "transfer duration |delay
 -- HELP-L: help texts.
 T.check(type(cp.get_help(cp.raman.transfer)) == "string", "help for raman.transfer")
 T.check(type(cp.get_help(cp.raman.lineshape)) == "string", "help for raman.lineshape")
+-- RAMAN-L9: populations are never negative nor above one, in the final state and along the
+-- trace (the integration left them up to ~2e-9 outside [0, 1] in these cases: a lossless
+-- and a lossy Lambda system, on resonance and far detuned).
+local worst = 0
+for _, g in ipairs { 0, 1e3, 2 * math.pi * 6e6 } do
+  for _, d in ipairs { 0, 2 * math.pi * 1e6, 2 * math.pi * 100e6 } do
+    local rr = cp.raman.transfer { rabi_pump = 2 * math.pi * 5e6, rabi_stokes = 2 * math.pi * 5e6,
+      width = 2e-6, delay = 2.4e-6, gamma = g, detuning = d, trace = 200 }
+    for _, k in ipairs { "initial", "excited", "target", "lost" } do
+      for _, v in ipairs(rr.trace[k]) do worst = math.min(worst, v, 1 - v) end
+    end
+    for _, v in ipairs { rr.efficiency, rr.lost } do worst = math.min(worst, v, 1 - v) end
+  end
+end
+T.check(worst == 0, "populations stay in [0, 1] (worst excursion " .. worst .. ")")
+
 T.done()
