@@ -322,7 +322,8 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
         out->sites_occupied = sums[0];
         out->sites_single = sums[1];
         out->sites_multiple = fmax(0.0, sums[0] - sums[1]);
-        out->single_fraction = sums[1] / trap->number;
+        /* <= 1 by definition; the number solve's tolerance can leave it ~1e-15 above */
+        out->single_fraction = fmin(1.0, sums[1] / trap->number);
         if (!(isfinite(s.p0) && isfinite(sums[0]))) {
             filling_poison(out);
             st = cp_fail(err, CP_ENUMERIC, "%s: site statistics not finite at T = %g K", ctx,

@@ -148,6 +148,26 @@ static void push_user_table(lua_State *L, const char *which)
     lua_remove(L, -2);
 }
 
+/* The key user entries are filed under: lower case without '-', '_' or spaces (the Lua
+ * library files them by it too, through species.builtin_user_key). */
+static void normalised(const char *name, char *out, size_t size)
+{
+    size_t n = 0;
+    for (; *name && n + 1 < size; name++)
+        if (*name != '-' && *name != '_' && *name != ' ')
+            out[n++] = (char)tolower((unsigned char)*name);
+    out[n] = '\0';
+}
+
+/* species.builtin_user_key(name) -> the key a user entry is filed under (normalised). */
+static int l_user_key(lua_State *L)
+{
+    char key[128];
+    normalised(luaL_checkstring(L, 1), key, sizeof key);
+    lua_pushstring(L, key);
+    return 1;
+}
+
 /* species.builtin_user_tables() -> atoms, molecules, resonances: the tables the Lua
  * library fills with cp.species.add_*. */
 static int l_user_tables(lua_State *L)
@@ -156,17 +176,6 @@ static int l_user_tables(lua_State *L)
     push_user_table(L, "molecules");
     push_user_table(L, "resonances");
     return 3;
-}
-
-/* The key user entries are filed under: lower case without '-', '_' or spaces (as the
- * Lua library files them). */
-static void normalised(const char *name, char *out, size_t size)
-{
-    size_t n = 0;
-    for (; *name && n + 1 < size; name++)
-        if (*name != '-' && *name != '_' && *name != ' ')
-            out[n++] = (char)tolower((unsigned char)*name);
-    out[n] = '\0';
 }
 
 /* Push the user entry of `which` named by the string at idx, or return 0 (nothing pushed). */
@@ -350,6 +359,8 @@ static const cpl_function functions[] = {
      "species.builtin_molecule(name): a molecule from the built-in table only."},
     {"builtin_resonance", l_resonance,
      "species.builtin_resonance(molecule [, index]): a built-in Feshbach resonance."},
+    {"builtin_user_key", l_user_key,
+     "species.builtin_user_key(name): the key a user-added entry is filed under."},
     {"builtin_user_tables", l_user_tables,
      "species.builtin_user_tables(): the registry tables of user-added atoms, molecules and "
      "resonances."},

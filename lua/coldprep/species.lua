@@ -10,9 +10,8 @@ local M = {}
 -- user's entries there without calling back into this library)
 local user_atoms, user_molecules, user_resonances = builtin.builtin_user_tables()
 
-local function key(name)
-  return (name:lower():gsub("[%-_ ]", ""))
-end
+-- the key user entries are filed under, the same the bindings read them by
+local key = builtin.builtin_user_key
 
 local function copy(t)
   local c = {}

@@ -33,6 +33,10 @@ T.raises(function() plan { cp.stages.evaporate { eta = 8, final_depth = 8 * cp.c
 T.raises(function() plan { cp.stages.evaporate { eta = 8, final_number = 1e6, ratio = 100 } }:run() end,
   { "stage 4 (evaporate)", "final_number 1e+06", "not below" }, "final number above the start")
 
+-- a cross section beyond the evaporation clock's range (1 cm^2) is refused when the plan is
+-- written, not when it runs
+T.raises(function() cp.stages.evaporate { eta = 8, keep = 0.5, cross_section = 1e-6 } end,
+  { "stages.evaporate", "cross_section 1e-06 m^2 is out of range" }, "absurd cross section")
 T.raises(function() cp.stages.evaporate { eta = 8, duration = 1, ratio = 100 } end,
   { "stages.evaporate", "'duration'", "cross_section" }, "a duration end point needs the collision rates")
 
