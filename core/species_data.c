@@ -7,8 +7,10 @@
  * user for it.
  *
  * Estimated molecule-molecule C6 in J = 0: C6 = C6_el + d^4/(6B) in atomic units (the
- * rotational part: Julienne, Hanna, Idziaszek, PCCP 13, 19114 (2011)) with C6_el ~ 1e4 a.u.
- * (recalled, [M]); the rotational part dominates for every molecule marked so.
+ * rotational part: Julienne, Hanna, Idziaszek, PCCP 13, 19114 (2011)).  C6_el = 1e4 a.u. is
+ * the project's own round number for the electronic (dispersion) part, not a published
+ * value: the rotational part is 5e5 to 7e6 a.u. for every molecule estimated so except
+ * RbCs (1.2e5), so even a C6_el wrong by a factor two moves C6 by under 10 %.
  */
 #include <math.h>
 
@@ -52,8 +54,9 @@ const cp_atom cp_atom_table[] = {
     {"85Rb", "Rb", 37, 85, 84.91178973604, 2.5, 699.8, NAN,
      "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
      -443.0 * CP_A0,
-     "|2,-2>, background away from the 155 G resonance: Claussen et al., PRA 67, 060701(R) "
-     "(2003) [M]"},
+     "|2,-2>, background of the 155.041(18) G resonance (width 10.71(2) G), -443(3) a0: "
+     "Claussen et al., arXiv:cond-mat/0302195 (2003), abstract; PRA 67, 060701(R) not "
+     "re-read"},
     {"87Rb", "Rb", 37, 87, 86.909180529, 1.5, 699.8, NAN,
      "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
      100.40 * CP_A0,
@@ -91,13 +94,13 @@ const cp_molecule cp_molecule_table[] = {
     {"40K87Rb", "40K", "87Rb", 0.566, 1.1139e9, 16130.0, 1, NAN, NAN, NAN, NAN, 3.0e-18,
      250e-9,
      "d: Ni et al., Science 322, 231 (2008); B: Ospelkaus et al. 2010; C6: Kotochigova 2010; "
-     "loss: Ospelkaus et al., Science 327, 853 (2010); reactive: Zuchowski & Hutson 2010"},
+     "loss: Ospelkaus et al., Science 327, 853 (2010); reactive: Ospelkaus et al. 2010"},
     {"23Na40K", "23Na", "40K", 2.72, 2.8217e9, 5.197e5, 0, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: as quoted by Park, Will, Zwierlein, NJP 17, 075016 (2015); B: Will et al. 2016; "
-     "C6 estimated; non-reactive: Zuchowski & Hutson 2010"},
+     "C6 estimated; non-reactive: Park, Will, Zwierlein 2015"},
     {"87Rb133Cs", "87Rb", "133Cs", 1.225, 0.490174e9, 1.307e5, 0, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: Molony et al., PRL 113, 255301 (2014); B: Gregory et al. 2016; C6 estimated; "
-     "non-reactive: Zuchowski & Hutson 2010"},
+     "non-reactive: Gregory et al., Nat. Commun. 10, 3104 (2019)"},
     {"23Na87Rb", "23Na", "87Rb", 3.2, 2.0897e9, 1.328e6, 0, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: Guo et al., PRL 116, 205303 (2016); B: Guo et al. 2018; C6 estimated; "
      "non-reactive: Zuchowski & Hutson 2010"},
@@ -118,10 +121,12 @@ const size_t cp_molecule_table_size = sizeof cp_molecule_table / sizeof cp_molec
 #define GAUSS 1e-4
 
 /* The four resonance parameters of each entry are attributed to one paper (for NaRb the
- * position to a later one); only the NaRb position has been checked against its paper's
- * text, so every record has verified = 0 (details per value in species_provenance.c).
- * c6_au is the atom-atom C6 of the entrance pair (Derevianko, Babb, Dalgarno 2001); it
- * sets the mean scattering length abar. */
+ * position to a later one); only the NaRb and NaLi positions have been checked against
+ * their papers' text, so every record has verified = 0 (details per value in
+ * species_provenance.c).  c6_au is the atom-atom C6 of the entrance pair (Derevianko, Babb,
+ * Dalgarno 2001; Na-Cs the fitted value of Brookes & Hutson 2022); it sets the mean
+ * scattering length abar.  The entrance-channel states are those the attributed paper is
+ * recalled to use; they were not read in the papers ([M], species_provenance.c). */
 const cp_resonance cp_resonance_table[] = {
     {"40K87Rb", "40K |9/2,-9/2> + 87Rb |1,1>", 546.7 * GAUSS, -3.04 * GAUSS, -187.0 * CP_A0,
      2.3 * CP_MUB, 4274.0, 0, "Zirbel et al., PRA 78, 013416 (2008); C6: Derevianko et al. 2001"},
@@ -136,14 +141,15 @@ const cp_resonance cp_resonance_table[] = {
      "B0: Guo et al., arXiv:2108.01856 (2021); width, abg: Wang et al., PRA 87, 050702(R) "
      "(2013); C6: Derevianko et al. 2001"},
     {"23Na133Cs", "23Na |1,1> + 133Cs |3,3>", 864.1 * GAUSS, 1.0 * GAUSS, 30.0 * CP_A0,
-     2.0 * CP_MUB, 3227.0, 0,
-     "B0 recalled, paper not identified [M]; width, abg and dmu are placeholders; "
-     "C6: Derevianko et al. 2001"},
+     2.0 * CP_MUB, 3256.0, 0,
+     "B0 recalled [M] (candidate paper: Zhang et al., arXiv:2003.07850); width, abg and dmu "
+     "are placeholders; C6: Brookes & Hutson, J. Phys. Chem. A (2022), arXiv:2203.10362"},
     {"6Li40K", "6Li |1> + 40K |9/2,-9/2>", 155.0 * GAUSS, 0.9 * GAUSS, 63.0 * CP_A0,
      2.0 * CP_MUB, 2322.0, 0, "Wille et al., PRL 100, 053201 (2008); C6: Derevianko et al. 2001"},
     {"6Li133Cs", "6Li |1> + 133Cs |3,3>", 843.0 * GAUSS, -58.0 * GAUSS, -29.0 * CP_A0,
      2.0 * CP_MUB, 3065.0, 0, "Tung et al., PRA 87, 010702(R) (2013); C6: Derevianko et al. 2001"},
     {"23Na6Li", "23Na |1,1> + 6Li |1>", 745.0 * GAUSS, -0.1 * GAUSS, -76.0 * CP_A0,
-     2.0 * CP_MUB, 1467.0, 0, "Heo et al., PRA 86, 021602(R) (2012); C6: Derevianko et al. 2001"},
+     2.0 * CP_MUB, 1467.0, 0,
+     "B0: Heo et al., PRA 86, 021602(R) (2012), arXiv:1205.5304; C6: Derevianko et al. 2001"},
 };
 const size_t cp_resonance_table_size = sizeof cp_resonance_table / sizeof cp_resonance_table[0];

@@ -20,7 +20,7 @@ const cp_reference cp_reference_table[] = {
     {"Ni2008", "K.-K. Ni, S. Ospelkaus, M. H. G. de Miranda, A. Pe'er, B. Neyenhuis, et al.",
      "Science", "322", "231", 2008, "10.1126/science.1163861", "0808.2963"},
     {"Ospelkaus2010hf", "S. Ospelkaus, K.-K. Ni, G. Quemener, B. Neyenhuis, D. Wang, et al.",
-     "Phys. Rev. Lett.", "104", "030402", 2010, "10.1103/PhysRevLett.104.030402", NULL},
+     "Phys. Rev. Lett.", "104", "030402", 2010, "10.1103/PhysRevLett.104.030402", "0908.3931"},
     {"Ospelkaus2010", "S. Ospelkaus, K.-K. Ni, D. Wang, M. H. G. de Miranda, B. Neyenhuis, et al.",
      "Science", "327", "853", 2010, "10.1126/science.1184121", "0912.3854"},
     {"Kotochigova2010", "S. Kotochigova", "New J. Phys.", "12", "073041", 2010,
@@ -34,7 +34,7 @@ const cp_reference cp_reference_table[] = {
     {"Molony2014", "P. K. Molony, P. D. Gregory, Z. Ji, B. Lu, M. P. Koppinger, et al.",
      "Phys. Rev. Lett.", "113", "255301", 2014, "10.1103/PhysRevLett.113.255301", "1409.1485"},
     {"Gregory2016", "P. D. Gregory, J. Aldegunde, J. M. Hutson, S. L. Cornish", "Phys. Rev. A",
-     "94", "041403(R)", 2016, "10.1103/PhysRevA.94.041403", NULL},
+     "94", "041403(R)", 2016, "10.1103/PhysRevA.94.041403", "1608.03303"},
     {"Guo2016", "M. Guo, B. Zhu, B. Lu, X. Ye, F. Wang, R. Vexiau, et al.", "Phys. Rev. Lett.",
      "116", "205303", 2016, "10.1103/PhysRevLett.116.205303", "1602.03947"},
     {"Guo2018", "M. Guo, X. Ye, J. He, G. Quemener, D. Wang", "Phys. Rev. A", "97", "020501(R)",
@@ -51,7 +51,7 @@ const cp_reference cp_reference_table[] = {
      "Phys. Rev. A", "78", "013416", 2008, "10.1103/PhysRevA.78.013416", "0712.3889"},
     {"Park2012", "J. W. Park, C.-H. Wu, I. Santiago, T. G. Tiecke, S. Will, P. Ahmadi, "
                  "M. W. Zwierlein",
-     "Phys. Rev. A", "85", "051602(R)", 2012, "10.1103/PhysRevA.85.051602", NULL},
+     "Phys. Rev. A", "85", "051602(R)", 2012, "10.1103/PhysRevA.85.051602", "1110.4552"},
     {"Takekoshi2012", "T. Takekoshi, M. Debatin, R. Rameshan, F. Ferlaino, R. Grimm, et al.",
      "Phys. Rev. A", "85", "032506", 2012, "10.1103/PhysRevA.85.032506", NULL},
     {"Wang2013", "F. Wang, D. Xiong, X. Li, D. Wang, E. Tiemann", "Phys. Rev. A", "87",
@@ -63,7 +63,13 @@ const cp_reference cp_reference_table[] = {
     {"Tung2013", "S.-K. Tung, C. Parker, J. Johansen, C. Chin, Y. Wang, P. S. Julienne",
      "Phys. Rev. A", "87", "010702(R)", 2013, "10.1103/PhysRevA.87.010702", "1211.2888"},
     {"Heo2012", "M.-S. Heo, T. T. Wang, C. A. Christensen, T. M. Rvachov, D. A. Cotta, et al.",
-     "Phys. Rev. A", "86", "021602(R)", 2012, "10.1103/PhysRevA.86.021602", NULL},
+     "Phys. Rev. A", "86", "021602(R)", 2012, "10.1103/PhysRevA.86.021602", "1205.5304"},
+    {"Gregory2019", "P. D. Gregory, M. D. Frye, J. A. Blackmore, E. M. Bridge, R. Sawant, et al.",
+     "Nat. Commun.", "10", "3104", 2019, "10.1038/s41467-019-11033-y", "1904.00654"},
+    {"BrookesHutson2022", "S. G. H. Brookes, J. M. Hutson", "J. Phys. Chem. A", "126",
+     "(page not read)", 2022, "10.1021/acs.jpca.2c01810", "2203.10362"},
+    {"Zhang2020", "J. T. Zhang, Y. Yu, W. B. Cairncross, K. Wang, L. R. B. Picard, et al.",
+     "arXiv preprint", "2003.07850", "v1", 2020, NULL, "2003.07850"},
 };
 const size_t cp_reference_table_size = sizeof cp_reference_table / sizeof cp_reference_table[0];
 
@@ -98,6 +104,12 @@ const size_t cp_reference_table_size = sizeof cp_reference_table / sizeof cp_ref
     {rec, "abg", 0.0, CALC, 0, ref, note},                                                     \
     {rec, "dmu", 0.0, CALC, 0, ref, note}
 
+/* The estimated molecular C6 (species_data.c): rotational part from the paper, electronic
+ * part a round number of the project's own. */
+#define C6_EST                                                                                 \
+    "d^4/(6B) from the tabulated d and B (the rotational part) plus C6_el = 1e4 a.u., the "    \
+    "project's own round number for the electronic part (no published value used); ~10 %"
+
 #define NONREACTIVE "2AB -> A2 + B2 endothermic (their Table I); flag not re-read"
 
 const cp_datum cp_datum_table[] = {
@@ -118,10 +130,12 @@ const cp_datum cp_datum_table[] = {
     {"40K87Rb", "rot_const_hz", 0.0, MEAS, 0, "Ospelkaus2010hf",
      "microwave spectroscopy of N=0 -> 1; 1113.9 MHz recalled [M]"},
     {"40K87Rb", "c6_au", 0.0, CALC, 0, "Kotochigova2010", "16130 a.u. recalled [M]"},
-    {"40K87Rb", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010",
-     "2KRb -> K2 + Rb2 exothermic (their Table I); flag not re-read"},
+    {"40K87Rb", "reactive", 0.0, MEAS, 1, "Ospelkaus2010",
+     "\"experimental evidence for exothermic atom-exchange chemical reactions\" of ground-state "
+     "KRb (abstract); the energetics of all ten bialkalis: Zuchowski & Hutson 2010"},
     {"40K87Rb", "loss_rate", 0.75e-18, MEAS, 0, "Ospelkaus2010",
-     "spin-polarised fermions, p-wave: beta/T = 1.2(3)e-5 cm^3 s^-1 K^-1 recalled [M], "
+     "spin-polarised fermions, p-wave: beta/T = 1.2(3)e-5 cm^3 s^-1 K^-1 recalled [M] (the "
+     "abstract, read, gives no number; docs/models/collisions.md recalls 1.1(3)e-5), "
      "evaluated at 250 nK (beta grows in proportion to T)"},
     {"40K87Rb", "loss_temperature", 0.0, MEAS, 0, "Ospelkaus2010",
      "the temperature the recalled beta/T is evaluated at [M]"},
@@ -130,9 +144,10 @@ const cp_datum cp_datum_table[] = {
     {"23Na40K", "dipole_debye", 0.0, MEAS, 1, "Park2015",
      "2.72 D as stated in the abstract (a value quoted there, not measured in that paper)"},
     {"23Na40K", "rot_const_hz", 0.0, MEAS, 0, "Will2016", "2.8217 GHz recalled [M]"},
-    {"23Na40K", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011",
-     "d^4/(6B) from the tabulated d and B plus an electronic part ~1e4 a.u. [M]; ~10 %"},
-    {"23Na40K", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010", NONREACTIVE},
+    {"23Na40K", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
+    {"23Na40K", "reactive", 0.0, MEAS, 1, "Park2015",
+     "ground-state NaK molecules \"are chemically stable under binary collisions\" "
+     "(abstract)"},
 
     /* 87Rb133Cs */
     {"87Rb133Cs", "dipole_debye", 0.0085, MEAS, 1, "Molony2014",
@@ -140,16 +155,17 @@ const cp_datum cp_datum_table[] = {
     {"87Rb133Cs", "rot_const_hz", 0.0, MEAS, 0, "Gregory2016",
      "490.174 MHz recalled [M]; Molony et al. 2014 give the N=0 -> 2 splitting "
      "2940.09(6) MHz, i.e. 6B to within the hyperfine shifts"},
-    {"87Rb133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011",
-     "d^4/(6B) from the tabulated d and B plus an electronic part ~1e4 a.u. [M]; ~10 %"},
-    {"87Rb133Cs", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010", NONREACTIVE},
+    {"87Rb133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
+    {"87Rb133Cs", "reactive", 0.0, MEAS, 1, "Gregory2019",
+     "\"nonreactive ultracold 87Rb133Cs molecules\" (abstract); they are still lost in "
+     "sticky two-body collisions, at a rate below the universal limit (same abstract; the "
+     "rate itself was not read and is not built in)"},
 
     /* 23Na87Rb */
     {"23Na87Rb", "dipole_debye", 0.0, MEAS, 0, "Guo2016",
      "Stark shifts of the ground state; 3.2 D recalled [M]"},
     {"23Na87Rb", "rot_const_hz", 0.0, MEAS, 0, "Guo2018", "2.0897 GHz recalled [M]"},
-    {"23Na87Rb", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011",
-     "d^4/(6B) from the tabulated d and B plus an electronic part ~1e4 a.u. [M]; ~10 %"},
+    {"23Na87Rb", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"23Na87Rb", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010", NONREACTIVE},
 
     /* 23Na133Cs */
@@ -157,8 +173,7 @@ const cp_datum cp_datum_table[] = {
      "ab initio, X1Sigma+ v=0; 4.6 D recalled [M]"},
     {"23Na133Cs", "rot_const_hz", 0.0, EST, 0, NULL,
      "from the equilibrium distance, recalled [M]; no paper identified"},
-    {"23Na133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011",
-     "d^4/(6B) from the tabulated d and B plus an electronic part ~1e4 a.u. [M]; ~10 %"},
+    {"23Na133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"23Na133Cs", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010", NONREACTIVE},
 
     /* 6Li40K */
@@ -167,8 +182,7 @@ const cp_datum cp_datum_table[] = {
      "the paper's own table not read"},
     {"6Li40K", "rot_const_hz", 0.0, EST, 0, NULL,
      "from the equilibrium distance, recalled [M]; no paper identified"},
-    {"6Li40K", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011",
-     "d^4/(6B) from the tabulated d and B plus an electronic part ~1e4 a.u. [M]; ~10 %"},
+    {"6Li40K", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"6Li40K", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010",
      "2LiK -> Li2 + K2 exothermic (their Table I); flag not re-read"},
 
@@ -177,8 +191,7 @@ const cp_datum cp_datum_table[] = {
      "Stark spectroscopy of the ground state; 5.5 D recalled [M]"},
     {"6Li133Cs", "rot_const_hz", 0.0, EST, 0, NULL,
      "from the equilibrium distance, recalled [M]; no paper identified"},
-    {"6Li133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011",
-     "d^4/(6B) from the tabulated d and B plus an electronic part ~1e4 a.u. [M]; ~10 %"},
+    {"6Li133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"6Li133Cs", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010",
      "2LiCs -> Li2 + Cs2 exothermic (their Table I); flag not re-read"},
 
@@ -210,19 +223,36 @@ const cp_datum cp_datum_table[] = {
     {"23Na87Rb#1", "abg", 0.0, CALC, 0, "Wang2013", "66 a0 recalled [M]"},
     {"23Na87Rb#1", "dmu", 0.0, CALC, 0, "Wang2013", "2 muB assumed, not from the paper [M]"},
     PAIR_C6("23Na87Rb#1", 2683.0),
-    RES4("23Na133Cs#1", NULL,
-         "B0 = 864.1 G recalled [M], paper not identified; width, a_bg and dmu are "
-         "placeholders to be replaced by a calibration"),
-    PAIR_C6("23Na133Cs#1", 3227.0),
-    RES4("6Li40K#1", "Wille2008", "155.0 G, 0.9 G, 63 a0 recalled [M]; dmu = 2 muB assumed"),
+    {"23Na133Cs#1", "b0", 0.0, MEAS, 0, "Zhang2020",
+     "864.1 G recalled [M]; Zhang et al. (title and authors read) magnetoassociate single "
+     "NaCs molecules on a Na+Cs resonance, but its position was not read there"},
+    {"23Na133Cs#1", "width", 0.0, EST, 0, NULL,
+     "placeholder, no paper identified [M]: replace by a calibration"},
+    {"23Na133Cs#1", "abg", 0.0, EST, 0, NULL,
+     "placeholder, no paper identified [M]: replace by a calibration"},
+    {"23Na133Cs#1", "dmu", 0.0, EST, 0, NULL,
+     "2 muB placeholder, no paper identified [M]: replace by a calibration"},
+    {"23Na133Cs#1", "c6_au", 1.0, CALC, 1, "BrookesHutson2022",
+     "\"C6 must be increased by about 0.9% to 3256(1) Eh a0^6 to fit the experimental "
+     "results\" (abstract): fitted to tweezer spectroscopy and scattering; it replaces the "
+     "Derevianko et al. 2001 value 3227 a.u. used before"},
+    RES4("6Li40K#1", "Wille2008",
+         "155.0 G, 0.9 G, 63 a0 recalled [M]; dmu = 2 muB assumed; the entrance channel "
+         "(K |9/2,-9/2> here) is recalled too and may be K |9/2,-5/2>: check the paper's "
+         "table before use"),
     PAIR_C6("6Li40K#1", 2322.0),
     RES4("6Li133Cs#1", "Tung2013",
          "the abstract says two resonances are as wide as 6 mT (60 G), consistent with "
          "|width| = 58 G; 843.0 G, -58 G, -29 a0 recalled [M]; dmu = 2 muB assumed"),
     PAIR_C6("6Li133Cs#1", 3065.0),
-    RES4("23Na6Li#1", "Heo2012",
-         "745.0 G recalled [M]; width ~0.1 G recalled with its sign set so that "
-         "a_bg * width > 0; dmu = 2 muB assumed"),
+    {"23Na6Li#1", "b0", 0.0, MEAS, 1, "Heo2012",
+     "\"a narrow Feshbach resonance at 745 G\" used to form NaLi molecules (abstract); the "
+     "abstract does not name the entrance states"},
+    {"23Na6Li#1", "width", 0.0, MEAS, 0, "Heo2012",
+     "~0.1 G recalled [M] (the abstract only says \"narrow\"), its sign set so that "
+     "a_bg * width > 0"},
+    {"23Na6Li#1", "abg", 0.0, CALC, 0, "Heo2012", "-76 a0 recalled [M]"},
+    {"23Na6Li#1", "dmu", 0.0, CALC, 0, "Heo2012", "2 muB assumed, not from the paper [M]"},
     PAIR_C6("23Na6Li#1", 1467.0),
 };
 const size_t cp_datum_table_size = sizeof cp_datum_table / sizeof cp_datum_table[0];

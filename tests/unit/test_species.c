@@ -161,7 +161,7 @@ static void test_resonances(void **state)
  * arXiv:0808.3434), 7Li |2,2> -27.3(8) a0 (Abraham et al., PRL 74, 1315 (1995)), 23Na
  * |1,-1> 55.4(1.2) a0 (van Abeelen & Verhaar, PRA 59, 578 (1999)); and the sign that
  * matters for a condensate: 87Rb repulsive, 85Rb |2,-2> attractive (Claussen et al., PRA
- * 67, 060701(R) (2003) [M]). */
+ * 67, 060701(R) (2003), arXiv:cond-mat/0302195, abstract: -443(3) a0). */
 static void test_scattering_lengths(void **state)
 {
     (void)state;

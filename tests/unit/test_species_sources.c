@@ -188,6 +188,37 @@ static void test_spot_checks(void **state)
      * resonances "as wide as 6 mT (60 G)" */
     assert_int_equal(cp_species_resonance("LiCs", 0, &r, NULL), CP_OK);
     assert_rel(fabs(r->width), 60e-4, 0.05);
+    /* M.-S. Heo et al., PRA 86, 021602(R) (2012), arXiv:1205.5304, abstract: NaLi molecules
+     * formed on "a narrow Feshbach resonance at 745 G" */
+    assert_int_equal(cp_species_resonance("NaLi", 0, &r, NULL), CP_OK);
+    assert_rel(r->b0, 745e-4, 1e-12);
+    assert_true(fabs(r->width) < 1e-4); /* "narrow": well under 1 G */
+    /* S. G. H. Brookes, J. M. Hutson, J. Phys. Chem. A (2022), doi:10.1021/acs.jpca.2c01810,
+     * arXiv:2203.10362, abstract: the Na-Cs C6 "must be increased by about 0.9% to
+     * 3256(1) Eh a0^6" */
+    assert_int_equal(cp_species_resonance("NaCs", 0, &r, NULL), CP_OK);
+    assert_rel(r->c6_au, 3256.0, 1e-12);
+    assert_rel(cp_species_datum("23Na133Cs#1", "c6_au")->uncertainty, 1.0, 1e-12);
+    /* Claussen et al., arXiv:cond-mat/0302195 (2003), abstract: 85Rb |2,-2> background
+     * scattering length -443(3) a0 near the 155 G resonance */
+    const cp_atom *rb85;
+    assert_int_equal(cp_species_atom("85Rb", &rb85, NULL), CP_OK);
+    assert_rel(rb85->a_bb, -443.0 * CP_A0, 1e-12);
+    assert_non_null(strstr(rb85->a_bb_source, "|2,-2>"));
+    /* Chemical reactivity as the experiments' abstracts state it: KRb reacts (S. Ospelkaus
+     * et al., Science 327, 853 (2010), arXiv:0912.3854: "exothermic atom-exchange chemical
+     * reactions"); NaK is "chemically stable under binary collisions" (J. W. Park, S. A.
+     * Will, M. W. Zwierlein, NJP 17, 075016 (2015)); RbCs is "nonreactive" (P. D. Gregory et
+     * al., Nat. Commun. 10, 3104 (2019), arXiv:1904.00654) */
+    assert_int_equal(cp_species_molecule("KRb", &m, NULL), CP_OK);
+    assert_true(m->reactive);
+    assert_int_equal(cp_species_molecule("NaK", &m, NULL), CP_OK);
+    assert_false(m->reactive);
+    assert_int_equal(cp_species_molecule("RbCs", &m, NULL), CP_OK);
+    assert_false(m->reactive);
+    const char *checked_flags[] = {"40K87Rb", "23Na40K", "87Rb133Cs"};
+    for (size_t i = 0; i < 3; i++)
+        assert_true(cp_species_datum(checked_flags[i], "reactive")->verified);
 }
 
 /* SRC-4: polarizability lookup at the tabulated wavelengths; plain errors elsewhere. */
