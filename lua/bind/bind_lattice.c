@@ -13,8 +13,8 @@
 #include "args.h"
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
-#include "coldprep/species.h"
 #include "help.h"
+#include "species_lookup.h"
 
 int cpl_open_lattice(lua_State *L);
 
@@ -61,8 +61,9 @@ static const char *const BEAM_KEYS[] = {"power",          "waist",        "wavel
                                         NULL};
 
 /* The polarizability of a beam: given under one of the polarizability keys, or else the
- * built-in value of 'species' at the beam's wavelength (cp_species_polarizability, whose
- * error asks for polarizability_au where there is none). */
+ * value of 'species' at the beam's wavelength, a user-added species' own or the built-in
+ * one (cpl_species_polarizability, whose error asks for polarizability_au where there is
+ * none). */
 static double beam_polarizability(lua_State *L, int arg, const char *fname, double wavelength,
                                   cp_polarizability_unit *unit)
 {
@@ -74,10 +75,9 @@ static double beam_polarizability(lua_State *L, int arg, const char *fname, doub
         return read_polarizability(L, arg, fname, "polarizability", unit);
     }
     const char *name = cpl_opt_string(L, arg, fname, "species", NULL);
-    double alpha;
-    cp_error err;
-    if (cp_species_polarizability(name, wavelength, &alpha, &err) != CP_OK)
-        cpl_error(L, fname, "%s", err.message);
+    lua_pushstring(L, name);
+    double alpha = cpl_species_polarizability(L, -1, wavelength, fname);
+    lua_pop(L, 1);
     *unit = CP_POLARIZABILITY_AU;
     return alpha;
 }

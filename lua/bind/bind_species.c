@@ -263,6 +263,37 @@ void cpl_push_first_resonance(lua_State *L, int idx)
     lua_pop(L, 1);
 }
 
+double cpl_species_polarizability(lua_State *L, int idx, double wavelength, const char *fname)
+{
+    idx = lua_absindex(L, idx);
+    static const struct {
+        double wavelength;
+        const char *field;
+    } tabulated[] = {{1064e-9, "pol_1064_au"}, {1550e-9, "pol_1550_au"}};
+    if (push_user_entry(L, "atoms", idx) || push_user_entry(L, "molecules", idx)) {
+        double alpha = NAN;
+        for (size_t i = 0; i < sizeof tabulated / sizeof tabulated[0]; i++)
+            if (fabs(wavelength - tabulated[i].wavelength) <= 1e-9) {
+                if (lua_getfield(L, -1, tabulated[i].field) == LUA_TNUMBER)
+                    alpha = lua_tonumber(L, -1);
+                lua_pop(L, 1);
+            }
+        lua_getfield(L, -1, "name");
+        const char *name = lua_tostring(L, -1);
+        if (!isfinite(alpha))
+            cpl_error(L, fname, "no polarizability of %s at %.6g nm was given; give "
+                      "polarizability_au (a.u.) for this species and wavelength (or pol_1064_au / "
+                      "pol_1550_au when adding it)", name ? name : "?", wavelength * 1e9);
+        lua_pop(L, 2);
+        return alpha;
+    }
+    double alpha;
+    cp_error err;
+    if (cp_species_polarizability(lua_tostring(L, idx), wavelength, &alpha, &err) != CP_OK)
+        cpl_error(L, fname, "%s", err.message);
+    return alpha;
+}
+
 static int l_list(lua_State *L)
 {
     size_t na = cp_species_atom_count(), nm = cp_species_molecule_count();

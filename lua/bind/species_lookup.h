@@ -20,4 +20,10 @@ void cpl_push_molecule(lua_State *L, int idx);
  * built-in one, else the first the user added; raises a Lua error when there is none. */
 void cpl_push_first_resonance(lua_State *L, int idx);
 
+/* The ground-state polarizability (a.u.) of the species named by the string at idx at
+ * `wavelength` (m): a user-added atom's or molecule's pol_1064_au / pol_1550_au (within
+ * 1 nm of those wavelengths), else the built-in value (cp_species_polarizability).  Raises
+ * a Lua error prefixed with fname that asks for polarizability_au when there is none. */
+double cpl_species_polarizability(lua_State *L, int idx, double wavelength, const char *fname);
+
 #endif

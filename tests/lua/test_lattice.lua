@@ -161,6 +161,23 @@ T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", wavelength =
   { "87Rb", "780.5 nm", "polarizability_au" }, "an untabulated wavelength asks for the value")
 T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", polarizability_au = 700 })) end,
   { "either 'species' or a polarizability" }, "both given")
+-- LAT-L-USER: a user-added molecule named in a beam brings its own polarizability: a lattice
+-- for it is given as power and waist alone.  Closed form (Grimm et al. 2000 [M], the dipole
+-- potential U = alpha I / (2 eps0 c)): peak intensity of one beam I0 = 2P / (pi w^2), the
+-- retro-reflected standing wave has 4 I0 at its antinodes, so V0 = 4 alpha I0 / (2 eps0 c)
+-- with alpha = (900 + 2 * 300) / 3 = 500 a.u. = 500 * 4 pi eps0 a0^3 (the components given).
+cp.species.add_molecule { name = "23Na39K-test", atoms = { "23Na", "39K" }, dipole_debye = 2.7,
+  rot_const_hz = 2.8e9, c6_au = 5e5, pol_1064_par_au = 900, pol_1064_perp_au = 300 }
+local c = cp.consts
+local i0 = 2 * base.power / (pi * base.waist ^ 2)
+local alpha_si = 500 * 4 * pi * c.eps0 * c.a0 ^ 3
+local v0 = 4 * alpha_si * i0 / (2 * c.eps0 * c.c)
+local d_user = cp.lattice.depth(with(base, { species = "23Na39K-test" }))
+T.near(d_user.depth, v0, 1e-12, "user molecule lattice depth = 4 alpha I0 / (2 eps0 c)")
+T.near(d_user.depth_hz, 1.19356658e6 * 0.5, 1e-8, "and half of LAT-L2's 1000 a.u. depth")
+T.raises(function() cp.lattice.depth(with(base, { species = "23Na39K-test", wavelength = 1550 * u.nm })) end,
+  { "lattice.depth", "no polarizability of 23Na39K-test at 1550 nm", "polarizability_au" },
+  "a user molecule without a 1550 nm value: asks for it")
 local d3 = cp.lattice.depth3d { beams = { with(base, { species = "Rb87" }), with(base, { species = "Rb87" }),
   with(base, { species = "Rb87" }) }, mass = cp.species.atom("87Rb").mass }
 T.near(d3.axes[1].depth / cp.consts.h, d_rb.depth_hz, 1e-12, "depth3d beams take a species too")
