@@ -308,8 +308,9 @@ cp_status cp_feshbach_dissociation_energy(const cp_feshbach_resonance *res, doub
     CP_TRY(check_rate(ramp_rate, ctx, err));
     /* Survival of the quasi-bound state above threshold, E(t) = dmu |Bdot| t, decay rate
      * Gamma(E)/hbar with Gamma(E) = 2 k abg dmu Delta (Chin et al. RMP 2010 [M]):
-     * -ln S = (4/3) |abg Delta| sqrt(2 mu) E^(3/2) / (hbar^2 |Bdot|) = (E/eps)^(3/2);
-     * the same rate law as Mukaiyama et al., PRL 92, 180402 (2004) [M]. */
+     * -ln S = (4/3) |abg Delta| sqrt(2 mu) E^(3/2) / (hbar^2 |Bdot|) = (E/eps)^(3/2), this
+     * project's own integration of that width (docs/models/feshbach.md); the same rate law
+     * as Mukaiyama et al., PRL 92, 180402 (2004) [M]. */
     double eps = pow(3.0 * CP_HBAR * CP_HBAR * fabs(ramp_rate) /
                      (4.0 * fabs(res->abg * res->width) * sqrt(2.0 * mu)), 2.0 / 3.0);
     *scale = eps;

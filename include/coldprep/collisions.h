@@ -67,7 +67,9 @@ cp_status cp_collisions_universal_validity(double c6_au, double reduced_mass, do
 /* Threshold (Born) elastic cross section (m^2) of two polarised dipoles with dipole
  * moment d (debye, in (0, 20]), dipole length D = mu d^2 / (4 pi eps0 hbar^2) (m):
  * identical fermions (32 pi/15) D^2, identical bosons (32 pi/45) D^2 (dipolar part only;
- * add 8 pi a^2 for a known s-wave scattering length), distinguishable (64 pi/45) D^2.
+ * add 8 pi a^2 for a known s-wave scattering length), distinguishable (64 pi/45) D^2 (the
+ * first Born approximation, Bohn, Cavagnero & Ticknor, NJP 11, 055039 (2009); the factors
+ * checked by integrating the Born amplitude, docs/models/collisions.md).
  * Valid while the collision energy is far below hbar^2/(mu D^2) (the dipolar energy). */
 cp_status cp_collisions_dipolar_cross_section(double dipole_debye, double reduced_mass,
                                               cp_pair_statistics stat, double *cross_section,

@@ -166,8 +166,9 @@ cp_status cp_feshbach_overlap_density(const cp_feshbach_cloud *a, const cp_feshb
  * of *p_max. */
 typedef struct cp_feshbach_spss {
     double gamma;            /* cell volume / h^3 in relative phase space; default 0.38, the
-                                value fitted by Hodby et al. (recalled [M]), a fit
-                                parameter of this cell (docs/data.md) */
+                                value fitted by Hodby et al. (recalled [M]) kept as this
+                                project's own choice for its own cell: a fit parameter
+                                (docs/data.md, Model constants) */
     unsigned long seed;
     long samples;
     int include_sag;         /* 1: displace the clouds by their gravitational sag */
