@@ -149,7 +149,7 @@ static void test_resonances(void **state)
     const cp_resonance *r;
     cp_error err;
     assert_int_equal(cp_species_resonance("KRb", 0, &r, NULL), CP_OK);
-    assert_rel(r->b0, 546.7e-4, 1e-12); /* Ni et al., Science 322, 231 (2008) [M] */
+    assert_rel(r->b0, 546.7e-4, 1e-12); /* Zirbel et al., PRA 78, 013416 (2008) [M] */
     assert_int_equal(cp_species_resonance("KRb", 7, &r, &err), CP_ENOTFOUND);
     assert_non_null(strstr(err.message, "out of range"));
 }
