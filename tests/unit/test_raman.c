@@ -11,6 +11,7 @@
 #include <setjmp.h>
 #include <stdarg.h>
 #include <stddef.h>
+#include <stdio.h>
 #include <string.h>
 
 #include <cmocka.h>
@@ -250,6 +251,34 @@ static void test_accuracy_selectable(void **state)
         p.gamma = TWO_PI * 1.5e6;
         check_against_reference(&p, "weak decay");
     }
+}
+
+/* RAMAN-1e: a scan of the one-photon detuning from 0 to 2 pi x 1 GHz of both signs (across
+ * the switch between the two integrators, near 2 pi x 110 MHz here), with and without a
+ * two-photon detuning, for Gaussian and sin2 pulses: the populations agree with the
+ * independent integration to the default accuracy 1e-8; a subset at accuracy 1e-6 agrees to
+ * 1e-6. */
+static void test_detuning_scan(void **state)
+{
+    (void)state;
+    const double mhz[] = {0, 3, -3, 10, -20, 50, -100, 150, -200, 500, -1000, 1000};
+    const double khz[] = {0, 50};
+    char what[96];
+    for (int shape = 0; shape < 2; shape++)
+        for (size_t i = 0; i < sizeof mhz / sizeof mhz[0]; i++)
+            for (int k = 0; k < 2; k++) {
+                cp_raman_params p = reference_case();
+                p.shape = shape ? CP_RAMAN_SIN2 : CP_RAMAN_GAUSSIAN;
+                p.detuning = TWO_PI * mhz[i] * 1e6;
+                p.two_photon_detuning = TWO_PI * khz[k] * 1e3;
+                snprintf(what, sizeof what, "%s, Delta = 2 pi x %g MHz, delta = 2 pi x %g kHz",
+                         shape ? "sin2" : "gaussian", mhz[i], khz[k]);
+                check_against_reference(&p, what);
+                if (k == 1 && (i % 3) == 0) {
+                    p.accuracy = 1e-6;
+                    check_against_reference(&p, what);
+                }
+            }
 }
 
 /* RAMAN-1d: the closed-form estimates are computed only when asked for (NaN otherwise), and
@@ -806,7 +835,8 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_against_reference), cmocka_unit_test(test_far_detuned),
-        cmocka_unit_test(test_accuracy_selectable), cmocka_unit_test(test_estimates_on_request),
+        cmocka_unit_test(test_accuracy_selectable), cmocka_unit_test(test_detuning_scan),
+        cmocka_unit_test(test_estimates_on_request),
         cmocka_unit_test(test_area_theorem),
         cmocka_unit_test(test_adiabatic_limit),   cmocka_unit_test(test_two_state_equivalent),
         cmocka_unit_test(test_nonadiabatic_ddp),   cmocka_unit_test(test_decay_loss),
