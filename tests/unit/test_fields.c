@@ -40,8 +40,9 @@ static void assert_rel(double got, double want, double tol)
         fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
 }
 
-/* 40K87Rb: d = 0.574 D (Ni et al., Science 322, 231 (2008)), B/h = 1.1139 GHz (Ospelkaus
- * et al., PRL 104, 030402 (2010)), the values of the species table [M]. */
+/* 40K87Rb: d = 0.574 D, the dipole that goes with the quoted shielding field F_s = 12.5 kV/cm
+ * (the species table holds the measured 0.566(17) D of Ni et al., Science 322, 231 (2008));
+ * B/h = 1.1139 GHz (Ospelkaus et al., PRL 104, 030402 (2010)) [M]. */
 static const cp_fields_rotor KRB = {0.574 * CP_DEBYE, 1.1139e9};
 
 /* Reference: the `levels` lowest eigenvalues (ascending) and <cos theta> of J(J+1) -
