@@ -1,7 +1,7 @@
 /*
  * luaopen_coldprep: assembles the `coldprep` Lua module.  It opens every C binding
  * (lua/bind/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
- * module table, makes the embedded Lua-side library requirable ("coldprep.plan", ...; a
+ * module table (and the array type cp.reals, reals.h), makes the embedded Lua-side library requirable ("coldprep.plan", ...; a
  * loader already in package.preload is kept, so a developer or a test can run modules from
  * their source files),
  * publishes the table as package.loaded.coldprep so those modules can require it while
@@ -14,6 +14,7 @@
 #include "embedded_lua.h"
 #include "fileio.h"
 #include "help.h"
+#include "reals.h"
 
 #define CPL_BINDING(name) int cpl_open_##name(lua_State *L);
 #include "bindings_list.h"
@@ -59,6 +60,8 @@ int luaopen_coldprep(lua_State *L)
     lua_setfield(L, -2, #name);
 #include "bindings_list.h"
 #undef CPL_BINDING
+    cpl_open_reals(L);
+    lua_setfield(L, -2, "reals");
     lua_pushstring(L, cp_version());
     lua_setfield(L, -2, "version");
     lua_pushcfunction(L, l_set_help);
