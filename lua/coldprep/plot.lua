@@ -1,11 +1,11 @@
--- coldprep.plot: ready-made figures on plot.render (lua/bind/bind_plot.c, PLplot): a sweep's
+-- coldprep.plot: ready-made figures on plot.render (lua/bind/plot_module.c, PLplot): a sweep's
 -- curve(s) or 2D map from its rows or its CSV/JSON Lines file, a budget's waterfall of
 -- molecule number and T/T_F through the stages, a Raman time trace and a band structure.
 -- The output format follows the file name: .png, .svg or .pdf.
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
 
-local P = cp.plot -- the C binding: P.render
+local P = require "coldprep.render" -- the C binding, P.render: the plot module, opened now
 
 -- Draw a figure with P.render; its argument errors are reported as fname's, without
 -- the position inside this file (the caller's argument is what was wrong).
