@@ -75,7 +75,7 @@ static int not_finite(lua_State *L, const char *ctx, lua_Integer i, double x)
 /* r[k]: the value at integer k in 1..#r, nil at other integers, a method at a name. */
 static int m_index(lua_State *L)
 {
-    reals *r = lua_touserdata(L, 1);
+    reals *r = check_reals(L, 1); /* checked: debug.getmetatable reaches these functions */
     int isint = 0;
     lua_Integer k = lua_tointegerx(L, 2, &isint);
     if (isint && lua_type(L, 2) == LUA_TNUMBER) {
@@ -92,7 +92,7 @@ static int m_index(lua_State *L)
 
 static int m_newindex(lua_State *L)
 {
-    reals *r = lua_touserdata(L, 1);
+    reals *r = check_reals(L, 1);
     int isint = 0;
     lua_Integer k = lua_tointegerx(L, 2, &isint);
     if (!isint || lua_type(L, 2) != LUA_TNUMBER)
@@ -113,7 +113,7 @@ static int m_newindex(lua_State *L)
 
 static int m_len(lua_State *L)
 {
-    lua_pushinteger(L, (lua_Integer)((reals *)lua_touserdata(L, 1))->n);
+    lua_pushinteger(L, (lua_Integer)check_reals(L, 1)->n);
     return 1;
 }
 

@@ -86,6 +86,11 @@ T.raises(function() R.geometric { from = 0, to = 1, count = 3 } end,
 T.raises(function() R.geometric { from = -1, to = 1, count = 3 } end,
   { "reals.geometric: to 1 is out of range; allowed negative values (the sign of from -1)" },
   "geometric across zero")
+local mt = debug.getmetatable(r)
+T.raises(function() mt.__index(io.stdout, 1) end, { "coldprep.reals expected, got FILE*" },
+  "the metamethods, reached through debug, refuse other userdata")
+T.raises(function() mt.__newindex({}, 1, 1) end, { "coldprep.reals expected, got table" },
+  "and tables")
 T.raises(function() R.filled { count = -1 } end, { "count -1 is out of range; allowed [0," },
   "filled count >= 0")
 
