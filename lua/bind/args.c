@@ -5,6 +5,7 @@
 #include "args.h"
 #include "coldprep/limits.h"
 #include "coldprep/names.h"
+#include "reals.h"
 
 #include <math.h>
 #include <stdarg.h>
@@ -258,21 +259,31 @@ int cpl_option(lua_State *L, int arg, const char *fname, const char *key,
                      lua_tostring(L, -1));
 }
 
-double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *key,
-                         const char *unit, size_t min_len, size_t *n)
+const double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *key,
+                               const char *unit, size_t min_len, size_t *n)
 {
     arg = lua_absindex(L, arg);
-    if (lua_getfield(L, arg, key) != LUA_TTABLE)
-        cpl_error(L, fname, "argument '%s' must be an array of numbers (%s), got %s", key,
-                  (unit && unit[0]) ? unit : "dimensionless", luaL_typename(L, -1));
-    lua_Integer len = luaL_len(L, -1);
-    if (len < (lua_Integer)min_len)
+    const char *u = (unit && unit[0]) ? unit : "dimensionless";
+    int t = lua_getfield(L, arg, key);
+    size_t len;
+    const double *r = cpl_to_reals(L, -1, &len);
+    if (r) { /* finite by construction: used in place, the reals stays on the stack */
+        if (len < min_len)
+            cpl_error(L, fname, "argument '%s' has %zu values; at least %zu are needed", key,
+                      len, min_len);
+        *n = len;
+        return r;
+    }
+    if (t != LUA_TTABLE)
+        cpl_error(L, fname, "argument '%s' must be an array of numbers (%s), a table or a "
+                  "reals, got %s", key, u, luaL_typename(L, -1));
+    lua_Integer tlen = luaL_len(L, -1);
+    if (tlen < (lua_Integer)min_len)
         cpl_error(L, fname, "argument '%s' has %lld values; at least %zu are needed", key,
-                  (long long)len, min_len);
-    double *v = lua_newuserdatauv(L, (size_t)(len > 0 ? len : 1) * sizeof *v, 0);
-    for (lua_Integer i = 1; i <= len; i++) {
+                  (long long)tlen, min_len);
+    double *v = lua_newuserdatauv(L, (size_t)(tlen > 0 ? tlen : 1) * sizeof *v, 0);
+    for (lua_Integer i = 1; i <= tlen; i++) {
         lua_geti(L, -2, i);
-        const char *u = (unit && unit[0]) ? unit : "dimensionless";
         if (lua_type(L, -1) != LUA_TNUMBER)
             cpl_error(L, fname, "argument '%s'[%lld] must be a number (%s), got %s", key,
                       (long long)i, u, luaL_typename(L, -1));
@@ -284,8 +295,17 @@ double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *k
         lua_pop(L, 1);
     }
     lua_remove(L, -2); /* the source table; the userdata stays on top */
-    *n = (size_t)len;
+    *n = (size_t)tlen;
     return v;
+}
+
+int cpl_is_reals_field(lua_State *L, int arg, const char *key)
+{
+    size_t n;
+    lua_getfield(L, arg, key);
+    int is = cpl_to_reals(L, -1, &n) != NULL;
+    lua_pop(L, 1);
+    return is;
 }
 
 /* The range the core models accept for trap frequencies (coldprep/limits.h), checked here

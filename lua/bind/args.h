@@ -53,10 +53,15 @@ const char *cpl_opt_string(lua_State *L, int arg, const char *fname, const char 
 int cpl_option(lua_State *L, int arg, const char *fname, const char *key,
                const char *const options[], const char *dflt);
 
-/* An array of finite numbers under `key` (a Lua sequence).  The values live in a userdata
- * left on top of the stack; *n receives the length (required: at least min_len). */
-double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *key,
-                         const char *unit, size_t min_len, size_t *n);
+/* An array of finite numbers under `key`: a Lua sequence or a reals (reals.h).  The values
+ * live in a userdata left on top of the stack (the reals itself, used in place, or a copy of
+ * the sequence), read-only; *n receives the length (required: at least min_len). */
+const double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *key,
+                               const char *unit, size_t min_len, size_t *n);
+
+/* 1 if argument `key` of the table at arg is a reals: a batch function then returns its
+ * arrays as reals too (cpl_push_numbers, cpl_new_reals), else as Lua tables. */
+int cpl_is_reals_field(lua_State *L, int arg, const char *key);
 
 /* Harmonic trap frequencies (rad/s) from argument `arg`: either bar_key (the geometric mean,
  * used on all three axes) or all three of axes[0..2]; giving both, or only some axes, is

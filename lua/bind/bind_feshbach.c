@@ -19,6 +19,7 @@
 #include "coldprep/thermo.h"
 #include "help.h"
 #include "memo.h"
+#include "reals.h"
 #include "species_lookup.h"
 
 int cpl_open_feshbach(lua_State *L);
@@ -240,13 +241,18 @@ static int l_ramp_law(lua_State *L)
         return cpl_raise(L, &err);
     if (alpha == 0.0 && cp_feshbach_alpha(mu, &alpha, &err))
         return cpl_raise(L, &err);
-    double *rates = cpl_number_array(L, 1, fname, "ramp_rates", "T/s", 1, &n);
-    double *out = lua_newuserdatauv(L, n * sizeof *out, 0);
+    const double *rates = cpl_number_array(L, 1, fname, "ramp_rates", "T/s", 1, &n);
+    /* given a reals, the kernel writes into the reals returned; else into scratch space */
+    int as_reals = cpl_is_reals_field(L, 1, "ramp_rates");
+    double *out = as_reals ? cpl_new_reals(L, n) : lua_newuserdatauv(L, n * sizeof *out, 0);
     if (cp_feshbach_ramp_law(alpha * density * fabs(r.abg * r.width), pmax, rates, out, n,
                              &err))
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 1);
-    cpl_push_array(L, out, n);
+    if (as_reals)
+        lua_pushvalue(L, -2);
+    else
+        cpl_push_array(L, out, n);
     lua_setfield(L, -2, "efficiency");
     return 1;
 }
@@ -494,6 +500,7 @@ static const cpl_function functions[] = {
      "feshbach.ramp_law{resonance, molecule, density (m^-3), ramp_rates = {T/s, ...}\n"
      "                  [, max_efficiency = 1, alpha]} -> {efficiency = {...}}\n"
      "The ramp-rate law of associate over an array of ramp rates (one C batch call).\n"
+     "ramp_rates may be a cp.reals; efficiency is then a reals too.\n"
      "Example: cp.feshbach.ramp_law{resonance = 'KRb', molecule = 'KRb', density = 1e18,\n"
      "  ramp_rates = {1e-1, 1, 10}}.efficiency[2]"},
     {"associate_site", l_associate_site,

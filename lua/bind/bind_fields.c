@@ -16,6 +16,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/fields.h"
 #include "help.h"
+#include "reals.h"
 #include "species_lookup.h"
 
 int cpl_open_fields(lua_State *L);
@@ -96,14 +97,17 @@ static int l_stark(lua_State *L)
     int block = has_levels ? levels : j - am + 1;
     int t = lua_getfield(L, 1, "field");
     lua_pop(L, 1);
-    int is_map = t == LUA_TTABLE;
+    /* a reals of fields gives reals back: over the fields, or over the levels with `levels` */
+    int as_reals = cpl_is_reals_field(L, 1, "field");
+    int is_map = t == LUA_TTABLE || as_reals;
     size_t nf = 1;
-    double *fields;
+    const double *fields;
     if (is_map) {
         fields = cpl_number_array(L, 1, fname, "field", "V/m", 1, &nf);
     } else {
-        fields = scratch(L, 1);
-        fields[0] = cpl_number(L, 1, fname, "field", "V/m");
+        double *one = scratch(L, 1);
+        one[0] = cpl_number(L, 1, fname, "field", "V/m");
+        fields = one;
     }
     if (nf * (size_t)block > MAX_MAP_VALUES)
         cpl_error(L, fname, "%zu fields x %d levels is too many; allowed at most %d values", nf,
@@ -122,11 +126,22 @@ static int l_stark(lua_State *L)
     const double *src[] = {e, d};
     const double scale[] = {1.0, 1.0 / CP_DEBYE};
     for (int q = 0; q < 2; q++) {
+        if (as_reals && !has_levels) {
+            double *out = cpl_new_reals(L, nf);
+            for (size_t i = 0; i < nf; i++)
+                out[i] = src[q][i * (size_t)block + (size_t)block - 1] * scale[q];
+            lua_setfield(L, -2, keys[q]);
+            continue;
+        }
         if (is_map)
             lua_createtable(L, (int)nf, 0);
         for (size_t i = 0; i < nf; i++) {
             const double *row = src[q] + i * (size_t)block;
-            if (has_levels) {
+            if (has_levels && as_reals) {
+                double *out = cpl_new_reals(L, (size_t)block);
+                for (int k = 0; k < block; k++)
+                    out[k] = row[k] * scale[q];
+            } else if (has_levels) {
                 lua_createtable(L, block, 0);
                 for (int k = 0; k < block; k++) {
                     lua_pushnumber(L, row[k] * scale[q]);
@@ -140,7 +155,14 @@ static int l_stark(lua_State *L)
         }
         lua_setfield(L, -2, keys[q]);
     }
-    if (is_map) {
+    if (as_reals) {
+        double *x = cpl_new_reals(L, nf);
+        for (size_t i = 0; i < nf; i++)
+            x[i] = rot.dipole * fields[i] / b_joule;
+        lua_setfield(L, -2, "reduced_field");
+        cpl_push_reals(L, fields, nf);
+        lua_setfield(L, -2, "field");
+    } else if (is_map) {
         lua_createtable(L, (int)nf, 0);
         for (size_t i = 0; i < nf; i++) {
             lua_pushnumber(L, rot.dipole * fields[i] / b_joule);
@@ -252,7 +274,8 @@ static const cpl_function functions[] = {
      "(-dE/dF = d <cos theta>, D; from the eigenvector), reduced_field (d F / B), field,\n"
      "j, m, basis_size}.  With `levels` = n (instead of j) energy_hz and\n"
      "induced_dipole_debye are tables over J = |m| .. |m| + n - 1; with an array of fields\n"
-     "energy_hz, induced_dipole_debye, reduced_field and field are arrays over the fields.\n"
+     "energy_hz, induced_dipole_debye, reduced_field and field are arrays over the fields\n"
+     "(field a cp.reals: reals over the fields; with levels, a table of reals over levels).\n"
      "Example: cp.fields.stark{molecule = 'KRb', field = 12*cp.units.kV_per_cm}\n"
      "  cp.fields.stark{molecule = 'KRb', field = {0, 5e5, 1e6}, levels = 3}"},
     {"shielding_field", l_shielding_field,

@@ -14,6 +14,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
 #include "help.h"
+#include "reals.h"
 #include "species_lookup.h"
 
 int cpl_open_lattice(lua_State *L);
@@ -222,16 +223,19 @@ static int l_bands(lua_State *L)
     int nb = (int)cpl_opt_integer(L, 1, fname, "bands", 1, 1, CP_LATTICE_MAX_BANDS);
     int basis = (int)cpl_opt_integer(L, 1, fname, "basis", 0, 0, CP_LATTICE_MAX_BASIS);
     size_t nq;
-    double *q;
+    const double *q;
+    /* a reals of quasimomenta gives reals back (energies_er: a table of reals over bands) */
+    int as_reals = cpl_is_reals_field(L, 1, "quasimomenta");
     if (cpl_has(L, 1, "quasimomenta")) {
         if (cpl_has(L, 1, "points"))
             return cpl_error(L, fname, "give either 'quasimomenta' or 'points', not both");
         q = cpl_number_array(L, 1, fname, "quasimomenta", "k", 1, &nq);
     } else {
         nq = (size_t)cpl_opt_integer(L, 1, fname, "points", 51, 1, 1000000);
-        q = scratch(L, nq);
+        double *grid = scratch(L, nq);
         for (size_t i = 0; i < nq; i++)
-            q[i] = nq == 1 ? 0.0 : -1.0 + 2.0 * (double)i / (double)(nq - 1);
+            grid[i] = nq == 1 ? 0.0 : -1.0 + 2.0 * (double)i / (double)(nq - 1);
+        q = grid;
     }
     if (nq * (size_t)nb > MAX_ENERGIES)
         return cpl_error(L, fname, "%zu quasimomenta x %d bands is too many; allowed at most "
@@ -266,11 +270,11 @@ static int l_bands(lua_State *L)
     lua_setfield(L, -2, "edges_er");
     lua_createtable(L, (int)nq, 0);
     for (size_t i = 0; i < nq; i++) {
-        cpl_push_array(L, e + i * (size_t)nb, (size_t)nb);
+        cpl_push_numbers(L, e + i * (size_t)nb, (size_t)nb, as_reals);
         lua_rawseti(L, -2, (lua_Integer)i + 1);
     }
     lua_setfield(L, -2, "energies_er");
-    cpl_push_array(L, q, nq);
+    cpl_push_numbers(L, q, nq, as_reals);
     lua_setfield(L, -2, "quasimomenta");
     cpl_set_integer(L, "basis_size", used);
     return 1;

@@ -11,6 +11,7 @@
 #include "args.h"
 #include "coldprep/raman.h"
 #include "help.h"
+#include "reals.h"
 
 int cpl_open_raman(lua_State *L);
 
@@ -161,7 +162,9 @@ static int l_lineshape(lua_State *L)
         cpl_error(L, fname, "argument '%s' is the scanned variable; give 'values' or "
                   "'from'/'to'/'points' instead", key);
     size_t n;
-    double *values;
+    const double *values;
+    /* a reals of values gives reals back, the kernel writing into them */
+    int as_reals = cpl_is_reals_field(L, 1, "values");
     if (cpl_has(L, 1, "values")) {
         if (cpl_has(L, 1, "from") || cpl_has(L, 1, "to") || cpl_has(L, 1, "points"))
             cpl_error(L, fname, "give either 'values' or 'from'/'to'/'points', not both");
@@ -170,11 +173,14 @@ static int l_lineshape(lua_State *L)
         double from = cpl_number(L, 1, fname, "from", "rad/s");
         double to = cpl_number(L, 1, fname, "to", "rad/s");
         n = (size_t)cpl_opt_integer(L, 1, fname, "points", 101, 1, 1000000);
-        values = new_array(L, n);
+        double *grid = new_array(L, n);
         for (size_t i = 0; i < n; i++)
-            values[i] = n == 1 ? from : from + (to - from) * (double)i / (double)(n - 1);
+            grid[i] = n == 1 ? from : from + (to - from) * (double)i / (double)(n - 1);
+        values = grid;
     }
-    double *eff = new_array(L, n), *lost = new_array(L, n);
+    int top = lua_gettop(L);
+    double *eff = as_reals ? cpl_new_reals(L, n) : new_array(L, n);
+    double *lost = as_reals ? cpl_new_reals(L, n) : new_array(L, n);
     cp_error err;
     if (cp_raman_scan_cancellable(&p, (cp_raman_scan_variable)var, values, n, threads, eff,
                                   lost, cpl_cancel_flag(L), &err) !=
@@ -182,12 +188,19 @@ static int l_lineshape(lua_State *L)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 4);
     cpl_set_string(L, "scan", key);
-    cpl_push_array(L, values, n);
+    cpl_push_numbers(L, values, n, as_reals);
     lua_setfield(L, -2, "values");
-    cpl_push_array(L, eff, n);
-    lua_setfield(L, -2, "efficiency");
-    cpl_push_array(L, lost, n);
-    lua_setfield(L, -2, "lost");
+    if (as_reals) {
+        lua_pushvalue(L, top + 1);
+        lua_setfield(L, -2, "efficiency");
+        lua_pushvalue(L, top + 2);
+        lua_setfield(L, -2, "lost");
+    } else {
+        cpl_push_array(L, eff, n);
+        lua_setfield(L, -2, "efficiency");
+        cpl_push_array(L, lost, n);
+        lua_setfield(L, -2, "lost");
+    }
     return 1;
 }
 

@@ -254,17 +254,17 @@ static int read_lattice_spec(lua_State *L, const char *fname, cp_thermo_lattice_
 {
     static const char *const axes[3] = {"envelope_omega_x", "envelope_omega_y",
                                         "envelope_omega_z"};
-    if (lua_getfield(L, 1, "depth_er") == LUA_TTABLE) {
-        lua_pop(L, 1);
+    int t = lua_getfield(L, 1, "depth_er");
+    lua_pop(L, 1);
+    if (t == LUA_TTABLE || cpl_is_reals_field(L, 1, "depth_er")) {
         size_t n;
-        double *d = cpl_number_array(L, 1, fname, "depth_er", "E_r", 3, &n);
+        const double *d = cpl_number_array(L, 1, fname, "depth_er", "E_r", 3, &n);
         if (n != 3)
             cpl_error(L, fname, "argument 'depth_er' must be one number or 3 numbers (E_r), "
                                 "got %zu", n);
         memcpy(spec->depth_er, d, sizeof spec->depth_er);
         lua_pop(L, 1);
     } else {
-        lua_pop(L, 1);
         spec->depth_er[0] = spec->depth_er[1] = spec->depth_er[2] =
             cpl_number(L, 1, fname, "depth_er", "E_r");
     }

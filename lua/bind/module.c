@@ -1,7 +1,7 @@
 /*
  * luaopen_coldprep: assembles the `coldprep` Lua module.  It opens every C binding
  * (lua/bind/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
- * module table, makes the embedded Lua-side library requirable ("coldprep.plan", ...; a
+ * module table (and the array type cp.reals, reals.h), makes the embedded Lua-side library requirable ("coldprep.plan", ...; a
  * loader already in package.preload is kept, so a developer or a test can run modules from
  * their source files),
  * publishes the table as package.loaded.coldprep so those modules can require it while
@@ -14,6 +14,10 @@
 #include "embedded_lua.h"
 #include "fileio.h"
 #include "help.h"
+#include "modpath.h"
+#include "reals.h"
+
+#include <string.h>
 
 #define CPL_BINDING(name) int cpl_open_##name(lua_State *L);
 #include "bindings_list.h"
@@ -31,6 +35,25 @@ static int load_embedded(lua_State *L)
         return lua_error(L);
     lua_pushstring(L, c->module);
     lua_call(L, 1, 1);
+    return 1;
+}
+
+/* package.preload loader of "coldprep.render", the C side of cp.plot: the plot module
+ * (plot_module.c with PLplot), opened on first use.  It lies beside the Lua C module, in
+ * the build tree's luamod/ beside the executable, or (installed) in the Lua C module
+ * directory, CPL_BIN_TO_LUA_CMOD from the executable's. */
+static int load_plot(lua_State *L)
+{
+    static const char *const dirs[] = {".", "luamod", CPL_BIN_TO_LUA_CMOD, NULL};
+    char err[1536];
+    void *p = cpl_module_function(dirs, "coldprep_plot.so", "luaopen_coldprep_plot", err,
+                                  sizeof err);
+    if (!p)
+        return luaL_error(L, "plot: %s", err);
+    lua_CFunction open;
+    memcpy(&open, &p, sizeof open); /* POSIX: dlsym's pointer is the function's */
+    lua_pushcfunction(L, open);
+    lua_call(L, 0, 1);
     return 1;
 }
 
@@ -59,6 +82,8 @@ int luaopen_coldprep(lua_State *L)
     lua_setfield(L, -2, #name);
 #include "bindings_list.h"
 #undef CPL_BINDING
+    cpl_open_reals(L);
+    lua_setfield(L, -2, "reals");
     lua_pushstring(L, cp_version());
     lua_setfield(L, -2, "version");
     lua_pushcfunction(L, l_set_help);
@@ -77,6 +102,8 @@ int luaopen_coldprep(lua_State *L)
     }
     lua_pushcfunction(L, cpl_open_files);
     lua_setfield(L, -2, "coldprep.files");
+    lua_pushcfunction(L, load_plot);
+    lua_setfield(L, -2, "coldprep.render");
     lua_pop(L, 1);
 
     luaL_getsubtable(L, LUA_REGISTRYINDEX, LUA_LOADED_TABLE);

@@ -33,7 +33,8 @@ int cpl_pcall(lua_State *L, int nargs, int nresults);
  * progname is NULL) and pop it. */
 void cpl_report(lua_State *L, const char *progname);
 
-/* Run the interactive loop on stdin until end of input.  On a terminal: readline with
+/* Run the interactive loop on stdin until end of input (lua/cli/repl.c, in the module
+ * coldprep_repl.so that main.c opens for a session).  On a terminal: readline with
  * persistent history and Tab completion, Ctrl-C clears the line.  Otherwise lines are read
  * plainly, no prompt is shown.  Returns CPL_EXIT_OK, or CPL_EXIT_ERROR when input was not
  * a terminal and some entry failed. */

@@ -37,7 +37,7 @@ static int resolve(lua_State *L)
                               lua_tostring(L, -1));
         }
         lua_pushlstring(L, path + at, len);
-        if (lua_rawget(L, 1) == LUA_TNIL)
+        if (lua_gettable(L, 1) == LUA_TNIL) /* not raw: modules loaded on first use */
             return luaL_error(L, "no such name: %s (help lists the library)", path);
         lua_replace(L, 1);
         if (path[at + len] == '\0')

@@ -11,6 +11,19 @@
 #include "cli.h"
 #include "cli_sweep.h"
 #include "coldprep/status.h"
+#include "modpath.h"
+
+#if defined(__SANITIZE_ADDRESS__)
+/* Under AddressSanitizer: PLplot (the plot module) loads its drivers with libltdl and the
+ * Cairo drivers fill fontconfig's caches; both keep that memory until exit by design.  This
+ * is the sanitizer's documented hook for suppressing such third-party leaks; it must be in
+ * the executable. */
+const char *__lsan_default_suppressions(void);
+const char *__lsan_default_suppressions(void)
+{
+    return "leak:libfontconfig.so\nleak:libltdl.so\n";
+}
+#endif
 
 /* Subcommands: add a line per command (its function is declared in cli.h or, for sweep
  * and merge, cli_sweep.h). */
@@ -125,6 +138,23 @@ static int run_script(lua_State *L, int argc, char **argv, int script, int sandb
     return CPL_EXIT_OK;
 }
 
+/* The interactive session is coldprep_repl.so (lua/cli/repl*.c, with readline), opened
+ * only when a session starts (modpath.h): beside the executable in the build tree, in
+ * CPL_BIN_TO_PRIVATE_LIB from it when installed. */
+static int run_session(lua_State *L)
+{
+    static const char *const dirs[] = {".", CPL_BIN_TO_PRIVATE_LIB, NULL};
+    char err[1536];
+    void *p = cpl_module_function(dirs, "coldprep_repl.so", "cpl_repl", err, sizeof err);
+    if (!p) {
+        fprintf(stderr, "coldprep: the interactive session: %s\n", err);
+        return CPL_EXIT_ERROR;
+    }
+    int (*repl)(lua_State *);
+    memcpy(&repl, &p, sizeof repl); /* POSIX: dlsym's pointer is the function's */
+    return repl(L);
+}
+
 int main(int argc, char **argv)
 {
     if (argc > 1) {
@@ -208,7 +238,7 @@ int main(int argc, char **argv)
     if (rc == CPL_EXIT_OK && script)
         rc = run_script(L, argc, argv, script, sb.on);
     if (rc == CPL_EXIT_OK && (interactive || (!script && !have_code)))
-        rc = cpl_repl(L);
+        rc = run_session(L);
     lua_close(L);
     return rc;
 }

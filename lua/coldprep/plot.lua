@@ -1,11 +1,11 @@
--- coldprep.plot: ready-made figures on plot.render (lua/bind/bind_plot.c, PLplot): a sweep's
+-- coldprep.plot: ready-made figures on plot.render (lua/bind/plot_module.c, PLplot): a sweep's
 -- curve(s) or 2D map from its rows or its CSV/JSON Lines file, a budget's waterfall of
 -- molecule number and T/T_F through the stages, a Raman time trace and a band structure.
 -- The output format follows the file name: .png, .svg or .pdf.
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
 
-local P = cp.plot -- the C binding: P.render
+local P = require "coldprep.render" -- the C binding, P.render: the plot module, opened now
 
 -- Draw a figure with P.render; its argument errors are reported as fname's, without
 -- the position inside this file (the caller's argument is what was wrong).
@@ -304,24 +304,28 @@ Example: local a = {rabi_pump = 2*math.pi*5e6, rabi_stokes = 2*math.pi*5e6, widt
            width = a.width, delay = a.delay, gamma = 2*math.pi*6e6, trace = 400}
          cp.plot.raman{trace = r.trace, pulses = a, out = "stirap.png"}]])
 
+-- A list of numbers: a table or a cp.reals (what cp.lattice.bands returns for either).
+local function is_list(v) return type(v) == "table" or cp.reals.is(v) end
+
 local function bands(args)
   local fname = "plot.bands"
   A.table(fname, args, { "quasimomenta", "energies_er", "out", "title", "depth_er" })
   local out = A.typed(fname, args, "out", "string")
-  local q = A.typed(fname, args, "quasimomenta", "table")
+  local q = is_list(args.quasimomenta) and args.quasimomenta
+    or A.typed(fname, args, "quasimomenta", "table")
   local e = A.typed(fname, args, "energies_er", "table")
   if #q < 2 or #e ~= #q then
     A.fail(fname, "energies_er must hold one list of band energies per quasimomentum (%d), got %d",
       #q, #e)
   end
-  local nb = type(e[1]) == "table" and #e[1] or 0
+  local nb = is_list(e[1]) and #e[1] or 0
   if nb == 0 then A.fail(fname, "energies_er[1] must list the band energies (E_R)") end
   if nb > 16 then A.fail(fname, "at most 16 bands") end
   local lines = {}
   for b = 1, nb do lines[b] = { x = {}, y = {}, label = "band " .. b } end
   for i = 1, #q do
     if not A.is_finite(q[i]) then A.fail(fname, "quasimomenta[%d] is not a finite number", i) end
-    if type(e[i]) ~= "table" or #e[i] ~= nb then
+    if not is_list(e[i]) or #e[i] ~= nb then
       A.fail(fname, "energies_er[%d] must list %d band energies", i, nb)
     end
     for b = 1, nb do

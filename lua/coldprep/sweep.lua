@@ -34,8 +34,8 @@ local function parse_parameter(fname, spec, where)
       A.fail(fname, "%s: give either values = {...} or from/to/points, not both", label)
     end
     local vals = spec.values
-    if type(vals) ~= "table" or #vals == 0 then
-      A.fail(fname, "%s: values must be a non-empty list", label)
+    if not (type(vals) == "table" or cp.reals.is(vals)) or #vals == 0 then
+      A.fail(fname, "%s: values must be a non-empty list or cp.reals", label)
     end
     for i, v in ipairs(vals) do
       local t = type(v)

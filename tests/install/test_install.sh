@@ -57,15 +57,25 @@ cmake -S "$tmp/cm" -B "$tmp/cm/build" -DCMAKE_PREFIX_PATH="$prefix" >/dev/null
 cmake --build "$tmp/cm/build" >/dev/null
 "$tmp/cm/build/consumer" >/dev/null
 
-# 3. the installed executable and the Lua C module from a stock lua5.4
+# 3. the installed executable and the Lua C module from a stock lua5.4; the modules they
+# open on first use (the plot module, the interactive session) are found where installed
 "$prefix/bin/coldprep" -e 'assert(cp.species.atom("87Rb").statistics == "boson")'
+ls "$libdir"/lua/5.4/coldprep_plot.so "$libdir"/coldprep/coldprep_repl.so >/dev/null
+"$prefix/bin/coldprep" -e "cp.plot.bands{quasimomenta = {-1, 0, 1},
+  energies_er = {{1, 1}, {0, 4}, {1, 1}}, out = '$tmp/exe.svg'}"
+grep -q '<svg' "$tmp/exe.svg"
+out=$(echo 'print(6 * 7)' | "$prefix/bin/coldprep")
+[ "$out" = 42 ] || { echo "the installed session printed: $out"; exit 1; }
 # The search templates of a stock interpreter's default paths (lua5.4 -e 'print(package.path)'),
 # rooted at the prefix: '?/init.lua' included, where a Lua file named coldprep/init.lua once
 # shadowed the C module and recursed until the C stack overflowed.
-LUA_CPATH="$libdir/lua/5.4/?.so" \
+PLOT_OUT=$tmp/mod.svg LUA_CPATH="$libdir/lua/5.4/?.so" \
   LUA_PATH="$prefix/share/lua/5.4/?.lua;$prefix/share/lua/5.4/?/init.lua;./?.lua;./?/init.lua" \
   lua5.4 -e 'local cp = require "coldprep"
              assert(cp.species.molecule("KRb").statistics == "fermion")
              assert(type(cp.version) == "string")
+             cp.plot.bands{quasimomenta = {-1, 0, 1}, energies_er = {{1, 1}, {0, 4}, {1, 1}},
+                           out = os.getenv("PLOT_OUT")}
              print("lua5.4 module ok", cp.version)' >/dev/null
+grep -q '<svg' "$tmp/mod.svg"
 echo "install test passed"

@@ -18,7 +18,7 @@ local function run(example)
   return pcall(chunk)
 end
 
-for _, module in ipairs { "feshbach", "raman", "lattice", "thermo", "collisions", "fields" } do
+for _, module in ipairs { "feshbach", "raman", "lattice", "thermo", "collisions", "fields", "reals" } do
   local names = {}
   for name, fn in pairs(cp[module]) do
     if type(fn) == "function" then names[#names + 1] = name end

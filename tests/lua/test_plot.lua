@@ -99,6 +99,10 @@ for i = 0, 20 do q[#q + 1] = -1 + i / 10 end
 local lb = cp.lattice.bands{depth_er = 5, bands = 3, quasimomenta = q}
 cp.plot.bands{quasimomenta = q, energies_er = lb.energies_er, depth_er = 5, out = dir .. "/lb.pdf"}
 check("bands from cp.lattice.bands", (slurp(dir .. "/lb.pdf") or ""):sub(1, 5) == "%PDF-")
+local qr = cp.reals.linear{from = -1, to = 1, count = 21}
+local lr = cp.lattice.bands{depth_er = 5, bands = 3, quasimomenta = qr}
+cp.plot.bands{quasimomenta = qr, energies_er = lr.energies_er, depth_er = 5, out = dir .. "/lr.svg"}
+check("bands from cp.lattice.bands over a cp.reals", (slurp(dir .. "/lr.svg") or ""):find("<svg", 1, true) ~= nil)
 
 -- Bad input.
 raises("a figure's argument error names the figure", "plot.sweep: 'xlog' must be true or false", cp.plot.sweep,

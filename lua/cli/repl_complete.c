@@ -13,7 +13,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "cli_int.h"
+#include "repl_int.h"
 
 enum { MAX_INDEX_HOPS = 16 }; /* bounds a chain (or loop) of __index tables */
 

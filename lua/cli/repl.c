@@ -1,5 +1,7 @@
 /*
- * The interactive session.  An entry is first compiled as an expression ("return " ..
+ * The interactive session, built with repl_complete.c and repl_history.c into the module
+ * coldprep_repl.so, which main.c opens when a session starts, so that other runs of the
+ * program never open readline (its functions call back into the program).  An entry is first compiled as an expression ("return " ..
  * entry) and, if that fails, as a statement; when either reading fails only because the
  * input ended too early, the entry is incomplete and the next line continues it under the
  * secondary prompt.
@@ -27,7 +29,7 @@
 #include <unistd.h>
 
 #include "cli.h"
-#include "cli_int.h"
+#include "repl_int.h"
 #include "coldprep/status.h"
 
 static const char PROMPT[] = "coldprep> ";

@@ -1,9 +1,9 @@
 /*
- * Pieces of the interactive session private to the executable: Tab completion
- * (cli_complete.c) and persistent history (cli_history.c), both on readline.
+ * Pieces of the interactive session (the module coldprep_repl.so): Tab completion
+ * (repl_complete.c) and persistent history (repl_history.c), both on readline.
  */
-#ifndef COLDPREP_CLI_INT_H
-#define COLDPREP_CLI_INT_H
+#ifndef COLDPREP_REPL_INT_H
+#define COLDPREP_REPL_INT_H
 
 #include <lua.h>
 

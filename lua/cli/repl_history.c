@@ -15,7 +15,7 @@
 #include <string.h>
 #include <sys/stat.h>
 
-#include "cli_int.h"
+#include "repl_int.h"
 
 enum { HISTORY_MAX = 1000 };
 

@@ -1,5 +1,6 @@
 /*
- * Lua binding: coldprep.plot.render, figures drawn with PLplot's Cairo drivers to PNG
+ * The plot module (coldprep_plot.so, loaded on first use by require "coldprep.render",
+ * module.c, so that a start does not open PLplot): coldprep.plot.render, figures drawn with PLplot's Cairo drivers to PNG
  * (pngcairo), SVG (svgcairo) or PDF (pdfcairo), chosen by the file extension.  A figure
  * is a column of panels; a panel holds curves, bars over named categories, or a colour
  * map over a grid, plus optional horizontal reference lines.  The ready-made figures
@@ -23,18 +24,7 @@
 #include "args.h"
 #include "help.h"
 
-int cpl_open_plot(lua_State *L);
-
-#if defined(__SANITIZE_ADDRESS__)
-/* Under AddressSanitizer: PLplot loads its drivers with libltdl and the Cairo drivers
- * fill fontconfig's caches; both keep that memory until exit by design.  This is the
- * sanitizer's documented hook for suppressing such third-party leaks. */
-const char *__lsan_default_suppressions(void);
-const char *__lsan_default_suppressions(void)
-{
-    return "leak:libfontconfig.so\nleak:libltdl.so\n";
-}
-#endif
+int luaopen_coldprep_plot(lua_State *L);
 
 enum { MAX_PANELS = 6, MAX_LINES = 16, MAX_CATEGORIES = 64, MAX_HLINES = 8, COLOURS = 10 };
 
@@ -724,7 +714,7 @@ static const cpl_function plot_functions[] = {
      "           lines = {{x = {1, 2, 3}, y = {1, 4, 9}, label = \"x#u2#d\"}}}}}"},
     {NULL, NULL, NULL}};
 
-int cpl_open_plot(lua_State *L)
+int luaopen_coldprep_plot(lua_State *L)
 {
     lua_newtable(L);
     cpl_register(L, plot_functions);
