@@ -263,7 +263,7 @@ cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const 
         for (size_t j = 0; j < n; j++)
             efficiency[j] = NAN;
         return cp_fail(err, CP_EINVAL, "%s: rates[%zu] %.6g T/s is out of range; allowed "
-                       "1e-06 <= |rate| <= 1e+09 T/s", ctx, i, rates[i]);
+                       "1e-06 <= |rate| <= 1e+09 T/s", ctx, i + 1, rates[i]);
     }
     cp_feshbach_ramp_kernel(coefficient, max_efficiency, rates, efficiency, n);
     return CP_OK;

@@ -109,8 +109,8 @@ cp_status cp_feshbach_associate(const cp_feshbach_resonance *res, double mu,
 
 /* The ramp-rate law over an array: efficiency[i] = P_max (1 - exp(-coefficient/|rate[i]|))
  * with coefficient = alpha n |abg width| in T/s, (0, 1e30]; every 1e-6 <= |rate| <= 1e9 T/s
- * as in cp_feshbach_associate (else CP_EINVAL naming the index, and every output NaN).  n may be 0.  The loop is written
- * to run at > 1e8 evaluations/s. */
+ * as in cp_feshbach_associate (else CP_EINVAL naming the element, counted from 1 as in Lua, and
+ * every output NaN).  n may be 0.  The loop is written to run at > 1e8 evaluations/s. */
 cp_status cp_feshbach_ramp_law(double coefficient, double max_efficiency, const double *rates,
                                double *efficiency, size_t n, cp_error *err);
 

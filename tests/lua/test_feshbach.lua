@@ -239,7 +239,7 @@ T.raises(function() fb.overlap_density { a = { atom = "87Rb", number = 1e5, omeg
   omega_y = wt, omega_z = wt, colour = 1 }, b = rb, temperature = 1e-7 } end,
   { "cloud 'a'", "colour" }, "unknown cloud key")
 T.raises(function() fb.ramp_law { resonance = r, molecule = m, density = n, ramp_rates = { 1, 0 } } end,
-  { "rates[1]" }, "batch names the bad element (0-based)")
+  { "rates[2] 0 T/s" }, "batch names the bad element, counted from 1 as in Lua")
 
 -- FESH-MEMO: a remembered result is the first one, bit for bit; off and on again agree.
 do

@@ -103,8 +103,8 @@ T.check(R.is(fr.efficiency) and type(ft.efficiency) == "table", "reals in, reals
 same(fr.efficiency, ft.efficiency, "ramp_law: reals path = table path")
 T.raises(function()
   cp.feshbach.ramp_law { resonance = res, molecule = mol, density = 1e18, ramp_rates = R.from { 1, 0 } }
-end, { "feshbach.ramp_law: rates[1] 0 T/s is out of range; allowed 1e-06 <= |rate| <= 1e+09 T/s" },
-  "a reals element out of range names index (0-based, the C array's), value, unit, range")
+end, { "feshbach.ramp_law: rates[2] 0 T/s is out of range; allowed 1e-06 <= |rate| <= 1e+09 T/s" },
+  "a reals element out of range names index (counted from 1), value, unit, range")
 T.raises(function()
   cp.feshbach.ramp_law { resonance = res, molecule = mol, density = 1e18, ramp_rates = R.from {} }
 end, { "argument 'ramp_rates' has 0 values; at least 1 are needed" }, "an empty reals")

@@ -774,7 +774,7 @@ static void test_bad_input(void **state)
         double rates[3] = {1.0, v, 2.0}, eff[3];
         assert_int_equal(cp_feshbach_ramp_law(1.0, 1.0, rates, eff, 3, &err), want);
         assert_true(v == -1.0 || (isnan(eff[0]) && isnan(eff[2]) &&
-                                  strstr(err.message, "rates[1]") != NULL));
+                                  strstr(err.message, "rates[2]") != NULL)); /* counted from 1 */
         assert_int_equal(cp_feshbach_ramp_law(v, 1.0, rates, eff, 3, &err), CP_EINVAL);
         /* clouds */
         cp_feshbach_cloud c = cloud(CP_PROFILE_THERMAL, 1e5, 87.0, 600.0), bad = c;
