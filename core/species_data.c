@@ -99,8 +99,8 @@ const cp_molecule cp_molecule_table[] = {
     {"23Na40K", "23Na", "40K", 2.72, 2.8217297e9, 5.197e5, 0, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: as quoted by Park, Will, Zwierlein, NJP 17, 075016 (2015); B: Will et al. 2016; "
      "C6 estimated; non-reactive: Park, Will, Zwierlein 2015"},
-    {"87Rb133Cs", "87Rb", "133Cs", 1.225, 490.173994e6, 1.307e5, 0, 2020.0, NAN, NAN, NAN, NAN,
-     NAN,
+    {"87Rb133Cs", "87Rb", "133Cs", 1.225, 490.173994e6, 1.307e5, 0, 2020.0, 4017.0, 1021.5, NAN,
+     NAN, NAN,
      "d: Molony et al., PRL 113, 255301 (2014); B: Gregory et al., Nat. Phys. 17, 1149 (2021); "
      "C6 estimated; non-reactive: Gregory et al., Nat. Commun. 10, 3104 (2019); alpha(1064 nm): "
      "Blackmore et al., PRA 102, 053316 (2020)"},

@@ -155,6 +155,10 @@ const cp_datum cp_datum_table[] = {
      "microwave spectroscopy of N=0 -> 1; 1113.950 MHz " SECONDARY " (two data modules citing "
      "the paper agree; one also lists 1113.9514 MHz from Neyenhuis et al. 2012); was 1113.9 MHz "
      "recalled"},
+    /* A second data module gives KRb as alpha^(0) = 5.53e-5 and alpha^(2) = 4.47e-5
+     * MHz/(W/cm^2): alpha^(0) = (alpha_par + 2 alpha_perp)/3 and alpha^(2) = 2 (alpha_par -
+     * alpha_perp)/3 reproduce the first module's pair, which fixes the normalisation used
+     * for RbCs below. */
     KRB_POL("pol_1064_par_au", "alpha_parallel (along the molecular axis) = 2133.504 a.u."),
     KRB_POL("pol_1064_perp_au", "alpha_perpendicular = 704.056 a.u."),
     KRB_POL("pol_1064_au", "isotropic part (alpha_par + 2 alpha_perp)/3 = 1180.539 a.u., the "
@@ -189,11 +193,15 @@ const cp_datum cp_datum_table[] = {
      "module citing it); the value recalled before from Gregory et al. 2016 was 490.174 MHz; "
      "Molony et al. 2014 give the N=0 -> 2 splitting 2940.09(6) MHz, i.e. 6B to within the "
      "hyperfine shifts"},
-    {"87Rb133Cs", "pol_1064_au", 0.0, MEAS, 0, "Blackmore2020",
-     "isotropic part alpha^(0) = 2020 a.u. at 1064 nm (the polarizability of N = 0), " SECONDARY
-     " (two data modules of a molecular-structure code citing the paper, one listing the "
-     "anisotropic alpha^(2) = 1997 a.u. beside it); alpha_par and alpha_perp are not built in "
-     "because the paper's normalisation of alpha^(2) was not read"},
+#define RBCS_POL(field, what)                                                                  \
+    {"87Rb133Cs", field, 0.0, MEAS, 0, "Blackmore2020",                                        \
+     what " at 1064 nm, " SECONDARY " (data modules of a molecular-structure code citing the " \
+     "paper: alpha^(0) = 2020 a.u., alpha^(2) = 1997 a.u.); alpha_par = alpha^(0) + "          \
+     "alpha^(2), alpha_perp = alpha^(0) - alpha^(2)/2, with alpha^(2) = 2 (alpha_par - "       \
+     "alpha_perp)/3 as that code's KRb entries show (the paper's own normalisation not read)"}
+    RBCS_POL("pol_1064_au", "isotropic part alpha^(0) = 2020 a.u., the polarizability of N = 0"),
+    RBCS_POL("pol_1064_par_au", "alpha_parallel = 4017 a.u."),
+    RBCS_POL("pol_1064_perp_au", "alpha_perpendicular = 1021.5 a.u."),
     {"87Rb133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"87Rb133Cs", "reactive", 0.0, MEAS, 1, "Gregory2019",
      "\"nonreactive ultracold 87Rb133Cs molecules\" (abstract); they are still lost in "

@@ -252,11 +252,20 @@ static void test_secondary_transcriptions(void **state)
     /* same secondary source, citing S. Ospelkaus et al., PRL 104, 030402 (2010): B = 1113.950
      * MHz */
     assert_rel(m->rot_const_hz, 1113.950e6, 1e-12);
-    /* J. A. Blackmore et al., PRA 102, 053316 (2020), arXiv:2007.01762: RbCs isotropic
-     * alpha^(0) = 2020 a.u. at 1064 nm */
+    /* A second transcription of Neyenhuis et al. gives the same KRb pair as alpha^(0) =
+     * 5.53e-5 and alpha^(2) = 4.47e-5 MHz/(W/cm^2): with alpha^(0) = (alpha_par + 2
+     * alpha_perp)/3 and alpha^(2) = 2 (alpha_par - alpha_perp)/3 the two agree to the
+     * digits printed, which fixes that normalisation of alpha^(2) */
+    assert_rel((10.0e-5 + 2.0 * 3.3e-5) / 3.0, 5.53e-5, 1e-3);
+    assert_rel(2.0 * (10.0e-5 - 3.3e-5) / 3.0, 4.47e-5, 1e-3);
+    assert_rel(m->pol_1064_au * CP_AU_POLARIZABILITY / (2.0 * CP_EPS0 * CP_C * CP_H),
+               5.53e-5 * 1e6 / 1e4, 1e-3); /* Hz/(W/m^2) */
+    /* J. A. Blackmore et al., PRA 102, 053316 (2020), arXiv:2007.01762: RbCs alpha^(0) =
+     * 2020 a.u. and alpha^(2) = 1997 a.u. at 1064 nm, in the same code's normalisation */
     assert_int_equal(cp_species_molecule("RbCs", &m, NULL), CP_OK);
     assert_rel(m->pol_1064_au, 2020.0, 1e-12);
-    assert_true(isnan(m->pol_1064_par_au) && isnan(m->pol_1064_perp_au));
+    assert_rel((m->pol_1064_par_au + 2.0 * m->pol_1064_perp_au) / 3.0, 2020.0, 1e-12);
+    assert_rel(2.0 * (m->pol_1064_par_au - m->pol_1064_perp_au) / 3.0, 1997.0, 1e-12);
     /* S. A. Will et al., PRL 116, 225306 (2016): NaK B = 2.8217297 GHz */
     assert_int_equal(cp_species_molecule("NaK", &m, NULL), CP_OK);
     assert_rel(m->rot_const_hz, 2.8217297e9, 1e-12);
@@ -279,7 +288,8 @@ static void test_secondary_transcriptions(void **state)
         const char *record, *field;
     } secondary[] = {{"40K87Rb", "pol_1064_au"},     {"40K87Rb", "pol_1064_par_au"},
                      {"40K87Rb", "pol_1064_perp_au"}, {"40K87Rb", "rot_const_hz"},
-                     {"87Rb133Cs", "pol_1064_au"},   {"87Rb133Cs", "rot_const_hz"},
+                     {"87Rb133Cs", "pol_1064_au"},   {"87Rb133Cs", "pol_1064_par_au"},
+                     {"87Rb133Cs", "pol_1064_perp_au"}, {"87Rb133Cs", "rot_const_hz"},
                      {"23Na40K", "rot_const_hz"},    {"23Na87Rb", "rot_const_hz"},
                      {"23Na133Cs", "rot_const_hz"},  {"23Na6Li", "dipole_debye"}};
     for (size_t i = 0; i < sizeof secondary / sizeof secondary[0]; i++) {
