@@ -61,7 +61,8 @@ const cp_atom cp_atom_table[] = {
      "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
      100.40 * CP_A0,
      "|1,-1> (= |1,1> at B = 0); the triplet |2,2> value is 98.98 a0: van Kempen et al., PRL "
-     "88, 093201 (2002) [M]"},
+     "88, 093201 (2002) [M]; a data module transcribes the same 100.4 a0 for |1,-1> from PRA "
+     "87, 053614 (2013) (secondary, not read in that paper)"},
     {"133Cs", "Cs", 55, 133, 132.905451958, 3.5, 1187.9, NAN,
      "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Amini & Gould 2003",
      2440.0 * CP_A0,
