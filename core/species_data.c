@@ -147,7 +147,7 @@ const cp_resonance cp_resonance_table[] = {
      "(2013); C6: Derevianko et al. 2001"},
     {"23Na133Cs", "23Na |1,1> + 133Cs |3,3>", 864.1 * GAUSS, 1.0 * GAUSS, 30.0 * CP_A0,
      2.0 * CP_MUB, 3256.0, 0,
-     "B0 recalled [M] (candidate paper: Zhang et al., arXiv:2003.07850); width, abg and dmu "
+     "B0 recalled [M] (candidate paper: Zhang et al., PRL 124, 253401 (2020)); width, abg and dmu "
      "are placeholders; C6: Brookes & Hutson, J. Phys. Chem. A (2022), arXiv:2203.10362"},
     {"6Li40K", "6Li |1> + 40K |9/2,-9/2>", 155.0 * GAUSS, 0.9 * GAUSS, 63.0 * CP_A0,
      2.0 * CP_MUB, 2322.0, 0, "Wille et al., PRL 100, 053201 (2008); C6: Derevianko et al. 2001"},

@@ -69,7 +69,7 @@ const cp_reference cp_reference_table[] = {
     {"BrookesHutson2022", "S. G. H. Brookes, J. M. Hutson", "J. Phys. Chem. A", "126",
      "(page not read)", 2022, "10.1021/acs.jpca.2c01810", "2203.10362"},
     {"Zhang2020", "J. T. Zhang, Y. Yu, W. B. Cairncross, K. Wang, L. R. B. Picard, et al.",
-     "arXiv preprint", "2003.07850", "v1", 2020, NULL, "2003.07850"},
+     "Phys. Rev. Lett.", "124", "253401", 2020, "10.1103/PhysRevLett.124.253401", "2003.07850"},
     {"Neyenhuis2012", "B. Neyenhuis, B. Yan, S. A. Moses, J. P. Covey, A. Chotia, et al.",
      "Phys. Rev. Lett.", "109", "230403", 2012, "10.1103/PhysRevLett.109.230403", "1209.2226"},
     {"Blackmore2020", "J. A. Blackmore, R. Sawant, P. D. Gregory, S. L. Bromley, J. Aldegunde, "
@@ -250,8 +250,8 @@ const cp_datum cp_datum_table[] = {
     /* 23Na6Li */
     {"23Na6Li", "dipole_debye", 0.0, CALC, 0, "LadjimiTomza2024",
      "0.47 D, the equilibrium value d_e (v = 0 differs by d'(r_e) <r - r_e>, a few mD with "
-     "d'(r_e) = 0.049 D/a0 from the same table), " SECONDARY ": read in Feng et al., arXiv:2607.25774, Table 1, which quotes it "
-     "from this paper; was ~0.5 D recalled"},
+     "d'(r_e) = 0.049 D/a0 from the same table), " SECONDARY ": read in Feng et al., "
+     "arXiv:2607.25774, Table 1, which quotes it from this paper; was ~0.5 D recalled"},
     {"23Na6Li", "rot_const_hz", 0.0, EST, 0, NULL,
      "from the equilibrium distance, recalled [M]; no paper identified"},
     {"23Na6Li", "c6_au", 0.0, EST, 0, NULL,

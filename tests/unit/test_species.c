@@ -89,8 +89,9 @@ static void test_molecules(void **state)
 /* SPECIES-4: published molecular constants: KRb d = 0.566(17) D (K.-K. Ni et al., Science
  * 322, 231 (2008), arXiv:0808.2963, abstract); RbCs B = 490.173994 MHz (P. D. Gregory et
  * al., Nat. Phys. 17, 1149 (2021), doi:10.1038/s41567-021-01328-7, supplementary constants,
- * as transcribed in a secondary source, not read in the paper); C6 of the estimated entries equals d^4/(6B) + 1e4 a.u. (Julienne,
- * Hanna, Idziaszek, PCCP 13, 19114 (2011) formula) to the 4 digits stored. */
+ * as transcribed in a secondary source, not read in the paper); C6 of the estimated
+ * entries equals d^4/(6B) + 1e4 a.u. (Julienne, Hanna, Idziaszek, PCCP 13, 19114 (2011)
+ * formula) to the 4 digits stored. */
 static void test_molecular_constants(void **state)
 {
     (void)state;
