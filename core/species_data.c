@@ -61,7 +61,8 @@ const cp_atom cp_atom_table[] = {
      "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Holmgren et al. 2010",
      100.40 * CP_A0,
      "|1,-1> (= |1,1> at B = 0); the triplet |2,2> value is 98.98 a0: van Kempen et al., PRL "
-     "88, 093201 (2002) [M]"},
+     "88, 093201 (2002) [M]; a data module transcribes the same 100.4 a0 for |1,-1> from PRA "
+     "87, 053614 (2013) (secondary, not read in that paper)"},
     {"133Cs", "Cs", 55, 133, 132.905451958, 3.5, 1187.9, NAN,
      "AME2020 mass; I: Stone 2005; alpha(1064 nm) estimated from Amini & Gould 2003",
      2440.0 * CP_A0,
@@ -91,21 +92,24 @@ const size_t cp_atom_table_size = sizeof cp_atom_table / sizeof cp_atom_table[0]
 /* name, atoms, d (D), B (Hz), C6 (a.u.), reactive, alpha 1064 iso/par/perp (a.u.),
  * alpha 1550 (a.u.), two-body loss rate (m^3/s) and its temperature (K), summary */
 const cp_molecule cp_molecule_table[] = {
-    {"40K87Rb", "40K", "87Rb", 0.566, 1.1139e9, 16130.0, 1, NAN, NAN, NAN, NAN, 3.0e-18,
-     250e-9,
+    {"40K87Rb", "40K", "87Rb", 0.566, 1113.950e6, 16130.0, 1, 1180.539, 2133.504, 704.056, NAN,
+     3.0e-18, 250e-9,
      "d: Ni et al., Science 322, 231 (2008); B: Ospelkaus et al. 2010; C6: Kotochigova 2010; "
-     "loss: Ospelkaus et al., Science 327, 853 (2010); reactive: Ospelkaus et al. 2010"},
-    {"23Na40K", "23Na", "40K", 2.72, 2.8217e9, 5.197e5, 0, NAN, NAN, NAN, NAN, NAN, NAN,
+     "loss: Ospelkaus et al., Science 327, 853 (2010); reactive: Ospelkaus et al. 2010; "
+     "alpha(1064 nm): Neyenhuis et al., PRL 109, 230403 (2012)"},
+    {"23Na40K", "23Na", "40K", 2.72, 2.8217297e9, 5.197e5, 0, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: as quoted by Park, Will, Zwierlein, NJP 17, 075016 (2015); B: Will et al. 2016; "
      "C6 estimated; non-reactive: Park, Will, Zwierlein 2015"},
-    {"87Rb133Cs", "87Rb", "133Cs", 1.225, 0.490174e9, 1.307e5, 0, NAN, NAN, NAN, NAN, NAN, NAN,
-     "d: Molony et al., PRL 113, 255301 (2014); B: Gregory et al. 2016; C6 estimated; "
-     "non-reactive: Gregory et al., Nat. Commun. 10, 3104 (2019)"},
-    {"23Na87Rb", "23Na", "87Rb", 3.2, 2.0897e9, 1.328e6, 0, NAN, NAN, NAN, NAN, NAN, NAN,
+    {"87Rb133Cs", "87Rb", "133Cs", 1.225, 490.173994e6, 1.307e5, 0, 2020.0, 4017.0, 1021.5, NAN,
+     NAN, NAN,
+     "d: Molony et al., PRL 113, 255301 (2014); B: Gregory et al., Nat. Phys. 17, 1149 (2021); "
+     "C6 estimated; non-reactive: Gregory et al., Nat. Commun. 10, 3104 (2019); alpha(1064 nm): "
+     "Blackmore et al., PRA 102, 053316 (2020)"},
+    {"23Na87Rb", "23Na", "87Rb", 3.2, 2.0896628e9, 1.328e6, 0, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: Guo et al., PRL 116, 205303 (2016); B: Guo et al. 2018; C6 estimated; "
      "non-reactive: Zuchowski & Hutson 2010"},
-    {"23Na133Cs", "23Na", "133Cs", 4.6, 1.74e9, 6.771e6, 0, NAN, NAN, NAN, NAN, NAN, NAN,
-     "d: calculated, Aymar & Dulieu 2005; B recalled [M]; C6 estimated; "
+    {"23Na133Cs", "23Na", "133Cs", 4.6, 1.7396e9, 6.772e6, 0, NAN, NAN, NAN, NAN, NAN, NAN,
+     "d: calculated, Aymar & Dulieu 2005; B: calculated, Aldegunde & Hutson 2017; C6 estimated; "
      "non-reactive: Zuchowski & Hutson 2010"},
     {"6Li40K", "6Li", "40K", 3.6, 8.78e9, 5.126e5, 1, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: calculated, Aymar & Dulieu 2005; B recalled [M]; C6 estimated; "
@@ -113,8 +117,9 @@ const cp_molecule cp_molecule_table[] = {
     {"6Li133Cs", "6Li", "133Cs", 5.5, 6.53e9, 3.692e6, 1, NAN, NAN, NAN, NAN, NAN, NAN,
      "d: Deiglmayr et al., PRA 82, 032503 (2010); B recalled [M]; C6 estimated; "
      "reactive: Zuchowski & Hutson 2010"},
-    {"23Na6Li", "23Na", "6Li", 0.5, 12.7e9, 3.7e3, 1, NAN, NAN, NAN, NAN, NAN, NAN,
-     "d, B and C6 recalled [M]; reactive: Zuchowski & Hutson 2010"},
+    {"23Na6Li", "23Na", "6Li", 0.47, 12.7e9, 3.7e3, 1, NAN, NAN, NAN, NAN, NAN, NAN,
+     "d: calculated, Ladjimi & Tomza 2024 (as quoted by Feng et al. 2026); B and C6 recalled "
+     "[M]; reactive: Zuchowski & Hutson 2010"},
 };
 const size_t cp_molecule_table_size = sizeof cp_molecule_table / sizeof cp_molecule_table[0];
 
@@ -142,7 +147,7 @@ const cp_resonance cp_resonance_table[] = {
      "(2013); C6: Derevianko et al. 2001"},
     {"23Na133Cs", "23Na |1,1> + 133Cs |3,3>", 864.1 * GAUSS, 1.0 * GAUSS, 30.0 * CP_A0,
      2.0 * CP_MUB, 3256.0, 0,
-     "B0 recalled [M] (candidate paper: Zhang et al., arXiv:2003.07850); width, abg and dmu "
+     "B0 recalled [M] (candidate paper: Zhang et al., PRL 124, 253401 (2020)); width, abg and dmu "
      "are placeholders; C6: Brookes & Hutson, J. Phys. Chem. A (2022), arXiv:2203.10362"},
     {"6Li40K", "6Li |1> + 40K |9/2,-9/2>", 155.0 * GAUSS, 0.9 * GAUSS, 63.0 * CP_A0,
      2.0 * CP_MUB, 2322.0, 0, "Wille et al., PRL 100, 053201 (2008); C6: Derevianko et al. 2001"},

@@ -69,7 +69,20 @@ const cp_reference cp_reference_table[] = {
     {"BrookesHutson2022", "S. G. H. Brookes, J. M. Hutson", "J. Phys. Chem. A", "126",
      "(page not read)", 2022, "10.1021/acs.jpca.2c01810", "2203.10362"},
     {"Zhang2020", "J. T. Zhang, Y. Yu, W. B. Cairncross, K. Wang, L. R. B. Picard, et al.",
-     "arXiv preprint", "2003.07850", "v1", 2020, NULL, "2003.07850"},
+     "Phys. Rev. Lett.", "124", "253401", 2020, "10.1103/PhysRevLett.124.253401", "2003.07850"},
+    {"Neyenhuis2012", "B. Neyenhuis, B. Yan, S. A. Moses, J. P. Covey, A. Chotia, et al.",
+     "Phys. Rev. Lett.", "109", "230403", 2012, "10.1103/PhysRevLett.109.230403", "1209.2226"},
+    {"Blackmore2020", "J. A. Blackmore, R. Sawant, P. D. Gregory, S. L. Bromley, J. Aldegunde, "
+                      "J. M. Hutson, S. L. Cornish",
+     "Phys. Rev. A", "102", "053316", 2020, "10.1103/PhysRevA.102.053316", "2007.01762"},
+    {"Gregory2021", "P. D. Gregory, J. A. Blackmore, S. L. Bromley, J. M. Hutson, S. L. Cornish",
+     "Nat. Phys.", "17", "1149", 2021, "10.1038/s41567-021-01328-7", NULL},
+    {"AldegundeHutson2017", "J. Aldegunde, J. M. Hutson", "Phys. Rev. A", "96", "042506", 2017,
+     "10.1103/PhysRevA.96.042506", NULL},
+    {"LadjimiTomza2024", "H. Ladjimi, M. Tomza", "Phys. Rev. A", "109", "052814", 2024,
+     "10.1103/PhysRevA.109.052814", NULL},
+    {"Feng2026", "K. Feng, H. Yang, H. J. Jozwiak, T. Karman", "arXiv preprint", "2607.25774",
+     "v2", 2026, NULL, "2607.25774"},
 };
 const size_t cp_reference_table_size = sizeof cp_reference_table / sizeof cp_reference_table[0];
 
@@ -112,6 +125,17 @@ const size_t cp_reference_table_size = sizeof cp_reference_table / sizeof cp_ref
 
 #define NONREACTIVE "2AB -> A2 + B2 endothermic (their Table I); flag not re-read"
 
+/* A number read only where someone else transcribed it, not in the paper itself. */
+#define SECONDARY "transcribed in a secondary source, not read in the paper"
+
+/* The Neyenhuis et al. 2012 polarizabilities are light shifts per intensity, U = -alpha I;
+ * in atomic units alpha = alpha_h * h c / (2 pi a0^3) with alpha_h in Hz/(W/m^2). */
+#define KRB_POL(field, what)                                                                   \
+    {"40K87Rb", field, 0.0, MEAS, 0, "Neyenhuis2012",                                          \
+     what " at 1064 nm, " SECONDARY " (a molecular-structure code's data module citing the "   \
+     "paper: alpha_par = 10.0e-5, alpha_perp = 3.3e-5 MHz/(W/cm^2), U = -alpha I); converted " \
+     "with alpha[a.u.] = alpha[Hz/(W/m^2)] h c / (2 pi a0^3); no uncertainty transcribed"}
+
 const cp_datum cp_datum_table[] = {
     ATOM("6Li"), ATOM("7Li"), ATOM("23Na"), ATOM("39K"), ATOM("40K"), ATOM("41K"), ATOM("85Rb"),
     ATOM("87Rb"), ATOM("133Cs"), ATOM("84Sr"), ATOM("87Sr"), ATOM("88Sr"), ATOM("173Yb"),
@@ -128,7 +152,17 @@ const cp_datum cp_datum_table[] = {
     {"40K87Rb", "dipole_debye", 0.017, MEAS, 1, "Ni2008",
      "Stark spectroscopy of X1Sigma+ v=0: 0.566(17) D (abstract)"},
     {"40K87Rb", "rot_const_hz", 0.0, MEAS, 0, "Ospelkaus2010hf",
-     "microwave spectroscopy of N=0 -> 1; 1113.9 MHz recalled [M]"},
+     "microwave spectroscopy of N=0 -> 1; 1113.950 MHz " SECONDARY " (two data modules citing "
+     "the paper agree; one also lists 1113.9514 MHz from Neyenhuis et al. 2012); was 1113.9 MHz "
+     "recalled"},
+    /* A second data module gives KRb as alpha^(0) = 5.53e-5 and alpha^(2) = 4.47e-5
+     * MHz/(W/cm^2): alpha^(0) = (alpha_par + 2 alpha_perp)/3 and alpha^(2) = 2 (alpha_par -
+     * alpha_perp)/3 reproduce the first module's pair, which fixes the normalisation used
+     * for RbCs below. */
+    KRB_POL("pol_1064_par_au", "alpha_parallel (along the molecular axis) = 2133.504 a.u."),
+    KRB_POL("pol_1064_perp_au", "alpha_perpendicular = 704.056 a.u."),
+    KRB_POL("pol_1064_au", "isotropic part (alpha_par + 2 alpha_perp)/3 = 1180.539 a.u., the "
+                           "polarizability of N = 0"),
     {"40K87Rb", "c6_au", 0.0, CALC, 0, "Kotochigova2010", "16130 a.u. recalled [M]"},
     {"40K87Rb", "reactive", 0.0, MEAS, 1, "Ospelkaus2010",
      "\"experimental evidence for exothermic atom-exchange chemical reactions\" of ground-state "
@@ -143,7 +177,9 @@ const cp_datum cp_datum_table[] = {
     /* 23Na40K */
     {"23Na40K", "dipole_debye", 0.0, MEAS, 1, "Park2015",
      "2.72 D as stated in the abstract (a value quoted there, not measured in that paper)"},
-    {"23Na40K", "rot_const_hz", 0.0, MEAS, 0, "Will2016", "2.8217 GHz recalled [M]"},
+    {"23Na40K", "rot_const_hz", 0.0, MEAS, 0, "Will2016",
+     "2.8217297 GHz, " SECONDARY " (two data modules citing the paper agree); was 2.8217 GHz "
+     "recalled"},
     {"23Na40K", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"23Na40K", "reactive", 0.0, MEAS, 1, "Park2015",
      "ground-state NaK molecules \"are chemically stable under binary collisions\" "
@@ -152,9 +188,20 @@ const cp_datum cp_datum_table[] = {
     /* 87Rb133Cs */
     {"87Rb133Cs", "dipole_debye", 0.0085, MEAS, 1, "Molony2014",
      "1.225(3)(8) D, statistical and systematic added in quadrature (abstract)"},
-    {"87Rb133Cs", "rot_const_hz", 0.0, MEAS, 0, "Gregory2016",
-     "490.174 MHz recalled [M]; Molony et al. 2014 give the N=0 -> 2 splitting "
-     "2940.09(6) MHz, i.e. 6B to within the hyperfine shifts"},
+    {"87Rb133Cs", "rot_const_hz", 0.0, MEAS, 0, "Gregory2021",
+     "490.173994 MHz from the supplementary constants of this paper, " SECONDARY " (a data "
+     "module citing it); the value recalled before from Gregory et al. 2016 was 490.174 MHz; "
+     "Molony et al. 2014 give the N=0 -> 2 splitting 2940.09(6) MHz, i.e. 6B to within the "
+     "hyperfine shifts"},
+#define RBCS_POL(field, what)                                                                  \
+    {"87Rb133Cs", field, 0.0, MEAS, 0, "Blackmore2020",                                        \
+     what " at 1064 nm, " SECONDARY " (data modules of a molecular-structure code citing the " \
+     "paper: alpha^(0) = 2020 a.u., alpha^(2) = 1997 a.u.); alpha_par = alpha^(0) + "          \
+     "alpha^(2), alpha_perp = alpha^(0) - alpha^(2)/2, with alpha^(2) = 2 (alpha_par - "       \
+     "alpha_perp)/3 as that code's KRb entries show (the paper's own normalisation not read)"}
+    RBCS_POL("pol_1064_au", "isotropic part alpha^(0) = 2020 a.u., the polarizability of N = 0"),
+    RBCS_POL("pol_1064_par_au", "alpha_parallel = 4017 a.u."),
+    RBCS_POL("pol_1064_perp_au", "alpha_perpendicular = 1021.5 a.u."),
     {"87Rb133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"87Rb133Cs", "reactive", 0.0, MEAS, 1, "Gregory2019",
      "\"nonreactive ultracold 87Rb133Cs molecules\" (abstract); they are still lost in "
@@ -163,16 +210,21 @@ const cp_datum cp_datum_table[] = {
 
     /* 23Na87Rb */
     {"23Na87Rb", "dipole_debye", 0.0, MEAS, 0, "Guo2016",
-     "Stark shifts of the ground state; 3.2 D recalled [M]"},
-    {"23Na87Rb", "rot_const_hz", 0.0, MEAS, 0, "Guo2018", "2.0897 GHz recalled [M]"},
+     "Stark shifts of the ground state; 3.2 D recalled [M]; a data module lists 3.2 D for NaRb "
+     "too (citing Guo et al. 2018), not read in either paper"},
+    {"23Na87Rb", "rot_const_hz", 0.0, MEAS, 0, "Guo2018",
+     "2.0896628 GHz, " SECONDARY " (two data modules citing the paper agree); was 2.0897 GHz "
+     "recalled"},
     {"23Na87Rb", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"23Na87Rb", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010", NONREACTIVE},
 
     /* 23Na133Cs */
     {"23Na133Cs", "dipole_debye", 0.0, CALC, 0, "AymarDulieu2005",
      "ab initio, X1Sigma+ v=0; 4.6 D recalled [M]"},
-    {"23Na133Cs", "rot_const_hz", 0.0, EST, 0, NULL,
-     "from the equilibrium distance, recalled [M]; no paper identified"},
+    {"23Na133Cs", "rot_const_hz", 0.0, CALC, 0, "AldegundeHutson2017",
+     "1.7396 GHz, " SECONDARY " (one data module citing the paper; another lists 0.962 GHz, "
+     "which cannot be right: Feng et al., arXiv:2607.25774, Table 1, read, give B_e = 1.74 GHz "
+     "for NaCs from the spectroscopic potential of Docenko et al. 2004); was 1.74 GHz recalled"},
     {"23Na133Cs", "c6_au", 0.0, EST, 0, "JulienneHannaIdziaszek2011", C6_EST},
     {"23Na133Cs", "reactive", 0.0, CALC, 0, "ZuchowskiHutson2010", NONREACTIVE},
 
@@ -196,7 +248,10 @@ const cp_datum cp_datum_table[] = {
      "2LiCs -> Li2 + Cs2 exothermic (their Table I); flag not re-read"},
 
     /* 23Na6Li */
-    {"23Na6Li", "dipole_debye", 0.0, CALC, 0, NULL, "~0.5 D recalled [M]; no paper identified"},
+    {"23Na6Li", "dipole_debye", 0.0, CALC, 0, "LadjimiTomza2024",
+     "0.47 D, the equilibrium value d_e (v = 0 differs by d'(r_e) <r - r_e>, a few mD with "
+     "d'(r_e) = 0.049 D/a0 from the same table), " SECONDARY ": read in Feng et al., "
+     "arXiv:2607.25774, Table 1, which quotes it from this paper; was ~0.5 D recalled"},
     {"23Na6Li", "rot_const_hz", 0.0, EST, 0, NULL,
      "from the equilibrium distance, recalled [M]; no paper identified"},
     {"23Na6Li", "c6_au", 0.0, EST, 0, NULL,

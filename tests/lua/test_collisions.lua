@@ -146,7 +146,7 @@ T.check(sh.method:find("|1,0>|1,0>", 1, true) ~= nil, "method named")
 local dm = cp.fields.dipole_matrix { molecule = "KRb", field = 12.72e5 }
 T.near(sh.dipole_debye, math.abs(dm.dipole_debye[2][2]), 1e-12, "the |1,0> induced dipole")
 T.near(sh.pair_gap_hz, 2 * dm.energy_hz[2] - dm.energy_hz[1] - dm.energy_hz[3], 1e-9, "the pair gap")
-local dc3 = cp.collisions.shielded { molecule = { dipole_debye = 0.566, rot_const_hz = 1.1139e9,
+local dc3 = cp.collisions.shielded { molecule = { dipole_debye = 0.566, rot_const_hz = 1113.950e6,
   c6_au = 16130, mass = cp.species.molecule("KRb").mass, statistics = "fermion" }, temperature = 300e-9,
   electric_field = 12.72e5, rotational_j = 1 }
 T.near(dc3.loss_rate_coefficient, sh.loss_rate_coefficient, 1e-12, "molecule table in the dc-shield regime")

@@ -154,9 +154,19 @@ local d_rb = cp.lattice.depth(with(base, { species = "87Rb" }))
 T.near(d_rb.depth_hz, 1.19356658e6 * cp.species.polarizability("87Rb", 1064 * u.nm) / 1000, 1e-8,
   "depth from the species' built-in polarizability")
 T.near(cp.species.polarizability("87Rb", 1064 * u.nm), 699.8, 1e-12, "87Rb alpha(1064) as tabulated")
-T.raises(function() cp.lattice.depth(with(base, { species = "KRb" })) end,
-  { "lattice.depth", "no published polarizability of 40K87Rb", "polarizability_au" },
+T.raises(function() cp.lattice.depth(with(base, { species = "NaK" })) end,
+  { "lattice.depth", "no published polarizability of 23Na40K", "polarizability_au" },
   "no built-in molecular polarizability: asks for it")
+-- KRb's built-in 1064 nm polarizability is the N = 0 (isotropic) part of B. Neyenhuis et
+-- al., PRL 109, 230403 (2012), arXiv:1209.2226: alpha_par = 10.0e-5 and alpha_perp = 3.3e-5
+-- MHz/(W/cm^2) as light shifts per intensity (numbers transcribed in a secondary source, not
+-- read in the paper).  A lattice for KRb given as power and waist has the depth of LAT-L2's
+-- 1000 a.u. lattice scaled by (alpha_par + 2 alpha_perp)/3 expressed in a.u. through the
+-- closed form alpha[a.u.] = alpha[Hz/(W/m^2)] h c / (2 pi a0^3).
+local iso_hz_per_wm2 = (10.0e-5 + 2 * 3.3e-5) / 3 * 1e6 / 1e4
+local iso_au = iso_hz_per_wm2 * cp.consts.h * cp.consts.c / (2 * pi * cp.consts.a0 ^ 3)
+local d_krb = cp.lattice.depth(with(base, { species = "KRb" }))
+T.near(d_krb.depth_hz, 1.19356658e6 * iso_au / 1000, 1e-5, "KRb lattice depth from Neyenhuis et al.'s alpha")
 T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", wavelength = 780.5 * u.nm })) end,
   { "87Rb", "780.5 nm", "polarizability_au" }, "an untabulated wavelength asks for the value")
 T.raises(function() cp.lattice.depth(with(base, { species = "87Rb", polarizability_au = 700 })) end,
