@@ -169,7 +169,7 @@ const cp_datum cp_datum_table[] = {
      "KRb (abstract); the energetics of all ten bialkalis: Zuchowski & Hutson 2010"},
     {"40K87Rb", "loss_rate", 0.75e-18, MEAS, 0, "Ospelkaus2010",
      "spin-polarised fermions, p-wave: beta/T = 1.2(3)e-5 cm^3 s^-1 K^-1 recalled [M] (the "
-     "abstract, read, gives no number; docs/models/collisions.md recalls 1.1(3)e-5), "
+     "abstract, read, gives no number), "
      "evaluated at 250 nK (beta grows in proportion to T)"},
     {"40K87Rb", "loss_temperature", 0.0, MEAS, 0, "Ospelkaus2010",
      "the temperature the recalled beta/T is evaluated at [M]"},
