@@ -15,7 +15,11 @@
  * hold the N particles.  Orbitals more than TAIL_START k_B T above mu_local enter through
  * precomputed sums S1 = sum m e^{-beta e}, S2 = sum m e^{-2 beta e} over them:
  * ln(1 -+ zeta) = -+zeta - zeta^2/2 and zeta/(1 -+ zeta) = zeta +- zeta^2 to
- * O(zeta^3) < e^{-24} relative.
+ * O(zeta^3) < e^{-24} relative.  For fermions, orbitals more than DEEP k_B T below mu_local
+ * are full: ln(1 + zeta) = ln zeta + 1/zeta and zeta/(1 + zeta) = 1 - 1/zeta, and dropping
+ * the 1/zeta < e^{-40} terms leaves prefix sums over those orbitals (of m, m (e - e_0) and
+ * ln sum m e^{-beta(e - e_0)}), so a site costs only the orbitals within a few k_B T of
+ * mu_local, not all of them (a squeezed cloud with every band filled has tens of thousands).
  */
 #include <math.h>
 #include <stdlib.h>
@@ -28,6 +32,7 @@
 #define TAIL_START 8.0       /* orbitals this many k_B T above mu_local: second-order series */
 #define TAIL 50.0             /* u beyond max(mu - e_0, 0)/k_B T + TAIL is left out */
 #define MAX_OCCUPATION 100000 /* largest n summed for the lowest bosonic orbital */
+#define DEEP 40.0             /* fermion orbitals this many k_B T below mu_local: full */
 
 typedef struct orbital {
     double e; /* J, from the lattice potential minimum */
@@ -37,6 +42,9 @@ typedef struct orbital {
 typedef struct filling_ctx {
     orbital *orb;
     double *s1, *s2; /* suffix sums over orbitals k.. of m e^{-beta(e - e_0)}, squared */
+    /* prefix sums over orbitals 1..k-1 (fermions): of m, of m beta (e - e_0), and
+     * ln sum m e^{-beta (e - e_0)} (-inf for none) */
+    double *pm, *pe, *pl;
     size_t count;
     cp_statistics stat;
     double kt, amp, onsite_u;
@@ -89,6 +97,20 @@ static void hubbard_orbital(double a, double bu, double *log_z, double *nbar)
     *nbar = nz / z;
 }
 
+/* The first orbital k >= 1 more than `above` k_B T above mu_l (count if none; sorted). */
+static size_t first_above(const filling_ctx *c, double mu_l, double above)
+{
+    size_t lo = 1, hi = c->count;
+    while (lo < hi) {
+        size_t mid = lo + (hi - lo) / 2;
+        if ((c->orb[mid].e - mu_l) / c->kt > above)
+            hi = mid;
+        else
+            lo = mid + 1;
+    }
+    return lo;
+}
+
 /* Occupation probabilities of one site at local chemical potential mu_l. */
 static site_stats site_at(const filling_ctx *c, double mu_l)
 {
@@ -106,15 +128,17 @@ static site_stats site_at(const filling_ctx *c, double mu_l)
     }
     double log_r = a0; /* ln sum_k m_k zeta_k: P1 = P0 sum_k m_k zeta_k */
     /* the first orbital more than TAIL_START k_B T above mu_l (bisection; sorted) */
-    size_t lo = 1, hi = c->count;
-    while (lo < hi) {
-        size_t mid = lo + (hi - lo) / 2;
-        if (beta * (c->orb[mid].e - mu_l) > TAIL_START)
-            hi = mid;
-        else
-            lo = mid + 1;
+    size_t lo = first_above(c, mu_l, TAIL_START), first = 1;
+    if (c->stat == CP_FERMION) {
+        /* orbitals 1 .. first-1 lie more than DEEP k_B T below mu_l: full */
+        first = first_above(c, mu_l, -DEEP);
+        if (first > 1) {
+            log_p0 -= c->pm[first] * a0 - c->pe[first];
+            n += c->pm[first];
+            log_r = log_add(log_r, a0 + c->pl[first]);
+        }
     }
-    for (size_t k = 1; k < lo; k++) {
+    for (size_t k = first; k < lo; k++) {
         double a = beta * (mu_l - c->orb[k].e), m = c->orb[k].m;
         if (c->stat == CP_FERMION) {
             log_p0 -= m * softplus(a);
@@ -222,6 +246,19 @@ static cp_status make_orbitals(const cp_thermo_lattice *lat, filling_ctx *c, cp_
         c->s1[i] = c->s1[i + 1] + c->orb[i].m * b;
         c->s2[i] = c->s2[i + 1] + c->orb[i].m * b * b;
     }
+    c->pm = malloc(3 * (m + 1) * sizeof *c->pm);
+    if (!c->pm)
+        return cp_fail(err, CP_ENOMEM, "thermo.lattice_filling: cannot allocate %zu sums", m);
+    c->pe = c->pm + m + 1;
+    c->pl = c->pe + m + 1;
+    c->pm[1] = c->pe[1] = 0.0;
+    c->pl[1] = -INFINITY;
+    for (size_t i = 1; i < m; i++) {
+        double x = (c->orb[i].e - c->orb[0].e) / c->kt;
+        c->pm[i + 1] = c->pm[i] + c->orb[i].m;
+        c->pe[i + 1] = c->pe[i] + c->orb[i].m * x;
+        c->pl[i + 1] = log_add(c->pl[i], log(c->orb[i].m) - x);
+    }
     return CP_OK;
 }
 
@@ -303,7 +340,7 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
     CP_TRY(cp_check_range(err, ctx, "spacing", lat->spacing, "m", 0.0, 1e-4, CP_LO_OPEN));
     double wbar = cbrt(lat->omega_envelope[0] * lat->omega_envelope[1] * lat->omega_envelope[2]);
     double kt = CP_KB * temperature, d = lat->spacing;
-    filling_ctx c = {NULL, NULL, NULL, 0, stat, kt,
+    filling_ctx c = {NULL, NULL, NULL, NULL, NULL, NULL, 0, stat, kt,
                      pow(2.0 * CP_PI * kt / (trap->mass * wbar * wbar), 1.5) / (d * d * d),
                      stat == CP_FERMION ? INFINITY : onsite_u};
     double x = NAN;
@@ -332,5 +369,6 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
     }
     free(c.orb);
     free(c.s1);
+    free(c.pm);
     return st;
 }
