@@ -64,8 +64,14 @@ double *cpl_number_array(lua_State *L, int arg, const char *fname, const char *k
 void cpl_trap_frequencies(lua_State *L, int arg, const char *fname, const char *bar_key,
                           const char *const axes[3], double omega[3]);
 
-/* Raise err->message as a Lua error (never returns). */
+/* Raise err->message as a Lua error (never returns); a refusal by work estimate
+ * (CP_ETOOLONG) gets the opt-in appended: "; or pass allow_long = true ...". */
 int cpl_raise(lua_State *L, const cp_error *err);
+
+/* The work limit of a call whose argument table at `arg` may say allow_long = true:
+ * CP_WORK_LIMIT_S seconds of CPU, or +inf when allowed.  The key must be among the
+ * function's known keys. */
+double cpl_work_limit(lua_State *L, int arg, const char *fname);
 
 /* The cancel flag the host program registered for this state (the coldprep executable
  * registers the one its Ctrl-C handler sets), or NULL: long computations pass it to the
