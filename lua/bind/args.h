@@ -78,6 +78,12 @@ double cpl_work_limit(lua_State *L, int arg, const char *fname);
  * core's _cancellable functions.  The host stores a light userdata under the registry
  * key CPL_CANCEL_KEY. */
 #define CPL_CANCEL_KEY "coldprep.cancel"
+
+/* A note a computation stopped by Ctrl-C leaves for the host (a string under this registry
+ * key: an optimisation's best point so far).  The coldprep executable appends it to the
+ * "interrupted" error that reaches the session or script, and clears it once the
+ * interruption is over. */
+#define CPL_INTERRUPT_NOTE_KEY "coldprep.interrupt_note"
 const cp_cancel_flag *cpl_cancel_flag(lua_State *L);
 
 /* Raise a formatted error prefixed with "fname: " (never returns). */

@@ -5,7 +5,9 @@
 # with allow_long = true: their work estimates refuse them otherwise); the first Ctrl-C
 # must stop them within 0.2 s (the core polls the flag the SIGINT handler sets), in the
 # session on a terminal (cli_pty's `within 200`, timed from the Ctrl-C) and in a script
-# (SIGINT sent by kill); the session goes on afterwards.
+# (SIGINT sent by kill); the session goes on afterwards.  CANCEL-5: an optimisation (cp.optimize
+# of a slow Lua objective, and cp.optim.nmsimplex) stops as fast and its message reports the
+# best point found so far.
 source "$(dirname "$0")/lib.sh"
 [ -x "$cli_pty" ] || { echo "usage: $0 COLDPREP CLI_PTY (the pty driver is missing)" >&2; exit 1; }
 cd "$tmp" || exit 1
@@ -40,8 +42,35 @@ exit 0
 EOF
 done
 
+# CANCEL-5: optimisations.  Each evaluation burns about 1 ms in a Lua loop; the optimum
+# of the bowl is (2, 1) (by inspection), found long before the Ctrl-C.
+slow='local s = 0 for i = 1, 2e5 do s = s + i end'
+optimize="cp.optimize{parameters = {{name = 'x', min = 0, max = 3}, {name = 'y', min = 0, max = 3}}, evaluate = function(p) $slow return -(p.x - 2)^2 - (p.y - 1)^2 end, tolerance = 1e-300, max_evaluations = 10000000}"
+simplex="cp.optim.nmsimplex{f = function(x) $slow return (x[1] - 2)^2 + (x[2] - 1)^2 end, start = {0, 0}, step = {1, 1}, tolerance = 1e-300, max_iterations = 10000000}"
+for case in "optimize:$optimize:best point so far: x = 2, y = 1 (merit" \
+            "optim.nmsimplex:$simplex:best point so far: x = {2, 1}, f = 0"; do
+  name=${case%%:*}
+  rest=${case#*:}
+  call=${rest%:best point*}
+  best=${rest#"$call":}
+  pty "CANCEL-5 $name" <<EOF
+expect coldprep> 
+send r = $call\r
+sleep 1500
+send \x03
+within 200 interrupted; $name: stopped after
+expect $best
+expect coldprep> 
+send print("still " .. "here", r)\r
+expect still here	nil
+expect coldprep> 
+send \x04
+exit 0
+EOF
+done
+
 # CANCEL-3: in a script, SIGINT stops the computation within 0.2 s; exit status 1.
-for call in "$bands" "$shape" "$sampling"; do
+for call in "$bands" "$shape" "$sampling" "$optimize"; do
   "$coldprep" -e "$call" 2> script.err &
   pid=$!
   sleep 0.7
@@ -54,5 +83,9 @@ for call in "$bands" "$shape" "$sampling"; do
   [ "$status" = 1 ] && [ "$ms" -lt 200 ] && grep -q interrupted script.err ||
     fail CANCEL-3 "a script stopped by SIGINT: status $status after $ms ms: $(cat script.err)"
 done
+checks=$((checks + 1))
+grep -q "optimize: stopped after [0-9]* evaluations; best point so far: x = 2, y = 1" script.err ||
+  fail CANCEL-5 "the interrupted optimisation's script message lacks the best point: $(cat script.err)"
+
 
 finish
