@@ -7,7 +7,10 @@
 # session on a terminal (cli_pty's `within 200`, timed from the Ctrl-C) and in a script
 # (SIGINT sent by kill); the session goes on afterwards.  CANCEL-5: an optimisation (cp.optimize
 # of a slow Lua objective, and cp.optim.nmsimplex) stops as fast and its message reports the
-# best point found so far.
+# best point found so far.  CANCEL-6: `coldprep sweep` on a terminal: the first Ctrl-C stops
+# the points in progress (one in Lua code, one in a C band scan) within 0.2 s, every finished
+# row stays on disk (in the file or the journal), and --resume completes a file
+# byte-identical to an uninterrupted run.
 source "$(dirname "$0")/lib.sh"
 [ -x "$cli_pty" ] || { echo "usage: $0 COLDPREP CLI_PTY (the pty driver is missing)" >&2; exit 1; }
 cd "$tmp" || exit 1
@@ -87,5 +90,40 @@ checks=$((checks + 1))
 grep -q "optimize: stopped after [0-9]* evaluations; best point so far: x = 2, y = 1" script.err ||
   fail CANCEL-5 "the interrupted optimisation's script message lacks the best point: $(cat script.err)"
 
+
+# CANCEL-6: a sweep of 6 points on 2 workers.  With SLOW=1 point 2 spins in Lua and point 5
+# runs a three-minute band scan (allow_long), each for minutes; the others take
+# milliseconds, so after 1.5 s points 1, 3 and 4 are finished (1 in the file, 3 and 4 in
+# the journal, waiting for 2).  Values depend on x only, so SLOW changes no byte.
+cat > slow.lua <<'LUA'
+local slow = os.getenv("SLOW") == "1"
+return {
+  parameters = {{name = "x", values = {1, 2, 3, 4, 5, 6}}},
+  outputs = {"y"},
+  evaluate = function(p)
+    if slow and p.x == 2 then local s = 0 while true do s = s + 1 end end
+    if slow and p.x == 5 then
+      cp.lattice.bands{depth_er = 10, bands = 200, points = 5000, basis = 4001, allow_long = true}
+    end
+    return {y = p.x / 7}
+  end,
+}
+LUA
+"$coldprep" sweep slow.lua --jobs 2 --out ref.csv 2> /dev/null
+run "$cli_pty" -t 30 -- env SLOW=1 "$coldprep" sweep slow.lua --jobs 2 --out cut.csv <<EOF
+sleep 1500
+send \x03
+within 200 stopped by signal 2; continue with --resume
+exit 130
+EOF
+checks=$((checks + 1))
+[ "$rc" = 0 ] || fail CANCEL-6 "the sweep did not stop within 0.2 s of Ctrl-C (see stderr)"
+checks=$((checks + 1))
+[ "$(tail -n +2 cut.csv | wc -l)" = 1 ] && [ "$(wc -l < cut.csv.pending)" = 2 ] ||
+  fail CANCEL-6 "finished rows not on disk: $(cat cut.csv cut.csv.pending 2>&1)"
+"$coldprep" sweep slow.lua --jobs 2 --out cut.csv --resume 2> resume.err
+checks=$((checks + 1))
+cmp -s cut.csv ref.csv && grep -q "recovered 2 finished rows" resume.err ||
+  fail CANCEL-6 "--resume after Ctrl-C differs from an uninterrupted run: $(cat resume.err)"
 
 finish
