@@ -82,6 +82,16 @@ cp_status cp_check_int_range(cp_error *err, const char *context, const char *nam
                    name, value, lo, hi);
 }
 
+cp_status cp_check_work(cp_error *err, const char *ctx, double seconds, double limit,
+                        const char *what, const char *reduce)
+{
+    if (!(limit > 0.0) || isinf(limit) || seconds <= limit)
+        return CP_OK;
+    return cp_fail(err, CP_ETOOLONG, "%s: estimated work %.2g s of CPU (%s) is too long for one "
+                   "call; allowed up to %g s unless asked for; %s", ctx, seconds, what, limit,
+                   reduce);
+}
+
 void cp_poison(double *out, int n)
 {
     for (int i = 0; i < n; i++)

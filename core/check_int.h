@@ -40,6 +40,13 @@ cp_status cp_check_finite(cp_error *err, const char *context, const char *name, 
 cp_status cp_check_int_range(cp_error *err, const char *context, const char *name, long value,
                              long lo, long hi);
 
+/* The house refusal of a call whose estimated CPU time `seconds` exceeds `limit` (> 0; 0 or
+ * +inf: no limit): "<ctx>: estimated work <seconds> s of CPU (<what>) is too long for one
+ * call; allowed up to <limit> s unless asked for; <reduce>", status CP_ETOOLONG.  Returns
+ * CP_OK when within the limit. */
+cp_status cp_check_work(cp_error *err, const char *ctx, double seconds, double limit,
+                        const char *what, const char *reduce);
+
 /* Set *n doubles at out to NaN (poisoning out-parameters before an error return). */
 void cp_poison(double *out, int n);
 

@@ -8,6 +8,15 @@
  * energy; both are the project's own derivation (docs/models/collisions.md: the energy a
  * particle lost at a rate proportional to n^2 carries out of a thermal harmonic cloud).  The two
  * coupled equations are integrated with GSL's Runge-Kutta-Prince-Dormand (8,9) stepper.
+ *
+ * The stepper follows the fastest rate, so a short one-body lifetime over a long hold would
+ * cost duration/lifetime steps.  Once the two-body rate beta <n> is below TAIL_RATIO times
+ * the one-body rate 1/lifetime it only falls further (N decays, T does not drop), and the
+ * rest of the hold is the closed form N = N1 e^{-(t - t1)/lifetime}, T = T1 + heating_rate
+ * (t - t1): the two-body loss it leaves out removes at most a fraction
+ * int beta <n> dt <= (beta <n>)(t1) lifetime <= TAIL_RATIO of the cloud (and heats it by
+ * less than that fraction of T), below the integration's relative tolerance.  So the cost
+ * is bounded whatever the lifetime and duration.
  */
 #include "coldprep/collisions.h"
 
@@ -20,11 +29,22 @@
 #include "collisions_int.h"
 #include "coldprep/consts.h"
 
+#define REL_TOL 1e-10     /* the integration's relative tolerance */
+#define TAIL_RATIO 1e-12  /* two-body / one-body rate below which the closed form takes over */
+
 typedef struct hold_ctx {
     const cp_hold_params *p;
     double density_coef; /* <n> = density_coef N T^{-3/2} */
     const cp_cancel_flag *cancel;
 } hold_ctx;
+
+/* The two-body loss rate beta <n> (1/s) at N = n, T = temp. */
+static double two_body_rate(const hold_ctx *c, double n, double temp)
+{
+    const cp_hold_params *p = c->p;
+    double beta = p->rate * (p->wave == CP_LOSS_P_WAVE ? temp / p->temperature : 1.0);
+    return beta * c->density_coef * n / (temp * sqrt(temp));
+}
 
 static int hold_rhs(double t, const double y[], double dydt[], void *params)
 {
@@ -36,8 +56,7 @@ static int hold_rhs(double t, const double y[], double dydt[], void *params)
     double n = y[0], temp = y[1];
     if (!(n > 0.0 && temp > 0.0))
         return GSL_EDOM;
-    double beta = p->rate * (p->wave == CP_LOSS_P_WAVE ? temp / p->temperature : 1.0);
-    double gamma2 = beta * c->density_coef * n / (temp * sqrt(temp)); /* beta <n>, 1/s */
+    double gamma2 = two_body_rate(c, n, temp);
     double gamma1 = isinf(p->lifetime) ? 0.0 : 1.0 / p->lifetime;
     double h = p->anti_evaporation ? (p->wave == CP_LOSS_P_WAVE ? 1.0 / 12.0 : 0.25) : 0.0;
     dydt[0] = -(gamma2 + gamma1) * n;
@@ -85,17 +104,25 @@ cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points,
     hold_ctx c = {p, pow(p->mass * wbar * wbar / (4.0 * CP_PI * CP_KB), 1.5), cancel};
     gsl_odeiv2_system sys = {hold_rhs, NULL, 2, &c};
     gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd,
-                                                         p->duration * 1e-6, 0.0, 1e-10);
+                                                         p->duration * 1e-6, 0.0, REL_TOL);
     if (!d)
         return cp_fail(err, CP_ENOMEM, "collisions.hold: cannot allocate the ODE driver");
     double y[2] = {p->number, p->temperature}, t = 0.0;
+    double gamma1 = isinf(p->lifetime) ? 0.0 : 1.0 / p->lifetime;
+    int tail = 0; /* the closed form has taken over from time t */
     cp_status result = CP_OK;
     times[0] = 0.0;
     numbers[0] = y[0];
     temperatures[0] = y[1];
     for (size_t i = 1; i < points; i++) {
         double ti = p->duration * (double)i / (double)(points - 1);
-        int status = gsl_odeiv2_driver_apply(d, &t, ti, y);
+        int status = GSL_SUCCESS;
+        /* the steps gsl_odeiv2_driver_apply would take, watching for the one-body tail */
+        while (!tail && t < ti && status == GSL_SUCCESS) {
+            tail = gamma1 > 0.0 && two_body_rate(&c, y[0], y[1]) < TAIL_RATIO * gamma1;
+            if (!tail)
+                status = gsl_odeiv2_evolve_apply(d->e, d->c, d->s, &sys, &t, ti, &d->h, y);
+        }
         if (status != GSL_SUCCESS && cancel && *cancel) {
             result = cp_fail(err, CP_ECANCELED, "collisions.hold: interrupted at t = %g s of "
                              "%g s", t, p->duration);
@@ -107,8 +134,8 @@ cp_status cp_collisions_hold_cancellable(const cp_hold_params *p, size_t points,
             break;
         }
         times[i] = ti;
-        numbers[i] = y[0];
-        temperatures[i] = y[1];
+        numbers[i] = tail ? y[0] * exp(-(ti - t) * gamma1) : y[0];
+        temperatures[i] = tail ? y[1] + p->heating_rate * (ti - t) : y[1];
     }
     gsl_odeiv2_driver_free(d);
     if (result != CP_OK)

@@ -15,6 +15,7 @@
  * basis and against GSL's Mathieu characteristic values.
  */
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 
 #include "check_int.h"
@@ -115,7 +116,8 @@ static int compare_q(const void *a, const void *b)
  * close, so the seeded iteration converges in a few steps.  Results go to the caller's
  * positions. */
 static cp_status solve(double depth_er, int bands, int size, size_t nq, const double *qs,
-                       double *energies, cp_error *err, const char *ctx)
+                       double *energies, const cp_cancel_flag *cancel, cp_error *err,
+                       const char *ctx)
 {
     double *diag = malloc(((size_t)size + 4 * ((size_t)bands + 1)) * sizeof *diag);
     q_order *order = malloc(nq * sizeof *order);
@@ -128,11 +130,16 @@ static cp_status solve(double depth_er, int bands, int size, size_t nq, const do
         order[i] = (q_order){cp_lattice_fold_q(qs[i]), i};
     qsort(order, nq, sizeof *order, compare_q);
     double *work = diag + size;
-    cp_tridiag t = {size, diag, -0.25 * depth_er, -0.25 * depth_er};
+    cp_tridiag t = {size, diag, -0.25 * depth_er, -0.25 * depth_er, cancel};
     const double *x1 = NULL, *x2 = NULL; /* the two previous solutions */
     double qprev = NAN, qprev2 = NAN;
     cp_status st = CP_OK;
-    for (size_t k = 0; k < nq && st == CP_OK; k++) {
+    size_t k = 0;
+    for (; k < nq && st == CP_OK; k++) {
+        if (cancel && *cancel) {
+            st = CP_ECANCELED;
+            break;
+        }
         double q = order[k].q;
         double *x = energies + order[k].i * (size_t)bands;
         int guess = k > 0;
@@ -152,6 +159,8 @@ static cp_status solve(double depth_er, int bands, int size, size_t nq, const do
     }
     free(order);
     free(diag);
+    if (st == CP_ECANCELED)
+        return cp_fail(err, st, "%s: interrupted after %zu of %zu quasimomenta", ctx, k, nq);
     if (st != CP_OK)
         return cp_fail(err, st, "%s: eigenvalue iteration did not converge at depth %.6g E_r",
                        ctx, depth_er);
@@ -162,6 +171,23 @@ cp_status cp_lattice_band_energies(double depth_er, int bands, int basis_size, s
                                    const double *quasimomenta, double *energies_er,
                                    int *basis_used, cp_error *err)
 {
+    return cp_lattice_band_energies_bounded(depth_er, bands, basis_size, nq, quasimomenta,
+                                            energies_er, basis_used, NULL, INFINITY, err);
+}
+
+/* CPU seconds of one quasimomentum: a few Sturm counts of the size-state basis per band
+ * for the seeded Newton steps, and bisection that grows as bands^2 where the seeds fail
+ * (crowded high bands); fitted to 1 to 200 bands, sizes 23 to 4001 (docs/api/lattice.md) */
+static double seconds_per_q(int size, int bands)
+{
+    return 2e-7 + (double)size * (3e-8 + 2.3e-10 * (double)bands * (double)bands);
+}
+
+cp_status cp_lattice_band_energies_bounded(double depth_er, int bands, int basis_size, size_t nq,
+                                           const double *quasimomenta, double *energies_er,
+                                           int *basis_used, const cp_cancel_flag *cancel,
+                                           double max_seconds, cp_error *err)
+{
     int size = 0;
     cp_status st = CP_OK;
     if (basis_used)
@@ -171,10 +197,22 @@ cp_status cp_lattice_band_energies(double depth_er, int bands, int basis_size, s
                        CTX_BANDS);
     for (size_t i = 0; i < nq && st == CP_OK; i++)
         st = cp_check_finite(err, CTX_BANDS, "quasimomentum", quasimomenta[i], "k");
+    if (st == CP_OK && !(max_seconds > 0.0))
+        st = cp_fail(err, CP_EINVAL, "%s: work limit %g s is not positive; allowed (0, inf] s",
+                     CTX_BANDS, max_seconds);
     if (st == CP_OK)
         st = prepare(CTX_BANDS, depth_er, bands, basis_size, &size, err);
+    if (st == CP_OK) {
+        double per_q = seconds_per_q(size, bands);
+        char what[96], reduce[96];
+        snprintf(what, sizeof what, "%zu quasimomenta x %d bands in a %d-state basis", nq, bands,
+                 size);
+        snprintf(reduce, sizeof reduce, "ask for at most %.0f quasimomenta (or fewer bands)",
+                 floor(max_seconds / per_q));
+        st = cp_check_work(err, CTX_BANDS, per_q * (double)nq, max_seconds, what, reduce);
+    }
     if (st == CP_OK)
-        st = solve(depth_er, bands, size, nq, quasimomenta, energies_er, err, CTX_BANDS);
+        st = solve(depth_er, bands, size, nq, quasimomenta, energies_er, cancel, err, CTX_BANDS);
     if (st != CP_OK) {
         if (energies_er && bands > 0 && bands <= CP_LATTICE_MAX_BANDS)
             for (size_t i = 0; i < nq; i++)
@@ -209,10 +247,10 @@ cp_status cp_lattice_band_summary_compute(double depth_er, cp_lattice_band_summa
                         (bands > 1 && !summary->gap_er)))
         st = cp_fail(err, CP_EINVAL, "%s: an output array is missing", CTX_SUMMARY);
     if (st == CP_OK) {
-        st = solve(depth_er, bands, size, 1, (const double[]){0.0}, summary->center_er, err,
-                   CTX_SUMMARY);
+        st = solve(depth_er, bands, size, 1, (const double[]){0.0}, summary->center_er, NULL,
+                   err, CTX_SUMMARY);
         if (st == CP_OK)
-            st = solve(depth_er, bands, size, 1, (const double[]){1.0}, summary->edge_er,
+            st = solve(depth_er, bands, size, 1, (const double[]){1.0}, summary->edge_er, NULL,
                        err, CTX_SUMMARY);
     }
     if (st != CP_OK) {
@@ -276,7 +314,7 @@ cp_status cp_lattice_tunnelling(double depth_er, int band, double *j1_er, double
         size_t nq = 0;
         for (int j = first; j <= n; j += step)
             q[nq++] = (double)j / n;
-        st = solve(depth_er, bands, size, nq, q, energies, err, CTX_TUNNEL);
+        st = solve(depth_er, bands, size, nq, q, energies, NULL, err, CTX_TUNNEL);
         if (st != CP_OK)
             break;
         nq = 0;

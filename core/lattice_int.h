@@ -15,6 +15,7 @@ typedef struct cp_tridiag {
     const double *diag;
     double off;
     double off_first;
+    const cp_cancel_flag *cancel; /* polled before each eigenvalue's bisection (may be NULL) */
 } cp_tridiag;
 
 /* Number of eigenvalues of t strictly below x (Sturm sequence count). */
@@ -25,7 +26,8 @@ int cp_tridiag_count(const cp_tridiag *t, double x);
  * iteration and accepted only if a Sturm count proves each is the right eigenvalue;
  * otherwise (or when that proof fails) each eigenvalue is isolated by bisection and then
  * refined by a bracketed Newton iteration.  work: 4 * (m + 1) doubles.  Accuracy:
- * 2e-14 (1 + |x|).  CP_ENOCONV if an iteration does not finish (not expected). */
+ * 2e-14 (1 + |x|).  CP_ENOCONV if an iteration does not finish (not expected);
+ * CP_ECANCELED once *t->cancel is set. */
 cp_status cp_tridiag_lowest(const cp_tridiag *t, int m, int have_guess, double *x,
                             double *work);
 

@@ -129,7 +129,7 @@ static cp_status solve_sample(solver *s, double depth, sample_state *out)
     int n = s->size;
     for (int l = 0; l < n; l++)
         s->diag[l] = 4.0 * l * l + 0.5 * depth;
-    cp_tridiag t = {n, s->diag, -0.25 * depth, -0.25 * SQRT2 * depth};
+    cp_tridiag t = {n, s->diag, -0.25 * depth, -0.25 * SQRT2 * depth, NULL};
     double x[NEVEN];
     for (int k = 0; k < NEVEN; k++)
         x[k] = out->energy[k];

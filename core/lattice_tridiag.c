@@ -195,6 +195,8 @@ cp_status cp_tridiag_lowest(const cp_tridiag *t, int m, int have_guess, double *
     ghi += tolerance(ghi);
     double lo = glo;
     for (int k = 0; k < m; k++) {
+        if (t->cancel && *t->cancel)
+            return CP_ECANCELED;
         cp_status st = isolate_and_refine(t, k, lo, ghi, &x[k]);
         if (st != CP_OK)
             return st;

@@ -50,7 +50,7 @@ cp_status cp_lattice_site(double depth_er, double probe_ratio, double *hbar_omeg
 static int kohn_coefficients(double depth_er, int band, int size, double *coef, double *diag,
                              double *work)
 {
-    cp_tridiag t = {size, diag, -0.25 * depth_er, -0.25 * depth_er};
+    cp_tridiag t = {size, diag, -0.25 * depth_er, -0.25 * depth_er, NULL};
     double x[WANNIER_MAX_BAND + 1];
     int half = size / 2;
     for (int j = 0; j < WANNIER_Q; j++) {

@@ -19,6 +19,7 @@ const char *cp_strerror(cp_status status)
     case CP_ENOMEM: return "out of memory";
     case CP_ENUMERIC: return "numerical failure";
     case CP_ECANCELED: return "cancelled";
+    case CP_ETOOLONG: return "estimated work too long";
     }
     return "unknown status";
 }

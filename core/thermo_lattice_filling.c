@@ -15,9 +15,14 @@
  * hold the N particles.  Orbitals more than TAIL_START k_B T above mu_local enter through
  * precomputed sums S1 = sum m e^{-beta e}, S2 = sum m e^{-2 beta e} over them:
  * ln(1 -+ zeta) = -+zeta - zeta^2/2 and zeta/(1 -+ zeta) = zeta +- zeta^2 to
- * O(zeta^3) < e^{-24} relative.
+ * O(zeta^3) < e^{-24} relative.  For fermions, orbitals more than DEEP k_B T below mu_local
+ * are full: ln(1 + zeta) = ln zeta + 1/zeta and zeta/(1 + zeta) = 1 - 1/zeta, and dropping
+ * the 1/zeta < e^{-40} terms leaves prefix sums over those orbitals (of m, m (e - e_0) and
+ * ln sum m e^{-beta(e - e_0)}), so a site costs only the orbitals within a few k_B T of
+ * mu_local, not all of them (a squeezed cloud with every band filled has tens of thousands).
  */
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 
 #include "check_int.h"
@@ -28,6 +33,8 @@
 #define TAIL_START 8.0       /* orbitals this many k_B T above mu_local: second-order series */
 #define TAIL 50.0             /* u beyond max(mu - e_0, 0)/k_B T + TAIL is left out */
 #define MAX_OCCUPATION 100000 /* largest n summed for the lowest bosonic orbital */
+#define DEEP 40.0             /* fermion orbitals this many k_B T below mu_local: full */
+#define COST_TERM 1.5e-8      /* CPU seconds per term of a site sum (exp, log1p; measured) */
 
 typedef struct orbital {
     double e; /* J, from the lattice potential minimum */
@@ -37,10 +44,21 @@ typedef struct orbital {
 typedef struct filling_ctx {
     orbital *orb;
     double *s1, *s2; /* suffix sums over orbitals k.. of m e^{-beta(e - e_0)}, squared */
+    /* prefix sums over orbitals 1..k-1 (fermions): of m, of m beta (e - e_0), and
+     * ln sum m e^{-beta (e - e_0)} (-inf for none) */
+    double *pm, *pe, *pl;
     size_t count;
     cp_statistics stat;
     double kt, amp, onsite_u;
+    double terms, max_terms; /* terms of the site sums so far, and the bound on them */
+    const cp_cancel_flag *cancel;
 } filling_ctx;
+
+/* Whether the site sums must stop: their bound passed, or the caller's flag set. */
+static int stopped(const filling_ctx *c)
+{
+    return c->terms > c->max_terms || (c->cancel && *c->cancel);
+}
 
 typedef struct site_stats {
     double p0, p1, nbar;
@@ -61,8 +79,9 @@ static double log_add(double x, double y)
 }
 
 /* The lowest bosonic orbital with the on-site energy U n (n-1)/2 at a = beta (mu_l - e0):
- * ln Z0 and the mean occupation; NaN when the sum does not settle. */
-static void hubbard_orbital(double a, double bu, double *log_z, double *nbar)
+ * ln Z0 and the mean occupation; NaN when the sum does not settle.  Adds the number of
+ * terms summed to *terms. */
+static void hubbard_orbital(double a, double bu, double *log_z, double *nbar, double *terms)
 {
     if (isinf(bu)) { /* hard-core: 0 or 1 */
         *log_z = softplus(a);
@@ -78,9 +97,12 @@ static void hubbard_orbital(double a, double bu, double *log_z, double *nbar)
         double t = dn * a - bu * dn * (dn - 1.0) / 2.0 - tmax;
         z += exp(t);
         nz += dn * exp(t);
-        if (n > peak && t < -40.0)
+        if (n > peak && t < -40.0) {
+            *terms += dn;
             break;
+        }
         if (n > MAX_OCCUPATION) {
+            *terms += dn;
             *log_z = *nbar = NAN;
             return;
         }
@@ -89,8 +111,22 @@ static void hubbard_orbital(double a, double bu, double *log_z, double *nbar)
     *nbar = nz / z;
 }
 
+/* The first orbital k >= 1 more than `above` k_B T above mu_l (count if none; sorted). */
+static size_t first_above(const filling_ctx *c, double mu_l, double above)
+{
+    size_t lo = 1, hi = c->count;
+    while (lo < hi) {
+        size_t mid = lo + (hi - lo) / 2;
+        if ((c->orb[mid].e - mu_l) / c->kt > above)
+            hi = mid;
+        else
+            lo = mid + 1;
+    }
+    return lo;
+}
+
 /* Occupation probabilities of one site at local chemical potential mu_l. */
-static site_stats site_at(const filling_ctx *c, double mu_l)
+static site_stats site_at(filling_ctx *c, double mu_l)
 {
     site_stats s;
     double beta = 1.0 / c->kt;
@@ -101,20 +137,23 @@ static site_stats site_at(const filling_ctx *c, double mu_l)
         n = 1.0 / (1.0 + exp(-a0));
     } else {
         double log_z;
-        hubbard_orbital(a0, beta * c->onsite_u, &log_z, &n);
+        hubbard_orbital(a0, beta * c->onsite_u, &log_z, &n, &c->terms);
         log_p0 = -log_z;
     }
     double log_r = a0; /* ln sum_k m_k zeta_k: P1 = P0 sum_k m_k zeta_k */
     /* the first orbital more than TAIL_START k_B T above mu_l (bisection; sorted) */
-    size_t lo = 1, hi = c->count;
-    while (lo < hi) {
-        size_t mid = lo + (hi - lo) / 2;
-        if (beta * (c->orb[mid].e - mu_l) > TAIL_START)
-            hi = mid;
-        else
-            lo = mid + 1;
+    size_t lo = first_above(c, mu_l, TAIL_START), first = 1;
+    if (c->stat == CP_FERMION) {
+        /* orbitals 1 .. first-1 lie more than DEEP k_B T below mu_l: full */
+        first = first_above(c, mu_l, -DEEP);
+        if (first > 1) {
+            log_p0 -= c->pm[first] * a0 - c->pe[first];
+            n += c->pm[first];
+            log_r = log_add(log_r, a0 + c->pl[first]);
+        }
     }
-    for (size_t k = 1; k < lo; k++) {
+    c->terms += (double)(lo - first) + 1.0;
+    for (size_t k = first; k < lo; k++) {
         double a = beta * (mu_l - c->orb[k].e), m = c->orb[k].m;
         if (c->stat == CP_FERMION) {
             log_p0 -= m * softplus(a);
@@ -143,8 +182,9 @@ static site_stats site_at(const filling_ctx *c, double mu_l)
 }
 
 /* Sums over the sites (LDA, Simpson in t = sqrt(u)) of 1 - P0, P1 and n at log-fugacity
- * x = (mu - e_0)/k_B T. */
-static void lda_sums(const filling_ctx *c, double x, double sums[3])
+ * x = (mu - e_0)/k_B T.  NaN once stopped (the terms summed beyond their bound, or
+ * cancelled). */
+static void lda_sums(filling_ctx *c, double x, double sums[3])
 {
     double tmax = sqrt(fmax(x, 0.0) + TAIL), h = tmax / SIMPSON_INTERVALS;
     double mu = c->orb[0].e + x * c->kt;
@@ -152,6 +192,10 @@ static void lda_sums(const filling_ctx *c, double x, double sums[3])
     for (int i = 0; i <= SIMPSON_INTERVALS; i++) {
         double t = i * h;
         double w = (i == 0 || i == SIMPSON_INTERVALS) ? 1.0 : (i % 2 ? 4.0 : 2.0);
+        if (stopped(c)) {
+            sums[0] = sums[1] = sums[2] = NAN;
+            return;
+        }
         site_stats s = site_at(c, mu - t * t * c->kt);
         double f = w * 2.0 * t * t;
         sums[0] += f * (1.0 - s.p0);
@@ -222,6 +266,19 @@ static cp_status make_orbitals(const cp_thermo_lattice *lat, filling_ctx *c, cp_
         c->s1[i] = c->s1[i + 1] + c->orb[i].m * b;
         c->s2[i] = c->s2[i + 1] + c->orb[i].m * b * b;
     }
+    c->pm = malloc(3 * (m + 1) * sizeof *c->pm);
+    if (!c->pm)
+        return cp_fail(err, CP_ENOMEM, "thermo.lattice_filling: cannot allocate %zu sums", m);
+    c->pe = c->pm + m + 1;
+    c->pl = c->pe + m + 1;
+    c->pm[1] = c->pe[1] = 0.0;
+    c->pl[1] = -INFINITY;
+    for (size_t i = 1; i < m; i++) {
+        double x = (c->orb[i].e - c->orb[0].e) / c->kt;
+        c->pm[i + 1] = c->pm[i] + c->orb[i].m;
+        c->pe[i + 1] = c->pe[i] + c->orb[i].m * x;
+        c->pl[i + 1] = log_add(c->pl[i], log(c->orb[i].m) - x);
+    }
     return CP_OK;
 }
 
@@ -267,6 +324,34 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
                                     cp_statistics stat, double temperature, double onsite_u,
                                     cp_thermo_filling_result *out, cp_error *err)
 {
+    return cp_thermo_lattice_filling_bounded(lat, trap, stat, temperature, onsite_u, NULL,
+                                             INFINITY, out, err);
+}
+
+/* The refusal once the site sums have outgrown their bound. */
+static cp_status too_long(const filling_ctx *c, double max_seconds, cp_error *err)
+{
+    char what[160], reduce[160];
+    if (c->stat == CP_BOSON) {
+        snprintf(what, sizeof what, "over %.3g terms of the site sums: bosons with onsite_u "
+                 "%.3g J = %.3g k_B T", c->terms, c->onsite_u, c->onsite_u / c->kt);
+        snprintf(reduce, sizeof reduce, "a larger onsite_u or a higher temperature (the "
+                 "occupation sums grow as k_B T / onsite_u)");
+    } else {
+        snprintf(what, sizeof what, "over %.3g terms of the site sums over %zu orbitals",
+                 c->terms, c->count);
+        snprintf(reduce, sizeof reduce, "fewer bands");
+    }
+    return cp_check_work(err, "thermo.lattice_filling", c->terms * COST_TERM, max_seconds, what,
+                         reduce);
+}
+
+cp_status cp_thermo_lattice_filling_bounded(const cp_thermo_lattice *lat,
+                                            const cp_thermo_trap *trap, cp_statistics stat,
+                                            double temperature, double onsite_u,
+                                            const cp_cancel_flag *cancel, double max_seconds,
+                                            cp_thermo_filling_result *out, cp_error *err)
+{
     const char *ctx = "thermo.lattice_filling";
     if (!out)
         return cp_fail(err, CP_EINVAL, "%s: result is NULL", ctx);
@@ -301,19 +386,31 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
     CP_TRY(cp_check_range(err, ctx, "recoil_energy", lat->recoil_energy, "J", 0.0, 1e-25,
                           CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "spacing", lat->spacing, "m", 0.0, 1e-4, CP_LO_OPEN));
+    if (!(max_seconds > 0.0))
+        return cp_fail(err, CP_EINVAL, "%s: work limit %g s is not positive; allowed (0, inf] s",
+                       ctx, max_seconds);
     double wbar = cbrt(lat->omega_envelope[0] * lat->omega_envelope[1] * lat->omega_envelope[2]);
     double kt = CP_KB * temperature, d = lat->spacing;
-    filling_ctx c = {NULL, NULL, NULL, 0, stat, kt,
+    filling_ctx c = {NULL, NULL, NULL, NULL, NULL, NULL, 0, stat, kt,
                      pow(2.0 * CP_PI * kt / (trap->mass * wbar * wbar), 1.5) / (d * d * d),
-                     stat == CP_FERMION ? INFINITY : onsite_u};
-    double x = NAN;
+                     stat == CP_FERMION ? INFINITY : onsite_u, 0.0,
+                     isinf(max_seconds) ? INFINITY : max_seconds / COST_TERM, cancel};
+    double x = NAN, sums[3];
     cp_status st = make_orbitals(lat, &c, err);
     if (st == CP_OK)
         st = solve_mu(&c, trap->number, &x, err);
-    if (st == CP_OK) {
-        double mu = c.orb[0].e + x * kt, sums[3];
-        site_stats s = site_at(&c, mu);
+    if (st == CP_OK)
         lda_sums(&c, x, sums);
+    if (cancel && *cancel) {
+        filling_poison(out);
+        st = cp_fail(err, CP_ECANCELED, "thermo.lattice_filling: interrupted");
+    } else if (c.terms > c.max_terms) {
+        filling_poison(out);
+        st = too_long(&c, max_seconds, err);
+    }
+    if (st == CP_OK) {
+        double mu = c.orb[0].e + x * kt;
+        site_stats s = site_at(&c, mu);
         out->chemical_potential = mu;
         out->center_empty = s.p0;
         out->center_single = s.p1;
@@ -332,5 +429,6 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
     }
     free(c.orb);
     free(c.s1);
+    free(c.pm);
     return st;
 }

@@ -186,6 +186,16 @@ cp_status cp_feshbach_max_efficiency_cancellable(const cp_feshbach_cloud *a,
                                                  double *std_error, const cp_cancel_flag *cancel,
                                                  cp_error *err);
 
+/* cp_feshbach_max_efficiency_cancellable with a work estimate: when opts->samples times the
+ * cost of a sample (measured on a 2020s desktop core: docs/api/feshbach.md) exceeds
+ * max_seconds of CPU (> 0; +inf: no limit), nothing is sampled and CP_ETOOLONG is returned,
+ * its message giving the estimate and the samples that would fit. */
+cp_status cp_feshbach_max_efficiency_bounded(const cp_feshbach_cloud *a, const cp_feshbach_cloud *b,
+                                             double temperature, const cp_feshbach_spss *opts,
+                                             double *p_max, double *std_error,
+                                             const cp_cancel_flag *cancel, double max_seconds,
+                                             cp_error *err);
+
 /* Dissociation by a ramp at rate ramp_rate (T/s) up across the resonance: the quasi-bound
  * molecule decays at Gamma(E)/hbar with Gamma(E) = 2 k abg dmu width; survival
  * exp(-(E/eps)^(3/2)) with eps = [3 hbar^2 |Bdot| / (4 |abg width| sqrt(2 mu))]^(2/3); mean

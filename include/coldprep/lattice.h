@@ -167,6 +167,18 @@ cp_status cp_lattice_band_energies(double depth_er, int bands, int basis_size, s
                                    const double *quasimomenta, double *energies_er,
                                    int *basis_used, cp_error *err);
 
+/* cp_lattice_band_energies with a work estimate and cancellation: when the estimated CPU
+ * time, nq x size x (a + b bands^2) seconds (the Sturm counts of a size-state basis per
+ * band, measured on a 2020s desktop core: docs/api/lattice.md), exceeds max_seconds (> 0;
+ * +inf: no limit) nothing is computed and CP_ETOOLONG is returned, its message giving the
+ * estimate and the quasimomenta that would fit; *cancel (may be NULL) is polled before
+ * every quasimomentum, and once it is non-zero CP_ECANCELED is returned.  Energies are NaN
+ * on either. */
+cp_status cp_lattice_band_energies_bounded(double depth_er, int bands, int basis_size, size_t nq,
+                                           const double *quasimomenta, double *energies_er,
+                                           int *basis_used, const cp_cancel_flag *cancel,
+                                           double max_seconds, cp_error *err);
+
 /* Summary of the lowest bands.  Arrays have `bands` entries (gap_er: bands - 1 entries,
  * gap_er[n] between bands n and n + 1, negative if they overlap, which happens only at
  * depth 0 where it is 0). */

@@ -32,4 +32,11 @@
  * nothing in a preparation sequence is faster). */
 #define CP_MIN_DURATION 1e-9
 
+/* The CPU time (s) one call may take without the caller's opt-in: calls whose work estimate
+ * (steps x points x the cost of one, measured on a 2020s desktop core) exceeds it are
+ * refused with CP_ETOOLONG before they start (Lua: unless `allow_long = true`).  One second
+ * keeps an interactive session responsive and a sweep's points short (common practice, no
+ * source). */
+#define CP_WORK_LIMIT_S 1.0
+
 #endif

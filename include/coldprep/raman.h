@@ -146,6 +146,16 @@ cp_status cp_raman_scan_cancellable(const cp_raman_params *p, cp_raman_scan_vari
                                     double *efficiency, double *lost,
                                     const cp_cancel_flag *cancel, cp_error *err);
 
+/* cp_raman_scan_cancellable with a work estimate: the first, middle and last points are
+ * computed first, and when n times the dearest of them (its integrator steps times the
+ * cost of a step, plus the cost of a point) exceeds max_seconds of CPU (> 0; +inf: no
+ * limit) nothing more is computed: the outputs are poisoned and CP_ETOOLONG is returned,
+ * the message giving the estimate and the number of points that would fit. */
+cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable variable,
+                                const double *values, size_t n, int nthreads, double *efficiency,
+                                double *lost, const cp_cancel_flag *cancel, double max_seconds,
+                                cp_error *err);
+
 #ifdef __cplusplus
 }
 #endif

@@ -23,7 +23,8 @@ typedef enum cp_status {
     CP_ENOCONV = 3,   /* an iterative method did not converge */
     CP_ENOMEM = 4,    /* memory allocation failed */
     CP_ENUMERIC = 5,  /* a numerical routine (GSL, ODE, eigen solver) failed */
-    CP_ECANCELED = 6  /* stopped because the caller's cancel flag was set (Ctrl-C) */
+    CP_ECANCELED = 6, /* stopped because the caller's cancel flag was set (Ctrl-C) */
+    CP_ETOOLONG = 7   /* refused before starting: the work estimate exceeds the caller's limit */
 } cp_status;
 
 /* A cancel flag: long computations with a `_cancellable` variant take a pointer to one,

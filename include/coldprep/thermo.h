@@ -269,6 +269,18 @@ cp_status cp_thermo_lattice_filling(const cp_thermo_lattice *lat, const cp_therm
                                     cp_statistics stat, double temperature, double onsite_u,
                                     cp_thermo_filling_result *out, cp_error *err);
 
+/* cp_thermo_lattice_filling with a work bound: the site sums count their terms (orbitals
+ * near the local chemical potential, occupation numbers of the lowest bosonic orbital),
+ * and once their cost (measured on a 2020s desktop core: docs/api/thermo.md) exceeds
+ * max_seconds of CPU (> 0; +inf: no limit) the call stops with CP_ETOOLONG, saying what
+ * drives the cost (a bosonic onsite_u far below k_B T).  *cancel (may be NULL) is polled
+ * at every site: once it is non-zero CP_ECANCELED is returned.  Outputs are NaN on either. */
+cp_status cp_thermo_lattice_filling_bounded(const cp_thermo_lattice *lat,
+                                            const cp_thermo_trap *trap, cp_statistics stat,
+                                            double temperature, double onsite_u,
+                                            const cp_cancel_flag *cancel, double max_seconds,
+                                            cp_thermo_filling_result *out, cp_error *err);
+
 #ifdef __cplusplus
 }
 #endif

@@ -24,7 +24,15 @@ int cpl_error(lua_State *L, const char *fname, const char *fmt, ...)
 
 int cpl_raise(lua_State *L, const cp_error *err)
 {
+    if (err->status == CP_ETOOLONG)
+        return luaL_error(L, "%s; or pass allow_long = true to run it anyway (Ctrl-C stops it)",
+                          err->message);
     return luaL_error(L, "%s", err->message);
+}
+
+double cpl_work_limit(lua_State *L, int arg, const char *fname)
+{
+    return cpl_opt_boolean(L, arg, fname, "allow_long", 0) ? INFINITY : CP_WORK_LIMIT_S;
 }
 
 /* A non-finite number as text, one spelling on every platform ("NaN", "inf", "-inf"). */

@@ -69,14 +69,26 @@ int cpl_is_reals_field(lua_State *L, int arg, const char *key);
 void cpl_trap_frequencies(lua_State *L, int arg, const char *fname, const char *bar_key,
                           const char *const axes[3], double omega[3]);
 
-/* Raise err->message as a Lua error (never returns). */
+/* Raise err->message as a Lua error (never returns); a refusal by work estimate
+ * (CP_ETOOLONG) gets the opt-in appended: "; or pass allow_long = true ...". */
 int cpl_raise(lua_State *L, const cp_error *err);
+
+/* The work limit of a call whose argument table at `arg` may say allow_long = true:
+ * CP_WORK_LIMIT_S seconds of CPU, or +inf when allowed.  The key must be among the
+ * function's known keys. */
+double cpl_work_limit(lua_State *L, int arg, const char *fname);
 
 /* The cancel flag the host program registered for this state (the coldprep executable
  * registers the one its Ctrl-C handler sets), or NULL: long computations pass it to the
  * core's _cancellable functions.  The host stores a light userdata under the registry
  * key CPL_CANCEL_KEY. */
 #define CPL_CANCEL_KEY "coldprep.cancel"
+
+/* A note a computation stopped by Ctrl-C leaves for the host (a string under this registry
+ * key: an optimisation's best point so far).  The coldprep executable appends it to the
+ * "interrupted" error that reaches the session or script, and clears it once the
+ * interruption is over. */
+#define CPL_INTERRUPT_NOTE_KEY "coldprep.interrupt_note"
 const cp_cancel_flag *cpl_cancel_flag(lua_State *L);
 
 /* Raise a formatted error prefixed with "fname: " (never returns). */

@@ -24,7 +24,7 @@ int cpl_open_consts(lua_State *L)
     for (size_t i = 0; i < sizeof table / sizeof table[0]; i++)
         cpl_set_number(L, table[i].name, table[i].value);
     /* consts.limits: the shared input limits of coldprep/limits.h, for the Lua library */
-    lua_createtable(L, 0, 7);
+    lua_createtable(L, 0, 9);
     cpl_set_number(L, "min_beam_power", CP_MIN_BEAM_POWER);
     cpl_set_number(L, "max_beam_power", CP_MAX_BEAM_POWER);
     cpl_set_number(L, "min_c6_au", CP_MIN_C6_AU);
@@ -33,6 +33,7 @@ int cpl_open_consts(lua_State *L)
     cpl_set_number(L, "max_temperature", CP_MAX_TEMPERATURE);
     cpl_set_number(L, "min_trap_omega", CP_MIN_TRAP_OMEGA);
     cpl_set_number(L, "max_trap_omega", CP_MAX_TRAP_OMEGA);
+    cpl_set_number(L, "work_seconds", CP_WORK_LIMIT_S);
     lua_setfield(L, -2, "limits");
     return 1;
 }

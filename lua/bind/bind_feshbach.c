@@ -421,7 +421,7 @@ static int l_max_efficiency(lua_State *L)
 {
     static const char fname[] = "feshbach.max_efficiency";
     static const char *const known[] = {"a", "b", "temperature", "gamma", "samples", "seed",
-                                        "sag", NULL};
+                                        "sag", "allow_long", NULL};
     cp_feshbach_cloud a, b;
     cp_feshbach_spss opts;
     cp_error err;
@@ -440,8 +440,8 @@ static int l_max_efficiency(lua_State *L)
     cloud_key(&a, key + 6);
     cloud_key(&b, key + 6 + CLOUD_KEY);
     if (!cpl_memo_get(L, key, sizeof key / sizeof key[0], res, 2)) {
-        if (cp_feshbach_max_efficiency_cancellable(&a, &b, temp, &opts, &p, &se,
-                                                   cpl_cancel_flag(L), &err))
+        if (cp_feshbach_max_efficiency_bounded(&a, &b, temp, &opts, &p, &se, cpl_cancel_flag(L),
+                                               cpl_work_limit(L, 1, fname), &err))
             return cpl_raise(L, &err);
         res[0] = p;
         res[1] = se;
@@ -541,7 +541,8 @@ static const cpl_function functions[] = {
      "  cp.feshbach.overlap_density{a = c, b = c, temperature = 300e-9}.density"},
     {"max_efficiency", l_max_efficiency,
      "feshbach.max_efficiency{a = cloud, b = cloud, temperature (K) [, gamma = 0.38,\n"
-     "  samples = 20000, seed = 1, sag = true]} -> {max_efficiency, std_error}\n"
+     "  samples = 20000, seed = 1, sag = true, allow_long = false]} -> {max_efficiency,\n"
+     "  std_error}; more samples than 1 s of CPU (about 4e6) need allow_long = true\n"
      "Phase-space ceiling P_max of association (stochastic phase-space sampling, Hodby et\n"
      "al. 2005): fraction of the minority cloud b that finds a partner of cloud a within a\n"
      "relative phase-space cell gamma h^3.  Clouds as in overlap_density ('thermal', 'fermi'\n"

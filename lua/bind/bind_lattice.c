@@ -213,7 +213,7 @@ static int l_depth3d(lua_State *L)
 static int l_bands(lua_State *L)
 {
     static const char *const keys[] = {"depth_er", "bands", "quasimomenta", "points", "basis",
-                                       NULL};
+                                       "allow_long", NULL};
     const char *fname = "lattice.bands";
     cpl_check_args(L, 1, fname, keys);
     double depth = cpl_number(L, 1, fname, "depth_er", "E_r");
@@ -243,7 +243,8 @@ static int l_bands(lua_State *L)
     double *e = scratch(L, nq * (size_t)nb);
     int used;
     cp_error err;
-    if (cp_lattice_band_energies(depth, nb, basis, nq, q, e, &used, &err) != CP_OK)
+    if (cp_lattice_band_energies_bounded(depth, nb, basis, nq, q, e, &used, cpl_cancel_flag(L),
+                                         cpl_work_limit(L, 1, fname), &err) != CP_OK)
         return cpl_raise(L, &err);
     double centre[CP_LATTICE_MAX_BANDS], edge[CP_LATTICE_MAX_BANDS],
         width[CP_LATTICE_MAX_BANDS], gap[CP_LATTICE_MAX_BANDS];
@@ -571,12 +572,13 @@ static const cpl_function functions[] = {
      "  wavelength = 1064*u.nm, polarizability_au = 1000}\n"
      "  cp.lattice.depth3d{beams = {b, b, b}, mass = cp.species.molecule('KRb').mass}"},
     {"bands", l_bands,
-     "lattice.bands{depth_er, bands [, quasimomenta = {...} | points = 51] [, basis = 0]}\n"
+     "lattice.bands{depth_er, bands [, quasimomenta = {...} | points = 51] [, basis = 0]\n"
+     "              [, allow_long = false]}\n"
      "Band structure of V0 sin^2(kx) with V0 = depth_er E_r (0..1e4): the lowest `bands`\n"
      "bands (1..200) at the given quasimomenta (units of k; zone = [-1, 1]) or at `points`\n"
      "evenly spaced across the zone (at most 2e6 energies).  Energies in E_r from the\n"
      "potential minimum, converged to 1e-10 E_r with an automatic plane-wave basis (or\n"
-     "`basis`, odd).\n"
+     "`basis`, odd).  A scan estimated beyond 1 s of CPU is refused unless allow_long = true.\n"
      "Returns {width_er = {...}, gap_er = {...} (gap_er[n]: bands n, n+1), edges_er =\n"
      "{{E(0), E(1)}, ...}, energies_er = {[i] = {band 1, band 2, ...}}, quasimomenta,\n"
      "tunnelling_er (J of band 1: -(1/pi) int_0^pi E cos(theta) dtheta), tunnelling2_er\n"

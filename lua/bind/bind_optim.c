@@ -4,12 +4,20 @@
  * runs under lua_pcall: an error in it never long-jumps across GSL's frames.  The minimiser
  * and its vectors are freed before any error is raised.  Bounds, constraints and the
  * user-facing named parameters are handled by lua/coldprep/optimize.lua (cp.optimize).
+ *
+ * Ctrl-C: the program's interruption stops the objective at its next Lua instruction, and
+ * no Lua code can run after it (the interruption is raised again at every instruction), so
+ * the search leaves its best point so far as a note in the registry
+ * (CPL_INTERRUPT_NOTE_KEY) that the program appends to the "interrupted" error: the
+ * simplex's best vertex, or the text the caller keeps in progress.best (cp.optimize keeps
+ * its best point in its own parameters and merit there).
  */
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_multimin.h>
 #include <lauxlib.h>
 #include <lua.h>
 #include <math.h>
+#include <stdio.h>
 
 #include "args.h"
 #include "help.h"
@@ -67,10 +75,43 @@ static double gsl_objective(const gsl_vector *x, void *params)
     return v;
 }
 
+/* The simplex's best vertex as text "x = {...}, f = ..." in buf (no Lua involved). */
+static void format_vertex(const gsl_vector *x, double fx, char *buf, size_t size)
+{
+    size_t used = (size_t)snprintf(buf, size, "x = {");
+    for (size_t i = 0; i < x->size && used < size; i++)
+        used += (size_t)snprintf(buf + used, size - used, "%s%.10g", i ? ", " : "",
+                                 gsl_vector_get(x, i));
+    if (used < size)
+        snprintf(buf + used, size - used, "}, f = %.10g", fx);
+}
+
+/* Leave the note of an interrupted search in the registry: progress.context and
+ * progress.best when the caller keeps them (read raw: no Lua runs), else `vertex`.  Only
+ * Lua memory is live here. */
+static void leave_note(lua_State *L, int progress, long evaluations, const char *vertex)
+{
+    const char *context = "optim.nmsimplex", *best = vertex;
+    int pushed = 0;
+    if (progress) {
+        lua_pushliteral(L, "context");
+        if (lua_rawget(L, progress) == LUA_TSTRING)
+            context = lua_tostring(L, -1);
+        lua_pushliteral(L, "best");
+        if (lua_rawget(L, progress) == LUA_TSTRING)
+            best = lua_tostring(L, -1);
+        pushed = 2;
+    }
+    lua_pushfstring(L, "%s: stopped after %d evaluations; best point so far: %s", context,
+                    (int)evaluations, best[0] ? best : "none evaluated");
+    lua_setfield(L, LUA_REGISTRYINDEX, CPL_INTERRUPT_NOTE_KEY);
+    lua_pop(L, pushed);
+}
+
 static int l_nmsimplex(lua_State *L)
 {
     static const char *const known[] = {"f", "start", "step", "tolerance", "max_iterations",
-                                        NULL};
+                                        "progress", NULL};
     const char *fname = "optim.nmsimplex";
     cpl_check_args(L, 1, fname, known);
     lua_getfield(L, 1, "f");
@@ -91,6 +132,13 @@ static int l_nmsimplex(lua_State *L)
     if (!(tol > 0))
         return cpl_error(L, fname, "'tolerance' %g is not positive; allowed > 0", tol);
     long max_iter = cpl_opt_integer(L, 1, fname, "max_iterations", 2000, 1, 100000000L);
+    int progress = 0;
+    if (lua_getfield(L, 1, "progress") == LUA_TTABLE)
+        progress = lua_gettop(L);
+    else if (!lua_isnil(L, -1))
+        return cpl_error(L, fname, "argument 'progress' must be a table, got %s",
+                         luaL_typename(L, -1));
+    const cp_cancel_flag *cancel = cpl_cancel_flag(L);
     if (!lua_checkstack(L, 8))
         return luaL_error(L, "%s: Lua stack overflow", fname);
 
@@ -109,7 +157,7 @@ static int l_nmsimplex(lua_State *L)
             gsl_vector_set(ss, i, step[i]);
         }
         status = gsl_multimin_fminimizer_set(s, &func, x, ss);
-        while (status == GSL_SUCCESS && iter < max_iter) {
+        while (status == GSL_SUCCESS && iter < max_iter && !(cancel && *cancel)) {
             iter++;
             status = gsl_multimin_fminimizer_iterate(s);
             if (status != GSL_SUCCESS)
@@ -122,10 +170,22 @@ static int l_nmsimplex(lua_State *L)
         }
     }
     double fx = s ? s->fval : GSL_NAN;
+    int cancelled = cancel && *cancel;
+    char vertex[512] = "";
+    if (cancelled && s && o.evaluations > 0)
+        format_vertex(gsl_multimin_fminimizer_x(s), fx, vertex, sizeof vertex);
     if (s && !o.failed && status == GSL_SUCCESS)
         gsl_vector_memcpy(x, gsl_multimin_fminimizer_x(s));
     gsl_multimin_fminimizer_free(s);
     gsl_vector_free(ss);
+
+    if (cancelled) { /* Ctrl-C: the best point so far for the program's message */
+        gsl_vector_free(x);
+        leave_note(L, progress, o.evaluations, vertex);
+        if (o.failed)
+            return lua_error(L); /* the objective's "interrupted" is on top of the stack */
+        return cpl_error(L, fname, "interrupted after %d evaluations", (int)o.evaluations);
+    }
 
     if (o.failed) {
         gsl_vector_free(x);
@@ -157,7 +217,9 @@ static const cpl_function optim_functions[] = {
      "Minimise f over unbounded coordinates with GSL's Nelder-Mead simplex (nmsimplex2).\n"
      "f receives a list of numbers and must return a finite number.  step: the initial\n"
      "simplex size per coordinate; stops when the simplex's mean size is below tolerance.\n"
-     "Returns {x = {...}, fx, iterations, evaluations, converged, size}.\n"
+     "Returns {x = {...}, fx, iterations, evaluations, converged, size}.  Ctrl-C stops it\n"
+     "with the best vertex so far in the message (progress = {context = s, best = s}: that\n"
+     "text instead, kept current by the objective).\n"
      "For named parameters with bounds and constraints use cp.optimize.\n"
      "Example: cp.optim.nmsimplex{f = function(x) return (x[1]-1)^2 + x[2]^2 end,\n"
      "                            start = {0, 1}, step = {0.5, 0.5}}.x  --> about {1, 0}"},

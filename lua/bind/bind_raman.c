@@ -24,7 +24,7 @@ int cpl_open_raman(lua_State *L);
 static const char *const transfer_keys[] = {PULSE_KEYS, "round_trip", "trace", "estimates",
                                             NULL};
 static const char *const lineshape_keys[] = {PULSE_KEYS, "scan", "values", "from", "to",
-                                             "points", "threads", NULL};
+                                             "points", "threads", "allow_long", NULL};
 static const char *const trace_names[CP_RAMAN_TRACE_COLUMNS] = {
     [CP_RAMAN_TRACE_TIME] = "time",       [CP_RAMAN_TRACE_INITIAL] = "initial",
     [CP_RAMAN_TRACE_EXCITED] = "excited", [CP_RAMAN_TRACE_TARGET] = "target",
@@ -182,9 +182,8 @@ static int l_lineshape(lua_State *L)
     double *eff = as_reals ? cpl_new_reals(L, n) : new_array(L, n);
     double *lost = as_reals ? cpl_new_reals(L, n) : new_array(L, n);
     cp_error err;
-    if (cp_raman_scan_cancellable(&p, (cp_raman_scan_variable)var, values, n, threads, eff,
-                                  lost, cpl_cancel_flag(L), &err) !=
-        CP_OK)
+    if (cp_raman_scan_bounded(&p, (cp_raman_scan_variable)var, values, n, threads, eff, lost,
+                              cpl_cancel_flag(L), cpl_work_limit(L, 1, fname), &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 4);
     cpl_set_string(L, "scan", key);
@@ -249,6 +248,7 @@ static const cpl_function functions[] = {
      "  scan = \"two_photon_detuning\" | \"detuning\"\n"
      "  values = {...} (rad/s)  or  from, to (rad/s), points = 101\n"
      "  threads = 1  (1 to 64)\n"
+     "  allow_long = false  run a scan estimated beyond 1 s of CPU (refused otherwise)\n"
      "Returns {scan, values, efficiency, lost}.\n"
      "Example: cp.raman.lineshape{rabi_pump = 2*math.pi*5e6, rabi_stokes = 2*math.pi*5e6,\n"
      "  width = 2e-6, delay = 2.4e-6, gamma = 2*math.pi*6e6, from = -2*math.pi*200e3,\n"

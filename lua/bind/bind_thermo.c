@@ -371,7 +371,7 @@ static int l_match_lattice(lua_State *L)
 static int l_lattice_filling(lua_State *L)
 {
     static const char *const keys[] = {"number", "mass", "statistics", "temperature",
-                                       "onsite_u", LATTICE_KEYS, NULL};
+                                       "onsite_u", "allow_long", LATTICE_KEYS, NULL};
     const char *fname = "thermo.lattice_filling";
     cpl_check_args(L, 1, fname, keys);
     cp_thermo_trap trap;
@@ -393,7 +393,8 @@ static int l_lattice_filling(lua_State *L)
     cp_thermo_lattice lat;
     lattice_tables(L, &spec, mass, bands, &lat);
     cp_thermo_filling_result f;
-    if (cp_thermo_lattice_filling(&lat, &trap, stat, t, u, &f, &err) != CP_OK)
+    if (cp_thermo_lattice_filling_bounded(&lat, &trap, stat, t, u, cpl_cancel_flag(L),
+                                          cpl_work_limit(L, 1, fname), &f, &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 10);
     cpl_set_number(L, "chemical_potential", f.chemical_potential);
@@ -512,12 +513,13 @@ static const cpl_function functions[] = {
      "1064e-9, envelope_omega_bar = 2*math.pi*60}"},
     {"lattice_filling", l_lattice_filling,
      "thermo.lattice_filling{number, mass, statistics, temperature, depth_er, wavelength, "
-     "envelope_omega_bar [, onsite_u, bands, points, bins]}: site occupation "
+     "envelope_omega_bar [, onsite_u, bands, points, bins, allow_long]}: site occupation "
      "statistics in the atomic limit (tunnelling << k_B T; sites independent, one orbital "
      "per band combination at the band means), envelope in the local-density "
      "approximation.\n"
      "  onsite_u    bosons: Hubbard U of the lowest orbital, J, > 0 (omitted: hard-core);\n"
      "              fermions (one component) ignore it\n"
+     "  allow_long  run sums beyond 1 s of CPU (bosons with U << k_B T; refused otherwise)\n"
      "  the other arguments as thermo.lattice_state (bands omitted: the count it chooses)\n"
      "Returns {chemical_potential (J), center_empty, center_single, center_multiple\n"
      "  (probabilities of 0, 1, 2+ on the central site), center_filling (mean there),\n"

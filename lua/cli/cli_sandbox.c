@@ -6,7 +6,9 @@
  * line, so a pcall in the file cannot swallow the error.  The rules of what the file may
  * reach are Lua's (lua/coldprep/sandbox.lua); this file applies them to a state and loads
  * the untrusted chunk into the environment they build.  The caps cover what Lua
- * allocates and runs, not the memory or time of one C computation of the library.
+ * allocates and runs, not the memory or time of one C computation of the library.  The
+ * hook also raises "interrupted" once the state's cancel flag is set (a sweep worker's
+ * stop signal), the same way.
  */
 #include <lauxlib.h>
 #include <stdio.h>
@@ -14,6 +16,7 @@
 #include <string.h>
 #include <time.h>
 
+#include "args.h"
 #include "cli.h"
 
 static double monotonic(void)
@@ -63,6 +66,11 @@ static void deadline_hook(lua_State *L, lua_Debug *ar)
     void *ud;
     lua_getallocf(L, &ud);
     cpl_sandbox *sb = ud;
+    const cp_cancel_flag *flag = cpl_cancel_flag(L);
+    if (flag && *flag) {
+        lua_sethook(L, deadline_hook, LUA_MASKCOUNT | LUA_MASKLINE, 1);
+        luaL_error(L, "interrupted");
+    }
     if (sb->deadline > 0 && monotonic() > sb->deadline) {
         lua_sethook(L, deadline_hook, LUA_MASKCOUNT | LUA_MASKLINE, 1);
         luaL_error(L, "sandbox: the time limit of %f s was exceeded (--max-time)", sb->max_time);

@@ -132,11 +132,24 @@ static void track_coroutines(lua_State *L)
 }
 
 /* Upvalue 1: whether this is the outermost cpl_pcall.  Only there has an interruption
- * arrived; a nested call's caller must see it again. */
+ * arrived (and the note a stopped computation left, an optimisation's best point, is
+ * appended to its message); a nested call's caller must see it again. */
 static int message_handler(lua_State *L)
 {
-    if (interrupt_pending && lua_toboolean(L, lua_upvalueindex(1)))
+    int outermost = lua_toboolean(L, lua_upvalueindex(1));
+    if (interrupt_pending && outermost) {
         lua_sethook(L, NULL, 0, 0);
+        if (lua_type(L, 1) == LUA_TSTRING &&
+            lua_getfield(L, LUA_REGISTRYINDEX, CPL_INTERRUPT_NOTE_KEY) == LUA_TSTRING) {
+            lua_pushvalue(L, 1);
+            lua_pushliteral(L, "; ");
+            lua_rotate(L, -3, -1); /* message, "; ", note */
+            lua_concat(L, 3);
+            lua_replace(L, 1);
+        } else {
+            lua_pop(L, 1);
+        }
+    }
     const char *msg = lua_tostring(L, 1);
     if (msg == NULL) {
         if (luaL_callmeta(L, 1, "__tostring") && lua_type(L, -1) == LUA_TSTRING)
@@ -176,6 +189,10 @@ int cpl_pcall(lua_State *L, int nargs, int nresults)
     running_state = outer;
     if (outer == NULL) { /* outermost call: the interruption, if any, is over */
         lua_sethook(L, NULL, 0, 0);
+        if (interrupt_pending) {
+            lua_pushnil(L);
+            lua_setfield(L, LUA_REGISTRYINDEX, CPL_INTERRUPT_NOTE_KEY);
+        }
         interrupt_pending = 0;
     }
     lua_remove(L, base);

@@ -3,8 +3,9 @@
  * the command line around the engine of cli_sweep_run.c: options, the slice of points
  * (--shard or the job-array variables of SLURM and SGE), opening the output afresh or
  * after its finished rows (--resume: a torn last row is dropped, the rows the journal
- * PATH.pending kept are recovered), SIGINT/SIGTERM (stop starting points, finish and
- * write the running ones), the summary line and the completion marker PATH.done.
+ * PATH.pending kept are recovered), SIGINT/SIGTERM (stop starting points, stop the running
+ * ones within 0.2 s: the signal is the workers' cancel flag; finished rows stay on disk),
+ * the summary line and the completion marker PATH.done.
  */
 #include <errno.h>
 #include <fcntl.h>

@@ -93,6 +93,7 @@ typedef struct cpl_sweep_run {
     char *batch;
     size_t batch_len, batch_cap;
     int stop, workers_alive;
+    volatile sig_atomic_t *cancel; /* the stop signal: the workers' cancel flag */
     int out_broken;     /* a write to the output failed: nothing more is appended to it */
     int journal_broken; /* likewise for the journal (a torn row there must stay last) */
     pthread_mutex_t mu;
@@ -101,8 +102,11 @@ typedef struct cpl_sweep_run {
 
 /* Compute every point from next_write to last on `jobs` threads (fewer if fewer points
  * remain), appending rows in point order, until done, an error, or *stop_signal becomes
- * non-zero (then the points in progress finish).  Draws a progress bar on stderr when tty.
- * Returns 0, or -1 with r->error. */
+ * non-zero.  *stop_signal is each worker's cancel flag: the points in progress stop within
+ * a few milliseconds (the long C computations poll it, and a count hook raises
+ * "interrupted" in Lua code) and are not written; every finished row is on disk, in the
+ * file or the journal, so --resume completes the run.  Draws a progress bar on stderr when
+ * tty.  Returns 0, or -1 with r->error. */
 int cpl_sweep_execute(cpl_sweep_run *r, long jobs, volatile sig_atomic_t *stop_signal, int tty);
 
 /* Run a sweep file in L (cp.sweep.load) and leave the compiled sweep on the stack; 0, or -1

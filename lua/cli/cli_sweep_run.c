@@ -11,10 +11,18 @@
  * whatever kills the process; --resume reads the journal back.  Every write holds whole
  * rows; the journal is emptied whenever no row waits, compacted when it grows, and removed
  * when the sweep is complete.  All file writes happen under the run's mutex.
+ *
+ * Stopping: the signal the main thread takes (Ctrl-C, SIGTERM) is every worker's cancel
+ * flag, registered in its Lua state as the flag the long C computations poll, and checked
+ * by a count hook every 1000 Lua instructions of a point (raised again at every instruction
+ * so that a pcall in the sweep file cannot swallow it).  No point that ends after the
+ * signal is written (its row may hold a caught "interrupted" as its error); --resume
+ * computes it.
  */
 #include <errno.h>
 #include <fcntl.h>
 #include <inttypes.h>
+#include <stdint.h>
 #include <lauxlib.h>
 #include <lualib.h>
 #include <stdlib.h>
@@ -22,6 +30,7 @@
 #include <time.h>
 #include <unistd.h>
 
+#include "args.h"
 #include "cli.h"
 #include "cli_sweep.h"
 #include "fileio.h"
@@ -283,6 +292,18 @@ static lua_State *worker_state(cpl_sandbox *sb)
     return L;
 }
 
+/* Raises "interrupted" in a point once the run's stop signal has come, and again at every
+ * following instruction (the sandbox's deadline hook checks the flag the same way). */
+static void cancel_hook(lua_State *L, lua_Debug *ar)
+{
+    (void)ar;
+    const cp_cancel_flag *flag = cpl_cancel_flag(L);
+    if (flag && *flag) {
+        lua_sethook(L, cancel_hook, LUA_MASKCOUNT | LUA_MASKLINE, 1);
+        luaL_error(L, "interrupted");
+    }
+}
+
 /* One worker: its own Lua state, then claim, compute and deposit rows until done. */
 static void *worker(void *arg)
 {
@@ -296,6 +317,8 @@ static void *worker(void *arg)
         fail(r, "a worker could not create its Lua state (out of memory?)");
         goto out;
     }
+    lua_pushlightuserdata(L, (void *)(uintptr_t)r->cancel); /* the C computations poll it */
+    lua_setfield(L, LUA_REGISTRYINDEX, CPL_CANCEL_KEY);
     if (sb.on)
         cpl_sandbox_arm(L);
     int loaded = cpl_sweep_load(L, r->file, r->out, r->format);
@@ -324,10 +347,18 @@ static void *worker(void *arg)
         lua_pushvalue(L, row_fn);
         lua_pushinteger(L, i);
         if (sb.on)
-            cpl_sandbox_arm(L); /* the time cap is per point */
+            cpl_sandbox_arm(L); /* the time cap is per point; its hook checks the flag too */
+        else
+            lua_sethook(L, cancel_hook, LUA_MASKCOUNT, 1000);
         int status = lua_pcall(L, 1, 1, 0);
         if (sb.on)
             cpl_sandbox_disarm(L);
+        else
+            lua_sethook(L, NULL, 0, 0);
+        /* stopped by the signal: not written (the sweep file may have caught a C
+         * computation's "interrupted" as the point's error), --resume computes it */
+        if (r->cancel && *r->cancel)
+            break;
         if (status != LUA_OK) {
             snprintf(msg, sizeof msg, "point %" PRId64 ": %s", i,
                      lua_tostring(L, -1) ? lua_tostring(L, -1) : "(error object)");
@@ -426,6 +457,7 @@ int cpl_sweep_execute(cpl_sweep_run *r, long jobs, volatile sig_atomic_t *stop_s
     pthread_cond_init(&r->space_free, NULL);
     pthread_cond_init(&r->progress, NULL);
     r->next_claim = r->next_write;
+    r->cancel = stop_signal;
 
     pthread_mutex_lock(&r->mu);
     drain(r); /* rows recovered from the journal that continue the file */

@@ -11,6 +11,8 @@
 --    section 17.2 [M]).  scale = the largest |merit| on the starting simplex.
 --  * Restarts: Nelder-Mead can stall; the search is restarted from its best point until a
 --    restart improves the objective by less than the tolerance (common practice, no source).
+--  * Ctrl-C: no Lua runs after an interruption, so the best point so far is kept as text in
+--    a progress table that cp.optim.nmsimplex leaves for the program's "interrupted" message.
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
 
@@ -166,6 +168,15 @@ local function optimize(args)
   local big = 1e6 * (1 + penalty)
   local evaluations = #params + 1
   local best = nil
+  local progress = { context = fname }
+
+  local function describe(a)
+    local parts = {}
+    for i, par in ipairs(params) do parts[i] = string.format("%s = %.10g", par.name, a.p[par.name]) end
+    local how = a.merit and string.format("merit %.10g, %s", a.merit, a.feasible and "feasible" or "infeasible")
+      or "failed: " .. a.failed
+    return table.concat(parts, ", ") .. " (" .. how .. ")"
+  end
 
   local function consider(a)
     local f
@@ -179,6 +190,7 @@ local function optimize(args)
     if not best or f < best.f then
       best = a
       best.f = f
+      progress.best = describe(a)
     end
     return f
   end
@@ -202,7 +214,7 @@ local function optimize(args)
     local steps = {}
     for i = 1, #params do steps[i] = 1 end
     local ok, r = pcall(cp.optim.nmsimplex, { f = objective, start = u, step = steps,
-      tolerance = tol, max_iterations = budget })
+      tolerance = tol, max_iterations = budget, progress = progress })
     if not ok then
       if r ~= OUT_OF_BUDGET then error(r, 0) end
       converged = false

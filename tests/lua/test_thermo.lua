@@ -141,4 +141,16 @@ end
 local dilute = cp.thermo.lattice_filling { depth_er = 40, envelope_omega_bar = 0.5, mass = 2.1e-25,
   number = 20000, statistics = "fermion", temperature = 5e-8, wavelength = 1.064e-6 }
 T.check(dilute.single_fraction <= 1 and dilute.single_fraction > 0.999, "single_fraction in (0.999, 1]")
+-- A cloud squeezed onto a few sites (envelope 1e6 rad/s) fills every orbital there: 32
+-- bands per axis give 32^3 = 32768 orbitals, all full at the centre (counted by hand:
+-- the atomic limit holds one fermion per orbital).  It cost 2.4 s of CPU when every site
+-- summed all 32768 orbitals; the full ones now enter through prefix sums.
+local clock = os.clock()
+local squeezed = cp.thermo.lattice_filling { number = 2e4, mass = 2.1e-25, statistics = "fermion",
+  temperature = 50e-9, depth_er = 40, wavelength = 1064e-9, envelope_omega_bar = 1e6 }
+local used = os.clock() - clock
+T.check(squeezed.bands == 32 and squeezed.center_filling == 32 ^ 3, "every orbital of the centre full")
+T.check(squeezed.sites_occupied > 2e4 / 32 ^ 3 and squeezed.sites_occupied < 1,
+  "2e4 fermions on less than one site's worth of orbitals, more than 2e4/32^3 sites")
+T.check(used < 1, string.format("squeezed lattice filling in %.2f s of CPU (< 1 s)", used))
 T.done()

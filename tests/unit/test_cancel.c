@@ -1,11 +1,14 @@
 /*
  * Cancellation of long core computations (cp_collisions_hold_cancellable,
- * cp_raman_scan_cancellable, cp_feshbach_max_efficiency_cancellable): with a NULL or clear flag the result is the plain function's,
- * bit for bit (the second method here is the plain function itself); with the flag set
- * before the call the status is CP_ECANCELED, the outputs are NaN and the message says
- * "interrupted"; a flag raised by another thread 100 ms into a computation that would run
- * for minutes stops it within 0.1 s (the bound the program's Ctrl-C promises, common
- * practice for interactive response, no source).
+ * cp_raman_scan_cancellable, cp_feshbach_max_efficiency_cancellable,
+ * cp_lattice_band_energies_bounded): with a NULL or clear flag the result is the plain
+ * function's, bit for bit (the second method here is the plain function itself); with the
+ * flag set before the call the status is CP_ECANCELED, the outputs are NaN and the message
+ * says "interrupted"; a flag raised by another thread 100 ms into a computation that would
+ * run for minutes stops it within 0.1 s (the bound the program's Ctrl-C promises, common
+ * practice for interactive response, no source).  The work estimates: a call estimated
+ * beyond its limit is refused with CP_ETOOLONG before it starts, and within the limit the
+ * bounded functions give the plain function's bits.
  */
 #include <math.h>
 #include <pthread.h>
@@ -20,6 +23,8 @@
 #include "coldprep/collisions.h"
 #include "coldprep/consts.h"
 #include "coldprep/feshbach.h"
+#include "coldprep/lattice.h"
+#include "coldprep/limits.h"
 #include "coldprep/raman.h"
 
 #define TWO_PI 6.283185307179586
@@ -152,13 +157,15 @@ static double stop_delay(cp_status (*run)(cp_cancel_flag *))
     return end - r.at;
 }
 
-/* A one-body lifetime of 1e-8 s over 100 s of hold: minutes of stiff integration. */
-static cp_status long_hold(cp_cancel_flag *flag)
+/* 200 bands at 5000 quasimomenta in a 4001-state basis: three minutes of Sturm counts.
+ * (A hold is no longer long: its one-body tail is closed-form, collisions_hold.c.) */
+static cp_status long_bands(cp_cancel_flag *flag)
 {
-    enum { P = 3 };
-    double buf[3 * P];
-    cp_hold_params h = hold_case(1e-8, 100.0);
-    return cp_collisions_hold_cancellable(&h, P, buf, buf + P, buf + 2 * P, flag, NULL);
+    enum { N = 5000, B = 200 };
+    static double q[N], e[N * B];
+    for (int i = 0; i < N; i++)
+        q[i] = -1.0 + 2.0 * i / (N - 1);
+    return cp_lattice_band_energies_bounded(10.0, B, 4001, N, q, e, NULL, flag, INFINITY, NULL);
 }
 
 /* A million-point line shape: minutes of transfers. */
@@ -186,12 +193,69 @@ static cp_status long_sampling(cp_cancel_flag *flag)
 static void test_flag_stops_running_computations(void **state)
 {
     (void)state;
-    double dh = stop_delay(long_hold), ds = stop_delay(long_scan), dm = stop_delay(long_sampling);
-    print_message("stopped after the flag: hold %.1f ms, line shape %.1f ms, sampling %.1f ms\n",
+    double dh = stop_delay(long_bands), ds = stop_delay(long_scan), dm = stop_delay(long_sampling);
+    print_message("stopped after the flag: bands %.1f ms, line shape %.1f ms, sampling %.1f ms\n",
                   1e3 * dh, 1e3 * ds, 1e3 * dm);
     assert_true(dh < 0.1);
     assert_true(ds < 0.1);
     assert_true(dm < 0.1);
+}
+
+/* Refused before starting: a million-point line shape of 3 us pulses (about 90 s: the
+ * message names the estimate and the points that fit), 5000 quasimomenta x 200 bands in a
+ * 4001-state basis (three minutes), ten million samples (2.3 s); each returns within a
+ * fraction of a second with NaN outputs.  Within the limit: the plain functions' bits. */
+static void test_work_estimates(void **state)
+{
+    (void)state;
+    enum { N = 1000000, P = 21, NQ = 5000, B = 200 };
+    static double d[N], eff[N], q[NQ], e[NQ * B];
+    for (int i = 0; i < N; i++)
+        d[i] = TWO_PI * (i - N / 2);
+    cp_raman_params r = raman_case();
+    cp_error err;
+    double t0 = now();
+    assert_int_equal(cp_raman_scan_bounded(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, N, 2, eff, NULL, NULL,
+                                           CP_WORK_LIMIT_S, &err), CP_ETOOLONG);
+    assert_non_null(strstr(err.message, "raman scan: estimated work"));
+    assert_non_null(strstr(err.message, "scan at most"));
+    assert_true(isnan(eff[0]) && isnan(eff[N / 2]) && isnan(eff[N - 1]));
+    for (int i = 0; i < NQ; i++)
+        q[i] = -1.0 + 2.0 * i / (NQ - 1);
+    assert_int_equal(cp_lattice_band_energies_bounded(10.0, B, 4001, NQ, q, e, NULL, NULL,
+                                                      CP_WORK_LIMIT_S, &err), CP_ETOOLONG);
+    assert_non_null(strstr(err.message, "5000 quasimomenta x 200 bands in a 4001-state basis"));
+    assert_true(isnan(e[0]));
+    cp_feshbach_cloud fa, fb;
+    spss_clouds(&fa, &fb);
+    cp_feshbach_spss o = {0.38, 7, 10000000, 0};
+    double pm, se;
+    assert_int_equal(cp_feshbach_max_efficiency_bounded(&fa, &fb, 1e-6, &o, &pm, &se, NULL,
+                                                        CP_WORK_LIMIT_S, &err), CP_ETOOLONG);
+    assert_non_null(strstr(err.message, "10000000 samples"));
+    assert_true(isnan(pm) && isnan(se));
+    double used = now() - t0;
+    print_message("three refusals in %.1f ms\n", 1e3 * used);
+    assert_true(used < 0.5); /* against 90 s + 3 min + 2.3 s if they ran */
+    assert_string_equal(cp_strerror(CP_ETOOLONG), "estimated work too long");
+
+    /* within the limit: the same bits as the plain functions (first, middle and last
+     * points computed ahead of the others) */
+    double ea[P], eb[P], la[P], lb[P];
+    for (int i = 0; i < P; i++)
+        d[i] = TWO_PI * 1e5 * (i - P / 2);
+    assert_int_equal(cp_raman_scan(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, P, 3, ea, la, NULL), CP_OK);
+    assert_int_equal(cp_raman_scan_bounded(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, P, 3, eb, lb, NULL,
+                                           CP_WORK_LIMIT_S, NULL), CP_OK);
+    assert_memory_equal(ea, eb, sizeof ea);
+    assert_memory_equal(la, lb, sizeof la);
+    double e1[51 * 3], e2[51 * 3];
+    for (int i = 0; i < 51; i++)
+        q[i] = -1.0 + i / 25.0;
+    assert_int_equal(cp_lattice_band_energies(8.0, 3, 0, 51, q, e1, NULL, NULL), CP_OK);
+    assert_int_equal(cp_lattice_band_energies_bounded(8.0, 3, 0, 51, q, e2, NULL, NULL,
+                                                      CP_WORK_LIMIT_S, NULL), CP_OK);
+    assert_memory_equal(e1, e2, sizeof e1);
 }
 
 int main(void)
@@ -200,6 +264,7 @@ int main(void)
         cmocka_unit_test(test_clear_flag_changes_nothing),
         cmocka_unit_test(test_set_flag_cancels),
         cmocka_unit_test(test_flag_stops_running_computations),
+        cmocka_unit_test(test_work_estimates),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }
