@@ -8,6 +8,7 @@
 -- runtime error or a NaN written into the report.
 local A = require "coldprep.argcheck"
 local S = require "coldprep.sample"
+local common = require "coldprep.stage.common"
 
 local M = {}
 
@@ -110,9 +111,6 @@ local function sample(where, s)
   derived(where, s, S.is_empty(s))
 end
 
--- The equipment a plan declares, as the safety cautions read it.
-local EQUIPMENT = { laser = { "power", "W" }, coil = { "field", "T" }, electric = { "field", "V/m" },
-  microwave = { "rabi", "rad/s" } }
 
 local function plan(where, p)
   tbl(where, p, "field 'plan'")
@@ -133,12 +131,7 @@ local function plan(where, p)
     if st.equipment ~= nil then
       tbl(w, st.equipment, "field 'equipment'")
       for j = 1, #st.equipment do
-        local ew = string.format("%s: equipment[%d]", w, j)
-        local e = tbl(ew, st.equipment[j], "the item")
-        local q = EQUIPMENT[e.kind]
-        if not q then A.fail(ew, "kind %s is not allowed; allowed coil, electric, laser, microwave", shown(e.kind)) end
-        str(ew, e, "what", true)
-        num(ew, e, q[1], q[2], e.kind == "laser" and 1e-300 or 0, nil, { optional = e.kind == "laser" })
+        common.check_equipment(string.format("%s: equipment[%d]", w, j), st.equipment[j])
       end
     end
   end

@@ -110,6 +110,13 @@ T.expect("a stage that doubles the number has step efficiency 2", math.abs(grow.
 T.expect("... and its first note says so", grow.stages[2].notes[1]:find("rose by a factor 2", 1, true) ~= nil,
   grow.stages[2].notes[1])
 
+-- the equipment a custom stage declares is checked when the stage is built (before, a coil
+-- without its field failed in the safety cautions at run time with a Lua runtime error)
+raises_house("stages.custom with a coil of no field", "stages.custom: equipment[1]: missing argument 'field' (T)",
+  cp.stages.custom, { name = "x", fn = function(s) return s end, equipment = { { kind = "coil" } } })
+raises_house("stages.custom with equipment of an unknown kind", "equipment[1]: kind oven is not allowed; allowed coil, electric, laser, microwave",
+  cp.stages.custom, { name = "x", fn = function(s) return s end, equipment = { { kind = "oven" } } })
+
 -- ---- plan:run checks self and the plan's fields (plan.lua) ------------------------------
 local p = new_plan()
 raises_house("plan:run on a number", "plan:run: expects a plan built by cp.plan", p.run, 5)
