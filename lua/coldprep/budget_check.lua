@@ -155,6 +155,7 @@ function M.run(fname, run)
   A.table(fname, run, { "plan", "start", "steps", "final", "verdict", "ranking", "reason", "failure" })
   plan(fname .. ": plan", run.plan)
   sample(fname .. ": start", run.start)
+  num(fname .. ": start", run.start, "number", "particles", 1) -- cp.plan's clouds hold >= 1 atom
   local steps = tbl(fname, run.steps, "field 'steps'")
   if #steps == 0 then A.fail(fname, "field 'steps' must list the stages run, got none") end
   local before = run.start
@@ -170,6 +171,11 @@ function M.run(fname, run)
       A.fail(w .. ": before", "number %s particles is not the number the step before handed on (%s); "
         .. "allowed: the steps of one plan run, in order", shown(st.before.number), shown(before.number))
     end
+    if S.is_empty(st.before) and st.after.number ~= st.before.number then
+      A.fail(w .. ": after", "number %s particles after a stage that got fewer than one particle "
+        .. "(%s) and so did not run; allowed %s particles", shown(st.after.number),
+        shown(st.before.number), shown(st.before.number))
+    end
     if st.info ~= nil then
       local info = tbl(w, st.info, "field 'info'")
       if not info.duration_unknown then num(w .. ": info", info, "duration", "s", 0, nil, { optional = true }) end
@@ -181,6 +187,9 @@ function M.run(fname, run)
   end
   local v = tbl(fname, run.verdict, "field 'verdict'")
   str(fname .. ": verdict", v, "text")
+  if type(v.degenerate) ~= "boolean" then
+    A.fail(fname .. ": verdict", "field 'degenerate' must be true or false, got %s", type(v.degenerate))
+  end
   num(fname .. ": verdict", v, "threshold", "T/T_F or T/T_c", 1e-300)
   ranking(fname, run.ranking)
   str(fname, run, "reason")

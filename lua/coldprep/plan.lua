@@ -117,10 +117,13 @@ local function build(fname, args)
   if type(args.stages) ~= "table" or #args.stages == 0 then
     A.fail(fname, "argument 'stages' must be a non-empty list of stages (cp.stages.*{...})")
   end
-  for i, st in pairs(args.stages) do
+  for i in pairs(args.stages) do
     if math.type(i) ~= "integer" or i < 1 or i > #args.stages then
       A.fail(fname, "argument 'stages' must be a list; it has the key %s", tostring(i))
     end
+  end
+  for i = 1, #args.stages do -- (a hole in the list is no key for pairs)
+    local st = args.stages[i]
     if getmetatable(st) ~= cp.stages.Stage then
       A.fail(string.format("%s: stage %d", fname, i), "is a %s, not a stage built by cp.stages.*{...}",
         type(st))

@@ -94,6 +94,14 @@ r.ranking[1].gain = "big"
 raises_house("report.budget with a ranking gain that is a string", "ranking[1]: field 'gain' must be a number",
   cp.report.budget, r)
 r = copy(captured)
+r.steps[1].before.number, r.start.number = 0.5, 0.5
+raises_house("report.budget with a start of half a particle", "start: number 0.5 particles is out of range; allowed [1, inf]",
+  cp.report.budget, r)
+r = copy(captured)
+r.verdict.degenerate = { 0 / 0 }
+raises_house("report.budget with a verdict that is not true or false", "verdict: field 'degenerate' must be true or false",
+  cp.report.budget, r)
+r = copy(captured)
 r.start.species = 0 / 0
 raises_house("report.budget with a species that is NaN", "start: field 'species' must be a string", cp.report.budget, r)
 
@@ -138,6 +146,9 @@ raises_house("plan:run with a start molecule that is a number", "plan:run: start
 p = new_plan()
 p.stages[2] = 7
 raises_house("plan:run with a stage that is a number", "plan:run: stage 2: is a number", p.run, p)
+p = new_plan()
+p.stages[2] = nil -- a hole: the list keeps its length 3 (border) for pairs-free code
+raises_house("plan:run with a hole in its stages", "plan:run: ", p.run, p)
 p = new_plan()
 p.perturbation = 2
 raises_house("plan:run with perturbation 2", "plan:run: perturbation 2 fraction is out of range; allowed [0.0001, 0.5]",
