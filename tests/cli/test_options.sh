@@ -54,4 +54,16 @@ status OPT-4e 2
 err_has OPT-4f 'unknown molecule "Xx99"; closest known names:'
 no_traceback OPT-4g
 
+# OPT-5: a bad value in a sweep file is named in the house spelling (NaN, not the C
+# library's "-nan"; a table by its type, not its address).
+printf 'return {parameters = {{name = "x", values = {0/0}}}, outputs = {"v"},\n  evaluate = function(p) return {v = p.x} end}\n' > nan.lua
+run "$coldprep" sweep nan.lua --out nan.csv </dev/null
+status OPT-5a 1
+err_is OPT-5b "coldprep sweep: sweep: parameter 'x': values[1] must be a finite number, a string or a boolean, got NaN"
+printf 'return {parameters = {{name = "x", values = {{}}}}, outputs = {"v"},\n  evaluate = function(p) return {v = 1} end}\n' > tab.lua
+run "$coldprep" sweep tab.lua --out tab.csv </dev/null
+status OPT-5c 1
+err_is OPT-5d "coldprep sweep: sweep: parameter 'x': values[1] must be a finite number, a string or a boolean, got table"
+no_traceback OPT-5e
+
 finish
