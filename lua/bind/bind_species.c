@@ -99,11 +99,21 @@ static void push_resonance(lua_State *L, const cp_resonance *r)
     cpl_set_string(L, "source", r->source);
 }
 
+/* The species name at argument idx of fname, or a house error naming what came instead
+ * (these lookups are the library's plumbing, reachable from cp.species and unlisted, but a
+ * user who calls one gets the same message as cp.species.atom). */
+static const char *name_arg(lua_State *L, int idx, const char *fname)
+{
+    if (lua_type(L, idx) != LUA_TSTRING)
+        cpl_error(L, fname, "expects a species name (string), got %s", luaL_typename(L, idx));
+    return lua_tostring(L, idx);
+}
+
 static int l_atom(lua_State *L)
 {
     const cp_atom *a;
     cp_error err;
-    if (cp_species_atom(luaL_checkstring(L, 1), &a, &err) != CP_OK)
+    if (cp_species_atom(name_arg(L, 1, "species.builtin_atom"), &a, &err) != CP_OK)
         return cpl_raise(L, &err);
     push_atom(L, a);
     return 1;
@@ -113,7 +123,7 @@ static int l_molecule(lua_State *L)
 {
     const cp_molecule *m;
     cp_error err;
-    if (cp_species_molecule(luaL_checkstring(L, 1), &m, &err) != CP_OK)
+    if (cp_species_molecule(name_arg(L, 1, "species.builtin_molecule"), &m, &err) != CP_OK)
         return cpl_raise(L, &err);
     push_molecule(L, m);
     return 1;
@@ -121,13 +131,21 @@ static int l_molecule(lua_State *L)
 
 static int l_resonance(lua_State *L)
 {
-    const char *name = luaL_checkstring(L, 1);
-    lua_Integer index = luaL_optinteger(L, 2, 1);
+    static const char fname[] = "species.builtin_resonance";
+    const char *name = name_arg(L, 1, fname);
+    lua_Integer index = 1;
+    if (!lua_isnoneornil(L, 2)) {
+        int is_integer;
+        index = lua_tointegerx(L, 2, &is_integer);
+        if (!is_integer)
+            return cpl_error(L, fname, "argument 2 'index' must be an integer, got %s",
+                             luaL_typename(L, 2));
+    }
     const cp_resonance *r;
     cp_error err;
     if (index < 1 || index > 1000)
-        return luaL_error(L, "species.resonance: index %lld is out of range; allowed 1 and up",
-                          (long long)index);
+        return cpl_error(L, fname, "index %lld is out of range; allowed [1, 1000]",
+                         (long long)index);
     if (cp_species_resonance(name, (int)index - 1, &r, &err) != CP_OK)
         return cpl_raise(L, &err);
     push_resonance(L, r);
@@ -163,7 +181,7 @@ static void normalised(const char *name, char *out, size_t size)
 static int l_user_key(lua_State *L)
 {
     char key[128];
-    normalised(luaL_checkstring(L, 1), key, sizeof key);
+    normalised(name_arg(L, 1, "species.builtin_user_key"), key, sizeof key);
     lua_pushstring(L, key);
     return 1;
 }
@@ -192,27 +210,56 @@ static int push_user_entry(lua_State *L, const char *which, int idx)
     return 0;
 }
 
-/* Raise the core's not-found message, with the names the user added appended. */
+/* Raise the core's not-found message, with the names the user added appended (sorted,
+ * at most NOT_FOUND_NAMES of them).  The names are gathered into a table first: a
+ * luaL_Buffer must not be grown while other values sit above it on the stack. */
+#define NOT_FOUND_NAMES 12
 static int not_found(lua_State *L, const cp_error *err)
 {
-    luaL_Buffer b;
-    luaL_buffinit(L, &b);
-    luaL_addstring(&b, err->message);
-    const char *sep = "; user-added: ";
+    lua_newtable(L);
+    int names = lua_gettop(L);
+    lua_Integer n = 0;
     for (int k = 0; k < 2; k++) {
         push_user_table(L, k == 0 ? "atoms" : "molecules");
         lua_pushnil(L);
         while (lua_next(L, -2)) {
             if (lua_istable(L, -1) && lua_getfield(L, -1, "name") == LUA_TSTRING) {
-                lua_pushstring(L, sep);
-                luaL_addvalue(&b);
-                lua_pushvalue(L, -1);
-                luaL_addvalue(&b);
-                sep = ", ";
+                /* insertion into the sorted list (a name filed under two keys once) */
+                lua_Integer at = n + 1, dup = 0;
+                for (lua_Integer i = 1; i <= n && !dup; i++) {
+                    lua_rawgeti(L, names, i);
+                    int cmp = strcmp(lua_tostring(L, -2), lua_tostring(L, -1));
+                    lua_pop(L, 1);
+                    if (cmp == 0)
+                        dup = 1;
+                    else if (cmp < 0 && at > i)
+                        at = i;
+                }
+                if (!dup) {
+                    for (lua_Integer i = n; i >= at; i--) {
+                        lua_rawgeti(L, names, i);
+                        lua_rawseti(L, names, i + 1);
+                    }
+                    lua_pushvalue(L, -1);
+                    lua_rawseti(L, names, at);
+                    n++;
+                }
             }
             lua_pop(L, 2);
         }
         lua_pop(L, 1);
+    }
+    luaL_Buffer b;
+    luaL_buffinit(L, &b);
+    luaL_addstring(&b, err->message);
+    for (lua_Integer i = 1; i <= n && i <= NOT_FOUND_NAMES; i++) {
+        luaL_addstring(&b, i == 1 ? "; user-added: " : ", ");
+        lua_rawgeti(L, names, i);
+        luaL_addvalue(&b);
+    }
+    if (n > NOT_FOUND_NAMES) {
+        lua_pushfstring(L, " and %d more", (int)(n - NOT_FOUND_NAMES));
+        luaL_addvalue(&b);
     }
     luaL_pushresult(&b);
     return lua_error(L);
@@ -313,7 +360,7 @@ static int l_list(lua_State *L)
 static int l_suggest(lua_State *L)
 {
     char buf[256];
-    cp_species_suggest(luaL_checkstring(L, 1), buf, sizeof buf, 4);
+    cp_species_suggest(name_arg(L, 1, "species.builtin_suggest"), buf, sizeof buf, 4);
     lua_pushstring(L, buf);
     return 1;
 }
@@ -374,8 +421,12 @@ static int l_sources(lua_State *L)
 
 static int l_polarizability(lua_State *L)
 {
-    const char *name = luaL_checkstring(L, 1);
-    double wavelength = luaL_checknumber(L, 2);
+    static const char fname[] = "species.builtin_polarizability";
+    const char *name = name_arg(L, 1, fname);
+    if (lua_type(L, 2) != LUA_TNUMBER)
+        return cpl_error(L, fname, "argument 2 'wavelength' must be a number (m), got %s",
+                         luaL_typename(L, 2));
+    double wavelength = lua_tonumber(L, 2);
     double alpha;
     cp_error err;
     if (cp_species_polarizability(name, wavelength, &alpha, &err) != CP_OK)

@@ -7,9 +7,12 @@
  * publishes the table as package.loaded.coldprep so those modules can require it while
  * it is being built, then runs "coldprep.library", which completes the table.
  */
+#include <math.h>
+
 #include <lauxlib.h>
 #include <lua.h>
 
+#include "args.h"
 #include "coldprep/status.h"
 #include "embedded_lua.h"
 #include "fileio.h"
@@ -57,16 +60,26 @@ static int load_plot(lua_State *L)
     return 1;
 }
 
+/* cp.set_help(value, text) and cp.get_help(value): the help registry, plumbing for the
+ * library's Lua files (help() leaves them out of its listing); a user who calls one with
+ * the wrong arguments gets a house error naming the argument. */
 static int l_set_help(lua_State *L)
 {
-    luaL_checkany(L, 1);
-    cpl_set_help(L, 1, luaL_checkstring(L, 2));
+    if (lua_isnoneornil(L, 1) || (lua_type(L, 1) == LUA_TNUMBER && isnan(lua_tonumber(L, 1))))
+        return cpl_error(L, "cp.set_help", "argument 1 (the function or table to document) "
+                         "must not be %s", lua_isnoneornil(L, 1) ? "nil" : "NaN");
+    if (lua_type(L, 2) != LUA_TSTRING)
+        return cpl_error(L, "cp.set_help", "argument 2 'text' must be a string (the help "
+                         "text), got %s", luaL_typename(L, 2));
+    cpl_set_help(L, 1, lua_tostring(L, 2));
     return 0;
 }
 
 static int l_get_help(lua_State *L)
 {
-    luaL_checkany(L, 1);
+    if (lua_isnoneornil(L, 1))
+        return cpl_error(L, "cp.get_help", "argument 1 (the function or table whose help "
+                         "to return) must not be nil");
     cpl_push_help_table(L);
     lua_pushvalue(L, 1);
     lua_gettable(L, -2);

@@ -5,11 +5,29 @@
  */
 #include <lauxlib.h>
 #include <stdio.h>
+#include <string.h>
 
 #include "cli.h"
 
+static const char DATA_USAGE[] =
+    "usage: coldprep data [NAME]\n\n"
+    "Every built-in species number with its publication, its status (measured, calculated,\n"
+    "estimated) and whether it was checked against the paper; NAME (an atom or molecule,\n"
+    "e.g. KRb) keeps one species and its resonances.\n";
+
 int cpl_cmd_data(int argc, char **argv)
 {
+    if (argc == 2 && (strcmp(argv[1], "-h") == 0 || strcmp(argv[1], "--help") == 0)) {
+        fputs(DATA_USAGE, stdout);
+        return CPL_EXIT_OK;
+    }
+    for (int i = 1; i < argc; i++) {
+        if (argv[i][0] == '-' && argv[i][1] != '\0') {
+            fprintf(stderr, "coldprep data: unknown option %s; allowed -h (--help) alone, or "
+                    "one species name\nTry 'coldprep data --help'.\n", argv[i]);
+            return CPL_EXIT_USAGE;
+        }
+    }
     if (argc > 2) {
         fprintf(stderr, "coldprep data: give at most one species name, e.g. coldprep data KRb\n");
         return CPL_EXIT_USAGE;

@@ -182,6 +182,14 @@ int cpl_merge_main(int argc, char **argv)
         fputs(MERGE_USAGE, stdout);
         return CPL_EXIT_OK;
     }
+    for (int i = 1; i < argc; i++) {
+        if (argv[i][0] == '-' && argv[i][1] != '\0') {
+            fprintf(stderr, "coldprep merge: unknown option %s; allowed -h (--help) alone "
+                    "(a file whose name starts with '-' is given as ./%s)\n"
+                    "Try 'coldprep merge --help'.\n", argv[i], argv[i]);
+            return CPL_EXIT_USAGE;
+        }
+    }
     if (argc < 3) {
         fprintf(stderr, "coldprep merge: give the output file and the slices\n%s", MERGE_USAGE);
         return CPL_EXIT_USAGE;

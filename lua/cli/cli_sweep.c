@@ -204,7 +204,11 @@ static int parse_options(int argc, char **argv, sweep_options *o)
                 return usage("--shard needs K/N with 1 <= K <= N, got",
                              i < argc ? argv[i] : "nothing");
         } else if (a[0] == '-' && a[1] != '\0') {
-            return usage("unknown option", a);
+            char msg[512];
+            snprintf(msg, sizeof msg, "unknown option %s; allowed --jobs N (-j), --out PATH (-o), "
+                     "--resume, --force, --shard K/N, --sandbox, --max-memory MIB, --max-time S, "
+                     "-h (--help)", a);
+            return usage(msg, NULL);
         } else if (o->file == NULL) {
             o->file = a;
         } else {

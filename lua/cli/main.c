@@ -200,7 +200,11 @@ int main(int argc, char **argv)
                 script = i + 1;
             break;
         } else if (a[0] == '-' && a[1] != '\0') {
-            return usage_error("unknown option", a);
+            char msg[512];
+            snprintf(msg, sizeof msg, "unknown option %s; allowed -e CODE, -i, -h (--help), -v "
+                     "(--version), --sandbox, --max-memory MIB, --max-time S, --allow-write PATH, "
+                     "-- (then FILE), or a subcommand (help, data, sweep, merge)", a);
+            return usage_error(msg, NULL);
         } else {
             script = i;
         }

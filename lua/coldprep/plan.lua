@@ -28,7 +28,7 @@ local DEFAULT_PERTURBATION = 0.1
 -- own files are kept.
 local function plain(msg)
   msg = tostring(msg)
-  return (msg:gsub("^[^:\n]*coldprep/%w+%.lua:%d+: ", ""))
+  return (msg:gsub("^[^:\n]*coldprep/[%w_/]+%.lua:%d+: ", ""))
 end
 
 -- ---- the start ------------------------------------------------------------------------
@@ -64,9 +64,10 @@ local function start_cloud(where, c, molecule, temperature)
   return cloud
 end
 
--- The starting sample from the `start` table of a plan.
-local function start_sample(st)
-  local where = "plan: start"
+-- The starting sample from the `start` table of a plan; fname names the caller in
+-- messages ("plan", or "plan:run" when a plan's own start is checked again).
+local function start_sample(st, fname)
+  local where = (fname or "plan") .. ": start"
   A.table(where, st, { "molecule", "temperature", "atoms" })
   if type(st.molecule) ~= "string" then
     A.fail(where, "missing argument 'molecule' (a molecule name such as \"23Na40K\")")
@@ -108,36 +109,96 @@ local function check_order(stages)
   end
 end
 
--- cp.plan.new{start, stages [, name, threshold, perturbation]} -> plan
-function P.new(args)
-  local fname = "plan"
+-- The checked fields of a plan from arguments {name, start, stages, threshold,
+-- perturbation} (start: the table cp.plan takes); fname names the caller in messages.
+local function build(fname, args)
   A.table(fname, args, { "name", "start", "stages", "threshold", "perturbation" })
   if args.start == nil then A.fail(fname, "missing argument 'start' (the atomic mixture)") end
   if type(args.stages) ~= "table" or #args.stages == 0 then
     A.fail(fname, "argument 'stages' must be a non-empty list of stages (cp.stages.*{...})")
   end
-  for i, st in pairs(args.stages) do
+  for i in pairs(args.stages) do
     if math.type(i) ~= "integer" or i < 1 or i > #args.stages then
       A.fail(fname, "argument 'stages' must be a list; it has the key %s", tostring(i))
     end
+  end
+  for i = 1, #args.stages do -- (a hole in the list is no key for pairs)
+    local st = args.stages[i]
     if getmetatable(st) ~= cp.stages.Stage then
-      A.fail(string.format("plan: stage %d", i), "is a %s, not a stage built by cp.stages.*{...}",
+      A.fail(string.format("%s: stage %d", fname, i), "is a %s, not a stage built by cp.stages.*{...}",
         type(st))
     end
   end
   if args.name ~= nil and type(args.name) ~= "string" then
     A.fail(fname, "argument 'name' must be a string")
   end
-  local self = setmetatable({
+  local fields = {
     name = args.name or "plan",
-    start = start_sample(args.start),
+    start = start_sample(args.start, fname),
     stages = { table.unpack(args.stages) },
     threshold = A.number(fname, args, "threshold", "T/T_F or T/T_c", { optional = true, positive = true }),
     perturbation = A.number(fname, args, "perturbation", "fraction",
       { optional = true, default = DEFAULT_PERTURBATION, min = 1e-4, max = 0.5 }),
-  }, Plan)
-  check_order(self.stages)
-  return self
+  }
+  check_order(fields.stages)
+  return fields
+end
+
+-- cp.plan.new{start, stages [, name, threshold, perturbation]} -> plan
+function P.new(args)
+  return setmetatable(build("plan", args), Plan)
+end
+
+-- The `start` table cp.plan takes, read back from a plan's starting sample: a plan is a
+-- plain table, and a script may have changed its fields since cp.plan built it, so
+-- plan:run checks them again as cp.plan does.  In the start the two clouds hold the
+-- numbers and the temperature; the followed fields at its top level copy the minority
+-- cloud, and a change made there only is refused rather than silently undone.
+local function start_args(fname, s)
+  local where = fname .. ": start"
+  if type(s) ~= "table" or s.kind ~= "atom-mixture" or type(s.molecule) ~= "table"
+    or type(s.atoms) ~= "table" then
+    A.fail(where, "is not the starting sample cp.plan built (an atom mixture with a molecule "
+      .. "record and two atom clouds); build the plan again with cp.plan{...}")
+  end
+  local atoms = {}
+  for i = 1, 2 do
+    local c, at = s.atoms[i], string.format("%s.atoms[%d]", where, i)
+    if type(c) ~= "table" then A.fail(at, "must be an atom cloud (a table), got %s", type(c)) end
+    A.number(at, c, "temperature", "K", { positive = true, max = 1e-3 })
+    atoms[i] = { atom = c.name, number = c.number, trap_frequencies = c.trap_frequencies,
+      beam_power = c.beam_power, scattering_length = c.scattering_length }
+  end
+  if s.atoms[1].temperature ~= s.atoms[2].temperature then
+    A.fail(where, "the clouds' temperatures %g K and %g K differ; allowed one temperature for "
+      .. "both (they start in equilibrium)", s.atoms[1].temperature, s.atoms[2].temperature)
+  end
+  return { molecule = s.molecule.name, temperature = s.atoms[1].temperature, atoms = atoms }
+end
+
+-- The plan's fields checked again (see start_args): {name, start, stages, threshold,
+-- perturbation}, the start rebuilt from them.
+local function checked(self)
+  local fname = "plan:run"
+  if getmetatable(self) ~= Plan then
+    A.fail(fname, "expects a plan built by cp.plan{...} (call it as plan:run()), got %s",
+      type(self) == "table" and "a table that is not a plan" or type(self))
+  end
+  local fields = build(fname, { name = self.name, start = start_args(fname, self.start),
+    stages = self.stages, threshold = self.threshold, perturbation = self.perturbation })
+  local function shown(v)
+    if type(v) ~= "number" then return tostring(v) end
+    return v ~= v and "NaN" or string.format("%g", v)
+  end
+  for _, ku in ipairs { { "number", "atoms" }, { "temperature", "K" } } do
+    local k, unit = ku[1], ku[2]
+    if self.start[k] ~= fields.start[k] then
+      A.fail(fname .. ": start", "%s %s %s is not the %s of its minority cloud (%s %s); in an "
+        .. "atom mixture the clouds start.atoms[1] and start.atoms[2] hold the numbers and the "
+        .. "temperature: change those", k, shown(self.start[k]), unit, k, shown(fields.start[k]), unit)
+    end
+  end
+  return fields
 end
 
 -- For a mixture the followed fields are copies of the minority cloud: a stage that
@@ -214,11 +275,6 @@ local function run_stages(self, s, first, last)
           info.notes = info.notes or {}
           table.insert(info.notes, 1, string.format("entropy per particle fell from %.4g to %.4g kB in a "
             .. "stage declared adiabatic: it cannot", before.entropy_per_particle, after.entropy_per_particle))
-        end
-        if after.number > before.number * (1 + 1e-12) then
-          info.notes = info.notes or {}
-          table.insert(info.notes, 1, string.format("the number of particles rose by a factor %.3g: "
-            .. "check that this stage really adds particles", after.number / before.number))
         end
       end
     end
@@ -374,18 +430,19 @@ end
 -- plan:run([{limiting = true}]) -> budget (see coldprep.report).  limiting = false skips
 -- the limiting-stage analysis (one rerun per stage), e.g. inside a sweep.
 function Plan:run(opts)
+  local plan = checked(self)
   if opts ~= nil then
     A.table("plan:run", opts, { "limiting" })
     if opts.limiting ~= nil and type(opts.limiting) ~= "boolean" then
       A.fail("plan:run", "argument 'limiting' must be true or false, got %s", type(opts.limiting))
     end
   end
-  local steps, final, failure = run_stages(self, self.start, 1, #self.stages)
-  local v = verdict(self, final, failure)
-  local ranking = ((opts and opts.limiting == false) or failure) and {} or limiting(self, steps, final)
+  local steps, final, failure = run_stages(plan, plan.start, 1, #plan.stages)
+  local v = verdict(plan, final, failure)
+  local ranking = ((opts and opts.limiting == false) or failure) and {} or limiting(plan, steps, final)
   return report.budget {
-    plan = self, start = self.start, steps = steps, final = final, verdict = v, failure = failure,
-    ranking = ranking, reason = reason(self, steps, ranking, v, self.start, final, failure),
+    plan = plan, start = plan.start, steps = steps, final = final, verdict = v, failure = failure,
+    ranking = ranking, reason = reason(plan, steps, ranking, v, plan.start, final, failure),
   }
 end
 

@@ -8,7 +8,8 @@
 --              (what is counted), number, temperature (K), degeneracy_name ("T/T_F" or
 --              "T/T_c"), degeneracy, t_over_tf or t_over_tc, peak_density (m^-3),
 --              phase_space_density (peak), entropy_per_particle (kB), efficiency (this
---              stage's N_out/N_in), cumulative_efficiency (N/N_start), duration (s),
+--              stage's N_out/N_in, above 1 only for a stage that adds particles, which
+--              its first note then says), cumulative_efficiency (N/N_start), duration (s),
 --              elapsed (s), adiabatic, failed (true when the stage's physics did not
 --              work out), failure (its reason, or nil), flags (list of {model, flag, text}:
 --              estimates used outside their stated range), notes (list of strings)
@@ -22,12 +23,13 @@
 local cp = require "coldprep"
 local S = require "coldprep.sample"
 local encode = require "coldprep.encode"
+local check = require "coldprep.budget_check"
 
 local R = {}
 local Budget = {}
 Budget.__index = Budget
 -- a budget typed at the prompt (or given to print/tostring) shows as its report
-Budget.__tostring = function(self) return self:text() end
+Budget.__tostring = function(self) return Budget.text(self) end
 
 -- ---- records --------------------------------------------------------------------------
 
@@ -54,6 +56,11 @@ local function record(index, name, s, info, start_number, before_number)
     lattice = info and info.lattice, -- the lattice state, from load_lattice
     flags = {}, notes = {},
   }
+  -- a step efficiency above 1 is a stage that adds particles: say so where it is shown
+  if before_number and before_number > 0 and s.number > before_number * (1 + 1e-12) then
+    r.notes[1] = string.format("the number of particles rose by a factor %.3g: check that this "
+      .. "stage really adds particles", s.number / before_number)
+  end
   for _, n in ipairs(info and info.notes or {}) do r.notes[#r.notes + 1] = n end
   for _, f in ipairs(info and info.flags or {}) do r.flags[#r.flags + 1] = f end
   return r
@@ -151,6 +158,7 @@ end
 
 -- Build a budget from a plan run: {plan, start, steps, final, verdict, ranking, reason}.
 function R.budget(run)
+  check.run("report.budget", run)
   local plan = run.plan
   local b = setmetatable({}, Budget)
   b.name = plan.name
@@ -239,6 +247,7 @@ end
 
 -- The printed report as one string.
 function Budget:text()
+  check.budget("budget:text", self, Budget)
   local out = {}
   out[#out + 1] = one_line(string.format("Preparation budget: %s (%s)", self.name, self.species))
   -- every cell's text first, then each column as wide as its widest cell (a long label
@@ -297,6 +306,7 @@ end
 
 -- budget:print([file]): write the report to `file` (default io.stdout).
 function Budget:print(file)
+  check.budget("budget:print", self, Budget)
   if file ~= nil and io.type(file) ~= "file" then
     error("budget:print: expects an open file (e.g. io.stdout or io.open(path, \"w\")), got "
       .. (io.type(file) or type(file)) .. "; to write to a path use io.open or budget:text()", 2)
@@ -344,6 +354,7 @@ end
 -- budget:write_csv(path): one header line, then the start and one line per stage;
 -- lines end in CRLF as RFC 4180 asks.
 function Budget:write_csv(path)
+  check.budget("budget:write_csv", self, Budget)
   local f = open_for_writing("budget:write_csv", path)
   local lines = { table.concat(CSV_FIELDS, ",") }
   for _, r in ipairs { self.start, table.unpack(self.stages) } do
@@ -362,6 +373,7 @@ end
 
 -- budget:write_json(path): the whole budget as one JSON object (NaN written as null).
 function Budget:write_json(path)
+  check.budget("budget:write_json", self, Budget)
   local f = open_for_writing("budget:write_json", path)
   local doc = {
     name = self.name, species = self.species, start = self.start, stages = self.stages,

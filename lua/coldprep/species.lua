@@ -29,21 +29,35 @@ local function user_names()
   return list
 end
 
+-- Errors: the functions below raise their messages without a position (level 0), and
+-- every public function is wrapped by at_caller, which re-raises at level 2: the position
+-- is then the user's line that called cp.species.*, also when one function of this file
+-- calls another (species.resonance looks up the molecule through species.molecule).
+local function at_caller(fn)
+  return function(...)
+    local out = table.pack(pcall(fn, ...))
+    if not out[1] then error(out[2], 2) end
+    return table.unpack(out, 2, out.n)
+  end
+end
+
+local impl = {} -- the public functions, unwrapped (they call each other through it)
+
 local function not_found(kind, name, err)
   local extra = user_names()
   if #extra > 0 then
     err = err .. "; user-added: " .. table.concat(extra, ", ")
   end
-  error(err, 3)
+  error(err, 0)
 end
 
 local function check_name(fname, name)
   if type(name) ~= "string" then
-    error(string.format("%s: expects a species name (string), got %s", fname, type(name)), 3)
+    error(string.format("%s: expects a species name (string), got %s", fname, type(name)), 0)
   end
 end
 
-function M.atom(name)
+function impl.atom(name)
   check_name("species.atom", name)
   local a = user_atoms[key(name)]
   if a then return copy(a) end
@@ -52,7 +66,7 @@ function M.atom(name)
   not_found("atom", name, r)
 end
 
-function M.molecule(name)
+function impl.molecule(name)
   check_name("species.molecule", name)
   local m = user_molecules[key(name)]
   if m then return copy(m) end
@@ -62,13 +76,13 @@ function M.molecule(name)
 end
 
 -- Resonances of a molecule: the built-in ones first, then the user's, 1-based.
-function M.resonance(name, index)
+function impl.resonance(name, index)
   check_name("species.resonance", name)
   index = index or 1
   if math.type(index) ~= "integer" or index < 1 then
-    error(string.format("species.resonance: index %s must be an integer >= 1", tostring(index)), 2)
+    error(string.format("species.resonance: index %s must be an integer >= 1", tostring(index)), 0)
   end
-  local m = M.molecule(name)
+  local m = impl.molecule(name)
   local list = {}
   local ok, n = true, 1
   while ok do
@@ -80,11 +94,11 @@ function M.resonance(name, index)
   if #list == 0 then
     error(string.format("species.resonance: no Feshbach resonance is known for %s; add one "
       .. "with cp.species.add_resonance{molecule = %q, b0 = ..., width = ..., abg = ..., dmu = ...}",
-      m.name, m.name), 2)
+      m.name, m.name), 0)
   end
   if index > #list then
     error(string.format("species.resonance: index %d for %s is out of range; allowed 1 to %d",
-      index, m.name, #list), 2)
+      index, m.name, #list), 0)
   end
   return list[index]
 end
@@ -92,11 +106,11 @@ end
 -- The polarizability (a.u.) of a named species at a trap wavelength (m): a user-added
 -- species' own value, else the built-in one; the error asks for polarizability_au where
 -- there is none.
-function M.polarizability(name, wavelength)
+function impl.polarizability(name, wavelength)
   check_name("species.polarizability", name)
   if math.type(wavelength) == nil then
     error(string.format("species.polarizability: wavelength must be a number (m), got %s",
-      type(wavelength)), 2)
+      type(wavelength)), 0)
   end
   local user = user_atoms[key(name)] or user_molecules[key(name)]
   if user then
@@ -106,11 +120,11 @@ function M.polarizability(name, wavelength)
     if v then return v end
     error(string.format("species polarizability: no polarizability of %s at %.6g nm was given; "
       .. "give polarizability_au (a.u.) for this species and wavelength (or pol_1064_au / "
-      .. "pol_1550_au when adding it)", user.name, nm), 2)
+      .. "pol_1550_au when adding it)", user.name, nm), 0)
   end
   local ok, r = pcall(builtin.builtin_polarizability, name, wavelength)
   if ok then return r end
-  error(r, 2)
+  error(r, 0)
 end
 
 local function citation(ref)
@@ -135,13 +149,13 @@ end
 -- Every built-in value with its publication, status and whether it was checked against
 -- the paper; `name` (optional) keeps one species (its resonances included).  Prints one
 -- block per value unless quiet is true; returns the entries.
-function M.sources(name, quiet)
+function impl.sources(name, quiet)
   local list = builtin.builtin_sources()
   if name ~= nil then
     check_name("species.sources", name)
     local ok, rec = pcall(builtin.builtin_atom, name)
     if not ok then ok, rec = pcall(builtin.builtin_molecule, name) end
-    if not ok then error(rec, 2) end
+    if not ok then error(rec, 0) end
     local keep = {}
     for _, d in ipairs(list) do
       if d.record == rec.name or d.record:match("^(.-)#") == rec.name then keep[#keep + 1] = d end
@@ -159,7 +173,7 @@ function M.sources(name, quiet)
   return list
 end
 
-function M.list()
+function impl.list()
   local names = builtin.builtin_list()
   for _, n in ipairs(user_names()) do names[#names + 1] = n end
   return names
@@ -170,7 +184,7 @@ local function number(fname, args, k, unit, positive, optional)
   return A.number(fname, args, k, unit, { positive = positive, optional = optional })
 end
 
-function M.add_atom(args)
+function impl.add_atom(args)
   local fname = "species.add_atom"
   A.table(fname, args, { "name", "mass_u", "statistics", "nuclear_spin", "pol_1064_au",
     "pol_1550_au", "source", "a_bb", "a_bb_source" })
@@ -193,16 +207,21 @@ function M.add_atom(args)
   return copy(a)
 end
 
-function M.add_molecule(args)
+function impl.add_molecule(args)
   local fname = "species.add_molecule"
   A.table(fname, args, { "name", "atoms", "dipole_debye", "rot_const_hz", "c6_au",
     "reactive", "pol_1064_au", "pol_1064_par_au", "pol_1064_perp_au", "pol_1550_au",
     "loss_rate", "loss_temperature", "source" })
   check_name(fname, args.name)
   if type(args.atoms) ~= "table" or #args.atoms ~= 2 then
-    error(fname .. ": argument 'atoms' must be a list of two atom names", 2)
+    error(fname .. ": argument 'atoms' must be a list of two atom names", 0)
   end
-  local a, b = M.atom(args.atoms[1]), M.atom(args.atoms[2])
+  for i = 1, 2 do
+    if type(args.atoms[i]) ~= "string" then
+      A.fail(fname, "argument 'atoms[%d]' must be an atom name (string), got %s", i, type(args.atoms[i]))
+    end
+  end
+  local a, b = impl.atom(args.atoms[1]), impl.atom(args.atoms[2])
   local m = {
     kind = "molecule", name = args.name, atoms = { a.name, b.name },
     mass = a.mass + b.mass, mass_u = (a.mass + b.mass) / cp.consts.amu,
@@ -222,23 +241,26 @@ function M.add_molecule(args)
   -- the isotropic part: given, or (alpha_par + 2 alpha_perp) / 3 from the two components
   m.pol_1064_au = number(fname, args, "pol_1064_au", "a.u.", true, true)
   if (m.pol_1064_par_au == nil) ~= (m.pol_1064_perp_au == nil) then
-    error(fname .. ": give both 'pol_1064_par_au' and 'pol_1064_perp_au', or neither", 2)
+    error(fname .. ": give both 'pol_1064_par_au' and 'pol_1064_perp_au', or neither", 0)
   end
   if m.pol_1064_par_au and not m.pol_1064_au then
     m.pol_1064_au = (m.pol_1064_par_au + 2 * m.pol_1064_perp_au) / 3
   end
   if (m.loss_rate == nil) ~= (m.loss_temperature == nil) then
-    error(fname .. ": give 'loss_rate' with the 'loss_temperature' it was measured at", 2)
+    error(fname .. ": give 'loss_rate' with the 'loss_temperature' it was measured at", 0)
   end
   user_molecules[key(args.name)] = m
   return copy(m)
 end
 
-function M.add_resonance(args)
+function impl.add_resonance(args)
   local fname = "species.add_resonance"
   A.table(fname, args, { "molecule", "b0", "width", "abg", "dmu", "c6_au", "states",
     "source" })
-  local m = M.molecule(args.molecule)
+  if type(args.molecule) ~= "string" then
+    A.fail(fname, "argument 'molecule' must be a molecule name (string), got %s", type(args.molecule))
+  end
+  local m = impl.molecule(args.molecule)
   local r = {
     molecule = m.name, states = args.states or "user-supplied",
     b0 = number(fname, args, "b0", "T", true),
@@ -249,7 +271,7 @@ function M.add_resonance(args)
     verified = true, source = args.source or "user-supplied",
   }
   if r.width == 0 or r.abg == 0 then
-    error(fname .. ": arguments 'width' and 'abg' must be non-zero", 2)
+    error(fname .. ": arguments 'width' and 'abg' must be non-zero", 0)
   end
   user_resonances[m.name] = user_resonances[m.name] or {}
   table.insert(user_resonances[m.name], r)
@@ -311,6 +333,7 @@ species.add_resonance{molecule, b0 (T), width (T), abg (m), dmu (J/T)
 Adds a Feshbach resonance.  Example: cp.species.add_resonance{molecule = "KRb",
 b0 = 546.62*cp.units.G, width = -3.1*cp.units.G, abg = -189*cp.units.a0, dmu = 2.3*cp.consts.muB}]],
 }
+for name in pairs(H) do M[name] = at_caller(impl[name]) end
 for name, text in pairs(H) do cp.set_help(M[name], text) end
 
 -- keep the raw built-in lookups reachable for tests and tools

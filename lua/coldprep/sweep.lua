@@ -41,7 +41,7 @@ local function parse_parameter(fname, spec, where)
       local t = type(v)
       if not (t == "string" or t == "boolean" or A.is_finite(v)) then
         A.fail(fname, "%s: values[%d] must be a finite number, a string or a boolean, got %s",
-          label, i, tostring(v))
+          label, i, v ~= v and "NaN" or t == "number" and tostring(v) or t)
       end
     end
     local copy = table.move(vals, 1, #vals, 1, {})

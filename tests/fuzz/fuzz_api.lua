@@ -254,6 +254,10 @@ local UNIT_INTERVAL = { "efficiency", "fraction", "probability", "survival", "in
 -- (cp.collisions.evaporation's efficiency is the log-derivative -d ln(PSD) / d ln N, not
 -- a probability)
 local NOT_FRACTIONS = { ["cp.collisions.evaporation"] = true }
+-- (a budget's efficiency and cumulative_efficiency are the ratios N_out/N_in and N/N_start:
+-- at least 0, above 1 for a stage that adds particles, which the row's first note says)
+local BUDGETS = { ["cp.report.budget"] = true, ["cp.plan.Plan.run"] = true }
+local RATIOS = { efficiency = true, cumulative_efficiency = true }
 
 local function unit_interval(key)
   if type(key) ~= "string" then return false end
@@ -263,11 +267,13 @@ local function unit_interval(key)
   return false
 end
 
-local function nonfinite(v, path, seen, budget, key, list_key)
+local function nonfinite(v, path, seen, budget, key, list_key, ratios)
   local t = type(v)
   if t == "number" then
     if v ~= v or v == math.huge or v == -math.huge then return path .. " = " .. tostring(v) end
-    if (unit_interval(key) or unit_interval(list_key)) and (v < 0 or v > 1) then
+    if ratios and RATIOS[key] then
+      if v < 0 then return path .. " = " .. string.format("%.17g", v) .. ", outside [0, 1]" end
+    elseif (unit_interval(key) or unit_interval(list_key)) and (v < 0 or v > 1) then
       return path .. " = " .. string.format("%.17g", v) .. ", outside [0, 1]"
     end
     return nil
@@ -278,7 +284,7 @@ local function nonfinite(v, path, seen, budget, key, list_key)
     budget[1] = budget[1] - 1
     if budget[1] <= 0 then return nil end
     local p = nonfinite(x, path .. "." .. tostring(k), seen, budget,
-      key == "" and "" or k, key == "" and "" or (math.type(k) == "integer" and key or nil))
+      key == "" and "" or k, key == "" and "" or (math.type(k) == "integer" and key or nil), ratios)
     if p then return p end
   end
 end
@@ -307,7 +313,8 @@ while i < first + count and os.time() - start < seconds do
     problem = error_problem(res, args)
     if problem then problem = problem .. ": " .. tostring(res):sub(1, 300) end
   else
-    local where = nonfinite(res, "result", {}, { 20000 }, NOT_FRACTIONS[f.name] and "" or nil)
+    local where = nonfinite(res, "result", {}, { 20000 }, NOT_FRACTIONS[f.name] and "" or nil, nil,
+      BUDGETS[f.name])
     if where then
       problem = where:find("outside %[0, 1%]") and ("a value outside its range: " .. where)
         or ("a non-finite number without an error: " .. where)

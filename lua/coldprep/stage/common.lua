@@ -14,6 +14,28 @@ Stage.__index = Stage
 M.MOLECULES = { ["feshbach-molecules"] = true, ["ground-state-molecules"] = true }
 M.ANY = { ["atom-mixture"] = true, ["feshbach-molecules"] = true, ["ground-state-molecules"] = true }
 
+-- The equipment a stage may declare for the budget's safety cautions: each kind with the
+-- field that sizes it and its unit (a laser's power may be left out: "not given").
+M.EQUIPMENT = { laser = { "power", "W" }, coil = { "field", "T" }, electric = { "field", "V/m" },
+  microwave = { "rabi", "rad/s" } }
+
+-- Check one equipment item {kind, what, <its field>}; `where` names it in the message.
+function M.check_equipment(where, e)
+  if type(e) ~= "table" then A.fail(where, "must be a table {kind, what, ...}, got %s", type(e)) end
+  local q = M.EQUIPMENT[e.kind]
+  if not q then
+    A.fail(where, "kind %s is not allowed; allowed coil, electric, laser, microwave", tostring(e.kind))
+  end
+  if e.what ~= nil and type(e.what) ~= "string" then
+    A.fail(where, "field 'what' must be a string, got %s", type(e.what))
+  end
+  if e.kind == "laser" then
+    A.number(where, e, q[1], q[2], { optional = true, positive = true })
+  else
+    A.number(where, e, q[1], q[2], { nonnegative = true })
+  end
+end
+
 function M.new_stage(kind, args, fields)
   if args.label ~= nil and type(args.label) ~= "string" then
     A.fail("stages." .. kind, "argument 'label' must be a string")

@@ -25,6 +25,9 @@ local function custom(args)
   if args.equipment ~= nil and type(args.equipment) ~= "table" then
     A.fail(fname, "argument 'equipment' must be a list of {kind = \"laser\"|\"coil\"|\"electric\"|\"microwave\", ...}")
   end
+  for i, e in ipairs(args.equipment or {}) do
+    common.check_equipment(string.format("%s: equipment[%d]", fname, i), e)
+  end
   return new_stage("custom", { label = args.name }, {
     accepts = accepts, produces = produces, adiabatic = args.adiabatic and true or false,
     equipment = args.equipment,

@@ -51,7 +51,7 @@ local function transfer(args)
   local result
   if not eff then
     local ok, r = pcall(cp.raman.transfer, pulse)
-    if not ok then A.fail(fname, "%s", (tostring(r):gsub("^[^:\n]*coldprep/%w+%.lua:%d+: ", ""))) end
+    if not ok then A.fail(fname, "%s", (tostring(r):gsub("^[^:\n]*coldprep/[%w_/]+%.lua:%d+: ", ""))) end
     result = r
   end
   local st = new_stage("transfer", args, {
