@@ -238,6 +238,22 @@ typedef struct cp_shielded_result {
 cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result *r,
                                  cp_error *err);
 
+/* A cache for callers that ask for the same molecules and protection at many temperatures
+ * (a plan's stages, a sweep): it keeps the temperature-independent part of
+ * cp_collisions_shielded (each channel's inner radius and potential on the radial grid)
+ * and the dc shielding field of cp_collisions_protected, found by their inputs compared
+ * bit for bit, so a result computed with the cache is bit for bit the result without it.
+ * Owned by the caller, who frees it with cp_shielded_cache_free (NULL is a no-op); not
+ * safe to share between threads (one per thread).  At most a few tens of MB.  NULL from
+ * _alloc when out of memory. */
+typedef struct cp_shielded_cache cp_shielded_cache;
+cp_shielded_cache *cp_shielded_cache_alloc(void);
+void cp_shielded_cache_free(cp_shielded_cache *cache);
+
+/* cp_collisions_shielded with a cache (NULL: none). */
+cp_status cp_collisions_shielded_cached(const cp_shielded_params *p, cp_shielded_cache *cache,
+                                        cp_shielded_result *r, cp_error *err);
+
 /* The protection a plan gives its molecules, and the molecule itself.  The regime follows:
  * a microwave -> microwave shielding (no dc field allowed with it); an axial confinement
  * -> quasi-2D with the dipole the dc field induces (field along the tight axis); molecules
@@ -270,6 +286,12 @@ typedef struct cp_protection_params {
 cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_result *r,
                                   double *dipole_used, cp_shield_regime *regime,
                                   cp_error *err);
+
+/* cp_collisions_protected with a cache (NULL: none; see cp_shielded_cache_alloc). */
+cp_status cp_collisions_protected_cached(const cp_protection_params *p,
+                                         cp_shielded_cache *cache, cp_shielded_result *r,
+                                         double *dipole_used, cp_shield_regime *regime,
+                                         cp_error *err);
 
 #ifdef __cplusplus
 }

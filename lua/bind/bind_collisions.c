@@ -7,7 +7,9 @@
  * for the trapped-cloud ones, as each help text says.  `shielded` gives the elastic and
  * loss rates of identical polar molecules under a dc field, a microwave or a pancake trap,
  * or of molecules in |1,0> under dc-field shielding (core/collisions_protect.c,
- * core/collisions_shielded.c).
+ * core/collisions_shielded.c), through a cache of its temperature-independent part kept
+ * per Lua state with the memo (memo.h): a plan asks for the same protection at several
+ * temperatures, a sweep for the same few fields at many points.
  */
 #include <lauxlib.h>
 #include <lua.h>
@@ -19,6 +21,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/fields.h"
 #include "help.h"
+#include "memo.h"
 
 int cpl_open_collisions(lua_State *L);
 
@@ -294,6 +297,43 @@ static void read_molecule(lua_State *L, const char *fname, cp_protection_params 
 
 static const char *const REGIMES[] = {"dc_3d", "quasi_2d", "microwave", "dc_shield"};
 
+static const char CACHE[] = "coldprep.collisions.cache";
+
+static int cache_gc(lua_State *L)
+{
+    cp_shielded_cache **c = luaL_checkudata(L, 1, CACHE);
+    cp_shielded_cache_free(*c);
+    *c = NULL;
+    return 0;
+}
+
+/* This state's cache of cp_collisions_protected_cached, made on first use; NULL while the
+ * memo is disabled (or when out of memory: the rates are then computed without it). */
+static cp_shielded_cache *state_cache(lua_State *L)
+{
+    if (!cpl_memo_enabled(L))
+        return NULL;
+    cpl_memo_objects(L);
+    cp_shielded_cache **c;
+    if (lua_getfield(L, -1, CACHE) == LUA_TUSERDATA) {
+        c = lua_touserdata(L, -1);
+    } else {
+        lua_pop(L, 1);
+        c = lua_newuserdatauv(L, sizeof *c, 0);
+        *c = NULL;
+        if (luaL_newmetatable(L, CACHE)) {
+            lua_pushcfunction(L, cache_gc);
+            lua_setfield(L, -2, "__gc");
+        }
+        lua_setmetatable(L, -2);
+        *c = cp_shielded_cache_alloc();
+        lua_pushvalue(L, -1);
+        lua_setfield(L, -3, CACHE);
+    }
+    lua_pop(L, 2);
+    return *c; /* the objects table holds the userdata */
+}
+
 static int l_shielded(lua_State *L)
 {
     static const char *const keys[] = {"molecule", "temperature", "electric_field",
@@ -343,7 +383,7 @@ static int l_shielded(lua_State *L)
     cp_shield_regime regime;
     double dip;
     cp_error err;
-    if (cp_collisions_protected(&p, &r, &dip, &regime, &err) != CP_OK)
+    if (cp_collisions_protected_cached(&p, state_cache(L), &r, &dip, &regime, &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 14);
     cpl_set_number(L, "elastic_rate_coefficient", r.elastic_rate);
