@@ -158,6 +158,17 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
                                     double *phase_space_densities, double *efficiency,
                                     cp_error *err);
 
+/* The first points of that trajectory, up to and including the first point after N0 at or
+ * below stop_temperature (K, >= 0; 0 never stops it): *filled points are written (>= 2
+ * unless an error; all `points` when the temperature never falls that far), each bit for
+ * bit the value cp_collisions_evaporation gives there, the others NaN.  What costs is the
+ * integration, so a caller looking for where the trajectory reaches a temperature need not
+ * integrate past it.  Errors as cp_collisions_evaporation (*filled = 0). */
+cp_status cp_collisions_evaporation_until(const cp_evaporation_params *p, size_t points,
+                                          double stop_temperature, double *numbers,
+                                          double *temperatures, double *phase_space_densities,
+                                          size_t *filled, cp_error *err);
+
 /* The elapsed time (s) at each point of a trajectory (numbers, temperatures: `points`
  * values from cp_collisions_evaporation with the same p): dt = -d ln N / (<n> (f sigma v_rel
  * + beta(T))) with f and <n> of cp_collisions_evaporation_rate, v_rel = sqrt(16 k_B T /

@@ -201,7 +201,7 @@ static int l_evaporation(lua_State *L)
     static const char *const keys[] = {"number", "temperature", "omega_bar", "omega_x",
                                        "omega_y", "omega_z", "mass", "eta", "kappa", "ratio",
                                        "wave", "final_number", "points", "cross_section",
-                                       "loss_rate", NULL};
+                                       "loss_rate", "stop_temperature", NULL};
     const char *fname = "collisions.evaporation";
     cpl_check_args(L, 1, fname, keys);
     cp_evaporation_params p;
@@ -219,28 +219,41 @@ static int l_evaporation(lua_State *L)
     int clocked = cpl_has(L, 1, "cross_section") || cpl_has(L, 1, "loss_rate");
     double sigma = cpl_opt_number(L, 1, fname, "cross_section", "m^2", 0.0);
     double beta = cpl_opt_number(L, 1, fname, "loss_rate", "m^3/s", 0.0);
+    double stop = cpl_opt_number(L, 1, fname, "stop_temperature", "K", 0.0);
+    if (!(stop >= 0.0))
+        cpl_error(L, fname, "stop_temperature %g K is out of range; allowed >= 0 K", stop);
     double *buf = lua_newuserdatauv(L, 4 * n * sizeof(double), 0);
     double efficiency;
+    size_t m = n; /* the points computed */
     cp_error err;
-    if (cp_collisions_evaporation(&p, n, buf, buf + n, buf + 2 * n, &efficiency, &err) != CP_OK)
+    cp_status st = stop > 0.0
+                       ? cp_collisions_evaporation_until(&p, n, stop, buf, buf + n, buf + 2 * n,
+                                                         &m, &err)
+                       : cp_collisions_evaporation(&p, n, buf, buf + n, buf + 2 * n,
+                                                   &efficiency, &err);
+    if (st != CP_OK)
         return cpl_raise(L, &err);
-    if (clocked && cp_collisions_evaporation_times(&p, sigma, beta, n, buf, buf + n, buf + 3 * n,
+    if (m < n) /* stopped early: the efficiency up to the last point */
+        efficiency = -log(buf[2 * n + m - 1] / buf[2 * n]) / log(buf[m - 1] / buf[0]);
+    else if (stop > 0.0)
+        efficiency = -log(buf[3 * n - 1] / buf[2 * n]) / log(p.final_number / p.number);
+    if (clocked && cp_collisions_evaporation_times(&p, sigma, beta, m, buf, buf + n, buf + 3 * n,
                                                    &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 9);
-    cpl_set_number(L, "number", buf[n - 1]);
-    cpl_set_number(L, "temperature", buf[2 * n - 1]);
-    cpl_set_number(L, "phase_space_density", buf[3 * n - 1]);
+    cpl_set_number(L, "number", buf[m - 1]);
+    cpl_set_number(L, "temperature", buf[n + m - 1]);
+    cpl_set_number(L, "phase_space_density", buf[2 * n + m - 1]);
     cpl_set_number(L, "efficiency", efficiency);
-    cpl_push_array(L, buf, n);
+    cpl_push_array(L, buf, m);
     lua_setfield(L, -2, "numbers");
-    cpl_push_array(L, buf + n, n);
+    cpl_push_array(L, buf + n, m);
     lua_setfield(L, -2, "temperatures");
-    cpl_push_array(L, buf + 2 * n, n);
+    cpl_push_array(L, buf + 2 * n, m);
     lua_setfield(L, -2, "phase_space_densities");
     if (clocked) {
-        cpl_set_number(L, "duration", buf[4 * n - 1]);
-        cpl_push_array(L, buf + 3 * n, n);
+        cpl_set_number(L, "duration", buf[3 * n + m - 1]);
+        cpl_push_array(L, buf + 3 * n, m);
         lua_setfield(L, -2, "times");
     }
     return 1;
@@ -487,6 +500,8 @@ static const cpl_function functions[] = {
      "  final_number  N at the end, [1, N0)\n"
      "  cross_section (m^2), loss_rate (m^3/s, beta at T0)  optional: with them the clock\n"
      "    dt = -d ln N / (<n> (f sigma v_rel + beta)) gives times and duration\n"
+     "  stop_temperature  K, optional: the trajectory ends at its first point at or below it\n"
+     "    (the same points as without it, fewer of them; the results are those of its end)\n"
      "Returns {number, temperature, phase_space_density (classical peak), efficiency\n"
      "  (-dln PSD / dln N), numbers, temperatures, phase_space_densities [, times (s),\n"
      "  duration (s)]}.\n"
