@@ -12,7 +12,7 @@
 #include "collisions_int.h"
 
 #define CACHE_TABLES 256
-#define CACHE_BYTES ((size_t)32 << 20)
+#define CACHE_BYTES ((size_t)16 << 20)
 
 struct cp_shielded_cache {
     cp_radial_table tables[CACHE_TABLES];

@@ -255,7 +255,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
  * and the dc shielding field of cp_collisions_protected, found by their inputs compared
  * bit for bit, so a result computed with the cache is bit for bit the result without it.
  * Owned by the caller, who frees it with cp_shielded_cache_free (NULL is a no-op); not
- * safe to share between threads (one per thread).  At most a few tens of MB.  NULL from
+ * safe to share between threads (one per thread).  At most about 16 MB.  NULL from
  * _alloc when out of memory. */
 typedef struct cp_shielded_cache cp_shielded_cache;
 cp_shielded_cache *cp_shielded_cache_alloc(void);

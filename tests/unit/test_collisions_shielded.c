@@ -432,6 +432,19 @@ static void test_cache_identical(void **state)
                 assert_int_equal(a.valid, b.valid);
                 assert_string_equal(a.note, b.note);
             }
+    /* more protections than the cache keeps tables for: the oldest are dropped and, asked
+     * for again, recomputed alike */
+    for (int pass = 0; pass < 2; pass++)
+        for (int k = 0; k < (pass ? 20 : 300); k++) {
+            cp_shielded_params q = {.regime = CP_SHIELD_DC_3D, .stat = CP_PAIR_FERMIONS,
+                                    .mass = M_KRB, .c6_au = C6_KRB, .temperature = 300e-9,
+                                    .dipole = (0.01 + 0.001 * k) * DEBYE};
+            cp_shielded_result a, b;
+            cp_error err;
+            assert_int_equal(cp_collisions_shielded_cached(&q, cache, &a, &err), CP_OK);
+            assert_int_equal(cp_collisions_shielded(&q, &b, &err), CP_OK);
+            assert_memory_equal(&a.elastic_rate, &b.elastic_rate, 8 * sizeof(double));
+        }
     cp_shielded_cache_free(cache);
     cp_shielded_cache_free(NULL);
 }
