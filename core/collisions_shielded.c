@@ -150,8 +150,9 @@ static double lowest_eigenvalue(double a[NB][NB], int n)
  * off-diagonal e, by Newton's method on its characteristic polynomial det(d - x) (leading
  * minors by their three-term recurrence, with their derivatives), started at Gershgorin's
  * lower bound: below the lowest root of a polynomial whose roots are all real, Newton's
- * iterates rise monotonically to that root (Wilkinson, The Algebraic Eigenvalue Problem,
- * ch. 7 [M]), and they stop when rounding no longer lets them rise.  Fewer operations than
+ * iterates rise monotonically to that root (the polynomial is convex and decreasing there;
+ * a classical property, e.g. Stoer & Bulirsch, Introduction to Numerical Analysis [M]), and
+ * they stop when rounding no longer lets them rise.  Fewer operations than
  * the rotations for the dc regime's matrices; the same eigenvalue to a few units in the
  * last place of the matrix's scale. */
 static double lowest_tridiagonal(const double *d, const double *e, int n)
@@ -464,8 +465,8 @@ static cp_status channel_prepare(work *w, channel_setup *cs, cp_error *err)
  * at most PHASE_STEP (and h at most 0.02).  So that the grid, and with it u_pot on it,
  * does not change with the temperature, the bound is taken on a ladder: F_j =
  * b STEP_LADDER^j, b = max(|u_pot(r_in)|, 1), with j the smallest that reaches F (usually
- * j = 1: k^2 r_in^2 is a small addition to |u_pot| = F_INNER; the steps are at most 5 %
- * shorter than the bound needs). */
+ * j = 1: k^2 r_in^2 is a small addition to |u_pot| = F_INNER; the steps are at most
+ * sqrt(STEP_LADDER) - 1 = 2.5 % shorter than the bound needs). */
 static double channel_step(double u_in, double k2r2, int *j)
 {
     double b = fmax(fabs(u_in), 1.0), f = fabs(u_in) + k2r2;
