@@ -79,17 +79,15 @@ static cp_status check_evap(const cp_evaporation_params *p, size_t points, cp_er
     return CP_OK;
 }
 
-cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t points,
-                                    double *numbers, double *temperatures,
-                                    double *phase_space_densities, double *efficiency,
-                                    cp_error *err)
+/* The trajectory's points 0 .. *filled - 1, ending after the first point at or below
+ * stop_temperature (from point 1 on; 0: none); the others NaN. */
+static cp_status trajectory(const cp_evaporation_params *p, size_t points,
+                            double stop_temperature, double *numbers, double *temperatures,
+                            double *phase_space_densities, size_t *filled, cp_error *err)
 {
-    if (!efficiency || !numbers || !temperatures || !phase_space_densities)
-        return cp_fail(err, CP_EINVAL, "collisions.evaporation: numbers, temperatures, "
-                       "phase_space_densities and efficiency must not be NULL");
-    *efficiency = NAN;
     for (size_t i = 0; i < points; i++)
         numbers[i] = temperatures[i] = phase_space_densities[i] = NAN;
+    *filled = 0;
     if (!p)
         return cp_fail(err, CP_EINVAL, "collisions.evaporation: parameters are NULL");
     CP_TRY(check_evap(p, points, err));
@@ -108,7 +106,8 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
     double wbar = cbrt(p->omega[0] * p->omega[1] * p->omega[2]);
     double y[1] = {0.0}, u = 0.0;
     cp_status result = CP_OK;
-    for (size_t i = 0; i < points; i++) {
+    size_t i;
+    for (i = 0; i < points; i++) {
         double ui = u_end * (double)i / (double)(points - 1);
         if (i > 0) {
             int status = gsl_odeiv2_driver_apply(d, &u, ui, y);
@@ -130,13 +129,50 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
         numbers[i] = n;
         temperatures[i] = temp;
         phase_space_densities[i] = n * q * q * q;
+        if (i > 0 && temp <= stop_temperature) {
+            i++;
+            break;
+        }
     }
     gsl_odeiv2_driver_free(d);
     if (result != CP_OK) {
-        for (size_t i = 0; i < points; i++)
-            numbers[i] = temperatures[i] = phase_space_densities[i] = NAN;
+        for (size_t k = 0; k < points; k++)
+            numbers[k] = temperatures[k] = phase_space_densities[k] = NAN;
         return result;
     }
-    *efficiency = -log(phase_space_densities[points - 1] / phase_space_densities[0]) / u_end;
+    *filled = i;
     return CP_OK;
+}
+
+cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t points,
+                                    double *numbers, double *temperatures,
+                                    double *phase_space_densities, double *efficiency,
+                                    cp_error *err)
+{
+    if (!efficiency || !numbers || !temperatures || !phase_space_densities)
+        return cp_fail(err, CP_EINVAL, "collisions.evaporation: numbers, temperatures, "
+                       "phase_space_densities and efficiency must not be NULL");
+    *efficiency = NAN;
+    size_t filled;
+    CP_TRY(trajectory(p, points, 0.0, numbers, temperatures, phase_space_densities, &filled,
+                      err));
+    *efficiency = -log(phase_space_densities[points - 1] / phase_space_densities[0]) /
+                  log(p->final_number / p->number);
+    return CP_OK;
+}
+
+cp_status cp_collisions_evaporation_until(const cp_evaporation_params *p, size_t points,
+                                          double stop_temperature, double *numbers,
+                                          double *temperatures, double *phase_space_densities,
+                                          size_t *filled, cp_error *err)
+{
+    if (!filled || !numbers || !temperatures || !phase_space_densities)
+        return cp_fail(err, CP_EINVAL, "collisions.evaporation: numbers, temperatures, "
+                       "phase_space_densities and filled must not be NULL");
+    *filled = 0;
+    if (!(stop_temperature >= 0.0 && stop_temperature < INFINITY))
+        return cp_fail(err, CP_EINVAL, "collisions.evaporation: stop_temperature %g K is not "
+                       "a temperature; allowed [0, inf) K", stop_temperature);
+    return trajectory(p, points, stop_temperature, numbers, temperatures,
+                      phase_space_densities, filled, err);
 }

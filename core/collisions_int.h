@@ -33,4 +33,33 @@ typedef struct cp_radial_grid {
 cp_status cp_radial_absorption(const cp_radial_grid *g, const double *u_pot, const double *r2,
                                double k, double *prob, cp_error *err);
 
+/* ---- the cache of cp_collisions_shielded_cached (collisions_cache.c) ---- */
+
+/* A table of one channel class: its inner radius r_in and u_pot there, and, for a step h in
+ * ln r, u_pot and r^2 on the grid r_i = exp(ln r_in + i h), i < n (cap allocated; u_pot and
+ * r2 share one allocation).  Found by key: CP_RADIAL_KEY doubles naming every input the
+ * numbers depend on, compared bit for bit. */
+#define CP_RADIAL_KEY 32
+typedef struct cp_radial_table {
+    double key[CP_RADIAL_KEY];
+    unsigned long long hash;
+    double r_in, u_in, h;
+    size_t n, cap;
+    double *u_pot, *r2;
+} cp_radial_table;
+
+/* The table with this key, or NULL (also when c is NULL). */
+cp_radial_table *cp_shielded_cache_find(cp_shielded_cache *c, const double *key);
+
+/* A zeroed table with this key, made room for by dropping the oldest (c not NULL). */
+cp_radial_table *cp_shielded_cache_add(cp_shielded_cache *c, const double *key);
+
+/* Room for n grid points in t, the filled ones kept (c NULL: a table outside any cache).
+ * 0 when out of memory. */
+int cp_radial_table_reserve(cp_shielded_cache *c, cp_radial_table *t, size_t n);
+
+/* The dc shielding field remembered for key = {dipole, rot_const_hz}: 1 and *field, or 0. */
+int cp_shielded_cache_field(const cp_shielded_cache *c, const double key[2], double *field);
+void cp_shielded_cache_set_field(cp_shielded_cache *c, const double key[2], double field);
+
 #endif

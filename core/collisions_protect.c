@@ -11,6 +11,7 @@
 #include <stdio.h>
 
 #include "check_int.h"
+#include "collisions_int.h"
 #include "coldprep/consts.h"
 #include "coldprep/fields.h"
 
@@ -25,7 +26,8 @@
  * |2,0> and the pair gap at the field (coldprep/fields.h), then the pair regime of
  * cp_collisions_shielded; flagged outside [F_s, CP_DC_SHIELD_MAX_REDUCED B / d]. */
 static cp_status dc_pair(const cp_protection_params *p, cp_shielded_params *q,
-                         cp_shielded_result *r, double *dipole_used, cp_error *err)
+                         cp_shielded_cache *cache, cp_shielded_result *r, double *dipole_used,
+                         cp_error *err)
 {
     const char *ctx = "collisions.protected";
     cp_fields_rotor rotor = {p->dipole, p->rot_const_hz};
@@ -44,7 +46,7 @@ static cp_status dc_pair(const cp_protection_params *p, cp_shielded_params *q,
         for (int j = 0; j < 3; j++)
             q->stark_dipole[i][j] = dm[3 * i + j];
     q->pair_gap = CP_H * (2.0 * e[1] - e[0] - e[2]);
-    CP_TRY(cp_collisions_shielded(q, r, err));
+    CP_TRY(cp_collisions_shielded_cached(q, cache, r, err));
     *dipole_used = fabs(dm[4]);
     double x = p->dipole * p->electric_field / (CP_H * p->rot_const_hz);
     if (r->valid && x < CP_DC_SHIELD_MIN_REDUCED) {
@@ -109,6 +111,14 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
                                   double *dipole_used, cp_shield_regime *regime,
                                   cp_error *err)
 {
+    return cp_collisions_protected_cached(p, NULL, r, dipole_used, regime, err);
+}
+
+cp_status cp_collisions_protected_cached(const cp_protection_params *p,
+                                         cp_shielded_cache *cache, cp_shielded_result *r,
+                                         double *dipole_used, cp_shield_regime *regime,
+                                         cp_error *err)
+{
     const char *ctx = "collisions.protected";
     if (!r || !dipole_used || !regime || !p)
         return cp_fail(err, CP_EINVAL, "%s: arguments must not be NULL", ctx);
@@ -131,7 +141,7 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
                        p->rotational_j);
     if (p->rotational_j == 1) {
         *regime = CP_SHIELD_DC_PAIR;
-        return dc_pair(p, &q, r, dipole_used, err);
+        return dc_pair(p, &q, cache, r, dipole_used, err);
     }
     if (p->microwave) {
         if (p->electric_field > 0.0)
@@ -153,7 +163,7 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
         q.detuning = p->detuning;
         q.dipole_permanent = p->dipole;
         *regime = CP_SHIELD_MICROWAVE;
-        CP_TRY(cp_collisions_shielded(&q, r, err));
+        CP_TRY(cp_collisions_shielded_cached(&q, cache, r, err));
         *dipole_used = out.effective_dipole;
         if (p->ellipticity > 0.02 && r->valid) {
             r->valid = 0;
@@ -170,11 +180,14 @@ cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_res
     q.dipole = fabs(dind);
     q.regime = p->axial_omega > 0.0 ? CP_SHIELD_QUASI_2D : CP_SHIELD_DC_3D;
     *regime = q.regime;
-    CP_TRY(cp_collisions_shielded(&q, r, err));
+    CP_TRY(cp_collisions_shielded_cached(&q, cache, r, err));
     *dipole_used = q.dipole;
     if (p->electric_field > 0.0 && q.regime == CP_SHIELD_DC_3D) {
-        double fs;
-        CP_TRY(cp_fields_shielding_field(&rotor, &fs, NULL, err));
+        double fs, key[2] = {p->dipole, p->rot_const_hz};
+        if (!cp_shielded_cache_field(cache, key, &fs)) {
+            CP_TRY(cp_fields_shielding_field(&rotor, &fs, NULL, err));
+            cp_shielded_cache_set_field(cache, key, fs);
+        }
         if (p->electric_field >= SHIELDING_FRACTION * fs) {
             r->valid = 0;
             snprintf(r->note, sizeof r->note, "field %.4g kV/cm is near or above the dc "

@@ -52,6 +52,7 @@
 #define N_ANGLE 24    /* Gauss-Legendre nodes of the angular matrix elements (exact here) */
 #define F_INNER 200.0 /* |F| at the inner edge: local phase 14 rad per unit ln r (WKB) */
 #define PHASE_STEP 0.12 /* largest phase per Numerov step, rad */
+#define STEP_LADDER 1.05 /* the steps for different temperatures: see channel_step */
 #define MAX_POINTS 40000
 
 /* V(r, c = cos^2 theta) = sum_n f_n(r) c^n, n = 0..3, for the 3D regimes. */
@@ -143,6 +144,39 @@ static double lowest_eigenvalue_tol(double a[NB][NB], int n, double tol)
 static double lowest_eigenvalue(double a[NB][NB], int n)
 {
     return lowest_eigenvalue_tol(a, n, 1e-30);
+}
+
+/* Lowest eigenvalue of the symmetric tridiagonal n x n matrix with diagonal d and
+ * off-diagonal e, by Newton's method on its characteristic polynomial det(d - x) (leading
+ * minors by their three-term recurrence, with their derivatives), started at Gershgorin's
+ * lower bound: below the lowest root of a polynomial whose roots are all real, Newton's
+ * iterates rise monotonically to that root (the polynomial is convex and decreasing there;
+ * a classical property, e.g. Stoer & Bulirsch, Introduction to Numerical Analysis [M]), and
+ * they stop when rounding no longer lets them rise.  Fewer operations than
+ * the rotations for the dc regime's matrices; the same eigenvalue to a few units in the
+ * last place of the matrix's scale. */
+static double lowest_tridiagonal(const double *d, const double *e, int n)
+{
+    double x = INFINITY;
+    for (int i = 0; i < n; i++)
+        x = fmin(x, d[i] - (i > 0 ? fabs(e[i - 1]) : 0.0) - (i + 1 < n ? fabs(e[i]) : 0.0));
+    for (int it = 0; it < 200; it++) {
+        double p0 = 1.0, p1 = d[0] - x, q0 = 0.0, q1 = -1.0;
+        for (int k = 1; k < n; k++) {
+            double e2 = e[k - 1] * e[k - 1];
+            double p2 = (d[k] - x) * p1 - e2 * p0;
+            double q2 = -p1 + (d[k] - x) * q1 - e2 * q0;
+            p0 = p1;
+            p1 = p2;
+            q0 = q1;
+            q1 = q2;
+        }
+        double next = x - p1 / q1;
+        if (!(next > x))
+            break;
+        x = next;
+    }
+    return x;
 }
 
 /* One adiabatic channel class: projection M, lowest partial wave L_min, multiplicity. */
@@ -292,7 +326,8 @@ static cp_status check_params(const cp_shielded_params *p, cp_error *err)
 typedef struct work {
     const cp_shielded_params *p;
     double mu, k2fac; /* reduced mass; 2 mu / hbar^2 */
-    double r_in, r_max;
+    double r_far;     /* the temperature-independent outer radius, m */
+    double r_max;     /* where the grid ends: r_far or farther at low energy, m */
     terms t;
     double s;         /* quasi-2D: width of the relative axial ground state, m */
     const pair_nodes *pn;        /* dc pair: the angular nodes of the current channel */
@@ -340,6 +375,17 @@ static double u_at(const work *w, const channel *ch, double mat[3][NB][NB], doub
     }
     potential_terms(&w->t, r, f);
     double cent = 1.0 / (w->k2fac * r * r);
+    if (w->p->regime == CP_SHIELD_DC_3D) {
+        /* cos^2 theta couples L to L +- 2 only: a tridiagonal matrix */
+        double d[NB], e[NB - 1];
+        for (int i = 0; i < NB; i++) {
+            double l = ch->lmin + 2 * i;
+            d[i] = l * (l + 1.0) * cent + f[0] + f[1] * mat[0][i][i];
+            if (i + 1 < NB)
+                e[i] = f[1] * mat[0][i][i + 1];
+        }
+        return 0.25 + r * r * w->k2fac * lowest_tridiagonal(d, e, NB);
+    }
     for (int i = 0; i < NB; i++)
         for (int j = 0; j < NB; j++) {
             double l = ch->lmin + 2 * i;
@@ -364,7 +410,7 @@ static double inner_radius(const work *w, const channel *ch, double mat[3][NB][N
     if (p->regime == CP_SHIELD_DC_PAIR) {
         /* the shield may be repulsive where |u| is large: start from outside and take the
          * outermost radius inside which the well is deep (u < -F_INNER) */
-        hi = w->r_max;
+        hi = w->r_far;
         lo = hi;
         while (lo > r_top * 1e-4 && !(u_at(w, ch, mat, lo) < -F_INNER)) {
             hi = lo;
@@ -389,8 +435,94 @@ static double inner_radius(const work *w, const channel *ch, double mat[3][NB][N
     return lo;
 }
 
+/* What the potential of one channel class needs besides the work: its angular matrices
+ * (3D) or angular nodes (dc pair), made once, when a grid point is first computed. */
+typedef struct channel_setup {
+    const channel *ch;
+    const gsl_integration_glfixed_table *gl;
+    int ready;
+    double mat[3][NB][NB];
+    pair_nodes pn;
+} channel_setup;
+
+static cp_status channel_prepare(work *w, channel_setup *cs, cp_error *err)
+{
+    if (cs->ready)
+        return CP_OK;
+    memset(cs->mat, 0, sizeof cs->mat);
+    if (w->p->regime == CP_SHIELD_DC_PAIR) {
+        CP_TRY(pair_node_table(cs->ch->m, cs->ch->lmin, &cs->pn, err));
+        w->pn = &cs->pn;
+    } else if (w->p->regime != CP_SHIELD_QUASI_2D) {
+        CP_TRY(angular_matrices(cs->gl, cs->ch->m, cs->ch->lmin, cs->mat, err));
+    }
+    cs->ready = 1;
+    return CP_OK;
+}
+
+/* The step in ln r.  The local phase per step, h sqrt|F|, is largest at the inner edge,
+ * where |F| = |u_pot(r_in)| + k^2 r_in^2 at the largest wave number kmax; the step keeps it
+ * at most PHASE_STEP (and h at most 0.02).  So that the grid, and with it u_pot on it,
+ * does not change with the temperature, the bound is taken on a ladder: F_j =
+ * b STEP_LADDER^j, b = max(|u_pot(r_in)|, 1), with j the smallest that reaches F (usually
+ * j = 1: k^2 r_in^2 is a small addition to |u_pot| = F_INNER; the steps are at most
+ * sqrt(STEP_LADDER) - 1 = 2.5 % shorter than the bound needs). */
+static double channel_step(double u_in, double k2r2, int *j)
+{
+    double b = fmax(fabs(u_in), 1.0), f = fabs(u_in) + k2r2;
+    int i = 0;
+    while (b * pow(STEP_LADDER, i) < f)
+        i++;
+    *j = i;
+    return fmin(0.02, PHASE_STEP / sqrt(b * pow(STEP_LADDER, i)));
+}
+
+/* The key of channel class c's tables in the cache: every input u_pot depends on (those of
+ * the regime; the others 0), the class, and the step index j (-1: the inner edge alone). */
+static void table_key(const cp_shielded_params *p, int c, int j, double key[CP_RADIAL_KEY])
+{
+    memset(key, 0, CP_RADIAL_KEY * sizeof *key);
+    key[0] = c;
+    key[1] = j;
+    key[2] = p->regime;
+    key[3] = p->stat;
+    key[4] = p->mass;
+    key[5] = p->c6_au;
+    switch (p->regime) {
+    case CP_SHIELD_QUASI_2D:
+        key[6] = p->dipole;
+        key[7] = p->axial_omega;
+        break;
+    case CP_SHIELD_DC_3D:
+        key[6] = p->dipole;
+        break;
+    case CP_SHIELD_MICROWAVE:
+        key[8] = p->c3;
+        key[9] = p->c6_core;
+        for (int n = 0; n < 4; n++) {
+            key[10 + n] = p->mw_c3[n];
+            key[14 + n] = p->mw_c6[n];
+        }
+        key[18] = p->rabi;
+        key[19] = p->detuning;
+        break;
+    case CP_SHIELD_DC_PAIR:
+        for (int a = 0; a < 3; a++)
+            for (int b = 0; b < 3; b++)
+                key[20 + 3 * a + b] = p->stark_dipole[a][b];
+        key[29] = p->pair_gap;
+        break;
+    }
+}
+
 cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result *r,
                                  cp_error *err)
+{
+    return cp_collisions_shielded_cached(p, NULL, r, err);
+}
+
+cp_status cp_collisions_shielded_cached(const cp_shielded_params *p, cp_shielded_cache *cache,
+                                        cp_shielded_result *r, cp_error *err)
 {
     if (!r)
         return cp_fail(err, CP_EINVAL, "collisions.shielded: result is NULL");
@@ -456,7 +588,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     gsl_integration_fixed_workspace *quad = gsl_integration_fixed_alloc(
         gsl_integration_fixed_laguerre, N_ENERGY, 0.0, 1.0, two_d ? 0.0 : 0.5, 0.0);
     gsl_integration_glfixed_table *gl = gsl_integration_glfixed_table_alloc(N_ANGLE);
-    double *upot = NULL;
+    cp_radial_table local = {0}; /* the grid without a cache */
     cp_status st = CP_OK;
     if (!quad || !gl) {
         st = cp_fail(err, CP_ENOMEM, "collisions.shielded: cannot allocate quadratures");
@@ -467,25 +599,33 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
     double kmin = sqrt(w.k2fac * kt * nodes[0]);
     double kmax = sqrt(w.k2fac * kt * nodes[N_ENERGY - 1]);
     double scale = fmax(fmax(r6, dlen), two_d ? w.s : 0.0);
-    w.r_max = fmax(fmax(30.0 * r6, 20.0 * fmax(dlen, reach)),
-                   fmax(two_d ? 30.0 * w.s : 0.0, 4.0 / kmin));
+    w.r_far = fmax(fmax(30.0 * r6, 20.0 * fmax(dlen, reach)), two_d ? 30.0 * w.s : 0.0);
+    w.r_max = fmax(w.r_far, 4.0 / kmin);
 
     double loss_sum[N_ENERGY] = {0};
     double r_inner = INFINITY;
     for (int c = 0; c < nch; c++) {
-        double mat[3][NB][NB] = {{{0}}};
-        pair_nodes pn;
-        if (p->regime == CP_SHIELD_DC_PAIR) {
-            if ((st = pair_node_table(chans[c].m, chans[c].lmin, &pn, err)))
+        channel_setup cs = {.ch = &chans[c], .gl = gl};
+        double key[CP_RADIAL_KEY], rin, uin;
+        table_key(p, c, -1, key);
+        const cp_radial_table *in = cp_shielded_cache_find(cache, key);
+        if (in) {
+            rin = in->r_in;
+            uin = in->u_in;
+        } else {
+            if ((st = channel_prepare(&w, &cs, err)))
                 goto done;
-            w.pn = &pn;
-        } else if (!two_d && (st = angular_matrices(gl, chans[c].m, chans[c].lmin, mat, err))) {
-            goto done;
+            rin = inner_radius(&w, cs.ch, cs.mat, scale);
+            uin = u_at(&w, cs.ch, cs.mat, rin);
+            if (cache) {
+                cp_radial_table *t = cp_shielded_cache_add(cache, key);
+                t->r_in = rin;
+                t->u_in = uin;
+            }
         }
-        double rin = inner_radius(&w, &chans[c], mat, scale);
         r_inner = fmin(r_inner, rin);
-        double f_in = fabs(u_at(&w, &chans[c], mat, rin)) + kmax * kmax * rin * rin;
-        double h = fmin(0.02, PHASE_STEP / sqrt(f_in));
+        int j;
+        double h = channel_step(uin, kmax * kmax * rin * rin, &j);
         size_t n = (size_t)ceil(log(w.r_max / rin) / h) + 1;
         if (n > MAX_POINTS) {
             st = cp_fail(err, CP_ENUMERIC, "collisions.shielded: radial grid of %zu points "
@@ -495,24 +635,33 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
         }
         if (n < 16)
             n = 16;
-        free(upot);
-        upot = malloc(2 * n * sizeof *upot); /* u_pot, then r^2 */
-        if (!upot) {
-            st = cp_fail(err, CP_ENOMEM, "collisions.shielded: cannot allocate the grid");
-            goto done;
+        table_key(p, c, j, key);
+        cp_radial_table *tab = cp_shielded_cache_find(cache, key);
+        if (!tab) {
+            free(local.u_pot);
+            memset(&local, 0, sizeof local);
+            tab = cache ? cp_shielded_cache_add(cache, key) : &local;
         }
-        cp_radial_grid g = {n, log(rin), h,
-                            two_d ? (double)chans[c].m : chans[c].lmin + 0.5};
-        double *r2 = upot + n;
-        for (size_t i = 0; i < n; i++) {
-            double ri = exp(g.x0 + (double)i * h);
-            upot[i] = u_at(&w, &chans[c], mat, ri);
-            r2[i] = ri * ri;
+        if (tab->n < n) { /* u_pot[i] depends on i alone: a grid is extended, not redone */
+            if (!cp_radial_table_reserve(cache, tab, n)) {
+                st = cp_fail(err, CP_ENOMEM, "collisions.shielded: cannot allocate the grid");
+                goto done;
+            }
+            if ((st = channel_prepare(&w, &cs, err)))
+                goto done;
+            double x0 = log(rin);
+            for (size_t i = tab->n; i < n; i++) {
+                double ri = exp(x0 + (double)i * h);
+                tab->u_pot[i] = u_at(&w, cs.ch, cs.mat, ri);
+                tab->r2[i] = ri * ri;
+            }
+            tab->n = n;
         }
+        cp_radial_grid g = {n, log(rin), h, two_d ? (double)chans[c].m : chans[c].lmin + 0.5};
         for (int e = 0; e < N_ENERGY; e++) {
             double prob;
-            if ((st = cp_radial_absorption(&g, upot, r2, sqrt(w.k2fac * kt * nodes[e]), &prob,
-                                           err)))
+            if ((st = cp_radial_absorption(&g, tab->u_pot, tab->r2,
+                                           sqrt(w.k2fac * kt * nodes[e]), &prob, err)))
                 goto done;
             loss_sum[e] += chans[c].mult * prob;
         }
@@ -626,7 +775,7 @@ cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result
         break;
     }
 done:
-    free(upot);
+    free(local.u_pot);
     if (quad) /* GSL's _free functions do not accept NULL */
         gsl_integration_fixed_free(quad);
     if (gl)

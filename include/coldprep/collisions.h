@@ -160,6 +160,17 @@ cp_status cp_collisions_evaporation(const cp_evaporation_params *p, size_t point
                                     double *phase_space_densities, double *efficiency,
                                     cp_error *err);
 
+/* The first points of that trajectory, up to and including the first point after N0 at or
+ * below stop_temperature (K, >= 0; 0 never stops it): *filled points are written (>= 2
+ * unless an error; all `points` when the temperature never falls that far), each bit for
+ * bit the value cp_collisions_evaporation gives there, the others NaN.  What costs is the
+ * integration, so a caller looking for where the trajectory reaches a temperature need not
+ * integrate past it.  Errors as cp_collisions_evaporation (*filled = 0). */
+cp_status cp_collisions_evaporation_until(const cp_evaporation_params *p, size_t points,
+                                          double stop_temperature, double *numbers,
+                                          double *temperatures, double *phase_space_densities,
+                                          size_t *filled, cp_error *err);
+
 /* The elapsed time (s) at each point of a trajectory (numbers, temperatures: `points`
  * values from cp_collisions_evaporation with the same p): dt = -d ln N / (<n> (f sigma v_rel
  * + beta(T))) with f and <n> of cp_collisions_evaporation_rate, v_rel = sqrt(16 k_B T /
@@ -240,6 +251,22 @@ typedef struct cp_shielded_result {
 cp_status cp_collisions_shielded(const cp_shielded_params *p, cp_shielded_result *r,
                                  cp_error *err);
 
+/* A cache for callers that ask for the same molecules and protection at many temperatures
+ * (a plan's stages, a sweep): it keeps the temperature-independent part of
+ * cp_collisions_shielded (each channel's inner radius and potential on the radial grid)
+ * and the dc shielding field of cp_collisions_protected, found by their inputs compared
+ * bit for bit, so a result computed with the cache is bit for bit the result without it.
+ * Owned by the caller, who frees it with cp_shielded_cache_free (NULL is a no-op); not
+ * safe to share between threads (one per thread).  At most about 16 MB.  NULL from
+ * _alloc when out of memory. */
+typedef struct cp_shielded_cache cp_shielded_cache;
+cp_shielded_cache *cp_shielded_cache_alloc(void);
+void cp_shielded_cache_free(cp_shielded_cache *cache);
+
+/* cp_collisions_shielded with a cache (NULL: none). */
+cp_status cp_collisions_shielded_cached(const cp_shielded_params *p, cp_shielded_cache *cache,
+                                        cp_shielded_result *r, cp_error *err);
+
 /* The protection a plan gives its molecules, and the molecule itself.  The regime follows:
  * a microwave -> microwave shielding (no dc field allowed with it); an axial confinement
  * -> quasi-2D with the dipole the dc field induces (field along the tight axis); molecules
@@ -272,6 +299,12 @@ typedef struct cp_protection_params {
 cp_status cp_collisions_protected(const cp_protection_params *p, cp_shielded_result *r,
                                   double *dipole_used, cp_shield_regime *regime,
                                   cp_error *err);
+
+/* cp_collisions_protected with a cache (NULL: none; see cp_shielded_cache_alloc). */
+cp_status cp_collisions_protected_cached(const cp_protection_params *p,
+                                         cp_shielded_cache *cache, cp_shielded_result *r,
+                                         double *dipole_used, cp_shield_regime *regime,
+                                         cp_error *err);
 
 #ifdef __cplusplus
 }

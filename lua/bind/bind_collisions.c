@@ -7,7 +7,9 @@
  * for the trapped-cloud ones, as each help text says.  `shielded` gives the elastic and
  * loss rates of identical polar molecules under a dc field, a microwave or a pancake trap,
  * or of molecules in |1,0> under dc-field shielding (core/collisions_protect.c,
- * core/collisions_shielded.c).
+ * core/collisions_shielded.c), through a cache of its temperature-independent part kept
+ * per Lua state with the memo (memo.h): a plan asks for the same protection at several
+ * temperatures, a sweep for the same few fields at many points.
  */
 #include <lauxlib.h>
 #include <lua.h>
@@ -19,6 +21,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/fields.h"
 #include "help.h"
+#include "memo.h"
 
 int cpl_open_collisions(lua_State *L);
 
@@ -198,7 +201,7 @@ static int l_evaporation(lua_State *L)
     static const char *const keys[] = {"number", "temperature", "omega_bar", "omega_x",
                                        "omega_y", "omega_z", "mass", "eta", "kappa", "ratio",
                                        "wave", "final_number", "points", "cross_section",
-                                       "loss_rate", NULL};
+                                       "loss_rate", "stop_temperature", NULL};
     const char *fname = "collisions.evaporation";
     cpl_check_args(L, 1, fname, keys);
     cp_evaporation_params p;
@@ -216,28 +219,41 @@ static int l_evaporation(lua_State *L)
     int clocked = cpl_has(L, 1, "cross_section") || cpl_has(L, 1, "loss_rate");
     double sigma = cpl_opt_number(L, 1, fname, "cross_section", "m^2", 0.0);
     double beta = cpl_opt_number(L, 1, fname, "loss_rate", "m^3/s", 0.0);
+    double stop = cpl_opt_number(L, 1, fname, "stop_temperature", "K", 0.0);
+    if (!(stop >= 0.0))
+        cpl_error(L, fname, "stop_temperature %g K is out of range; allowed >= 0 K", stop);
     double *buf = lua_newuserdatauv(L, 4 * n * sizeof(double), 0);
     double efficiency;
+    size_t m = n; /* the points computed */
     cp_error err;
-    if (cp_collisions_evaporation(&p, n, buf, buf + n, buf + 2 * n, &efficiency, &err) != CP_OK)
+    cp_status st = stop > 0.0
+                       ? cp_collisions_evaporation_until(&p, n, stop, buf, buf + n, buf + 2 * n,
+                                                         &m, &err)
+                       : cp_collisions_evaporation(&p, n, buf, buf + n, buf + 2 * n,
+                                                   &efficiency, &err);
+    if (st != CP_OK)
         return cpl_raise(L, &err);
-    if (clocked && cp_collisions_evaporation_times(&p, sigma, beta, n, buf, buf + n, buf + 3 * n,
+    if (m < n) /* stopped early: the efficiency up to the last point */
+        efficiency = -log(buf[2 * n + m - 1] / buf[2 * n]) / log(buf[m - 1] / buf[0]);
+    else if (stop > 0.0)
+        efficiency = -log(buf[3 * n - 1] / buf[2 * n]) / log(p.final_number / p.number);
+    if (clocked && cp_collisions_evaporation_times(&p, sigma, beta, m, buf, buf + n, buf + 3 * n,
                                                    &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 9);
-    cpl_set_number(L, "number", buf[n - 1]);
-    cpl_set_number(L, "temperature", buf[2 * n - 1]);
-    cpl_set_number(L, "phase_space_density", buf[3 * n - 1]);
+    cpl_set_number(L, "number", buf[m - 1]);
+    cpl_set_number(L, "temperature", buf[n + m - 1]);
+    cpl_set_number(L, "phase_space_density", buf[2 * n + m - 1]);
     cpl_set_number(L, "efficiency", efficiency);
-    cpl_push_array(L, buf, n);
+    cpl_push_array(L, buf, m);
     lua_setfield(L, -2, "numbers");
-    cpl_push_array(L, buf + n, n);
+    cpl_push_array(L, buf + n, m);
     lua_setfield(L, -2, "temperatures");
-    cpl_push_array(L, buf + 2 * n, n);
+    cpl_push_array(L, buf + 2 * n, m);
     lua_setfield(L, -2, "phase_space_densities");
     if (clocked) {
-        cpl_set_number(L, "duration", buf[4 * n - 1]);
-        cpl_push_array(L, buf + 3 * n, n);
+        cpl_set_number(L, "duration", buf[3 * n + m - 1]);
+        cpl_push_array(L, buf + 3 * n, m);
         lua_setfield(L, -2, "times");
     }
     return 1;
@@ -294,6 +310,43 @@ static void read_molecule(lua_State *L, const char *fname, cp_protection_params 
 
 static const char *const REGIMES[] = {"dc_3d", "quasi_2d", "microwave", "dc_shield"};
 
+static const char CACHE[] = "coldprep.collisions.cache";
+
+static int cache_gc(lua_State *L)
+{
+    cp_shielded_cache **c = luaL_checkudata(L, 1, CACHE);
+    cp_shielded_cache_free(*c);
+    *c = NULL;
+    return 0;
+}
+
+/* This state's cache of cp_collisions_protected_cached, made on first use; NULL while the
+ * memo is disabled (or when out of memory: the rates are then computed without it). */
+static cp_shielded_cache *state_cache(lua_State *L)
+{
+    if (!cpl_memo_enabled(L))
+        return NULL;
+    cpl_memo_objects(L);
+    cp_shielded_cache **c;
+    if (lua_getfield(L, -1, CACHE) == LUA_TUSERDATA) {
+        c = lua_touserdata(L, -1);
+    } else {
+        lua_pop(L, 1);
+        c = lua_newuserdatauv(L, sizeof *c, 0);
+        *c = NULL;
+        if (luaL_newmetatable(L, CACHE)) {
+            lua_pushcfunction(L, cache_gc);
+            lua_setfield(L, -2, "__gc");
+        }
+        lua_setmetatable(L, -2);
+        *c = cp_shielded_cache_alloc();
+        lua_pushvalue(L, -1);
+        lua_setfield(L, -3, CACHE);
+    }
+    lua_pop(L, 2);
+    return *c; /* the objects table holds the userdata */
+}
+
 static int l_shielded(lua_State *L)
 {
     static const char *const keys[] = {"molecule", "temperature", "electric_field",
@@ -343,7 +396,7 @@ static int l_shielded(lua_State *L)
     cp_shield_regime regime;
     double dip;
     cp_error err;
-    if (cp_collisions_protected(&p, &r, &dip, &regime, &err) != CP_OK)
+    if (cp_collisions_protected_cached(&p, state_cache(L), &r, &dip, &regime, &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 14);
     cpl_set_number(L, "elastic_rate_coefficient", r.elastic_rate);
@@ -447,6 +500,8 @@ static const cpl_function functions[] = {
      "  final_number  N at the end, [1, N0)\n"
      "  cross_section (m^2), loss_rate (m^3/s, beta at T0)  optional: with them the clock\n"
      "    dt = -d ln N / (<n> (f sigma v_rel + beta)) gives times and duration\n"
+     "  stop_temperature  K, optional: the trajectory ends at its first point at or below it\n"
+     "    (the same points as without it, fewer of them; the results are those of its end)\n"
      "Returns {number, temperature, phase_space_density (classical peak), efficiency\n"
      "  (-dln PSD / dln N), numbers, temperatures, phase_space_densities [, times (s),\n"
      "  duration (s)]}.\n"

@@ -462,8 +462,9 @@ static int l_memo(lua_State *L)
     cpl_check_args(L, 1, fname, known);
     if (cpl_has(L, 1, "enabled"))
         cpl_memo_enable(L, cpl_opt_boolean(L, 1, fname, "enabled", 1));
-    lua_createtable(L, 0, 1);
+    lua_createtable(L, 0, 2);
     cpl_set_integer(L, "size", cpl_memo_size(L));
+    cpl_set_boolean(L, "enabled", cpl_memo_enabled(L));
     return 1;
 }
 
@@ -553,11 +554,13 @@ static const cpl_function functions[] = {
      "  a = {atom = '87Rb', t_over_tc = 1.2, omega_x = w, omega_y = w, omega_z = w},\n"
      "  b = {atom = '40K', t_over_tf = 0.3, omega_x = w, omega_y = w, omega_z = w}}"},
     {"memo", l_memo,
-     "feshbach.memo{[enabled = true | false]} -> {size}\n"
+     "feshbach.memo{[enabled = true | false]} -> {size, enabled}\n"
      "overlap_density and max_efficiency remember their results for the inputs already seen\n"
      "in this session (each sweep worker has its own memo; a result is returned bit for bit\n"
-     "as first computed).  enabled = false turns that off and empties the memo; size is the\n"
-     "number of results kept (at most 256).  Example: cp.feshbach.memo{enabled = false}"},
+     "as first computed); so do, under the same switch, cp.collisions.shielded (its\n"
+     "temperature-independent tables) and the transfer stage (its Raman result).  enabled =\n"
+     "false turns all of that off and empties it; size is the number of Feshbach results\n"
+     "kept (at most 256).  Example: cp.feshbach.memo{enabled = false}"},
     {NULL, NULL, NULL}};
 
 int cpl_open_feshbach(lua_State *L)

@@ -1,7 +1,8 @@
 /*
  * The per-state memo of memo.h: a registry table mapping the key doubles (as a byte string,
  * so that equal means bit for bit equal) to the result doubles (as a byte string), with its
- * size and an enabled flag in a second registry table.
+ * size and an enabled flag in a second registry table, and a third table of the bindings'
+ * cache objects (memo.h).
  */
 #include <lauxlib.h>
 #include <string.h>
@@ -10,6 +11,7 @@
 
 static const char MEMO[] = "coldprep.memo";
 static const char STATE[] = "coldprep.memo.state";
+static const char OBJECTS[] = "coldprep.memo.objects";
 enum { MEMO_MAX = 256 }; /* distinct inputs kept; a sweep's fixed inputs need a few */
 
 /* Push the state table {enabled, size}, creating it (enabled) on first use. */
@@ -23,7 +25,7 @@ static void push_state(lua_State *L)
     }
 }
 
-static int enabled(lua_State *L)
+int cpl_memo_enabled(lua_State *L)
 {
     push_state(L);
     lua_getfield(L, -1, "enabled");
@@ -34,7 +36,7 @@ static int enabled(lua_State *L)
 
 int cpl_memo_get(lua_State *L, const double *key, size_t nkey, double *out, size_t nout)
 {
-    if (!enabled(L))
+    if (!cpl_memo_enabled(L))
         return 0;
     luaL_getsubtable(L, LUA_REGISTRYINDEX, MEMO);
     lua_pushlstring(L, (const char *)key, nkey * sizeof *key);
@@ -50,7 +52,7 @@ int cpl_memo_get(lua_State *L, const double *key, size_t nkey, double *out, size
 
 void cpl_memo_put(lua_State *L, const double *key, size_t nkey, const double *out, size_t nout)
 {
-    if (!enabled(L))
+    if (!cpl_memo_enabled(L))
         return;
     push_state(L);
     lua_getfield(L, -1, "size");
@@ -81,8 +83,15 @@ void cpl_memo_enable(lua_State *L, int on)
         lua_setfield(L, -2, "size");
         lua_newtable(L);
         lua_setfield(L, LUA_REGISTRYINDEX, MEMO);
+        lua_pushnil(L);
+        lua_setfield(L, LUA_REGISTRYINDEX, OBJECTS);
     }
     lua_pop(L, 1);
+}
+
+void cpl_memo_objects(lua_State *L)
+{
+    luaL_getsubtable(L, LUA_REGISTRYINDEX, OBJECTS);
 }
 
 lua_Integer cpl_memo_size(lua_State *L)

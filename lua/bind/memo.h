@@ -21,6 +21,14 @@ void cpl_memo_put(lua_State *L, const double *key, size_t nkey, const double *ou
 /* Enable or disable the memo of this state (enabled by default; disabling empties it). */
 void cpl_memo_enable(lua_State *L, int enabled);
 
+/* Whether the memo of this state is enabled. */
+int cpl_memo_enabled(lua_State *L);
+
+/* Push this state's table of memo objects: the bindings' caches of C memory (full userdata
+ * with a __gc metamethod) kept under a name.  Disabling the memo drops the table, and so
+ * the objects are collected. */
+void cpl_memo_objects(lua_State *L);
+
 /* Number of stored results. */
 lua_Integer cpl_memo_size(lua_State *L);
 

@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
-# The memo of cp.feshbach.overlap_density and max_efficiency (lua/bind/memo.h) never changes
-# a result bit: a sweep of the demo plan (scripts/examples/sweep_tidewater.lua, 4 x 3
+# The memo of cp.feshbach.overlap_density and max_efficiency (lua/bind/memo.h), and under the
+# same switch the tables of cp.collisions.shielded and the transfer stage's Raman results,
+# never change a result bit: a sweep of the demo plan (scripts/examples/sweep_tidewater.lua, 4 x 3
 # points: the starting mixture, and so both results, the same at every point) on 2 jobs
 # writes byte-identical files with the memo on (the default) and off
 # (cp.feshbach.memo{enabled = false} at the top of the sweep file, run by every worker).
@@ -31,4 +32,19 @@ run "$coldprep" -e "local s = dofile('$top/scripts/examples/sweep_tidewater.lua'
   print(cp.feshbach.memo().size, cp.feshbach.memo{enabled = false}.size)"
 checks=$((checks + 1))
 [ "$out" = "2	0" ] || fail MEMO-3 "memo sizes '$out' (want 2 then 0)"
+# the transfer stage computes the Raman result once per pulse while the memo is on: count
+# the calls of cp.raman.transfer for three stages (two pulses alike, one different), then
+# again with the memo off; the different pulse gets its own result
+run "$coldprep" -e "local calls, raman = 0, cp.raman.transfer
+  cp.raman.transfer = function(p) calls = calls + 1; return raman(p) end
+  local function stage(rabi) return cp.stages.transfer{rabi_pump = rabi, rabi_stokes = 2*math.pi*5e6,
+    width = 8e-6, delay = 7e-6, gamma = 2*math.pi*6e6} end
+  local a, b, c = stage(2*math.pi*3e6), stage(2*math.pi*3e6), stage(2*math.pi*1e6)
+  local on = calls
+  cp.feshbach.memo{enabled = false}
+  calls = 0
+  stage(2*math.pi*3e6); stage(2*math.pi*3e6)
+  print(on, calls, cp.feshbach.memo().enabled)"
+checks=$((checks + 1))
+[ "$out" = "2	2	false" ] || fail MEMO-4 "cp.raman.transfer calls '$out' (want 2 with the memo, 2 without)"
 finish

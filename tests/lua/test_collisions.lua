@@ -68,6 +68,29 @@ local e = cp.collisions.evaporation { number = 2e4, temperature = 1e-6, omega_ba
 T.near(e.temperature, 1e-6 * 0.1 ^ ((8.6) / 3 - 1), 1e-6, "lossless evaporation scaling")
 T.check(e.efficiency > 0 and #e.phase_space_densities == 51, "PSD grows; default 51 points")
 
+-- COLL-L5c: stop_temperature ends the trajectory at its first point at or below it, the
+-- points before it those of the full trajectory (the second method), bit for bit; with the
+-- clock, the times too; a negative stop is refused.
+do
+  local args = { number = 2e5, temperature = 150e-9, omega_bar = 600, mass = M, eta = 8,
+    ratio = 300, wave = "p", final_number = 1, points = 200, cross_section = 1e-16, loss_rate = 1e-17 }
+  local full = cp.collisions.evaporation(args)
+  args.stop_temperature = 60e-9
+  local part = cp.collisions.evaporation(args)
+  local m = #part.temperatures
+  local same = m >= 2 and m < 100
+  for i = 1, m do
+    same = same and part.numbers[i] == full.numbers[i] and part.temperatures[i] == full.temperatures[i]
+      and part.times[i] == full.times[i]
+  end
+  T.check(same, "the stopped trajectory is the full one's beginning")
+  T.check(part.temperatures[m] <= 60e-9 and part.temperatures[m - 1] > 60e-9 and
+    part.temperature == part.temperatures[m] and part.duration == part.times[m], "it ends at the stop")
+  args.stop_temperature = -1
+  T.raises(function() cp.collisions.evaporation(args) end, { "stop_temperature", "allowed" },
+    "negative stop_temperature")
+end
+
 -- COLL-L4b: the universal rate's validity flag: KRb (E_1/k_B ~ 24 uK) at 300 nK none, at
 -- 10 uK "above_barrier" (k_B T / E_1 > 0.1); the fraction against pwave_barrier.
 local KRB = cp.species.molecule("KRb")

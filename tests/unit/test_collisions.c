@@ -399,6 +399,37 @@ static void test_evaporation(void **state)
     assert_rel(eff, 3.0 * ((8.0 + 0.75) / 3.0 - 1.0) - 1.0, 1e-6);
 }
 
+/* COLL-6b: the trajectory stopped at a temperature is the full trajectory's beginning, bit
+ * for bit (the second method: the full trajectory), ending at its first point at or below
+ * the stop; a stop never reached gives the whole trajectory; a bad stop is refused. */
+static void test_evaporation_until(void **state)
+{
+    (void)state;
+    enum { P = 200 };
+    double n[P], temp[P], psd[P], eff, n2[P], t2[P], psd2[P];
+    cp_evaporation_params p = {2e5, 1.5e-7, {2 * CP_PI * 60, 2 * CP_PI * 70, 2 * CP_PI * 200},
+                               M_KRB, 8.0, NAN, 300.0, CP_LOSS_P_WAVE, 1.0};
+    assert_int_equal(cp_collisions_evaporation(&p, P, n, temp, psd, &eff, NULL), CP_OK);
+    size_t filled;
+    assert_int_equal(cp_collisions_evaporation_until(&p, P, 6e-8, n2, t2, psd2, &filled, NULL),
+                     CP_OK);
+    assert_true(filled >= 2 && filled < P / 2);
+    assert_memory_equal(n, n2, filled * sizeof n[0]);
+    assert_memory_equal(temp, t2, filled * sizeof temp[0]);
+    assert_memory_equal(psd, psd2, filled * sizeof psd[0]);
+    assert_true(t2[filled - 1] <= 6e-8 && t2[filled - 2] > 6e-8);
+    assert_true(isnan(n2[filled]) && isnan(t2[P - 1]));
+    assert_int_equal(cp_collisions_evaporation_until(&p, P, 1e-30, n2, t2, psd2, &filled, NULL),
+                     CP_OK);
+    assert_int_equal(filled, P);
+    assert_memory_equal(temp, t2, sizeof temp);
+    cp_error err;
+    assert_int_equal(cp_collisions_evaporation_until(&p, P, -1.0, n2, t2, psd2, &filled, &err),
+                     CP_EINVAL);
+    assert_non_null(strstr(err.message, "stop_temperature"));
+    assert_int_equal(filled, 0);
+}
+
 /* COLL-7: bad input everywhere: CP_EINVAL, the parameter named, NaN outputs. */
 static void test_bad_input(void **state)
 {
@@ -507,6 +538,7 @@ int main(void)
         cmocka_unit_test(test_hold),      cmocka_unit_test(test_universal_validity),
         cmocka_unit_test(test_evaporation_rate),
         cmocka_unit_test(test_evaporation),
+        cmocka_unit_test(test_evaporation_until),
         cmocka_unit_test(test_bad_input),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);

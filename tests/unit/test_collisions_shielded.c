@@ -390,6 +390,65 @@ static void test_bad_input(void **state)
     assert_true(isnan(r.loss_rate) && isnan(r.pair_gap));
 }
 
+/* SH-9: the cache (cp_collisions_protected_cached) never changes a result bit: the second
+ * method is the same calculation without a cache.  Every regime, temperatures in an order
+ * that makes the cached grids both grow (lower T reaches farther out) and be reused, then
+ * again after the cache has been filled with other fields; results compared with memcmp. */
+static void test_cache_identical(void **state)
+{
+    (void)state;
+    cp_shielded_cache *cache = cp_shielded_cache_alloc();
+    assert_non_null(cache);
+    static const double temps[] = {300e-9, 1e-9, 1e-4, 30e-9, 1e-6, 300e-9};
+    cp_protection_params base = {.dipole = D_NAK, .rot_const_hz = B_NAK, .c6_au = C6_NAK,
+                                 .mass = M_NAK, .stat = CP_PAIR_FERMIONS};
+    cp_protection_params cases[5];
+    for (int c = 0; c < 5; c++)
+        cases[c] = base;
+    cases[0].electric_field = 4e4;                                  /* dc 3D */
+    cases[1].electric_field = 0.0;                                  /* field-free */
+    cases[2].electric_field = 3e5;                                  /* quasi-2D */
+    cases[2].axial_omega = 2.0 * CP_PI * 40e3;
+    cases[3].microwave = 1;                                         /* microwave shielding */
+    cases[3].rabi = 2.0 * CP_PI * 50e6;
+    cases[3].detuning = 2.0 * CP_PI * 10e6;
+    cases[4].rotational_j = 1;                                      /* dc shielding */
+    cases[4].electric_field = 3.4 * CP_H * B_NAK / D_NAK;
+    for (int pass = 0; pass < 2; pass++)
+        for (int c = 0; c < 5; c++)
+            for (size_t i = 0; i < sizeof temps / sizeof temps[0]; i++) {
+                cp_protection_params p = cases[c];
+                p.temperature = temps[i];
+                cp_shielded_result a, b;
+                cp_shield_regime ra, rb;
+                double da, db;
+                cp_error err;
+                assert_int_equal(cp_collisions_protected_cached(&p, cache, &a, &da, &ra, &err),
+                                 CP_OK);
+                assert_int_equal(cp_collisions_protected(&p, &b, &db, &rb, &err), CP_OK);
+                assert_int_equal(ra, rb);
+                assert_memory_equal(&a.elastic_rate, &b.elastic_rate, 8 * sizeof(double));
+                assert_memory_equal(&da, &db, sizeof da);
+                assert_int_equal(a.valid, b.valid);
+                assert_string_equal(a.note, b.note);
+            }
+    /* more protections than the cache keeps tables for: the oldest are dropped and, asked
+     * for again, recomputed alike */
+    for (int pass = 0; pass < 2; pass++)
+        for (int k = 0; k < (pass ? 20 : 300); k++) {
+            cp_shielded_params q = {.regime = CP_SHIELD_DC_3D, .stat = CP_PAIR_FERMIONS,
+                                    .mass = M_KRB, .c6_au = C6_KRB, .temperature = 300e-9,
+                                    .dipole = (0.01 + 0.001 * k) * DEBYE};
+            cp_shielded_result a, b;
+            cp_error err;
+            assert_int_equal(cp_collisions_shielded_cached(&q, cache, &a, &err), CP_OK);
+            assert_int_equal(cp_collisions_shielded(&q, &b, &err), CP_OK);
+            assert_memory_equal(&a.elastic_rate, &b.elastic_rate, 8 * sizeof(double));
+        }
+    cp_shielded_cache_free(cache);
+    cp_shielded_cache_free(NULL);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -397,7 +456,7 @@ int main(void)
         cmocka_unit_test(test_krb_quasi_2d),    cmocka_unit_test(test_nak_microwave),
         cmocka_unit_test(test_krb_12kv),        cmocka_unit_test(test_krb_dc_shielding),
         cmocka_unit_test(test_krb_resonance),   cmocka_unit_test(test_pair_uncoupled),
-        cmocka_unit_test(test_bad_input),
+        cmocka_unit_test(test_bad_input),       cmocka_unit_test(test_cache_identical),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -69,8 +69,12 @@ function MODEL.evaporate(s, eta, kappa, ratio, target)
     args.final_number, args.points = target.number, 64
     return cp.collisions.evaporation(args)
   end
+  -- (towards a temperature the trajectory need not be integrated past it: the points up to
+  -- there are the same)
   args.final_number, args.points = math.max(1, s.number * 1e-6), 400
+  args.stop_temperature = target.temperature
   local tr = cp.collisions.evaporation(args)
+  args.stop_temperature = nil
   local n, t = tr.numbers, tr.temperatures
   -- the quantity that marks the end point along the trajectory, and its target value
   local along, goal

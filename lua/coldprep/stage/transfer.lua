@@ -10,6 +10,37 @@ local PULSE_KEYS = { "rabi_pump", "rabi_stokes", "width", "delay", "gamma", "det
   "two_photon_detuning", "pump_linewidth_hz", "stokes_linewidth_hz", "relative_linewidth_hz",
   "shape" }
 
+-- The Raman results already computed in this Lua state, by their pulse parameters (each
+-- number written exactly, as a hexadecimal float): a sweep builds a plan per point, and
+-- the pulse is usually the same at every point.  A result is only read (the stage's notes,
+-- efficiency and duration), never handed out, so sharing it changes nothing; kept while
+-- the memo is enabled (cp.feshbach.memo), at most MEMO_MAX.
+local memo, memo_size, MEMO_MAX = {}, 0, 64
+
+local function memo_key(pulse)
+  local parts = {}
+  for i, k in ipairs(PULSE_KEYS) do
+    local v = pulse[k]
+    parts[i] = type(v) .. ":" .. (math.type(v) == "float" and string.format("%a", v) or tostring(v))
+  end
+  return table.concat(parts, ",")
+end
+
+local function raman_result(pulse)
+  if not cp.feshbach.memo().enabled then
+    memo, memo_size = {}, 0
+    return cp.raman.transfer(pulse)
+  end
+  local key = memo_key(pulse)
+  local r = memo[key]
+  if not r then
+    r = cp.raman.transfer(pulse)
+    if memo_size >= MEMO_MAX then memo, memo_size = {}, 0 end
+    memo[key], memo_size = r, memo_size + 1
+  end
+  return r
+end
+
 -- cp.stages.transfer{rabi_pump, rabi_stokes, width, delay, gamma, ... (as cp.raman.transfer)
 --   | efficiency | round_trip_efficiency [, pump_power, stokes_power, label]}
 local function transfer(args)
@@ -50,7 +81,7 @@ local function transfer(args)
   -- pulse parameter is an error of this constructor rather than of a later plan run
   local result
   if not eff then
-    local ok, r = pcall(cp.raman.transfer, pulse)
+    local ok, r = pcall(raman_result, pulse)
     if not ok then A.fail(fname, "%s", (tostring(r):gsub("^[^:\n]*coldprep/[%w_/]+%.lua:%d+: ", ""))) end
     result = r
   end
