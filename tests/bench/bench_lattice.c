@@ -2,7 +2,7 @@
  * Benchmark of the lattice model (one core):
  *   - band energies of 5 bands at 1000 quasimomenta across the zone at V0 = 10 E_r
  *     (target <= 2 ms), in order and in a scrambled order (sorted internally: the same
- *     cost); numpy's batched eigvalsh cannot be measured here (no Python package registry);
+ *     cost); the comparison with numpy's batched eigvalsh is tests/bench/compare_lattice.py;
  *   - loading adiabaticity of a 1000-sample s-shaped ramp 0 -> 30 E_r (target <= 20 ms);
  * Each figure is the best of several repetitions, so that load from other processes
  * inflates it as little as possible.

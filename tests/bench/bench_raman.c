@@ -5,9 +5,9 @@
  * against a tight integration, the same equation with GSL's rk8pd driver as the library used
  * before (absolute tolerance 1e-9, two exp() per evaluation) measured in the same run, the
  * one-photon detuning regimes against the reference case, and a 1000-point two-photon
- * detuning scan on 1 and 2 threads.  (A comparison with scipy's DOP853 is not possible on
- * this machine: no Python package registry.)  Wall-clock figures on a shared machine are
- * noisy; the load average is printed with them.
+ * detuning scan on 1 and 2 threads.  (The comparison with scipy's DOP853 is
+ * tests/bench/compare_raman.py.)  Wall-clock figures on a shared machine are noisy; the load
+ * average is printed with them.
  */
 #include <math.h>
 #include <stdio.h>
