@@ -17,6 +17,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
+#include <string.h>
 
 #include "check_int.h"
 #include "coldprep/consts.h"
@@ -112,9 +113,10 @@ static int compare_q(const void *a, const void *b)
 
 /* Energies at nq quasimomenta with a prepared basis size.  The points are solved in the order
  * of their folded quasimomenta, whatever the caller's order, and each solution seeds the next
- * (linear extrapolation in |q| from the two previous points): neighbours in that order are
- * close, so the seeded iteration converges in a few steps.  Results go to the caller's
- * positions. */
+ * (extrapolated in |q| through the three previous points, quadratically): neighbours in that
+ * order are close, so the seeded iteration converges in a few steps.  Points with the same
+ * folded quasimomentum (q and -q, or q and q + 2) have the same Hamiltonian and are solved
+ * once.  Results go to the caller's positions. */
 static cp_status solve(double depth_er, int bands, int size, size_t nq, const double *qs,
                        double *energies, const cp_cancel_flag *cancel, cp_error *err,
                        const char *ctx)
@@ -131,8 +133,9 @@ static cp_status solve(double depth_er, int bands, int size, size_t nq, const do
     qsort(order, nq, sizeof *order, compare_q);
     double *work = diag + size;
     cp_tridiag t = {size, diag, -0.25 * depth_er, -0.25 * depth_er, cancel};
-    const double *x1 = NULL, *x2 = NULL; /* the two previous solutions */
-    double qprev = NAN, qprev2 = NAN;
+    const double *prev[3] = {NULL, NULL, NULL}; /* the last three distinct solutions */
+    double qp[3] = {NAN, NAN, NAN};
+    int have = 0; /* how many of them there are (at most 3) */
     cp_status st = CP_OK;
     size_t k = 0;
     for (; k < nq && st == CP_OK; k++) {
@@ -142,20 +145,37 @@ static cp_status solve(double depth_er, int bands, int size, size_t nq, const do
         }
         double q = order[k].q;
         double *x = energies + order[k].i * (size_t)bands;
-        int guess = k > 0;
-        if (guess) {
-            double slope = 0.0;
-            if (k > 1 && qprev != qprev2)
-                slope = (q - qprev) / (qprev - qprev2);
-            for (int n = 0; n < bands; n++)
-                x[n] = x1[n] + (k > 1 ? slope * (x1[n] - x2[n]) : 0.0);
+        if (have > 0 && q == qp[0]) {
+            memcpy(x, prev[0], (size_t)bands * sizeof *x);
+            continue;
+        }
+        /* Lagrange weights of the previous points at q (constant, linear or quadratic) */
+        double w[3] = {1.0, 0.0, 0.0};
+        int near = have > 0 && q - qp[0] <= 1e-9; /* as good as the same point */
+        if (!near && have == 2) {
+            w[0] = (q - qp[1]) / (qp[0] - qp[1]);
+            w[1] = 1.0 - w[0];
+        } else if (!near && have == 3) {
+            w[0] = (q - qp[1]) * (q - qp[2]) / ((qp[0] - qp[1]) * (qp[0] - qp[2]));
+            w[1] = (q - qp[0]) * (q - qp[2]) / ((qp[1] - qp[0]) * (qp[1] - qp[2]));
+            w[2] = (q - qp[0]) * (q - qp[1]) / ((qp[2] - qp[0]) * (qp[2] - qp[1]));
+        }
+        for (int n = 0; n < bands && have > 0; n++) {
+            x[n] = 0.0;
+            for (int p = 0; p < have; p++)
+                x[n] += w[p] * prev[p][n];
         }
         cp_lattice_fill_diagonal(depth_er, q, size, diag);
-        st = cp_tridiag_lowest(&t, bands, guess, x, work);
-        x2 = x1;
-        x1 = x;
-        qprev2 = qprev;
-        qprev = q;
+        st = cp_tridiag_lowest(&t, bands, have > 0, x, work);
+        if (!near) { /* a near point replaces the last one: no ill-conditioned weights */
+            prev[2] = prev[1];
+            prev[1] = prev[0];
+            qp[2] = qp[1];
+            qp[1] = qp[0];
+            have += have < 3;
+        }
+        prev[0] = x;
+        qp[0] = q;
     }
     free(order);
     free(diag);

@@ -6,10 +6,11 @@
  * Eigenvalues: the LDL^T factorisation of T - x I, d_1 = a_1 - x,
  * d_i = a_i - x - b^2 / d_{i-1}, has as many negative pivots as T has eigenvalues below x
  * (Sylvester's law of inertia: the Sturm-sequence count used by bisection, Wilkinson, The
- * Algebraic Eigenvalue Problem (1965), Ch. 5).  det(T - x I) = prod d_i, so
- * d/dx log det = sum d_i'/d_i with d_i' = -1 + b^2 d_{i-1}' / d_{i-1}^2, which gives
- * Newton's step on the characteristic polynomial in the same sweep.  Several shifts are
- * swept together so that their divisions overlap in the processor's pipeline.
+ * Algebraic Eigenvalue Problem (1965), Ch. 5).
+ * Newton's step on the characteristic polynomial uses the three-term recurrence of the
+ * leading principal minors P_i = det(T_i - x I) and of their derivatives, which needs no
+ * division (rescaled by powers of two against overflow); several shifts are swept together
+ * so that their recurrences overlap in the processor's pipeline.
  *
  * Eigenvectors: twisted factorisation (forward and backward pivots meeting at the index
  * where the eigenvector is largest), as in Dhillon and Parlett's MRRR method, Lin. Alg.
@@ -69,30 +70,60 @@ static void count_many(const cp_tridiag *t, int m, const double *x, int *count, 
     }
 }
 
-/* Newton steps -det/det' at m shifts in one sweep (step may be +-inf or NaN on an exact
- * pivot breakdown; callers check).  r, dp, s: m doubles of scratch each. */
-static void newton_many(const cp_tridiag *t, int m, const double *x, double *step, double *r,
-                        double *dp, double *s)
+/* Rescale lane j of consecutive values p0, p1 and their derivatives d0, d1 by a power of
+ * two (exact) when |p1| has left [2^-400, 2^400]. */
+static inline void rescale(double *p0, double *p1, double *d0, double *d1, int j)
 {
-    double pmin = pivmin(t);
-    for (int j = 0; j < m; j++) {
-        double d = guard(t->diag[0] - x[j], pmin);
-        r[j] = 1.0 / d;
-        dp[j] = -1.0;
-        s[j] = -r[j];
+    double mag = fabs(p1[j]);
+    if ((mag > 0x1p400 || mag < 0x1p-400) && mag > 0.0 && isfinite(mag)) {
+        int e = -ilogb(p1[j]);
+        p0[j] = ldexp(p0[j], e);
+        p1[j] = ldexp(p1[j], e);
+        d0[j] = ldexp(d0[j], e);
+        d1[j] = ldexp(d1[j], e);
+    }
+}
+
+/* Newton steps -det/det' at w <= 8 shifts swept together, so that their independent
+ * recurrences overlap in the processor's pipeline.  The characteristic polynomials of the leading submatrices,
+ * P_i = (a_i - x) P_{i-1} - b_i^2 P_{i-2} and their derivatives
+ * P_i' = (a_i - x) P_{i-1}' - P_{i-1} - b_i^2 P_{i-2}', need no division; every 4 rows a
+ * lane whose |P| has left [2^-400, 2^400] is rescaled by a power of two (exact, and the
+ * step P/P' does not change).  A step may come out non-finite (callers check); its
+ * correctness is never taken on trust: callers accept a result only after a Sturm count. */
+static inline void newton_block(const cp_tridiag *t, int w, const double *x, double *step)
+{
+    double p0[8], p1[8], d0[8], d1[8];
+    for (int j = 0; j < w; j++) {
+        p0[j] = 1.0;
+        p1[j] = t->diag[0] - x[j];
+        d0[j] = 0.0;
+        d1[j] = -1.0;
     }
     for (int i = 1; i < t->n; i++) {
         double a = t->diag[i], b2 = off2(t, i);
-        for (int j = 0; j < m; j++) {
-            double d = guard(a - x[j] - b2 * r[j], pmin);
-            double dpn = -1.0 + b2 * dp[j] * r[j] * r[j];
-            r[j] = 1.0 / d;
-            dp[j] = dpn;
-            s[j] += dpn * r[j];
+        for (int j = 0; j < w; j++) {
+            double ax = a - x[j];
+            double pn = ax * p1[j] - b2 * p0[j];
+            double dn = ax * d1[j] - p1[j] - b2 * d0[j];
+            p0[j] = p1[j];
+            p1[j] = pn;
+            d0[j] = d1[j];
+            d1[j] = dn;
         }
+        if ((i & 3) == 0)
+            for (int j = 0; j < w; j++)
+                rescale(p0, p1, d0, d1, j);
     }
-    for (int j = 0; j < m; j++)
-        step[j] = -1.0 / s[j];
+    for (int j = 0; j < w; j++)
+        step[j] = -p1[j] / d1[j];
+}
+
+/* Newton steps at m shifts, in blocks of at most 8 swept together. */
+static void newton_many(const cp_tridiag *t, int m, const double *x, double *step)
+{
+    for (int j = 0; j < m; j += 8)
+        newton_block(t, m - j < 8 ? m - j : 8, x + j, step + j);
 }
 
 static double tolerance(double x)
@@ -104,10 +135,9 @@ static double tolerance(double x)
  * show exactly one eigenvalue between consecutive separators, the k-th lowest for x[k]. */
 static int refine_guesses(const cp_tridiag *t, int m, double *x, double *work)
 {
-    double *step = work, *r = work + (m + 1), *dp = work + 2 * (m + 1);
-    double *s = work + 3 * (m + 1);
+    double *step = work;
     for (int it = 0; it < MAX_NEWTON; it++) {
-        newton_many(t, m, x, step, r, dp, s);
+        newton_many(t, m, x, step);
         int done = 1;
         for (int j = 0; j < m; j++) {
             if (!isfinite(step[j]))
@@ -131,7 +161,7 @@ static int refine_guesses(const cp_tridiag *t, int m, double *x, double *work)
     }
     sep[0] = x[0] - 1e3 * tolerance(x[0]);
     sep[m] = x[m - 1] + 1e3 * tolerance(x[m - 1]);
-    count_many(t, m + 1, sep, count, r);
+    count_many(t, m + 1, sep, count, work + (m + 1));
     for (int j = 0; j <= m; j++)
         if (count[j] != j)
             return 0;
@@ -161,9 +191,9 @@ static cp_status isolate_and_refine(const cp_tridiag *t, int k, double lo, doubl
             chi = c;
         }
     }
-    double x = 0.5 * (lo + hi), step, r, dp, s;
+    double x = 0.5 * (lo + hi), step;
     for (it = 0; it < MAX_BISECT; it++) {
-        newton_many(t, 1, &x, &step, &r, &dp, &s);
+        newton_many(t, 1, &x, &step);
         if (cp_tridiag_count(t, x) <= k)
             lo = x;
         else
