@@ -2,7 +2,8 @@
 # Ctrl-C inside long C computations: cp.lattice.bands with 200 bands at 5000
 # quasimomenta in a 4001-state basis and cp.raman.lineshape with a million points run for
 # minutes, cp.thermo.lattice_filling of bosons with a Hubbard U of 1e-9 k_B T for ten
-# seconds, cp.feshbach.max_efficiency with ten million samples for seconds (each asked for
+# seconds, cp.feshbach.max_efficiency with ten million samples for seconds,
+# cp.lattice.wannier at 1e4 E_r with 1e5 points for about a second (each asked for
 # with allow_long = true: their work estimates refuse them otherwise); the first Ctrl-C
 # must stop them within 0.2 s (the core polls the flag the SIGINT handler sets), in the
 # session on a terminal (cli_pty's `within 200`, timed from the Ctrl-C) and in a script
@@ -20,6 +21,7 @@ export TERM=dumb INPUTRC=/dev/null
 filling='cp.thermo.lattice_filling{number = 1e12, mass = 2.1e-25, statistics = "boson", temperature = 5e-9, depth_er = 40, wavelength = 1064e-9, envelope_omega_bar = 1e6, onsite_u = 1e-40, allow_long = true}'
 bands='cp.lattice.bands{depth_er = 10, bands = 200, points = 5000, basis = 4001, allow_long = true}'
 sampling='cp.feshbach.max_efficiency{temperature = 200e-9, samples = 10000000, allow_long = true, a = {atom = "87Rb", t_over_tc = 1.2, omega_x = 628, omega_y = 628, omega_z = 628}, b = {atom = "40K", t_over_tf = 0.3, omega_x = 628, omega_y = 628, omega_z = 628}}'
+wannier='cp.lattice.wannier{depth_er = 1e4, points = 100000, allow_long = true}'
 shape='cp.raman.lineshape{rabi_pump = 2*math.pi*5e6, rabi_stokes = 2*math.pi*5e6, width = 3e-6, delay = 3e-6, gamma = 2*math.pi*6e6, from = -2*math.pi*1e6, to = 2*math.pi*1e6, points = 1000000, allow_long = true}'
 
 # pty ID < SCRIPT: a terminal session played from SCRIPT.
@@ -29,7 +31,7 @@ pty() {
   [ "$rc" = 0 ] || fail "$1" "terminal session failed (see stderr)"
 }
 
-for case in "CANCEL-1 bands:$bands" "CANCEL-1 filling:$filling" "CANCEL-2 lineshape:$shape" "CANCEL-4 sampling:$sampling"; do
+for case in "CANCEL-1 bands:$bands" "CANCEL-1 wannier:$wannier" "CANCEL-1 filling:$filling" "CANCEL-2 lineshape:$shape" "CANCEL-4 sampling:$sampling"; do
   id=${case%% *}
   call=${case#*:}
   pty "$id" <<EOF
@@ -118,7 +120,7 @@ exit 0
 EOF
 
 # CANCEL-3: in a script, SIGINT stops the computation within 0.2 s; exit status 1.
-for call in "$bands" "$filling" "$shape" "$sampling" "$optimize"; do
+for call in "$bands" "$wannier" "$filling" "$shape" "$sampling" "$optimize"; do
   "$coldprep" -e "$call" 2> script.err &
   pid=$!
   sleep 0.7
