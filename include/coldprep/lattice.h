@@ -244,6 +244,18 @@ cp_status cp_lattice_site(double depth_er, double probe_ratio, double *hbar_omeg
 cp_status cp_lattice_wannier(double depth_er, int band, double half_range, size_t npoints,
                              double *x_sites, double *w, cp_error *err);
 
+/* cp_lattice_wannier with a work estimate and cancellation: when the estimated CPU time
+ * (the Kohn coefficients plus npoints x (a + b size) for a size-state basis, fitted on a
+ * 2020s desktop core: docs/api/lattice.md) exceeds max_seconds (> 0; +inf: no limit),
+ * nothing is computed and CP_ETOOLONG is returned, its message giving the estimate and
+ * the points that would fit; *cancel (may be NULL) is polled before every quasimomentum
+ * of the coefficients and every sampled point, and once it is non-zero CP_ECANCELED is
+ * returned.  Outputs are NaN on either. */
+cp_status cp_lattice_wannier_bounded(double depth_er, int band, double half_range,
+                                     size_t npoints, double *x_sites, double *w,
+                                     const cp_cancel_flag *cancel, double max_seconds,
+                                     cp_error *err);
+
 /* ---- heating by photon scattering ------------------------------------------------------- */
 
 /* Photon scattering rate Gamma_sc = Im(alpha) I / (hbar eps0 c) (Grimm et al. 2000 [M])

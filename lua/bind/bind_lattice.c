@@ -342,7 +342,8 @@ static int l_site(lua_State *L)
 
 static int l_wannier(lua_State *L)
 {
-    static const char *const keys[] = {"depth_er", "band", "range", "points", NULL};
+    static const char *const keys[] = {"depth_er", "band", "range", "points", "allow_long",
+                                       NULL};
     const char *fname = "lattice.wannier";
     cpl_check_args(L, 1, fname, keys);
     double depth = cpl_number(L, 1, fname, "depth_er", "E_r");
@@ -351,7 +352,9 @@ static int l_wannier(lua_State *L)
     size_t n = (size_t)cpl_opt_integer(L, 1, fname, "points", 601, 2, 100000);
     double *x = scratch(L, n), *w = scratch(L, n);
     cp_error err;
-    if (cp_lattice_wannier(depth, band - 1, range, n, x, w, &err) != CP_OK)
+    double limit = cpl_work_limit(L, 1, fname);
+    if (cp_lattice_wannier_bounded(depth, band - 1, range, n, x, w, cpl_cancel_flag(L), limit,
+                                   &err) != CP_OK)
         return cpl_raise(L, &err);
     lua_createtable(L, 0, 2);
     cpl_push_array(L, x, n);
@@ -597,9 +600,12 @@ static const cpl_function functions[] = {
      "Returns {hbar_omega_er, lamb_dicke}, and omega (rad/s) when mass (kg) and wavelength\n"
      "are given.\nExample: cp.lattice.site{depth_er = 30}.lamb_dicke"},
     {"wannier", l_wannier,
-     "lattice.wannier{depth_er [, band = 1] [, range = 3] [, points = 601]}\n"
+     "lattice.wannier{depth_er [, band = 1] [, range = 3] [, points = 601]\n"
+     "                [, allow_long = false]}\n"
      "Maximally localised Wannier function (Kohn's real, symmetric one) of a band (1..10) at\n"
      "depth_er (0.5..1e4), sampled at `points` positions over [-range, range] lattice sites.\n"
+     "A call estimated beyond cp.consts.limits.work_seconds of CPU (about 7e4 points at 1e4\n"
+     "E_r) is refused unless allow_long = true; Ctrl-C stops it.\n"
      "Returns {x_sites = {...} (units of the spacing d), w = {...} (d^-1/2, integral w^2\n"
      "dx/d = 1)}.\nExample: local wf = cp.lattice.wannier{depth_er = 10, range = 2}"},
     {"scattering_rate", l_scattering_rate,

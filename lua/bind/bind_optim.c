@@ -210,6 +210,21 @@ static int l_nmsimplex(lua_State *L)
     return 1;
 }
 
+/* optim.interrupt_note(text | nil): keep `text` as the note the program appends to an
+ * "interrupted" message (nil removes it).  For searches that evaluate outside the simplex
+ * (cp.optimize's starting points and its +-10 % report), where no Lua can run once the
+ * interruption has come. */
+static int l_interrupt_note(lua_State *L)
+{
+    const char *fname = "optim.interrupt_note";
+    if (lua_gettop(L) != 1 || !(lua_isnil(L, 1) || lua_type(L, 1) == LUA_TSTRING))
+        return cpl_error(L, fname, "argument 'text' must be a string or nil, got %s",
+                         lua_gettop(L) == 0 ? "nothing" : luaL_typename(L, 1));
+    lua_settop(L, 1);
+    lua_setfield(L, LUA_REGISTRYINDEX, CPL_INTERRUPT_NOTE_KEY);
+    return 0;
+}
+
 static const cpl_function optim_functions[] = {
     {"nmsimplex", l_nmsimplex,
      "optim.nmsimplex{f = function(x) return number end, start = {x1, ...}, step = {s1, ...}\n"
@@ -223,6 +238,12 @@ static const cpl_function optim_functions[] = {
      "For named parameters with bounds and constraints use cp.optimize.\n"
      "Example: cp.optim.nmsimplex{f = function(x) return (x[1]-1)^2 + x[2]^2 end,\n"
      "                            start = {0, 1}, step = {0.5, 0.5}}.x  --> about {1, 0}"},
+    {"interrupt_note", l_interrupt_note,
+     "optim.interrupt_note(text | nil)\n"
+     "Keep text as the note appended to an \"interrupted\" message if Ctrl-C stops the\n"
+     "running entry (nil removes it; an interruption removes it too).  cp.optimize keeps\n"
+     "its best point there while it evaluates its starting points and its +-10 % report.\n"
+     "Example: cp.optim.interrupt_note(\"scan: best so far x = 2\"); cp.optim.interrupt_note(nil)"},
     {NULL, NULL, NULL}};
 
 int cpl_open_optim(lua_State *L)

@@ -12,7 +12,9 @@
 --  * Restarts: Nelder-Mead can stall; the search is restarted from its best point until a
 --    restart improves the objective by less than the tolerance (common practice, no source).
 --  * Ctrl-C: no Lua runs after an interruption, so the best point so far is kept as text in
---    a progress table that cp.optim.nmsimplex leaves for the program's "interrupted" message.
+--    a progress table that cp.optim.nmsimplex leaves for the program's "interrupted" message;
+--    while the starting points and the +-10 % report are evaluated (outside the simplex)
+--    the same text is kept current with cp.optim.interrupt_note.
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
 
@@ -147,29 +149,6 @@ local function optimize(args)
       feasible = violation == 0 }
   end
 
-  -- Starting simplex in u: the start and a unit step along each u.
-  local u0, scale = {}, 0
-  for i, par in ipairs(params) do u0[i] = par.to_u(par.start) end
-  local function x_of(u)
-    local x = {}
-    for i, par in ipairs(params) do x[i] = par.from_u(u[i]) end
-    return x
-  end
-  local start = {}
-  for k = 0, #params do
-    local u = table.move(u0, 1, #u0, 1, {})
-    if k > 0 then u[k] = u[k] + 1 end
-    local a = assess(x_of(u))
-    a.u = u
-    start[#start + 1] = a
-    if a.merit then scale = math.max(scale, math.abs(a.merit)) end
-  end
-  if scale == 0 then scale = 1 end
-  local big = 1e6 * (1 + penalty)
-  local evaluations = #params + 1
-  local best = nil
-  local progress = { context = fname }
-
   local function describe(a)
     local parts = {}
     for i, par in ipairs(params) do parts[i] = string.format("%s = %.10g", par.name, a.p[par.name]) end
@@ -177,6 +156,44 @@ local function optimize(args)
       or "failed: " .. a.failed
     return table.concat(parts, ", ") .. " (" .. how .. ")"
   end
+
+  -- The "interrupted" note outside the simplex: the phase, the evaluations so far and the
+  -- best point so far (as the simplex's own note has it).
+  local progress = { context = fname }
+  local function note(phase, evaluations, best_text)
+    cp.optim.interrupt_note(string.format("%s: stopped after %d evaluations (%s); best point so far: %s",
+      fname, evaluations, phase, best_text or "none evaluated"))
+  end
+
+  -- Starting simplex in u: the start and a unit step along each u.  Until the penalised
+  -- ranking exists (it needs the scale), the note names the best feasible merit so far.
+  local u0, scale = {}, 0
+  for i, par in ipairs(params) do u0[i] = par.to_u(par.start) end
+  local function x_of(u)
+    local x = {}
+    for i, par in ipairs(params) do x[i] = par.from_u(u[i]) end
+    return x
+  end
+  local start, lead = {}, nil
+  note("starting points", 0, nil)
+  for k = 0, #params do
+    local u = table.move(u0, 1, #u0, 1, {})
+    if k > 0 then u[k] = u[k] + 1 end
+    local a = assess(x_of(u))
+    a.u = u
+    start[#start + 1] = a
+    if a.merit then scale = math.max(scale, math.abs(a.merit)) end
+    if a.merit and (not lead or (a.feasible and not lead.feasible) or
+        (a.feasible == lead.feasible and sign * a.merit > sign * lead.merit)) then
+      lead = a
+    end
+    note("starting points", k + 1, describe(lead or a))
+  end
+  cp.optim.interrupt_note(nil)
+  if scale == 0 then scale = 1 end
+  local big = 1e6 * (1 + penalty)
+  local evaluations = #params + 1
+  local best = nil
 
   local function consider(a)
     local f
@@ -241,13 +258,16 @@ local function optimize(args)
   end
   -- How the merit changes at -10 % and +10 % of each parameter, the others held (10 %
   -- of the range for a parameter that sits at 0).
+  local reported = evaluations
   for i, par in ipairs(params) do
     local row = { parameter = par.name, value = xbest[i] }
     local step = xbest[i] ~= 0 and 0.1 * xbest[i] or 0.1 * (par.max - par.min)
     for _, side in ipairs { { "minus", -1 }, { "plus", 1 } } do
       local x = table.move(xbest, 1, #xbest, 1, {})
       x[i] = xbest[i] + side[2] * step
+      note("in the +-10 % report", reported, progress.best)
       local a = assess(x)
+      reported = reported + 1
       row[side[1]] = {
         value = x[i], merit = a.merit, feasible = a.feasible or false, failed = a.failed,
         change = a.merit and (a.merit - best.merit) / (best.merit ~= 0 and math.abs(best.merit) or 1),
@@ -256,6 +276,7 @@ local function optimize(args)
     end
     out.sensitivity[i] = row
   end
+  cp.optim.interrupt_note(nil)
   return out
 end
 

@@ -30,6 +30,21 @@ local Budget = {}
 Budget.__index = Budget
 -- a budget typed at the prompt (or given to print/tostring) shows as its report
 Budget.__tostring = function(self) return Budget.text(self) end
+-- The keys a budget and its start and final records may have (some only in some runs: no
+-- limiting_stage when a stage failed, t_over_tf or t_over_tc by the statistics): cp.sweep
+-- leaves such an output empty where it is absent, and stops on a name that is not here.
+local RECORD_FIELDS = {}
+for _, k in ipairs { "index", "name", "kind", "particles", "number", "temperature",
+  "degeneracy_name", "degeneracy", "t_over_tf", "t_over_tc", "peak_density",
+  "phase_space_density", "entropy_per_particle", "efficiency", "cumulative_efficiency",
+  "duration", "elapsed", "adiabatic", "failed", "failure", "lattice", "flags", "notes" } do
+  RECORD_FIELDS[k] = true
+end
+Budget.__fields = { start = RECORD_FIELDS, final = RECORD_FIELDS }
+for _, k in ipairs { "name", "species", "stages", "degenerate", "threshold", "verdict", "ranking",
+  "limiting_index", "limiting_stage", "reason", "failed_stage", "failure", "safety" } do
+  Budget.__fields[k] = true
+end
 
 -- ---- records --------------------------------------------------------------------------
 

@@ -120,7 +120,7 @@ local function compile(fname, desc, format)
       A.fail(fname, "outputs must be a non-empty list of result names, e.g. {\"final.number\"}")
     end
     for i, o in ipairs(outputs) do
-      if type(o) ~= "string" or o == "" then
+      if type(o) ~= "string" or o == "" or o == "?" then
         A.fail(fname, "outputs[%d] must be a result name (string), got %s", i, tostring(o))
       end
     end
@@ -137,7 +137,13 @@ local function compile(fname, desc, format)
   end
   if count > (1 << 53) then A.fail(fname, "the grid has more than 2^53 points") end
   local nparams = #columns - 1
-  local outnames = outputs or { "value" }
+  -- A name ending in "?" is an output that may be absent at some points (an empty cell
+  -- there); the column drops the "?".  Any other output must be in every result.
+  local outnames, optional = {}, {}
+  for i, o in ipairs(outputs or { "value" }) do
+    optional[i] = o:sub(-1) == "?"
+    outnames[i] = optional[i] and o:sub(1, -2) or o
+  end
   for _, o in ipairs(outnames) do
     if seen[o] then A.fail(fname, "output '%s' has the name of a parameter or column", o) end
     seen[o] = true
@@ -162,13 +168,71 @@ local function compile(fname, desc, format)
     return p
   end
 
-  local getters = {}
+  local paths = {}
   for i, o in ipairs(outnames) do
-    getters[i] = A.result_getter(fname, string.format("outputs[%d]", i), o)
+    local parts = {}
+    for part in o:gmatch("[^.]+") do parts[#parts + 1] = part end
+    paths[i] = parts
   end
 
-  local function pick(result, o)
-    local v = getters[o](result)
+  -- The keys a result table declares it may have (its metatable's __fields, as a plan's
+  -- budget has: true, or the same for a sub-table), else those `inherited` from above.
+  local function declared(v, inherited)
+    local mt = getmetatable(v)
+    local own = type(mt) == "table" and rawget(mt, "__fields")
+    if type(own) == "table" then return own end
+    return inherited
+  end
+
+  -- Output o is absent from the result of point i: nothing when the result declares the
+  -- missing key (empty cell), else an error naming the level where the path breaks, the
+  -- keys found there and the closest of them (a misspelt name must not give a file of
+  -- empty columns).
+  local function missing(result, o, i)
+    local parts, v, at, fields = paths[o], result, "the result", nil
+    for k, part in ipairs(parts) do
+      if type(v) ~= "table" then
+        error(string.format("%s: output '%s' is missing at point %d: %s is a %s, not a table " ..
+          "with '%s'", fname, outnames[o], i, at, type(v), part), 0)
+      end
+      fields = declared(v, fields)
+      if v[part] == nil and fields and fields[part] then return end
+      if v[part] == nil then
+        local keys = {}
+        for key in pairs(v) do
+          if type(key) == "string" then keys[#keys + 1] = key end
+        end
+        table.sort(keys)
+        local candidates = table.move(keys, 1, #keys, 1, {}) -- and the declared ones
+        for key in pairs(type(fields) == "table" and fields or {}) do
+          if type(key) == "string" and v[key] == nil then candidates[#candidates + 1] = key end
+        end
+        table.sort(candidates)
+        local near = cp.names.closest(part, candidates)
+        local fixed = table.move(parts, 1, #parts, 1, {})
+        fixed[k] = near
+        local shown = #keys > 30 and table.concat(keys, ", ", 1, 30) .. ", ..." or
+          table.concat(keys, ", ")
+        error(string.format("%s: output '%s' is missing from evaluate's result at point %d " ..
+          "(%s has %s)%s; an output that may be absent at some points is written '%s?' " ..
+          "(an empty cell there)", fname, outnames[o], i, at,
+          #keys > 0 and "the keys " .. shown or "no named keys",
+          near and string.format("; did you mean '%s'?", table.concat(fixed, ".")) or "",
+          outnames[o]), 0)
+      end
+      v = v[part]
+      fields = type(fields) == "table" and type(fields[part]) == "table" and fields[part] or nil
+      at = "'" .. table.concat(parts, ".", 1, k) .. "'"
+    end
+  end
+
+  local function pick(result, o, i)
+    local v = result
+    for _, part in ipairs(paths[o]) do
+      if type(v) ~= "table" then v = nil; break end
+      v = v[part]
+    end
+    if v == nil and not optional[o] then missing(result, o, i) end
     local t = type(v)
     if t == "table" or t == "function" or t == "userdata" or t == "thread" then
       error(string.format("%s: output '%s' is a %s; outputs must be numbers, strings or booleans",
@@ -205,7 +269,7 @@ local function compile(fname, desc, format)
         error(string.format("%s: evaluate returned a %s at point %d; with outputs it must return a table",
           fname, type(result), i), 0)
       end
-      for o = 1, #outnames do values[nparams + 1 + o] = pick(result, o) end
+      for o = 1, #outnames do values[nparams + 1 + o] = pick(result, o, i) end
     end
     return values, p
   end
@@ -388,6 +452,9 @@ parameters: a list of axes, the first varying slowest; each axis is
   combine = "zip" zips all parameters instead of forming the full grid.
 evaluate(p): p = {x = ..., y = ...}; returns a number (column "value") or a table from
   which outputs picks values by name ("number", or a path such as "final.t_over_tf");
+  a declared output missing from a result stops the sweep (naming the keys there), unless
+  its name ends in "?" ("final.t_over_tf?": may be absent, an empty cell there) or the
+  result declares the key (a plan's budget: limiting_stage, final.t_over_tc, ...);
   if it returns a plan (a table with a run method) the plan is run.  A Lua error in
   evaluate is recorded in the row's "error" column and the sweep goes on.
 out: stream rows to this file as they finish (CSV, or JSON Lines for .jsonl), memory

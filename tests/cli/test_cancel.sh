@@ -2,7 +2,8 @@
 # Ctrl-C inside long C computations: cp.lattice.bands with 200 bands at 5000
 # quasimomenta in a 4001-state basis and cp.raman.lineshape with a million points run for
 # minutes, cp.thermo.lattice_filling of bosons with a Hubbard U of 1e-9 k_B T for ten
-# seconds, cp.feshbach.max_efficiency with ten million samples for seconds (each asked for
+# seconds, cp.feshbach.max_efficiency with ten million samples for seconds,
+# cp.lattice.wannier at 1e4 E_r with 1e5 points for about a second (each asked for
 # with allow_long = true: their work estimates refuse them otherwise); the first Ctrl-C
 # must stop them within 0.2 s (the core polls the flag the SIGINT handler sets), in the
 # session on a terminal (cli_pty's `within 200`, timed from the Ctrl-C) and in a script
@@ -20,6 +21,7 @@ export TERM=dumb INPUTRC=/dev/null
 filling='cp.thermo.lattice_filling{number = 1e12, mass = 2.1e-25, statistics = "boson", temperature = 5e-9, depth_er = 40, wavelength = 1064e-9, envelope_omega_bar = 1e6, onsite_u = 1e-40, allow_long = true}'
 bands='cp.lattice.bands{depth_er = 10, bands = 200, points = 5000, basis = 4001, allow_long = true}'
 sampling='cp.feshbach.max_efficiency{temperature = 200e-9, samples = 10000000, allow_long = true, a = {atom = "87Rb", t_over_tc = 1.2, omega_x = 628, omega_y = 628, omega_z = 628}, b = {atom = "40K", t_over_tf = 0.3, omega_x = 628, omega_y = 628, omega_z = 628}}'
+wannier='cp.lattice.wannier{depth_er = 1e4, points = 100000, allow_long = true}'
 shape='cp.raman.lineshape{rabi_pump = 2*math.pi*5e6, rabi_stokes = 2*math.pi*5e6, width = 3e-6, delay = 3e-6, gamma = 2*math.pi*6e6, from = -2*math.pi*1e6, to = 2*math.pi*1e6, points = 1000000, allow_long = true}'
 
 # pty ID < SCRIPT: a terminal session played from SCRIPT.
@@ -29,7 +31,7 @@ pty() {
   [ "$rc" = 0 ] || fail "$1" "terminal session failed (see stderr)"
 }
 
-for case in "CANCEL-1 bands:$bands" "CANCEL-1 filling:$filling" "CANCEL-2 lineshape:$shape" "CANCEL-4 sampling:$sampling"; do
+for case in "CANCEL-1 bands:$bands" "CANCEL-1 wannier:$wannier" "CANCEL-1 filling:$filling" "CANCEL-2 lineshape:$shape" "CANCEL-4 sampling:$sampling"; do
   id=${case%% *}
   call=${case#*:}
   pty "$id" <<EOF
@@ -74,8 +76,51 @@ exit 0
 EOF
 done
 
+# CANCEL-5 outside the simplex: a Ctrl-C while cp.optimize evaluates its starting points or
+# its +-10 % report also reports the best point so far.  The objective spins (until the
+# Ctrl-C) at its 2nd evaluation, the second starting point: the first is the middle of
+# [0, 3], x = 1.5, merit -(1.5 - 2)^2 = -0.25 (by hand).  With max_evaluations = 12 the
+# search ends after 12 evaluations and the 13th is the report's first; the best point
+# then is the one an uninterrupted run returns (run below, a second way to the number).
+stall="cp.optimize{parameters = {{name = 'x', min = 0, max = 3}}, evaluate = function(p) n = n + 1 if n == STALL then while true do end end return -(p.x - 2)^2 end, tolerance = 1e-300, max_evaluations = 12}"
+best=$("$coldprep" -e "n = 0; local r = ${stall/STALL/0}; print(string.format('x = %.10g (merit %.10g, feasible)', r.parameters.x, r.merit))")
+for case in "2:1 evaluations (starting points); best point so far: x = 1.5 (merit -0.25, feasible)" \
+            "13:12 evaluations (in the +-10 % report); best point so far: $best"; do
+  at=${case%%:*}
+  want=${case#*:}
+  pty "CANCEL-5 optimize outside the simplex (evaluation $at)" <<EOF
+expect coldprep> 
+send n = 0; r = ${stall/STALL/$at}\r
+sleep 700
+send \x03
+within 200 interrupted; optimize: stopped after $want
+expect coldprep> 
+send print("still " .. "here", r)\r
+expect still here	nil
+expect coldprep> 
+send \x04
+exit 0
+EOF
+done
+# A finished optimisation leaves no note: a later Ctrl-C says only "interrupted".
+pty "CANCEL-5 no stale note" <<EOF
+expect coldprep> 
+send n = 0; r = ${stall/STALL/0}\r
+expect coldprep> 
+send while true do end\r
+sleep 300
+send \x03
+within 200 interrupted\r\n
+expect coldprep> 
+send print(r.parameters.x > 1.9)\r
+expect true
+expect coldprep> 
+send \x04
+exit 0
+EOF
+
 # CANCEL-3: in a script, SIGINT stops the computation within 0.2 s; exit status 1.
-for call in "$bands" "$filling" "$shape" "$sampling" "$optimize"; do
+for call in "$bands" "$wannier" "$filling" "$shape" "$sampling" "$optimize"; do
   "$coldprep" -e "$call" 2> script.err &
   pid=$!
   sleep 0.7

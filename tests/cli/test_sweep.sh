@@ -188,6 +188,31 @@ sed -i '1s/label/lable/' other.csv && rm other.csv.done
 "$bin" sweep scan.lua --out other.csv --resume 2> other.err
 check "resume refuses another sweep's file" grep -q "another header" other.err
 
+# A misspelt output stops the sweep at its first point with the keys at hand and the
+# closest name, in both formats, rather than write a file of empty columns.
+cat > miss.lua <<'LUA'
+return {
+  parameters = { {name = "x", from = 0, to = 1, points = 50} },
+  evaluate = function(p) return {final = {number = p.x, t_over_tf = 0.3}} end,
+  outputs = {"final.number", "final.t_over_tff"},
+}
+LUA
+for ext in csv jsonl; do
+  "$bin" sweep miss.lua --jobs 2 --out "miss.$ext" 2> "miss.$ext.err"
+  st=$?
+  check "misspelt output is an error ($ext)" test "$st" -ne 0
+  check "misspelt output named with did-you-mean ($ext)" grep -q \
+    "output 'final.t_over_tff' is missing from evaluate's result at point 1 ('final' has the keys number, t_over_tf); did you mean 'final.t_over_tf'?" "miss.$ext.err"
+  check "no rows and no completion marker ($ext)" test "$(grep -c '^[{0-9]' "miss.$ext")" -eq 0 -a ! -e "miss.$ext.done"
+done
+# "name?" marks an output that may be absent: empty cells there, identical on --resume.
+sed -i 's/"final.t_over_tff"/"final.t_over_tff?"/' miss.lua
+"$bin" sweep miss.lua --jobs 2 --out opt.csv 2>/dev/null
+check "optional output gives empty cells" grep -q $'^50,1,1,,\r$' opt.csv
+head -c 300 opt.csv > optcut.csv && rm -f optcut.csv.done
+"$bin" sweep miss.lua --out optcut.csv --resume 2>/dev/null
+check "optional output resumes byte-identically" cmp -s opt.csv optcut.csv
+
 # The demo plan's sweep: points 5049-5052 of its 10 000 (slice 1263 of 2500), 2 jobs.
 # Each row must carry a verdict consistent with the fermionic threshold T/T_F <= 0.5 (docs/api: the plan's default threshold).
 demo=$here/../../scripts/examples/sweep_tidewater.lua

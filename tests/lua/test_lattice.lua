@@ -140,6 +140,21 @@ T.raises(function() cp.lattice.loading { shape = "sampled", times = { 0, 1 }, de
 T.raises(function() cp.lattice.heating { scattering_rate = 1, polarizability_imag_au = 1,
   mass = krb, wavelength = 1e-6, depth_er = 5 } end, { "either" }, "rate and polarizability")
 T.raises(function() cp.lattice.wannier { depth_er = 0.1 } end, { "depth", "0.1" }, "shallow Wannier")
+-- A Wannier function estimated beyond cp.consts.limits.work_seconds (1e5 points at 1e4 E_r,
+-- about 1.4 s) is refused before it starts, naming the estimate, the points that fit and
+-- the opt-in; within the limit allow_long changes nothing (the same numbers).
+T.raises(function() cp.lattice.wannier { depth_er = 1e4, points = 100000 } end,
+  { "lattice.wannier: estimated work", "100000 points in a 141-state basis", "ask for at most",
+    "allow_long = true" }, "long Wannier function refused")
+T.raises(function() cp.lattice.wannier { depth_er = 10, allow_long = 1 } end,
+  { "'allow_long' must be true or false" }, "allow_long must be a boolean")
+do
+  local a = cp.lattice.wannier { depth_er = 10, points = 51 }
+  local b = cp.lattice.wannier { depth_er = 10, points = 51, allow_long = true }
+  local same = true
+  for i = 1, 51 do same = same and a.w[i] == b.w[i] end
+  T.expect("allow_long gives the same Wannier function", same)
+end
 T.raises(function() cp.lattice.heating { scattering_rate = -1, mass = krb, wavelength = 1e-6,
   depth_er = 5 } end, { "scattering rate", "-1" }, "negative scattering rate")
 T.raises(function() cp.lattice.depth3d { beams = { beam, beam }, mass = krb } end,

@@ -107,6 +107,10 @@ raises("an error inside the simplex propagates", "getter boom", cp.optimize,
       return r.n
     end } } })
 
+raises("interrupt_note: text must be a string", "optim.interrupt_note: argument 'text' must be a string or nil, got number",
+  cp.optim.interrupt_note, 3)
+raises("interrupt_note: text missing", "argument 'text' must be a string or nil, got nothing", cp.optim.interrupt_note)
+check("interrupt_note: a string and nil accepted", pcall(cp.optim.interrupt_note, "x") and pcall(cp.optim.interrupt_note, nil))
 check("help texts", cp.get_help(cp.optimize.run) ~= nil and cp.get_help(cp.optim.nmsimplex) ~= nil)
 
 T.done()

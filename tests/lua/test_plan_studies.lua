@@ -67,4 +67,15 @@ local s = cp.sweep { parameters = { { name = "final_temperature", values = { 70 
   evaluate = plan, outputs = { "final.number", "degenerate" } }
 T.check(s.rows[1]["final.number"] == plain.final.number and s.rows[1].degenerate == plain.degenerate,
   "STUDY-3 the sweep's row holds the plan's numbers")
+-- STUDY-4: outputs of a plan's budget.  A key the budget may lack (t_over_tc: the
+-- 23Na40K molecules are fermions, which have t_over_tf) is an empty cell; a misspelt one
+-- stops the sweep with the closest name.
+local s4 = cp.sweep { parameters = { { name = "final_temperature", values = { 70 * u.nK } } },
+  evaluate = plan, outputs = { "final.t_over_tc", "final.t_over_tf" } }
+T.check(s4.rows[1]["final.t_over_tc"] == nil and s4.rows[1]["final.t_over_tf"] == plain.final.t_over_tf
+  and s4.rows[1].error == nil, "STUDY-4 a key the budget declares is empty where absent")
+T.raises(function() cp.sweep { parameters = { { name = "final_temperature", values = { 70 * u.nK } } },
+  evaluate = plan, outputs = { "final.t_over_tff" } } end,
+  { "output 'final.t_over_tff' is missing from evaluate's result at point 1", "did you mean 'final.t_over_tf'?" },
+  "STUDY-4 a misspelt budget output stops the sweep")
 T.done()

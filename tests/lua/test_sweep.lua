@@ -97,6 +97,61 @@ local pr = cp.sweep{parameters = {{name = "k", values = {1}}}, evaluate = functi
   outputs = {"final.number"}}
 check("a returned plan is run", pr.rows[1]["final.number"] == 7)
 
+-- A declared output missing from a result stops the sweep rather than give a column of
+-- empty cells: the error names the output, the point, the keys at the level where the
+-- path breaks and the closest of them (cp.names.closest).  Checked for both formats.
+local plan_result = function() return {final = {number = 7, t_over_tf = 0.3}} end
+for _, fmt in ipairs {"csv", "jsonl"} do
+  local mpath = os.tmpname()
+  raises("misspelt output path stops the sweep (" .. fmt .. ")",
+    "sweep: output 'final.t_over_tff' is missing from evaluate's result at point 1 ('final' has "
+      .. "the keys number, t_over_tf); did you mean 'final.t_over_tf'?",
+    cp.sweep, {parameters = {{name = "k", values = {1, 2}}}, evaluate = plan_result,
+      outputs = {"final.number", "final.t_over_tff"}, out = mpath, format = fmt})
+  local mf = io.open(mpath, "rb")
+  local mtext = mf:read("a")
+  mf:close()
+  check("no row written for the misspelt output (" .. fmt .. ")",
+    mtext == (fmt == "csv" and "point,k,final.number,final.t_over_tff,error\r\n" or ""), mtext)
+  os.remove(mpath)
+end
+raises("misspelt top-level output", "output 'fnal.number' is missing from evaluate's result at point 1 "
+  .. "(the result has the keys final); did you mean 'final.number'?",
+  cp.sweep, {parameters = {{name = "k", values = {1}}}, evaluate = plan_result, outputs = {"fnal.number"}})
+raises("a path through a number", "output 'final.number.x' is missing at point 1: 'final.number' is a "
+  .. "number, not a table with 'x'",
+  cp.sweep, {parameters = {{name = "k", values = {1}}}, evaluate = plan_result, outputs = {"final.number.x"}})
+-- The first point that lacks it stops the sweep (point 2 here), after point 1's row.
+raises("the first point lacking an output", "output 'y' is missing from evaluate's result at point 2",
+  cp.sweep, {parameters = {{name = "k", values = {1, 2}}},
+    evaluate = function(p) return p.k == 1 and {y = 1} or {z = 2} end, outputs = {"y"}})
+-- "name?" declares an output that may be absent: an empty cell (CSV) or null (JSON) there.
+local opt = cp.sweep{parameters = {{name = "k", values = {1, 2}}},
+  evaluate = function(p) return {y = p.k == 1 and 5 or nil} end, outputs = {"y?"}}
+check("optional output: column without '?', empty where absent",
+  table.concat(opt.columns, ",") == "point,k,y,error" and opt.rows[1].y == 5 and opt.rows[2].y == nil
+  and opt.rows[2].error == nil and opt.failed == 0)
+local jo = cp.sweep.prepare{format = "jsonl", sweep = {parameters = {{name = "k", values = {1}}},
+  evaluate = function() return {} end, outputs = {"a.b?"}}}
+check("optional output absent in JSON Lines is null", jo.row(1) == '{"point":1,"k":1,"a.b":null,"error":null}\n',
+  jo.row(1))
+-- A result whose metatable declares its keys (__fields; a plan's budget does) may lack any
+-- of them, at any depth; a key it does not declare is still an error.
+local declared = function()
+  return setmetatable({final = {number = 1}}, {__fields = {limiting_stage = true, final = {t_over_tc = true}}})
+end
+local dr = cp.sweep{parameters = {{name = "k", values = {1}}}, evaluate = declared,
+  outputs = {"limiting_stage", "final.t_over_tc", "final.number"}}
+check("declared keys may be absent", dr.rows[1].limiting_stage == nil and dr.rows[1]["final.t_over_tc"] == nil
+  and dr.rows[1]["final.number"] == 1 and dr.failed == 0)
+raises("an undeclared key is still an error", "output 'final.t_over_tcc' is missing from evaluate's result "
+  .. "at point 1 ('final' has the keys number); did you mean 'final.t_over_tc'?",
+  cp.sweep, {parameters = {{name = "k", values = {1}}}, evaluate = declared, outputs = {"final.t_over_tcc"}})
+-- A point whose evaluate raises keeps its outputs empty and its error text (not a stop).
+local er = cp.sweep{parameters = {{name = "k", values = {1}}}, evaluate = function() error("no bound state", 0) end,
+  outputs = {"y"}}
+check("an error row is not a missing output", er.rows[1].error == "no bound state" and er.failed == 1)
+
 -- Bad descriptions.
 local ok_eval = function(p) return 1 end
 raises("unknown key suggests", "did you mean 'evaluate'", cp.sweep, {parameters = {{name = "x", values = {1}}}, evalute = ok_eval})
@@ -108,6 +163,7 @@ raises("points beyond the integers", "points 1e+300 is out of range; allowed [1,
 raises("zip lengths", "need equal lengths", cp.sweep, {parameters = {{zip = {{name = "a", values = {1}}, {name = "b", values = {1, 2}}}}}, evaluate = ok_eval})
 raises("duplicate names", "used twice", cp.sweep, {parameters = {{name = "a", values = {1}}, {name = "a", values = {2}}}, evaluate = ok_eval})
 raises("missing evaluate", "missing argument 'evaluate'", cp.sweep, {parameters = {{name = "a", values = {1}}}})
+raises("'?' alone is no output", "outputs[1] must be a result name", cp.sweep, {parameters = {{name = "a", values = {1}}}, evaluate = ok_eval, outputs = {"?"}})
 raises("table without outputs", "list the results to keep", cp.sweep, {parameters = {{name = "a", values = {1}}}, evaluate = function() return {} end})
 raises("not a table", "expects one table", cp.sweep, 3)
 -- A full disk (Linux's /dev/full refuses every write with ENOSPC) fails the sweep.

@@ -1,7 +1,7 @@
 /*
  * Cancellation of long core computations (cp_collisions_hold_cancellable,
  * cp_raman_scan_cancellable, cp_feshbach_max_efficiency_cancellable,
- * cp_lattice_band_energies_bounded): with a NULL or clear flag the result is the plain
+ * cp_lattice_band_energies_bounded, cp_lattice_wannier_bounded): with a NULL or clear flag the result is the plain
  * function's, bit for bit (the second method here is the plain function itself); with the
  * flag set before the call the status is CP_ECANCELED, the outputs are NaN and the message
  * says "interrupted"; a flag raised by another thread 100 ms into a computation that would
@@ -95,6 +95,13 @@ static void test_clear_flag_changes_nothing(void **state)
                                                             NULL), CP_OK);
     assert_memory_equal(&pa, &pb, sizeof pa);
     assert_memory_equal(&sa, &sb, sizeof sa);
+
+    double xa[P], wa[P], xb[P], wb[P];
+    assert_int_equal(cp_lattice_wannier(20.0, 1, 2.0, P, xa, wa, NULL), CP_OK);
+    assert_int_equal(cp_lattice_wannier_bounded(20.0, 1, 2.0, P, xb, wb, &clear,
+                                                CP_WORK_LIMIT_S, NULL), CP_OK);
+    assert_memory_equal(xa, xb, sizeof xa);
+    assert_memory_equal(wa, wb, sizeof wa);
 }
 
 static void test_set_flag_cancels(void **state)
@@ -125,6 +132,12 @@ static void test_set_flag_cancels(void **state)
                                                             &err), CP_ECANCELED);
     assert_non_null(strstr(err.message, "feshbach.max_efficiency: interrupted"));
     assert_true(isnan(pm) && isnan(se));
+    double x[P], w[P];
+    assert_int_equal(cp_lattice_wannier_bounded(20.0, 0, 2.0, P, x, w, &set, INFINITY, &err),
+                     CP_ECANCELED);
+    assert_non_null(strstr(err.message, "lattice.wannier: interrupted"));
+    for (int i = 0; i < P; i++)
+        assert_true(isnan(x[i]) && isnan(w[i]));
     assert_string_equal(cp_strerror(CP_ECANCELED), "cancelled");
 }
 
@@ -190,20 +203,31 @@ static cp_status long_sampling(cp_cancel_flag *flag)
     return cp_feshbach_max_efficiency_cancellable(&a, &b, 1e-6, &o, &p, &se, flag, NULL);
 }
 
+/* The deepest lattice's Wannier function at the most points: about a second. */
+static cp_status long_wannier(cp_cancel_flag *flag)
+{
+    enum { N = 100000 };
+    static double x[N], w[N];
+    return cp_lattice_wannier_bounded(1e4, 0, 3.0, N, x, w, flag, INFINITY, NULL);
+}
+
 static void test_flag_stops_running_computations(void **state)
 {
     (void)state;
     double dh = stop_delay(long_bands), ds = stop_delay(long_scan), dm = stop_delay(long_sampling);
-    print_message("stopped after the flag: bands %.1f ms, line shape %.1f ms, sampling %.1f ms\n",
-                  1e3 * dh, 1e3 * ds, 1e3 * dm);
+    double dw = stop_delay(long_wannier);
+    print_message("stopped after the flag: bands %.1f ms, line shape %.1f ms, sampling %.1f ms, "
+                  "Wannier function %.1f ms\n", 1e3 * dh, 1e3 * ds, 1e3 * dm, 1e3 * dw);
     assert_true(dh < 0.1);
     assert_true(ds < 0.1);
     assert_true(dm < 0.1);
+    assert_true(dw < 0.1);
 }
 
 /* Refused before starting: a million-point line shape of 3 us pulses (about 90 s: the
  * message names the estimate and the points that fit), 5000 quasimomenta x 200 bands in a
- * 4001-state basis (three minutes), ten million samples (2.3 s); each returns within a
+ * 4001-state basis (three minutes), ten million samples (2.3 s), 1e5 points of a Wannier
+ * function at 1e4 E_r (1.4 s), and a work limit of 0; each returns within a
  * fraction of a second with NaN outputs.  Within the limit: the plain functions' bits. */
 static void test_work_estimates(void **state)
 {
@@ -234,9 +258,18 @@ static void test_work_estimates(void **state)
                                                         CP_WORK_LIMIT_S, &err), CP_ETOOLONG);
     assert_non_null(strstr(err.message, "10000000 samples"));
     assert_true(isnan(pm) && isnan(se));
+    /* 1e5 points of the Wannier function at 1e4 E_r (141-state basis): about 1.4 s */
+    static double wx[100000], ww[100000];
+    assert_int_equal(cp_lattice_wannier_bounded(1e4, 0, 3.0, 100000, wx, ww, NULL,
+                                                CP_WORK_LIMIT_S, &err), CP_ETOOLONG);
+    assert_non_null(strstr(err.message, "lattice.wannier: estimated work"));
+    assert_non_null(strstr(err.message, "100000 points in a 141-state basis"));
+    assert_true(isnan(wx[0]) && isnan(ww[99999]));
+    assert_int_equal(cp_lattice_wannier_bounded(1e4, 0, 3.0, 100, wx, ww, NULL, 0.0, &err),
+                     CP_EINVAL);
     double used = now() - t0;
-    print_message("three refusals in %.1f ms\n", 1e3 * used);
-    assert_true(used < 0.5); /* against 90 s + 3 min + 2.3 s if they ran */
+    print_message("four refusals in %.1f ms\n", 1e3 * used);
+    assert_true(used < 0.5); /* against 90 s + 3 min + 2.3 s + 1.4 s if they ran */
     assert_string_equal(cp_strerror(CP_ETOOLONG), "estimated work too long");
 
     /* within the limit: the same bits as the plain functions (first, middle and last
