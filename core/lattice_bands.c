@@ -197,9 +197,8 @@ cp_status cp_lattice_band_energies_bounded(double depth_er, int bands, int basis
                        CTX_BANDS);
     for (size_t i = 0; i < nq && st == CP_OK; i++)
         st = cp_check_finite(err, CTX_BANDS, "quasimomentum", quasimomenta[i], "k");
-    if (st == CP_OK && !(max_seconds > 0.0))
-        st = cp_fail(err, CP_EINVAL, "%s: work limit %g s is not positive; allowed (0, inf] s",
-                     CTX_BANDS, max_seconds);
+    if (st == CP_OK)
+        st = cp_check_work_limit(err, CTX_BANDS, max_seconds);
     if (st == CP_OK)
         st = prepare(CTX_BANDS, depth_er, bands, basis_size, &size, err);
     if (st == CP_OK) {

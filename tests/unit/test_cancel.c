@@ -239,6 +239,24 @@ static void test_work_estimates(void **state)
     assert_true(used < 0.5); /* against 90 s + 3 min + 2.3 s if they ran */
     assert_string_equal(cp_strerror(CP_ETOOLONG), "estimated work too long");
 
+    /* a work limit must be > 0 (+inf: none): refused in the house wording (DEVELOPERS.md),
+     * outputs NaN */
+    assert_int_equal(cp_raman_scan_bounded(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, 3, 1, eff, NULL, NULL,
+                                           0.0, &err), CP_EINVAL);
+    assert_string_equal(err.message, "raman scan: work limit 0 s is out of range; allowed "
+                                     "(0, inf] s");
+    assert_true(isnan(eff[0]));
+    assert_int_equal(cp_lattice_band_energies_bounded(8.0, 3, 0, 5, q, e, NULL, NULL, NAN, &err),
+                     CP_EINVAL);
+    assert_string_equal(err.message, "lattice band energies: work limit NaN s is not a number; "
+                                     "allowed (0, inf] s");
+    assert_true(isnan(e[0]));
+    assert_int_equal(cp_feshbach_max_efficiency_bounded(&fa, &fb, 1e-6, &o, &pm, &se, NULL,
+                                                        -1.0, &err), CP_EINVAL);
+    assert_string_equal(err.message, "feshbach.max_efficiency: work limit -1 s is out of range; "
+                                     "allowed (0, inf] s");
+    assert_true(isnan(pm) && isnan(se));
+
     /* within the limit: the same bits as the plain functions (first, middle and last
      * points computed ahead of the others) */
     double ea[P], eb[P], la[P], lb[P];
