@@ -1,7 +1,8 @@
 /*
  * The plot module (coldprep_plot.so, loaded on first use by require "coldprep.render",
- * module.c, so that a start does not open PLplot): coldprep.plot.render, figures drawn with PLplot's Cairo drivers to PNG
- * (pngcairo), SVG (svgcairo) or PDF (pdfcairo), chosen by the file extension.  A figure
+ * module.c, so that a start does not open PLplot): coldprep.plot.render, figures drawn with
+ * PLplot's Cairo drivers to PNG (pngcairo), SVG (svgcairo) or PDF (pdfcairo), chosen by the
+ * file extension.  A figure
  * is a column of panels; a panel holds curves, bars over named categories, or a colour
  * map over a grid, plus optional horizontal reference lines.  The ready-made figures
  * (sweep curve, map, budget waterfall, Raman trace, band structure) are built on it in
