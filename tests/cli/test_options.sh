@@ -18,6 +18,11 @@ status OPT-1a 2
 err_has OPT-1b "coldprep: unknown option --bogus; allowed -e CODE, -i,"
 err_has OPT-1c "--allow-write PATH"
 no_traceback OPT-1d
+# the commands it lists are those of `coldprep --help` (the second source of the list)
+commands=$("$coldprep" --help | sed -n '/^commands:/,/^$/p' | awk 'NR > 1 && /^  [a-z]/ {print $1}' | paste -sd, | sed 's/,/, /g')
+checks=$((checks + 1))
+[ -n "$commands" ] || fail OPT-1e "coldprep --help lists no commands"
+err_has OPT-1f "or a command ($commands)"
 
 # OPT-2: coldprep sweep: an unknown option, and values out of range, name what is allowed.
 run "$coldprep" sweep s.lua --bogus </dev/null
