@@ -12,10 +12,7 @@ local common = require "coldprep.stage.common"
 
 local M = {}
 
-local function shown(v)
-  if type(v) ~= "number" then return tostring(v) end
-  return v ~= v and "NaN" or string.format("%g", v)
-end
+local shown = A.shown
 
 -- t[key] as a number of `unit` in [lo, hi] (hi default inf); opt.nan: NaN allowed (a
 -- value the report shows as "-"), opt.optional: nil allowed.
