@@ -24,7 +24,7 @@
 #include "lattice_int.h"
 
 static const char *const CTX_BASIS = "lattice basis size";
-static const char *const CTX_BANDS = "lattice band energies";
+static const char *const CTX_BANDS = "lattice.bands"; /* the Lua name (DEVELOPERS.md) */
 static const char *const CTX_SUMMARY = "lattice band summary";
 static const char *const CTX_TUNNEL = "lattice tunnelling";
 

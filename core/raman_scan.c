@@ -14,7 +14,7 @@
 #include "check_int.h"
 #include "coldprep/raman.h"
 
-#define CTX "raman scan"
+#define CTX "raman.lineshape" /* the Lua name (DEVELOPERS.md) */
 
 /* CPU seconds per accepted step of the explicit (dopri5) and implicit (msbdf) propagators
  * and per point besides, measured for 3-level transfers (docs/api/raman.md) */
