@@ -111,8 +111,8 @@ static cp_status estimate(job *proto, size_t done[3], double *seconds)
 
 /* A failed scan: every output NaN (the points done before the failure too), the job's
  * error copied to the caller's; returns st. */
-static cp_status fail(cp_status st, const cp_error *job_err, double *efficiency, double *lost,
-                      size_t n, cp_error *err)
+static cp_status fail_scan(cp_status st, const cp_error *job_err, double *efficiency,
+                           double *lost, size_t n, cp_error *err)
 {
     cp_poison(efficiency, (int)n);
     if (lost)
@@ -133,8 +133,8 @@ cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable
         return cp_fail(err, CP_EINVAL, CTX ": parameters, values and efficiency must not be "
                                             "NULL");
     if (n < 1 || n > 100000000)
-        return cp_fail(err, CP_EINVAL, CTX ": points %zu is out of range; allowed 1 to "
-                       "100000000", n);
+        return cp_fail(err, CP_EINVAL, CTX ": points %zu is out of range; allowed [1, "
+                       "100000000]", n);
     cp_poison(efficiency, (int)n);
     if (lost)
         cp_poison(lost, (int)n);
@@ -161,7 +161,7 @@ cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable
             st = cp_check_work(&proto.err, CTX, seconds, max_seconds, what, reduce);
         }
         if (st != CP_OK)
-            return fail(st, &proto.err, efficiency, lost, n, err);
+            return fail_scan(st, &proto.err, efficiency, lost, n, err);
         skip = done;
     }
 
@@ -188,5 +188,5 @@ cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable
             first_err = &jobs[k].err;
         }
     }
-    return st == CP_OK ? CP_OK : fail(st, first_err, efficiency, lost, n, err);
+    return st == CP_OK ? CP_OK : fail_scan(st, first_err, efficiency, lost, n, err);
 }
