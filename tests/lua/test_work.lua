@@ -25,7 +25,8 @@ for _, f in ipairs { "raman.lineshape: estimated work", "s of CPU (1000000 point
   "allowed up to 1 s", "scan at most", "allow_long = true", "Ctrl-C stops it" } do
   T.check(msg:find(f, 1, true) ~= nil, "lineshape refusal says '" .. f .. "': " .. msg)
 end
--- the number of points it names fits: that scan runs
+-- the number of points it names lies between a thousand and the million asked for (a scan
+-- of that many points would take about the limit: 1 s / 0.09 ms each)
 local fits = tonumber(msg:match("scan at most (%d+) points"))
 T.check(fits and fits > 1000 and fits < 1000000, "a point count that fits: " .. tostring(fits))
 shape.points = 41
