@@ -25,6 +25,9 @@
 #include "args.h"
 #include "help.h"
 
+/* The module's entry, found by name with dlsym (module.c, on the first use of cp.plot):
+ * pushes the table {render = ...} with its help registered.  Declared here because no
+ * header is shared with the loader, which knows the function by its name only. */
 int luaopen_coldprep_plot(lua_State *L);
 
 enum { MAX_PANELS = 6, MAX_LINES = 16, MAX_CATEGORIES = 64, MAX_HLINES = 8, COLOURS = 10 };
