@@ -92,6 +92,16 @@ cp_status cp_check_work(cp_error *err, const char *ctx, double seconds, double l
                    reduce);
 }
 
+cp_status cp_check_work_limit(cp_error *err, const char *ctx, double max_seconds)
+{
+    if (max_seconds > 0.0)
+        return CP_OK;
+    char vals[32];
+    format_bound(vals, sizeof vals, max_seconds);
+    return cp_fail(err, CP_EINVAL, "%s: work limit %s s is %s; allowed (0, inf] s", ctx, vals,
+                   isnan(max_seconds) ? "not a number" : "out of range");
+}
+
 void cp_poison(double *out, int n)
 {
     for (int i = 0; i < n; i++)

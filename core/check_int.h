@@ -47,6 +47,10 @@ cp_status cp_check_int_range(cp_error *err, const char *context, const char *nam
 cp_status cp_check_work(cp_error *err, const char *ctx, double seconds, double limit,
                         const char *what, const char *reduce);
 
+/* A work limit `max_seconds` of a bounded function: > 0, +inf for none; otherwise
+ * "<ctx>: work limit <value> s is out of range; allowed (0, inf] s" (CP_EINVAL). */
+cp_status cp_check_work_limit(cp_error *err, const char *ctx, double max_seconds);
+
 /* Set *n doubles at out to NaN (poisoning out-parameters before an error return). */
 void cp_poison(double *out, int n);
 

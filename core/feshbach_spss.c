@@ -176,9 +176,7 @@ cp_status cp_feshbach_max_efficiency_bounded(const cp_feshbach_cloud *a, const c
         return cp_fail(err, CP_EINVAL, "%s: options are NULL", ctx);
     CP_TRY(cp_check_range(err, ctx, "gamma", opts->gamma, "", 0.0, 100.0, CP_LO_OPEN));
     CP_TRY(cp_check_int_range(err, ctx, "samples", opts->samples, 100, 10000000));
-    if (!(max_seconds > 0.0))
-        return cp_fail(err, CP_EINVAL, "%s: work limit %g s is not positive; allowed (0, inf] s",
-                       ctx, max_seconds);
+    CP_TRY(cp_check_work_limit(err, ctx, max_seconds));
     char what[64], reduce[64];
     snprintf(what, sizeof what, "%ld samples", opts->samples);
     snprintf(reduce, sizeof reduce, "ask for at most %.0f samples",

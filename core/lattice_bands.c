@@ -26,7 +26,7 @@
 #include "lattice_int.h"
 
 static const char *const CTX_BASIS = "lattice basis size";
-static const char *const CTX_BANDS = "lattice band energies";
+static const char *const CTX_BANDS = "lattice.bands"; /* the Lua name (DEVELOPERS.md) */
 static const char *const CTX_SUMMARY = "lattice band summary";
 static const char *const CTX_TUNNEL = "lattice tunnelling";
 
@@ -223,9 +223,8 @@ cp_status cp_lattice_band_energies_bounded(double depth_er, int bands, int basis
                        CTX_BANDS);
     for (size_t i = 0; i < nq && st == CP_OK; i++)
         st = cp_check_finite(err, CTX_BANDS, "quasimomentum", quasimomenta[i], "k");
-    if (st == CP_OK && !(max_seconds > 0.0))
-        st = cp_fail(err, CP_EINVAL, "%s: work limit %g s is not positive; allowed (0, inf] s",
-                     CTX_BANDS, max_seconds);
+    if (st == CP_OK)
+        st = cp_check_work_limit(err, CTX_BANDS, max_seconds);
     if (st == CP_OK)
         st = prepare(CTX_BANDS, depth_er, bands, basis_size, &size, err);
     if (st == CP_OK) {

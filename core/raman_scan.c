@@ -14,7 +14,7 @@
 #include "check_int.h"
 #include "coldprep/raman.h"
 
-#define CTX "raman scan"
+#define CTX "raman.lineshape" /* the Lua name (DEVELOPERS.md) */
 
 /* CPU seconds per accepted step of the explicit (dopri5) and implicit (msbdf) propagators
  * and per point besides, measured for 3-level transfers (docs/api/raman.md) */
@@ -34,10 +34,26 @@ typedef struct job {
     cp_error err;
 } job;
 
+/* Point i of the scan computed into the outputs; its result (for the step count) in *r. */
+static cp_status transfer_point(job *jb, size_t i, cp_raman_result *r)
+{
+    cp_raman_params p = *jb->base;
+    if (jb->variable == CP_RAMAN_SCAN_TWO_PHOTON)
+        p.two_photon_detuning = jb->values[i];
+    else
+        p.detuning = jb->values[i];
+    cp_status st = cp_raman_transfer(&p, 0, r, NULL, &jb->err);
+    if (st != CP_OK)
+        return st;
+    jb->efficiency[i] = r->efficiency;
+    if (jb->lost)
+        jb->lost[i] = r->lost;
+    return CP_OK;
+}
+
 static void *run_job(void *arg)
 {
     job *jb = arg;
-    cp_raman_params p = *jb->base;
     jb->status = CP_OK;
     for (size_t i = jb->first; i < jb->n; i += jb->stride) {
         if (jb->done && (i == jb->done[0] || i == jb->done[1] || i == jb->done[2]))
@@ -47,19 +63,10 @@ static void *run_job(void *arg)
                                  "points", i, jb->n);
             break;
         }
-        if (jb->variable == CP_RAMAN_SCAN_TWO_PHOTON)
-            p.two_photon_detuning = jb->values[i];
-        else
-            p.detuning = jb->values[i];
         cp_raman_result r;
-        cp_status st = cp_raman_transfer(&p, 0, &r, NULL, &jb->err);
-        if (st != CP_OK) {
-            jb->status = st;
+        jb->status = transfer_point(jb, i, &r);
+        if (jb->status != CP_OK)
             break;
-        }
-        jb->efficiency[i] = r.efficiency;
-        if (jb->lost)
-            jb->lost[i] = r.lost;
     }
     return NULL;
 }
@@ -92,24 +99,27 @@ static cp_status estimate(job *proto, size_t done[3], double *seconds)
         done[k] = (k > 0 && (pick[k] == pick[0] || pick[k] == pick[k - 1])) ? n : pick[k];
         if (done[k] == n)
             continue;
-        cp_raman_params p = *proto->base;
-        if (proto->variable == CP_RAMAN_SCAN_TWO_PHOTON)
-            p.two_photon_detuning = proto->values[done[k]];
-        else
-            p.detuning = proto->values[done[k]];
         cp_raman_result r;
-        cp_status st = cp_raman_transfer(&p, 0, &r, NULL, &proto->err);
-        if (st != CP_OK)
-            return st;
-        proto->efficiency[done[k]] = r.efficiency;
-        if (proto->lost)
-            proto->lost[done[k]] = r.lost;
+        CP_TRY(transfer_point(proto, done[k], &r));
         double per_step = strcmp(r.integrator, "msbdf") == 0 ? COST_STEP_IMPLICIT
                                                              : COST_STEP_EXPLICIT;
         worst = fmax(worst, COST_POINT + (double)r.steps * per_step);
     }
     *seconds = worst * (double)n;
     return CP_OK;
+}
+
+/* A failed scan: every output NaN (the points done before the failure too), the job's
+ * error copied to the caller's; returns st. */
+static cp_status fail_scan(cp_status st, const cp_error *job_err, double *efficiency,
+                           double *lost, size_t n, cp_error *err)
+{
+    cp_poison(efficiency, (int)n);
+    if (lost)
+        cp_poison(lost, (int)n);
+    if (err)
+        *err = *job_err;
+    return st;
 }
 
 cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable variable,
@@ -123,8 +133,8 @@ cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable
         return cp_fail(err, CP_EINVAL, CTX ": parameters, values and efficiency must not be "
                                             "NULL");
     if (n < 1 || n > 100000000)
-        return cp_fail(err, CP_EINVAL, CTX ": points %zu is out of range; allowed 1 to "
-                       "100000000", n);
+        return cp_fail(err, CP_EINVAL, CTX ": points %zu is out of range; allowed [1, "
+                       "100000000]", n);
     cp_poison(efficiency, (int)n);
     if (lost)
         cp_poison(lost, (int)n);
@@ -132,9 +142,7 @@ cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable
         return cp_fail(err, CP_EINVAL, CTX ": scan variable %d is unknown; allowed 0 (delta) "
                        "or 1 (Delta)", (int)variable);
     CP_TRY(cp_check_int_range(err, CTX, "threads", nthreads, 1, MAX_THREADS));
-    if (!(max_seconds > 0.0))
-        return cp_fail(err, CP_EINVAL, CTX ": work limit %g s is not positive; allowed (0, inf] "
-                       "s", max_seconds);
+    CP_TRY(cp_check_work_limit(err, CTX, max_seconds));
     if ((size_t)nthreads > n)
         nthreads = (int)n;
 
@@ -152,14 +160,8 @@ cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable
                      floor(max_seconds / per_point));
             st = cp_check_work(&proto.err, CTX, seconds, max_seconds, what, reduce);
         }
-        if (st != CP_OK) {
-            cp_poison(efficiency, (int)n);
-            if (lost)
-                cp_poison(lost, (int)n);
-            if (err)
-                *err = proto.err;
-            return st;
-        }
+        if (st != CP_OK)
+            return fail_scan(st, &proto.err, efficiency, lost, n, err);
         skip = done;
     }
 
@@ -186,12 +188,5 @@ cp_status cp_raman_scan_bounded(const cp_raman_params *p, cp_raman_scan_variable
             first_err = &jobs[k].err;
         }
     }
-    if (st != CP_OK) {
-        cp_poison(efficiency, (int)n);
-        if (lost)
-            cp_poison(lost, (int)n);
-        if (err)
-            *err = *first_err;
-    }
-    return st;
+    return st == CP_OK ? CP_OK : fail_scan(st, first_err, efficiency, lost, n, err);
 }

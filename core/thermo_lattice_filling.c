@@ -386,9 +386,7 @@ cp_status cp_thermo_lattice_filling_bounded(const cp_thermo_lattice *lat,
     CP_TRY(cp_check_range(err, ctx, "recoil_energy", lat->recoil_energy, "J", 0.0, 1e-25,
                           CP_LO_OPEN));
     CP_TRY(cp_check_range(err, ctx, "spacing", lat->spacing, "m", 0.0, 1e-4, CP_LO_OPEN));
-    if (!(max_seconds > 0.0))
-        return cp_fail(err, CP_EINVAL, "%s: work limit %g s is not positive; allowed (0, inf] s",
-                       ctx, max_seconds);
+    CP_TRY(cp_check_work_limit(err, ctx, max_seconds));
     double wbar = cbrt(lat->omega_envelope[0] * lat->omega_envelope[1] * lat->omega_envelope[2]);
     double kt = CP_KB * temperature, d = lat->spacing;
     filling_ctx c = {NULL, NULL, NULL, NULL, NULL, NULL, 0, stat, kt,

@@ -336,8 +336,12 @@ double cpl_species_polarizability(lua_State *L, int idx, double wavelength, cons
     }
     double alpha;
     cp_error err;
-    if (cp_species_polarizability(lua_tostring(L, idx), wavelength, &alpha, &err) != CP_OK)
+    if (cp_species_polarizability(lua_tostring(L, idx), wavelength, &alpha, &err) != CP_OK) {
+        size_t k = strlen(fname); /* the core's context is species.polarizability */
+        if (strncmp(err.message, fname, k) == 0 && err.message[k] == ':')
+            cpl_raise(L, &err);
         cpl_error(L, fname, "%s", err.message);
+    }
     return alpha;
 }
 
@@ -419,19 +423,17 @@ static int l_sources(lua_State *L)
     return 1;
 }
 
+/* species.builtin_polarizability(name, wavelength): cpl_species_polarizability, what
+ * cp.species.polarizability returns (its errors name species.polarizability). */
 static int l_polarizability(lua_State *L)
 {
     static const char fname[] = "species.builtin_polarizability";
-    const char *name = name_arg(L, 1, fname);
+    name_arg(L, 1, fname);
     if (lua_type(L, 2) != LUA_TNUMBER)
         return cpl_error(L, fname, "argument 2 'wavelength' must be a number (m), got %s",
                          luaL_typename(L, 2));
-    double wavelength = lua_tonumber(L, 2);
-    double alpha;
-    cp_error err;
-    if (cp_species_polarizability(name, wavelength, &alpha, &err) != CP_OK)
-        return cpl_raise(L, &err);
-    lua_pushnumber(L, alpha);
+    lua_pushnumber(L, cpl_species_polarizability(L, 1, lua_tonumber(L, 2),
+                                                 "species.polarizability"));
     return 1;
 }
 
@@ -450,8 +452,8 @@ static const cpl_function functions[] = {
     {"builtin_sources", l_sources,
      "species.builtin_sources(): every built-in value with its publication, status and check."},
     {"builtin_polarizability", l_polarizability,
-     "species.builtin_polarizability(name, wavelength): built-in polarizability (a.u.) at 1064 "
-     "or 1550 nm."},
+     "species.builtin_polarizability(name, wavelength): polarizability (a.u.) at 1064 or "
+     "1550 nm, a user-added species' own value first, else the built-in one."},
     {"builtin_suggest", l_suggest,
      "species.builtin_suggest(name): the built-in names closest to `name`, comma-separated."},
     {NULL, NULL, NULL}};

@@ -1,11 +1,11 @@
 /*
  * luaopen_coldprep: assembles the `coldprep` Lua module.  It opens every C binding
  * (lua/bind/bind_NAME.c, listed at build time in bindings_list.h) into a field NAME of the
- * module table (and the array type cp.reals, reals.h), makes the embedded Lua-side library requirable ("coldprep.plan", ...; a
- * loader already in package.preload is kept, so a developer or a test can run modules from
- * their source files),
- * publishes the table as package.loaded.coldprep so those modules can require it while
- * it is being built, then runs "coldprep.library", which completes the table.
+ * module table (and the array type cp.reals, reals.h), makes the embedded Lua-side library
+ * requirable ("coldprep.plan", ...; a loader already in package.preload is kept, so a
+ * developer or a test can run modules from their source files), publishes the table as
+ * package.loaded.coldprep so those modules can require it while it is being built, then
+ * runs "coldprep.library", which completes the table.
  */
 #include <math.h>
 

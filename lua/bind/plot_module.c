@@ -1,7 +1,8 @@
 /*
  * The plot module (coldprep_plot.so, loaded on first use by require "coldprep.render",
- * module.c, so that a start does not open PLplot): coldprep.plot.render, figures drawn with PLplot's Cairo drivers to PNG
- * (pngcairo), SVG (svgcairo) or PDF (pdfcairo), chosen by the file extension.  A figure
+ * module.c, so that a start does not open PLplot): coldprep.plot.render, figures drawn with
+ * PLplot's Cairo drivers to PNG (pngcairo), SVG (svgcairo) or PDF (pdfcairo), chosen by the
+ * file extension.  A figure
  * is a column of panels; a panel holds curves, bars over named categories, or a colour
  * map over a grid, plus optional horizontal reference lines.  The ready-made figures
  * (sweep curve, map, budget waterfall, Raman trace, band structure) are built on it in
@@ -24,6 +25,9 @@
 #include "args.h"
 #include "help.h"
 
+/* The module's entry, found by name with dlsym (module.c, on the first use of cp.plot):
+ * pushes the table {render = ...} with its help registered.  Declared here because no
+ * header is shared with the loader, which knows the function by its name only. */
 int luaopen_coldprep_plot(lua_State *L);
 
 enum { MAX_PANELS = 6, MAX_LINES = 16, MAX_CATEGORIES = 64, MAX_HLINES = 8, COLOURS = 10 };

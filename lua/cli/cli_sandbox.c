@@ -150,8 +150,11 @@ int cpl_sandbox_option(int argc, char **argv, int *i, cpl_sandbox *sb, char *err
         int memory = a[6] == 'm';
         double hi = memory ? 1048576.0 : 1e6;
         if (*i + 1 >= argc || end == argv[*i + 1] || *end != '\0' || !(v > 0 && v <= hi)) {
-            snprintf(err, errlen, "%s needs a number above 0 and at most %g (%s), got %s", a, hi,
-                     memory ? "MiB" : "s", *i + 1 < argc ? argv[*i + 1] : "nothing");
+            const char *unit = memory ? "MiB" : "s";
+            int number = *i + 1 < argc && end != argv[*i + 1] && *end == '\0' && v == v;
+            snprintf(err, errlen, "%s %s %s is %s; allowed (0, %.10g] %s", a,
+                     *i + 1 < argc ? argv[*i + 1] : "(nothing)", unit,
+                     number ? "out of range" : "not a number", hi, unit);
             return -1;
         }
         if (memory)

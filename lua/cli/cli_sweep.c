@@ -185,12 +185,16 @@ static int parse_options(int argc, char **argv, sweep_options *o)
             fputs(SWEEP_USAGE, stdout);
             return -1;
         } else if (strcmp(a, "--jobs") == 0 || strcmp(a, "-j") == 0) {
-            char *end;
+            char *end, msg[320];
             if (++i >= argc)
                 return usage("--jobs needs a number", NULL);
             o->jobs = strtol(argv[i], &end, 10);
-            if (*end != '\0' || end == argv[i] || o->jobs < 1 || o->jobs > MAX_JOBS)
-                return usage("--jobs must be a whole number from 1 to 1024, got", argv[i]);
+            int whole = *end == '\0' && end != argv[i];
+            if (!whole || o->jobs < 1 || o->jobs > MAX_JOBS) {
+                snprintf(msg, sizeof msg, "--jobs %.256s is %s; allowed [1, %d]", argv[i],
+                         whole ? "out of range" : "not a whole number", MAX_JOBS);
+                return usage(msg, NULL);
+            }
         } else if (strcmp(a, "--out") == 0 || strcmp(a, "-o") == 0) {
             if (++i >= argc)
                 return usage("--out needs a path", NULL);
@@ -201,8 +205,12 @@ static int parse_options(int argc, char **argv, sweep_options *o)
             o->force = 1;
         } else if (strcmp(a, "--shard") == 0) {
             if (++i >= argc || parse_shard(argv[i], &o->shard, &o->shards) != 1)
-                return usage("--shard needs K/N with 1 <= K <= N, got",
-                             i < argc ? argv[i] : "nothing");
+            {
+                char msg[320];
+                snprintf(msg, sizeof msg, "--shard %.256s is not a slice; allowed K/N with "
+                         "1 <= K <= N", i < argc ? argv[i] : "(nothing)");
+                return usage(msg, NULL);
+            }
         } else if (a[0] == '-' && a[1] != '\0') {
             char msg[512];
             snprintf(msg, sizeof msg, "unknown option %s; allowed --jobs N (-j), --out PATH (-o), "

@@ -201,9 +201,15 @@ int main(int argc, char **argv)
             break;
         } else if (a[0] == '-' && a[1] != '\0') {
             char msg[512];
-            snprintf(msg, sizeof msg, "unknown option %s; allowed -e CODE, -i, -h (--help), -v "
-                     "(--version), --sandbox, --max-memory MIB, --max-time S, --allow-write PATH, "
-                     "-- (then FILE), or a subcommand (help, data, sweep, merge)", a);
+            int n = snprintf(msg, sizeof msg, "unknown option %s; allowed -e CODE, -i, -h "
+                             "(--help), -v (--version), --sandbox, --max-memory MIB, --max-time "
+                             "S, --allow-write PATH, -- (then FILE), or a command (", a);
+            for (const cpl_command *c = COMMANDS; c->name && n > 0 && (size_t)n < sizeof msg;
+                 c++)
+                n += snprintf(msg + n, sizeof msg - (size_t)n, "%s%s", c == COMMANDS ? "" : ", ",
+                              c->name);
+            if (n > 0 && (size_t)n < sizeof msg)
+                snprintf(msg + n, sizeof msg - (size_t)n, ")");
             return usage_error(msg, NULL);
         } else {
             script = i;

@@ -1,10 +1,10 @@
 /*
  * The interactive session, built with repl_complete.c and repl_history.c into the module
  * coldprep_repl.so, which main.c opens when a session starts, so that other runs of the
- * program never open readline (its functions call back into the program).  An entry is first compiled as an expression ("return " ..
- * entry) and, if that fails, as a statement; when either reading fails only because the
- * input ended too early, the entry is incomplete and the next line continues it under the
- * secondary prompt.
+ * program never open readline (its functions call back into the program).  An entry is
+ * first compiled as an expression ("return " .. entry) and, if that fails, as a statement;
+ * when either reading fails only because the input ended too early, the entry is
+ * incomplete and the next line continues it under the secondary prompt.
  * The values an entry returns are shown through coldprep.pretty (strings as they are),
  * separated by tabs, or by newlines when one of them takes several lines.
  *

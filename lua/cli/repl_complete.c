@@ -3,8 +3,9 @@
  * ':' into a path and a prefix: the path (`cp.species`) is resolved from the globals one
  * field at a time, reading raw fields and following __index tables, so completing runs no
  * Lua code except the __load of a library module loaded on first use (cp.plot, ...: see
- * lua/coldprep/library.lua), which requires it; the candidates are the identifier keys of the value (and of its __index
- * tables) that start with the prefix — only functions after ':'.  A word without a path
+ * lua/coldprep/library.lua), which requires it; the candidates are the identifier keys of
+ * the value (and of its __index tables) that start with the prefix — only functions after
+ * ':'.  A word without a path
  * completes global names and keywords.  Inside a string readline completes file names.
  * The listing shown on a double Tab gives the field names without the repeated path.
  */

@@ -125,6 +125,13 @@ function M.is_finite(x)
 end
 local is_finite = M.is_finite
 
+-- A value as the messages show it: a number in %g with NaN spelled "NaN" on every platform
+-- (Lua's own may print "-nan"), anything else through tostring.
+function M.shown(v)
+  if type(v) ~= "number" then return tostring(v) end
+  return v ~= v and "NaN" or string.format("%g", v)
+end
+
 -- An integer under key in [lo, hi] (dflt when absent).
 function M.integer(fname, t, key, dflt, lo, hi)
   local v = t[key]

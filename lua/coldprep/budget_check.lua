@@ -12,10 +12,7 @@ local common = require "coldprep.stage.common"
 
 local M = {}
 
-local function shown(v)
-  if type(v) ~= "number" then return tostring(v) end
-  return v ~= v and "NaN" or string.format("%g", v)
-end
+local shown = A.shown
 
 -- t[key] as a number of `unit` in [lo, hi] (hi default inf); opt.nan: NaN allowed (a
 -- value the report shows as "-"), opt.optional: nil allowed.
@@ -112,20 +109,21 @@ local function sample(where, s)
 end
 
 
+-- The run's plan, run.plan; `where` is the function's name.
 local function plan(where, p)
   tbl(where, p, "field 'plan'")
-  str(where, p, "name")
+  str(where .. ": plan", p, "name")
   tbl(where, p.start, "field 'plan.start'")
   tbl(where, p.start.atoms, "field 'plan.start.atoms'")
   for i = 1, 2 do
-    local w = string.format("%s.start.atoms[%d]", where, i)
+    local w = string.format("%s: plan.start.atoms[%d]", where, i)
     local c = tbl(w, p.start.atoms[i], "the atom cloud")
     str(w, c, "name")
     num(w, c, "beam_power", "W", 1e-300, nil, { optional = true })
   end
   tbl(where, p.stages, "field 'plan.stages'")
   for i = 1, #p.stages do
-    local w = string.format("%s.stages[%d]", where, i)
+    local w = string.format("%s: plan.stages[%d]", where, i)
     local st = tbl(w, p.stages[i], "the stage")
     str(w, st, "name")
     if st.equipment ~= nil then
@@ -153,7 +151,7 @@ end
 -- cp.report.budget's argument: the record of one plan run.
 function M.run(fname, run)
   A.table(fname, run, { "plan", "start", "steps", "final", "verdict", "ranking", "reason", "failure" })
-  plan(fname .. ": plan", run.plan)
+  plan(fname, run.plan)
   sample(fname .. ": start", run.start)
   num(fname .. ": start", run.start, "number", "particles", 1) -- cp.plan's clouds hold >= 1 atom
   local steps = tbl(fname, run.steps, "field 'steps'")

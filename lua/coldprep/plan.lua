@@ -186,16 +186,12 @@ local function checked(self)
   end
   local fields = build(fname, { name = self.name, start = start_args(fname, self.start),
     stages = self.stages, threshold = self.threshold, perturbation = self.perturbation })
-  local function shown(v)
-    if type(v) ~= "number" then return tostring(v) end
-    return v ~= v and "NaN" or string.format("%g", v)
-  end
   for _, ku in ipairs { { "number", "atoms" }, { "temperature", "K" } } do
     local k, unit = ku[1], ku[2]
     if self.start[k] ~= fields.start[k] then
       A.fail(fname .. ": start", "%s %s %s is not the %s of its minority cloud (%s %s); in an "
         .. "atom mixture the clouds start.atoms[1] and start.atoms[2] hold the numbers and the "
-        .. "temperature: change those", k, shown(self.start[k]), unit, k, shown(fields.start[k]), unit)
+        .. "temperature: change those", k, A.shown(self.start[k]), unit, k, A.shown(fields.start[k]), unit)
     end
   end
   return fields

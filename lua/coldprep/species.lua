@@ -104,23 +104,13 @@ function impl.resonance(name, index)
 end
 
 -- The polarizability (a.u.) of a named species at a trap wavelength (m): a user-added
--- species' own value, else the built-in one; the error asks for polarizability_au where
--- there is none.
+-- species' own value, else the built-in one (the binding's lookup, the one the lattice
+-- functions use); the error asks for polarizability_au where there is none.
 function impl.polarizability(name, wavelength)
   check_name("species.polarizability", name)
   if math.type(wavelength) == nil then
     error(string.format("species.polarizability: wavelength must be a number (m), got %s",
       type(wavelength)), 0)
-  end
-  local user = user_atoms[key(name)] or user_molecules[key(name)]
-  if user then
-    local nm = wavelength / 1e-9
-    local v = math.abs(nm - 1064) <= 1 and user.pol_1064_au or math.abs(nm - 1550) <= 1
-      and user.pol_1550_au or nil
-    if v then return v end
-    error(string.format("species polarizability: no polarizability of %s at %.6g nm was given; "
-      .. "give polarizability_au (a.u.) for this species and wavelength (or pol_1064_au / "
-      .. "pol_1550_au when adding it)", user.name, nm), 0)
   end
   local ok, r = pcall(builtin.builtin_polarizability, name, wavelength)
   if ok then return r end

@@ -76,8 +76,8 @@ static double time_lua(lua_State *L, const char *expr, int reps)
     return best;
 }
 
-/* The doubles of the reals or table in global `last` (path: "efficiency" or
- * "energies_er"), compared bit for bit with want[0..n-1] (stride for energies). */
+/* The doubles of the reals or table that the Lua expression `expr` gives, compared bit for
+ * bit with want[0..n-1]; the number that differ. */
 static size_t mismatches(lua_State *L, const char *expr, const double *want, size_t n)
 {
     char code[200];
@@ -97,6 +97,34 @@ static size_t mismatches(lua_State *L, const char *expr, const double *want, siz
     return bad;
 }
 
+/* The band energies in global `last` (one row of BANDS per quasimomentum) compared bit for
+ * bit with the C results e (the same layout), band by band through col (NQ doubles). */
+static size_t band_mismatches(lua_State *L, const double *e, double *col)
+{
+    size_t bad = 0;
+    for (int b = 0; b < BANDS; b++) {
+        char expr[120];
+        for (size_t i = 0; i < NQ; i++)
+            col[i] = e[i * BANDS + (size_t)b];
+        snprintf(expr, sizeof expr,
+                 "setmetatable({}, {__index = function(_, i) return last[i][%d] end})", b + 1);
+        bad += mismatches(L, expr, col, NQ);
+    }
+    return bad;
+}
+
+/* One line of figures: the C time, the Lua times (points in a reals, in a table) and their
+ * ratios to C, whether the target (reals within 3x C, every value equal) is met. */
+static void report(const char *what, double c, double t_reals, double t_table, size_t bad)
+{
+    printf("%s: C %.2f ms; Lua with a reals %.2f ms (%.2fx, target <= 3x) [%s]; Lua with a "
+           "table %.2f ms (%.2fx); %zu values differ from C\n",
+           what, 1e3 * c, 1e3 * t_reals, t_reals / c,
+           t_reals <= 3 * c && bad == 0 ? "ok" : "NOT MET", 1e3 * t_table, t_table / c, bad);
+}
+
+/* The first n numbers of the Lua global `global` as a malloc'd C array (exits when out of
+ * memory). */
 static double *lua_doubles(lua_State *L, const char *global, size_t n)
 {
     double *v = malloc(n * sizeof *v);
@@ -145,11 +173,9 @@ int main(void)
     size_t bad = mismatches(L, "last", eff, N);
     double t_table = time_lua(L, "cp.feshbach.ramp_law(ftargs).efficiency", REPEATS);
     bad += mismatches(L, "last", eff, N);
-    printf("feshbach.ramp_law, %d ramp rates: C %.2f ms; Lua with a reals %.2f ms (%.2fx, "
-           "target <= 3x) [%s]; Lua with a table %.2f ms (%.1fx); %zu values differ from C\n",
-           N, 1e3 * c_best, 1e3 * t_reals, t_reals / c_best,
-           t_reals <= 3 * c_best && bad == 0 ? "ok" : "NOT MET", 1e3 * t_table,
-           t_table / c_best, bad);
+    char what[64];
+    snprintf(what, sizeof what, "feshbach.ramp_law, %d ramp rates", N);
+    report(what, c_best, t_reals, t_table, bad);
 
     /* ---- band energies over quasimomenta ---- */
     double *q = lua_doubles(L, "q_c", NQ), *e = malloc((size_t)NQ * BANDS * sizeof *e);
@@ -167,30 +193,11 @@ int main(void)
     double *col = malloc(NQ * sizeof *col);
     if (!col)
         return 1;
-    bad = 0;
-    for (int b = 0; b < BANDS; b++) { /* compare band b over the quasimomenta */
-        char expr[120];
-        for (size_t i = 0; i < NQ; i++)
-            col[i] = e[i * BANDS + (size_t)b];
-        snprintf(expr, sizeof expr,
-                 "setmetatable({}, {__index = function(_, i) return last[i][%d] end})", b + 1);
-        bad += mismatches(L, expr, col, NQ);
-    }
+    bad = band_mismatches(L, e, col);
     t_table = time_lua(L, "cp.lattice.bands(btargs).energies_er", BAND_REPEATS);
-    for (int b = 0; b < BANDS; b++) {
-        char expr[120];
-        for (size_t i = 0; i < NQ; i++)
-            col[i] = e[i * BANDS + (size_t)b];
-        snprintf(expr, sizeof expr,
-                 "setmetatable({}, {__index = function(_, i) return last[i][%d] end})", b + 1);
-        bad += mismatches(L, expr, col, NQ);
-    }
-    printf("lattice.bands, %d quasimomenta x %d bands: C %.0f ms; Lua with a reals %.0f ms "
-           "(%.2fx, target <= 3x) [%s]; Lua with a table %.0f ms (%.2fx); %zu values differ "
-           "from C\n",
-           NQ, BANDS, 1e3 * c_best, 1e3 * t_reals, t_reals / c_best,
-           t_reals <= 3 * c_best && bad == 0 ? "ok" : "NOT MET", 1e3 * t_table,
-           t_table / c_best, bad);
+    bad += band_mismatches(L, e, col);
+    snprintf(what, sizeof what, "lattice.bands, %d quasimomenta x %d bands", NQ, BANDS);
+    report(what, c_best, t_reals, t_table, bad);
     free(rates);
     free(eff);
     free(q);

@@ -31,15 +31,17 @@ pty() {
   [ "$rc" = 0 ] || fail "$1" "terminal session failed (see stderr)"
 }
 
-for case in "CANCEL-1 bands:$bands" "CANCEL-1 wannier:$wannier" "CANCEL-1 filling:$filling" "CANCEL-2 lineshape:$shape" "CANCEL-4 sampling:$sampling"; do
-  id=${case%% *}
-  call=${case#*:}
-  pty "$id" <<EOF
+# interrupt ID CALL MS WITHIN [AFTER]: in a terminal session, a Ctrl-C MS ms into
+# `r = CALL` prints WITHIN within 0.2 s (then AFTER, when given); the session goes on with
+# r unset.
+interrupt() {
+  pty "$1" <<EOF
 expect coldprep> 
-send r = $call\r
-sleep 700
+send r = $2\r
+sleep $3
 send \x03
-within 200 interrupted
+within 200 $4
+${5:+expect $5}
 expect coldprep> 
 send print("still " .. "here", r)\r
 expect still here	nil
@@ -47,6 +49,10 @@ expect coldprep>
 send \x04
 exit 0
 EOF
+}
+
+for case in "CANCEL-1 bands:$bands" "CANCEL-1 wannier:$wannier" "CANCEL-1 filling:$filling" "CANCEL-2 lineshape:$shape" "CANCEL-4 sampling:$sampling"; do
+  interrupt "${case%% *}" "${case#*:}" 700 interrupted
 done
 
 # CANCEL-5: optimisations.  Each evaluation burns about 1 ms in a Lua loop; the optimum
@@ -60,20 +66,7 @@ for case in "optimize:$optimize:best point so far: x = 2, y = 1 (merit" \
   rest=${case#*:}
   call=${rest%:best point*}
   best=${rest#"$call":}
-  pty "CANCEL-5 $name" <<EOF
-expect coldprep> 
-send r = $call\r
-sleep 1500
-send \x03
-within 200 interrupted; $name: stopped after
-expect $best
-expect coldprep> 
-send print("still " .. "here", r)\r
-expect still here	nil
-expect coldprep> 
-send \x04
-exit 0
-EOF
+  interrupt "CANCEL-5 $name" "$call" 1500 "interrupted; $name: stopped after" "$best"
 done
 
 # CANCEL-5 outside the simplex: a Ctrl-C while cp.optimize evaluates its starting points or

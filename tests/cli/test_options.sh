@@ -18,6 +18,11 @@ status OPT-1a 2
 err_has OPT-1b "coldprep: unknown option --bogus; allowed -e CODE, -i,"
 err_has OPT-1c "--allow-write PATH"
 no_traceback OPT-1d
+# the commands it lists are those of `coldprep --help` (the second source of the list)
+commands=$("$coldprep" --help | sed -n '/^commands:/,/^$/p' | awk 'NR > 1 && /^  [a-z]/ {print $1}' | paste -sd, | sed 's/,/, /g')
+checks=$((checks + 1))
+[ -n "$commands" ] || fail OPT-1e "coldprep --help lists no commands"
+err_has OPT-1f "or a command ($commands)"
 
 # OPT-2: coldprep sweep: an unknown option, and values out of range, name what is allowed.
 run "$coldprep" sweep s.lua --bogus </dev/null
@@ -25,13 +30,19 @@ status OPT-2a 2
 err_has OPT-2b "coldprep sweep: unknown option --bogus; allowed --jobs N (-j), --out PATH (-o), --resume,"
 run "$coldprep" sweep s.lua --jobs 0 </dev/null
 status OPT-2c 2
-err_has OPT-2d "--jobs must be a whole number from 1 to 1024, got 0"
+err_has OPT-2d "coldprep sweep: --jobs 0 is out of range; allowed [1, 1024]"
 run "$coldprep" sweep s.lua --shard 4/3 </dev/null
 status OPT-2e 2
-err_has OPT-2f "--shard needs K/N with 1 <= K <= N, got 4/3"
+err_has OPT-2f "coldprep sweep: --shard 4/3 is not a slice; allowed K/N with 1 <= K <= N"
 run "$coldprep" sweep s.lua --max-time -1 </dev/null
 status OPT-2g 2
-err_has OPT-2h "--max-time needs a number above 0 and at most 1e+06 (s), got -1"
+err_has OPT-2h "coldprep sweep: --max-time -1 s is out of range; allowed (0, 1000000] s"
+run "$coldprep" sweep s.lua --jobs two </dev/null
+status OPT-2j 2
+err_has OPT-2k "coldprep sweep: --jobs two is not a whole number; allowed [1, 1024]"
+run "$coldprep" --sandbox --max-memory lots s.lua </dev/null
+status OPT-2l 2
+err_has OPT-2m "--max-memory lots MiB is not a number; allowed (0, 1048576] MiB"
 no_traceback OPT-2i
 
 # OPT-3: coldprep merge: an option it does not have is named, not taken for the output.

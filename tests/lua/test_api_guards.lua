@@ -76,6 +76,19 @@ raises_house("report.budget of a number", "report.budget: expects one table", cp
 local r = copy(captured)
 r.start = nil
 raises_house("report.budget without a start", "report.budget: start: the sample must be a table", cp.report.budget, r)
+-- the plan's fields are named once, under the function's context (not "plan: field 'plan'")
+r = copy(captured)
+r.plan = nil
+raises_house("report.budget without a plan", "report.budget: field 'plan' must be a table, got nil",
+  cp.report.budget, r)
+r = copy(captured)
+r.plan.start.atoms[2] = 7
+raises_house("report.budget with a number for an atom cloud",
+  "report.budget: plan.start.atoms[2]: the atom cloud must be a table, got number", cp.report.budget, r)
+r = copy(captured)
+r.plan.name = 7
+raises_house("report.budget with a number for the plan's name",
+  "report.budget: plan: field 'name' must be a string, got number", cp.report.budget, r)
 r = copy(captured)
 r.steps[2].after.temperature = 0 / 0
 raises_house("report.budget with a NaN temperature", "steps[2]: after: sample field temperature NaN K is not a number",

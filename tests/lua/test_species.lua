@@ -109,7 +109,7 @@ cp.species.add_molecule { name = "40K162Dy", atoms = { "40K", "162Dy" }, dipole_
   rot_const_hz = 1e9, c6_au = 5000, pol_1064_par_au = 900, pol_1064_perp_au = 300 }
 T.near(cp.species.polarizability("40K162Dy", 1064 * cp.units.nm), 500, 1e-15, "user molecule alpha(1064)")
 T.raises(function() cp.species.polarizability("40K162Dy", 1550 * cp.units.nm) end,
-  { "no polarizability of 40K162Dy at 1550 nm", "polarizability_au" }, "user molecule without a 1550 nm value")
+  { "species.polarizability: no polarizability of 40K162Dy at 1550 nm", "polarizability_au" }, "user molecule without a 1550 nm value")
 T.raises(function() cp.species.add_molecule { name = "X2", atoms = { "40K", "162Dy" }, dipole_debye = 0.1,
   rot_const_hz = 1e9, c6_au = 5000, pol_1064_par_au = 900 } end, { "pol_1064_perp_au" }, "one component only")
 T.raises(function() cp.species.add_molecule { name = "X2", atoms = { "40K", "162Dy" }, dipole_debye = 0.1,

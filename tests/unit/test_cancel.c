@@ -121,7 +121,7 @@ static void test_set_flag_cancels(void **state)
     double d[P] = {0, 1, 2, 3, 4}, eff[P], lost[P];
     assert_int_equal(cp_raman_scan_cancellable(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, P, 2, eff, lost,
                                                &set, &err), CP_ECANCELED);
-    assert_non_null(strstr(err.message, "raman scan: interrupted"));
+    assert_non_null(strstr(err.message, "raman.lineshape: interrupted"));
     for (int i = 0; i < P; i++)
         assert_true(isnan(eff[i]) && isnan(lost[i]));
     cp_feshbach_cloud fa, fb;
@@ -241,7 +241,7 @@ static void test_work_estimates(void **state)
     double t0 = now();
     assert_int_equal(cp_raman_scan_bounded(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, N, 2, eff, NULL, NULL,
                                            CP_WORK_LIMIT_S, &err), CP_ETOOLONG);
-    assert_non_null(strstr(err.message, "raman scan: estimated work"));
+    assert_non_null(strstr(err.message, "raman.lineshape: estimated work"));
     assert_non_null(strstr(err.message, "scan at most"));
     assert_true(isnan(eff[0]) && isnan(eff[N / 2]) && isnan(eff[N - 1]));
     for (int i = 0; i < NQ; i++)
@@ -271,6 +271,24 @@ static void test_work_estimates(void **state)
     print_message("four refusals in %.1f ms\n", 1e3 * used);
     assert_true(used < 0.5); /* against 90 s + 3 min + 2.3 s + 1.4 s if they ran */
     assert_string_equal(cp_strerror(CP_ETOOLONG), "estimated work too long");
+
+    /* a work limit must be > 0 (+inf: none): refused in the house wording (DEVELOPERS.md),
+     * outputs NaN */
+    assert_int_equal(cp_raman_scan_bounded(&r, CP_RAMAN_SCAN_TWO_PHOTON, d, 3, 1, eff, NULL, NULL,
+                                           0.0, &err), CP_EINVAL);
+    assert_string_equal(err.message, "raman.lineshape: work limit 0 s is out of range; allowed "
+                                     "(0, inf] s");
+    assert_true(isnan(eff[0]));
+    assert_int_equal(cp_lattice_band_energies_bounded(8.0, 3, 0, 5, q, e, NULL, NULL, NAN, &err),
+                     CP_EINVAL);
+    assert_string_equal(err.message, "lattice.bands: work limit NaN s is not a number; "
+                                     "allowed (0, inf] s");
+    assert_true(isnan(e[0]));
+    assert_int_equal(cp_feshbach_max_efficiency_bounded(&fa, &fb, 1e-6, &o, &pm, &se, NULL,
+                                                        -1.0, &err), CP_EINVAL);
+    assert_string_equal(err.message, "feshbach.max_efficiency: work limit -1 s is out of range; "
+                                     "allowed (0, inf] s");
+    assert_true(isnan(pm) && isnan(se));
 
     /* within the limit: the same bits as the plain functions (first, middle and last
      * points computed ahead of the others) */

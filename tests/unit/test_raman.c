@@ -824,6 +824,11 @@ static void test_bad_input(void **state)
     assert_int_equal(cp_raman_scan(&good, CP_RAMAN_SCAN_ONE_PHOTON, vals, 2, 0, eff, NULL, &err),
                      CP_EINVAL);
     assert_true(strstr(err.message, "threads") != NULL);
+    /* no points: the house wording of a range (DEVELOPERS.md) */
+    assert_int_equal(cp_raman_scan(&good, CP_RAMAN_SCAN_ONE_PHOTON, vals, 0, 1, eff, NULL, &err),
+                     CP_EINVAL);
+    assert_string_equal(err.message, "raman.lineshape: points 0 is out of range; allowed "
+                                     "[1, 100000000]");
     p = good;
     p.width = -1;
     assert_int_equal(cp_raman_scan(&p, CP_RAMAN_SCAN_ONE_PHOTON, vals, 2, 2, eff, NULL, &err),

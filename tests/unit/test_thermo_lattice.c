@@ -403,6 +403,12 @@ static void test_filling_bad_input(void **state)
     assert_non_null(strstr(err.message, "temperature"));
     assert_int_equal(cp_thermo_lattice_filling(NULL, &tr, CP_FERMION, 1e-7, 0.0, &f, &err),
                      CP_EINVAL);
+    /* a work limit must be > 0 (+inf: none); the house wording of DEVELOPERS.md */
+    assert_int_equal(cp_thermo_lattice_filling_bounded(&lat, &tr, CP_FERMION, 1e-7, 0.0, NULL,
+                                                       NAN, &f, &err), CP_EINVAL);
+    assert_string_equal(err.message, "thermo.lattice_filling: work limit NaN s is not a number; "
+                                     "allowed (0, inf] s");
+    assert_true(isnan(f.center_empty) && isnan(f.sites_occupied));
     lat.omega_envelope[1] = -1.0;
     assert_int_equal(cp_thermo_lattice_filling(&lat, &tr, CP_FERMION, 1e-7, 0.0, &f, &err),
                      CP_EINVAL);
