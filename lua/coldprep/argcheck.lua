@@ -152,25 +152,4 @@ function M.typed(fname, t, key, ty, dflt)
   return v
 end
 
--- A reader of one value of a result table: a dotted path "final.t_over_tf" (nil when a
--- step of it is missing) or a function(result, p) used as it is.  `what` names the
--- argument in the message for anything else.
-function M.result_getter(fname, what, spec)
-  if type(spec) == "function" then return spec end
-  if type(spec) ~= "string" then
-    fail(fname, "%s must be a result name (string) or a function(result, p), got %s", what,
-      type(spec))
-  end
-  local parts = {}
-  for part in spec:gmatch("[^.]+") do parts[#parts + 1] = part end
-  return function(result)
-    local v = result
-    for _, k in ipairs(parts) do
-      if type(v) ~= "table" then return nil end
-      v = v[k]
-    end
-    return v
-  end
-end
-
 return M
