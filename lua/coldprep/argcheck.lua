@@ -7,7 +7,8 @@
 local cp = require "coldprep" -- the C bindings (cp.names, cp.consts), opened before this file
 local M = {}
 
--- The name in `known` closest to `key` (edit distance), or nil when `known` is empty.
+-- The name in `known` closest to `key` (edit distance), or nil when none is close enough
+-- to be a likely misspelling (cp.names.closest) or `known` is empty.
 function M.closest(key, known)
   return cp.names.closest(key, known)
 end
@@ -31,7 +32,10 @@ function M.table(fname, args, known)
       if kk == k then found = true; break end
     end
     if not found then
-      fail(fname, "unknown argument '%s' (did you mean '%s'?)", k, M.closest(k, known) or "?")
+      local near = M.closest(k, known)
+      if near then fail(fname, "unknown argument '%s' (did you mean '%s'?)", k, near) end
+      fail(fname, "unknown argument '%s' (%s)", k,
+        #known > 0 and "known: " .. table.concat(known, ", ") or "none are taken")
     end
   end
   return args

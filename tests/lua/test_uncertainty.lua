@@ -94,7 +94,9 @@ check("no degeneracy flag, no probability", f.probability_degenerate == nil)
 
 raises("unknown distribution", "normal, uniform or lognormal", cp.uncertainty,
   { parameters = { {name = "x", distribution = "gauss", mean = 0, sd = 1} }, evaluate = model, outputs = {"y"} })
-raises("key of another distribution", "did you mean", cp.uncertainty,
+-- sigma is 4 edits from sd and mean, more than a third of its length: no suggestion
+-- (cp.names.closest's cut-off), the keys a normal distribution takes instead.
+raises("key of another distribution", "unknown argument 'sigma' (known: name, distribution, mean, sd)", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sigma = 1} }, evaluate = model, outputs = {"y"} })
 raises("negative width", "widths must be >= 0", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sd = -1} }, evaluate = model, outputs = {"y"} })
