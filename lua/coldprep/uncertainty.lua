@@ -137,6 +137,9 @@ local function run(args)
   -- names[i]: outputs[i] without a "?" (a value that may be absent: the draw then fails)
   local getters, names = {}, {}
   for i, o in ipairs(outputs) do
+    if type(o) ~= "string" then
+      A.fail(fname, "outputs[%d] must be a result name (string), got %s", i, type(o))
+    end
     getters[i], names[i] = RP.compile(fname, "output", o)
   end
   local degenerate = args.degenerate

@@ -131,6 +131,10 @@ raises("misspelt degenerate", "uncertainty: degenerate 'degenerat' is missing fr
 raises("misspelt degenerate.output", "degenerate.output 'final.t_over_t' is missing", cp.uncertainty,
   {parameters = one, evaluate = function() return plain end, outputs = {"final.number"},
    degenerate = {output = "final.t_over_t", max = 0.5}, samples = 10})
+raises("output not a name", "uncertainty: outputs[2] must be a result name (string), got number", cp.uncertainty,
+  {parameters = one, evaluate = function() return plain end, outputs = {"final.number", 3}, samples = 10})
+raises("output only a '?'", "uncertainty: output must be a result name (string), got '?'", cp.uncertainty,
+  {parameters = one, evaluate = function() return plain end, outputs = {"?"}, samples = 10})
 raises("first draw lacking an output", "output 'y' is missing from evaluate's result at draw 1", cp.uncertainty,
   {parameters = one, evaluate = function(p) return {y = p.x == 1 and 1 or nil} end, outputs = {"y"}, samples = 10})
 -- "y?" (or a key the result declares in __fields) may be absent: that draw fails, as a
