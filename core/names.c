@@ -37,9 +37,12 @@ const char *cp_closest_name(const char *key, const char *const names[], size_t n
 {
     const char *best = NULL;
     size_t best_d = (size_t)-1;
+    if (!key)
+        return NULL;
+    size_t cutoff = (strlen(key) + 2) / 3; /* a third, rounded up: see names.h */
     for (size_t i = 0; i < n; i++) {
         size_t d = cp_edit_distance(key, names[i]);
-        if (d < best_d) {
+        if (d <= cutoff && d < best_d) {
             best_d = d;
             best = names[i];
         }

@@ -16,8 +16,12 @@
  * than CP_NAME_MAX_LEN bytes.  Pure function: no allocation, thread-safe. */
 size_t cp_edit_distance(const char *s, const char *t);
 
-/* The entry of names[0..n-1] closest to key by cp_edit_distance (the first of equals), or
- * NULL when n is 0 or no entry is comparable.  The pointer returned is one of names. */
+/* The entry of names[0..n-1] closest to key by cp_edit_distance (the first of equals), if
+ * it is close enough to be a likely misspelling: at most a third of key's length (in
+ * bytes, rounded up) edits away, so 1 edit always is and a swap of two letters (2 edits)
+ * is from 4 bytes on.  NULL when none is
+ * (a name that matches nothing gets no far-off suggestion), when n is 0 or when no entry
+ * is comparable.  The pointer returned is one of names. */
 const char *cp_closest_name(const char *key, const char *const names[], size_t n);
 
 #endif

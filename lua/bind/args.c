@@ -64,7 +64,8 @@ static void push_key_set(lua_State *L, const char *const known[])
     lua_rawsetp(L, LUA_REGISTRYINDEX, known);
 }
 
-/* Raise "fname[: what]: unknown <noun> 'key' (did you mean 'closest'?)". */
+/* Raise "fname[: what]: unknown <noun> 'key' (did you mean 'closest'?)", or, when no
+ * known key is close, "(known: a, b, ...)". */
 static int unknown_key(lua_State *L, const char *fname, const char *what, const char *key,
                        const char *const known[])
 {
@@ -77,7 +78,19 @@ static int unknown_key(lua_State *L, const char *fname, const char *what, const 
     if (best)
         return luaL_error(L, "%s%s%s: unknown %s '%s' (did you mean '%s'?)", fname, sep, w, noun,
                           key, best);
-    return luaL_error(L, "%s%s%s: unknown %s '%s' (none are taken)", fname, sep, w, noun, key);
+    if (n == 0)
+        return luaL_error(L, "%s%s%s: unknown %s '%s' (none are taken)", fname, sep, w, noun,
+                          key);
+    luaL_Buffer b;
+    luaL_buffinit(L, &b);
+    for (size_t i = 0; i < n; i++) {
+        if (i > 0)
+            luaL_addstring(&b, ", ");
+        luaL_addstring(&b, known[i]);
+    }
+    luaL_pushresult(&b);
+    return luaL_error(L, "%s%s%s: unknown %s '%s' (known: %s)", fname, sep, w, noun, key,
+                      lua_tostring(L, -1));
 }
 
 static void check_keys(lua_State *L, int arg, const char *fname, const char *what,

@@ -28,7 +28,8 @@ static int l_edit_distance(lua_State *L)
     return 1;
 }
 
-/* names.closest(key, list): the entry of the list of strings closest to key, or nil. */
+/* names.closest(key, list): the entry of the list of strings closest to key, or nil when
+ * none is close enough (cp_closest_name's cut-off). */
 static int l_closest(lua_State *L)
 {
     enum { MAX_NAMES = 256 };
@@ -66,8 +67,9 @@ static const cpl_function functions[] = {
     {"closest", l_closest,
      "names.closest(key, list) -> string or nil\n"
      "The entry of a list of names closest to key (the first of equals), as in the library's\n"
-     "\"did you mean ...?\" messages.  Example: cp.names.closest(\"duraton\", {\"duration\", "
-     "\"label\"})"},
+     "\"did you mean ...?\" messages; nil when none is within a third of key's length\n"
+     "(edits, rounded up) of it.  Example: cp.names.closest(\"duraton\", {\"duration\", "
+     "\"label\"})  --> \"duration\""},
     {NULL, NULL, NULL}};
 
 int cpl_open_names(lua_State *L)

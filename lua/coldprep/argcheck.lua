@@ -7,7 +7,8 @@
 local cp = require "coldprep" -- the C bindings (cp.names, cp.consts), opened before this file
 local M = {}
 
--- The name in `known` closest to `key` (edit distance), or nil when `known` is empty.
+-- The name in `known` closest to `key` (edit distance), or nil when none is close enough
+-- to be a likely misspelling (cp.names.closest) or `known` is empty.
 function M.closest(key, known)
   return cp.names.closest(key, known)
 end
@@ -31,7 +32,10 @@ function M.table(fname, args, known)
       if kk == k then found = true; break end
     end
     if not found then
-      fail(fname, "unknown argument '%s' (did you mean '%s'?)", k, M.closest(k, known) or "?")
+      local near = M.closest(k, known)
+      if near then fail(fname, "unknown argument '%s' (did you mean '%s'?)", k, near) end
+      fail(fname, "unknown argument '%s' (%s)", k,
+        #known > 0 and "known: " .. table.concat(known, ", ") or "none are taken")
     end
   end
   return args
@@ -157,27 +161,6 @@ function M.typed(fname, t, key, ty, dflt)
     fail(fname, "argument '%s' must be a %s, got %s", key, ty, type(v))
   end
   return v
-end
-
--- A reader of one value of a result table: a dotted path "final.t_over_tf" (nil when a
--- step of it is missing) or a function(result, p) used as it is.  `what` names the
--- argument in the message for anything else.
-function M.result_getter(fname, what, spec)
-  if type(spec) == "function" then return spec end
-  if type(spec) ~= "string" then
-    fail(fname, "%s must be a result name (string) or a function(result, p), got %s", what,
-      type(spec))
-  end
-  local parts = {}
-  for part in spec:gmatch("[^.]+") do parts[#parts + 1] = part end
-  return function(result)
-    local v = result
-    for _, k in ipairs(parts) do
-      if type(v) ~= "table" then return nil end
-      v = v[k]
-    end
-    return v
-  end
 end
 
 return M

@@ -17,6 +17,7 @@
 --    the same text is kept current with cp.optim.interrupt_note.
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
+local RP = require "coldprep.result_path"
 
 local M = {}
 
@@ -77,9 +78,10 @@ local function parse_constraints(fname, list)
     if c.min == nil and c.max == nil then
       A.fail(fname, "constraints[%d] needs min or max", i)
     end
+    local get, name = RP.compile(fname, string.format("constraints[%d].output", i), c.output, true)
     out[i] = {
-      label = type(c.output) == "string" and c.output or ("constraint " .. i),
-      get = A.result_getter(fname, string.format("constraints[%d].output", i), c.output),
+      label = name or ("constraint " .. i),
+      get = get,
       min = c.min ~= nil and A.number(fname, c, "min", "SI units") or nil,
       max = c.max ~= nil and A.number(fname, c, "max", "SI units") or nil,
     }
@@ -98,7 +100,10 @@ local function optimize(args)
     "tolerance", "max_evaluations", "penalty" })
   local params = parse_parameters(fname, args.parameters)
   local evaluate = A.typed(fname, args, "evaluate", "function")
-  local merit_of = args.merit ~= nil and A.result_getter(fname, "merit", args.merit) or nil
+  -- merit_path: a merit named by a path, read outside the pcall (a misspelt name stops
+  -- the search); a merit function's error fails only that point
+  local merit_of = args.merit ~= nil and RP.compile(fname, "merit", args.merit, true) or nil
+  local merit_path = type(args.merit) == "string"
   local goal = A.option(fname, args, "goal", { "max", "min" }, "max")
   local sign = goal == "max" and 1 or -1
   local constraints = parse_constraints(fname, args.constraints)
@@ -114,6 +119,24 @@ local function optimize(args)
     return p
   end
 
+  -- "x = 1.5, y = 2": the parameters of point p
+  local function point_text(p)
+    local parts = {}
+    for i, par in ipairs(params) do parts[i] = string.format("%s = %.10g", par.name, p[par.name]) end
+    return table.concat(parts, ", ")
+  end
+
+  -- The value `get` reads from result at p; a missing one stops the search (the note of
+  -- an interruption is cleared first, as nothing is running any more).
+  local function read(get, result, p, where)
+    local ok, v = pcall(get, result, p, where)
+    if not ok then
+      cp.optim.interrupt_note(nil)
+      error(v, 0)
+    end
+    return v
+  end
+
   -- Evaluate at x (a list of values): merit, constraint report, result; never raises for
   -- a failure of the plan (merit = nil and the message instead).
   local function assess(x)
@@ -124,7 +147,10 @@ local function optimize(args)
     end
     if not ok then return { failed = tostring(result), p = p } end
     local merit
-    if merit_of then
+    local function where() return "at " .. point_text(p) end
+    if merit_path then
+      merit = read(merit_of, result, p, where)
+    elseif merit_of then
       ok, merit = pcall(merit_of, result, p)
       if not ok then return { failed = tostring(merit), p = p } end
     else
@@ -135,7 +161,7 @@ local function optimize(args)
     end
     local violation, report = 0, {}
     for i, c in ipairs(constraints) do
-      local v = c.get(result, p)
+      local v = read(c.get, result, p, where)
       local excess = math.huge
       if A.is_finite(v) then
         excess = 0
@@ -150,11 +176,9 @@ local function optimize(args)
   end
 
   local function describe(a)
-    local parts = {}
-    for i, par in ipairs(params) do parts[i] = string.format("%s = %.10g", par.name, a.p[par.name]) end
     local how = a.merit and string.format("merit %.10g, %s", a.merit, a.feasible and "feasible" or "infeasible")
       or "failed: " .. a.failed
-    return table.concat(parts, ", ") .. " (" .. how .. ")"
+    return point_text(a.p) .. " (" .. how .. ")"
   end
 
   -- The "interrupted" note outside the simplex: the phase, the evaluations so far and the
@@ -288,8 +312,10 @@ cp.optimize{parameters = {{name = "x", min = a, max = b [, start = x0] [, scale 
 (max_evaluations caps the search; the +-10 % report adds 2 evaluations per parameter)
 Find the parameters (within [min, max], SI units) that maximise (goal = "max", default)
 or minimise the merit of evaluate(p) - a number, or the value merit names in the result
-table; a returned plan is run.  Constraints (min and/or max on an output) are kept by an
-exact penalty; GSL's Nelder-Mead simplex searches on bounded, log-aware coordinates.
+table (a path missing from a result is an error, unless it ends in "?" or the result
+declares it: nil there); a returned plan is run.  Constraints (min and/or max on an
+output) are kept by an exact penalty; GSL's Nelder-Mead simplex searches on bounded,
+log-aware coordinates.
 Returns {parameters = {x = ...}, merit, result, feasible, constraints = {{output, value,
  min, max, satisfied}}, evaluations, iterations, converged, goal,
  sensitivity = {{parameter, value, minus = {value, merit, change, feasible, outside_bounds},

@@ -9,6 +9,7 @@
 -- runs the same description on several Lua states in parallel through M.prepare.
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
+local RP = require "coldprep.result_path"
 
 local M = {}
 
@@ -139,10 +140,9 @@ local function compile(fname, desc, format)
   local nparams = #columns - 1
   -- A name ending in "?" is an output that may be absent at some points (an empty cell
   -- there); the column drops the "?".  Any other output must be in every result.
-  local outnames, optional = {}, {}
+  local outnames, getters = {}, {}
   for i, o in ipairs(outputs or { "value" }) do
-    optional[i] = o:sub(-1) == "?"
-    outnames[i] = optional[i] and o:sub(1, -2) or o
+    getters[i], outnames[i] = RP.compile(fname, "output", o)
   end
   for _, o in ipairs(outnames) do
     if seen[o] then A.fail(fname, "output '%s' has the name of a parameter or column", o) end
@@ -168,71 +168,8 @@ local function compile(fname, desc, format)
     return p
   end
 
-  local paths = {}
-  for i, o in ipairs(outnames) do
-    local parts = {}
-    for part in o:gmatch("[^.]+") do parts[#parts + 1] = part end
-    paths[i] = parts
-  end
-
-  -- The keys a result table declares it may have (its metatable's __fields, as a plan's
-  -- budget has: true, or the same for a sub-table), else those `inherited` from above.
-  local function declared(v, inherited)
-    local mt = getmetatable(v)
-    local own = type(mt) == "table" and rawget(mt, "__fields")
-    if type(own) == "table" then return own end
-    return inherited
-  end
-
-  -- Output o is absent from the result of point i: nothing when the result declares the
-  -- missing key (empty cell), else an error naming the level where the path breaks, the
-  -- keys found there and the closest of them (a misspelt name must not give a file of
-  -- empty columns).
-  local function missing(result, o, i)
-    local parts, v, at, fields = paths[o], result, "the result", nil
-    for k, part in ipairs(parts) do
-      if type(v) ~= "table" then
-        error(string.format("%s: output '%s' is missing at point %d: %s is a %s, not a table " ..
-          "with '%s'", fname, outnames[o], i, at, type(v), part), 0)
-      end
-      fields = declared(v, fields)
-      if v[part] == nil and fields and fields[part] then return end
-      if v[part] == nil then
-        local keys = {}
-        for key in pairs(v) do
-          if type(key) == "string" then keys[#keys + 1] = key end
-        end
-        table.sort(keys)
-        local candidates = table.move(keys, 1, #keys, 1, {}) -- and the declared ones
-        for key in pairs(type(fields) == "table" and fields or {}) do
-          if type(key) == "string" and v[key] == nil then candidates[#candidates + 1] = key end
-        end
-        table.sort(candidates)
-        local near = cp.names.closest(part, candidates)
-        local fixed = table.move(parts, 1, #parts, 1, {})
-        fixed[k] = near
-        local shown = #keys > 30 and table.concat(keys, ", ", 1, 30) .. ", ..." or
-          table.concat(keys, ", ")
-        error(string.format("%s: output '%s' is missing from evaluate's result at point %d " ..
-          "(%s has %s)%s; an output that may be absent at some points is written '%s?' " ..
-          "(an empty cell there)", fname, outnames[o], i, at,
-          #keys > 0 and "the keys " .. shown or "no named keys",
-          near and string.format("; did you mean '%s'?", table.concat(fixed, ".")) or "",
-          outnames[o]), 0)
-      end
-      v = v[part]
-      fields = type(fields) == "table" and type(fields[part]) == "table" and fields[part] or nil
-      at = "'" .. table.concat(parts, ".", 1, k) .. "'"
-    end
-  end
-
   local function pick(result, o, i)
-    local v = result
-    for _, part in ipairs(paths[o]) do
-      if type(v) ~= "table" then v = nil; break end
-      v = v[part]
-    end
-    if v == nil and not optional[o] then missing(result, o, i) end
+    local v = getters[o](result, nil, i)
     local t = type(v)
     if t == "table" or t == "function" or t == "userdata" or t == "thread" then
       error(string.format("%s: output '%s' is a %s; outputs must be numbers, strings or booleans",

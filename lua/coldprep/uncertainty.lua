@@ -8,6 +8,7 @@
 -- Practice, 2004, ch. 1 [M]).
 local cp = require "coldprep"
 local A = require "coldprep.argcheck"
+local RP = require "coldprep.result_path"
 
 local M = {}
 
@@ -133,28 +134,33 @@ local function run(args)
   local evaluate = A.typed(fname, args, "evaluate", "function")
   local outputs = A.typed(fname, args, "outputs", "table")
   if #outputs == 0 then A.fail(fname, "outputs must list at least one result name") end
-  local getters = {}
+  -- names[i]: outputs[i] without a "?" (a value that may be absent: the draw then fails)
+  local getters, names = {}, {}
   for i, o in ipairs(outputs) do
-    if type(o) ~= "string" then A.fail(fname, "outputs[%d] must be a result name", i) end
-    getters[i] = A.result_getter(fname, string.format("outputs[%d]", i), o)
+    if type(o) ~= "string" then
+      A.fail(fname, "outputs[%d] must be a result name (string), got %s", i, type(o))
+    end
+    getters[i], names[i] = RP.compile(fname, "output", o)
   end
   local degenerate = args.degenerate
   if degenerate == nil then degenerate = "degenerate" end
   local is_degenerate
   if type(degenerate) == "table" then
     A.table(fname, degenerate, { "output", "max", "min" })
-    local get = A.result_getter(fname, "degenerate.output",
+    local get = RP.compile(fname, "degenerate.output",
       A.typed(fname, degenerate, "output", "string"))
     local lo = degenerate.min ~= nil and A.number(fname, degenerate, "min", "SI units") or nil
     local hi = degenerate.max ~= nil and A.number(fname, degenerate, "max", "SI units") or nil
     if lo == nil and hi == nil then A.fail(fname, "degenerate needs min or max") end
-    is_degenerate = function(result)
-      local v = get(result)
+    is_degenerate = function(result, p, where)
+      local v = get(result, p, where)
       if not A.is_finite(v) then return nil end
       return (hi == nil or v <= hi) and (lo == nil or v >= lo)
     end
   elseif type(degenerate) == "string" or type(degenerate) == "function" then
-    is_degenerate = A.result_getter(fname, "degenerate", degenerate)
+    -- the default may be absent (a result that says nothing about degeneracy)
+    is_degenerate = RP.compile(fname, "degenerate",
+      args.degenerate == nil and "degenerate?" or degenerate, true)
   else
     A.fail(fname, "degenerate must be a result name, a function(result, p) or " ..
       "{output = ..., max = ...}, got %s", type(degenerate))
@@ -172,12 +178,14 @@ local function run(args)
     return ok, result
   end
 
-  local function outputs_of(result)
+  -- The outputs of a result (nil where one may be absent and is), raising for a missing
+  -- one or one that is not a number; `where` names the draw.
+  local function outputs_of(result, where)
     local vals = {}
     for i = 1, #outputs do
-      local v = getters[i](result)
-      if type(v) ~= "number" then
-        error(string.format("%s: output '%s' is %s, not a number", fname, outputs[i], tostring(v)), 0)
+      local v = getters[i](result, nil, where)
+      if v ~= nil and type(v) ~= "number" then
+        error(string.format("%s: output '%s' is %s, not a number", fname, names[i], tostring(v)), 0)
       end
       vals[i] = v
     end
@@ -190,9 +198,10 @@ local function run(args)
   local ok, nominal_result = evaluate_at(centre)
   local nominal = { parameters = centre, error = (not ok) and tostring(nominal_result) or nil }
   if ok then
-    local vals = outputs_of(nominal_result)
-    for i, o in ipairs(outputs) do nominal[o] = vals[i] end
-    nominal.degenerate = is_degenerate(nominal_result, centre)
+    local at = "at the nominal point"
+    local vals = outputs_of(nominal_result, at)
+    for i, o in ipairs(names) do nominal[o] = vals[i] end
+    nominal.degenerate = is_degenerate(nominal_result, centre, at)
   end
 
   local g <close> = cp.random.generator { seed = seed }
@@ -206,12 +215,14 @@ local function run(args)
     local row = {}
     for k, v in pairs(p) do row[k] = v end
     local good, result = evaluate_at(p)
-    local vals
+    local vals, at = nil, "at draw " .. s
     if good then
-      vals = outputs_of(result)
-      for i, v in ipairs(vals) do
+      vals = outputs_of(result, at)
+      for i = 1, #outputs do
+        local v = vals[i]
         if not A.is_finite(v) then -- it would poison the mean and the sorting
-          good, result = false, string.format("output '%s' is %s", outputs[i], tostring(v))
+          good, result = false, string.format("output '%s' is %s", names[i],
+            v == nil and "absent" or tostring(v))
           break
         end
       end
@@ -219,11 +230,11 @@ local function run(args)
     if good then
       n_ok = n_ok + 1
       for _, par in ipairs(params) do inputs[par.name][n_ok] = p[par.name] end
-      for i, o in ipairs(outputs) do
+      for i, o in ipairs(names) do
         values[i][n_ok] = vals[i]
         row[o] = vals[i]
       end
-      local d = is_degenerate(result, p)
+      local d = is_degenerate(result, p, at)
       if d ~= nil then
         n_known = n_known + 1
         if d then n_degenerate = n_degenerate + 1 end
@@ -238,7 +249,7 @@ local function run(args)
 
   local out = { samples = samples, seed = seed, failed = n_failed, nominal = nominal,
     outputs = {}, ranking = {}, importance = {}, rows = rows }
-  for i, o in ipairs(outputs) do out.outputs[o] = summary(values[i]) end
+  for i, o in ipairs(names) do out.outputs[o] = summary(values[i]) end
   if n_known > 0 then
     -- failed evaluations count as not degenerate
     local pdeg = n_degenerate / samples
@@ -246,7 +257,7 @@ local function run(args)
     out.probability_error = math.sqrt(pdeg * (1 - pdeg) / samples) -- binomial standard error
   end
   local score = {}
-  for i, o in ipairs(outputs) do
+  for i, o in ipairs(names) do
     local list = {}
     for _, par in ipairs(params) do
       local rho = n_ok > 1 and spearman(inputs[par.name], values[i]) or nil
@@ -277,7 +288,9 @@ cp.uncertainty{parameters = {...}, evaluate = function(p) ... end, outputs = {"f
 Monte Carlo over uncertain inputs.  Each parameter: {name = "x", distribution = "normal",
 mean = m, sd = s} | {..., distribution = "uniform", min = a, max = b} |
 {..., distribution = "lognormal", median = m, sigma = s (width of ln x)}; SI units.
-evaluate(p) returns a result table (a returned plan is run); outputs name numbers in it.
+evaluate(p) returns a result table (a returned plan is run); outputs name numbers in it
+(dotted paths); a name missing from a result is an error naming the keys there, unless it
+ends in "?" or the result declares it (a plan's budget): that draw then fails.
 Returns {samples, seed, failed (evaluations that raised or gave a non-finite output), nominal (at the centres),
  outputs = {[name] = {n, mean, sd, median, p05, p16, p84, p95, min, max}},
  probability_degenerate, probability_error (binomial standard error),

@@ -107,6 +107,34 @@ raises("an error inside the simplex propagates", "getter boom", cp.optimize,
       return r.n
     end } } })
 
+-- A misspelt merit or constraint path stops the search with a message naming it, the point,
+-- the keys there and the closest (one edit away, by inspection), instead of every point
+-- looking infeasible or failed.
+local pars = {{name = "r", min = 1e3, max = 1e6, scale = "log"}, {name = "h", min = 0, max = 1}}
+raises("misspelt constraint", "optimize: constraints[1].output 'final.t_over_tff' is missing from evaluate's result "
+  .. "at r = ", cp.optimize, {parameters = pars, evaluate = model, merit = "final.number",
+  constraints = {{output = "final.t_over_tff", max = 0.5}}, max_evaluations = 50})
+raises("misspelt constraint: the closest", "('final' has the keys number, t_over_tf); did you mean 'final.t_over_tf'?",
+  cp.optimize, {parameters = pars, evaluate = model, merit = "final.number",
+  constraints = {{output = "final.t_over_tff", max = 0.5}}, max_evaluations = 50})
+raises("misspelt merit", "optimize: merit 'final.numbr' is missing from evaluate's result at r = ", cp.optimize,
+  {parameters = pars, evaluate = model, merit = "final.numbr", max_evaluations = 50})
+raises("merit path into a number", "merit 'final.number.x' is missing at r = ", cp.optimize,
+  {parameters = pars, evaluate = model, merit = "final.number.x", max_evaluations = 50})
+-- "name?" (or a key the result declares in __fields) may be absent: an absent constraint
+-- value is a violated constraint, so the optimum keeps to where it is present (h >= 0.5).
+local function gappy(p)
+  local m = model(p)
+  if p.h < 0.5 then m.final.t_over_tf = nil end
+  return setmetatable(m, {__fields = {final = {t_over_tf = true}}})
+end
+for _, spec in ipairs { "final.t_over_tf?", "final.t_over_tf" } do
+  local g = cp.optimize{parameters = pars, evaluate = gappy, merit = "final.number",
+    constraints = {{output = spec, max = 0.5}}, max_evaluations = 600}
+  check("absent constraint value allowed (" .. spec .. ")", g.feasible and g.parameters.h >= 0.5
+    and g.constraints[1].output == "final.t_over_tf", g.parameters.h)
+end
+
 raises("interrupt_note: text must be a string", "optim.interrupt_note: argument 'text' must be a string or nil, got number",
   cp.optim.interrupt_note, 3)
 raises("interrupt_note: text missing", "argument 'text' must be a string or nil, got nothing", cp.optim.interrupt_note)

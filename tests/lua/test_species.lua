@@ -137,4 +137,10 @@ T.near(cp.species.atom("164Dy").a_bb, 92 * cp.units.a0, 1e-15, "user atom keeps 
 T.check(dy.a_bb_source == "test", "user atom keeps a_bb_source")
 T.raises(function() cp.species.add_atom { name = "X", mass_u = 1, statistics = "boson", a_bb = 1 } end,
   { "species.add_atom", "a_bb", "out of range" }, "an absurd a_bb")
+-- cp.names.closest suggests only a name within a third of the key's length in edits
+-- (rounded up; distances by hand: duraton -> duration 1, widht -> width 2 (a swap),
+-- colour -> label 4 > 2)
+T.check(cp.names.closest("duraton", { "label", "duration" }) == "duration", "closest: one edit")
+T.check(cp.names.closest("widht", { "delay", "width" }) == "width", "closest: a swap")
+T.check(cp.names.closest("colour", { "label", "duration" }) == nil, "closest: nothing near")
 T.done()

@@ -87,6 +87,12 @@ T.check(st.condensed_fraction >= 0 and st.condensed_fraction < 1, "lattice_state
 -- ranges from the core, conflicting arguments.
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, temprature = 1e-7 } end,
   { "unknown argument 'temprature'", "did you mean 'temperature'" }, "unknown key")
+-- a key near none of the known ones (more than a third of its length in edits: names.h)
+-- gets the list of known keys, not a far-off suggestion
+T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, colour = 1 } end,
+  { "unknown argument 'colour' (known: ", "temperature" }, "unknown key near none")
+T.check(not select(2, pcall(cp.thermo.fermi, { number = 1e5, omega_bar = w, mass = m, colour = 1 }))
+  :find("did you mean", 1, true), "unknown key near none: no suggestion")
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m } end,
   { "exactly one of 'temperature'" }, "neither T nor T/T_F")
 T.raises(function() cp.thermo.fermi { number = 1e5, omega_bar = w, mass = m, temperature = 1e-7, t_over_tf = 0.2 } end,

@@ -94,7 +94,9 @@ check("no degeneracy flag, no probability", f.probability_degenerate == nil)
 
 raises("unknown distribution", "normal, uniform or lognormal", cp.uncertainty,
   { parameters = { {name = "x", distribution = "gauss", mean = 0, sd = 1} }, evaluate = model, outputs = {"y"} })
-raises("key of another distribution", "did you mean", cp.uncertainty,
+-- sigma is 4 edits from sd and mean, more than a third of its length: no suggestion
+-- (cp.names.closest's cut-off), the keys a normal distribution takes instead.
+raises("key of another distribution", "unknown argument 'sigma' (known: name, distribution, mean, sd)", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sigma = 1} }, evaluate = model, outputs = {"y"} })
 raises("negative width", "widths must be >= 0", cp.uncertainty,
   { parameters = { {name = "x", distribution = "normal", mean = 0, sd = -1} }, evaluate = model, outputs = {"y"} })
@@ -116,6 +118,38 @@ check("NaN outputs are failed draws", half.failed == 200 - below and half.output
 raises("degenerate: max must be a number", "argument 'max' must be a number", cp.uncertainty,
   {parameters = {{name = "x", distribution = "normal", mean = 1, sd = 0.1}}, outputs = {"y"},
    evaluate = function(p) return {y = p.x} end, degenerate = {output = "y", max = "0.5"}})
+-- A named value missing from a result is refused, never read as nil: the message names the
+-- value, the point, the keys there and the closest (one edit away here, by inspection).
+local one = {{name = "x", distribution = "normal", mean = 1, sd = 0.1}}
+raises("misspelt output", "uncertainty: output 'final.numbr' is missing from evaluate's result at the nominal point "
+  .. "('final' has the keys number, t_over_tf); did you mean 'final.number'?", cp.uncertainty,
+  {parameters = one, evaluate = function() return plain end, outputs = {"final.numbr"}, samples = 10})
+raises("misspelt degenerate", "uncertainty: degenerate 'degenerat' is missing from evaluate's result at the nominal "
+  .. "point (the result has the keys degenerate, final); did you mean 'degenerate'?", cp.uncertainty,
+  {parameters = one, evaluate = function() return plain end, outputs = {"final.number"}, degenerate = "degenerat",
+   samples = 10})
+raises("misspelt degenerate.output", "degenerate.output 'final.t_over_t' is missing", cp.uncertainty,
+  {parameters = one, evaluate = function() return plain end, outputs = {"final.number"},
+   degenerate = {output = "final.t_over_t", max = 0.5}, samples = 10})
+raises("output not a name", "uncertainty: outputs[2] must be a result name (string), got number", cp.uncertainty,
+  {parameters = one, evaluate = function() return plain end, outputs = {"final.number", 3}, samples = 10})
+raises("output only a '?'", "uncertainty: output must be a result name (string), got '?'", cp.uncertainty,
+  {parameters = one, evaluate = function() return plain end, outputs = {"?"}, samples = 10})
+raises("first draw lacking an output", "output 'y' is missing from evaluate's result at draw 1", cp.uncertainty,
+  {parameters = one, evaluate = function(p) return {y = p.x == 1 and 1 or nil} end, outputs = {"y"}, samples = 10})
+-- "y?" (or a key the result declares in __fields) may be absent: that draw fails, as a
+-- non-finite output does; the output keeps its name without the "?".
+local gaps = cp.uncertainty{parameters = {{name = "x", distribution = "uniform", min = 0, max = 2}},
+  evaluate = function(p) return {y = p.x <= 1 and p.x or nil} end, outputs = {"y?"}, samples = 200, seed = 5}
+local low = 0
+for _, r in ipairs(gaps.rows) do if r.x <= 1 then low = low + 1 end end
+check("an optional output absent: a failed draw", gaps.failed == 200 - low and gaps.outputs.y.n == low, gaps.failed)
+local fields = {__fields = {y = true}}
+local decl = cp.uncertainty{parameters = {{name = "x", distribution = "uniform", min = 0, max = 2}},
+  evaluate = function(p) return setmetatable({y = p.x <= 1 and p.x or nil}, fields) end, outputs = {"y"},
+  samples = 200, seed = 5}
+check("a declared output absent: a failed draw", decl.failed == gaps.failed, decl.failed)
+check("the absent output named in the row", gaps.rows[1].x <= 1 or gaps.rows[1].error == "output 'y' is absent")
 raises("rank correlation: lengths", "equal length", cp.uncertainty.rank_correlation, {x = {1, 2}, y = {1}})
 raises("generator: negative sd", "negative", g.normal, g, {mean = 0, sd = -1})
 raises("generator: bad seed", "seed", cp.random.generator, {seed = -1})

@@ -69,12 +69,42 @@ static void closest_and_limits(void **state)
     assert_int_equal(cp_edit_distance(long_name, ""), CP_NAME_MAX_LEN);
 }
 
+/* NAMES-4: the cut-off (names.h): a name is suggested only when it is at most a third of
+ * the key's length (rounded up) edits away; the distances at the boundary are checked
+ * against the recursive definition above, so the cut-off is what is tested. */
+static void closest_cutoff(void **state)
+{
+    (void)state;
+    static const char *const two_away[] = {"abcdXY"}, *const three_away[] = {"abcXYZ"};
+    assert_int_equal(by_definition("abcdef", two_away[0]), 2);
+    assert_int_equal(by_definition("abcdef", three_away[0]), 3);
+    assert_string_equal(cp_closest_name("abcdef", two_away, 1), "abcdXY"); /* 2 <= 6/3 */
+    assert_null(cp_closest_name("abcdef", three_away, 1));                 /* 3 > 6/3 */
+    static const char *const y[] = {"y"}, *const xyz[] = {"xyz"};
+    assert_string_equal(cp_closest_name("x", y, 1), "y"); /* 1 edit: always close */
+    assert_null(cp_closest_name("x", xyz, 1));             /* 2 > 1/3 rounded up */
+    static const char *const width[] = {"width"}, *const w7[] = {"abcdXYZ"};
+    assert_int_equal(by_definition("widht", width[0]), 2);  /* a swap is 2 edits */
+    assert_string_equal(cp_closest_name("widht", width, 1), "width"); /* 2 <= 5/3 up */
+    assert_int_equal(by_definition("abcdefg", w7[0]), 3);
+    assert_string_equal(cp_closest_name("abcdefg", w7, 1), "abcdXYZ"); /* 3 <= 7/3 up */
+    static const char *const known[] = {"duration", "lifetime", "label"};
+    assert_null(cp_closest_name("zzzzzz", known, 3));    /* matches nothing */
+    static const char *const temperature[] = {"temperature"};
+    assert_null(cp_closest_name("temp", temperature, 1)); /* 7 edits for 4 bytes */
+    /* the nearest within reach wins over a farther one that is also within reach */
+    static const char *const both[] = {"t_over_tc", "t_over_tf"};
+    assert_string_equal(cp_closest_name("t_over_tff", both, 2), "t_over_tf");
+    assert_null(cp_closest_name(NULL, known, 3));
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(textbook_values),
         cmocka_unit_test(agrees_with_definition),
         cmocka_unit_test(closest_and_limits),
+        cmocka_unit_test(closest_cutoff),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }
