@@ -18,6 +18,7 @@
 #include <gsl/gsl_odeiv2.h>
 
 #include "coldprep/raman.h"
+#include "raman_reference.h"
 
 static double now(void)
 {
@@ -30,18 +31,6 @@ static int cmp(const void *a, const void *b)
 {
     double x = *(const double *)a, y = *(const double *)b;
     return (x > y) - (x < y);
-}
-
-static cp_raman_params reference_case(void)
-{
-    cp_raman_params p;
-    cp_raman_params_init(&p);
-    p.rabi_pump = p.rabi_stokes = 2 * M_PI * 5e6;
-    p.width = 2e-6;
-    p.delay = 2.4e-6;
-    p.gamma = 2 * M_PI * 6e6;
-    p.pump_linewidth_hz = p.stokes_linewidth_hz = 1e3;
-    return p;
 }
 
 /* ---- the baseline: the same master equation through GSL's rk8pd driver ---------------- */
@@ -130,7 +119,7 @@ int main(void)
 {
     gsl_set_error_handler_off();
     print_load();
-    cp_raman_params p = reference_case();
+    cp_raman_params p = raman_reference_case();
     cp_raman_result r;
     /* interleave the two so that both see the same load */
     double ours = 0, theirs = 0;

@@ -23,6 +23,7 @@
 
 #include "coldprep/lattice.h"
 #include "coldprep/raman.h"
+#include "raman_reference.h"
 
 enum { MAX_REPS = 10000, NQ = 1000, NB = 5 };
 
@@ -43,13 +44,7 @@ static void print_times(const double *t, int reps)
 
 static int raman(int reps, double *t)
 {
-    cp_raman_params p;
-    cp_raman_params_init(&p);
-    p.rabi_pump = p.rabi_stokes = 2 * M_PI * 5e6;
-    p.width = 2e-6;
-    p.delay = 2.4e-6;
-    p.gamma = 2 * M_PI * 6e6;
-    p.pump_linewidth_hz = p.stokes_linewidth_hz = 1e3;
+    cp_raman_params p = raman_reference_case();
     cp_raman_result r;
     cp_error err;
     for (int i = 0; i < reps; i++) {

@@ -75,30 +75,19 @@ done
 # [0, 3], x = 1.5, merit -(1.5 - 2)^2 = -0.25 (by hand).  With max_evaluations = 12 the
 # search ends after 12 evaluations and the 13th is the report's first; the best point
 # then is the one an uninterrupted run returns (run below, a second way to the number).
-stall="cp.optimize{parameters = {{name = 'x', min = 0, max = 3}}, evaluate = function(p) n = n + 1 if n == STALL then while true do end end return -(p.x - 2)^2 end, tolerance = 1e-300, max_evaluations = 12}"
-best=$("$coldprep" -e "n = 0; local r = ${stall/STALL/0}; print(string.format('x = %.10g (merit %.10g, feasible)', r.parameters.x, r.merit))")
+stall="cp.optimize{parameters = {{name = 'x', min = 0, max = 3}}, evaluate = function(p) n = (n or 0) + 1 if n == STALL then while true do end end return -(p.x - 2)^2 end, tolerance = 1e-300, max_evaluations = 12}"
+best=$("$coldprep" -e "local r = ${stall/STALL/0}; print(string.format('x = %.10g (merit %.10g, feasible)', r.parameters.x, r.merit))")
 for case in "2:1 evaluations (starting points); best point so far: x = 1.5 (merit -0.25, feasible)" \
             "13:12 evaluations (in the +-10 % report); best point so far: $best"; do
   at=${case%%:*}
   want=${case#*:}
-  pty "CANCEL-5 optimize outside the simplex (evaluation $at)" <<EOF
-expect coldprep> 
-send n = 0; r = ${stall/STALL/$at}\r
-sleep 700
-send \x03
-within 200 interrupted; optimize: stopped after $want
-expect coldprep> 
-send print("still " .. "here", r)\r
-expect still here	nil
-expect coldprep> 
-send \x04
-exit 0
-EOF
+  interrupt "CANCEL-5 optimize outside the simplex (evaluation $at)" "${stall/STALL/$at}" 700 \
+    "interrupted; optimize: stopped after $want"
 done
 # A finished optimisation leaves no note: a later Ctrl-C says only "interrupted".
 pty "CANCEL-5 no stale note" <<EOF
 expect coldprep> 
-send n = 0; r = ${stall/STALL/0}\r
+send r = ${stall/STALL/0}\r
 expect coldprep> 
 send while true do end\r
 sleep 300
