@@ -1,6 +1,6 @@
--- Benchmarks of `coldprep sweep` (issue: sweeps), run by scripts/bench through the coldprep
--- binary:
---   1. throughput of a 10 000-point sweep with --jobs 2 against --jobs 1 (target >= 1.9x, and >= 250 points/s on 2 jobs);
+-- Benchmarks of `coldprep sweep`, run by scripts/bench through the coldprep binary:
+--   1. throughput of a 10 000-point sweep with --jobs 2 against --jobs 1 (targets: >= 1.9x,
+--      and >= 250 points/s on 2 jobs);
 --      the workload is the demo plan when scripts/demo.lua provides one
 --      (BENCH_SWEEP_FILE overrides), else a plan-like function of similar cost;
 --   2. peak memory (RSS) of a 10^6-point sweep of a cheap function (target < 50 MB);

@@ -53,7 +53,7 @@ for _, t_nk in ipairs(temps) do
   if t_nk == 100 then
     T.check(p.start.atoms[1].condensed_fraction > 0.9 and p.start.atoms[2].condensed_fraction > 0.9,
       "COND-1 both clouds are mostly condensed at 100 nK")
-    -- the issue's regression: the colder start made 25 times fewer molecules
+    -- the regression this guards against: the colder start once made 25 times fewer molecules
     T.check(n >= temps.hot, string.format("COND-1 100 nK makes at least as many molecules as 600 nK "
       .. "(%.0f vs %.0f)", n, temps.hot))
   end

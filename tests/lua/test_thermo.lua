@@ -32,7 +32,7 @@ T.near(b.phase_space_density, 2.612375348685488, 1e-14, "thermal PSD below T_c =
 local b2 = cp.thermo.bose { number = 1e5, omega_bar = w, mass = m, temperature = 3 * b.critical_temperature }
 T.check(b2.condensed_fraction == 0 and b2.fugacity < 1, "above T_c: no condensate, z < 1")
 
--- THERMO-L3: inverse from the entropy round-trips (1e-10, the issue's requirement).
+-- THERMO-L3: inverse from the entropy round-trips (1e-10, the accuracy asked of them).
 for _, stat in ipairs { "fermion", "boson" } do
   local s = stat == "fermion" and f.entropy_per_particle or b.entropy_per_particle
   local t0 = stat == "fermion" and f.temperature or b.temperature

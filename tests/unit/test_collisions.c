@@ -205,8 +205,8 @@ static double gamma0(const cp_hold_params *p)
 }
 
 /* COLL-5: the hold against analytic solutions.
- * Fixed T: N(t) = N0 / (1 + N0 K' t), K' = beta / (8 pi^{3/2} sx sy sz) (docs/models/collisions.md,
- * the issue).  With anti-evaporation, solved by hand: dT/dN = -h T/N gives
+ * Fixed T: N(t) = N0 / (1 + N0 K' t), K' = beta / (8 pi^{3/2} sx sy sz)
+ * (docs/models/collisions.md).  With anti-evaporation, solved by hand: dT/dN = -h T/N gives
  * T = T0 (N0/N)^h, and dN/dt = -G0 N0 (N/N0)^2 (T0/T)^{3/2} (T/T0)^p then integrates to
  * N = N0 (1 + c G0 t)^{-1/c} with c = 1 + (3/2 - p) h, G0 = beta <n> at t = 0:
  * s-wave (p = 0, h = 1/4) c = 11/8; p-wave (beta ~ T, p = 1, h = 1/12) c = 25/24.

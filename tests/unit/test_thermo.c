@@ -241,7 +241,7 @@ static void test_bose(void **state)
     assert_rel(lo.entropy_per_particle, 4.0 * gsl_sf_zeta(4.0) / gsl_sf_zeta(3.0), 1e-14);
 }
 
-/* THERMO-7: the inverses round-trip to 1e-10 relative (the issue's requirement):
+/* THERMO-7: the inverses round-trip to 1e-10 relative (the accuracy asked of them):
  * T -> T/T_F -> T, T -> T/T_c -> T and T -> S/N -> T for both statistics. */
 static void test_round_trips(void **state)
 {
