@@ -104,6 +104,12 @@ typedef struct q_order {
     size_t i;
 } q_order;
 
+static int compare_energy(const void *a, const void *b)
+{
+    double x = *(const double *)a, y = *(const double *)b;
+    return (x > y) - (x < y);
+}
+
 static int compare_q(const void *a, const void *b)
 {
     const q_order *x = a, *y = b;
@@ -151,6 +157,12 @@ static cp_status solve(double depth_er, int bands, int size, size_t nq, const do
         }
         double q = order[k].q;
         double *x = energies + order[k].i * (size_t)bands;
+        if (depth_er == 0.0) { /* no lattice: the matrix is diagonal, its entries the energies */
+            cp_lattice_fill_diagonal(depth_er, q, size, diag);
+            qsort(diag, (size_t)size, sizeof *diag, compare_energy);
+            memcpy(x, diag, (size_t)bands * sizeof *x);
+            continue;
+        }
         if (have > 0 && q - qp[0] <= SAME_Q) {
             memcpy(x, prev[0], (size_t)bands * sizeof *x);
             continue;
@@ -201,12 +213,16 @@ cp_status cp_lattice_band_energies(double depth_er, int bands, int basis_size, s
                                             energies_er, basis_used, NULL, INFINITY, err);
 }
 
-/* CPU seconds of one quasimomentum: a few Sturm counts of the size-state basis per band
- * for the seeded Newton steps, and bisection that grows as bands^2 where the seeds fail
- * (crowded high bands); fitted to 1 to 200 bands, sizes 23 to 4001 (docs/api/lattice.md) */
-static double seconds_per_q(int size, int bands)
+/* CPU seconds of one quasimomentum: the seeded Newton sweeps and Sturm counts cost about
+ * size x bands operations; below 1 E_r the band gaps close and more seeds fall back to
+ * bisection (about 1 us more per band).  Fitted on quasimomenta in random order (no
+ * symmetric pairs to share), depths 1e-6 to 1e4 E_r, 5 to 200 bands, sizes 13 to 4001: the
+ * estimate lies 1 to 5 times above the CPU time measured (docs/api/lattice.md).  An empty
+ * lattice (depth 0) is solved by sorting and costs far less. */
+static double seconds_per_q(double depth_er, int size, int bands)
 {
-    return 2e-7 + (double)size * (3e-8 + 2.3e-10 * (double)bands * (double)bands);
+    double shallow = depth_er < 1.0 ? 1e-6 * (double)bands : 0.0;
+    return 2e-7 + (double)size * (3e-8 + 1.6e-8 * (double)bands) + shallow;
 }
 
 cp_status cp_lattice_band_energies_bounded(double depth_er, int bands, int basis_size, size_t nq,
@@ -228,7 +244,7 @@ cp_status cp_lattice_band_energies_bounded(double depth_er, int bands, int basis
     if (st == CP_OK)
         st = prepare(CTX_BANDS, depth_er, bands, basis_size, &size, err);
     if (st == CP_OK) {
-        double per_q = seconds_per_q(size, bands);
+        double per_q = seconds_per_q(depth_er, size, bands);
         char what[96], reduce[96];
         snprintf(what, sizeof what, "%zu quasimomenta x %d bands in a %d-state basis", nq, bands,
                  size);
