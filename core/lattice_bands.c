@@ -27,8 +27,8 @@
 
 static const char *const CTX_BASIS = "lattice basis size";
 static const char *const CTX_BANDS = "lattice.bands"; /* the Lua name (DEVELOPERS.md) */
-static const char *const CTX_SUMMARY = "lattice band summary";
-static const char *const CTX_TUNNEL = "lattice tunnelling";
+static const char *const CTX_SUMMARY = "lattice.bands";
+static const char *const CTX_TUNNEL = "lattice.tunnelling";
 
 double cp_lattice_fold_q(double q)
 {

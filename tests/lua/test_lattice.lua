@@ -223,4 +223,8 @@ local fast = cp.lattice.loading { shape = "linear", end_er = 10, duration = 1e-4
 local slow = cp.lattice.loading { shape = "linear", end_er = 10, duration = 1e-3, mass = KM, wavelength = 1064e-9 }
 T.check(fast.flags[1] == "beyond_first_order" and fast.excited_fraction > 0.05 and #slow.flags == 0,
   "loading: beyond_first_order above 5 % excitation only")
+-- Errors name the Lua function, house wording (DEVELOPERS.md).
+T.raises(function() cp.lattice.tunnelling { depth_er = -1 } end,
+  { "lattice.tunnelling: depth -1 E_r is out of range; allowed [0, 10000] E_r" },
+  "tunnelling: a refused depth names lattice.tunnelling")
 T.done()
