@@ -104,12 +104,6 @@ typedef struct q_order {
     size_t i;
 } q_order;
 
-static int compare_energy(const void *a, const void *b)
-{
-    double x = *(const double *)a, y = *(const double *)b;
-    return (x > y) - (x < y);
-}
-
 static int compare_q(const void *a, const void *b)
 {
     const q_order *x = a, *y = b;
@@ -157,12 +151,6 @@ static cp_status solve(double depth_er, int bands, int size, size_t nq, const do
         }
         double q = order[k].q;
         double *x = energies + order[k].i * (size_t)bands;
-        if (depth_er == 0.0) { /* no lattice: the matrix is diagonal, its entries the energies */
-            cp_lattice_fill_diagonal(depth_er, q, size, diag);
-            qsort(diag, (size_t)size, sizeof *diag, compare_energy);
-            memcpy(x, diag, (size_t)bands * sizeof *x);
-            continue;
-        }
         if (have > 0 && q - qp[0] <= SAME_Q) {
             memcpy(x, prev[0], (size_t)bands * sizeof *x);
             continue;
@@ -218,7 +206,7 @@ cp_status cp_lattice_band_energies(double depth_er, int bands, int basis_size, s
  * bisection (about 1 us more per band).  Fitted on quasimomenta in random order (no
  * symmetric pairs to share), depths 1e-6 to 1e4 E_r, 5 to 200 bands, sizes 13 to 4001: the
  * estimate lies 1 to 5 times above the CPU time measured (docs/api/lattice.md).  An empty
- * lattice (depth 0) is solved by sorting and costs far less. */
+ * lattice (depth 0) is diagonal and costs far less (cp_tridiag_lowest). */
 static double seconds_per_q(double depth_er, int size, int bands)
 {
     double shallow = depth_er < 1.0 ? 1e-6 * (double)bands : 0.0;

@@ -210,9 +210,29 @@ static cp_status isolate_and_refine(const cp_tridiag *t, int k, double lo, doubl
     return CP_ENOCONV;
 }
 
+/* A diagonal matrix (no lattice: every off-diagonal element 0) has its diagonal for
+ * eigenvalues: the m lowest, ascending, by insertion. */
+static void lowest_of_diagonal(const cp_tridiag *t, int m, double *x)
+{
+    int have = 0;
+    for (int i = 0; i < t->n && m > 0; i++) {
+        double d = t->diag[i];
+        if (have == m && d >= x[m - 1])
+            continue;
+        int j = have < m ? have++ : m - 1;
+        for (; j > 0 && x[j - 1] > d; j--)
+            x[j] = x[j - 1];
+        x[j] = d;
+    }
+}
+
 cp_status cp_tridiag_lowest(const cp_tridiag *t, int m, int have_guess, double *x,
                             double *work)
 {
+    if (t->off == 0.0 && t->off_first == 0.0) {
+        lowest_of_diagonal(t, m, x);
+        return CP_OK;
+    }
     if (have_guess && refine_guesses(t, m, x, work))
         return CP_OK;
     /* Gershgorin bounds enclose the whole spectrum. */

@@ -133,38 +133,38 @@ static void push_state(lua_State *L, const cp_thermo_trap *trap, cp_statistics s
     }
 }
 
-static int l_temperature_from_entropy(lua_State *L)
+/* The inverses T(s) and T(e): one per-particle quantity in, the state at T out. */
+typedef cp_status (*temperature_inverse)(const cp_thermo_trap *, cp_statistics, double, double *,
+                                         cp_error *);
+
+static int temperature_from(lua_State *L, const char *fname, const char *const *keys,
+                            const char *key, const char *unit, temperature_inverse inverse)
 {
-    static const char *const keys[] = {TRAP_KEYS, "statistics", "entropy_per_particle", NULL};
-    const char *fname = "thermo.temperature_from_entropy";
     cpl_check_args(L, 1, fname, keys);
     cp_thermo_trap trap;
     read_trap(L, fname, &trap);
     cp_statistics stat = read_statistics(L, fname);
-    double s = cpl_number(L, 1, fname, "entropy_per_particle", "k_B");
+    double value = cpl_number(L, 1, fname, key, unit);
     double t;
     cp_error err;
-    if (cp_thermo_temperature_from_entropy(&trap, stat, s, &t, &err) != CP_OK)
+    if (inverse(&trap, stat, value, &t, &err) != CP_OK)
         return cpl_raise(L, &err);
     push_state(L, &trap, stat, t);
     return 1;
 }
 
+static int l_temperature_from_entropy(lua_State *L)
+{
+    static const char *const keys[] = {TRAP_KEYS, "statistics", "entropy_per_particle", NULL};
+    return temperature_from(L, "thermo.temperature_from_entropy", keys, "entropy_per_particle",
+                            "k_B", cp_thermo_temperature_from_entropy);
+}
+
 static int l_temperature_from_energy(lua_State *L)
 {
     static const char *const keys[] = {TRAP_KEYS, "statistics", "energy_per_particle", NULL};
-    const char *fname = "thermo.temperature_from_energy";
-    cpl_check_args(L, 1, fname, keys);
-    cp_thermo_trap trap;
-    read_trap(L, fname, &trap);
-    cp_statistics stat = read_statistics(L, fname);
-    double e = cpl_number(L, 1, fname, "energy_per_particle", "J");
-    double t;
-    cp_error err;
-    if (cp_thermo_temperature_from_energy(&trap, stat, e, &t, &err) != CP_OK)
-        return cpl_raise(L, &err);
-    push_state(L, &trap, stat, t);
-    return 1;
+    return temperature_from(L, "thermo.temperature_from_energy", keys, "energy_per_particle",
+                            "J", cp_thermo_temperature_from_energy);
 }
 
 static int l_density(lua_State *L)
