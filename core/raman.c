@@ -3,19 +3,17 @@
  * Lambda system plus a sink.  The state is the 3x3 density matrix as 9 reals
  * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population, which is
  * integrated on its own so that trace + lost = 1 is a check of the integrator, not an
- * identity.  The integrator is the Dormand-Prince 5(4) pair of raman_dp.c with absolute
- * error control set from the accuracy asked for, or far off resonance GSL's variable-order
- * BDF (msbdf) with the exact Jacobian and the explicit pair as fallback;
- * docs/models/raman.md explains the choice (measured against GSL's rk8pd, Magnus
- * propagators with exact matrix exponentials and exponential integrators).
+ * identity.  The integrator is the Dormand-Prince 5(4) pair of raman_dp.c near resonance
+ * and the three-stage Gauss-Legendre collocation method of raman_gauss.c away from it, both
+ * with error control set from the accuracy asked for; docs/models/raman.md explains the
+ * choice (measured against GSL's rk8pd and msbdf, Magnus propagators with exact matrix
+ * exponentials, exponential and Rosenbrock integrators).
  */
 #include <math.h>
 
-#include <gsl/gsl_errno.h>
-#include <gsl/gsl_odeiv2.h>
-
 #include "check_int.h"
 #include "raman_dp_int.h"
+#include "raman_gauss_int.h"
 #include "raman_int.h"
 
 #define CTX "raman transfer"
@@ -46,13 +44,22 @@ static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, dou
     return acc * f * f * (0.1 + 20 * damp * damp);
 }
 
-/* Far off resonance (|Delta| above stiff_ratio times the sum of all other rates) the
- * explicit method is limited by stability (steps ~ 5/Delta), so GSL's variable-order BDF
- * (msbdf) is tried first, with its own tolerance (its errors run up to ~40x the tolerance
- * in the tests).  Closer to resonance msbdf was measured to be erratic (BDF orders >= 3 are
- * not stable near the imaginary axis), hence the large ratio. */
-static const double stiff_ratio = 10.0;
-static const double stiff_tolerance_per_accuracy = 1e-2;
+/* Away from resonance the explicit pair is limited by stability (steps ~ 3/|Delta|) and the
+ * collocation method of raman_gauss.c, whose steps follow the slow motion, is cheaper: from
+ * |Delta| above implicit_ratio times the sum of all other rates (the reference case's cost
+ * curves of the two cross near 0.6; docs/models/raman.md). */
+static const double implicit_ratio = 0.6;
+
+/* The tolerance of the collocation method for a final accuracy acc.  Its error estimate is
+ * of order h^4 per unit time while the method's error is of order h^6, so the final error
+ * goes as the tolerance to the power 3/2: tol = 1.5 acc^(2/3), calibrated on 47 cases
+ * (Gaussian and sin^2 pulses, Delta/2pi from 3 MHz to 2 GHz, delta, branching, slow losses,
+ * lossless, strong and long pulses) at accuracies 1e-5 to 1e-9: final error at most 0.23 of
+ * the accuracy (docs/models/raman.md). */
+static double implicit_tolerance(double acc)
+{
+    return 1.5 * pow(acc, 2.0 / 3.0);
+}
 
 /* The constant parts of the generator. */
 typedef struct model {
@@ -115,15 +122,6 @@ static void generator(const model *m, double a, double b, int slow, const double
     dy[9] = (2 * k2 - m->feed1 - m->feed3) * r22 + 2 * k1 * r11 + 2 * k3 * r33;
 }
 
-static int rhs(double t, const double y[], double dy[], void *params)
-{
-    const model *m = params;
-    double op, os;
-    cp_raman_pulses_eval(&m->pulses, t, &op, &os, NULL, NULL);
-    generator(m, op / 2, os / 2, cp_raman_pulses_slow_on(&m->pulses, t), y, dy);
-    return GSL_SUCCESS;
-}
-
 /* The generator as the explicit pair calls it, with the envelopes it computed. */
 static void dp_gen(const void *ctx, double t, double op, double os, const double y[], double dy[])
 {
@@ -131,27 +129,10 @@ static void dp_gen(const void *ctx, double t, double op, double os, const double
     generator(m, op / 2, os / 2, cp_raman_pulses_slow_on(&m->pulses, t), y, dy);
 }
 
-/* The Jacobian for the stiff integrator.  The system is linear, so d f/d y is the generator
- * itself (its columns are the images of unit vectors), and it is affine in the half Rabi
- * frequencies (a, b), so d f/d t = G(a', b') y - G(0, 0) y. */
-static int jacobian(double t, const double y[], double *dfdy, double dfdt[], void *params)
+/* The generator as the collocation method takes it apart into its matrices. */
+static void gen_ab(const void *ctx, double a, double b, int slow, const double y[], double dy[])
 {
-    const model *m = params;
-    double op, os, dop, dos, e[DIM] = {0}, col[DIM], g0[DIM];
-    int slow = cp_raman_pulses_slow_on(&m->pulses, t);
-    cp_raman_pulses_eval(&m->pulses, t, &op, &os, &dop, &dos);
-    for (int j = 0; j < DIM; j++) {
-        e[j] = 1.0;
-        generator(m, op / 2, os / 2, slow, e, col);
-        e[j] = 0.0;
-        for (int i = 0; i < DIM; i++)
-            dfdy[i * DIM + j] = col[i];
-    }
-    generator(m, dop / 2, dos / 2, slow, y, dfdt);
-    generator(m, 0.0, 0.0, slow, y, g0);
-    for (int i = 0; i < DIM; i++)
-        dfdt[i] -= g0[i];
-    return GSL_SUCCESS;
+    generator(ctx, a, b, slow, y, dy);
 }
 
 /* State index of each trace column after the time (see the layout above). */
@@ -179,31 +160,28 @@ static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
             tr->column[c][i] = population(y, trace_index[c]);
 }
 
-/* One of the two integrators: GSL's driver (msbdf) or the explicit pair of raman_dp.c. */
+/* One of the two integrators: the explicit pair of raman_dp.c or the collocation method of
+ * raman_gauss.c. */
 typedef struct stepper {
-    gsl_odeiv2_driver *drv;
     cp_raman_dp *dp;
+    cp_raman_gauss *gauss;
 } stepper;
 
 static void set_hmax(stepper *s, double hmax)
 {
-    if (s->drv)
-        gsl_odeiv2_driver_set_hmax(s->drv, hmax);
+    if (s->gauss)
+        s->gauss->hmax = hmax;
     else
         s->dp->hmax = hmax;
 }
 
 static cp_status advance(stepper *s, double *t, double t1, double *y, cp_error *err)
 {
-    if (s->drv) {
-        int st = gsl_odeiv2_driver_apply(s->drv, t, t1, y);
-        if (st != GSL_SUCCESS)
-            return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (%s)",
-                           *t, gsl_strerror(st));
-    } else if (cp_raman_dp_apply(s->dp, t, t1, y) != 0) {
+    int st = s->gauss ? cp_raman_gauss_apply(s->gauss, t, t1, y)
+                      : cp_raman_dp_apply(s->dp, t, t1, y);
+    if (st != 0)
         return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (step "
                        "size too small)", *t);
-    }
     return CP_OK;
 }
 
@@ -276,49 +254,43 @@ static void fill_result(const double *y, cp_raman_result *res)
     res->lost = population(y, 9);
 }
 
-/* Run the forward sequence (and the return trip) with msbdf (nmax bounds the steps per
- * segment) or, if type is NULL, with the explicit pair.  Fills the propagation part of res. */
-static cp_status integrate(model *m, const gsl_odeiv2_step_type *type, double tol, size_t nmax,
-                           int round_trip, cp_raman_result *res, cp_raman_trace *trace,
-                           cp_error *err)
+/* Start (or restart, for the return trip) the chosen integrator on the pulses of m. */
+static void start(stepper *s, model *m, const cp_raman_affine *affine, double tol)
 {
-    gsl_odeiv2_system sys = {rhs, jacobian, DIM, m};
     double hstart = cp_raman_pulses_hstart(&m->pulses);
+    if (s->gauss)
+        cp_raman_gauss_init(s->gauss, &m->pulses, affine, tol, hstart);
+    else
+        cp_raman_dp_init(s->dp, &m->pulses, dp_gen, m, tol, hstart,
+                         3.2 / constant_rate(m->pulses.p));
+}
+
+/* Run the forward sequence (and the return trip) with the collocation method (implicit) or
+ * the explicit pair.  Fills the propagation part of res. */
+static cp_status integrate(model *m, int implicit, double tol, int round_trip,
+                           cp_raman_result *res, cp_raman_trace *trace, cp_error *err)
+{
     cp_raman_dp dp;
-    double hstab = 3.2 / constant_rate(m->pulses.p);
-    stepper s = {NULL, NULL};
-    if (type) {
-        s.drv = gsl_odeiv2_driver_alloc_y_new(&sys, type, hstart, tol, 0.0);
-        if (!s.drv)
-            return cp_fail(err, CP_ENOMEM, CTX ": out of memory for the integrator");
-        if (nmax)
-            gsl_odeiv2_driver_set_nmax(s.drv, nmax);
-    } else {
-        s.dp = &dp;
-    }
+    cp_raman_gauss gauss;
+    cp_raman_affine affine;
+    stepper s = {implicit ? NULL : &dp, implicit ? &gauss : NULL};
+    if (implicit)
+        cp_raman_affine_init(&affine, gen_ab, m);
     double y[DIM] = {1.0};
     m->pulses.reversed = 0;
-    if (s.dp)
-        cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab);
+    start(&s, m, &affine, tol);
     cp_status st = propagate(&s, &m->pulses, y, trace, err);
     if (st == CP_OK) {
         fill_result(y, res);
-        res->steps = s.drv ? s.drv->e->count : dp.steps;
+        res->steps = implicit ? gauss.steps : dp.steps;
     }
     if (st == CP_OK && round_trip) {
         /* the return trip: the same pulses reversed in time, from the final state */
         m->pulses.reversed = 1;
-        if (s.drv) {
-            gsl_odeiv2_driver_reset(s.drv);
-            gsl_odeiv2_driver_reset_hstart(s.drv, hstart);
-        } else {
-            cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab);
-        }
+        start(&s, m, &affine, tol);
         st = propagate(&s, &m->pulses, y, NULL, err);
         res->round_trip_efficiency = y[0];
     }
-    if (s.drv)
-        gsl_odeiv2_driver_free(s.drv);
     return st;
 }
 
@@ -340,20 +312,13 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     CP_TRY(cp_raman_pulses_init(&m.pulses, p, err));
     model_init(&m, p);
 
-    cp_status st = CP_ENUMERIC;
-    double window = m.pulses.t_end - m.pulses.t_start;
-    if (fabs(p->detuning) > stiff_ratio * m.pulses.other_rate) {
-        /* far off resonance: a stiff solver with a step budget per segment (there are
-         * usually three) of about a tenth of what the explicit pair needs (|Delta| window /
-         * 3.2); if it fails or runs over, the explicit pair below does the job */
-        double budget = fmax(1000.0, fabs(p->detuning) * window / 30);
-        st = integrate(&m, gsl_odeiv2_step_msbdf, stiff_tolerance_per_accuracy * acc,
-                       (size_t)budget, round_trip, res, trace, err);
-        res->integrator = "msbdf";
-    }
-    if (st == CP_ENUMERIC) {
-        st = integrate(&m, NULL, tolerance(acc, &m.pulses, p->gamma, constant_rate(p)), 0,
-                       round_trip, res, trace, err);
+    cp_status st;
+    if (fabs(p->detuning) > implicit_ratio * m.pulses.other_rate) {
+        st = integrate(&m, 1, implicit_tolerance(acc), round_trip, res, trace, err);
+        res->integrator = "gauss-legendre";
+    } else {
+        st = integrate(&m, 0, tolerance(acc, &m.pulses, p->gamma, constant_rate(p)), round_trip,
+                       res, trace, err);
         res->integrator = "dopri5";
     }
     if (st == CP_OK) {
