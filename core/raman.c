@@ -3,11 +3,11 @@
  * Lambda system plus a sink.  The state is the 3x3 density matrix as 9 reals
  * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population, which is
  * integrated on its own so that trace + lost = 1 is a check of the integrator, not an
- * identity.  The integrator is the Dormand-Prince 5(4) pair of raman_dp.c with absolute
- * error control set from the accuracy asked for, or far off resonance GSL's variable-order
- * BDF (msbdf) with the exact Jacobian and the explicit pair as fallback;
- * docs/models/raman.md explains the choice (measured against GSL's rk8pd, Magnus
- * propagators with exact matrix exponentials and exponential integrators).
+ * identity; the generator is in raman_gen_int.h.  The integrator is the Dormand-Prince
+ * 5(4) pair of raman_dp.c with absolute error control set from the accuracy asked for, or
+ * far off resonance GSL's variable-order BDF (msbdf) with the exact Jacobian and the explicit
+ * pair as fallback; docs/models/raman.md explains the choice (measured against GSL's rk8pd,
+ * Magnus propagators with exact matrix exponentials and exponential integrators).
  */
 #include <math.h>
 
@@ -54,16 +54,7 @@ static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, dou
 static const double stiff_ratio = 10.0;
 static const double stiff_tolerance_per_accuracy = 1e-2;
 
-/* The constant parts of the generator. */
-typedef struct model {
-    cp_raman_pulses pulses;
-    double delta_1, delta_2; /* one- and two-photon detuning, rad/s */
-    double k[3];             /* decay of the amplitudes: gamma_1/2, gamma/2, gamma_3/2 */
-    double feed1, feed3;     /* rate into |1>, |3> from rho_22 (branching) */
-    double kappa12, kappa13, kappa23; /* dephasing of the coherences, 1/s */
-} model;
-
-static void model_init(model *m, const cp_raman_params *p)
+static void model_init(cp_raman_model *m, const cp_raman_params *p)
 {
     m->delta_1 = p->detuning;
     m->delta_2 = p->two_photon_detuning;
@@ -89,46 +80,14 @@ static void model_init(model *m, const cp_raman_params *p)
     }
 }
 
-/* d rho/dt = -i [H, rho] - {K, rho} + feeding from rho_22 - kappa o rho (off-diagonal),
- * written out for rho = R + iJ (R symmetric, J antisymmetric) and H real symmetric:
- * dR/dt = [H, J] and dJ/dt = -[H, R] for the coherent part. */
-static void generator(const model *m, double a, double b, int slow, const double y[],
-                      double dy[])
-{
-    const double e2 = -m->delta_1, e3 = -m->delta_2;
-    const double r11 = y[0], r22 = y[1], r33 = y[2];
-    const double x12 = y[3], j12 = y[4], x13 = y[5], j13 = y[6], x23 = y[7], j23 = y[8];
-    /* the slow losses act only over the transfer duration (slow = 1) */
-    const double k1 = slow ? m->k[0] : 0.0, k2 = m->k[1], k3 = slow ? m->k[2] : 0.0;
-    dy[0] = -2 * a * j12 - 2 * k1 * r11 + m->feed1 * r22;
-    dy[1] = 2 * (a * j12 - b * j23) - 2 * k2 * r22;
-    dy[2] = 2 * b * j23 - 2 * k3 * r33 + m->feed3 * r22;
-    const double g12 = k1 + k2 + m->kappa12, g13 = k1 + k3 + m->kappa13,
-                 g23 = k2 + k3 + m->kappa23;
-    dy[3] = -e2 * j12 - b * j13 - g12 * x12;
-    dy[4] = a * (r11 - r22) + e2 * x12 + b * x13 - g12 * j12;
-    dy[5] = a * j23 - b * j12 - e3 * j13 - g13 * x13;
-    dy[6] = b * x12 + e3 * x13 - a * x23 - g13 * j13;
-    dy[7] = a * j13 + (e2 - e3) * j23 - g23 * x23;
-    dy[8] = b * (r22 - r33) + (e3 - e2) * x23 - a * x13 - g23 * j23;
-    /* the sink: what leaves |2> other than by branching, and the slow losses */
-    dy[9] = (2 * k2 - m->feed1 - m->feed3) * r22 + 2 * k1 * r11 + 2 * k3 * r33;
-}
-
 static int rhs(double t, const double y[], double dy[], void *params)
 {
-    const model *m = params;
+    const cp_raman_model *m = params;
     double op, os;
     cp_raman_pulses_eval(&m->pulses, t, &op, &os, NULL, NULL);
-    generator(m, op / 2, os / 2, cp_raman_pulses_slow_on(&m->pulses, t), y, dy);
+    cp_raman_rates c = cp_raman_rates_of(m, cp_raman_pulses_slow_on(&m->pulses, t));
+    cp_raman_generator(&c, op / 2, os / 2, y, dy);
     return GSL_SUCCESS;
-}
-
-/* The generator as the explicit pair calls it, with the envelopes it computed. */
-static void dp_gen(const void *ctx, double t, double op, double os, const double y[], double dy[])
-{
-    const model *m = ctx;
-    generator(m, op / 2, os / 2, cp_raman_pulses_slow_on(&m->pulses, t), y, dy);
 }
 
 /* The Jacobian for the stiff integrator.  The system is linear, so d f/d y is the generator
@@ -136,19 +95,19 @@ static void dp_gen(const void *ctx, double t, double op, double os, const double
  * frequencies (a, b), so d f/d t = G(a', b') y - G(0, 0) y. */
 static int jacobian(double t, const double y[], double *dfdy, double dfdt[], void *params)
 {
-    const model *m = params;
+    const cp_raman_model *m = params;
     double op, os, dop, dos, e[DIM] = {0}, col[DIM], g0[DIM];
-    int slow = cp_raman_pulses_slow_on(&m->pulses, t);
+    cp_raman_rates c = cp_raman_rates_of(m, cp_raman_pulses_slow_on(&m->pulses, t));
     cp_raman_pulses_eval(&m->pulses, t, &op, &os, &dop, &dos);
     for (int j = 0; j < DIM; j++) {
         e[j] = 1.0;
-        generator(m, op / 2, os / 2, slow, e, col);
+        cp_raman_generator(&c, op / 2, os / 2, e, col);
         e[j] = 0.0;
         for (int i = 0; i < DIM; i++)
             dfdy[i * DIM + j] = col[i];
     }
-    generator(m, dop / 2, dos / 2, slow, y, dfdt);
-    generator(m, 0.0, 0.0, slow, y, g0);
+    cp_raman_generator(&c, dop / 2, dos / 2, y, dfdt);
+    cp_raman_generator(&c, 0.0, 0.0, y, g0);
     for (int i = 0; i < DIM; i++)
         dfdt[i] -= g0[i];
     return GSL_SUCCESS;
@@ -278,9 +237,9 @@ static void fill_result(const double *y, cp_raman_result *res)
 
 /* Run the forward sequence (and the return trip) with msbdf (nmax bounds the steps per
  * segment) or, if type is NULL, with the explicit pair.  Fills the propagation part of res. */
-static cp_status integrate(model *m, const gsl_odeiv2_step_type *type, double tol, size_t nmax,
-                           int round_trip, cp_raman_result *res, cp_raman_trace *trace,
-                           cp_error *err)
+static cp_status integrate(cp_raman_model *m, const gsl_odeiv2_step_type *type, double tol,
+                           size_t nmax, int round_trip, cp_raman_result *res,
+                           cp_raman_trace *trace, cp_error *err)
 {
     gsl_odeiv2_system sys = {rhs, jacobian, DIM, m};
     double hstart = cp_raman_pulses_hstart(&m->pulses);
@@ -299,7 +258,7 @@ static cp_status integrate(model *m, const gsl_odeiv2_step_type *type, double to
     double y[DIM] = {1.0};
     m->pulses.reversed = 0;
     if (s.dp)
-        cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab);
+        cp_raman_dp_init(&dp, m, tol, hstart, hstab);
     cp_status st = propagate(&s, &m->pulses, y, trace, err);
     if (st == CP_OK) {
         fill_result(y, res);
@@ -312,7 +271,7 @@ static cp_status integrate(model *m, const gsl_odeiv2_step_type *type, double to
             gsl_odeiv2_driver_reset(s.drv);
             gsl_odeiv2_driver_reset_hstart(s.drv, hstart);
         } else {
-            cp_raman_dp_init(&dp, &m->pulses, dp_gen, m, tol, hstart, hstab);
+            cp_raman_dp_init(&dp, m, tol, hstart, hstab);
         }
         st = propagate(&s, &m->pulses, y, NULL, err);
         res->round_trip_efficiency = y[0];
@@ -336,7 +295,7 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
                        "%zu", trace->n, max_trace);
     double acc = p->accuracy == 0.0 ? 1e-8 : p->accuracy;
     CP_TRY(cp_check_range(err, CTX, "accuracy", acc, "", 1e-12, 1e-3, CP_CLOSED));
-    model m;
+    cp_raman_model m;
     CP_TRY(cp_raman_pulses_init(&m.pulses, p, err));
     model_init(&m, p);
 
