@@ -1,13 +1,14 @@
 /*
  * Raman model: propagation of the Lindblad master equation of docs/models/raman.md for the
  * Lambda system plus a sink.  The state is the 3x3 density matrix as 9 reals
- * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population, which is
- * integrated on its own so that trace + lost = 1 is a check of the integrator, not an
- * identity; the generator is in raman_gen_int.h.  The integrator is the Dormand-Prince
- * 5(4) pair of raman_dp.c with absolute error control set from the accuracy asked for, or
- * far off resonance GSL's variable-order BDF (msbdf) with the exact Jacobian and the explicit
- * pair as fallback; docs/models/raman.md explains the choice (measured against GSL's rk8pd,
- * Magnus propagators with exact matrix exponentials and exponential integrators).
+ * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population (in the
+ * order of raman_gen_int.h, which also holds the generator), which is integrated on its own
+ * so that trace + lost = 1 is a check of the integrator, not an identity.  The integrator is
+ * the Dormand-Prince 5(4) pair of raman_dp.c with absolute error control set from the
+ * accuracy asked for, or far off resonance GSL's variable-order BDF (msbdf) with the exact
+ * Jacobian and the explicit pair as fallback; docs/models/raman.md explains the choice
+ * (measured against GSL's rk8pd, Magnus propagators with exact matrix exponentials and
+ * exponential integrators).
  */
 #include <math.h>
 
@@ -113,20 +114,21 @@ static int jacobian(double t, const double y[], double *dfdy, double dfdt[], voi
     return GSL_SUCCESS;
 }
 
-/* State index of each trace column after the time (see the layout above). */
+/* State index of each trace column after the time (raman_gen_int.h). */
 static const int trace_index[CP_RAMAN_TRACE_COLUMNS] = {
-    [CP_RAMAN_TRACE_INITIAL] = 0, [CP_RAMAN_TRACE_EXCITED] = 1, [CP_RAMAN_TRACE_TARGET] = 2,
-    [CP_RAMAN_TRACE_LOST] = 9,    [CP_RAMAN_TRACE_RE12] = 3,    [CP_RAMAN_TRACE_IM12] = 4,
-    [CP_RAMAN_TRACE_RE13] = 5,    [CP_RAMAN_TRACE_IM13] = 6,    [CP_RAMAN_TRACE_RE23] = 7,
-    [CP_RAMAN_TRACE_IM23] = 8};
+    [CP_RAMAN_TRACE_INITIAL] = CP_RAMAN_R11, [CP_RAMAN_TRACE_EXCITED] = CP_RAMAN_R22,
+    [CP_RAMAN_TRACE_TARGET] = CP_RAMAN_R33,  [CP_RAMAN_TRACE_LOST] = CP_RAMAN_LOST,
+    [CP_RAMAN_TRACE_RE12] = CP_RAMAN_X12,    [CP_RAMAN_TRACE_IM12] = CP_RAMAN_J12,
+    [CP_RAMAN_TRACE_RE13] = CP_RAMAN_X13,    [CP_RAMAN_TRACE_IM13] = CP_RAMAN_J13,
+    [CP_RAMAN_TRACE_RE23] = CP_RAMAN_X23,    [CP_RAMAN_TRACE_IM23] = CP_RAMAN_J23};
 
-/* A population (y index 0, 1, 2 or 9) as reported: the integration leaves it within its
- * accuracy of the physical range, by ~1e-10 below 0 or above 1 at the default accuracy; the
- * reported value is clipped to [0, 1] so that no population is negative. */
+/* A population (y index CP_RAMAN_R11 to CP_RAMAN_LOST) as reported: the integration leaves
+ * it within its accuracy of the physical range, by ~1e-10 below 0 or above 1 at the default
+ * accuracy; the reported value is clipped to [0, 1] so that no population is negative. */
 static double population(const double *y, int index)
 {
     double v = y[index];
-    return (index <= 2 || index == 9) ? fmin(1.0, fmax(0.0, v)) : v;
+    return index <= CP_RAMAN_LOST ? fmin(1.0, fmax(0.0, v)) : v;
 }
 
 static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
@@ -222,17 +224,19 @@ static void poison(cp_raman_result *res, cp_raman_trace *tr)
 static void fill_result(const double *y, cp_raman_result *res)
 {
     /* rho_ij = R_ij + i J_ij, J antisymmetric */
-    const double re[3][3] = {{y[0], y[3], y[5]}, {y[3], y[1], y[7]}, {y[5], y[7], y[2]}};
-    const double im[3][3] = {{0, y[4], y[6]}, {-y[4], 0, y[8]}, {-y[6], -y[8], 0}};
+    const double x12 = y[CP_RAMAN_X12], x13 = y[CP_RAMAN_X13], x23 = y[CP_RAMAN_X23];
+    const double j12 = y[CP_RAMAN_J12], j13 = y[CP_RAMAN_J13], j23 = y[CP_RAMAN_J23];
+    const double re[3][3] = {{0, x12, x13}, {x12, 0, x23}, {x13, x23, 0}};
+    const double im[3][3] = {{0, j12, j13}, {-j12, 0, j23}, {-j13, -j23, 0}};
     for (int i = 0; i < 3; i++) {
-        res->populations[i] = population(y, i);
+        res->populations[i] = population(y, CP_RAMAN_R11 + i);
         for (int j = 0; j < 3; j++) {
-            res->rho[i][j][0] = i == j ? population(y, i) : re[i][j];
+            res->rho[i][j][0] = i == j ? res->populations[i] : re[i][j];
             res->rho[i][j][1] = im[i][j];
         }
     }
-    res->efficiency = population(y, 2);
-    res->lost = population(y, 9);
+    res->efficiency = population(y, CP_RAMAN_R33);
+    res->lost = population(y, CP_RAMAN_LOST);
 }
 
 /* Run the forward sequence (and the return trip) with msbdf (nmax bounds the steps per
@@ -255,7 +259,7 @@ static cp_status integrate(cp_raman_model *m, const gsl_odeiv2_step_type *type, 
     } else {
         s.dp = &dp;
     }
-    double y[DIM] = {1.0};
+    double y[DIM] = {[CP_RAMAN_R11] = 1.0};
     m->pulses.reversed = 0;
     if (s.dp)
         cp_raman_dp_init(&dp, m, tol, hstart, hstab);
@@ -274,7 +278,7 @@ static cp_status integrate(cp_raman_model *m, const gsl_odeiv2_step_type *type, 
             cp_raman_dp_init(&dp, m, tol, hstart, hstab);
         }
         st = propagate(&s, &m->pulses, y, NULL, err);
-        res->round_trip_efficiency = y[0];
+        res->round_trip_efficiency = y[CP_RAMAN_R11];
     }
     if (s.drv)
         gsl_odeiv2_driver_free(s.drv);

@@ -143,16 +143,14 @@ static void rec_advance(cp_raman_dp *s)
         s->rec_ok = 0;
 }
 
-/* The ten reals as five pairs for the stage arithmetic: GCC's and Clang's vector extension
- * (SSE2 on x86-64, present on every such machine).  Written as plain loops over ten doubles
- * the stages were compiled to scalar code (GCC 12 at -O3 unrolls them, keeps the arrays in
- * registers and then finds nothing to vectorise); as pairs they take 0.63 M instead of
- * 0.79 M instructions per transfer of the reference case, and 55 instead of 73 us. */
-typedef double pair __attribute__((vector_size(2 * sizeof(double))));
-enum { PAIRS = CP_RAMAN_DIM / 2 };
+/* The state as five pairs (raman_gen_int.h) or ten doubles.  Written as loops over ten
+ * doubles, the stages were compiled to scalar code (GCC 12 at -O3 unrolls them, keeps the
+ * arrays in registers and then finds nothing to vectorise); as pairs, and with the generator
+ * working on pairs too, a transfer of the reference case takes 0.56 M instead of 0.79 M
+ * instructions (docs/models/raman.md, "Performance"). */
 typedef union state {
-    double d[CP_RAMAN_DIM]; /* the generator's view */
-    pair v[PAIRS];
+    double d[CP_RAMAN_DIM];
+    cp_raman_pair v[CP_RAMAN_PAIRS];
 } state;
 
 /* One trial step of length h from (t, y) with the first stage k1 and the generator's rates
@@ -163,34 +161,34 @@ static double try_step(const cp_raman_dp *s, const cp_raman_rates *c, double t, 
 {
     state k2, k3, k4, k5, k6, z, e;
     double a, b;
-    for (int j = 0; j < PAIRS; j++)
+    for (int j = 0; j < CP_RAMAN_PAIRS; j++)
         z.v[j] = y->v[j] + h * a21 * k1->v[j];
     envelopes(s, 0, t, h, &a, &b);
-    cp_raman_generator(c, a, b, z.d, k2.d);
-    for (int j = 0; j < PAIRS; j++)
+    cp_raman_generator_pairs(c, a, b, z.v, k2.v);
+    for (int j = 0; j < CP_RAMAN_PAIRS; j++)
         z.v[j] = y->v[j] + h * (a31 * k1->v[j] + a32 * k2.v[j]);
     envelopes(s, 1, t, h, &a, &b);
-    cp_raman_generator(c, a, b, z.d, k3.d);
-    for (int j = 0; j < PAIRS; j++)
+    cp_raman_generator_pairs(c, a, b, z.v, k3.v);
+    for (int j = 0; j < CP_RAMAN_PAIRS; j++)
         z.v[j] = y->v[j] + h * (a41 * k1->v[j] + a42 * k2.v[j] + a43 * k3.v[j]);
     envelopes(s, 2, t, h, &a, &b);
-    cp_raman_generator(c, a, b, z.d, k4.d);
-    for (int j = 0; j < PAIRS; j++)
+    cp_raman_generator_pairs(c, a, b, z.v, k4.v);
+    for (int j = 0; j < CP_RAMAN_PAIRS; j++)
         z.v[j] = y->v[j] + h * (a51 * k1->v[j] + a52 * k2.v[j] + a53 * k3.v[j] +
                                 a54 * k4.v[j]);
     envelopes(s, 3, t, h, &a, &b);
-    cp_raman_generator(c, a, b, z.d, k5.d);
-    for (int j = 0; j < PAIRS; j++)
+    cp_raman_generator_pairs(c, a, b, z.v, k5.v);
+    for (int j = 0; j < CP_RAMAN_PAIRS; j++)
         z.v[j] = y->v[j] + h * (a61 * k1->v[j] + a62 * k2.v[j] + a63 * k3.v[j] +
                                 a64 * k4.v[j] + a65 * k5.v[j]);
     envelopes(s, 4, t, h, &a, &b);
-    cp_raman_generator(c, a, b, z.d, k6.d);
-    for (int j = 0; j < PAIRS; j++)
+    cp_raman_generator_pairs(c, a, b, z.v, k6.v);
+    for (int j = 0; j < CP_RAMAN_PAIRS; j++)
         ynew->v[j] = y->v[j] + h * (b1 * k1->v[j] + b3 * k3.v[j] + b4 * k4.v[j] +
                                     b5 * k5.v[j] + b6 * k6.v[j]);
     /* the node-1 envelopes serve the last stage and the next step's first */
-    cp_raman_generator(c, a, b, ynew->d, dy7->d);
-    for (int j = 0; j < PAIRS; j++)
+    cp_raman_generator_pairs(c, a, b, ynew->v, dy7->v);
+    for (int j = 0; j < CP_RAMAN_PAIRS; j++)
         e.v[j] = e1 * k1->v[j] + e3 * k3.v[j] + e4 * k4.v[j] + e5 * k5.v[j] + e6 * k6.v[j] +
                  e7 * dy7->v[j];
     double err = 0.0;
@@ -213,7 +211,7 @@ int cp_raman_dp_apply(cp_raman_dp *s, double *t, double t1, double y_out[])
     const cp_raman_rates c =
         cp_raman_rates_of(s->m, cp_raman_pulses_slow_on(s->pl, 0.5 * (*t + t1)));
     half_envelopes(s->pl, *t, &a, &b);
-    cp_raman_generator(&c, a, b, y.d, k1.d);
+    cp_raman_generator_pairs(&c, a, b, y.v, k1.v);
     int status = 0;
     while (*t < t1) {
         double h = smaller(smaller(s->h, s->hmax), s->hstab), left = t1 - *t;

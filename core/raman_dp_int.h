@@ -37,8 +37,8 @@ typedef struct cp_raman_dp {
 } cp_raman_dp;
 
 /* Set up s for the model m (its pulses and generator, raman_gen_int.h); tol as above, hstart
- * the first step (s), hstab a bound on every step (s): 3.2 over the largest decay or rotation rate of
- * the constant part of the generator keeps the pair inside its stability region (its
+ * the first step (s), hstab a bound on every step (s): 3.2 over the largest decay or rotation
+ * rate of the constant part of the generator keeps the pair inside its stability region (its
  * boundary is near 3.3 on the real axis), so that the controller does not hover at the edge
  * of stability, where its error estimate is unreliable.  The number of steps grows with the
  * phase (limited by cp_raman_pulses_init) and the accuracy: 1e7 steps (1.3 s) were measured
