@@ -55,22 +55,6 @@ void cp_raman_dp_init(cp_raman_dp *s, const cp_raman_model *m, double tol, doubl
                        .hmax = INFINITY};
 }
 
-/* Set up the recurrence of one pulse of peak Rabi frequency rabi centred at tc for a step from
- * pulse time u of length du (both already mirrored for the reversed sequence); 0 if it must
- * be evaluated directly. */
-static int rec_start(cp_raman_gauss_rec *g, double rabi, double tc, double w, double u,
-                     double du)
-{
-    double x = (u - tc) / w, d = du / w;
-    if (!(fabs(x) <= rec_xmax && fabs(x + d) <= rec_xmax && fabs(x * d) <= rec_xmax))
-        return 0;
-    g->x = x;
-    g->e = rabi / 2 * exp(-x * x);
-    for (int i = 0; i < 5; i++)
-        g->p[i] = exp(-2 * x * node[i] * d);
-    return 1;
-}
-
 /* min(a, b) for numbers (fmin is a library call where NaN must be handled) */
 static double smaller(double a, double b)
 {
@@ -86,20 +70,25 @@ static void rec_prepare(cp_raman_dp *s, double t, double h)
     const cp_raman_params *p = s->pl->p;
     if (p->shape != CP_RAMAN_GAUSSIAN)
         return;
-    double sign = s->pl->reversed ? -1.0 : 1.0, u = sign * t, du = sign * h, w = p->width;
-    if (!rec_start(&s->pump, p->rabi_pump, p->delay / 2, w, u, du) ||
-        !rec_start(&s->stokes, p->rabi_stokes, -p->delay / 2, w, u, du))
+    /* pulse time and step, mirrored for the reversed sequence */
+    double sign = s->pl->reversed ? -1.0 : 1.0, w = p->width, d = sign * h / w;
+    double xp = (sign * t - p->delay / 2) / w, xs = (sign * t + p->delay / 2) / w;
+    double xmax = fmax(fabs(xp), fabs(xs)), ad = fabs(d);
+    if (!(xmax + ad <= rec_xmax && xmax * ad <= rec_xmax))
         return;
-    double d2 = (h / w) * (h / w);
+    s->e = (cp_raman_pair){p->rabi_pump / 2 * exp(-xp * xp), p->rabi_stokes / 2 * exp(-xs * xs)};
+    for (int i = 0; i < 5; i++)
+        s->p[i] = (cp_raman_pair){exp(-2 * xp * node[i] * d), exp(-2 * xs * node[i] * d)};
     for (int i = 0; i < 5; i++) {
-        s->k[i] = exp(-node[i] * node[i] * d2);
-        s->q[i] = exp(-2 * node[i] * d2);
+        s->k[i] = exp(-node[i] * node[i] * d * d);
+        s->q[i] = exp(-2 * node[i] * d * d);
     }
+    /* the step starting at x + n d has |x + n d| + |d| <= rec_xmax for n up to this */
+    double n = (rec_xmax - ad - xmax) / ad;
+    s->rec_left = n < (double)(rec_anchor - 1) ? 1 + (size_t)n : rec_anchor;
     s->rec_ok = 1;
-    s->rec_steps = 0;
     s->hrec = h;
     s->trec = t;
-    s->drec = du / w;
 }
 
 /* Half the envelopes (the generator's a, b) at time t. */
@@ -115,31 +104,25 @@ static void half_envelopes(const cp_raman_pulses *pl, double t, double *a, doubl
 static void envelopes(const cp_raman_dp *s, int i, double t, double h, double *a, double *b)
 {
     if (s->rec_ok) {
-        *a = s->pump.e * s->pump.p[i] * s->k[i];
-        *b = s->stokes.e * s->stokes.p[i] * s->k[i];
+        cp_raman_pair ab = s->e * s->p[i] * s->k[i];
+        *a = ab[0];
+        *b = ab[1];
     } else {
         half_envelopes(s->pl, t + node[i] * h, a, b);
     }
 }
 
-/* Move the recurrence on by one accepted step. */
+/* Move the recurrence on by one accepted step; when it has served its steps (range or
+ * count), the next step re-anchors it (or goes direct). */
 static void rec_advance(cp_raman_dp *s)
 {
     if (!s->rec_ok)
         return;
-    s->pump.e *= s->pump.p[4] * s->k[4];
-    s->stokes.e *= s->stokes.p[4] * s->k[4];
-    for (int i = 0; i < 5; i++) {
-        s->pump.p[i] *= s->q[i];
-        s->stokes.p[i] *= s->q[i];
-    }
+    s->e *= s->p[4] * s->k[4];
+    for (int i = 0; i < 5; i++)
+        s->p[i] *= s->q[i];
     s->trec += s->hrec;
-    s->pump.x += s->drec;
-    s->stokes.x += s->drec;
-    /* x left the range where the recurrence is safe: re-anchor (or go direct) next step */
-    double d = fabs(s->drec);
-    if (fabs(s->pump.x) + d > rec_xmax || fabs(s->stokes.x) + d > rec_xmax ||
-        ++s->rec_steps >= rec_anchor)
+    if (--s->rec_left == 0)
         s->rec_ok = 0;
 }
 
@@ -230,12 +213,13 @@ int cp_raman_dp_apply(cp_raman_dp *s, double *t, double t1, double y_out[])
     half_envelopes(s->pl, *t, &a, &b);
     cp_raman_generator_pairs(&c, a, b, y.v, k1.v);
     int status = 0;
+    const double hmin = 1e-14 * fmax(fabs(*t), fabs(t1)); /* below it: underflow */
     while (*t < t1) {
         double h = smaller(smaller(s->h, s->hmax), s->hstab), left = t1 - *t;
         int last = h >= left;
         if (last)
             h = left;
-        if (!(h > 1e-14 * fmax(fabs(*t), fabs(t1))) && !last) {
+        if (!(h > hmin) && !last) {
             status = -1;
             break;
         }

@@ -11,13 +11,6 @@
 
 #include "raman_gen_int.h"
 
-/* One Gaussian envelope at the nodes of the current step (see raman_dp.c). */
-typedef struct cp_raman_gauss_rec {
-    double x;        /* (t - tc) / width at the start of the step */
-    double e;        /* half the envelope there, rad/s */
-    double p[5];     /* exp(-2 x c d) for the nodes c of the pair */
-} cp_raman_gauss_rec;
-
 /* State of the propagator between calls (on the caller's stack; no allocation). */
 typedef struct cp_raman_dp {
     const cp_raman_model *m;
@@ -27,13 +20,14 @@ typedef struct cp_raman_dp {
     double hmax;    /* largest step, s (set per segment by the caller) */
     double hstab;   /* stability bound on the step, s */
     size_t steps;   /* accepted steps */
-    /* envelope recurrence for Gaussian pulses, valid for step size hrec from time trec */
+    /* envelope recurrence for Gaussian pulses (raman_dp.c), valid for step size hrec from
+     * time trec, for pump and Stokes as one pair */
     int rec_ok;
-    size_t rec_steps; /* steps since the recurrence was anchored */
+    size_t rec_left;     /* steps it still serves, this one included */
     double hrec, trec;
-    double drec;       /* hrec / width, mirrored for the reversed sequence */
-    double k[5], q[5]; /* exp(-c^2 d^2), exp(-2 c d^2), d = step / width */
-    cp_raman_gauss_rec pump, stokes;
+    cp_raman_pair e;     /* half the envelopes at the start of the step, rad/s */
+    cp_raman_pair p[5];  /* exp(-2 x c d) for the nodes c of the pair, x = (t - tc) / width */
+    double k[5], q[5];   /* exp(-c^2 d^2), exp(-2 c d^2), d = step / width */
 } cp_raman_dp;
 
 /* Set up s for the model m (its pulses and generator, raman_gen_int.h); tol as above, hstart
