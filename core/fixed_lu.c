@@ -11,6 +11,7 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_linalg.h>
 
+#include "clones_int.h"
 #include "fixed_lu_int.h"
 
 static int popcount(uint32_t v)
@@ -75,150 +76,131 @@ void cp_fixed_lu_plan(cp_fixed_lu *f, int n, const uint16_t pattern[])
     }
     f->first[n] = (uint16_t)nb;
     f->first_right[n] = (uint16_t)nr;
+    /* the rows now hold the pattern with its fill-in */
+    f->n_used = 0;
+    for (int i = 0; i < n; i++)
+        for (int j = 0; j < n; j++)
+            if (row[i] >> j & 1u)
+                f->used[f->n_used++] = (uint16_t)(i * n + j);
 }
 
 /* Elimination without pivoting; -1 when a pivot is below min_pivot (or not a number). */
-/* The inverse of a pivot block (size 1, 2 or 3, row-major) and its determinant. */
-static inline double invert(int nb, const double *restrict m, double *restrict inv)
+int cp_fixed_lu_solve(const cp_fixed_lu *f, double *restrict a, double *restrict b,
+                      double min_pivot)
 {
-    if (nb == 1) {
-        inv[0] = 1.0 / m[0];
-        return m[0];
-    }
-    if (nb == 2) {
-        double det = m[0] * m[3] - m[1] * m[2];
-        inv[0] = m[3] / det;
-        inv[1] = -m[1] / det;
-        inv[2] = -m[2] / det;
-        inv[3] = m[0] / det;
-        return det;
-    }
-    /* 3 x 3 by cofactors */
-    double c00 = m[4] * m[8] - m[5] * m[7], c01 = m[5] * m[6] - m[3] * m[8],
-           c02 = m[3] * m[7] - m[4] * m[6];
-    double det = m[0] * c00 + m[1] * c01 + m[2] * c02;
-    inv[0] = c00 / det;
-    inv[1] = (m[2] * m[7] - m[1] * m[8]) / det;
-    inv[2] = (m[1] * m[5] - m[2] * m[4]) / det;
-    inv[3] = c01 / det;
-    inv[4] = (m[0] * m[8] - m[2] * m[6]) / det;
-    inv[5] = (m[2] * m[3] - m[0] * m[5]) / det;
-    inv[6] = c02 / det;
-    inv[7] = (m[1] * m[6] - m[0] * m[7]) / det;
-    inv[8] = (m[0] * m[4] - m[1] * m[3]) / det;
-    return det;
-}
-
-/* c = l r (blocks), c -= m d (blocks) and y -= m x (a block times a group). */
-static inline void product(int nb, const double *restrict l, const double *restrict r,
-                           double *restrict c)
-{
-    for (int i = 0; i < nb; i++)
-        for (int j = 0; j < nb; j++) {
-            double s = 0.0;
-            for (int k = 0; k < nb; k++)
-                s += l[i * nb + k] * r[k * nb + j];
-            c[i * nb + j] = s;
-        }
-}
-
-static inline void sub_product(int nb, double *restrict c, const double *restrict m,
-                               const double *restrict d)
-{
-    for (int i = 0; i < nb; i++)
-        for (int j = 0; j < nb; j++) {
-            double s = 0.0;
-            for (int k = 0; k < nb; k++)
-                s += m[i * nb + k] * d[k * nb + j];
-            c[i * nb + j] -= s;
-        }
-}
-
-static inline void sub_apply(int nb, double *restrict y, const double *restrict m,
-                             const double *restrict x)
-{
-    for (int i = 0; i < nb; i++) {
-        double s = 0.0;
-        for (int k = 0; k < nb; k++)
-            s += m[i * nb + k] * x[k];
-        y[i] -= s;
-    }
-}
-
-/* Elimination with blocks of nb x nb; inlined with nb constant for each block size. */
-static inline int eliminate(const cp_fixed_lu *f, int nb, double *restrict a,
-                            double *restrict b, double min_pivot)
-{
-    enum { MB = CP_FIXED_LU_MAX_BLOCK * CP_FIXED_LU_MAX_BLOCK };
-    const int n = f->n, bb = nb * nb;
+    const int n = f->n;
     const uint16_t *restrict below = f->below, *restrict right = f->right;
-    double inv[CP_FIXED_LU_MAX][MB];
     for (int k = 0; k < n; k++) {
         const int p = f->order[k], r0 = f->first_right[k], r1 = f->first_right[k + 1];
-        double *iv = inv[p];
-        if (!(fabs(invert(nb, a + bb * (p * n + p), iv)) >= min_pivot))
+        const double *restrict pivot_row = a + p * n;
+        const double pivot = pivot_row[p];
+        if (!(fabs(pivot) >= min_pivot))
             return -1;
         for (int q = f->first[k]; q < f->first[k + 1]; q++) {
-            const int i = below[q];
-            double m[MB]; /* the multiplier block l p^-1 */
-            product(nb, a + bb * (i * n + p), iv, m);
+            double *restrict row = a + below[q] * n;
+            const double m = row[p] / pivot;
             for (int r = r0; r < r1; r++)
-                sub_product(nb, a + bb * (i * n + right[r]), m, a + bb * (p * n + right[r]));
-            sub_apply(nb, b + nb * i, m, b + nb * p);
+                row[right[r]] -= m * pivot_row[right[r]];
+            b[below[q]] -= m * b[p];
         }
     }
     for (int k = n - 1; k >= 0; k--) {
-        const int p = f->order[k];
-        double s[CP_FIXED_LU_MAX_BLOCK];
-        for (int e = 0; e < nb; e++)
-            s[e] = b[nb * p + e];
-        for (int r = f->first_right[k]; r < f->first_right[k + 1]; r++)
-            sub_apply(nb, s, a + bb * (p * n + right[r]), b + nb * right[r]);
-        for (int i = 0; i < nb; i++) {
-            double x = 0.0;
-            for (int e = 0; e < nb; e++)
-                x += inv[p][i * nb + e] * s[e];
-            b[nb * p + i] = x;
-        }
+        const int p = f->order[k], r0 = f->first_right[k], r1 = f->first_right[k + 1];
+        const double *restrict row = a + p * n;
+        double s = b[p];
+        for (int r = r0; r < r1; r++)
+            s -= row[right[r]] * b[right[r]];
+        b[p] = s / row[p];
     }
     return 0;
 }
 
-int cp_fixed_lu_solve(const cp_fixed_lu *f, int block, double a[], double b[],
-                      double min_pivot)
+double cp_block_invert(const cp_block_row m[3], cp_block_row inv[3])
 {
-    switch (block) {
-    case 1:
-        return eliminate(f, 1, a, b, min_pivot);
-    case 2:
-        return eliminate(f, 2, a, b, min_pivot);
-    case 3:
-        return eliminate(f, 3, a, b, min_pivot);
-    default:
-        return -1;
-    }
+    const double a = m[0][0], b = m[0][1], c = m[0][2], d = m[1][0], e = m[1][1],
+                 g = m[1][2], h = m[2][0], i = m[2][1], j = m[2][2];
+    const double c00 = e * j - g * i, c01 = g * h - d * j, c02 = d * i - e * h;
+    const double det = a * c00 + b * c01 + c * c02, r = 1.0 / det;
+    inv[0] = (cp_block_row){c00, c * i - b * j, b * g - c * e, 0.0} * r;
+    inv[1] = (cp_block_row){c01, a * j - c * h, c * d - a * g, 0.0} * r;
+    inv[2] = (cp_block_row){c02, b * h - a * i, a * e - b * d, 0.0} * r;
+    return det;
 }
 
-int cp_pivoted_solve(int n, int block, double a[], double b[])
+/* c = l r and c -= l r for 3 x 3 blocks, a row at a time (one vector each). */
+static inline void block_product(const cp_block_row l[3], const cp_block_row r[3],
+                                 cp_block_row c[3])
 {
-    enum { MAX = CP_FIXED_LU_MAX_BLOCK * CP_FIXED_LU_MAX };
-    const int m = block * n, bb = block * block;
-    if (block > 1) {
-        /* from blocks to an ordinary m x m matrix */
-        double blocks[MAX * MAX];
-        memcpy(blocks, a, (size_t)(m * m) * sizeof *a);
-        for (int i = 0; i < m; i++)
-            for (int j = 0; j < m; j++)
-                a[i * m + j] = blocks[bb * ((i / block) * n + j / block) +
-                                      block * (i % block) + j % block];
+    for (int i = 0; i < 3; i++)
+        c[i] = l[i][0] * r[0] + l[i][1] * r[1] + l[i][2] * r[2];
+}
+
+static inline void block_sub_product(cp_block_row *restrict c, const cp_block_row m[3],
+                                     const cp_block_row *restrict d)
+{
+    for (int i = 0; i < 3; i++)
+        c[i] -= m[i][0] * d[0] + m[i][1] * d[1] + m[i][2] * d[2];
+}
+
+/* y -= m x for a 3 x 3 block and a group of three. */
+static inline void block_sub_apply(double *restrict y, const cp_block_row m[3],
+                                   const double *restrict x)
+{
+    for (int i = 0; i < 3; i++)
+        y[i] -= m[i][0] * x[0] + m[i][1] * x[1] + m[i][2] * x[2];
+}
+
+CP_AVX_CLONES int cp_fixed_lu_solve_blocks(const cp_fixed_lu *f, cp_block_row a[],
+                                           double b[], double min_pivot)
+{
+    const int n = f->n;
+    const uint16_t *restrict below = f->below, *restrict right = f->right;
+    cp_block_row inv[CP_FIXED_LU_MAX][3];
+    for (int k = 0; k < n; k++) {
+        const int p = f->order[k], r0 = f->first_right[k], r1 = f->first_right[k + 1];
+        if (!(fabs(cp_block_invert(a + 3 * (p * n + p), inv[p])) >= min_pivot))
+            return -1;
+        for (int q = f->first[k]; q < f->first[k + 1]; q++) {
+            const int i = below[q];
+            cp_block_row m[3]; /* the multiplier block l p^-1 */
+            block_product(a + 3 * (i * n + p), inv[p], m);
+            for (int r = r0; r < r1; r++)
+                block_sub_product(a + 3 * (i * n + right[r]), m, a + 3 * (p * n + right[r]));
+            block_sub_apply(b + 3 * i, m, b + 3 * p);
+        }
     }
+    for (int k = n - 1; k >= 0; k--) {
+        const int p = f->order[k];
+        double s[3] = {b[3 * p], b[3 * p + 1], b[3 * p + 2]};
+        for (int r = f->first_right[k]; r < f->first_right[k + 1]; r++)
+            block_sub_apply(s, a + 3 * (p * n + right[r]), b + 3 * right[r]);
+        for (int i = 0; i < 3; i++)
+            b[3 * p + i] = inv[p][i][0] * s[0] + inv[p][i][1] * s[1] + inv[p][i][2] * s[2];
+    }
+    return 0;
+}
+
+int cp_pivoted_solve(int n, double a[], double b[])
+{
+    enum { MAX = CP_FIXED_LU_BLOCK * CP_FIXED_LU_MAX };
     size_t perm_data[MAX];
-    gsl_permutation perm = {(size_t)m, perm_data};
-    gsl_matrix_view mv = gsl_matrix_view_array(a, (size_t)m, (size_t)m);
-    gsl_vector_view v = gsl_vector_view_array(b, (size_t)m);
+    gsl_permutation perm = {(size_t)n, perm_data};
+    gsl_matrix_view mv = gsl_matrix_view_array(a, (size_t)n, (size_t)n);
+    gsl_vector_view v = gsl_vector_view_array(b, (size_t)n);
     int sign;
     int st = gsl_linalg_LU_decomp(&mv.matrix, &perm, &sign);
     if (st == GSL_SUCCESS)
         st = gsl_linalg_LU_svx(&mv.matrix, &perm, &v.vector);
     return st == GSL_SUCCESS ? 0 : -1;
+}
+
+int cp_pivoted_solve_blocks(int n, const cp_block_row a[], double b[])
+{
+    enum { MAX = CP_FIXED_LU_BLOCK * CP_FIXED_LU_MAX };
+    const int m = 3 * n;
+    double plain[MAX * MAX];
+    for (int i = 0; i < m; i++)
+        for (int j = 0; j < m; j++)
+            plain[i * m + j] = a[3 * ((i / 3) * n + j / 3) + i % 3][j % 3];
+    return cp_pivoted_solve(m, plain, b);
 }

@@ -1,13 +1,14 @@
 /*
  * Raman model: propagation of the Lindblad master equation of docs/models/raman.md for the
  * Lambda system plus a sink.  The state is the 3x3 density matrix as 9 reals
- * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population, which is
- * integrated on its own so that trace + lost = 1 is a check of the integrator, not an
- * identity.  The integrator is the Dormand-Prince 5(4) pair of raman_dp.c near resonance
- * and the three-stage Gauss-Legendre collocation method of raman_gauss.c away from it, both
- * with error control set from the accuracy asked for; docs/models/raman.md explains the
- * choice (measured against GSL's rk8pd and msbdf, Magnus propagators with exact matrix
- * exponentials, exponential and Rosenbrock integrators).
+ * (rho_11, rho_22, rho_33, Re/Im rho_12, rho_13, rho_23) and the sink population (in the
+ * order of raman_gen_int.h, which also holds the generator), which is integrated on its own
+ * so that trace + lost = 1 is a check of the integrator, not an identity.  The integrator is
+ * the Dormand-Prince 5(4) pair of raman_dp.c near resonance and the three-stage
+ * Gauss-Legendre collocation method of raman_gauss.c away from it, both with error control
+ * set from the accuracy asked for; docs/models/raman.md explains the choice (measured
+ * against GSL's rk8pd and msbdf, Magnus propagators with exact matrix exponentials,
+ * exponential and Rosenbrock integrators).
  */
 #include <math.h>
 
@@ -46,9 +47,10 @@ static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, dou
 
 /* Away from resonance the explicit pair is limited by stability (steps ~ 3/|Delta|) and the
  * collocation method of raman_gauss.c, whose steps follow the slow motion, is cheaper: from
- * |Delta| above implicit_ratio times the sum of all other rates (the reference case's cost
- * curves of the two cross near 0.6; docs/models/raman.md). */
-static const double implicit_ratio = 0.6;
+ * |Delta| above implicit_ratio times the sum of all other rates (the two cost the same on
+ * the reference case near |Delta| = 2 pi x 14 MHz, 0.85 times its other rates;
+ * docs/models/raman.md). */
+static const double implicit_ratio = 0.85;
 
 /* The tolerance of the collocation method for a final accuracy acc.  Its error estimate is
  * of order h^4 per unit time while the method's error is of order h^6, so the final error
@@ -61,16 +63,7 @@ static double implicit_tolerance(double acc)
     return 1.5 * pow(acc, 2.0 / 3.0);
 }
 
-/* The constant parts of the generator. */
-typedef struct model {
-    cp_raman_pulses pulses;
-    double delta_1, delta_2; /* one- and two-photon detuning, rad/s */
-    double k[3];             /* decay of the amplitudes: gamma_1/2, gamma/2, gamma_3/2 */
-    double feed1, feed3;     /* rate into |1>, |3> from rho_22 (branching) */
-    double kappa12, kappa13, kappa23; /* dephasing of the coherences, 1/s */
-} model;
-
-static void model_init(model *m, const cp_raman_params *p)
+static void model_init(cp_raman_model *m, const cp_raman_params *p)
 {
     m->delta_1 = p->detuning;
     m->delta_2 = p->two_photon_detuning;
@@ -96,59 +89,28 @@ static void model_init(model *m, const cp_raman_params *p)
     }
 }
 
-/* d rho/dt = -i [H, rho] - {K, rho} + feeding from rho_22 - kappa o rho (off-diagonal),
- * written out for rho = R + iJ (R symmetric, J antisymmetric) and H real symmetric:
- * dR/dt = [H, J] and dJ/dt = -[H, R] for the coherent part. */
-static void generator(const model *m, double a, double b, int slow, const double y[],
-                      double dy[])
-{
-    const double e2 = -m->delta_1, e3 = -m->delta_2;
-    const double r11 = y[0], r22 = y[1], r33 = y[2];
-    const double x12 = y[3], j12 = y[4], x13 = y[5], j13 = y[6], x23 = y[7], j23 = y[8];
-    /* the slow losses act only over the transfer duration (slow = 1) */
-    const double k1 = slow ? m->k[0] : 0.0, k2 = m->k[1], k3 = slow ? m->k[2] : 0.0;
-    dy[0] = -2 * a * j12 - 2 * k1 * r11 + m->feed1 * r22;
-    dy[1] = 2 * (a * j12 - b * j23) - 2 * k2 * r22;
-    dy[2] = 2 * b * j23 - 2 * k3 * r33 + m->feed3 * r22;
-    const double g12 = k1 + k2 + m->kappa12, g13 = k1 + k3 + m->kappa13,
-                 g23 = k2 + k3 + m->kappa23;
-    dy[3] = -e2 * j12 - b * j13 - g12 * x12;
-    dy[4] = a * (r11 - r22) + e2 * x12 + b * x13 - g12 * j12;
-    dy[5] = a * j23 - b * j12 - e3 * j13 - g13 * x13;
-    dy[6] = b * x12 + e3 * x13 - a * x23 - g13 * j13;
-    dy[7] = a * j13 + (e2 - e3) * j23 - g23 * x23;
-    dy[8] = b * (r22 - r33) + (e3 - e2) * x23 - a * x13 - g23 * j23;
-    /* the sink: what leaves |2> other than by branching, and the slow losses */
-    dy[9] = (2 * k2 - m->feed1 - m->feed3) * r22 + 2 * k1 * r11 + 2 * k3 * r33;
-}
-
-/* The generator as the explicit pair calls it, with the envelopes it computed. */
-static void dp_gen(const void *ctx, double t, double op, double os, const double y[], double dy[])
-{
-    const model *m = ctx;
-    generator(m, op / 2, os / 2, cp_raman_pulses_slow_on(&m->pulses, t), y, dy);
-}
-
 /* The generator as the collocation method takes it apart into its matrices. */
 static void gen_ab(const void *ctx, double a, double b, int slow, const double y[], double dy[])
 {
-    generator(ctx, a, b, slow, y, dy);
+    cp_raman_rates c = cp_raman_rates_of(ctx, slow);
+    cp_raman_generator(&c, a, b, y, dy);
 }
 
-/* State index of each trace column after the time (see the layout above). */
+/* State index of each trace column after the time (raman_gen_int.h). */
 static const int trace_index[CP_RAMAN_TRACE_COLUMNS] = {
-    [CP_RAMAN_TRACE_INITIAL] = 0, [CP_RAMAN_TRACE_EXCITED] = 1, [CP_RAMAN_TRACE_TARGET] = 2,
-    [CP_RAMAN_TRACE_LOST] = 9,    [CP_RAMAN_TRACE_RE12] = 3,    [CP_RAMAN_TRACE_IM12] = 4,
-    [CP_RAMAN_TRACE_RE13] = 5,    [CP_RAMAN_TRACE_IM13] = 6,    [CP_RAMAN_TRACE_RE23] = 7,
-    [CP_RAMAN_TRACE_IM23] = 8};
+    [CP_RAMAN_TRACE_INITIAL] = CP_RAMAN_R11, [CP_RAMAN_TRACE_EXCITED] = CP_RAMAN_R22,
+    [CP_RAMAN_TRACE_TARGET] = CP_RAMAN_R33,  [CP_RAMAN_TRACE_LOST] = CP_RAMAN_LOST,
+    [CP_RAMAN_TRACE_RE12] = CP_RAMAN_X12,    [CP_RAMAN_TRACE_IM12] = CP_RAMAN_J12,
+    [CP_RAMAN_TRACE_RE13] = CP_RAMAN_X13,    [CP_RAMAN_TRACE_IM13] = CP_RAMAN_J13,
+    [CP_RAMAN_TRACE_RE23] = CP_RAMAN_X23,    [CP_RAMAN_TRACE_IM23] = CP_RAMAN_J23};
 
-/* A population (y index 0, 1, 2 or 9) as reported: the integration leaves it within its
- * accuracy of the physical range, by ~1e-10 below 0 or above 1 at the default accuracy; the
- * reported value is clipped to [0, 1] so that no population is negative. */
+/* A population (y index CP_RAMAN_R11 to CP_RAMAN_LOST) as reported: the integration leaves
+ * it within its accuracy of the physical range, by ~1e-10 below 0 or above 1 at the default
+ * accuracy; the reported value is clipped to [0, 1] so that no population is negative. */
 static double population(const double *y, int index)
 {
     double v = y[index];
-    return (index <= 2 || index == 9) ? fmin(1.0, fmax(0.0, v)) : v;
+    return index <= CP_RAMAN_LOST ? fmin(1.0, fmax(0.0, v)) : v;
 }
 
 static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
@@ -241,33 +203,34 @@ static void poison(cp_raman_result *res, cp_raman_trace *tr)
 static void fill_result(const double *y, cp_raman_result *res)
 {
     /* rho_ij = R_ij + i J_ij, J antisymmetric */
-    const double re[3][3] = {{y[0], y[3], y[5]}, {y[3], y[1], y[7]}, {y[5], y[7], y[2]}};
-    const double im[3][3] = {{0, y[4], y[6]}, {-y[4], 0, y[8]}, {-y[6], -y[8], 0}};
+    const double x12 = y[CP_RAMAN_X12], x13 = y[CP_RAMAN_X13], x23 = y[CP_RAMAN_X23];
+    const double j12 = y[CP_RAMAN_J12], j13 = y[CP_RAMAN_J13], j23 = y[CP_RAMAN_J23];
+    const double re[3][3] = {{0, x12, x13}, {x12, 0, x23}, {x13, x23, 0}};
+    const double im[3][3] = {{0, j12, j13}, {-j12, 0, j23}, {-j13, -j23, 0}};
     for (int i = 0; i < 3; i++) {
-        res->populations[i] = population(y, i);
+        res->populations[i] = population(y, CP_RAMAN_R11 + i);
         for (int j = 0; j < 3; j++) {
-            res->rho[i][j][0] = i == j ? population(y, i) : re[i][j];
+            res->rho[i][j][0] = i == j ? res->populations[i] : re[i][j];
             res->rho[i][j][1] = im[i][j];
         }
     }
-    res->efficiency = population(y, 2);
-    res->lost = population(y, 9);
+    res->efficiency = population(y, CP_RAMAN_R33);
+    res->lost = population(y, CP_RAMAN_LOST);
 }
 
 /* Start (or restart, for the return trip) the chosen integrator on the pulses of m. */
-static void start(stepper *s, model *m, const cp_raman_affine *affine, double tol)
+static void start(stepper *s, cp_raman_model *m, const cp_raman_affine *affine, double tol)
 {
     double hstart = cp_raman_pulses_hstart(&m->pulses);
     if (s->gauss)
         cp_raman_gauss_init(s->gauss, &m->pulses, affine, tol, hstart);
     else
-        cp_raman_dp_init(s->dp, &m->pulses, dp_gen, m, tol, hstart,
-                         3.2 / constant_rate(m->pulses.p));
+        cp_raman_dp_init(s->dp, m, tol, hstart, 3.2 / constant_rate(m->pulses.p));
 }
 
 /* Run the forward sequence (and the return trip) with the collocation method (implicit) or
  * the explicit pair.  Fills the propagation part of res. */
-static cp_status integrate(model *m, int implicit, double tol, int round_trip,
+static cp_status integrate(cp_raman_model *m, int implicit, double tol, int round_trip,
                            cp_raman_result *res, cp_raman_trace *trace, cp_error *err)
 {
     cp_raman_dp dp;
@@ -276,7 +239,7 @@ static cp_status integrate(model *m, int implicit, double tol, int round_trip,
     stepper s = {implicit ? NULL : &dp, implicit ? &gauss : NULL};
     if (implicit)
         cp_raman_affine_init(&affine, gen_ab, m);
-    double y[DIM] = {1.0};
+    double y[DIM] = {[CP_RAMAN_R11] = 1.0};
     m->pulses.reversed = 0;
     start(&s, m, &affine, tol);
     cp_status st = propagate(&s, &m->pulses, y, trace, err);
@@ -289,7 +252,7 @@ static cp_status integrate(model *m, int implicit, double tol, int round_trip,
         m->pulses.reversed = 1;
         start(&s, m, &affine, tol);
         st = propagate(&s, &m->pulses, y, NULL, err);
-        res->round_trip_efficiency = y[0];
+        res->round_trip_efficiency = y[CP_RAMAN_R11];
     }
     return st;
 }
@@ -308,7 +271,7 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
                        "%zu", trace->n, max_trace);
     double acc = p->accuracy == 0.0 ? 1e-8 : p->accuracy;
     CP_TRY(cp_check_range(err, CTX, "accuracy", acc, "", 1e-12, 1e-3, CP_CLOSED));
-    model m;
+    cp_raman_model m;
     CP_TRY(cp_raman_pulses_init(&m.pulses, p, err));
     model_init(&m, p);
 

@@ -24,6 +24,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "clones_int.h"
 #include "raman_gauss_int.h"
 
 enum { N = CP_RAMAN_DIM, S = CP_RAMAN_STAGES, NS = S * CP_RAMAN_DIM };
@@ -31,9 +32,9 @@ enum { N = CP_RAMAN_DIM, S = CP_RAMAN_STAGES, NS = S * CP_RAMAN_DIM };
 /* nodes, Butcher matrix and weights of the three-stage method (r = sqrt 15) */
 #define R15 3.872983346207417
 static const double node[S] = {0.5 - R15 / 10, 0.5, 0.5 + R15 / 10};
-static const double butcher[S][S] = {{5.0 / 36, 2.0 / 9 - R15 / 15, 5.0 / 36 - R15 / 30},
-                                     {5.0 / 36 + R15 / 24, 2.0 / 9, 5.0 / 36 - R15 / 24},
-                                     {5.0 / 36 + R15 / 30, 2.0 / 9 + R15 / 15, 5.0 / 36}};
+static const cp_block_row butcher[S] = {{5.0 / 36, 2.0 / 9 - R15 / 15, 5.0 / 36 - R15 / 30, 0},
+                                        {5.0 / 36 + R15 / 24, 2.0 / 9, 5.0 / 36 - R15 / 24, 0},
+                                        {5.0 / 36 + R15 / 30, 2.0 / 9 + R15 / 15, 5.0 / 36, 0}};
 static const double weight[S] = {5.0 / 18, 4.0 / 9, 5.0 / 18};
 static const double grow_max = 4.0, shrink_min = 0.2, safety = 0.9;
 /* a pivot block of the stage equations (whose diagonal is 1 plus decay terms) with a
@@ -93,6 +94,7 @@ void cp_raman_gauss_init(cp_raman_gauss *s, const cp_raman_pulses *pl,
     cp_fixed_lu_plan(&s->stages, N, all);
     cp_fixed_lu_plan(&s->filter, N, constant);
     estimate_weights(s->estimate);
+    cp_block_invert(butcher, s->butcher_inv);
 }
 
 /* dy = G y for the half Rabi frequencies a, b. */
@@ -116,24 +118,31 @@ static void derivative(const cp_raman_gauss *s, double t, double t_side, const d
 }
 
 /* The stage equations I - h (A kron G) in blocks of S x S: block (r, c) couples component r
- * of the stages to component c, m[S^2 (r N + c) + S i + j] = delta - h a_ij G_j[r][c]. */
-static void stage_matrix(const cp_raman_gauss *s, double h, int slow, const double a[S],
-                         const double b[S], double m[])
+ * of the stages to component c, its row i is m[S (r N + c) + i] with elements
+ * delta_ij - h a_ij G_j[r][c].  Only the blocks the elimination uses are set, or all of them
+ * for the pivoted fallback. */
+CP_AVX_CLONES static void cp_raman_stage_matrix(const cp_raman_gauss *s, double h, int slow, const double a[S],
+                         const double b[S], int all, cp_block_row m[])
 {
     const cp_raman_affine *g = s->gen;
-    memset(m, 0, NS * NS * sizeof *m);
+    const cp_fixed_lu *f = &s->stages;
+    if (all)
+        memset(m, 0, N * N * S * sizeof *m);
+    else
+        for (int u = 0; u < f->n_used; u++)
+            for (int i = 0; i < S; i++)
+                m[S * f->used[u] + i] = (cp_block_row){0.0};
     for (size_t k = 0; k < g->n; k++) {
         const cp_raman_entry *x = &g->e[k];
-        double *block = m + S * S * (x->row * N + x->col);
-        for (int j = 0; j < S; j++) {
-            double hg = h * (x->g0[slow] + a[j] * x->ga + b[j] * x->gb);
-            for (int i = 0; i < S; i++)
-                block[S * i + j] = -butcher[i][j] * hg;
-        }
+        cp_block_row *block = m + S * (x->row * N + x->col), hg = {0.0};
+        for (int j = 0; j < S; j++)
+            hg[j] = -h * (x->g0[slow] + a[j] * x->ga + b[j] * x->gb);
+        for (int i = 0; i < S; i++)
+            block[i] = butcher[i] * hg;
     }
     for (int v = 0; v < N; v++)
         for (int i = 0; i < S; i++)
-            m[S * S * (v * N + v) + (S + 1) * i] += 1.0;
+            m[S * (v * N + v) + i][i] += 1.0;
 }
 
 /* Solve the stage equations for z (on entry the start value at every stage): without
@@ -141,14 +150,15 @@ static void stage_matrix(const cp_raman_gauss *s, double h, int slow, const doub
 static int solve_stages(const cp_raman_gauss *s, double h, int slow, const double a[S],
                         const double b[S], double z[])
 {
-    double m[NS * NS], z0[NS];
+    cp_block_row m[N * N * S];
+    double z0[NS];
     memcpy(z0, z, sizeof z0);
-    stage_matrix(s, h, slow, a, b, m);
-    if (cp_fixed_lu_solve(&s->stages, S, m, z, min_pivot) == 0)
+    cp_raman_stage_matrix(s, h, slow, a, b, 0, m);
+    if (cp_fixed_lu_solve_blocks(&s->stages, m, z, min_pivot) == 0)
         return 0;
     memcpy(z, z0, sizeof z0);
-    stage_matrix(s, h, slow, a, b, m);
-    return cp_pivoted_solve(N, S, m, z);
+    cp_raman_stage_matrix(s, h, slow, a, b, 1, m);
+    return cp_pivoted_solve_blocks(N, m, z);
 }
 
 /* The filter of the error estimate, I - h/4 G0. */
@@ -168,11 +178,11 @@ static int filter_estimate(const cp_raman_gauss *s, double h, int slow, double e
     double m[N * N], e0[N];
     memcpy(e0, e, sizeof e0);
     filter_matrix(s, h, slow, m);
-    if (cp_fixed_lu_solve(&s->filter, 1, m, e, min_pivot) == 0)
+    if (cp_fixed_lu_solve(&s->filter, m, e, min_pivot) == 0)
         return 0;
     memcpy(e, e0, sizeof e0);
     filter_matrix(s, h, slow, m);
-    return cp_pivoted_solve(N, 1, m, e);
+    return cp_pivoted_solve(N, m, e);
 }
 
 /* One trial step of length h from (t, y): ynew, its derivative dy1 and the error estimate
@@ -180,7 +190,6 @@ static int filter_estimate(const cp_raman_gauss *s, double h, int slow, double e
 static double try_step(const cp_raman_gauss *s, double t, double h, const double y[],
                        double ynew[], double dy1[])
 {
-    const cp_raman_affine *g = s->gen;
     int slow = cp_raman_pulses_slow_on(s->pl, t + 0.5 * h);
     const double *w = s->estimate;
     double a[S], b[S], z[NS], k[S][N], e[N];
@@ -195,12 +204,14 @@ static double try_step(const cp_raman_gauss *s, double t, double h, const double
             z[S * v + i] = y[v];
     if (solve_stages(s, h, slow, a, b, z) != 0)
         return NAN;
-    for (int i = 0; i < S; i++) {
-        double stage[N];
-        for (int v = 0; v < N; v++)
-            stage[v] = z[S * v + i];
-        apply_generator(g, slow, a[i], b[i], stage, k[i]);
-    }
+    /* the derivatives at the stages from the stage values: k = A^-1 (z - y) / h */
+    for (int v = 0; v < N; v++)
+        for (int i = 0; i < S; i++) {
+            double sum = 0.0;
+            for (int j = 0; j < S; j++)
+                sum += s->butcher_inv[i][j] * (z[S * v + j] - y[v]);
+            k[i][v] = sum / h;
+        }
     for (int v = 0; v < N; v++) {
         double sum = 0.0;
         for (int i = 0; i < S; i++)

@@ -11,7 +11,7 @@
 #include <stdint.h>
 
 #include "fixed_lu_int.h"
-#include "raman_dp_int.h"
+#include "raman_gen_int.h"
 #include "raman_int.h"
 
 enum { CP_RAMAN_STAGES = 3 }; /* stages of the collocation method */
@@ -45,6 +45,7 @@ typedef struct cp_raman_gauss {
     cp_fixed_lu stages; /* the elimination plan of the stage equations (3 x 3 blocks) */
     cp_fixed_lu filter; /* and of the 10 x 10 filter of the error estimate */
     double estimate[CP_RAMAN_STAGES + 2]; /* weights of the error estimate (raman_gauss.c) */
+    cp_block_row butcher_inv[CP_RAMAN_STAGES]; /* the inverse of the Butcher matrix */
     double dy0[CP_RAMAN_DIM]; /* derivative at the current time */
 } cp_raman_gauss;
 
