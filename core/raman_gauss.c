@@ -18,8 +18,8 @@
  * the detunings are filtered out by (I - h/4 G0)^-1, G0 the constant part of the generator
  * (detunings and decay), as Radau codes filter theirs by (I - gamma h J)^-1 (Hairer &
  * Wanner, Sec. IV.8 [M]); otherwise the estimate sees the rotation and the steps shrink with
- * Delta.  The estimate is controlled per unit time (it is divided by h / window), so that the
- * local errors add up over the window to about the tolerance.
+ * Delta.  The estimate is controlled per unit time (it is divided by h / the transfer
+ * duration), so that the local errors add up over the transfer to about the tolerance.
  */
 #include <math.h>
 #include <string.h>
@@ -32,9 +32,10 @@ enum { N = CP_RAMAN_DIM, S = CP_RAMAN_STAGES, NS = S * CP_RAMAN_DIM };
 /* nodes, Butcher matrix and weights of the three-stage method (r = sqrt 15) */
 #define R15 3.872983346207417
 static const double node[S] = {0.5 - R15 / 10, 0.5, 0.5 + R15 / 10};
-static const cp_block_row butcher[S] = {{5.0 / 36, 2.0 / 9 - R15 / 15, 5.0 / 36 - R15 / 30, 0},
-                                        {5.0 / 36 + R15 / 24, 2.0 / 9, 5.0 / 36 - R15 / 24, 0},
-                                        {5.0 / 36 + R15 / 30, 2.0 / 9 + R15 / 15, 5.0 / 36, 0}};
+static const cp_block_row butcher[S] = {
+    {5.0 / 36, 2.0 / 9 - R15 / 15, 5.0 / 36 - R15 / 30, 0.0},
+    {5.0 / 36 + R15 / 24, 2.0 / 9, 5.0 / 36 - R15 / 24, 0.0},
+    {5.0 / 36 + R15 / 30, 2.0 / 9 + R15 / 15, 5.0 / 36, 0.0}};
 static const double weight[S] = {5.0 / 18, 4.0 / 9, 5.0 / 18};
 static const double grow_max = 4.0, shrink_min = 0.2, safety = 0.9;
 /* a pivot block of the stage equations (whose diagonal is 1 plus decay terms) with a
@@ -121,8 +122,9 @@ static void derivative(const cp_raman_gauss *s, double t, double t_side, const d
  * of the stages to component c, its row i is m[S (r N + c) + i] with elements
  * delta_ij - h a_ij G_j[r][c].  Only the blocks the elimination uses are set, or all of them
  * for the pivoted fallback. */
-CP_AVX_CLONES static void cp_raman_stage_matrix(const cp_raman_gauss *s, double h, int slow, const double a[S],
-                         const double b[S], int all, cp_block_row m[])
+CP_AVX_CLONES static void cp_raman_stage_matrix(const cp_raman_gauss *s, double h, int slow,
+                                                const double a[S], const double b[S], int all,
+                                                cp_block_row m[])
 {
     const cp_raman_affine *g = s->gen;
     const cp_fixed_lu *f = &s->stages;

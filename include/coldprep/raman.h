@@ -97,7 +97,8 @@ typedef struct cp_raman_result {
     double nonadiabatic_loss_estimate;
     double nonadiabatic_exponent;
     size_t steps;             /* accepted integrator steps (one way) */
-    const char *integrator;   /* "dopri5" or, far off resonance, "msbdf" (static string) */
+    const char *integrator;   /* "dopri5" or, away from resonance, "gauss-legendre" (static
+                                 string) */
 } cp_raman_result;
 
 /* Columns of a time trace: time (s), populations, sink, and the coherences rho_ij. */

@@ -236,8 +236,9 @@ static const cpl_function functions[] = {
      "  flags = {\"estimates_detuned\"} when decay_loss and dephasing_loss are outside their\n"
      "  range (|delta| overlap_time > 0.5 or |Delta| > max(gamma, Omega_rms)), else {} (always\n"
      "  {} with estimates = false), transfer_duration (s), t_start, t_end (s), steps,\n"
-     "  integrator (\"dopri5\" or \"msbdf\"), trace = {time, initial, excited, target, lost,\n"
-     "  coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if trace)}.\n"
+     "  integrator (\"dopri5\" or \"gauss-legendre\"), trace = {time, initial, excited, target,\n"
+     "  lost, coherence_12_re, coherence_12_im, coherence_13_re, ..., coherence_23_im} (if\n"
+     "  trace)}.\n"
      "Example: cp.raman.transfer{rabi_pump = 2*math.pi*5*cp.units.MHz,\n"
      "  rabi_stokes = 2*math.pi*5*cp.units.MHz, width = 2*cp.units.us, delay = 2.4*cp.units.us,\n"
      "  gamma = 2*math.pi*6*cp.units.MHz, pump_linewidth_hz = 1e3, stokes_linewidth_hz = 1e3}"},
