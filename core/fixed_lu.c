@@ -115,7 +115,7 @@ int cp_fixed_lu_solve(const cp_fixed_lu *f, double *restrict a, double *restrict
     return 0;
 }
 
-double cp_block_invert(const cp_block_row m[3], cp_block_row inv[3])
+static inline double invert3(const cp_block_row m[3], cp_block_row inv[3])
 {
     const double a = m[0][0], b = m[0][1], c = m[0][2], d = m[1][0], e = m[1][1],
                  g = m[1][2], h = m[2][0], i = m[2][1], j = m[2][2];
@@ -125,6 +125,11 @@ double cp_block_invert(const cp_block_row m[3], cp_block_row inv[3])
     inv[1] = (cp_block_row){c01, a * j - c * h, c * d - a * g, 0.0} * r;
     inv[2] = (cp_block_row){c02, b * h - a * i, a * e - b * d, 0.0} * r;
     return det;
+}
+
+double cp_block_invert(const cp_block_row m[3], cp_block_row inv[3])
+{
+    return invert3(m, inv);
 }
 
 /* c = l r and c -= l r for 3 x 3 blocks, a row at a time (one vector each). */
@@ -158,7 +163,7 @@ CP_AVX_CLONES int cp_fixed_lu_solve_blocks(const cp_fixed_lu *f, cp_block_row a[
     cp_block_row inv[CP_FIXED_LU_MAX][3];
     for (int k = 0; k < n; k++) {
         const int p = f->order[k], r0 = f->first_right[k], r1 = f->first_right[k + 1];
-        if (!(fabs(cp_block_invert(a + 3 * (p * n + p), inv[p])) >= min_pivot))
+        if (!(fabs(invert3(a + 3 * (p * n + p), inv[p])) >= min_pivot))
             return -1;
         for (int q = f->first[k]; q < f->first[k + 1]; q++) {
             const int i = below[q];

@@ -47,10 +47,10 @@ static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, dou
 
 /* Away from resonance the explicit pair is limited by stability (steps ~ 3/|Delta|) and the
  * collocation method of raman_gauss.c, whose steps follow the slow motion, is cheaper: from
- * |Delta| above implicit_ratio times the sum of all other rates (the two cost the same on
- * the reference case near |Delta| = 2 pi x 14 MHz, 0.85 times its other rates;
- * docs/models/raman.md). */
-static const double implicit_ratio = 0.85;
+ * |Delta| above implicit_ratio times the sum of all other rates (peak Rabi frequency, decay,
+ * dephasing, |delta|): the two cost the same on the reference case near |Delta| =
+ * 2 pi x 14 MHz, 1.25 times its other rates (docs/models/raman.md). */
+static const double implicit_ratio = 1.25;
 
 /* The tolerance of the collocation method for a final accuracy acc.  Its error estimate is
  * of order h^4 per unit time while the method's error is of order h^6, so the final error

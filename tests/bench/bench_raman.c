@@ -145,7 +145,8 @@ int main(void)
     q.estimates = 1;
     printf("with the closed-form estimates: median %.1f us per point\n", median_us(&q, 201, &r));
     /* the one-photon detuning regimes (target: none more than 3x the reference case) */
-    const double mhz[] = {3, 10, 20, 30, 50, 82, 100, -100, 150, 200, 500, 1000, -1000, 2000};
+    const double mhz[] = {3, 6, 10, 12, 13.5, 14, 16, 20, 30, 50, 82, 100, -100, 150, 200, 500,
+                          1000, -1000, 2000};
     const int n_mhz = (int)(sizeof mhz / sizeof mhz[0]);
     double worst = 0, worst_mhz = 0;
     for (int i = 0; i < n_mhz; i++) {
@@ -155,7 +156,7 @@ int main(void)
             worst = t / ours;
             worst_mhz = mhz[i];
         }
-        printf("Delta = 2 pi x %5.0f MHz: median %6.0f us per point (%5.1fx the reference, %s, "
+        printf("Delta = 2 pi x %6.1f MHz: median %6.0f us per point (%5.1fx the reference, %s, "
                "%zu steps)\n", mhz[i], t, t / ours, r.integrator, r.steps);
     }
     printf("worst one-photon detuning regime: %.1fx the reference case at 2 pi x %.0f MHz "
