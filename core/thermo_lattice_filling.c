@@ -24,6 +24,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
+#include <time.h>
 
 #include "check_int.h"
 #include "coldprep/consts.h"
@@ -51,13 +52,31 @@ typedef struct filling_ctx {
     cp_statistics stat;
     double kt, amp, onsite_u;
     double terms, max_terms; /* terms of the site sums so far, and the bound on them */
+    double cpu_start, max_seconds; /* this thread's CPU time at the start, and the limit */
     const cp_cancel_flag *cancel;
 } filling_ctx;
 
-/* Whether the site sums must stop: their bound passed, or the caller's flag set. */
+/* CPU seconds used by the calling thread (not the process: sweeps run several jobs). */
+static double thread_cpu_seconds(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_THREAD_CPUTIME_ID, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+/* CPU seconds since the call started. */
+static double cpu_used(const filling_ctx *c)
+{
+    return thread_cpu_seconds() - c->cpu_start;
+}
+
+/* Whether the site sums must stop: their bound in terms passed, the work limit spent (on a
+ * machine slower than the one COST_TERM was measured on the terms alone would overrun it),
+ * or the caller's flag set. */
 static int stopped(const filling_ctx *c)
 {
-    return c->terms > c->max_terms || (c->cancel && *c->cancel);
+    return c->terms > c->max_terms || cpu_used(c) > c->max_seconds ||
+           (c->cancel && *c->cancel);
 }
 
 typedef struct site_stats {
@@ -342,8 +361,8 @@ static cp_status too_long(const filling_ctx *c, double max_seconds, cp_error *er
                  c->terms, c->count);
         snprintf(reduce, sizeof reduce, "fewer bands");
     }
-    return cp_check_work(err, "thermo.lattice_filling", c->terms * COST_TERM, max_seconds, what,
-                         reduce);
+    double work = fmax(c->terms * COST_TERM, cpu_used(c));
+    return cp_check_work(err, "thermo.lattice_filling", work, max_seconds, what, reduce);
 }
 
 cp_status cp_thermo_lattice_filling_bounded(const cp_thermo_lattice *lat,
@@ -392,7 +411,8 @@ cp_status cp_thermo_lattice_filling_bounded(const cp_thermo_lattice *lat,
     filling_ctx c = {NULL, NULL, NULL, NULL, NULL, NULL, 0, stat, kt,
                      pow(2.0 * CP_PI * kt / (trap->mass * wbar * wbar), 1.5) / (d * d * d),
                      stat == CP_FERMION ? INFINITY : onsite_u, 0.0,
-                     isinf(max_seconds) ? INFINITY : max_seconds / COST_TERM, cancel};
+                     isinf(max_seconds) ? INFINITY : max_seconds / COST_TERM,
+                     thread_cpu_seconds(), max_seconds, cancel};
     double x = NAN, sums[3];
     cp_status st = make_orbitals(lat, &c, err);
     if (st == CP_OK)
@@ -402,7 +422,7 @@ cp_status cp_thermo_lattice_filling_bounded(const cp_thermo_lattice *lat,
     if (cancel && *cancel) {
         filling_poison(out);
         st = cp_fail(err, CP_ECANCELED, "thermo.lattice_filling: interrupted");
-    } else if (c.terms > c.max_terms) {
+    } else if (c.terms > c.max_terms || cpu_used(&c) > max_seconds) {
         filling_poison(out);
         st = too_long(&c, max_seconds, err);
     }
