@@ -159,7 +159,7 @@ static void test_against_reference(void **state)
     p = reference_case();
     p.detuning = TWO_PI * 200e6;
     p.rabi_pump = p.rabi_stokes = TWO_PI * 50e6;
-    check_against_reference(&p, "far detuned, explicit");
+    check_against_reference(&p, "strong pulses, far detuned");
 }
 
 /* rho positive: eigenvalues from GSL's gsl_eigen_herm >= -1e-10.  (Hermiticity
