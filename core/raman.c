@@ -47,10 +47,9 @@ static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, dou
 
 /* Away from resonance the explicit pair is limited by stability (steps ~ 3/|Delta|) and the
  * collocation method of raman_gauss.c, whose steps follow the slow motion, is cheaper: from
- * |Delta| above implicit_ratio times the sum of all other rates (peak Rabi frequency, decay,
- * dephasing, |delta|): the two cost the same on the reference case near |Delta| =
- * 2 pi x 14 MHz, 1.25 times its other rates (docs/models/raman.md). */
-static const double implicit_ratio = 1.25;
+ * |Delta| above CP_RAMAN_IMPLICIT_RATIO (raman_int.h) times the sum of all other rates (peak
+ * Rabi frequency, decay, dephasing, |delta|): the two cost the same on the reference case
+ * near |Delta| = 2 pi x 14 MHz, 1.25 times its other rates (docs/models/raman.md). */
 
 /* The tolerance of the collocation method for a final accuracy acc.  Its error estimate is
  * of order h^4 per unit time while the method's error is of order h^6, so the final error
@@ -276,7 +275,7 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     model_init(&m, p);
 
     cp_status st;
-    if (fabs(p->detuning) > implicit_ratio * m.pulses.other_rate) {
+    if (fabs(p->detuning) > CP_RAMAN_IMPLICIT_RATIO * m.pulses.other_rate) {
         st = integrate(&m, 1, implicit_tolerance(acc), round_trip, res, trace, err);
         res->integrator = "gauss-legendre";
     } else {

@@ -26,6 +26,10 @@ typedef struct cp_raman_pulses {
     double loss_from, loss_to; /* the transfer duration, in which the slow losses act, s */
 } cp_raman_pulses;
 
+/* Away from resonance, |Delta| above this times the sum of the other rates, the collocation
+ * method of raman_gauss.c propagates (raman.c); its work does not grow with |Delta|. */
+#define CP_RAMAN_IMPLICIT_RATIO 1.25
+
 /* Validate p (context "raman transfer") and set up the pulses; on success the caller must
  * call cp_raman_pulses_free. */
 cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp_error *err);

@@ -223,6 +223,38 @@ static void test_far_detuned(void **state)
     assert_string_equal(r.integrator, "dopri5");
 }
 
+/* RAMAN-1f: a pump alone far off resonance (2 pi x 50 GHz, 1.8e6 rad of rotation at Delta,
+ * beyond what the explicit pair is allowed to resolve) runs on the collocation method, and
+ * the population scattered into the sink is the adiabatic-elimination result
+ * Gamma int Omega_P^2 dt / (4 Delta^2), int = Omega_0^2 w sqrt(pi/2) for a Gaussian (E.
+ * Brion, L. H. Pedersen & K. Molmer, J. Phys. A 40, 1033 (2007)), to 1e-3 relative: its
+ * corrections are of relative order (Omega_0/Delta)^2 = 2e-5. */
+static void test_far_detuned_scattering(void **state)
+{
+    (void)state;
+    cp_raman_params p;
+    cp_raman_params_init(&p);
+    p.rabi_pump = TWO_PI * 200e6;
+    p.width = 0.5e-6;
+    p.delay = 0.6e-6;
+    p.gamma = TWO_PI * 6e6;
+    p.detuning = TWO_PI * 50e9;
+    cp_raman_result r;
+    cp_error err;
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_string_equal(r.integrator, "gauss-legendre");
+    double expected = p.gamma * p.rabi_pump * p.rabi_pump * p.width * sqrt(M_PI / 2) /
+                      (4 * p.detuning * p.detuning);
+    assert_close(r.lost, expected, 1e-3 * expected, "far-detuned scattering");
+    assert_close(r.efficiency, 0.0, 1e-8, "no Stokes light, no transfer");
+    /* the explicit pair's limit still holds where it would run: the same rotation on
+     * resonance is refused */
+    p.detuning = 0;
+    p.rabi_pump = TWO_PI * 50e9;
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_EINVAL);
+    assert_non_null(strstr(err.message, "detunings or rates"));
+}
+
 /* RAMAN-1c: the accuracy is selectable: at 1e-5, 1e-6, 1e-7 and 1e-9 the populations of the
  * RAMAN-1 cases, on both integrators, agree with the independent integration to the accuracy
  * asked for, and a looser accuracy takes fewer steps. */
@@ -847,6 +879,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_against_reference), cmocka_unit_test(test_far_detuned),
+        cmocka_unit_test(test_far_detuned_scattering),
         cmocka_unit_test(test_accuracy_selectable), cmocka_unit_test(test_detuning_scan),
         cmocka_unit_test(test_estimates_on_request),
         cmocka_unit_test(test_area_theorem),
