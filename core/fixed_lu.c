@@ -115,6 +115,7 @@ int cp_fixed_lu_solve(const cp_fixed_lu *f, double *restrict a, double *restrict
     return 0;
 }
 
+/* The inverse of a 3 x 3 block by cofactors, as three rows; returns the determinant. */
 static inline double invert3(const cp_block_row m[3], cp_block_row inv[3])
 {
     const double a = m[0][0], b = m[0][1], c = m[0][2], d = m[1][0], e = m[1][1],
