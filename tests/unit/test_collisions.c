@@ -23,12 +23,7 @@
 #include "coldprep/collisions.h"
 #include "coldprep/consts.h"
 
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
+#include "check_close.h"
 
 #define M_KRB (126.873178694 * CP_AMU) /* 40K87Rb, AME2020 atomic masses */
 #define MU_KRB (M_KRB / 2.0)

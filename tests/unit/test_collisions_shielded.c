@@ -17,12 +17,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/fields.h"
 
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.6g, want %.6g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
+#include "check_close.h"
 
 /* Species constants as in core/species_data.c (sources there; recalled values [M]). */
 #define M_KRB (126.873178694 * CP_AMU)

@@ -16,12 +16,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/status.h"
 
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
+#include "check_close.h"
 
 /* CONSTS-1: the constants fixed exactly by the 2019 SI redefinition. */
 static void test_exact_si_constants(void **state)

@@ -25,21 +25,9 @@
 #include "coldprep/species.h"
 #include "feshbach_int.h"
 
+#include "check_close.h"
+
 #define GAUSS 1e-4
-
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
-
-static void assert_abs(double got, double want, double tol)
-{
-    if (!(fabs(got - want) <= tol))
-        fail_msg("got %.17g, want %.17g (|diff| %.3g > %.3g)", got, want, fabs(got - want),
-                 tol);
-}
 
 /* 40K |9/2,-9/2> + 87Rb |1,1> at 546.7 G as in the built-in table ([M] values). */
 static cp_feshbach_resonance krb(void)

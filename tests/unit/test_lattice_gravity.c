@@ -16,12 +16,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/lattice.h"
 
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
+#include "check_close.h"
 
 #define MASS (110.0 * CP_AMU) /* a NaRb-like molecule */
 

@@ -14,12 +14,7 @@
 #include "coldprep/consts.h"
 #include "coldprep/species.h"
 
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
+#include "check_close.h"
 
 /* SPECIES-1: masses from AME2020 (Wang et al., Chinese Phys. C 45, 030003 (2021),
  * file mass_1.mas20). */

@@ -18,12 +18,7 @@
 #include "coldprep/species.h"
 #include "coldprep/species_sources.h"
 
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
+#include "check_close.h"
 
 /* Every finite value of record/kind has a provenance entry; an entry without a publication
  * must say "[M]"; a verified entry's publication must carry a DOI or an arXiv id. */

@@ -27,12 +27,7 @@
 #include "coldprep/thermo.h"
 #include "thermo_int.h"
 
-static void assert_rel(double got, double want, double tol)
-{
-    double rel = fabs(got - want) / fabs(want);
-    if (!(rel <= tol))
-        fail_msg("got %.17g, want %.17g (relative error %.3g > %.3g)", got, want, rel, tol);
-}
+#include "check_close.h"
 
 #define MASS (127.0 * CP_AMU) /* a KRb-like molecule */
 #define OMEGA (2.0 * CP_PI * 100.0)
