@@ -45,12 +45,6 @@ static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, dou
     return acc * f * f * (0.1 + 20 * damp * damp);
 }
 
-/* Away from resonance the explicit pair is limited by stability (steps ~ 3/|Delta|) and the
- * collocation method of raman_gauss.c, whose steps follow the slow motion, is cheaper: from
- * |Delta| above CP_RAMAN_IMPLICIT_RATIO (raman_int.h) times the sum of all other rates (peak
- * Rabi frequency, decay, dephasing, |delta|): the two cost the same on the reference case
- * near |Delta| = 2 pi x 14 MHz, 1.25 times its other rates (docs/models/raman.md). */
-
 /* The tolerance of the collocation method for a final accuracy acc.  Its error estimate is
  * of order h^4 per unit time while the method's error is of order h^6, so the final error
  * goes as the tolerance to the power 3/2: tol = 1.5 acc^(2/3), calibrated on 47 cases
@@ -274,6 +268,10 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     CP_TRY(cp_raman_pulses_init(&m.pulses, p, err));
     model_init(&m, p);
 
+    /* away from resonance the explicit pair is limited by stability (steps ~ 3/|Delta|) and
+     * the collocation method, whose steps follow the slow motion, is cheaper: from |Delta|
+     * above 1.25 times the sum of all other rates (peak Rabi frequency, decay, dephasing,
+     * |delta|), where the two cost the same on the reference case (docs/models/raman.md) */
     cp_status st;
     if (fabs(p->detuning) > CP_RAMAN_IMPLICIT_RATIO * m.pulses.other_rate) {
         st = integrate(&m, 1, implicit_tolerance(acc), round_trip, res, trace, err);
