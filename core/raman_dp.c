@@ -92,15 +92,6 @@ static void rec_prepare(cp_raman_dp *s, double t, double h)
     s->trec = t;
 }
 
-/* Half the envelopes (the generator's a, b) at time t. */
-static void half_envelopes(const cp_raman_pulses *pl, double t, double *a, double *b)
-{
-    double op, os;
-    cp_raman_pulses_eval(pl, t, &op, &os, NULL, NULL);
-    *a = op / 2;
-    *b = os / 2;
-}
-
 /* Half the envelopes at node i (0..4) of the step from t of length h. */
 static void envelopes(const cp_raman_dp *s, int i, double t, double h, double *a, double *b)
 {
@@ -109,7 +100,7 @@ static void envelopes(const cp_raman_dp *s, int i, double t, double h, double *a
         *a = ab[0];
         *b = ab[1];
     } else {
-        half_envelopes(s->pl, t + node[i] * h, a, b);
+        cp_raman_pulses_half(s->pl, t + node[i] * h, a, b);
     }
 }
 
@@ -137,12 +128,11 @@ typedef union state {
     cp_raman_pair v[CP_RAMAN_PAIRS];
 } state;
 
-/* The trial step is compiled for SSE2 and AVX (clones_int.h): 0.47 M instead of 0.56 M
- * instructions per transfer of the reference case, 46.5 instead of 49.6 us, the same numbers
- * to the last bit (checked on 18 transfers). */
 /* One trial step of length h from (t, y) with the first stage k1 and the generator's rates
  * c: ynew, the derivative there (the last stage, dy7) and the error estimate (max norm) in
- * units of the tolerance. */
+ * units of the tolerance.  Compiled for SSE2 and AVX (clones_int.h): 0.47 M instead of
+ * 0.56 M instructions per transfer of the reference case, 46.5 instead of 49.6 us, the same
+ * numbers to the last bit (checked on 18 transfers). */
 CP_AVX_CLONES static double cp_raman_dp_trial(const cp_raman_dp *s, const cp_raman_rates *c,
                                             double t, double h, const state *y,
                                             const state *k1, state *ynew, state *dy7)
@@ -198,7 +188,7 @@ int cp_raman_dp_apply(cp_raman_dp *s, double *t, double t1, double y_out[])
      * last stage of the call before belongs to the left side */
     const cp_raman_rates c =
         cp_raman_rates_of(s->m, cp_raman_pulses_slow_on(s->pl, 0.5 * (*t + t1)));
-    half_envelopes(s->pl, *t, &a, &b);
+    cp_raman_pulses_half(s->pl, *t, &a, &b);
     cp_raman_generator_pairs(&c, a, b, y.v, k1.v);
     int status = 0;
     const double hmin = 1e-14 * fmax(fabs(*t), fabs(t1)); /* below it: underflow */

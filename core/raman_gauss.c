@@ -42,8 +42,6 @@ static const double grow_max = 4.0, shrink_min = 0.2, safety = 0.9;
  * determinant below this means growth in the elimination without pivoting: the step is
  * solved again with pivoting */
 static const double min_pivot = 1e-6;
-/* how far inside a step (relative) the generator is told it is at the step's ends */
-static const double inside = 1e-9;
 
 void cp_raman_affine_init(cp_raman_affine *g, cp_raman_gen_ab gen, const void *ctx)
 {
@@ -109,13 +107,13 @@ static void apply_generator(const cp_raman_affine *g, int slow, double a, double
     }
 }
 
-/* dy = G y at time t with the slow losses as at time t_side (just inside the step). */
-static void derivative(const cp_raman_gauss *s, double t, double t_side, const double y[],
+/* dy = G y at time t, the slow losses on (slow = 1) or off. */
+static void derivative(const cp_raman_gauss *s, int slow, double t, const double y[],
                        double dy[])
 {
-    double op, os;
-    cp_raman_pulses_eval(s->pl, t, &op, &os, NULL, NULL);
-    apply_generator(s->gen, cp_raman_pulses_slow_on(s->pl, t_side), op / 2, os / 2, y, dy);
+    double a, b;
+    cp_raman_pulses_half(s->pl, t, &a, &b);
+    apply_generator(s->gen, slow, a, b, y, dy);
 }
 
 /* The stage equations I - h (A kron G) in blocks of S x S: block (r, c) couples component r
@@ -187,20 +185,15 @@ static int filter_estimate(const cp_raman_gauss *s, double h, int slow, double e
     return cp_pivoted_solve(N, m, e);
 }
 
-/* One trial step of length h from (t, y): ynew, its derivative dy1 and the error estimate
- * relative to the tolerance (NaN if a linear solve failed). */
-static double try_step(const cp_raman_gauss *s, double t, double h, const double y[],
+/* One trial step of length h from (t, y), the slow losses on or off: ynew, its derivative
+ * dy1 and the error estimate relative to the tolerance (NaN if a linear solve failed). */
+static double try_step(const cp_raman_gauss *s, int slow, double t, double h, const double y[],
                        double ynew[], double dy1[])
 {
-    int slow = cp_raman_pulses_slow_on(s->pl, t + 0.5 * h);
     const double *w = s->estimate;
     double a[S], b[S], z[NS], k[S][N], e[N];
-    for (int i = 0; i < S; i++) {
-        double op, os;
-        cp_raman_pulses_eval(s->pl, t + node[i] * h, &op, &os, NULL, NULL);
-        a[i] = op / 2;
-        b[i] = os / 2;
-    }
+    for (int i = 0; i < S; i++)
+        cp_raman_pulses_half(s->pl, t + node[i] * h, &a[i], &b[i]);
     for (int v = 0; v < N; v++)
         for (int i = 0; i < S; i++)
             z[S * v + i] = y[v];
@@ -220,7 +213,7 @@ static double try_step(const cp_raman_gauss *s, double t, double h, const double
             sum += weight[i] * k[i][v];
         ynew[v] = y[v] + h * sum;
     }
-    derivative(s, t + h, t + h - inside * h, ynew, dy1);
+    derivative(s, slow, t + h, ynew, dy1);
     for (int v = 0; v < N; v++) {
         double sum = w[0] * s->dy0[v] + w[S + 1] * dy1[v];
         for (int i = 0; i < S; i++)
@@ -241,9 +234,11 @@ static double try_step(const cp_raman_gauss *s, double t, double h, const double
 int cp_raman_gauss_apply(cp_raman_gauss *s, double *t, double t1, double y[])
 {
     double ynew[N], dy1[N];
-    /* a call starts at a break point or a trace sample: the derivative there is taken
-     * afresh, just inside [*t, t1] (the slow losses may switch at a break point) */
-    derivative(s, *t, *t + inside * (t1 - *t), y, s->dy0);
+    /* a call starts at a break point or a trace sample and ends at the next (raman.c), so
+     * the slow losses are on or off throughout; the derivative at the start is taken afresh
+     * with them (at a break point the one carried over belongs to the left side) */
+    const int slow = cp_raman_pulses_slow_on(s->pl, 0.5 * (*t + t1));
+    derivative(s, slow, *t, y, s->dy0);
     while (*t < t1) {
         double h = fmin(s->h, s->hmax), left = t1 - *t;
         int last = h >= left;
@@ -251,7 +246,7 @@ int cp_raman_gauss_apply(cp_raman_gauss *s, double *t, double t1, double y[])
             h = left;
         if (!(h > 1e-14 * fmax(fabs(*t), fabs(t1))) && !last)
             return -1;
-        double err = try_step(s, *t, h, y, ynew, dy1);
+        double err = try_step(s, slow, *t, h, y, ynew, dy1);
         /* the estimate per unit time goes as h^4 */
         double factor = err > 0 ? safety * pow(err, -0.25) : grow_max;
         if (!(err <= 1.0)) { /* rejected (NaN too) */

@@ -54,7 +54,8 @@ void cp_raman_gauss_init(cp_raman_gauss *s, const cp_raman_pulses *pl,
                          const cp_raman_affine *gen, double tol, double hstart);
 
 /* Advance y (CP_RAMAN_DIM reals) from *t to t1 > *t with steps of at most s->hmax; *t is t1
- * on success.  Returns 0, or -1 when the step size underflows or a stage system cannot be
+ * on success.  No break point of the pulses may lie inside (*t, t1): the slow losses are
+ * taken as on or off throughout.  Returns 0, or -1 when the step size underflows or a stage system cannot be
  * solved (then *t and y hold the last accepted point). */
 int cp_raman_gauss_apply(cp_raman_gauss *s, double *t, double t1, double y[]);
 

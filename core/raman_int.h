@@ -39,6 +39,10 @@ void cp_raman_pulses_free(cp_raman_pulses *pl);
 void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, double *os,
                           double *dop, double *dos);
 
+/* Half the Rabi frequencies at time t (rad/s): the a = Omega_P/2, b = Omega_S/2 of the
+ * generator. */
+void cp_raman_pulses_half(const cp_raman_pulses *pl, double t, double *a, double *b);
+
 /* 1 while the slow losses of |1> and |3> act at time t (inside [loss_from, loss_to], mirrored
  * for the reversed sequence), else 0. */
 int cp_raman_pulses_slow_on(const cp_raman_pulses *pl, double t);

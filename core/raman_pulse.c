@@ -248,6 +248,14 @@ void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, doubl
         *dos = sign * ds;
 }
 
+void cp_raman_pulses_half(const cp_raman_pulses *pl, double t, double *a, double *b)
+{
+    double op, os;
+    cp_raman_pulses_eval(pl, t, &op, &os, NULL, NULL);
+    *a = op / 2;
+    *b = os / 2;
+}
+
 int cp_raman_pulses_slow_on(const cp_raman_pulses *pl, double t)
 {
     double u = pl->reversed ? -t : t;
