@@ -15,6 +15,7 @@
 typedef struct cp_raman_pulses {
     const cp_raman_params *p;
     gsl_interp *pump, *stokes; /* sampled shape only */
+    gsl_interp_accel *pump_acc, *stokes_acc; /* their look-up caches (this transfer's) */
     int reversed;
     double t_start, t_end;     /* window outside which both envelopes are negligible */
     double phase;              /* sum of the rates x (t_end - t_start), rad */

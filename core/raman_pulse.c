@@ -106,7 +106,9 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
         pl->loss_to = pl->t_end;
         pl->pump = gsl_interp_alloc(gsl_interp_steffen, n);
         pl->stokes = gsl_interp_alloc(gsl_interp_steffen, n);
-        if (!pl->pump || !pl->stokes) {
+        pl->pump_acc = gsl_interp_accel_alloc();
+        pl->stokes_acc = gsl_interp_accel_alloc();
+        if (!pl->pump || !pl->stokes || !pl->pump_acc || !pl->stokes_acc) {
             cp_raman_pulses_free(pl);
             return cp_fail(err, CP_ENOMEM, CTX ": out of memory for %zu samples", n);
         }
@@ -196,7 +198,10 @@ void cp_raman_pulses_free(cp_raman_pulses *pl)
 {
     gsl_interp_free(pl->pump);
     gsl_interp_free(pl->stokes);
+    gsl_interp_accel_free(pl->pump_acc);
+    gsl_interp_accel_free(pl->stokes_acc);
     pl->pump = pl->stokes = NULL;
+    pl->pump_acc = pl->stokes_acc = NULL;
 }
 
 /* One analytic envelope centred at tc: value and derivative. */
@@ -216,28 +221,35 @@ static void envelope(cp_raman_shape shape, double rabi, double width, double tc,
     }
 }
 
-static void sampled(const gsl_interp *ip, const double *t_s, const double *v_s, double t,
-                    double *v, double *dv)
+/* A sampled envelope at t and, if dv is non-NULL, its derivative.  The look-up cache acc
+ * finds the sample interval in constant time while t moves forward or backward by little. */
+static void sampled(const gsl_interp *ip, gsl_interp_accel *acc, const double *t_s,
+                    const double *v_s, double t, double *v, double *dv)
 {
     size_t n = ip->size;
     if (t < t_s[0] || t > t_s[n - 1]) {
-        *v = *dv = 0.0;
+        *v = 0.0;
+        if (dv)
+            *dv = 0.0;
         return;
     }
     /* Steffen interpolation never overshoots: values stay between neighbouring samples,
      * so they are >= 0; the GSL status cannot fail inside the range checked above. */
-    *v = gsl_interp_eval(ip, t_s, v_s, t, NULL);
-    *dv = gsl_interp_eval_deriv(ip, t_s, v_s, t, NULL);
+    *v = gsl_interp_eval(ip, t_s, v_s, t, acc);
+    if (dv)
+        *dv = gsl_interp_eval_deriv(ip, t_s, v_s, t, acc);
 }
 
 void cp_raman_pulses_eval(const cp_raman_pulses *pl, double t, double *op, double *os,
                           double *dop, double *dos)
 {
     const cp_raman_params *p = pl->p;
-    double sign = pl->reversed ? -1.0 : 1.0, tt = sign * t, dp, ds;
+    double sign = pl->reversed ? -1.0 : 1.0, tt = sign * t, dp = 0.0, ds = 0.0;
     if (p->shape == CP_RAMAN_SAMPLED) {
-        sampled(pl->pump, p->times, p->pump_samples, tt, op, &dp);
-        sampled(pl->stokes, p->times, p->stokes_samples, tt, os, &ds);
+        /* the derivatives only when asked for (the propagators need values only) */
+        sampled(pl->pump, pl->pump_acc, p->times, p->pump_samples, tt, op, dop ? &dp : NULL);
+        sampled(pl->stokes, pl->stokes_acc, p->times, p->stokes_samples, tt, os,
+                dos ? &ds : NULL);
     } else {
         envelope(p->shape, p->rabi_pump, p->width, p->delay / 2, tt, op, &dp);
         envelope(p->shape, p->rabi_stokes, p->width, -p->delay / 2, tt, os, &ds);
