@@ -36,12 +36,17 @@ static double constant_rate(const cp_raman_params *p)
  * steps x tolerance when nothing damps the local errors (gamma = 0), and 0.01-0.04 x the
  * tolerance when the decay of |2> is comparable to the Rabi frequencies (the errors of the
  * bright states die out).  Hence the tolerance falls with the phase (sum of the rates x
- * window, which sets the number of steps) and rises with gamma / peak Rabi frequency. */
+ * window, which sets the number of steps) and rises with gamma / peak Rabi frequency.
+ * Sampled envelopes get no such rise: they are smooth only between samples and may carry
+ * noise, which keeps exciting the bright states (2001 samples of the reference case with
+ * 1 % noise: final error 13x the accuracy 1e-8 with the rise, 0.002x without it). */
 static double tolerance(double acc, const cp_raman_pulses *pl, double gamma, double rate0)
 {
     double f = fmin(1.0, 2000.0 / pl->phase);
     double rabi = pl->phase / (pl->t_end - pl->t_start) - rate0; /* the peak Rabi frequency */
     double damp = rabi > 0 ? fmin(1.0, gamma / rabi) : 1.0;
+    if (pl->p->shape == CP_RAMAN_SAMPLED)
+        damp = 0.0;
     return acc * f * f * (0.1 + 20 * damp * damp);
 }
 
