@@ -125,6 +125,7 @@ static void store_trace(cp_raman_trace *tr, size_t i, double t, const double *y)
 typedef struct stepper {
     cp_raman_dp *dp;
     cp_raman_gauss *gauss;
+    double accuracy; /* asked of the final populations (for the error message) */
 } stepper;
 
 static void set_hmax(stepper *s, double hmax)
@@ -141,7 +142,9 @@ static cp_status advance(stepper *s, double *t, double t1, double *y, cp_error *
                       : cp_raman_dp_apply(s->dp, t, t1, y);
     if (st != 0)
         return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (step "
-                       "size too small)", *t);
+                       "size too small): accuracy %.3g may be finer than rounding allows for "
+                       "these pulses; allowed 1e-12 to 1e-3, try a looser one", *t,
+                       s->accuracy);
     return CP_OK;
 }
 
@@ -228,13 +231,14 @@ static void start(stepper *s, cp_raman_model *m, const cp_raman_affine *affine, 
 
 /* Run the forward sequence (and the return trip) with the collocation method (implicit) or
  * the explicit pair.  Fills the propagation part of res. */
-static cp_status integrate(cp_raman_model *m, int implicit, double tol, int round_trip,
-                           cp_raman_result *res, cp_raman_trace *trace, cp_error *err)
+static cp_status integrate(cp_raman_model *m, int implicit, double acc, double tol,
+                           int round_trip, cp_raman_result *res, cp_raman_trace *trace,
+                           cp_error *err)
 {
     cp_raman_dp dp;
     cp_raman_gauss gauss;
     cp_raman_affine affine;
-    stepper s = {implicit ? NULL : &dp, implicit ? &gauss : NULL};
+    stepper s = {implicit ? NULL : &dp, implicit ? &gauss : NULL, acc};
     if (implicit)
         cp_raman_affine_init(&affine, gen_ab, m);
     double y[DIM] = {[CP_RAMAN_R11] = 1.0};
@@ -279,11 +283,11 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
      * |delta|), where the two cost the same on the reference case (docs/models/raman.md) */
     cp_status st;
     if (fabs(p->detuning) > CP_RAMAN_IMPLICIT_RATIO * m.pulses.other_rate) {
-        st = integrate(&m, 1, implicit_tolerance(acc), round_trip, res, trace, err);
+        st = integrate(&m, 1, acc, implicit_tolerance(acc), round_trip, res, trace, err);
         res->integrator = "gauss-legendre";
     } else {
-        st = integrate(&m, 0, tolerance(acc, &m.pulses, p->gamma, constant_rate(p)), round_trip,
-                       res, trace, err);
+        st = integrate(&m, 0, acc, tolerance(acc, &m.pulses, p->gamma, constant_rate(p)),
+                       round_trip, res, trace, err);
         res->integrator = "dopri5";
     }
     if (st == CP_OK) {
