@@ -280,9 +280,10 @@ cp_status cp_raman_transfer(const cp_raman_params *p, int round_trip, cp_raman_r
     /* away from resonance the explicit pair is limited by stability (steps ~ 3/|Delta|) and
      * the collocation method, whose steps follow the slow motion, is cheaper: from |Delta|
      * above 1.25 times the sum of all other rates (peak Rabi frequency, decay, dephasing,
-     * |delta|), where the two cost the same on the reference case (docs/models/raman.md) */
+     * |delta|), where the two cost the same on the reference case (docs/models/raman.md);
+     * densely sampled pulses excepted (cp_raman_pulses_init sets the choice) */
     cp_status st;
-    if (fabs(p->detuning) > CP_RAMAN_IMPLICIT_RATIO * m.pulses.other_rate) {
+    if (m.pulses.implicit) {
         st = integrate(&m, 1, acc, implicit_tolerance(acc), round_trip, res, trace, err);
         res->integrator = "gauss-legendre";
     } else {

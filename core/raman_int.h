@@ -25,10 +25,12 @@ typedef struct cp_raman_pulses {
                                   slow losses, the ends of the transfer duration, s */
     size_t n_edges;            /* 4, or 6 with slow losses */
     double loss_from, loss_to; /* the transfer duration, in which the slow losses act, s */
+    int implicit;              /* 1: the collocation method propagates (cp_raman_pulses_init) */
 } cp_raman_pulses;
 
 /* Away from resonance, |Delta| above this times the sum of the other rates, the collocation
- * method of raman_gauss.c propagates (raman.c); its work does not grow with |Delta|. */
+ * method of raman_gauss.c propagates (raman.c); its work does not grow with |Delta|.  For
+ * sampled shapes only while the explicit pair would cost more (cp_raman_pulses_init). */
 #define CP_RAMAN_IMPLICIT_RATIO 1.25
 
 /* Validate p (context "raman transfer") and set up the pulses; on success the caller must

@@ -827,13 +827,16 @@ static void test_sampled_not_stepped_over(void **state)
  * samples with 1 % noise (uniform, a fixed linear congruential sequence), and the same
  * rounded to 10 bits — agree with the independent integration (which uses the same
  * interpolation, GSL's Steffen, sample interval by sample interval) to the accuracy asked
- * for, on resonance (explicit pair) and 2 pi x 100 MHz off it (collocation method). */
+ * for, on resonance and 2 pi x 16 MHz off it (explicit pair: the samples are dense for its
+ * steps) and 2 pi x 100 MHz off it (collocation method).  The choice itself: 20001 samples
+ * keep the explicit pair at 2 pi x 100 MHz. */
 static void test_sampled_rough(void **state)
 {
     (void)state;
     enum { N = 2001 };
     static double t[N], vp[N], vs[N];
-    const double accuracy[2] = {1e-6, 1e-8}, detuning[2] = {0.0, TWO_PI * 100e6};
+    const double accuracy[2] = {1e-6, 1e-8}, detuning[3] = {0.0, TWO_PI * 16e6, TWO_PI * 100e6};
+    const char *integrator[3] = {"dopri5", "dopri5", "gauss-legendre"};
     for (int kind = 0; kind < 2; kind++) {
         cp_raman_params p = reference_case();
         double t0 = -p.delay / 2 - 5 * p.width, t1 = p.delay / 2 + 5 * p.width;
@@ -857,15 +860,35 @@ static void test_sampled_rough(void **state)
         p.pump_samples = vp;
         p.stokes_samples = vs;
         for (int a = 0; a < 2; a++)
-            for (int d = 0; d < 2; d++) {
+            for (int d = 0; d < 3; d++) {
                 p.accuracy = accuracy[a];
                 p.detuning = detuning[d];
                 char what[96];
                 snprintf(what, sizeof what, "%s samples, accuracy %g, Delta/2pi %g MHz",
                          kind == 0 ? "noisy" : "10-bit", accuracy[a], detuning[d] / TWO_PI / 1e6);
                 check_against_reference(&p, what);
+                cp_raman_result r;
+                cp_error err;
+                assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+                assert_string_equal(r.integrator, integrator[d]);
             }
     }
+    enum { DENSE = 20001 };
+    static double td[DENSE], vd[DENSE];
+    for (int i = 0; i < DENSE; i++) {
+        td[i] = t[0] + (t[N - 1] - t[0]) * i / (DENSE - 1);
+        vd[i] = TWO_PI * 5e6 * exp(-pow(td[i] / 2e-6, 2));
+    }
+    cp_raman_params p = reference_case();
+    p.shape = CP_RAMAN_SAMPLED;
+    p.n_samples = DENSE;
+    p.times = td;
+    p.pump_samples = p.stokes_samples = vd;
+    p.detuning = TWO_PI * 100e6;
+    cp_raman_result r;
+    cp_error err;
+    assert_int_equal(cp_raman_transfer(&p, 0, &r, NULL, &err), CP_OK);
+    assert_string_equal(r.integrator, "dopri5");
 }
 
 /* RAMAN-8b: trace samples that fall a sliver before a break point (width = delay = 3 us, 100
