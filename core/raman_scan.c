@@ -17,10 +17,14 @@
 #define CTX "raman.lineshape" /* the Lua name (DEVELOPERS.md) */
 
 /* CPU seconds per accepted step of the explicit (dopri5) and implicit (gauss-legendre) propagators
- * and per point besides, measured for 3-level transfers (docs/api/raman.md) */
+ * and per point besides, measured for 3-level transfers (docs/api/raman.md); a sampled shape
+ * costs more per explicit step (its envelopes are interpolated, 2.3x the instructions) and
+ * a set-up per sample (checks and interpolation, ~450 instructions) */
 #define COST_STEP_EXPLICIT 1.5e-7
+#define COST_STEP_EXPLICIT_SAMPLED 3.5e-7
 #define COST_STEP_IMPLICIT 1.4e-6
 #define COST_POINT 1.0e-5
+#define COST_SAMPLE 1.0e-7
 
 typedef struct job {
     const cp_raman_params *base;
@@ -101,9 +105,12 @@ static cp_status estimate(job *proto, size_t done[3], double *seconds)
             continue;
         cp_raman_result r;
         CP_TRY(transfer_point(proto, done[k], &r));
-        double per_step = strcmp(r.integrator, "dopri5") == 0 ? COST_STEP_EXPLICIT
-                                                              : COST_STEP_IMPLICIT;
-        worst = fmax(worst, COST_POINT + (double)r.steps * per_step);
+        int sampled = proto->base->shape == CP_RAMAN_SAMPLED;
+        double per_step = strcmp(r.integrator, "dopri5") != 0 ? COST_STEP_IMPLICIT
+                          : sampled                          ? COST_STEP_EXPLICIT_SAMPLED
+                                                             : COST_STEP_EXPLICIT;
+        double setup = sampled ? COST_SAMPLE * (double)proto->base->n_samples : 0.0;
+        worst = fmax(worst, COST_POINT + setup + (double)r.steps * per_step);
     }
     *seconds = worst * (double)n;
     return CP_OK;
