@@ -157,8 +157,10 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
      * least one step per sample, each about 3.5 times the cost of an explicit step, while
      * the explicit pair takes about 0.75 steps per radian of the phase (measured from 1201
      * to 100001 samples, Delta/2pi = 16 to 480 MHz, docs/models/raman.md): densely
-     * sampled pulses stay with the explicit pair */
-    if (implicit && p->shape == CP_RAMAN_SAMPLED && 0.75 * phase < 3.0 * (double)p->n_samples)
+     * sampled pulses stay with the explicit pair (3 rather than 3.5 errs on the side of the
+     * collocation method), unless the phase it would resolve is beyond the limit */
+    if (implicit && p->shape == CP_RAMAN_SAMPLED && 0.75 * phase < 3.0 * (double)p->n_samples &&
+        phase <= max_phase)
         implicit = 0;
     pl->implicit = implicit;
     double resolved = implicit ? pl->other_rate * (pl->t_end - pl->t_start) : phase;
