@@ -140,12 +140,14 @@ static cp_status advance(stepper *s, double *t, double t1, double *y, cp_error *
 {
     int st = s->gauss ? cp_raman_gauss_apply(s->gauss, t, t1, y)
                       : cp_raman_dp_apply(s->dp, t, t1, y);
-    if (st != 0)
+    if (st == 0)
+        return CP_OK;
+    if (s->accuracy >= 1e-3) /* the loosest allowed: nothing to suggest */
         return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (step "
-                       "size too small): accuracy %.3g may be finer than rounding allows for "
-                       "these pulses; allowed 1e-12 to 1e-3, try a looser one", *t,
-                       s->accuracy);
-    return CP_OK;
+                       "size too small)", *t);
+    return cp_fail(err, CP_ENUMERIC, CTX ": the ODE integrator failed at t = %.6g s (step size "
+                   "too small): accuracy %.3g may be finer than rounding allows for these "
+                   "pulses; allowed 1e-12 to 1e-3, try a looser one", *t, s->accuracy);
 }
 
 /* Integrate y over the window of pl (forward or reversed), recording the trace if given.

@@ -11,7 +11,9 @@
 #include "coldprep/raman.h"
 
 /* The two envelopes of one sequence; reversed != 0 evaluates them at -t (the return
- * trip).  For sampled shapes the interpolants are owned here. */
+ * trip).  For sampled shapes the interpolants and their look-up caches are owned here: the
+ * caches change at every evaluation, so one cp_raman_pulses serves one transfer on one
+ * thread (each transfer sets up its own). */
 typedef struct cp_raman_pulses {
     const cp_raman_params *p;
     gsl_interp *pump, *stokes; /* sampled shape only */

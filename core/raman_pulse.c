@@ -154,11 +154,12 @@ cp_status cp_raman_pulses_init(cp_raman_pulses *pl, const cp_raman_params *p, cp
      * pair, the rates other than |Delta| for the collocation method away from resonance */
     int implicit = fabs(p->detuning) > CP_RAMAN_IMPLICIT_RATIO * pl->other_rate;
     /* a sampled shape breaks the window at every sample, so the collocation method takes at
-     * least one step per sample, each about 3.5 times the cost of an explicit step, while
-     * the explicit pair takes about 0.75 steps per radian of the phase (measured from 1201
-     * to 100001 samples, Delta/2pi = 16 to 480 MHz, docs/models/raman.md): densely
-     * sampled pulses stay with the explicit pair (3 rather than 3.5 errs on the side of the
-     * collocation method), unless the phase it would resolve is beyond the limit */
+     * least one step per sample, each 2.2 times the instructions of an explicit step, while
+     * the explicit pair takes about 0.75 steps per radian of the phase on smooth samples
+     * (measured from 1201 to 100001 samples, Delta/2pi = 16 to 480 MHz; more on noisy ones,
+     * where the collocation method too takes more: docs/models/raman.md): densely sampled
+     * pulses stay with the explicit pair, unless the phase it would resolve is beyond the
+     * limit.  The choice moves the cost only, not the accuracy. */
     if (implicit && p->shape == CP_RAMAN_SAMPLED && 0.75 * phase < 3.0 * (double)p->n_samples &&
         phase <= max_phase)
         implicit = 0;

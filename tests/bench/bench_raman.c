@@ -5,9 +5,9 @@
  * against a tight integration, the same equation with GSL's rk8pd driver as the library used
  * before (absolute tolerance 1e-9, two exp() per evaluation) measured in the same run, the
  * one-photon detuning regimes against the reference case, and a 1000-point two-photon
- * detuning scan on 1 and 2 threads; the reference case's pulses as sampled shapes.  (The comparison with scipy's DOP853 is
- * tests/bench/compare_raman.py.)  Wall-clock figures on a shared machine are noisy; the load
- * average is printed with them.
+ * detuning scan on 1 and 2 threads; the reference case's pulses as sampled shapes.  (The
+ * comparison with scipy's DOP853 is tests/bench/compare_raman.py.)  Wall-clock figures on a
+ * shared machine are noisy; the load average is printed with them.
  */
 #include <math.h>
 #include <stdio.h>
@@ -127,7 +127,8 @@ static void sampled_shapes(const cp_raman_params *ref)
         double t0 = -ref->delay / 2 - 5 * ref->width, t1 = ref->delay / 2 + 5 * ref->width;
         for (int i = 0; i < n; i++) {
             t[i] = t0 + (t1 - t0) * i / (n - 1);
-            double xp = (t[i] - ref->delay / 2) / ref->width, xs = (t[i] + ref->delay / 2) / ref->width;
+            double xp = (t[i] - ref->delay / 2) / ref->width;
+            double xs = (t[i] + ref->delay / 2) / ref->width;
             vp[i] = ref->rabi_pump * exp(-xp * xp);
             vs[i] = ref->rabi_stokes * exp(-xs * xs);
         }
