@@ -1,9 +1,10 @@
 /*
  * Private to the Raman model: the generator of the Lindblad master equation of
- * docs/models/raman.md, shared by the propagators of raman.c (GSL's drivers) and raman_dp.c
- * (the explicit pair, which inlines it into its stages).  The state is the 3x3 density
- * matrix as 9 reals and the sink population, as five pairs of doubles (rho_11, rho_22),
- * (rho_33, sink), rho_12, rho_13, rho_23 (real and imaginary parts).  Not installed.
+ * docs/models/raman.md, shared by the explicit pair of raman_dp.c (which inlines it into its
+ * stages) and raman.c (which takes it apart into the matrices of the collocation method).
+ * The state is the 3x3 density matrix as 9 reals and the sink population, as five pairs of
+ * doubles (rho_11, rho_22), (rho_33, sink), rho_12, rho_13, rho_23 (real and imaginary
+ * parts).  Not installed.
  */
 #ifndef COLDPREP_RAMAN_GEN_INT_H
 #define COLDPREP_RAMAN_GEN_INT_H
